@@ -1,0 +1,125 @@
+/**
+ * BenchApi: the one contract between the renderer and main. Plain
+ * serialisable data only (no class instances, no typed arrays on the wire —
+ * columns travel as number[] and are turned into Float64Array in the store).
+ * Electron carries it over IPC (preload + contextBridge); browser mode over a
+ * WebSocket. The renderer never knows which.
+ *
+ * main/ treats every incoming payload as `unknown` and validates it with the
+ * schemas in ./bench-api-schemas.ts before use.
+ */
+import type { BenchConfig, DriftPlan, PushingPlan, SweepPlan } from './plans.ts';
+
+export type RunKind = 'sweep' | 'drift' | 'pushing';
+export type RunStatus = 'running' | 'complete' | 'aborted' | 'interrupted';
+export type SampleStatus = 'ok' | 'no-signal' | 'timeout' | 'error';
+
+export interface RoleConnection {
+  role: 'supply' | 'counter' | 'thermometer';
+  address: string;
+  idn: string;
+  simulated: boolean;
+}
+
+export interface ConnectionState {
+  connected: boolean;
+  simulated: boolean;
+  roles: RoleConnection[];
+  error: string | null;
+}
+
+export interface LiveReadout {
+  controlSetV: number | null;
+  controlMeasV: number | null;
+  frequencyHz: number | null;
+  temperatureC: number | null;
+  timeS: number;
+}
+
+/** Metadata as in run.json (CONTRACTS.md). */
+export interface RunMeta {
+  schema: 'tunebench.run/1';
+  id: string;
+  kind: RunKind;
+  status: RunStatus;
+  startedAt: string;
+  endedAt: string | null;
+  dut: { id: string; notes: string };
+  instruments: { role: string; idn: string; address: string }[];
+  plan: unknown;
+  software: { version: string };
+}
+
+/** Columns of samples.csv; numeric columns as number[] (NaN allowed for empty). */
+export interface SampleColumns {
+  names: string[];
+  numeric: Record<string, number[]>;
+  text: Record<string, string[]>;
+}
+
+export interface RunEvent {
+  time_s: number;
+  type: string;
+  [key: string]: unknown;
+}
+
+export interface RunDetail {
+  meta: RunMeta;
+  samples: SampleColumns;
+  events: RunEvent[];
+}
+
+export interface ProgressInfo {
+  runId: string;
+  kind: RunKind;
+  phase: 'settling' | 'reading' | 'refining' | 'logging' | 'paused' | 'finishing';
+  pointsDone: number;
+  pointsTotal: number;
+  etaS: number | null;
+  latest: { controlV: number; frequencyHz: number | null; status: SampleStatus } | null;
+}
+
+/** Events pushed from main to the renderer. */
+export type BenchEvent =
+  | { type: 'connection'; state: ConnectionState }
+  | { type: 'live'; readout: LiveReadout }
+  | { type: 'run-started'; meta: RunMeta }
+  | { type: 'samples'; runId: string; rows: Record<string, number | string>[] }
+  | { type: 'progress'; progress: ProgressInfo }
+  | { type: 'run-ended'; meta: RunMeta }
+  | { type: 'run-event'; runId: string; event: RunEvent }
+  | { type: 'error'; message: string };
+
+export interface SerialPortInfo {
+  path: string;
+  manufacturer: string | null;
+}
+
+export interface BenchApi {
+  listSerialPorts(): Promise<SerialPortInfo[]>;
+  listProfiles(): Promise<{ name: string; role: string }[]>;
+  connect(config: BenchConfig | 'sim'): Promise<ConnectionState>;
+  disconnect(): Promise<ConnectionState>;
+  getConnection(): Promise<ConnectionState>;
+
+  startSweep(plan: SweepPlan, dutId: string): Promise<RunMeta>;
+  startDrift(plan: DriftPlan, dutId: string): Promise<RunMeta>;
+  startPushing(plan: PushingPlan, dutId: string): Promise<RunMeta>;
+  pauseRun(): Promise<void>;
+  resumeRun(): Promise<void>;
+  /** Clean stop: drift ends as `complete`, a sweep as `aborted`. */
+  stopRun(): Promise<void>;
+
+  listRuns(): Promise<RunMeta[]>;
+  openRun(id: string): Promise<RunDetail>;
+  renameRun(id: string, dutId: string): Promise<RunMeta>;
+  addNote(id: string, text: string): Promise<void>;
+  deleteRun(id: string): Promise<void>;
+  restoreRun(id: string): Promise<RunMeta>;
+  importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta>;
+
+  /** Subscribe to pushed events; returns an unsubscribe function. */
+  subscribe(listener: (event: BenchEvent) => void): () => void;
+}
+
+export type BenchMethod = Exclude<keyof BenchApi, 'subscribe'>;

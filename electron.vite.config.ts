@@ -1,0 +1,32 @@
+import { resolve } from 'node:path';
+import { defineConfig } from 'electron-vite';
+import react from '@vitejs/plugin-react';
+
+// Three bundles: the Electron main process, the sandboxed preload, and the
+// renderer (the same renderer that browser mode serves).
+export default defineConfig({
+  main: {
+    build: {
+      outDir: 'out/main',
+      rollupOptions: { input: { index: resolve(__dirname, 'main/index.ts') } },
+      externalizeDeps: true,
+    },
+  },
+  preload: {
+    build: {
+      outDir: 'out/preload',
+      rollupOptions: {
+        input: { preload: resolve(__dirname, 'main/preload.ts') },
+        output: { format: 'cjs', entryFileNames: '[name].cjs' },
+      },
+    },
+  },
+  renderer: {
+    root: resolve(__dirname, 'app'),
+    plugins: [react()],
+    build: {
+      outDir: resolve(__dirname, 'out/renderer'),
+      rollupOptions: { input: { index: resolve(__dirname, 'app/index.html') } },
+    },
+  },
+});

@@ -1,0 +1,71 @@
+/**
+ * Role drivers: what a procedure may ask of an instrument, independent of
+ * its command dialect. A profile (resources/profiles/*.json) maps each
+ * operation to command strings. Modelled on the capability split of the open
+ * IVI instrument classes (DC power, counter, DMM). Units are SI.
+ */
+
+export interface InstrumentIdentity {
+  /** Raw `*IDN?` reply, trimmed. */
+  idn: string;
+  manufacturer: string;
+  model: string;
+  serial: string;
+  firmware: string;
+}
+
+export interface SupplyCapabilities {
+  /** Number of output channels the profile addresses. */
+  channels: number;
+  /** Can read back measured output voltage (MEASure:VOLTage?). */
+  measureVoltage: boolean;
+  measureCurrent: boolean;
+  overVoltageProtection: boolean;
+}
+
+export interface Supply {
+  readonly role: 'supply';
+  readonly capabilities: SupplyCapabilities;
+  identify(): Promise<InstrumentIdentity>;
+  /** Setpoint in volts on `channel` (1-based). */
+  setVoltage(channel: number, volts: number): Promise<void>;
+  /** Reads the programmed setpoint back (SOURce:VOLTage?). */
+  getVoltageSetpoint(channel: number): Promise<number>;
+  setCurrentLimit(channel: number, amps: number): Promise<void>;
+  /** Throws UnsupportedOperationError when capabilities.overVoltageProtection is false. */
+  setOverVoltageProtection(channel: number, volts: number): Promise<void>;
+  setOutput(channel: number, on: boolean): Promise<void>;
+  getOutput(channel: number): Promise<boolean>;
+  measureVoltage(channel: number): Promise<number>;
+  measureCurrent(channel: number): Promise<number>;
+  close(): Promise<void>;
+}
+
+/**
+ * One counter reading. "No oscillation" is not a link fault: a counter shows
+ * it as the SCPI not-a-number (9.91E37), as zero, or by not answering within
+ * the measurement timeout. All three map to `no-signal`.
+ */
+export type FrequencyReading =
+  | { status: 'ok'; frequencyHz: number }
+  | { status: 'no-signal'; cause: 'not-a-number' | 'zero' | 'timeout' };
+
+export interface Counter {
+  readonly role: 'counter';
+  identify(): Promise<InstrumentIdentity>;
+  /** Gate (aperture) time in seconds; the ±1-count resolution is 1/gate Hz. */
+  setGate(seconds: number): Promise<void>;
+  readonly gateS: number;
+  readFrequency(): Promise<FrequencyReading>;
+  close(): Promise<void>;
+}
+
+export interface Thermometer {
+  readonly role: 'thermometer';
+  identify(): Promise<InstrumentIdentity>;
+  /** Temperature in °C. */
+  readTemperature(): Promise<number>;
+  close(): Promise<void>;
+}
+
+export type RoleName = 'supply' | 'counter' | 'thermometer';
