@@ -1,0 +1,53 @@
+/**
+ * `tunebench runs [--runs DIR] [--json]`: the saved runs, newest first, one
+ * line each (id, kind, status, DUT id, start time). A run whose writer died
+ * shows as `interrupted` (and is recorded so by this very listing).
+ */
+import { homedir } from 'node:os';
+import { listRunsDetailed } from '../store/run-store.ts';
+import { resolveRunsDir } from '../store/runs-dir.ts';
+import { parseFlags } from './flags.ts';
+import { type CliCommand, type CliIo, UsageError } from './types.ts';
+
+const usage = `usage: tunebench runs [--runs DIR] [--json]
+
+Lists the saved runs, newest first: id, kind, status, DUT id, start time.
+
+  --runs DIR   runs folder (default: $TUNEBENCH_RUNS, else the user data folder,
+               e.g. ~/.local/share/tunebench/runs on Linux)
+  --json       print the run.json of every run as a JSON array
+`;
+
+function table(rows: string[][]): string {
+  const widths = rows[0]?.map((_, c) => Math.max(...rows.map((row) => (row[c] ?? '').length))) ?? [];
+  return rows.map((row) => row.map((cell, c) => (c === row.length - 1 ? cell : cell.padEnd(widths[c] ?? 0))).join('  ')).join('\n');
+}
+
+async function run(argv: string[], io: CliIo): Promise<number> {
+  const flags = parseFlags(argv, { values: ['runs'], booleans: ['json'] });
+  if (flags.positionals.length > 0) {
+    throw new UsageError(`unexpected argument "${flags.positionals[0]}"; expected only --runs DIR and --json`);
+  }
+  const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
+  const { runs, problems } = await listRunsDetailed(runsDir);
+  for (const problem of problems) io.stderr.write(`tunebench runs: skipped ${problem.name}: ${problem.message}\n`);
+  if (flags.booleans.has('json')) {
+    io.stdout.write(`${JSON.stringify(runs, null, 2)}\n`);
+    return 0;
+  }
+  if (runs.length === 0) {
+    io.stderr.write(`no runs in ${runsDir}\n`);
+    return 0;
+  }
+  const rows = runs.map((meta) => [meta.id, meta.kind, meta.status, meta.dut.id, meta.startedAt]);
+  // No header row: CONTRACTS.md promises exactly one line per run.
+  io.stdout.write(`${table(rows)}\n`);
+  return 0;
+}
+
+export const runsCommand: CliCommand = {
+  name: 'runs',
+  summary: 'list saved runs: id, kind, status, DUT id, start time',
+  usage,
+  run,
+};

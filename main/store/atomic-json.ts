@@ -1,0 +1,40 @@
+/**
+ * Atomic replacement of a JSON file: write a temp file beside it, fsync it,
+ * rename over the target, then fsync the directory where the platform allows
+ * it. A crash at any point leaves either the old or the new file whole —
+ * never a mix (POSIX rename is atomic within a file system).
+ */
+import { dirname, join, basename } from 'node:path';
+import { type StoreFs } from './store-fs.ts';
+
+let tempCounter = 0;
+
+export async function writeJsonAtomic(fs: StoreFs, path: string, value: unknown): Promise<void> {
+  // pid + counter keeps two writers (or a reader recording `interrupted`)
+  // from sharing a temp file.
+  tempCounter += 1;
+  const tempPath = join(dirname(path), `.${basename(path)}.${process.pid}.${tempCounter}.tmp`);
+  const text = `${JSON.stringify(value, null, 2)}\n`;
+  const handle = await fs.open(tempPath, 'w');
+  try {
+    await handle.write(text);
+    await handle.sync();
+  } finally {
+    await handle.close();
+  }
+  await fs.rename(tempPath, path);
+  await syncDirectory(fs, dirname(path));
+}
+
+/** fsync a directory so a rename survives power loss; Windows cannot, and that is fine. */
+export async function syncDirectory(fs: StoreFs, dir: string): Promise<void> {
+  let handle;
+  try {
+    handle = await fs.open(dir, 'r');
+    await handle.sync();
+  } catch {
+    // EISDIR/EPERM on Windows, EINVAL on some file systems: best effort only.
+  } finally {
+    await handle?.close().catch(() => undefined);
+  }
+}

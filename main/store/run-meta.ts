@@ -1,0 +1,68 @@
+/**
+ * run.json (CONTRACTS.md "Run folder"): schema `tunebench.run/1`. Read with a
+ * schema so a hand-edited or foreign file gives an error naming the field;
+ * unknown keys are kept (the contract lets later versions add fields).
+ */
+import { join } from 'node:path';
+import { z } from 'zod';
+import type { RunMeta } from '../../app/contract/bench-api.ts';
+import { writeJsonAtomic } from './atomic-json.ts';
+import { type StoreFs } from './store-fs.ts';
+
+export const RUN_SCHEMA = 'tunebench.run/1';
+export const RUN_JSON = 'run.json';
+export const SAMPLES_CSV = 'samples.csv';
+export const EVENTS_JSONL = 'events.jsonl';
+
+export const runMetaSchema = z.looseObject({
+  schema: z.literal(RUN_SCHEMA),
+  id: z.string(),
+  kind: z.enum(['sweep', 'drift', 'pushing']),
+  status: z.enum(['running', 'complete', 'aborted', 'interrupted']),
+  startedAt: z.string(),
+  endedAt: z.string().nullable(),
+  dut: z.looseObject({ id: z.string(), notes: z.string() }),
+  instruments: z.array(z.looseObject({ role: z.string(), idn: z.string(), address: z.string() })),
+  plan: z.unknown(),
+  software: z.looseObject({ version: z.string() }),
+});
+
+/** A run.json that is missing or does not match the schema. */
+export class RunFormatError extends Error {
+  override name = 'RunFormatError';
+}
+
+function describeIssue(issue: z.core.$ZodIssue): string {
+  const field = issue.path.length > 0 ? issue.path.join('.') : '(top level)';
+  return `${field}: ${issue.message}`;
+}
+
+/** Parses run.json text; throws RunFormatError naming the file and field. */
+export function parseRunMeta(text: string, source: string): RunMeta {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (error) {
+    throw new RunFormatError(`${source}: not valid JSON (${(error as Error).message})`);
+  }
+  const result = runMetaSchema.safeParse(raw);
+  if (!result.success) {
+    throw new RunFormatError(`${source}: ${result.error.issues.map(describeIssue).join('; ')}`);
+  }
+  return result.data as RunMeta;
+}
+
+export async function readRunMeta(fs: StoreFs, dir: string): Promise<RunMeta> {
+  const path = join(dir, RUN_JSON);
+  let text: string;
+  try {
+    text = await fs.readFile(path);
+  } catch (error) {
+    throw new RunFormatError(`${path}: cannot read (${(error as Error).message})`);
+  }
+  return parseRunMeta(text, path);
+}
+
+export function writeRunMeta(fs: StoreFs, dir: string, meta: RunMeta): Promise<void> {
+  return writeJsonAtomic(fs, join(dir, RUN_JSON), meta);
+}

@@ -1,0 +1,59 @@
+/**
+ * The slice of node:fs/promises the run store uses, injected so tests can
+ * put a faulty file system under the writer (a failing write, a crash between
+ * the temp write and the rename) without touching the real disk's behaviour.
+ */
+import * as fsp from 'node:fs/promises';
+
+/** An open file: the writer keeps one per appended file. */
+export interface StoreFileHandle {
+  /** Writes at the end (files are opened in append mode); resolves with bytes written. */
+  write(text: string): Promise<{ bytesWritten: number }>;
+  sync(): Promise<void>;
+  truncate(lengthBytes: number): Promise<void>;
+  close(): Promise<void>;
+}
+
+export interface StoreFs {
+  mkdir(path: string, options?: { recursive?: boolean }): Promise<unknown>;
+  /** flags as in fs.open: 'a' append, 'w' truncate, 'r' read (used to fsync a directory). */
+  open(path: string, flags: 'a' | 'w' | 'r'): Promise<StoreFileHandle>;
+  readFile(path: string): Promise<string>;
+  /** flag 'wx' fails with EEXIST when the file exists (used to claim a run). */
+  writeFile(path: string, text: string, options?: { flag?: 'w' | 'wx' }): Promise<void>;
+  appendFile(path: string, text: string): Promise<void>;
+  rename(from: string, to: string): Promise<void>;
+  rm(path: string, options?: { recursive?: boolean; force?: boolean }): Promise<void>;
+  readdir(path: string): Promise<string[]>;
+  stat(path: string): Promise<{ isDirectory(): boolean; mtimeMs: number; size: number }>;
+}
+
+/** The real file system. */
+export const nodeStoreFs: StoreFs = {
+  mkdir: (path, options) => fsp.mkdir(path, options),
+  async open(path, flags) {
+    const handle = await fsp.open(path, flags);
+    return {
+      write: (text) => handle.write(text, null, 'utf8'),
+      sync: () => handle.sync(),
+      truncate: (lengthBytes) => handle.truncate(lengthBytes),
+      close: () => handle.close(),
+    };
+  },
+  readFile: (path) => fsp.readFile(path, 'utf8'),
+  writeFile: (path, text, options) => fsp.writeFile(path, text, { encoding: 'utf8', flag: options?.flag ?? 'w' }),
+  appendFile: (path, text) => fsp.appendFile(path, text, 'utf8'),
+  rename: (from, to) => fsp.rename(from, to),
+  rm: (path, options) => fsp.rm(path, options),
+  readdir: (path) => fsp.readdir(path),
+  stat: (path) => fsp.stat(path),
+};
+
+/** Error code of a Node system error, or undefined. */
+export function errorCode(error: unknown): string | undefined {
+  if (typeof error === 'object' && error !== null && 'code' in error) {
+    const code = (error as { code: unknown }).code;
+    return typeof code === 'string' ? code : undefined;
+  }
+  return undefined;
+}
