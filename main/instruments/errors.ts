@@ -1,0 +1,96 @@
+/**
+ * Typed failures of the instrument layer. Callers branch on the class (or on
+ * the `disconnected` / `code` fields), never on message text.
+ */
+
+/** The instrument reported one or more entries in its SCPI error queue. */
+export class InstrumentError extends Error {
+  override readonly name = 'InstrumentError';
+  /** SCPI-99 error number of the first entry, e.g. -113 (Undefined header). */
+  readonly code: number;
+  /** Every entry drained from the queue, oldest first. */
+  readonly entries: readonly ScpiErrorEntry[];
+  /** The command after which the queue was read, when known. */
+  readonly command: string | undefined;
+
+  constructor(entries: readonly ScpiErrorEntry[], command?: string) {
+    const first = entries[0] ?? { code: 0, message: 'No error' };
+    const more = entries.length > 1 ? ` (+${entries.length - 1} more)` : '';
+    super(`instrument error ${first.code}, "${first.message}"${command === undefined ? '' : ` after ${command}`}${more}`);
+    this.code = first.code;
+    this.entries = entries;
+    this.command = command;
+  }
+}
+
+export interface ScpiErrorEntry {
+  code: number;
+  message: string;
+}
+
+/** No reply (or no link) within the allowed time. */
+export class TimeoutError extends Error {
+  override readonly name = 'TimeoutError';
+  readonly timeoutS: number;
+  readonly command: string;
+  constructor(command: string, timeoutS: number) {
+    super(`no reply to ${command} within ${timeoutS} s`);
+    this.command = command;
+    this.timeoutS = timeoutS;
+  }
+}
+
+/** The link went away (or could not be reopened). */
+export class DisconnectedError extends Error {
+  override readonly name = 'DisconnectedError';
+  readonly disconnected = true as const;
+  readonly address: string;
+  constructor(address: string, detail?: string, options?: { cause?: unknown }) {
+    super(`link to ${address} lost${detail === undefined ? '' : `: ${detail}`}`, options);
+    this.address = address;
+  }
+}
+
+/** A reply that is not what the query's grammar allows. Never a silent wrong value. */
+export class ReplyFormatError extends Error {
+  override readonly name = 'ReplyFormatError';
+  /** The offending reply text (shortened for the message, whole here). */
+  readonly reply: string;
+  readonly expected: string;
+  constructor(expected: string, reply: string) {
+    const shown = reply.length > 60 ? `${reply.slice(0, 57)}...` : reply;
+    super(`expected ${expected}, got ${JSON.stringify(shown)}`);
+    this.reply = reply;
+    this.expected = expected;
+  }
+}
+
+/** The profile says the instrument cannot do this (e.g. no over-voltage protection). */
+export class UnsupportedOperationError extends Error {
+  override readonly name = 'UnsupportedOperationError';
+  readonly operation: string;
+  constructor(operation: string, profile: string) {
+    super(`profile ${profile} has no command for ${operation}`);
+    this.operation = operation;
+  }
+}
+
+/** An address string that cannot be parsed; the message names the field. */
+export class AddressError extends Error {
+  override readonly name = 'AddressError';
+  readonly field: string;
+  constructor(field: string, message: string) {
+    super(`address ${field}: ${message}`);
+    this.field = field;
+  }
+}
+
+/** A profile file that fails validation; the message names the field. */
+export class ProfileError extends Error {
+  override readonly name = 'ProfileError';
+  readonly profile: string;
+  constructor(profile: string, message: string) {
+    super(`profile ${profile}: ${message}`);
+    this.profile = profile;
+  }
+}

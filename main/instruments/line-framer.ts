@@ -1,0 +1,110 @@
+/**
+ * Splits a byte stream into lines on a terminator, for any transport (serial,
+ * TCP, sim). The same logic as @serialport/parser-readline's delimiter
+ * parser, but synchronous (no stream machinery on the hot path) and aware of
+ * IEEE 488.2 definite-length blocks at the start of a line, whose payload may
+ * contain the terminator byte.
+ *
+ * Lines are split on bytes and decoded by the consumer, so a multi-byte UTF-8
+ * character split across two chunks arrives whole.
+ */
+
+export interface LineFramerOptions {
+  /** Line terminator; default "\n" (common practice for SCPI over sockets and serial). */
+  terminator?: string;
+  /** With a "\n" terminator, also drop a "\r" before it (instruments that send CR LF). Default true. */
+  trimCarriageReturn?: boolean;
+  /** Treat `#<n><len>` at a line start as a definite block and skip its payload. Default true. */
+  definiteBlocks?: boolean;
+  /** Longest line kept; a longer partial line is dropped and `onOverflow` called. Default 16 MiB. */
+  maxLineBytes?: number;
+  onOverflow?: (droppedBytes: number) => void;
+}
+
+const HASH = 0x23;
+const CR = 0x0d;
+const DIGIT_0 = 0x30;
+
+export class LineFramer {
+  private pending: Buffer | null = null;
+  private readonly terminator: Buffer;
+  private readonly trimCr: boolean;
+  private readonly blocks: boolean;
+  private readonly maxLineBytes: number;
+  private readonly onOverflow: ((droppedBytes: number) => void) | undefined;
+
+  /** `onLine` receives a view that is valid only during the call (copy it to keep it). */
+  constructor(private readonly onLine: (line: Buffer) => void, options: LineFramerOptions = {}) {
+    const terminator = options.terminator ?? '\n';
+    if (terminator.length === 0) throw new TypeError('terminator: must not be empty');
+    this.terminator = Buffer.from(terminator, 'utf8');
+    this.trimCr = (options.trimCarriageReturn ?? true) && terminator === '\n';
+    this.blocks = options.definiteBlocks ?? true;
+    this.maxLineBytes = options.maxLineBytes ?? 16 * 1024 * 1024;
+    if (!(this.maxLineBytes > 0)) throw new TypeError('maxLineBytes: must be positive');
+    this.onOverflow = options.onOverflow;
+  }
+
+  /** Bytes held while waiting for a terminator. */
+  get pendingBytes(): number {
+    return this.pending === null ? 0 : this.pending.length;
+  }
+
+  /** Forgets any partial line (after a reconnect or a resync). */
+  reset(): void {
+    this.pending = null;
+  }
+
+  push(chunk: Uint8Array): void {
+    let data = Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    if (this.pending !== null) {
+      data = Buffer.concat([this.pending, data]);
+      this.pending = null;
+    }
+    const term = this.terminator;
+    let start = 0;
+    while (start < data.length) {
+      let searchFrom = start;
+      if (this.blocks && data[start] === HASH) {
+        const blockEnd = this.blockEnd(data, start);
+        if (blockEnd === -1) break; // block header or payload incomplete: wait for more bytes
+        searchFrom = blockEnd;
+      }
+      const at = data.indexOf(term, searchFrom);
+      if (at === -1) break;
+      let end = at;
+      if (this.trimCr && end > searchFrom && data[end - 1] === CR) end -= 1;
+      this.onLine(data.subarray(start, end));
+      start = at + term.length;
+    }
+    if (start < data.length) {
+      const rest = data.length - start;
+      if (rest > this.maxLineBytes) {
+        this.onOverflow?.(rest);
+        return;
+      }
+      // Copy: the caller may reuse its chunk buffer (serial reads are pooled).
+      this.pending = Buffer.from(data.subarray(start));
+    }
+  }
+
+  /**
+   * Index just past a definite block's payload starting at `start`, the same
+   * index when the '#' does not open a definite block, or -1 when more bytes are needed.
+   */
+  private blockEnd(data: Buffer, start: number): number {
+    if (start + 1 >= data.length) return -1;
+    const digitCount = (data[start + 1] ?? 0) - DIGIT_0;
+    if (digitCount < 1 || digitCount > 9) return start; // #0 (indefinite), #H.., or text
+    const lengthStart = start + 2;
+    if (lengthStart + digitCount > data.length) return -1;
+    let length = 0;
+    for (let i = lengthStart; i < lengthStart + digitCount; i += 1) {
+      const digit = (data[i] ?? 0) - DIGIT_0;
+      if (digit < 0 || digit > 9) return start;
+      length = length * 10 + digit;
+    }
+    const payloadEnd = lengthStart + digitCount + length;
+    return payloadEnd > data.length ? -1 : payloadEnd;
+  }
+}

@@ -1,0 +1,115 @@
+/**
+ * Instrument profiles: JSON files mapping each role operation to command
+ * strings. Validated with zod; placeholders are checked per operation and
+ * compiled once. A bad profile is refused with the field named.
+ */
+import { z } from 'zod';
+import type { CommandTemplate } from './command-template.ts';
+
+export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
+
+const command = z.string().trim().min(1, 'must be a non-empty command string');
+const positiveS = z.number().positive().finite();
+
+const common = {
+  schema: z.literal(PROFILE_SCHEMA_ID),
+  description: z.string().optional(),
+  /** Ends every command and reply line. */
+  lineTerminator: z.enum(['\n', '\r\n', '\r']).default('\n'),
+  /** Read SYST:ERR? after every write and fail the write when it holds errors. */
+  checkErrorsAfterWrite: z.boolean().default(true),
+  /** Commands sent once after connecting (no placeholders), e.g. "*CLS". */
+  init: z.array(command).default([]),
+};
+
+export const supplyProfileSchema = z.object({
+  ...common,
+  role: z.literal('supply'),
+  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  capabilities: z.object({
+    channels: z.number().int().min(1).max(64),
+    measureVoltage: z.boolean(),
+    measureCurrent: z.boolean(),
+    overVoltageProtection: z.boolean(),
+  }),
+  commands: z.object({
+    identify: command.default('*IDN?'),
+    setVoltage: command,
+    getVoltageSetpoint: command,
+    setCurrentLimit: command,
+    setOverVoltageProtection: command.optional(),
+    setOutput: command,
+    getOutput: command,
+    measureVoltage: command.optional(),
+    measureCurrent: command.optional(),
+  }),
+}).superRefine((profile, ctx) => {
+  const needs: [keyof typeof profile.capabilities, keyof typeof profile.commands][] = [
+    ['overVoltageProtection', 'setOverVoltageProtection'],
+    ['measureVoltage', 'measureVoltage'],
+    ['measureCurrent', 'measureCurrent'],
+  ];
+  for (const [capability, op] of needs) {
+    if (profile.capabilities[capability] === true && profile.commands[op] === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['commands', op], message: `required because capabilities.${capability} is true` });
+    }
+  }
+});
+
+export const counterProfileSchema = z.object({
+  ...common,
+  role: z.literal('counter'),
+  timeouts: z.object({
+    defaultS: positiveS.default(2),
+    /** A reading may take the gate time plus this much before it counts as "no reply". */
+    measureMarginS: positiveS.default(1),
+  }).default({ defaultS: 2, measureMarginS: 1 }),
+  /** Gate assumed until setGate is called, s. */
+  defaultGateS: positiveS.default(0.1),
+  /** Which replies mean "no oscillation" rather than a fault. */
+  noSignal: z.object({
+    notANumber: z.boolean().default(true),
+    zero: z.boolean().default(true),
+    timeout: z.boolean().default(true),
+    /** Readings at or below this many Hz also count as zero. */
+    belowHz: z.number().min(0).finite().default(0),
+  }).default({ notANumber: true, zero: true, timeout: true, belowHz: 0 }),
+  commands: z.object({
+    identify: command.default('*IDN?'),
+    setGate: command,
+    readFrequency: command,
+  }),
+});
+
+export const thermometerProfileSchema = z.object({
+  ...common,
+  role: z.literal('thermometer'),
+  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  /** Unit the instrument replies in; converted to °C. */
+  unit: z.enum(['C', 'K', 'F']).default('C'),
+  commands: z.object({
+    identify: command.default('*IDN?'),
+    readTemperature: command,
+  }),
+});
+
+export const profileSchema = z.discriminatedUnion('role', [supplyProfileSchema, counterProfileSchema, thermometerProfileSchema]);
+
+/** Placeholders each operation may use. */
+export const PLACEHOLDERS = {
+  supply: {
+    identify: [], setVoltage: ['channel', 'volts'], getVoltageSetpoint: ['channel'], setCurrentLimit: ['channel', 'amps'],
+    setOverVoltageProtection: ['channel', 'volts'], setOutput: ['channel', 'state'], getOutput: ['channel'],
+    measureVoltage: ['channel'], measureCurrent: ['channel'],
+  },
+  counter: { identify: [], setGate: ['gateS'], readFrequency: ['gateS'] },
+  thermometer: { identify: [], readTemperature: [] },
+} as const satisfies Record<string, Record<string, readonly string[]>>;
+
+type Compiled<C> = { [K in keyof C]-?: undefined extends C[K] ? CommandTemplate | undefined : CommandTemplate };
+
+export type SupplyProfile = Omit<z.output<typeof supplyProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof supplyProfileSchema>['commands']> };
+export type CounterProfile = Omit<z.output<typeof counterProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof counterProfileSchema>['commands']> };
+export type ThermometerProfile = Omit<z.output<typeof thermometerProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof thermometerProfileSchema>['commands']> };
+export type InstrumentProfile = SupplyProfile | CounterProfile | ThermometerProfile;
+export type ProfileInput = z.input<typeof profileSchema>;
