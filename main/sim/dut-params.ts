@@ -1,0 +1,139 @@
+/**
+ * DUT model parameters (resources/duts/*.json), validated with zod so a bad
+ * file names the field. SI units throughout: ohms, farads, henries, volts,
+ * seconds, hertz; ppm where the trade quotes ppm.
+ */
+import { readFile } from 'node:fs/promises';
+import { z } from 'zod';
+
+const positive = (what: string) => z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`);
+const finite = (what: string) => z.number({ error: `${what} must be a number` }).finite();
+
+const commonFields = {
+  id: z.string().min(1),
+  /** Scenario in words, shown to the user. */
+  description: z.string().default(''),
+  supply: z.object({
+    /** The DUT's nominal supply; the bench's supply channel 2 starts here. */
+    nominalV: positive('supply.nominalV'),
+    /** Below this the oscillator does not start. */
+    minV: positive('supply.minV'),
+    /** Current drawn at nominal supply (the load is modelled as a resistor). */
+    currentA: positive('supply.currentA'),
+  }),
+  tuning: z.object({
+    /** First-order time constant of the tuning node (RC filter in the tuning line). */
+    settleTauS: positive('tuning.settleTauS'),
+    /** Input resistance of the tuning port, seen by supply channel 1. */
+    inputResistanceOhm: positive('tuning.inputResistanceOhm'),
+  }),
+  /** Fractional frequency change per °C around referenceC. */
+  tempcoPpmPerC: finite('tempcoPpmPerC'),
+  referenceC: finite('referenceC').default(25),
+  warmup: z.object({
+    /** Fractional offset at power-on, decaying exponentially to zero. */
+    offsetPpm: finite('warmup.offsetPpm'),
+    tauS: positive('warmup.tauS'),
+  }),
+  /** Frequency change per volt of DUT supply away from nominal. */
+  pushingHzPerV: finite('pushingHzPerV'),
+  noise: z.object({
+    /** White frequency noise: fractional σ of a 1 s average (scales as 1/√gate). */
+    whiteFmAt1s: z.number().nonnegative(),
+    /** Random-walk frequency wander, ppm per √hour. */
+    randomWalkPpmPerSqrtHour: z.number().nonnegative().default(0),
+  }),
+};
+
+export const relaxationDutSchema = z.object({
+  kind: z.literal('relaxation'),
+  ...commonFields,
+  timing: z.object({
+    chargeResistanceOhm: positive('timing.chargeResistanceOhm'),
+    capacitanceF: positive('timing.capacitanceF'),
+    dischargeResistanceOhm: positive('timing.dischargeResistanceOhm'),
+    /** The discharge path pulls the capacitor toward this rail. */
+    dischargeTargetV: finite('timing.dischargeTargetV'),
+  }),
+  thresholds: z.object({
+    lowerV: finite('thresholds.lowerV'),
+    upperV: finite('thresholds.upperV'),
+    /** RMS noise on the comparator thresholds; becomes timing jitter through dv/dt. */
+    noiseV: z.number().nonnegative(),
+  }),
+  chargeDrive: z.object({
+    /** Vc = gain·Vtune + offsetV, limited to supply − headroomV (source compliance). */
+    gain: positive('chargeDrive.gain'),
+    offsetV: finite('chargeDrive.offsetV'),
+    headroomV: z.number().nonnegative(),
+  }),
+});
+
+export const varactorDutSchema = z.object({
+  kind: z.literal('varactor-lc'),
+  ...commonFields,
+  tank: z.object({
+    inductanceH: positive('tank.inductanceH'),
+    parasiticCapacitanceF: z.number().nonnegative(),
+  }),
+  varactor: z.object({
+    /** Zero-bias junction capacitance. */
+    cj0F: positive('varactor.cj0F'),
+    /** Built-in potential φ. */
+    builtInV: positive('varactor.builtInV'),
+    /** Grading exponent γ: 1/2 abrupt, 1/3 linearly graded, > 1/2 hyperabrupt. */
+    gradingExponent: positive('varactor.gradingExponent'),
+    /** Below this reverse bias the diode conducts, the tank loses Q and the loop stops. */
+    minReverseV: finite('varactor.minReverseV'),
+  }),
+});
+
+export const dutParamsSchema = z
+  .discriminatedUnion('kind', [relaxationDutSchema, varactorDutSchema])
+  .superRefine((dut, ctx) => {
+    if (dut.supply.minV > dut.supply.nominalV) {
+      ctx.addIssue({ code: 'custom', path: ['supply', 'minV'], message: 'supply.minV must not exceed supply.nominalV' });
+    }
+    if (dut.kind === 'relaxation' && dut.thresholds.lowerV >= dut.thresholds.upperV) {
+      ctx.addIssue({ code: 'custom', path: ['thresholds', 'upperV'], message: 'thresholds.upperV must exceed thresholds.lowerV' });
+    }
+  });
+
+export type RelaxationDutParams = z.infer<typeof relaxationDutSchema>;
+export type VaractorDutParams = z.infer<typeof varactorDutSchema>;
+export type DutParams = z.infer<typeof dutParamsSchema>;
+
+/** Error for a DUT file or object that fails validation; the message names the field. */
+export class DutParamsError extends Error {
+  override name = 'DutParamsError';
+}
+
+function describeIssues(error: z.ZodError, source: string): string {
+  const lines = error.issues.map((issue) => {
+    const field = issue.path.length > 0 ? issue.path.join('.') : '(root)';
+    return `${field}: ${issue.message}`;
+  });
+  return `${source}: invalid DUT model — ${lines.join('; ')}`;
+}
+
+export function parseDutParams(value: unknown, source = 'DUT'): DutParams {
+  const result = dutParamsSchema.safeParse(value);
+  if (!result.success) throw new DutParamsError(describeIssues(result.error, source));
+  return result.data;
+}
+
+export async function loadDutParamsFile(path: string): Promise<DutParams> {
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (error) {
+    throw new DutParamsError(`${path}: cannot read DUT file (${(error as Error).message})`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (error) {
+    throw new DutParamsError(`${path}: not valid JSON (${(error as Error).message})`);
+  }
+  return parseDutParams(json, path);
+}
