@@ -11,6 +11,8 @@ export interface FlagSpec {
   booleans?: readonly string[];
   /** Flags that may repeat (collected into an array). */
   repeatable?: readonly string[];
+  /** Short forms: `{ o: 'output' }` makes `-o FILE` mean `--output FILE`. */
+  aliases?: Readonly<Record<string, string>>;
 }
 
 export interface ParsedFlags {
@@ -26,7 +28,10 @@ export function parseFlags(argv: readonly string[], spec: FlagSpec): ParsedFlags
   const repeatable = new Set(spec.repeatable ?? []);
   const parsed: ParsedFlags = { values: new Map(), lists: new Map(), booleans: new Set(), positionals: [] };
   for (let i = 0; i < argv.length; i++) {
-    const arg = argv[i] as string;
+    const raw = argv[i] as string;
+    const alias = /^-([A-Za-z])$/.exec(raw)?.[1];
+    const long = alias !== undefined ? spec.aliases?.[alias] : undefined;
+    const arg = long !== undefined ? `--${long}` : raw;
     if (!arg.startsWith('--') || arg === '--') {
       parsed.positionals.push(arg);
       continue;

@@ -1,0 +1,94 @@
+/**
+ * Datasheet exports: Markdown, CSV (SI base units, machine-readable) and a
+ * standalone printable HTML page (inline style, no external assets).
+ */
+import type { Datasheet, DatasheetRow } from './datasheet.ts';
+import { formatNumber, siPrefixFor } from './format-si.ts';
+
+/** Cells of a row scaled to one prefix per row ("kHz/V" in the unit column). */
+export function displayRow(row: DatasheetRow): { min: string; typ: string; max: string; unit: string } {
+  const values = [row.min, row.typ, row.max].filter((v): v is number => v !== null);
+  const biggest = values.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+  const { scale, symbol } = row.scaling === 'si' ? siPrefixFor(biggest) : { scale: 1, symbol: '' };
+  const digits = row.scaling === 'si' ? 4 : 3;
+  const cell = (v: number | null): string => (v === null ? '' : formatNumber(v / scale, digits));
+  return { min: cell(row.min), typ: cell(row.typ), max: cell(row.max), unit: row.unit ? `${symbol}${row.unit}` : '' };
+}
+
+const HEAD = ['Parameter', 'Conditions', 'Min', 'Typ', 'Max', 'Unit'];
+
+function mdEscape(text: string): string {
+  return text.replace(/\|/g, '\\|');
+}
+
+export function renderDatasheetMarkdown(sheet: Datasheet): string {
+  const lines = [`# ${mdEscape(sheet.title)}`, '', `Runs: ${sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', ')}`, ''];
+  lines.push(`| ${HEAD.join(' | ')} |`, '|---|---|--:|--:|--:|---|');
+  for (const row of sheet.rows) {
+    const d = displayRow(row);
+    lines.push(`| ${[row.parameter, row.conditions, d.min, d.typ, d.max, d.unit].map(mdEscape).join(' | ')} |`);
+  }
+  lines.push('', ...sheet.notes.map((n) => `- ${mdEscape(n)}`), '');
+  return lines.join('\n');
+}
+
+function csvCell(text: string): string {
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** CSV in SI base units (full precision), for spreadsheets and scripts. */
+export function renderDatasheetCsv(sheet: Datasheet): string {
+  const lines = [['key', 'parameter', 'conditions', 'min', 'typ', 'max', 'unit', 'runs'].join(',')];
+  for (const row of sheet.rows) {
+    const num = (v: number | null): string => (v === null ? '' : String(v));
+    lines.push([row.key, row.parameter, row.conditions, num(row.min), num(row.typ), num(row.max), row.unit, String(row.runs)].map(csvCell).join(','));
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+function html(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+const STYLE = `
+  body { font: 11pt/1.4 system-ui, sans-serif; color: #111; background: #fff; margin: 2em auto; max-width: 60em; padding: 0 1em; }
+  h1 { font-size: 16pt; margin: 0 0 0.3em; }
+  p.runs { color: #444; margin: 0 0 1em; }
+  table { border-collapse: collapse; width: 100%; }
+  th, td { border-bottom: 1px solid #bbb; padding: 0.3em 0.6em; text-align: left; vertical-align: top; }
+  th { border-bottom: 2px solid #333; font-weight: 600; }
+  td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
+  tbody tr:nth-child(even) { background: #f4f4f4; }
+  ul.notes { color: #444; font-size: 9.5pt; margin-top: 1em; }
+  @media print { body { margin: 0; max-width: none; } tbody tr:nth-child(even) { background: none; } tr { break-inside: avoid; } }
+`;
+
+/** One self-contained HTML page; prints on A4/Letter with a light style. */
+export function renderDatasheetHtml(sheet: Datasheet): string {
+  const body = sheet.rows
+    .map((row) => {
+      const d = displayRow(row);
+      return `<tr><td>${html(row.parameter)}</td><td>${html(row.conditions)}</td><td class="num">${html(d.min)}</td><td class="num">${html(d.typ)}</td><td class="num">${html(d.max)}</td><td>${html(d.unit)}</td></tr>`;
+    })
+    .join('\n');
+  return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<title>${html(sheet.title)}</title>
+<style>${STYLE}</style>
+</head>
+<body>
+<h1>${html(sheet.title)}</h1>
+<p class="runs">Runs: ${html(sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', '))}</p>
+<table>
+<thead><tr>${HEAD.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
+<tbody>
+${body}
+</tbody>
+</table>
+<ul class="notes">${sheet.notes.map((n) => `<li>${html(n)}</li>`).join('')}</ul>
+</body>
+</html>
+`;
+}

@@ -1,0 +1,190 @@
+/**
+ * analyzeSweep: from raw readings to the CONTRACTS.md `analyze --json` sweep
+ * object (plus extra keys). Deterministic; no I/O.
+ */
+import { AnalysisError } from './analysis-error.ts';
+import { fitPolynomialAuto } from './poly-fit-auto.ts';
+import { fitPolynomial, type PolyFit } from './poly-fit.ts';
+import { findEdges, type Edges } from './sweep-edges.ts';
+import { bestLine, fitKvco, widestLinearRange, type LocalKvco } from './sweep-gain.ts';
+import { localKvcoEntries } from './sweep-local-kvco.ts';
+import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
+import { groupPoints, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
+import type { SweepAnalysis } from './sweep-types.ts';
+
+export interface SweepOptions {
+  /** Polynomial degree 1–6, or 'auto' (AICc). Default 'auto'. */
+  fit?: 'auto' | number;
+  /** Linearity limit for the widest linear range, ± % of span. Default 5. */
+  linearityLimitPct?: number;
+  /** Control voltage of the nominal operating point; default mid usable range. */
+  nominalV?: number;
+  /** See EdgeOptions.unstableFactor. Default 5. */
+  unstableFactor?: number;
+}
+
+interface Curve {
+  points: PointSet;
+  edges: Edges;
+}
+
+function curveOf(input: SweepInput, direction: Direction, options: SweepOptions): Curve | null {
+  const points = groupPoints(input, direction);
+  if (points.count === 0) return null;
+  return { points, edges: findEdges(points, { gateS: input.gateS, unstableFactor: options.unstableFactor }) };
+}
+
+/** Per-point frequency SD: reading scatter of the mean and ±1 count/gate (rectangular). */
+function pointUncertainty(points: PointSet, gateS: number | undefined): Float64Array {
+  const q = gateS ? 1 / (gateS * Math.sqrt(3)) : 0;
+  const u = new Float64Array(points.count);
+  for (let i = 0; i < points.count; i++) {
+    const n = points.nOsc[i] as number;
+    const sd = points.sdHz[i] as number;
+    const scatter = n > 1 && Number.isFinite(sd) ? (sd * sd) / n : 0;
+    u[i] = Math.sqrt(scatter + q * q);
+  }
+  return u;
+}
+
+export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
+  if (input.controlV.length !== input.frequencyHz.length) {
+    throw new AnalysisError('control_v and frequency_hz have different lengths');
+  }
+  const up = curveOf(input, 'up', options);
+  const down = curveOf(input, 'down', options);
+  const primary = up ?? down;
+  if (!primary) throw new AnalysisError('no readings with a control voltage');
+  const { points, edges } = primary;
+  const warnings: string[] = [];
+  if (edges.blockI1 === edges.blockI0) throw new AnalysisError('the oscillator stalled over the whole range', true);
+  const i0 = edges.usableI0;
+  const i1 = edges.blockI1;
+  const n = i1 - i0;
+  if (n < 2) throw new AnalysisError(`only ${n} oscillating point in the usable range; need at least 2`, true);
+  const u = pointUncertainty(points, input.gateS);
+  let rmsU = 0;
+  for (let i = i0; i < i1; i++) rmsU += (u[i] as number) * (u[i] as number);
+  rmsU = Math.sqrt(rmsU / n);
+
+  let fit: PolyFit;
+  let selection: string;
+  if (options.fit === undefined || options.fit === 'auto') {
+    const auto = fitPolynomialAuto(points.v, points.meanHz, i0, i1, 6);
+    fit = auto.fit;
+    selection = 'auto: corrected Akaike information criterion (AICc) over degrees 1–6';
+  } else {
+    const wanted = options.fit;
+    if (!Number.isInteger(wanted) || wanted < 1 || wanted > 6) throw new AnalysisError(`fit degree must be 1–6 (got ${wanted})`);
+    const degree = Math.min(wanted, n - 1);
+    if (degree < wanted) warnings.push(`fit degree lowered from ${wanted} to ${degree}: only ${n} usable points`);
+    fit = fitPolynomial(points.v, points.meanHz, i0, i1, degree);
+    selection = 'user';
+  }
+  const sigma = Math.max(Number.isFinite(fit.residualStdDev) ? fit.residualStdDev : 0, rmsU);
+  const fromV = points.v[i0] as number;
+  const toV = points.v[i1 - 1] as number;
+
+  const { local, misfits } = localKvcoEntries(points, edges, fit, u, sigma, i0, i1);
+  if (misfits > 0) {
+    warnings.push(
+      `the degree-${fit.degree} fit misses the local slope at ${misfits} point(s) (residual SD ${fit.residualStdDev.toPrecision(3)} Hz vs ` +
+        `measurement ${rmsU.toPrecision(3)} Hz); Kvco there comes from the smoothed finite differences`,
+    );
+  }
+  let kMin = Infinity;
+  let kMax = -Infinity;
+  let kMinU = NaN;
+  let kMaxU = NaN;
+  let kMinV = NaN;
+  let kMaxV = NaN;
+  for (let j = 0; j < local.length; j++) {
+    const e = local[j] as LocalKvco;
+    // min/max over the usable range only (fit-backed or fit-checked entries).
+    if (e.v < fromV || e.v > toV || !Number.isFinite(e.hzPerV)) continue;
+    if (e.hzPerV < kMin) [kMin, kMinU, kMinV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
+    if (e.hzPerV > kMax) [kMax, kMaxU, kMaxV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
+  }
+  const nominalV = options.nominalV ?? (fromV + toV) / 2;
+  if (nominalV < fromV || nominalV > toV) warnings.push(`nominal point ${nominalV} V lies outside the usable range`);
+  const nominal = fitKvco(fit, nominalV, sigma);
+
+  let iMin = i0;
+  let iMax = i0;
+  for (let i = i0; i < i1; i++) {
+    if ((points.meanHz[i] as number) < (points.meanHz[iMin] as number)) iMin = i;
+    if ((points.meanHz[i] as number) > (points.meanHz[iMax] as number)) iMax = i;
+  }
+  const linear = bestLine(points.v, points.meanHz, i0, i1, rmsU);
+  const limitPct = options.linearityLimitPct ?? 5;
+  const other = primary === up ? down : null;
+  const hysteresis: Hysteresis | null = other ? compareDirections(primary.points, primary.edges, other.points, other.edges) : null;
+  if (edges.upperStallV !== null) warnings.push(`oscillation stops again above ${edges.upperStallV} V`);
+
+  return {
+    kind: 'sweep',
+    primaryDirection: points.direction,
+    tuningRange: {
+      fMinHz: points.meanHz[iMin] as number,
+      fMaxHz: points.meanHz[iMax] as number,
+      vAtFMin: points.v[iMin] as number,
+      vAtFMax: points.v[iMax] as number,
+      fMinUncertaintyHz: u[iMin] as number,
+      fMaxUncertaintyHz: u[iMax] as number,
+    },
+    stall: {
+      stalled: edges.stalled,
+      thresholdV: edges.thresholdV,
+      unstableBelowV: edges.unstableBelowV,
+      thresholdUncertaintyV: edges.thresholdUncertaintyV,
+      unstableBelowUncertaintyV: edges.unstableBelowUncertaintyV,
+      upperStallV: edges.upperStallV,
+      medianRelativeScatter: Number.isFinite(edges.medianRelativeScatter) ? edges.medianRelativeScatter : null,
+    },
+    kvco: {
+      linear,
+      local,
+      minHzPerV: kMin,
+      maxHzPerV: kMax,
+      minUncertaintyHzPerV: kMinU,
+      maxUncertaintyHzPerV: kMaxU,
+      vAtMin: kMinV,
+      vAtMax: kMaxV,
+      // Ratio of magnitudes, so a falling (negative-gain) curve reads the same; NaN if the sign changes.
+      maxToMinRatio: kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
+      nominal: { v: nominalV, hzPerV: nominal.hzPerV, uncertaintyHzPerV: nominal.sd },
+      widestLinearRange: widestLinearRange(fit, fromV, toV, limitPct),
+    },
+    fit: {
+      model: 'poly',
+      degree: fit.degree,
+      coefficients: fit.coefficients,
+      coefficientStdDev: fit.coefficientStdDev,
+      selection,
+      residualStdDevHz: fit.residualStdDev,
+      r2: fit.rSquared,
+      fromV,
+      toV,
+      points: n,
+    },
+    points: pointsJson(points, edges),
+    hysteresis,
+    counter: { gateS: input.gateS ?? null, resolutionHz: input.gateS ? 1 / input.gateS : null },
+    warnings,
+  };
+}
+
+function pointsJson(points: PointSet, edges: Edges): SweepAnalysis['points'] {
+  const rows: SweepAnalysis['points'] = [];
+  for (let i = 0; i < points.count; i++) {
+    rows.push({
+      v: points.v[i] as number,
+      meanHz: points.meanHz[i] as number,
+      sdHz: points.sdHz[i] as number,
+      readings: (points.nOsc[i] as number) + (points.nNoOsc[i] as number),
+      noOscillation: points.nNoOsc[i] as number,
+      unstable: edges.unstable[i] === 1,
+    });
+  }
+  return rows;
+}

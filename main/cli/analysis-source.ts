@@ -1,0 +1,107 @@
+/**
+ * Loads what `analyze` and `datasheet` work on: a run folder (through the
+ * store's reader, which also marks dead `running` runs as interrupted) or a
+ * plain CSV file. Malformed input becomes a UsageError naming file and line.
+ */
+import { readFile, stat } from 'node:fs/promises';
+import { join } from 'node:path';
+import { z } from 'zod';
+import type { RunMeta } from '../../app/contract/bench-api.ts';
+import { detectCsvKind, type CsvKind } from '../../app/analysis/csv-columns.ts';
+import { CsvError, numericColumn, parseCsv, type CsvTable } from '../../app/analysis/csv-input.ts';
+import { readRunFolder } from '../store/run-reader.ts';
+import { UsageError } from './types.ts';
+
+export interface AnalysisSource {
+  path: string;
+  label: string;
+  kind: CsvKind;
+  table: CsvTable;
+  meta: RunMeta | null;
+  /** Run folder only: how many events of each type (faults, gaps, retries…). */
+  eventsByType: Record<string, number>;
+  gateS: number | undefined;
+  conditions: { temperatureC: number | null; supplyV: number | null; gateS: number | null };
+}
+
+const planHints = z.looseObject({
+  gateS: z.number().positive().optional(),
+  supplyV: z.number().optional(),
+  dutSupplyV: z.number().optional(),
+});
+
+function meanOf(col: Float64Array | null): number | null {
+  if (!col) return null;
+  let s = 0;
+  let k = 0;
+  for (const v of col) {
+    if (!Number.isFinite(v)) continue;
+    s += v;
+    k++;
+  }
+  return k > 0 ? s / k : null;
+}
+
+function tableOf(text: string, file: string): CsvTable {
+  try {
+    const table = parseCsv(text);
+    if (table.rows.length === 0) throw new UsageError(`${file}: no data rows after the header`);
+    return table;
+  } catch (error) {
+    if (error instanceof CsvError) throw new UsageError(`${file}: ${error.message}`);
+    throw error;
+  }
+}
+
+export async function loadAnalysisSource(path: string): Promise<AnalysisSource> {
+  const info = await stat(path).catch(() => null);
+  if (!info) throw new UsageError(`${path}: no such file or run folder (expected RUN_DIR or FILE.csv)`);
+  let table: CsvTable;
+  let meta: RunMeta | null = null;
+  let kind: CsvKind;
+  let label = path;
+  let hints: z.infer<typeof planHints> = {};
+  const eventsByType: Record<string, number> = {};
+  if (info.isDirectory()) {
+    try {
+      const run = await readRunFolder(path);
+      meta = run.meta;
+      for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
+      table = tableOf(run.samplesCsv, join(path, 'samples.csv'));
+    } catch (error) {
+      if (error instanceof UsageError) throw error;
+      throw new UsageError(`${path}: not a readable run folder (${(error as Error).message})`);
+    }
+    kind = meta.kind;
+    label = `${meta.id}${meta.dut.id ? ` (${meta.dut.id})` : ''}`;
+    const parsed = planHints.safeParse(meta.plan);
+    if (parsed.success) hints = parsed.data;
+  } else {
+    table = tableOf(await readFile(path, 'utf8'), path);
+    try {
+      kind = detectCsvKind(table);
+    } catch (error) {
+      if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
+      throw error;
+    }
+  }
+  let supplyV: number | null;
+  let temperatureC: number | null;
+  try {
+    supplyV = meanOf(numericColumn(table, 'supply_v')) ?? hints.supplyV ?? hints.dutSupplyV ?? null;
+    temperatureC = meanOf(numericColumn(table, 'temperature_c'));
+  } catch (error) {
+    if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
+    throw error;
+  }
+  return {
+    path,
+    label,
+    kind,
+    table,
+    meta,
+    eventsByType,
+    gateS: hints.gateS,
+    conditions: { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null },
+  };
+}

@@ -1,0 +1,69 @@
+/**
+ * `tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE]`
+ */
+import { writeFile } from 'node:fs/promises';
+import { AnalysisError } from '../../app/analysis/analysis-error.ts';
+import { analyzeTable } from '../../app/analysis/analyze-table.ts';
+import { CsvError } from '../../app/analysis/csv-input.ts';
+import { buildDatasheet, type DatasheetRun } from '../../app/analysis/datasheet.ts';
+import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
+import { loadAnalysisSource } from './analysis-source.ts';
+import { parseFlags } from './flags.ts';
+import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
+
+const usage = `usage: tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE] [--title TEXT]
+
+Builds the gain table (min / typ / max over the runs) from sweep, drift and
+pushing run folders (plain CSV files are accepted too).
+
+options:
+  --format md|csv|html  output format (default md); html is one printable, self-contained page
+  -o, --output FILE     write to FILE instead of standard output
+  --title TEXT          heading of the table (default "VCO gain table")
+`;
+
+const RENDER = { md: renderDatasheetMarkdown, csv: renderDatasheetCsv, html: renderDatasheetHtml } as const;
+
+function isFormat(text: string): text is keyof typeof RENDER {
+  return text === 'md' || text === 'csv' || text === 'html';
+}
+
+export const datasheetCommand: CliCommand = {
+  name: 'datasheet',
+  summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
+  usage,
+  async run(argv, io) {
+    const flags = parseFlags(argv, { values: ['format', 'output', 'title'], aliases: { o: 'output' } });
+    if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR (or FILE.csv)');
+    const format = flags.values.get('format') ?? 'md';
+    if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
+    const runs: DatasheetRun[] = [];
+    for (const path of flags.positionals) {
+      const source = await loadAnalysisSource(path);
+      try {
+        const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS });
+        runs.push({ label: source.label, analysis, conditions: source.conditions });
+      } catch (error) {
+        if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
+        if (error instanceof AnalysisError) {
+          if (error.workFailed) throw new WorkFailedError(`${path}: ${error.message}`);
+          throw new UsageError(`${path}: ${error.message}`);
+        }
+        throw error;
+      }
+    }
+    const text = RENDER[format](buildDatasheet(runs, flags.values.get('title')));
+    const output = flags.values.get('output');
+    if (output) {
+      try {
+        await writeFile(output, text, 'utf8');
+      } catch (error) {
+        throw new UsageError(`-o ${output}: cannot write (${(error as Error).message})`);
+      }
+      io.stderr.write(`wrote ${output}\n`);
+    } else {
+      io.stdout.write(text);
+    }
+    return 0;
+  },
+};
