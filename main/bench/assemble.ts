@@ -1,0 +1,130 @@
+/**
+ * Bench assembly: from a bench file (or "sim") to opened role drivers, their
+ * identities for run.json, a reconnect hook for the procedures, and one
+ * close(). Any address may be `sim`: those roles are played by one
+ * in-process simulated bench on the same clock, so a bench file can mix real
+ * and simulated instruments.
+ */
+import type { BenchConfig } from '../../app/contract/plans.ts';
+import { openInstrument, type OpenInstrumentOptions } from '../instruments/open-instrument.ts';
+import { parseAddress } from '../instruments/address.ts';
+import type { Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
+import type { SessionEvent } from '../instruments/scpi-session.ts';
+import { ScpiSession } from '../instruments/scpi-session.ts';
+import type { RecordableBench } from '../procedures/recorded-run.ts';
+import { createSimBench, type SimBench, type SimBenchOptions } from '../sim/sim-bench.ts';
+import type { Clock } from '../time/clock.ts';
+
+export interface AssembledBench extends RecordableBench {
+  /** Every role is simulated. */
+  simulated: boolean;
+  /** The in-process simulated bench behind `sim` addresses, if any (tests read its state). */
+  sim: SimBench | null;
+  close(): Promise<void>;
+}
+
+export interface AssembleOptions {
+  clock: Clock;
+  /** DUT, seed, faults… of the in-process simulated bench (for `sim` addresses). */
+  sim?: Omit<SimBenchOptions, 'clock'>;
+  connectTimeoutS?: number;
+  /** Reopen policy of each SCPI session after a dropped link. */
+  reconnect?: OpenInstrumentOptions['reconnect'];
+  userProfileDir?: string;
+  onSessionEvent?: (role: RoleName, event: SessionEvent) => void;
+}
+
+/** The bench file equivalent of "no --bench": every role simulated, thermometer included. */
+export const SIM_BENCH_CONFIG: BenchConfig = {
+  supply: { address: 'sim', controlChannel: 1, dutSupplyChannel: 2 },
+  counter: { address: 'sim' },
+  thermometer: { address: 'sim' },
+};
+
+function isSimAddress(address: string): boolean {
+  return parseAddress(address).kind === 'sim';
+}
+
+/** The SCPI session under a driver made by openInstrument (its drivers keep it public). */
+function sessionOf(driver: Supply | Counter | Thermometer): ScpiSession | null {
+  const candidate = (driver as { session?: unknown }).session;
+  return candidate instanceof ScpiSession ? candidate : null;
+}
+
+export async function assembleBench(config: BenchConfig | 'sim', options: AssembleOptions): Promise<AssembledBench> {
+  const bench = config === 'sim' ? SIM_BENCH_CONFIG : config;
+  const entries: [RoleName, { address: string; profile?: string | undefined }][] = [
+    ['supply', bench.supply],
+    ['counter', bench.counter],
+  ];
+  if (bench.thermometer) entries.push(['thermometer', bench.thermometer]);
+  const anySim = entries.some(([, entry]) => isSimAddress(entry.address));
+  const sim = anySim ? createSimBench({ ...options.sim, clock: options.clock }) : null;
+  const linkListeners = new Set<(role: RoleName, event: SessionEvent) => void>();
+  const opened: { role: RoleName; driver: Supply | Counter | Thermometer; address: string }[] = [];
+  try {
+    for (const [role, entry] of entries) {
+      const driver = await openInstrument(role, { address: entry.address, profile: entry.profile }, {
+        clock: options.clock,
+        sim: sim === null ? undefined : (simRole) => sim.transport(simRole),
+        connectTimeoutS: options.connectTimeoutS,
+        reconnect: options.reconnect,
+        userProfileDir: options.userProfileDir,
+        onEvent: (event) => {
+          options.onSessionEvent?.(role, event);
+          for (const listener of linkListeners) listener(role, event);
+        },
+      });
+      opened.push({ role, driver, address: entry.address });
+    }
+    const instruments: AssembledBench['instruments'] = [];
+    for (const { role, driver, address } of opened) {
+      const identity = await driver.identify();
+      instruments.push({ role, idn: identity.idn, address });
+    }
+    const byRole = new Map(opened.map((o) => [o.role, o.driver]));
+    return {
+      supply: byRole.get('supply') as Supply,
+      counter: byRole.get('counter') as Counter,
+      thermometer: byRole.get('thermometer') as Thermometer | undefined,
+      controlChannel: bench.supply.controlChannel,
+      dutSupplyChannel: bench.supply.dutSupplyChannel,
+      instruments,
+      simulated: entries.every(([, entry]) => isSimAddress(entry.address)),
+      sim,
+      async reconnect(role) {
+        await sessionFor(byRole, role).reconnect();
+      },
+      drainErrors: (role) => sessionFor(byRole, role).drainErrors(),
+      subscribeLinkEvents(listener) {
+        linkListeners.add(listener);
+        return () => linkListeners.delete(listener);
+      },
+      async close() {
+        await closeAll(opened);
+        sim?.close();
+      },
+    };
+  } catch (error) {
+    await closeAll(opened);
+    sim?.close();
+    throw error;
+  }
+}
+
+function sessionFor(byRole: Map<RoleName, Supply | Counter | Thermometer>, role: RoleName): ScpiSession {
+  const driver = byRole.get(role);
+  const session = driver === undefined ? null : sessionOf(driver);
+  if (session === null) throw new Error(`no ${role} with a SCPI session on this bench`);
+  return session;
+}
+
+async function closeAll(opened: { driver: { close(): Promise<void> } }[]): Promise<void> {
+  for (const { driver } of opened) {
+    try {
+      await driver.close();
+    } catch {
+      // Closing is best effort: the link may already be gone.
+    }
+  }
+}

@@ -1,0 +1,90 @@
+/**
+ * What the sweep, drift and pushing commands share: the runs folder, the
+ * bench (file or built-in simulation), the safety cautions, a RunControl
+ * wired to SIGINT/SIGTERM, progress on stderr, and the mapping of outcomes
+ * and errors to exit codes (0 done, 1 work failed, 2 bad input).
+ */
+import { homedir } from 'node:os';
+import { AddressError, ProfileError } from '../instruments/errors.ts';
+import { safeOnCrash, stopOnSignals } from '../procedures/exit-guard.ts';
+import { LimitsError } from '../procedures/limits.ts';
+import { RunControl } from '../procedures/run-control.ts';
+import type { ProcedureOutcome } from '../procedures/types.ts';
+import { resolveRunsDir } from '../store/index.ts';
+import type { Clock } from '../time/clock.ts';
+import type { SafeState } from '../../app/contract/plans.ts';
+import { UsageError, WorkFailedError, type CliIo } from '../cli/types.ts';
+import { assembleBench, type AssembledBench } from './assemble.ts';
+import { ConfigFileError, loadBenchFile } from './config-files.ts';
+import type { DefaultDut } from './default-plans.ts';
+import { createProgressDisplay } from './progress-display.ts';
+
+export const CAUTIONS = [
+  'Cautions: supply limits protect the DUT only if they are right for it — check them before a run.',
+  'Unattended and overnight runs: keep the bench where a fault cannot start a fire or hurt anyone; mains-powered',
+  'instruments need their covers and earth. Local codes and licensed practice come first.',
+].join('\n');
+
+export function parseDutName(text: string | undefined): DefaultDut {
+  if (text === undefined || text === 'relaxation' || text === 'varactor') return text ?? 'relaxation';
+  throw new UsageError(`--dut: expected relaxation or varactor, got "${text}"`);
+}
+
+export function runsDirFrom(flag: string | undefined, io: CliIo): string {
+  return resolveRunsDir(flag, io.env, process.platform, homedir());
+}
+
+/** Turns a bad file, plan or address into a UsageError (exit 2) that names the field. */
+export function asUsageError(error: unknown): never {
+  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError) {
+    throw new UsageError(error instanceof LimitsError ? `plan refused — ${error.message}` : error.message);
+  }
+  throw error;
+}
+
+export async function openCliBench(benchPath: string | undefined, dut: DefaultDut, clock: Clock): Promise<AssembledBench> {
+  const config = benchPath === undefined ? 'sim' : await loadBenchFile(benchPath).catch(asUsageError);
+  try {
+    return await assembleBench(config, { clock, sim: { dut } });
+  } catch (error) {
+    if (error instanceof AddressError || error instanceof ProfileError) asUsageError(error);
+    throw new WorkFailedError(`cannot open the bench: ${error instanceof Error ? error.message : String(error)}`);
+  }
+}
+
+/**
+ * A RunControl stopped by io.signal, or by SIGINT/SIGTERM when the caller
+ * gave none. When the command owns the process (its streams are the
+ * process's), an uncaught error anywhere still drives the supply to the safe
+ * state before the process exits with code 1.
+ */
+export function cliControl(io: CliIo, bench: AssembledBench, safe: SafeState): { control: RunControl; dispose: () => void } {
+  const control = new RunControl({ signal: io.signal });
+  const disposers: (() => void)[] = [];
+  if (io.signal === undefined) disposers.push(stopOnSignals(control, process));
+  if (io.stdout === process.stdout) {
+    const record = (event: { type: string; [key: string]: unknown }): void => {
+      io.stderr.write(`${event.type}: ${JSON.stringify(event)}\n`);
+    };
+    disposers.push(safeOnCrash(bench, safe, process, record, (code) => process.exit(code)));
+  }
+  return { control, dispose: () => disposers.forEach((dispose) => dispose()) };
+}
+
+export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay> {
+  return createProgressDisplay(io.stderr);
+}
+
+/** Exit code for an outcome; failures and aborts are explained on stderr. */
+export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
+  if (!outcome.safeStateOk) io.stderr.write('WARNING: the safe state could not be confirmed on every step — check the supply now (see events.jsonl).\n');
+  if (outcome.failure !== null) {
+    io.stderr.write(`${outcome.kind} failed (${outcome.failure.kind}): ${outcome.failure.message}\n`);
+    return 1;
+  }
+  if (outcome.status === 'aborted') {
+    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); the supply was put in its safe state.\n`);
+    return 1;
+  }
+  return 0;
+}

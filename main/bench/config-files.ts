@@ -1,0 +1,62 @@
+/**
+ * Reading bench and plan files for the command line: JSON parsed, checked
+ * with the contract schemas, and every problem reported as one line per
+ * field with the expected form (exit code 2 at the CLI).
+ */
+import { readFile } from 'node:fs/promises';
+import type { z } from 'zod';
+import {
+  benchConfigSchema,
+  describeIssues,
+  driftPlanSchema,
+  pushingPlanSchema,
+  sweepPlanSchema,
+  type BenchConfig,
+  type DriftPlan,
+  type PushingPlan,
+  type SweepPlan,
+} from '../../app/contract/plans.ts';
+
+/** A bench or plan file that cannot be used; the message names the file and the field. */
+export class ConfigFileError extends Error {
+  override readonly name = 'ConfigFileError';
+}
+
+async function readJson(path: string, what: string): Promise<unknown> {
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (error) {
+    throw new ConfigFileError(`${what} ${path}: cannot read (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
+  }
+  try {
+    return JSON.parse(text) as unknown;
+  } catch (error) {
+    throw new ConfigFileError(`${what} ${path}: not valid JSON (${(error as Error).message})`);
+  }
+}
+
+export function parseWith<S extends z.ZodType>(schema: S, value: unknown, label: string): z.output<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) {
+    const lines = describeIssues(result.error).split('\n').map((line) => `  ${line}`);
+    throw new ConfigFileError(`${label} is not valid:\n${lines.join('\n')}`);
+  }
+  return result.data;
+}
+
+export async function loadBenchFile(path: string): Promise<BenchConfig> {
+  return parseWith(benchConfigSchema, await readJson(path, 'bench file'), `bench file ${path}`);
+}
+
+export async function loadSweepPlan(path: string): Promise<SweepPlan> {
+  return parseWith(sweepPlanSchema, await readJson(path, 'plan file'), `sweep plan ${path}`);
+}
+
+export async function loadDriftPlan(path: string): Promise<DriftPlan> {
+  return parseWith(driftPlanSchema, await readJson(path, 'plan file'), `drift plan ${path}`);
+}
+
+export async function loadPushingPlan(path: string): Promise<PushingPlan> {
+  return parseWith(pushingPlanSchema, await readJson(path, 'plan file'), `pushing plan ${path}`);
+}

@@ -1,0 +1,57 @@
+/**
+ * Progress on stderr: on a terminal, one line redrawn in place with a bar
+ * and the ETA; otherwise plain lines, at most one every few seconds so a log
+ * file stays readable.
+ */
+import type { ProgressInfo } from '../../app/contract/bench-api.ts';
+
+export interface ProgressOutput {
+  write(text: string): unknown;
+  isTTY?: boolean;
+}
+
+export function formatDurationS(seconds: number | null): string {
+  if (seconds === null || !Number.isFinite(seconds)) return '--';
+  const s = Math.max(0, Math.round(seconds));
+  if (s < 60) return `${s}s`;
+  if (s < 3600) return `${Math.floor(s / 60)}m${String(s % 60).padStart(2, '0')}s`;
+  return `${Math.floor(s / 3600)}h${String(Math.floor((s % 3600) / 60)).padStart(2, '0')}m`;
+}
+
+function formatHz(hz: number | null): string {
+  if (hz === null) return '—';
+  const abs = Math.abs(hz);
+  if (abs >= 1e6) return `${(hz / 1e6).toFixed(6)} MHz`;
+  if (abs >= 1e3) return `${(hz / 1e3).toFixed(4)} kHz`;
+  return `${hz.toFixed(2)} Hz`;
+}
+
+export function describeProgress(p: ProgressInfo): string {
+  const latest = p.latest === null ? '' : `  ${p.latest.controlV.toFixed(4)} V → ${p.latest.status === 'ok' ? formatHz(p.latest.frequencyHz) : p.latest.status}`;
+  return `${p.phase} ${p.pointsDone}/${p.pointsTotal}  ETA ${formatDurationS(p.etaS)}${latest}`;
+}
+
+export function createProgressDisplay(out: ProgressOutput, nowMs: () => number = Date.now, plainEveryMs = 5000): { update: (p: ProgressInfo) => void; done: () => void } {
+  const tty = out.isTTY === true;
+  let lastPlainMs = -Infinity;
+  let drawn = false;
+  return {
+    update(p) {
+      if (tty) {
+        const width = 24;
+        const fraction = p.pointsTotal > 0 ? Math.min(1, p.pointsDone / p.pointsTotal) : 0;
+        const filled = Math.round(fraction * width);
+        out.write(`\r\x1b[2K[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${describeProgress(p)}`);
+        drawn = true;
+        return;
+      }
+      const now = nowMs();
+      if (now - lastPlainMs < plainEveryMs && p.pointsDone < p.pointsTotal) return;
+      lastPlainMs = now;
+      out.write(`${describeProgress(p)}\n`);
+    },
+    done() {
+      if (tty && drawn) out.write('\n');
+    },
+  };
+}

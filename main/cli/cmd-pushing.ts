@@ -1,0 +1,70 @@
+/**
+ * `tunebench pushing [--bench …] [--plan …] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
+ */
+import { CAUTIONS, asUsageError, cliControl, cliProgress, exitCodeFor, openCliBench, parseDutName, runsDirFrom } from '../bench/cli-session.ts';
+import { loadPushingPlan } from '../bench/config-files.ts';
+import { defaultPushingPlan } from '../bench/default-plans.ts';
+import { summarizeRun } from '../bench/run-summary.ts';
+import { recordPushing, validatePushingPlan } from '../procedures/recorded-run.ts';
+import { RealClock } from '../time/real-clock.ts';
+import { parseFlags } from './flags.ts';
+import { UsageError, type CliCommand } from './types.ts';
+
+const usage = `usage: tunebench pushing [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]
+
+Holds the control voltage, steps the DUT's own supply (supply channel
+dutSupplyChannel) over a range no higher than the plan's maxSupplyV, and
+reports the frequency pushing in Hz/V and ppm/V. The DUT supply is put back
+where it was found at the end.
+
+options:
+  --plan FILE   pushing plan { controlV, supplyStartV, supplyStopV, supplyStepV, maxSupplyV, limits, safe, … };
+                default: ±10 % around the simulated DUT's nominal supply
+  --runs, --dut-id, --dut, --bench as for \`tunebench sweep\`
+`;
+
+export const pushingCommand: CliCommand = {
+  name: 'pushing',
+  summary: 'supply pushing (Hz/V) at a fixed control voltage',
+  usage,
+  async run(argv, io) {
+    const flags = parseFlags(argv, { values: ['bench', 'plan', 'runs', 'dut-id', 'dut'] });
+    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
+    const dut = parseDutName(flags.values.get('dut'));
+    const planPath = flags.values.get('plan');
+    const plan = planPath === undefined ? defaultPushingPlan(dut) : await loadPushingPlan(planPath).catch(asUsageError);
+    try {
+      validatePushingPlan(plan);
+    } catch (error) {
+      asUsageError(error);
+    }
+    const clock = new RealClock();
+    io.stderr.write(`${CAUTIONS}\n`);
+    const bench = await openCliBench(flags.values.get('bench'), dut, clock);
+    if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
+    const { control, dispose } = cliControl(io, bench, plan.safe);
+    const progress = cliProgress(io);
+    try {
+      const recorded = await recordPushing({
+        bench,
+        plan,
+        clock,
+        runsDir: runsDirFrom(flags.values.get('runs'), io),
+        dutId: flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut'),
+        control,
+        onProgress: progress.update,
+        onRunStarted: (_meta, dir) => io.stderr.write(`run folder: ${dir}\n`),
+      });
+      progress.done();
+      const o = recorded.outcome;
+      io.stdout.write(`${recorded.dir}\n`);
+      io.stdout.write(`status: ${recorded.meta.status}, ${o.steps} supply steps\n`);
+      if (o.hzPerV !== null && o.ppmPerV !== null) io.stdout.write(`pushing: ${o.hzPerV.toPrecision(4)} Hz/V (${o.ppmPerV.toPrecision(4)} ppm/V)\n`);
+      io.stdout.write((await summarizeRun(recorded.dir)).text);
+      return exitCodeFor(o, io);
+    } finally {
+      dispose();
+      await bench.close();
+    }
+  },
+};

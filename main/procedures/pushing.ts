@@ -1,0 +1,144 @@
+/**
+ * Supply pushing: control voltage held, the DUT's own supply stepped over a
+ * range, frequency read at each step; the result is the slope in Hz/V and
+ * ppm/V (least-squares line through the mean frequency at each step). The
+ * DUT supply is put back to where it was found on every way out.
+ */
+import type { PushingPlan } from '../../app/contract/plans.ts';
+import type { Clock } from '../time/clock.ts';
+import { ProcedureContext, classifyEnd } from './context.ts';
+import { LimitsError, applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
+import { ProgressReporter, type ProgressListener } from './progress.ts';
+import { RunControl } from './run-control.ts';
+import { goSafe } from './safe-state.ts';
+import { linearSlope, supplyLevels } from './pushing-math.ts';
+import type { BenchRoles, ProcedureOutcome, RunSink, SampleStatus } from './types.ts';
+
+export const PUSHING_COLUMNS = ['time_s', 'control_v', 'supply_v', 'frequency_hz', 'status'] as const;
+
+export interface PushingOptions {
+  bench: BenchRoles;
+  plan: PushingPlan;
+  clock: Clock;
+  sink: RunSink;
+  control?: RunControl;
+  onProgress?: ProgressListener;
+  runId?: string;
+}
+
+export interface PushingOutcome extends ProcedureOutcome {
+  kind: 'pushing';
+  /** Slope of frequency against DUT supply voltage, Hz/V (null with < 2 oscillating steps). */
+  hzPerV: number | null;
+  ppmPerV: number | null;
+  meanHz: number | null;
+  steps: number;
+}
+
+export function checkPushingLimits(plan: PushingPlan): Float64Array {
+  checkLimits(plan.limits, plan.safe);
+  checkControlV('controlV', plan.controlV, plan.limits);
+  if (!(plan.maxSupplyV > 0)) throw new LimitsError('maxSupplyV', `must be greater than 0 V, got ${plan.maxSupplyV}`);
+  for (const key of ['supplyStartV', 'supplyStopV'] as const) {
+    const volts = plan[key];
+    if (!(volts >= 0)) throw new LimitsError(key, `${volts} V is negative`);
+    if (volts > plan.maxSupplyV) throw new LimitsError(key, `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V); the plan is refused`);
+  }
+  if (!(plan.supplyStepV > 0)) throw new LimitsError('supplyStepV', `must be greater than 0 V, got ${plan.supplyStepV}`);
+  return supplyLevels(plan.supplyStartV, plan.supplyStopV, plan.supplyStepV);
+}
+
+export async function runPushing(options: PushingOptions): Promise<PushingOutcome> {
+  const { bench, plan, clock, sink } = options;
+  const levels = checkPushingLimits(plan);
+  const control = options.control ?? new RunControl();
+  const ctx = new ProcedureContext(clock, bench, sink);
+  const progress = new ProgressReporter(clock, 'pushing', options.runId ?? '', levels.length, options.onProgress);
+  const outcome: PushingOutcome = { kind: 'pushing', status: 'complete', reason: null, failure: null, rowsWritten: 0, safeStateOk: true, hzPerV: null, ppmPerV: null, meanHz: null, steps: 0 };
+  const channel = bench.controlChannel;
+  const dutChannel = bench.dutSupplyChannel;
+  const meanHz = new Float64Array(levels.length).fill(Number.NaN);
+  let restoreDut: { volts: number; on: boolean } | null = null;
+  control.onPauseChange((paused) => ctx.event({ type: paused ? 'pause' : 'resume' }));
+  ctx.event({ type: 'start', channel, dutChannel, steps: levels.length });
+  try {
+    await control.checkpoint(clock);
+    restoreDut = { volts: await bench.supply.getVoltageSetpoint(dutChannel), on: await bench.supply.getOutput(dutChannel) };
+    ctx.event({ type: 'dut-supply-found', volts: restoreDut.volts, on: restoreDut.on });
+    const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
+    ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV, maxSupplyV: plan.maxSupplyV });
+    await bench.counter.setGate(plan.gateS);
+    await bench.supply.setVoltage(channel, plan.controlV);
+    await bench.supply.setOutput(channel, true);
+    await bench.supply.setVoltage(dutChannel, levels[0] as number);
+    if (!restoreDut.on) await bench.supply.setOutput(dutChannel, true);
+    ctx.event({ type: 'output-on', channel, controlV: plan.controlV, dutChannel });
+
+    for (let i = 0; i < levels.length; i++) {
+      await control.checkpoint(clock);
+      const supplyV = levels[i] as number;
+      await bench.supply.setVoltage(dutChannel, supplyV);
+      if (plan.settleS > 0) await clock.sleep(plan.settleS, control.signal);
+      let sum = 0;
+      let ok = 0;
+      let last: { frequencyHz: number; status: SampleStatus } = { frequencyHz: Number.NaN, status: 'error' };
+      for (let r = 0; r < plan.readingsPerPoint; r++) {
+        const reading = await ctx.readFrequency();
+        ctx.row({ time_s: ctx.timeS(), control_v: plan.controlV, supply_v: supplyV, frequency_hz: reading.frequencyHz, status: reading.status });
+        if (reading.status === 'ok') {
+          sum += reading.frequencyHz;
+          ok++;
+        }
+        last = reading;
+      }
+      await sink.flush();
+      if (ok > 0) meanHz[i] = sum / ok;
+      outcome.steps = i + 1;
+      progress.report('reading', i + 1, { controlV: plan.controlV, frequencyHz: last.frequencyHz, status: last.status });
+    }
+    const fit = linearSlope(levels, meanHz);
+    if (fit !== null) {
+      outcome.hzPerV = fit.slope;
+      outcome.meanHz = fit.meanY;
+      outcome.ppmPerV = (fit.slope / fit.meanY) * 1e6;
+      ctx.event({ type: 'pushing-result', hzPerV: outcome.hzPerV, ppmPerV: outcome.ppmPerV, meanHz: outcome.meanHz });
+    }
+  } catch (error) {
+    const { reason, failure } = classifyEnd(error);
+    outcome.status = 'aborted';
+    outcome.reason = reason;
+    outcome.failure = failure;
+    ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+  } finally {
+    control.onPauseChange(null);
+    const record = (event: { type: string; [key: string]: unknown }): void => ctx.event(event);
+    const safe = await goSafe(bench, channel, plan.safe, record);
+    let restored = true;
+    if (restoreDut !== null) {
+      const found = restoreDut;
+      restored = await bestEffort(() => bench.supply.setVoltage(dutChannel, found.volts), 'dut-supply-restore', record);
+      if (!found.on) restored = (await bestEffort(() => bench.supply.setOutput(dutChannel, false), 'dut-supply-off', record)) && restored;
+    }
+    outcome.safeStateOk = safe.ok && restored;
+    outcome.rowsWritten = ctx.rowsWritten;
+    ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
+    ctx.dispose();
+    try {
+      await sink.flush();
+    } catch (error) {
+      outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
+    }
+  }
+  return outcome;
+}
+
+async function bestEffort(action: () => Promise<void>, step: string, record: (event: { type: string; [key: string]: unknown }) => void): Promise<boolean> {
+  try {
+    await action();
+    record({ type: 'safe-state', step, ok: true });
+    return true;
+  } catch (error) {
+    record({ type: 'safe-state', step, ok: false, error: error instanceof Error ? error.message : String(error) });
+    return false;
+  }
+}

@@ -1,0 +1,179 @@
+/**
+ * Automatic settling after a control-voltage step: read until the settling
+ * error still left is within a tolerance, up to a maximum wait — so a fast
+ * DUT is not held back and a slow one is not read early.
+ *
+ * Model: the tuning port settles like a first-order lag (common practice for
+ * an RC-filtered tuning line), so the distance to the final frequency decays
+ * as e^(−t/τ). Two rules, depending on what is known:
+ *
+ * 1. τ known (learned, see settle-tau.ts / settle-probe.ts) and the settled
+ *    frequency before the step known: the part of the step already made,
+ *    f − f_before = A·(1 − e^(−t/τ)), gives the step A and so what is left,
+ *    A·e^(−t/τ); A is never taken smaller than the previous step's size (on
+ *    a smooth curve steps are alike, and a few counts of step can hide in the
+ *    quantisation of an early reading). The next reading is placed where the
+ *    rest should be half the tolerance — one jump instead of creeping up.
+ * 2. Otherwise: two readings Δ apart differ by d = rem·(e^(Δ/τ) − 1), so
+ *    rem = d / (e^(Δ/τ) − 1), which grows with τ; with τ taken as the time
+ *    since the step (T), the test covers any τ up to T, and readings are
+ *    spaced by T/2 so waiting longer covers slower DUTs. A port slower than
+ *    T that moves less than a count per reading cannot be told from a settled
+ *    one by any test that short — hence rule 1, the probe, and `maxS`.
+ *
+ * τ is used with a 25 % margin. Each difference carries the counter's ±1-count
+ * quantisation (resolution 1/gate Hz, common practice) and the DUT's scatter;
+ * rule 2 takes that much off (else a settled, noisy DUT would wait for maxS),
+ * rule 1 does not (it may only err towards waiting). No-signal readings say
+ * nothing about settling: they are believed after 3τ when τ is known, after
+ * maxS right after switch-on, else at once. Tolerance: `toleranceCounts`
+ * counts, or three times the previous point's scatter, whichever is larger.
+ */
+import type { Clock } from '../time/clock.ts';
+import type { CounterReading } from './read-counter.ts';
+import { TimeConstantEstimate } from './settle-tau.ts';
+
+export { TimeConstantEstimate } from './settle-tau.ts';
+
+export interface AutoSettleOptions {
+  gateS: number;
+  maxS: number;
+  toleranceCounts: number;
+  /** Standard deviation of the readings at the previous point, Hz (0 if unknown). */
+  scatterHz: number;
+  /** The output has just been switched on: the tuning port starts from 0 V, a step as large as it gets. */
+  afterOutputOn?: boolean;
+  /** Filled with the ok settling readings (time since the step, Hz), for learning τ afterwards. */
+  trace?: SettleTrace;
+  /**
+   * Size of the previous step in frequency, Hz (0 if unknown). On a smooth
+   * curve the next step is alike; a few counts of step can hide in the
+   * quantisation of the first readings, this cannot.
+   */
+  expectedStepHz?: number;
+}
+
+/** Preallocated record of one point's settling readings. */
+export interface SettleTrace {
+  timesS: Float64Array;
+  valuesHz: Float64Array;
+  n: number;
+}
+
+export interface SettleOutcome {
+  settled: boolean;
+  /** Seconds from the step to the end of the last settling reading. */
+  elapsedS: number;
+  readings: number;
+  toleranceHz: number;
+}
+
+/** Learned τ is taken this much larger when bounding the remaining error (estimates scatter). */
+const TAU_MARGIN = 1.25;
+
+/** Scatter counts at most ten tolerances, so one wild point cannot loosen the next. */
+export function settleToleranceHz(options: AutoSettleOptions): number {
+  const countsHz = options.toleranceCounts / options.gateS;
+  return Math.max(countsHz, Math.min(3 * options.scatterHz, 10 * countsHz));
+}
+
+/** Difference allowed between two readings for noise alone, Hz. */
+export function settleNoiseHz(options: AutoSettleOptions): number {
+  const countHz = 1 / options.gateS;
+  return countHz + 2 * Math.min(options.scatterHz, 10 * countHz);
+}
+
+/** Upper bound of the settling error left at the later of two readings Δ apart. */
+export function remainingBoundHz(differenceHz: number, noiseHz: number, spacingS: number, tauS: number): number {
+  const signal = Math.max(0, Math.abs(differenceHz) - noiseHz);
+  return signal / Math.expm1(spacingS / tauS);
+}
+
+/**
+ * Waits for the DUT to settle. `stepAtS` is clock time of the voltage write;
+ * `read` takes one counter reading (it may throw on a dropped link).
+ */
+export async function settleAuto(
+  clock: Clock,
+  stepAtS: number,
+  read: () => Promise<CounterReading>,
+  options: AutoSettleOptions,
+  learned: TimeConstantEstimate,
+  signal?: AbortSignal,
+  /** Mean frequency settled at the previous setpoint (NaN if none): the value at the step. */
+  beforeStepHz = Number.NaN,
+): Promise<SettleOutcome> {
+  const tolHz = settleToleranceHz(options);
+  const noiseHz = settleNoiseHz(options);
+  const { gateS, maxS } = options;
+  const deadlineS = stepAtS + maxS;
+  // A reading averages its gate: its time is the gate's centre.
+  const half = gateS / 2;
+  const trace = options.trace;
+  if (trace) trace.n = 0;
+  const note = (atS: number, reading: CounterReading): void => {
+    if (!trace || reading.status !== 'ok' || trace.n >= trace.timesS.length) return;
+    trace.timesS[trace.n] = atS - half - stepAtS;
+    trace.valuesHz[trace.n] = reading.frequencyHz;
+    trace.n++;
+  };
+  let previous = await read();
+  let previousAtS = clock.now();
+  note(previousAtS, previous);
+  let readings = 1;
+  let nextSpacingS = gateS;
+  for (;;) {
+    if (previousAtS >= deadlineS) return { settled: false, elapsedS: previousAtS - stepAtS, readings, toleranceHz: tolHz };
+    // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end.
+    const waitS = Math.min(nextSpacingS - gateS, deadlineS - previousAtS);
+    if (waitS > 0) await clock.sleep(waitS, signal);
+    const current = await read();
+    const currentAtS = clock.now();
+    note(currentAtS, current);
+    readings++;
+    if (previous.status === 'no-signal' && current.status === 'no-signal') {
+      // No signal says nothing about how far the port still has to go: a DUT
+      // whose port is still on its way up through the stalled region reads the
+      // same. Believe it after 3 learned time constants (5 % left), or after
+      // maxS right after switch-on (a step from 0 V), else at once.
+      const sinceStepS = currentAtS - stepAtS;
+      const learnedTau = learned.tauS;
+      const trustAfterS = options.afterOutputOn === true ? maxS : learnedTau === null ? 0 : 3 * learnedTau;
+      if (sinceStepS >= trustAfterS) return { settled: true, elapsedS: sinceStepS, readings, toleranceHz: tolHz };
+      nextSpacingS = Math.max(gateS, Math.min(0.5 * sinceStepS, trustAfterS - sinceStepS));
+      previous = current;
+      previousAtS = currentAtS;
+      continue;
+    }
+    if (previous.status === 'ok' && current.status === 'ok') {
+      const spacingS = currentAtS - previousAtS;
+      const learnedTau = learned.tauS;
+      if (learnedTau !== null && Number.isFinite(beforeStepHz)) {
+        // τ known and the settled value before the step known: the part of the step
+        // already done, f − f_before = A·(1 − e^(−t/τ)), gives what is left, A·e^(−t/τ).
+        const tauEffS = TAU_MARGIN * learnedTau;
+        const centreS = currentAtS - half - stepAtS;
+        const doneFraction = -Math.expm1(-centreS / tauEffS);
+        // No noise taken off here: the estimate may only err towards waiting longer.
+        const stepHz = Math.max(Math.abs(current.frequencyHz - beforeStepHz) / doneFraction, options.expectedStepHz ?? 0);
+        const remHz = stepHz * Math.exp(-centreS / tauEffS);
+        if (remHz <= tolHz) return { settled: true, elapsedS: currentAtS - stepAtS, readings, toleranceHz: tolHz };
+        const targetCentreS = tauEffS * Math.log(Math.max(1, stepHz / (tolHz / 2)));
+        nextSpacingS = Math.max(gateS, targetCentreS + half + stepAtS - currentAtS);
+      } else {
+        // Without τ: bound the remainder by the last difference, taking τ ≤ time since the step.
+        const tauEffS = learnedTau === null ? currentAtS - stepAtS : TAU_MARGIN * learnedTau;
+        const remHz = remainingBoundHz(current.frequencyHz - previous.frequencyHz, noiseHz, spacingS, tauEffS);
+        if (remHz <= tolHz) return { settled: true, elapsedS: currentAtS - stepAtS, readings, toleranceHz: tolHz };
+        nextSpacingS =
+          learnedTau === null
+            ? Math.max(gateS, 0.5 * (currentAtS - stepAtS))
+            : Math.max(gateS, learnedTau * Math.log(Math.max(1, remHz / (tolHz / 3))));
+      }
+    } else {
+      nextSpacingS = Math.max(gateS, 0.5 * (currentAtS - stepAtS));
+    }
+    previous = current;
+    previousAtS = currentAtS;
+  }
+}

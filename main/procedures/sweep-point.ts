@@ -1,0 +1,153 @@
+/**
+ * One point of a sweep: write the control voltage, settle, read back the
+ * control voltage when the supply can, then take the readings, each recorded
+ * as it arrives, and flush at the end of the point.
+ */
+import type { SweepPlan } from '../../app/contract/plans.ts';
+import { InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import type { ProcedureContext } from './context.ts';
+import { scatterHz } from './context.ts';
+import { TimeConstantEstimate, settleAuto, settleNoiseHz, type SettleTrace } from './settle.ts';
+import type { Direction } from './sweep-points.ts';
+import type { SampleStatus } from './types.ts';
+
+/** samples.csv columns of a sweep (CONTRACTS.md names first, then ours). */
+export const SWEEP_COLUMNS = [
+  'time_s',
+  'control_v',
+  'control_meas_v',
+  'frequency_hz',
+  'direction',
+  'status',
+  'refined',
+  'point_index',
+  'settle_s',
+] as const;
+
+export interface PointResult {
+  /** At least one reading oscillated. */
+  oscillating: boolean;
+  /** Every reading was no-signal (failed readings say nothing either way). */
+  stalled: boolean;
+  settled: boolean;
+  settleS: number;
+  lastFrequencyHz: number;
+  lastStatus: SampleStatus;
+}
+
+export interface PointState {
+  /** Scatter of the previous point's readings, Hz (feeds the settle tolerance). */
+  scatterHz: number;
+  /** Reused per point, so the hot loop allocates no arrays. */
+  readingsHz: Float64Array;
+  /** The DUT's tuning-port time constant, learned as the sweep goes. */
+  tau: TimeConstantEstimate;
+  /** Mean of the previous point's ok readings, Hz (NaN if none). */
+  lastMeanHz: number;
+  /** |change of mean frequency| over the previous step, Hz (0 if unknown). */
+  lastStepHz: number;
+  trace: SettleTrace;
+}
+
+export function newPointState(plan: SweepPlan): PointState {
+  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 } };
+}
+
+export async function measurePoint(
+  ctx: ProcedureContext,
+  plan: SweepPlan,
+  state: PointState,
+  point: { controlV: number; direction: Direction; refined: boolean; index: number; afterOutputOn?: boolean },
+  signal: AbortSignal,
+): Promise<PointResult> {
+  const { supply } = ctx.bench;
+  const channel = ctx.bench.controlChannel;
+  const stepAtS = ctx.clock.now();
+  await supply.setVoltage(channel, point.controlV);
+
+  let settled = true;
+  if (plan.settle.mode === 'fixed') {
+    if (plan.settle.seconds > 0) await ctx.clock.sleep(plan.settle.seconds, signal);
+  } else {
+    const outcome = await settleAuto(
+      ctx.clock,
+      stepAtS,
+      () => ctx.readFrequency(),
+      { gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, afterOutputOn: point.afterOutputOn, trace: state.trace, expectedStepHz: state.lastStepHz },
+      state.tau,
+      signal,
+      state.lastMeanHz,
+    );
+    settled = outcome.settled;
+    if (!settled) {
+      ctx.event({ type: 'settle-timeout', point_index: point.index, control_v: point.controlV, waited_s: outcome.elapsedS });
+    }
+  }
+  const settleS = ctx.clock.now() - stepAtS;
+
+  const measuredV = await measureControlV(ctx, channel);
+  let oscillating = false;
+  let noSignal = 0;
+  let lastFrequencyHz = Number.NaN;
+  let lastStatus: SampleStatus = 'error';
+  const readings = state.readingsHz;
+  for (let r = 0; r < plan.readingsPerPoint; r++) {
+    const reading = await ctx.readFrequency();
+    readings[r] = reading.frequencyHz;
+    if (reading.status === 'ok') oscillating = true;
+    if (reading.status === 'no-signal') noSignal++;
+    lastFrequencyHz = reading.frequencyHz;
+    lastStatus = reading.status;
+    ctx.row({
+      time_s: ctx.timeS(),
+      control_v: point.controlV,
+      control_meas_v: measuredV,
+      frequency_hz: reading.frequencyHz,
+      direction: point.direction,
+      status: reading.status,
+      refined: point.refined ? 1 : 0,
+      point_index: point.index,
+      settle_s: settleS,
+    });
+  }
+  await ctx.sink.flush();
+  const noiseHz = plan.settle.mode === 'auto' ? settleNoiseHz({ gateS: plan.gateS, maxS: 0, toleranceCounts: 0, scatterHz: state.scatterHz }) : 0;
+  state.scatterHz = scatterHz(readings, plan.readingsPerPoint);
+  const meanHz = meanOf(readings, plan.readingsPerPoint);
+  state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.lastMeanHz) && !point.refined ? Math.abs(meanHz - state.lastMeanHz) : 0;
+  state.lastMeanHz = meanHz;
+  // Learn the port's time constant from this point's settling, now that its end value is known
+  // (not from switch-on: that step crosses the stall edge, where f(V) is far from a straight line).
+  if (plan.settle.mode === 'auto' && point.afterOutputOn !== true && Number.isFinite(state.lastMeanHz)) {
+    state.tau.fitPoint(state.trace.timesS, state.trace.valuesHz, state.trace.n, state.lastMeanHz, noiseHz);
+  }
+  return { oscillating, stalled: noSignal === plan.readingsPerPoint, settled, settleS, lastFrequencyHz, lastStatus };
+}
+
+/** Measured control voltage, or NaN when the supply cannot (or fails to) read it. */
+async function measureControlV(ctx: ProcedureContext, channel: number): Promise<number> {
+  if (!ctx.bench.supply.capabilities.measureVoltage) return Number.NaN;
+  try {
+    return await ctx.bench.supply.measureVoltage(channel);
+  } catch (error) {
+    // A failed read-back loses one column of one point, not the run.
+    if (error instanceof TimeoutError || error instanceof InstrumentError || error instanceof ReplyFormatError) {
+      ctx.event({ type: 'fault', role: 'supply', operation: 'measure-voltage', error: error.message, errorName: error.name });
+      return Number.NaN;
+    }
+    throw error;
+  }
+}
+
+/** Mean of the non-NaN values (NaN when none). */
+function meanOf(values: Float64Array, n: number): number {
+  let sum = 0;
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    const v = values[i] as number;
+    if (Number.isNaN(v)) continue;
+    sum += v;
+    count++;
+  }
+  return count > 0 ? sum / count : Number.NaN;
+}

@@ -1,0 +1,146 @@
+/**
+ * The gain sweep: limits checked and applied, output on, each setpoint
+ * settled and read, the stall edge refined, and the safe state on every way
+ * out (completion, stop, pause timeout, instrument error, dropped link,
+ * signal, bug). The engine never leaves a powered DUT behind a throw.
+ */
+import type { SweepPlan } from '../../app/contract/plans.ts';
+import type { Clock } from '../time/clock.ts';
+import { ProcedureContext, classifyEnd } from './context.ts';
+import { applyLimits, checkLimits, ovpLevelV } from './limits.ts';
+import { ProgressReporter, type ProgressListener } from './progress.ts';
+import { bisectEdge, bisectionSteps, findEdge, type EdgeBracket } from './refine-edge.ts';
+import { RunControl } from './run-control.ts';
+import { goSafe } from './safe-state.ts';
+import { measurePoint, newPointState } from './sweep-point.ts';
+import { probeTarget, probeTimeConstant } from './settle-probe.ts';
+import { sweepSchedule } from './sweep-points.ts';
+import type { BenchRoles, ProcedureOutcome, RunSink } from './types.ts';
+
+export { SWEEP_COLUMNS } from './sweep-point.ts';
+
+export interface SweepOptions {
+  bench: BenchRoles;
+  plan: SweepPlan;
+  clock: Clock;
+  sink: RunSink;
+  /** Pause/resume/stop; a fresh one (never stopped) when omitted. */
+  control?: RunControl;
+  onProgress?: ProgressListener;
+  runId?: string;
+}
+
+export interface SweepOutcome extends ProcedureOutcome {
+  kind: 'sweep';
+  pointsDone: number;
+  pointsTotal: number;
+  refinedPoints: number;
+  /** Final stall-edge bracket, when the sweep found one. */
+  edge: EdgeBracket | null;
+}
+
+/**
+ * Runs a sweep. Throws LimitsError (before touching any instrument) when the
+ * plan exceeds its limits; otherwise always resolves, with the supply left
+ * in the safe state.
+ */
+export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
+  const { bench, plan, clock, sink } = options;
+  checkLimits(plan.limits, plan.safe);
+  const schedule = sweepSchedule(plan);
+  const control = options.control ?? new RunControl();
+  const ctx = new ProcedureContext(clock, bench, sink);
+  const levels = schedule.levels;
+  const stalled = [new Uint8Array(levels.length), new Uint8Array(levels.length)];
+  const oscillating = [new Uint8Array(levels.length), new Uint8Array(levels.length)];
+  const progress = new ProgressReporter(clock, 'sweep', options.runId ?? '', schedule.controlV.length, options.onProgress);
+  const outcome: SweepOutcome = {
+    kind: 'sweep',
+    status: 'complete',
+    reason: null,
+    failure: null,
+    rowsWritten: 0,
+    safeStateOk: true,
+    pointsDone: 0,
+    pointsTotal: schedule.controlV.length,
+    refinedPoints: 0,
+    edge: null,
+  };
+  control.onPauseChange((paused) => ctx.event({ type: paused ? 'pause' : 'resume' }));
+  const channel = bench.controlChannel;
+  ctx.event({ type: 'start', points: schedule.controlV.length, channel });
+  try {
+    await control.checkpoint(clock);
+    const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
+    ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
+    await bench.counter.setGate(plan.gateS);
+    await bench.supply.setVoltage(channel, schedule.controlV[0] as number);
+    await bench.supply.setOutput(channel, true);
+    ctx.event({ type: 'output-on', channel, controlV: schedule.controlV[0] });
+
+    const state = newPointState(plan);
+    let probed = false;
+    for (let i = 0; i < schedule.controlV.length; i++) {
+      await control.checkpoint(clock);
+      const controlV = schedule.controlV[i] as number;
+      const pass = schedule.pass[i] as number;
+      const direction = pass === 0 ? 'up' : 'down';
+      const result = await measurePoint(ctx, plan, state, { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 }, control.signal);
+      const level = pass === 0 ? i : schedule.controlV.length - 1 - i;
+      (stalled[pass] as Uint8Array)[level] = result.stalled ? 1 : 0;
+      (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
+      outcome.pointsDone = i + 1;
+      progress.report('reading', i + 1, { controlV, frequencyHz: result.lastFrequencyHz, status: result.lastStatus });
+      if (plan.settle.mode === 'auto' && !probed && result.oscillating && i + 1 < schedule.controlV.length && state.tau.tauS === null) {
+        probed = true;
+        const target = probeTarget(levels, controlV, pass === 0);
+        if (target !== null) await probeTimeConstant(ctx, plan, state, target, control.signal);
+        // The next point starts from the probe voltage: no trustworthy "before" value.
+        state.lastMeanHz = Number.NaN;
+        state.lastStepHz = 0;
+      }
+    }
+
+    const bracket = plan.direction === 'down'
+      ? findEdge(levels, stalled[1] as Uint8Array, oscillating[1] as Uint8Array, 'down')
+      : findEdge(levels, stalled[0] as Uint8Array, oscillating[0] as Uint8Array, 'up');
+    outcome.edge = bracket;
+    if (bracket !== null && plan.refineEdgeV > 0) {
+      const steps = bisectionSteps(bracket.oscillatingV - bracket.stalledV, plan.refineEdgeV);
+      progress.total += steps;
+      ctx.event({ type: 'refine-start', stalledV: bracket.stalledV, oscillatingV: bracket.oscillatingV, steps });
+      let index = schedule.controlV.length;
+      outcome.edge = await bisectEdge(bracket, plan.refineEdgeV, async (controlV) => {
+        await control.checkpoint(clock);
+        const result = await measurePoint(ctx, plan, state, { controlV, direction: bracket.direction, refined: true, index }, control.signal);
+        index++;
+        outcome.refinedPoints++;
+        progress.report('refining', index, { controlV, frequencyHz: result.lastFrequencyHz, status: result.lastStatus });
+        if (result.oscillating) return true;
+        return result.stalled ? false : null;
+      });
+      ctx.event({ type: 'refine-end', stalledV: outcome.edge.stalledV, oscillatingV: outcome.edge.oscillatingV });
+    }
+  } catch (error) {
+    const { reason, failure } = classifyEnd(error);
+    outcome.status = 'aborted';
+    outcome.reason = reason;
+    outcome.failure = failure;
+    ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+  } finally {
+    control.onPauseChange(null);
+    progress.report('finishing', outcome.pointsDone, null);
+    const safe = await goSafe(bench, channel, plan.safe, (event) => ctx.event(event));
+    outcome.safeStateOk = safe.ok;
+    outcome.rowsWritten = ctx.rowsWritten;
+    ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
+    ctx.dispose();
+    try {
+      await sink.flush();
+    } catch (error) {
+      // The data already flushed stays; a failing disk must not skip the safe state (done above).
+      outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
+    }
+  }
+  return outcome;
+}
