@@ -1,0 +1,186 @@
+import { describe, expect, it } from 'vitest';
+import type { BenchEvent } from '../contract/bench-api.ts';
+import { BenchCallError } from './bench-call-error.ts';
+import { socketUrlFor } from './pick-bridge.ts';
+import { createWsBench, type SocketLike, type Timers } from './ws-client.ts';
+
+class FakeSocket implements SocketLike {
+  readyState = 0;
+  sent: string[] = [];
+  onopen: (() => void) | null = null;
+  onclose: (() => void) | null = null;
+  onerror: (() => void) | null = null;
+  onmessage: ((message: { data: unknown }) => void) | null = null;
+  constructor(readonly url: string) {}
+  send(data: string): void {
+    if (this.readyState !== 1) throw new Error('send on a socket that is not open');
+    this.sent.push(data);
+  }
+  close(): void {
+    this.drop();
+  }
+  accept(): void {
+    this.readyState = 1;
+    this.onopen?.();
+  }
+  drop(): void {
+    this.readyState = 3;
+    this.onclose?.();
+  }
+  reply(message: unknown): void {
+    this.onmessage?.({ data: JSON.stringify(message) });
+  }
+  calls(): { id: number; method: string; params: unknown[] }[] {
+    return this.sent.map((text) => JSON.parse(text) as { id: number; method: string; params: unknown[] });
+  }
+}
+
+class FakeTimers implements Timers {
+  queue: { callback: () => void; delayMs: number }[] = [];
+  setTimeout(callback: () => void, delayMs: number): unknown {
+    const entry = { callback, delayMs };
+    this.queue.push(entry);
+    return entry;
+  }
+  clearTimeout(handle: unknown): void {
+    this.queue = this.queue.filter((entry) => entry !== handle);
+  }
+  runNext(): number {
+    const entry = this.queue.shift();
+    if (!entry) throw new Error('no timer queued');
+    entry.callback();
+    return entry.delayMs;
+  }
+}
+
+function setup() {
+  const sockets: FakeSocket[] = [];
+  const timers = new FakeTimers();
+  const bench = createWsBench({
+    url: 'ws://127.0.0.1:7788/api?token=abc',
+    createSocket: (url) => {
+      const socket = new FakeSocket(url);
+      sockets.push(socket);
+      return socket;
+    },
+    timers,
+    reconnectDelaysMs: [100, 200, 400],
+  });
+  const last = () => {
+    const socket = sockets[sockets.length - 1];
+    if (!socket) throw new Error('no socket');
+    return socket;
+  };
+  return { bench, sockets, timers, last };
+}
+
+const connectionState = { connected: true, simulated: true, roles: [], error: null };
+
+describe('WebSocket BenchApi client', () => {
+  it('builds the socket URL from the page location and its token', () => {
+    expect(socketUrlFor({ protocol: 'http:', host: '127.0.0.1:7788', search: '?token=a%2Bb' })).toBe('ws://127.0.0.1:7788/api?token=a%2Bb');
+    expect(socketUrlFor({ protocol: 'https:', host: 'lab.local', search: '' })).toBe('wss://lab.local/api?token=');
+  });
+
+  it('queues calls until the socket opens, then matches replies by id, out of order', async () => {
+    const { bench, last } = setup();
+    const first = bench.api.getConnection();
+    const second = bench.api.listProfiles();
+    expect(last().sent).toHaveLength(0);
+    last().accept();
+    expect(bench.link.getState()).toBe('open');
+    const calls = last().calls();
+    expect(calls.map((c) => c.method)).toEqual(['getConnection', 'listProfiles']);
+    expect(calls[0]?.id).not.toBe(calls[1]?.id);
+    last().reply({ id: calls[1]?.id, ok: true, result: [{ name: 'counter-scpi', role: 'counter' }] });
+    last().reply({ id: calls[0]?.id, ok: true, result: connectionState });
+    await expect(second).resolves.toEqual([{ name: 'counter-scpi', role: 'counter' }]);
+    await expect(first).resolves.toEqual(connectionState);
+  });
+
+  it('passes parameters through unchanged', () => {
+    const { bench, last } = setup();
+    last().accept();
+    void bench.api.renameRun('run-7', 'clock-mult-03');
+    expect(last().calls()[0]).toMatchObject({ method: 'renameRun', params: ['run-7', 'clock-mult-03'] });
+  });
+
+  it('rejects with the field named by main', async () => {
+    const { bench, last } = setup();
+    last().accept();
+    const pending = bench.api.startDrift({} as never, 'dut');
+    const id = last().calls()[0]?.id;
+    last().reply({ id, ok: false, error: { message: 'expected a number', field: 'plan.controlV' } });
+    const error = await pending.catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(BenchCallError);
+    expect((error as BenchCallError).field).toBe('plan.controlV');
+    expect((error as BenchCallError).message).toBe('plan.controlV: expected a number');
+    expect((error as BenchCallError).linkLost).toBe(false);
+  });
+
+  it('rejects a reply that does not match the method result shape, naming the field', async () => {
+    const { bench, last } = setup();
+    last().accept();
+    const pending = bench.api.getConnection();
+    last().reply({ id: last().calls()[0]?.id, ok: true, result: { connected: 'yes' } });
+    const error = (await pending.catch((e: unknown) => e)) as BenchCallError;
+    expect(error.field).toBe('result.connected');
+  });
+
+  it('fails calls in flight when the link drops, reconnects with growing delays, and sends queued calls after', async () => {
+    const { bench, sockets, timers, last } = setup();
+    const states: string[] = [];
+    bench.link.subscribe((s) => states.push(s));
+    last().accept();
+    const inFlight = bench.api.listRuns();
+    last().drop();
+    const error = (await inFlight.catch((e: unknown) => e)) as BenchCallError;
+    expect(error.linkLost).toBe(true);
+    expect(bench.link.getState()).toBe('lost');
+
+    const queued = bench.api.listRuns();
+    expect(timers.runNext()).toBe(100);
+    expect(sockets).toHaveLength(2);
+    last().drop(); // the server is still away
+    expect(timers.runNext()).toBe(200);
+    last().drop();
+    expect(timers.runNext()).toBe(400);
+    last().drop();
+    expect(timers.runNext()).toBe(400); // the last delay repeats
+    last().accept();
+    expect(states).toEqual(['open', 'lost', 'open']);
+    const call = last().calls()[0];
+    expect(call?.method).toBe('listRuns');
+    last().reply({ id: call?.id, ok: true, result: [] });
+    await expect(queued).resolves.toEqual([]);
+    // After a good connection the delays start again from the first.
+    last().drop();
+    expect(timers.runNext()).toBe(100);
+  });
+
+  it('delivers validated events and reports malformed ones as error events', () => {
+    const { bench, last } = setup();
+    const events: BenchEvent[] = [];
+    bench.api.subscribe((e) => events.push(e));
+    last().accept();
+    last().reply({ event: { type: 'samples', runId: 'r1', rows: [{ control_v: 1, frequency_hz: null, status: 'no-signal' }] } });
+    last().reply({ event: { type: 'live', readout: { controlSetV: 'x' } } });
+    last().onmessage?.({ data: 'not json' });
+    expect(events[0]?.type).toBe('samples');
+    const samples = events[0] as Extract<BenchEvent, { type: 'samples' }>;
+    expect(Number.isNaN(samples.rows[0]?.frequency_hz)).toBe(true);
+    expect(events[1]).toMatchObject({ type: 'error' });
+    expect((events[1] as { message: string }).message).toContain('readout.controlSetV');
+    expect(events[2]).toMatchObject({ type: 'error', message: 'main sent a message that is not JSON' });
+  });
+
+  it('ignores replies for unknown ids and stops reconnecting after close()', () => {
+    const { bench, sockets, timers, last } = setup();
+    last().accept();
+    last().reply({ id: 999, ok: true, result: null });
+    bench.link.close();
+    expect(bench.link.getState()).toBe('lost');
+    expect(timers.queue).toHaveLength(0);
+    expect(sockets).toHaveLength(1);
+  });
+});

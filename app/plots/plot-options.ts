@@ -1,0 +1,92 @@
+/** Shared option pieces so every chart reads the same: themed axes, point and line series. */
+import type uPlot from 'uplot';
+import { siPrefixFor } from '../analysis/format-si.ts';
+import { si } from '../views/units.ts';
+import type { PlotColors } from './plot-colors.ts';
+
+export function siAxis(colors: PlotColors, label: string, unit: string, extra: Partial<uPlot.Axis> = {}): uPlot.Axis {
+  return {
+    label,
+    labelSize: 18,
+    labelGap: 0,
+    stroke: colors.text,
+    grid: { stroke: colors.grid, width: 1 },
+    ticks: { stroke: colors.grid, width: 1 },
+    size: 44,
+    values: (_u, values, _axis, _space, incr) => tickLabels(values, incr, unit),
+    ...extra,
+  };
+}
+
+/** Fewest decimals that write a tick step exactly (0.25 → 2, 0.5 → 1, 5 → 0). */
+export function decimalsFor(step: number): number {
+  for (let d = 0; d < 9; d += 1) {
+    const scaled = step * 10 ** d;
+    if (Math.abs(scaled - Math.round(scaled)) <= 1e-6 * Math.max(1, scaled)) return d;
+  }
+  return 9;
+}
+
+/**
+ * Tick labels with one prefix per axis and just enough decimals to tell
+ * neighbouring ticks apart (2.89990 MHz, 2.89995 MHz rather than 2.90 MHz twice).
+ */
+export function tickLabels(values: readonly (number | null)[], incr: number, unit: string): string[] {
+  let largest = 0;
+  for (const value of values) if (value !== null && Number.isFinite(value)) largest = Math.max(largest, Math.abs(value));
+  const { scale, symbol } = siPrefixFor(largest);
+  const step = incr > 0 && Number.isFinite(incr) ? incr / scale : 1;
+  const decimals = decimalsFor(step);
+  return values.map((value) => (value === null || !Number.isFinite(value) ? '' : `${(value / scale).toFixed(decimals).replace(/^-/, '−')} ${symbol}${unit}`.trimEnd()));
+}
+
+/** Axis for log scales: each tick takes its own prefix (100 Hz, 1 kHz, 10 kHz …). */
+export function logSiAxis(colors: PlotColors, label: string, unit: string): uPlot.Axis {
+  return { ...siAxis(colors, label, unit), values: (_u, values) => values.map((value) => (value === null ? '' : si(value, unit, 2))) };
+}
+
+/** Time axis in s, min or h depending on the span shown, so a night's log reads in hours. */
+export function timeAxis(colors: PlotColors, label = 'Time'): uPlot.Axis {
+  return {
+    ...siAxis(colors, label, 's'),
+    values: (u, values, _axis, _space, incr) => {
+      const span = (u.scales.x?.max ?? 0) - (u.scales.x?.min ?? 0);
+      const [scale, unit] = span >= 7200 ? [3600, 'h'] : span >= 120 ? [60, 'min'] : [1, 's'];
+      const decimals = decimalsFor(incr / scale);
+      return values.map((value) => (value === null ? '' : `${(value / scale).toFixed(decimals)} ${unit}`));
+    },
+  };
+}
+
+export function xSeries(unit: string, label: string): uPlot.Series {
+  return { label, value: (_u, value) => si(value, unit, 5) };
+}
+
+export function pointSeries(label: string, color: string, unit: string, extra: Partial<uPlot.Series> = {}): uPlot.Series {
+  return {
+    label,
+    stroke: color,
+    fill: undefined,
+    paths: () => null,
+    points: { show: true, size: 6, stroke: color, fill: color },
+    value: (_u, value) => si(value, unit, 6),
+    ...extra,
+  };
+}
+
+export function lineSeries(label: string, color: string, unit: string, extra: Partial<uPlot.Series> = {}): uPlot.Series {
+  return { label, stroke: color, width: 1.5, points: { show: false }, value: (_u, value) => si(value, unit, 6), ...extra };
+}
+
+export function baseOptions(width: number, height: number, series: uPlot.Series[], axes: uPlot.Axis[], extra: Partial<uPlot.Options> = {}): uPlot.Options {
+  return {
+    width,
+    height,
+    series,
+    axes,
+    scales: { x: { time: false } },
+    legend: { show: true, live: true },
+    cursor: { drag: { x: true, y: false } },
+    ...extra,
+  };
+}

@@ -1,0 +1,150 @@
+/**
+ * Saved runs: the list, which ones are picked (for overlay and datasheet),
+ * opened runs as columns, and the last deletion so it can be undone.
+ */
+import { createStore, type StoreApi } from 'zustand/vanilla';
+import type { BenchApi, RunDetail, RunMeta } from '../contract/bench-api.ts';
+import { errorText } from '../bridge/bench-call-error.ts';
+import { columnSetFromStored, type ColumnSet } from './columns.ts';
+
+export interface OpenedRun {
+  detail: RunDetail;
+  columns: ColumnSet;
+  rows: number;
+}
+
+export interface RunsState {
+  runs: RunMeta[];
+  /** Picked run ids, in the order picked. */
+  picked: string[];
+  /** The run shown in detail, if any. */
+  focusId: string | null;
+  opened: Record<string, OpenedRun>;
+  lastDeleted: RunMeta | null;
+  loading: boolean;
+  error: string | null;
+}
+
+export interface RunsActions {
+  refresh(): Promise<void>;
+  open(id: string): Promise<OpenedRun | null>;
+  focus(id: string | null): Promise<void>;
+  togglePick(id: string): void;
+  setPicked(ids: string[]): void;
+  rename(id: string, dutId: string): Promise<void>;
+  addNote(id: string, text: string): Promise<void>;
+  remove(id: string): Promise<void>;
+  undoRemove(): Promise<void>;
+  importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta | null>;
+  upsert(meta: RunMeta): void;
+}
+
+export type RunsStore = StoreApi<RunsState & RunsActions>;
+
+function newestFirst(a: RunMeta, b: RunMeta): number {
+  return b.startedAt.localeCompare(a.startedAt);
+}
+
+export function createRunsStore(bench: BenchApi): RunsStore {
+  return createStore<RunsState & RunsActions>()((set, get) => {
+    async function guarded<T>(work: () => Promise<T>): Promise<T | null> {
+      set({ loading: true, error: null });
+      try {
+        const result = await work();
+        set({ loading: false });
+        return result;
+      } catch (error) {
+        set({ loading: false, error: errorText(error) });
+        return null;
+      }
+    }
+    function forget(id: string): Pick<RunsState, 'opened' | 'picked' | 'focusId'> {
+      const opened = { ...get().opened };
+      delete opened[id];
+      return { opened, picked: get().picked.filter((p) => p !== id), focusId: get().focusId === id ? null : get().focusId };
+    }
+    return {
+      runs: [],
+      picked: [],
+      focusId: null,
+      opened: {},
+      lastDeleted: null,
+      loading: false,
+      error: null,
+      async refresh() {
+        await guarded(async () => set({ runs: [...(await bench.listRuns())].sort(newestFirst) }));
+      },
+      async open(id) {
+        const cached = get().opened[id];
+        // A run still being written is re-read each time; finished runs are cached.
+        if (cached && cached.detail.meta.status !== 'running') return cached;
+        return guarded(async () => {
+          const detail = await bench.openRun(id);
+          performance.mark('tunebench:open-run:fetched');
+          const columns = columnSetFromStored(detail.samples.numeric, detail.samples.text);
+          performance.mark('tunebench:open-run:columns');
+          const opened: OpenedRun = { detail, columns, rows: columns.time_s.length };
+          set({ opened: { ...get().opened, [id]: opened } });
+          return opened;
+        });
+      },
+      async focus(id) {
+        set({ focusId: id });
+        if (id !== null) await get().open(id);
+      },
+      togglePick(id) {
+        const { picked } = get();
+        set({ picked: picked.includes(id) ? picked.filter((p) => p !== id) : [...picked, id] });
+      },
+      setPicked(ids) {
+        set({ picked: ids });
+      },
+      async rename(id, dutId) {
+        const meta = await guarded(() => bench.renameRun(id, dutId));
+        if (meta) get().upsert(meta);
+      },
+      async addNote(id, text) {
+        const done = await guarded(async () => {
+          await bench.addNote(id, text);
+          return true;
+        });
+        if (done) {
+          // The cached copy lacks the note: re-read it.
+          const opened = { ...get().opened };
+          delete opened[id];
+          set({ opened });
+          if (get().focusId === id) void get().open(id);
+          const meta = get().runs.find((r) => r.id === id);
+          const notes = meta ? (meta.dut.notes ? `${meta.dut.notes}\n${text}` : text) : text;
+          if (meta) get().upsert({ ...meta, dut: { ...meta.dut, notes } });
+        }
+      },
+      async remove(id) {
+        const meta = get().runs.find((r) => r.id === id) ?? null;
+        const done = await guarded(async () => {
+          await bench.deleteRun(id);
+          return true;
+        });
+        if (done) set({ ...forget(id), runs: get().runs.filter((r) => r.id !== id), lastDeleted: meta });
+      },
+      async undoRemove() {
+        const deleted = get().lastDeleted;
+        if (!deleted) return;
+        const meta = await guarded(() => bench.restoreRun(deleted.id));
+        if (meta) {
+          set({ lastDeleted: null });
+          get().upsert(meta);
+        }
+      },
+      async importCsv(fileName, csvText, dutId) {
+        const meta = await guarded(() => bench.importCsv(fileName, csvText, dutId));
+        if (meta) get().upsert(meta);
+        return meta;
+      },
+      upsert(meta) {
+        const others = get().runs.filter((r) => r.id !== meta.id);
+        set({ runs: [meta, ...others].sort(newestFirst) });
+      },
+    };
+  });
+}

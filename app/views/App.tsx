@@ -1,0 +1,113 @@
+/** The shell: top bar (name, bench badge, link state, theme), screen rail, the screen. */
+import { useEffect, useSyncExternalStore } from 'react';
+import { SCREENS, type ScreenName, type ThemeChoice } from '../state/settings-store.ts';
+import { useStore } from '../state/use-store.ts';
+import { useApp } from './app-context.ts';
+import { BenchScreen } from './bench/BenchScreen.tsx';
+import { ConnectionBadge } from './ConnectionBadge.tsx';
+import { DatasheetScreen } from './datasheet/DatasheetScreen.tsx';
+import { DriftScreen } from './drift/DriftScreen.tsx';
+import { LoopScreen } from './loop/LoopScreen.tsx';
+import { RunsScreen } from './runs/RunsScreen.tsx';
+import { SweepScreen } from './sweep/SweepScreen.tsx';
+
+const SCREEN_LABEL: Record<ScreenName, string> = {
+  bench: 'Bench',
+  sweep: 'Gain sweep',
+  drift: 'Drift log',
+  runs: 'Run archive',
+  datasheet: 'Gain table',
+  loop: 'Loop filter',
+};
+
+const THEME_LABEL: Record<ThemeChoice, string> = { system: 'Theme: follow system', dark: 'Theme: dark', light: 'Theme: light' };
+
+function usePrefersDark(): boolean {
+  return useSyncExternalStore(
+    (notify) => {
+      const query = window.matchMedia('(prefers-color-scheme: dark)');
+      query.addEventListener('change', notify);
+      return () => query.removeEventListener('change', notify);
+    },
+    () => window.matchMedia('(prefers-color-scheme: dark)').matches,
+  );
+}
+
+export function useEffectiveTheme(): 'dark' | 'light' {
+  const { stores } = useApp();
+  const choice = useStore(stores.settings, (s) => s.theme);
+  const prefersDark = usePrefersDark();
+  return choice === 'system' ? (prefersDark ? 'dark' : 'light') : choice;
+}
+
+function LinkBanner() {
+  const { bridge } = useApp();
+  const state = useSyncExternalStore(bridge.link.subscribe, bridge.link.getState);
+  if (state === 'open') return null;
+  return (
+    <div className={`link-banner link-${state}`} role="status" data-testid="link-state">
+      {state === 'lost' ? 'Link to the bench lost — reconnecting. The bench process keeps control of any run in progress.' : 'Reaching the bench…'}
+    </div>
+  );
+}
+
+function Notice() {
+  const { stores } = useApp();
+  const message = useStore(stores.notice, (s) => s.message);
+  const dismiss = useStore(stores.notice, (s) => s.dismiss);
+  if (!message) return null;
+  return (
+    <div className="notice" role="alert" data-testid="notice">
+      <span>{message}</span>
+      <button type="button" className="quiet" onClick={dismiss}>
+        Dismiss
+      </button>
+    </div>
+  );
+}
+
+export function App() {
+  const { stores } = useApp();
+  const screen = useStore(stores.settings, (s) => s.screen);
+  const show = useStore(stores.settings, (s) => s.show);
+  const themeChoice = useStore(stores.settings, (s) => s.theme);
+  const cycleTheme = useStore(stores.settings, (s) => s.cycleTheme);
+  const theme = useEffectiveTheme();
+
+  useEffect(() => {
+    document.documentElement.dataset.theme = theme;
+  }, [theme]);
+
+  return (
+    <div className="shell">
+      <header className="topbar">
+        <div className="brand">
+          <span className="brand-mark" aria-hidden="true" />
+          tunebench
+        </div>
+        <ConnectionBadge />
+        <div className="topbar-spacer" />
+        <button type="button" className="quiet" onClick={cycleTheme} data-testid="theme-toggle" aria-label={`${THEME_LABEL[themeChoice]}; activate to change`}>
+          {THEME_LABEL[themeChoice]}
+        </button>
+      </header>
+      <LinkBanner />
+      <Notice />
+      <nav className="rail" aria-label="Screens">
+        {SCREENS.map((name) => (
+          <button key={name} type="button" className={name === screen ? 'rail-item current' : 'rail-item'} aria-current={name === screen ? 'page' : undefined} onClick={() => show(name)} data-testid={`nav-${name}`}>
+            {SCREEN_LABEL[name]}
+          </button>
+        ))}
+      </nav>
+      <main className="stage" key={`${screen}-${theme}`}>
+        {screen === 'bench' ? <BenchScreen /> : null}
+        {screen === 'sweep' ? <SweepScreen /> : null}
+        {screen === 'drift' ? <DriftScreen /> : null}
+        {screen === 'runs' ? <RunsScreen /> : null}
+        {screen === 'datasheet' ? <DatasheetScreen /> : null}
+        {screen === 'loop' ? <LoopScreen /> : null}
+      </main>
+    </div>
+  );
+}

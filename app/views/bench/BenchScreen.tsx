@@ -1,0 +1,165 @@
+/** Bench: connect the instruments (or the simulator), watch live readings, set the safety limits. */
+import { useState } from 'react';
+import { useStore } from '../../state/use-store.ts';
+import { useApp } from '../app-context.ts';
+import { Field, Figure, Panel } from '../controls/Field.tsx';
+import { SafetyNotes } from '../controls/SafetyNotes.tsx';
+import { celsius, hz, volts } from '../units.ts';
+import { RoleCard } from './RoleCard.tsx';
+import { buildBenchConfig, DEFAULT_ROLE_DRAFTS, type RoleDraft, type RoleErrors, type RoleName } from './role-draft.ts';
+import { checkSweepDraft } from '../../state/plan-drafts.ts';
+
+const ROLES: readonly RoleName[] = ['supply', 'counter', 'thermometer'];
+
+function LiveReadouts() {
+  const { stores } = useApp();
+  const setV = useStore(stores.connection, (s) => s.readout?.controlSetV ?? null);
+  const measV = useStore(stores.connection, (s) => s.readout?.controlMeasV ?? null);
+  const freq = useStore(stores.connection, (s) => s.readout?.frequencyHz ?? null);
+  const temp = useStore(stores.connection, (s) => s.readout?.temperatureC ?? null);
+  return (
+    <Panel title="Live readings" testId="live-readouts">
+      <dl className="figures figures-wide" aria-live="polite">
+        <Figure label="Control, set" value={volts(setV)} testId="readout-control-set" />
+        <Figure label="Control, measured" value={volts(measV)} testId="readout-control-meas" />
+        <Figure label="Frequency" value={hz(freq, 7)} testId="readout-frequency" />
+        <Figure label="Temperature" value={celsius(temp)} testId="readout-temperature" />
+      </dl>
+    </Panel>
+  );
+}
+
+function LimitsPanel() {
+  const { stores } = useApp();
+  const limits = useStore(stores.settings, (s) => s.limits);
+  const sweepDraft = useStore(stores.settings, (s) => s.sweepDraft);
+  const edit = useStore(stores.settings, (s) => s.editLimits);
+  const errors = checkSweepDraft(sweepDraft, limits).errors;
+  return (
+    <Panel title="Safety limits" testId="limits">
+      <p className="muted">Applied to every sweep and drift log; main checks them again before each write to the supply.</p>
+      <div className="row">
+        <Field label="Highest control voltage" unit="V" value={limits.maxControlV} onChange={(maxControlV) => edit({ maxControlV })} error={errors['limits.maxControlV']} testId="limit-max-control" />
+        <Field label="Current limit, control port" unit="A" value={limits.currentLimitA} onChange={(currentLimitA) => edit({ currentLimitA })} error={errors['limits.currentLimitA']} hint="SI prefixes welcome: 20m = 20 mA" testId="limit-current" />
+      </div>
+      <SafetyNotes />
+    </Panel>
+  );
+}
+
+export function BenchScreen() {
+  const { stores } = useApp();
+  const connected = useStore(stores.connection, (s) => s.connection.connected);
+  const simulated = useStore(stores.connection, (s) => s.connection.simulated);
+  const roles = useStore(stores.connection, (s) => s.connection.roles);
+  const ports = useStore(stores.connection, (s) => s.ports);
+  const profiles = useStore(stores.connection, (s) => s.profiles);
+  const busy = useStore(stores.connection, (s) => s.busy);
+  const error = useStore(stores.connection, (s) => s.error);
+  const connect = useStore(stores.connection, (s) => s.connect);
+  const disconnect = useStore(stores.connection, (s) => s.disconnect);
+  const refresh = useStore(stores.connection, (s) => s.refresh);
+  const show = useStore(stores.settings, (s) => s.show);
+  const [drafts, setDrafts] = useState<Record<RoleName, RoleDraft>>(DEFAULT_ROLE_DRAFTS);
+  const [errors, setErrors] = useState<RoleErrors>({});
+
+  const useSimulator = async () => {
+    if (await connect('sim')) show('sweep');
+  };
+  const connectInstruments = async () => {
+    const built = buildBenchConfig(drafts);
+    setErrors(built.errors);
+    if (built.config) await connect(built.config);
+  };
+
+  return (
+    <div className="screen screen-bench">
+      <section className="hero" aria-label="Quick start">
+        <div>
+          <h1>Set up the bench</h1>
+          <p>No instruments at hand? The simulated bench drives a model oscillator through the same commands, so you can run a gain sweep right away.</p>
+        </div>
+        <div className="hero-actions">
+          <button type="button" className="primary big" onClick={() => void useSimulator()} disabled={busy} data-testid="use-sim">
+            Use the simulated bench
+          </button>
+          {connected ? (
+            <button type="button" onClick={() => void disconnect()} disabled={busy} data-testid="disconnect-bench">
+              Disconnect
+            </button>
+          ) : null}
+        </div>
+      </section>
+      {simulated && connected ? (
+        <p className="sim-ribbon" data-testid="sim-ribbon">
+          Simulated bench in use: readings come from a model, not from hardware.
+        </p>
+      ) : null}
+      {error ? (
+        <p className="error-line" role="alert" data-testid="bench-error">
+          {error}
+        </p>
+      ) : null}
+      <Panel
+        title="Instruments"
+        testId="instruments"
+        actions={
+          <button type="button" className="quiet" onClick={() => void refresh()} disabled={busy} data-testid="refresh-ports">
+            Look for ports again
+          </button>
+        }
+      >
+        <div className="role-grid">
+          {ROLES.map((role) => (
+            <RoleCard
+              key={role}
+              role={role}
+              draft={drafts[role]}
+              errors={errors}
+              ports={ports}
+              profiles={profiles}
+              identity={roles.find((r) => r.role === role)?.idn ?? null}
+              disabled={busy}
+              onChange={(patch) => setDrafts((all) => ({ ...all, [role]: { ...all[role], ...patch } }))}
+            />
+          ))}
+        </div>
+        <div className="actions">
+          <button type="button" className="primary" onClick={() => void connectInstruments()} disabled={busy} data-testid="connect-bench">
+            Connect these instruments
+          </button>
+        </div>
+        {roles.length > 0 ? (
+          <table className="table identities" data-testid="identities">
+            <caption>Connected</caption>
+            <thead>
+              <tr>
+                <th scope="col">Role</th>
+                <th scope="col">Address</th>
+                <th scope="col">Identity</th>
+              </tr>
+            </thead>
+            <tbody>
+              {roles.map((r) => (
+                <tr key={r.role}>
+                  <td>{r.role}</td>
+                  <td>
+                    <code>{r.address}</code>
+                  </td>
+                  <td>
+                    <code>{r.idn}</code>
+                    {r.simulated ? <span className="tag">sim</span> : null}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        ) : null}
+      </Panel>
+      <div className="two-col">
+        <LiveReadouts />
+        <LimitsPanel />
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,104 @@
+/** Start / pause / resume / stop for the run in progress, and its progress bar with ETA. */
+import { useState } from 'react';
+import type { RunKind } from '../../contract/bench-api.ts';
+import { errorText } from '../../bridge/bench-call-error.ts';
+import { useStore } from '../../state/use-store.ts';
+import { useApp } from '../app-context.ts';
+import { duration } from '../units.ts';
+
+export interface RunControlsProps {
+  kind: RunKind;
+  startLabel: string;
+  startTestId: string;
+  /** Null when the plan is not valid yet. */
+  start: (() => Promise<unknown>) | null;
+}
+
+const PHASE_TEXT: Record<string, string> = {
+  settling: 'settling',
+  reading: 'reading',
+  refining: 'refining the stall edge',
+  logging: 'logging',
+  paused: 'paused',
+  finishing: 'finishing',
+};
+
+export function RunControls(props: RunControlsProps) {
+  const { bridge, stores } = useApp();
+  const active = useStore(stores.liveRun, (s) => s.active);
+  const activeKind = useStore(stores.liveRun, (s) => s.meta?.kind ?? null);
+  const paused = useStore(stores.liveRun, (s) => s.paused);
+  const setPaused = useStore(stores.liveRun, (s) => s.setPaused);
+  const connected = useStore(stores.connection, (s) => s.connection.connected);
+  const [error, setError] = useState<string | null>(null);
+  const [pending, setPending] = useState(false);
+
+  const act = async (work: () => Promise<unknown>) => {
+    setError(null);
+    setPending(true);
+    try {
+      await work();
+    } catch (e) {
+      setError(errorText(e));
+    } finally {
+      setPending(false);
+    }
+  };
+  const mine = active && activeKind === props.kind;
+  const start = props.start;
+  return (
+    <div className="run-controls">
+      <div className="actions">
+        <button type="button" className="primary big" disabled={!start || active || pending || !connected} onClick={() => start && void act(start)} data-testid={props.startTestId}>
+          {props.startLabel}
+        </button>
+        {paused ? (
+          <button type="button" disabled={!mine || pending} onClick={() => void act(async () => {
+              await bridge.api.resumeRun();
+              setPaused(false);
+            })} data-testid="resume-run">
+            Resume
+          </button>
+        ) : (
+          <button type="button" disabled={!mine || pending} onClick={() => void act(async () => {
+              await bridge.api.pauseRun();
+              setPaused(true);
+            })} data-testid="pause-run">
+            Pause
+          </button>
+        )}
+        <button type="button" className="danger" disabled={!mine || pending} onClick={() => void act(() => bridge.api.stopRun())} data-testid="stop-run">
+          {props.kind === 'drift' ? 'Stop and keep' : 'Abort'}
+        </button>
+      </div>
+      {!connected ? <p className="muted">Connect a bench first (the Bench screen has a one-click simulator).</p> : null}
+      {active && !mine ? <p className="muted">A {activeKind} run is in progress; it has to finish first.</p> : null}
+      {error ? (
+        <p className="error-line" role="alert" data-testid="run-error">
+          {error}
+        </p>
+      ) : null}
+      <ProgressLine kind={props.kind} />
+    </div>
+  );
+}
+
+function ProgressLine({ kind }: { kind: RunKind }) {
+  const { stores } = useApp();
+  const progressKind = useStore(stores.liveRun, (s) => s.progress?.kind ?? null);
+  const done = useStore(stores.liveRun, (s) => s.progress?.pointsDone ?? 0);
+  const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
+  const eta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
+  const phase = useStore(stores.liveRun, (s) => s.progress?.phase ?? null);
+  const status = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.status : null));
+  if (progressKind !== kind && status === null) return null;
+  const fraction = total > 0 ? Math.min(1, done / total) : 0;
+  return (
+    <div className="progress" data-testid="progress" data-done={done} data-total={total} data-status={status ?? ''}>
+      <progress max={total > 0 ? total : 1} value={status === 'complete' ? (total > 0 ? total : 1) : total > 0 ? done : 0} aria-label="Run progress" />
+      <span>
+        {status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
+      </span>
+    </div>
+  );
+}

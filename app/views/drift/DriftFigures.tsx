@@ -1,0 +1,127 @@
+/**
+ * Drift plots: frequency and temperature against time (live or stored), and
+ * after the run frequency against temperature with the tempco line and the
+ * Allan deviation on log–log axes. The time plot hands uPlot typed views of
+ * the store's columns; uPlot decimates to min/max per pixel when drawing.
+ */
+import { useMemo, useRef } from 'react';
+import type { DriftAnalysis } from '../../analysis/drift-analysis.ts';
+import { driftJob } from '../../workers/analysis-jobs.ts';
+import { useBackgroundAnalysis } from '../../workers/use-analysis.ts';
+import type uPlot from 'uplot';
+import type { ColumnSet } from '../../state/columns.ts';
+import { GapDisplay } from '../../plots/gap-display.ts';
+import { PlotPanel } from '../../plots/PlotPanel.tsx';
+import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
+import { Figure } from '../controls/Field.tsx';
+import { duration, hz, plain } from '../units.ts';
+import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
+
+export interface DriftSource {
+  key: string;
+  columns(): ColumnSet;
+  rows(): number;
+  watch?(notify: () => void): () => void;
+  done: boolean;
+  theme: string;
+}
+
+function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; running: boolean }) {
+  const a = outcome?.ok ? outcome.analysis : null;
+  return (
+    <section className="key-figures" aria-label="Drift figures" data-testid="drift-figures">
+      <h2>Drift figures</h2>
+      {outcome && !outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
+      {!outcome ? (
+        <p className="muted" data-testid={running ? 'analysis-running' : undefined}>
+          {running ? 'Analysing the log…' : 'Shown when the log has ended.'}
+        </p>
+      ) : null}
+      <dl className="figures">
+        <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
+        <Figure label="Tempco" value={plain(a?.tempcoPpmPerC, 'ppm/°C')} note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined} testId="drift-tempco" />
+        <Figure label="Drift rate after warm-up" value={plain(a?.driftPpmPerHour, 'ppm/h')} testId="drift-rate" />
+        <Figure label="Warm-up" value={a ? (a.warmUp.settled ? duration(a.warmUp.warmUpS) : 'not settled') : '—'} testId="drift-warmup" />
+        <Figure label="Logged" value={a ? `${a.samples} readings over ${duration(a.durationS)}` : '—'} testId="drift-count" />
+      </dl>
+    </section>
+  );
+}
+
+export function DriftFigures({ source }: { source: DriftSource }) {
+  const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
+  // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
+  const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () => driftJob(source.columns(), source.rows()));
+  const analysis = outcome?.ok ? outcome.analysis : null;
+  const timeData = (): uPlot.AlignedData => {
+    const columns = source.columns();
+    const n = source.rows();
+    if (!gaps.current || gaps.current.key !== source.key) {
+      gaps.current = { key: source.key, freq: new GapDisplay(columns.frequency_hz, columns.status), temp: new GapDisplay(columns.temperature_c, columns.status) };
+    }
+    return [columns.time_s.view().subarray(0, n), gaps.current.freq.data(n), gaps.current.temp.data(n)] as uPlot.AlignedData;
+  };
+  const tempco = useMemo(
+    () => (analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null),
+    [analysis],
+  );
+  const buildKey = `${source.key}|${source.theme}`;
+  return (
+    <div className="sweep-figures">
+      <div className="plots">
+        <PlotPanel
+          testId="drift-plot"
+          title="Frequency and temperature against time"
+          buildKey={buildKey}
+          height={320}
+          data={timeData}
+          watch={source.watch}
+          options={(colors, width, height) =>
+            baseOptions(
+              width,
+              height,
+              [xSeries('s', 'Time'), lineSeries('Frequency', colors.series[0], 'Hz'), lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) })],
+              [timeAxis(colors), siAxis(colors, 'Frequency', 'Hz', { size: 96 }), { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 70, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }],
+            )
+          }
+        />
+        {tempco ? (
+          <PlotPanel
+            testId="tempco-plot"
+            title="Frequency against temperature"
+            buildKey={`${buildKey}|tempco`}
+            height={240}
+            data={() => [tempco.temperatureC, tempco.frequencyHz, tempco.lineHz] as uPlot.AlignedData}
+            options={(colors, width, height) =>
+              baseOptions(
+                width,
+                height,
+                [{ label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) }, pointSeries('Frequency', colors.series[0], 'Hz', { points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] } }), lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 })],
+                [{ ...siAxis(colors, 'Temperature', '°C'), values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
+              )
+            }
+          />
+        ) : null}
+        {analysis && analysis.adev.length > 0 ? (
+          <PlotPanel
+            testId="adev-plot"
+            title="Allan deviation (overlapping) of fractional frequency"
+            buildKey={`${buildKey}|adev`}
+            height={240}
+            data={() => [analysis.adev.map((p) => p.tauS), analysis.adev.map((p) => p.adev)] as uPlot.AlignedData}
+            options={(colors, width, height) =>
+              baseOptions(
+                width,
+                height,
+                [xSeries('s', 'τ'), lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
+                [logSiAxis(colors, 'Averaging time τ', 's'), { ...siAxis(colors, 'σy(τ)', ''), values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) }],
+                { scales: { x: { time: false, distr: 3 }, y: { distr: 3 } } },
+              )
+            }
+          />
+        ) : null}
+      </div>
+      <DriftKeyFigures outcome={outcome} running={running} />
+    </div>
+  );
+}

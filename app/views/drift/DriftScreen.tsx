@@ -1,0 +1,75 @@
+/** Drift log: plan, cautions, start/stop, live frequency and temperature, analysis at the end. */
+import { useStore } from '../../state/use-store.ts';
+import { checkDriftDraft, type DriftDraft } from '../../state/plan-drafts.ts';
+import { useApp } from '../app-context.ts';
+import { Field, Panel } from '../controls/Field.tsx';
+import { RunControls } from '../controls/RunControls.tsx';
+import { SafetyNotes } from '../controls/SafetyNotes.tsx';
+import { useEffectiveTheme } from '../App.tsx';
+import { duration } from '../units.ts';
+import { DriftFigures, type DriftSource } from './DriftFigures.tsx';
+
+function DriftPlan() {
+  const { bridge, stores } = useApp();
+  const draft = useStore(stores.settings, (s) => s.driftDraft);
+  const limits = useStore(stores.settings, (s) => s.limits);
+  const dutId = useStore(stores.settings, (s) => s.dutId);
+  const edit = useStore(stores.settings, (s) => s.editDrift);
+  const setDutId = useStore(stores.settings, (s) => s.setDutId);
+  const checked = checkDriftDraft(draft, limits);
+  const text = (key: keyof DriftDraft, label: string, unit: string, testId: string, hint?: string) => (
+    <Field label={label} unit={unit} value={draft[key]} onChange={(value) => edit({ [key]: value })} error={checked.errors[key]} hint={hint} testId={testId} />
+  );
+  const dutError = dutId.trim() === '' ? 'give the device a name' : undefined;
+  const start = checked.ok && !dutError ? () => bridge.api.startDrift(checked.plan, dutId.trim()) : null;
+  return (
+    <Panel title="Drift log plan" className="plan" testId="drift-plan">
+      <Field label="Device under test" value={dutId} onChange={setDutId} error={dutError} inputMode="text" testId="drift-dut-id" />
+      <div className="row">
+        {text('controlV', 'Hold control at', 'V', 'drift-control')}
+        {text('intervalS', 'Every', '', 'drift-interval', 'e.g. 1s, 500ms')}
+      </div>
+      <div className="row">
+        {text('durationS', 'For', '', 'drift-duration', 'e.g. 90s, 15m, 8h')}
+        {text('gateS', 'Counter gate', 's', 'drift-gate')}
+      </div>
+      <p className="muted" data-testid="drift-summary">
+        {checked.ok ? `About ${Math.floor(checked.plan.durationS / checked.plan.intervalS)} readings over ${duration(checked.plan.durationS)}.` : 'Fix the marked fields to start.'}
+      </p>
+      <SafetyNotes />
+      <RunControls kind="drift" startLabel="Start drift log" startTestId="start-drift" start={start} />
+    </Panel>
+  );
+}
+
+export function DriftScreen() {
+  const { stores } = useApp();
+  const theme = useEffectiveTheme();
+  const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === 'drift' ? s.meta.id : null));
+  const active = useStore(stores.liveRun, (s) => s.active);
+  const source: DriftSource | null = runId
+    ? {
+        key: runId,
+        columns: () => stores.liveRun.getState().columns,
+        rows: () => stores.liveRun.getState().rows,
+        watch: (notify) => stores.liveRun.subscribe((s, prev) => s.version !== prev.version && notify()),
+        done: !active,
+        theme,
+      }
+    : null;
+  return (
+    <div className="screen screen-sweep">
+      <DriftPlan />
+      <div className="results">
+        {source ? (
+          <DriftFigures source={source} />
+        ) : (
+          <div className="placeholder">
+            <h2>No drift log yet</h2>
+            <p>Hold the control voltage and log frequency and temperature over minutes or hours; tempco, drift rate and Allan deviation follow when it ends.</p>
+          </div>
+        )}
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,75 @@
+/** One saved run opened: rename, add a note, and its plots and figures. */
+import { useState } from 'react';
+import { useStore } from '../../state/use-store.ts';
+import { useApp } from '../app-context.ts';
+import { Field, Panel } from '../controls/Field.tsx';
+import { useEffectiveTheme } from '../App.tsx';
+import { DriftFigures } from '../drift/DriftFigures.tsx';
+import { SweepFigures } from '../sweep/SweepFigures.tsx';
+import { when } from '../units.ts';
+
+export function RunDetailView({ id }: { id: string }) {
+  const { stores } = useApp();
+  const theme = useEffectiveTheme();
+  const opened = useStore(stores.runs, (s) => s.opened[id]);
+  const rename = useStore(stores.runs, (s) => s.rename);
+  const addNote = useStore(stores.runs, (s) => s.addNote);
+  const focus = useStore(stores.runs, (s) => s.focus);
+  const [name, setName] = useState<string | null>(null);
+  const [note, setNote] = useState('');
+  if (!opened) return <p className="muted">Opening run…</p>;
+  const meta = opened.detail.meta;
+  const plan = meta.plan as { gateS?: unknown } | null;
+  const source = {
+    key: `${meta.id}|${opened.rows}`,
+    columns: () => opened.columns,
+    rows: () => opened.rows,
+    done: true,
+    theme,
+    ...(typeof plan?.gateS === 'number' ? { gateS: plan.gateS } : {}),
+  };
+  // Notes may be recorded both in run.json and as events: show each text once.
+  const noteTexts = [
+    ...new Set([
+      ...meta.dut.notes.split('\n'),
+      ...opened.detail.events.filter((e) => e.type === 'note').map((e) => (typeof e.text === 'string' ? e.text : typeof e.note === 'string' ? e.note : '')),
+    ]),
+  ].filter((text) => text.trim() !== '');
+  return (
+    <Panel
+      title={`${meta.dut.id} — ${meta.kind}, ${when(meta.startedAt)}`}
+      testId="run-detail"
+      actions={
+        <button type="button" className="quiet" onClick={() => void focus(null)} data-testid="run-close">
+          Close
+        </button>
+      }
+    >
+      <div className="row">
+        <Field label="DUT id" value={name ?? meta.dut.id} onChange={setName} inputMode="text" testId="rename-input" />
+        <button type="button" disabled={name === null || name.trim() === '' || name === meta.dut.id} onClick={() => void rename(id, (name ?? '').trim()).then(() => setName(null))} data-testid="rename-run">
+          Rename
+        </button>
+      </div>
+      <div className="row">
+        <Field label="Add a note" value={note} onChange={setNote} inputMode="text" testId="note-input" />
+        <button type="button" disabled={note.trim() === ''} onClick={() => void addNote(id, note.trim()).then(() => setNote(''))} data-testid="add-note">
+          Add note
+        </button>
+      </div>
+      {noteTexts.length > 0 ? (
+        <ul className="notes" data-testid="run-notes">
+          {noteTexts.map((text) => (
+            <li key={text}>{text}</li>
+          ))}
+        </ul>
+      ) : null}
+      <p className="muted">
+        {opened.rows} readings · status {meta.status} · {meta.instruments.map((i) => `${i.role}: ${i.idn}`).join(' · ') || 'no instrument record'}
+      </p>
+      {meta.kind === 'sweep' ? <SweepFigures source={source} /> : null}
+      {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
+      {meta.kind === 'pushing' ? <p className="muted">Supply-pushing runs are listed here; their figures appear in the gain table.</p> : null}
+    </Panel>
+  );
+}

@@ -1,0 +1,140 @@
+/**
+ * The sweep's plots and key figures. While readings arrive, the frequency
+ * plot fills in and a live stall estimate is shaded; once the sweep is done
+ * the analysis adds the fitted curve, Kvco against V, residuals and figures.
+ */
+import { useRef } from 'react';
+import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
+import { sweepJob } from '../../workers/analysis-jobs.ts';
+import { useBackgroundAnalysis } from '../../workers/use-analysis.ts';
+import type uPlot from 'uplot';
+import type { ColumnSet } from '../../state/columns.ts';
+import { PlotPanel } from '../../plots/PlotPanel.tsx';
+import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
+import { deadMarksPlugin } from '../../plots/dead-marks-plugin.ts';
+import { regionsPlugin, type XRegion } from '../../plots/regions-plugin.ts';
+import { buildSweepDisplay, liveStallEstimateV } from '../../plots/sweep-display.ts';
+import { Figure } from '../controls/Field.tsx';
+import { hz, hzPerV, percent, volts } from '../units.ts';
+import { fitOnX, gainColumns, residualColumns, stallRegions, type SweepOutcome } from './sweep-figures.ts';
+
+export interface SweepSource {
+  /** Identity of the data set (run id); a new id rebuilds the charts. */
+  key: string;
+  columns(): ColumnSet;
+  rows(): number;
+  watch?(notify: () => void): () => void;
+  /** True once no more readings will come: the analysis runs then. */
+  done: boolean;
+  gateS?: number;
+  theme: string;
+}
+
+export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null; running: boolean }) {
+  const a = outcome?.ok ? outcome.analysis : null;
+  return (
+    <section className="key-figures" aria-label="Key figures" data-testid="key-figures">
+      <h2>Key figures</h2>
+      {outcome && !outcome.ok ? (
+        <p className="error-line" data-testid="analysis-error">
+          Analysis: {outcome.message}
+        </p>
+      ) : null}
+      {!outcome ? (
+        <p className="muted" data-testid={running ? 'analysis-running' : undefined}>
+          {running ? 'Analysing the sweep…' : 'Shown when the sweep has finished.'}
+        </p>
+      ) : null}
+      <dl className="figures">
+        <Figure label="Tuning range" value={a ? `${hz(a.tuningRange.fMinHz)} – ${hz(a.tuningRange.fMaxHz)}` : '—'} note={a ? `${volts(a.tuningRange.vAtFMin, 3)} to ${volts(a.tuningRange.vAtFMax, 3)}` : undefined} testId="tuning-range" />
+        <Figure label="Kvco typ (best line)" value={hzPerV(a?.kvco.linear.slopeHzPerV)} testId="kvco-typ" />
+        <Figure label="Kvco min" value={hzPerV(a?.kvco.minHzPerV)} note={a ? `at ${volts(a.kvco.vAtMin, 3)}` : undefined} testId="kvco-min" />
+        <Figure label="Kvco max" value={hzPerV(a?.kvco.maxHzPerV)} note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined} testId="kvco-max" />
+        <Figure label="Linearity (worst deviation from line)" value={percent(a?.kvco.linear.maxLinearityErrorPct)} note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined} testId="linearity" />
+        <Figure label="Stall threshold" value={a ? (a.stall.thresholdV === null ? 'none in range' : volts(a.stall.thresholdV)) : '—'} note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined} testId="stall-threshold" />
+        <Figure label="Fit" value={a ? `polynomial, degree ${a.fit.degree}` : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
+      </dl>
+      {a && a.warnings.length > 0 ? (
+        <ul className="warnings" data-testid="analysis-warnings">
+          {a.warnings.map((w) => (
+            <li key={w}>{w}</li>
+          ))}
+        </ul>
+      ) : null}
+    </section>
+  );
+}
+
+export function SweepFigures({ source }: { source: SweepSource }) {
+  // Off the page's thread; the live plot stays drawn meanwhile.
+  const { outcome, running } = useBackgroundAnalysis<SweepAnalysis>(source.done ? source.key : null, () => sweepJob(source.columns(), source.rows(), source.gateS));
+  const analysis = outcome?.ok ? outcome.analysis : null;
+  const regionsRef = useRef<readonly XRegion[]>([]);
+  const deadRef = useRef<readonly number[]>([]);
+  const sweepData = (): uPlot.AlignedData => {
+    const n = source.rows();
+    const columns = source.columns();
+    const shown = buildSweepDisplay(columns, n);
+    deadRef.current = shown.deadX;
+    regionsRef.current = analysis ? stallRegions(analysis.stall.thresholdV, analysis.stall.unstableBelowV) : stallRegions(liveStallEstimateV(columns, n), null);
+    const fit = analysis ? fitOnX(analysis, shown.x) : shown.x.map(() => null);
+    return [shown.x, shown.up, shown.down, fit] as uPlot.AlignedData;
+  };
+  const buildKey = `${source.key}|${source.theme}|${analysis ? 'fit' : 'live'}`;
+  const gain = analysis ? gainColumns(analysis) : null;
+  const residuals = analysis ? residualColumns(analysis) : null;
+
+  return (
+    <div className="sweep-figures">
+      <div className="plots">
+        <PlotPanel
+          testId="sweep-plot"
+          title="Frequency against control voltage (× = no oscillation)"
+          buildKey={buildKey}
+          height={340}
+          data={sweepData}
+          watch={source.watch}
+          options={(colors, width, height) =>
+            baseOptions(
+              width,
+              height,
+              [xSeries('V', 'Control'), pointSeries('Rising', colors.series[0], 'Hz'), pointSeries('Falling', colors.series[1], 'Hz'), lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 })],
+              [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
+              { plugins: [regionsPlugin(() => regionsRef.current), deadMarksPlugin(() => deadRef.current, () => colors.text)] },
+            )
+          }
+        />
+        {gain ? (
+          <PlotPanel
+            testId="kvco-plot"
+            title="Kvco against control voltage"
+            buildKey={`${buildKey}|gain`}
+            height={220}
+            data={() => [gain.v, gain.stable, gain.unstable] as uPlot.AlignedData}
+            options={(colors, width, height) =>
+              baseOptions(
+                width,
+                height,
+                [xSeries('V', 'Control'), lineSeries('Kvco', colors.series[0], 'Hz/V', { points: { show: true, size: 4 } }), pointSeries('Kvco, unsteady region', colors.series[1], 'Hz/V')],
+                [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Kvco', 'Hz/V', { size: 84 })],
+              )
+            }
+          />
+        ) : null}
+        {residuals ? (
+          <PlotPanel
+            testId="residual-plot"
+            title="Residuals from the fitted curve"
+            buildKey={`${buildKey}|resid`}
+            height={180}
+            data={() => [residuals.v, residuals.residualHz] as uPlot.AlignedData}
+            options={(colors, width, height) =>
+              baseOptions(width, height, [xSeries('V', 'Control'), pointSeries('Residual', colors.series[2], 'Hz')], [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Residual', 'Hz', { size: 84 })])
+            }
+          />
+        ) : null}
+      </div>
+      <KeyFigures outcome={outcome} running={running} />
+    </div>
+  );
+}

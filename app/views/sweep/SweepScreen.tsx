@@ -1,0 +1,118 @@
+/** Gain sweep: plan, safety notes, start/pause/abort, live plot, and the analysis afterwards. */
+import { useStore } from '../../state/use-store.ts';
+import { checkSweepDraft, sweepPointCount, type SweepDraft } from '../../state/plan-drafts.ts';
+import { useApp } from '../app-context.ts';
+import { Choice, Field, Panel } from '../controls/Field.tsx';
+import { RunControls } from '../controls/RunControls.tsx';
+import { SafetyNotes } from '../controls/SafetyNotes.tsx';
+import { useEffectiveTheme } from '../App.tsx';
+import { SweepFigures, type SweepSource } from './SweepFigures.tsx';
+
+function PlanEditor() {
+  const { bridge, stores } = useApp();
+  const draft = useStore(stores.settings, (s) => s.sweepDraft);
+  const limits = useStore(stores.settings, (s) => s.limits);
+  const dutId = useStore(stores.settings, (s) => s.dutId);
+  const edit = useStore(stores.settings, (s) => s.editSweep);
+  const setDutId = useStore(stores.settings, (s) => s.setDutId);
+  const checked = checkSweepDraft(draft, limits);
+  const errors = checked.errors;
+  const text = (key: keyof SweepDraft, label: string, unit: string, testId: string, hint?: string) => (
+    <Field label={label} unit={unit} value={String(draft[key])} onChange={(value) => edit({ [key]: value })} error={errors[key]} hint={hint} testId={testId} />
+  );
+  const dutError = dutId.trim() === '' ? 'give the device a name, e.g. clkmul-vco-01' : undefined;
+  const start = checked.ok && !dutError ? () => bridge.api.startSweep(checked.plan, dutId.trim()) : null;
+  return (
+    <Panel title="Sweep plan" className="plan" testId="sweep-plan">
+      <Field label="Device under test" value={dutId} onChange={setDutId} error={dutError} inputMode="text" testId="dut-id" />
+      <div className="row">
+        {text('start', 'From', 'V', 'plan-start')}
+        {text('stop', 'To', 'V', 'plan-stop')}
+        {text('step', 'Step', 'V', 'plan-step')}
+      </div>
+      <div className="row">
+        <Choice
+          label="Direction"
+          value={draft.direction}
+          options={[
+            { value: 'up', label: 'Rising' },
+            { value: 'down', label: 'Falling' },
+            { value: 'up-down', label: 'Rising, then falling' },
+          ]}
+          onChange={(direction) => edit({ direction })}
+          testId="plan-direction"
+        />
+        {text('readingsPerPoint', 'Readings per point', '', 'plan-readings')}
+        {text('gateS', 'Counter gate', 's', 'plan-gate')}
+      </div>
+      <div className="row">
+        <Choice
+          label="Settling"
+          value={draft.settleMode}
+          options={[
+            { value: 'auto', label: 'Until steady' },
+            { value: 'fixed', label: 'Fixed time' },
+          ]}
+          onChange={(settleMode) => edit({ settleMode })}
+          testId="plan-settle-mode"
+        />
+        <Field
+          label={draft.settleMode === 'auto' ? 'Longest wait' : 'Wait'}
+          unit="s"
+          value={draft.settleS}
+          onChange={(settleS) => edit({ settleS })}
+          error={errors['settle.maxS'] ?? errors['settle.seconds']}
+          testId="plan-settle"
+        />
+        {text('refineEdgeV', 'Edge resolution', 'V', 'plan-refine', '0 = no edge search')}
+      </div>
+      {errors['limits.maxControlV'] || errors['limits.currentLimitA'] ? (
+        <p className="error-line" role="alert">
+          The safety limits on the Bench screen need fixing: {errors['limits.maxControlV'] ?? errors['limits.currentLimitA']}
+        </p>
+      ) : null}
+      <p className="muted" data-testid="plan-summary">
+        {checked.ok ? `${sweepPointCount(checked.plan)} points per pass · limit ${checked.plan.limits.maxControlV} V, ${checked.plan.limits.currentLimitA * 1000} mA` : 'Fix the marked fields to start.'}
+      </p>
+      <SafetyNotes />
+      <RunControls kind="sweep" startLabel="Start sweep" startTestId="start-sweep" start={start} />
+    </Panel>
+  );
+}
+
+export function SweepScreen() {
+  const { stores } = useApp();
+  const theme = useEffectiveTheme();
+  const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === 'sweep' ? s.meta.id : null));
+  const active = useStore(stores.liveRun, (s) => s.active);
+  const gateS = useStore(stores.liveRun, (s) => {
+    const plan = s.meta?.plan as { gateS?: unknown } | undefined;
+    return typeof plan?.gateS === 'number' ? plan.gateS : undefined;
+  });
+  const source: SweepSource | null = runId
+    ? {
+        key: runId,
+        columns: () => stores.liveRun.getState().columns,
+        rows: () => stores.liveRun.getState().rows,
+        watch: (notify) => stores.liveRun.subscribe((s, prev) => s.version !== prev.version && notify()),
+        done: !active,
+        ...(gateS !== undefined ? { gateS } : {}),
+        theme,
+      }
+    : null;
+  return (
+    <div className="screen screen-sweep">
+      <PlanEditor />
+      <div className="results">
+        {source ? (
+          <SweepFigures source={source} />
+        ) : (
+          <div className="placeholder" data-testid="sweep-placeholder">
+            <h2>No sweep yet</h2>
+            <p>Start a sweep and the frequency plot fills in as readings arrive; the gain analysis follows when it ends.</p>
+          </div>
+        )}
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,81 @@
+/**
+ * From columns to the analysis input and from the analysis to what the
+ * sweep plots draw: fit curve, Kvco against V, residuals, shaded regions.
+ * Runs once when a sweep ends or a stored sweep opens, not per sample.
+ */
+import { analyzeSweep } from '../../analysis/sweep-analysis.ts';
+import type { SweepInput } from '../../analysis/sweep-points.ts';
+import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
+import { DIRECTION_CODE, STATUS_CODE, type ColumnSet } from '../../state/columns.ts';
+import type { XRegion } from '../../plots/regions-plugin.ts';
+import { errorText } from '../../bridge/bench-call-error.ts';
+
+export function sweepInputFrom(columns: ColumnSet, n: number, gateS: number | undefined): SweepInput {
+  const controlV = columns.control_v.view().slice(0, n);
+  const frequencyHz = new Float64Array(n);
+  const direction = new Int8Array(n);
+  for (let i = 0; i < n; i += 1) {
+    frequencyHz[i] = columns.status.at(i) === STATUS_CODE.ok ? columns.frequency_hz.at(i) : Number.NaN;
+    direction[i] = columns.direction.at(i) === DIRECTION_CODE.down ? -1 : 1;
+  }
+  return gateS !== undefined ? { controlV, frequencyHz, direction, gateS } : { controlV, frequencyHz, direction };
+}
+
+export type SweepOutcome = { ok: true; analysis: SweepAnalysis } | { ok: false; message: string };
+
+export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined): SweepOutcome {
+  if (n === 0) return { ok: false, message: 'no readings' };
+  try {
+    return { ok: true, analysis: analyzeSweep(sweepInputFrom(columns, n, gateS)) };
+  } catch (error) {
+    return { ok: false, message: errorText(error) };
+  }
+}
+
+/** f(V) = Σ cᵢ·Vⁱ (CONTRACTS.md fit coefficients, V unscaled). */
+export function evalFit(coefficients: readonly number[], v: number): number {
+  let sum = 0;
+  for (let i = coefficients.length - 1; i >= 0; i -= 1) sum = sum * v + (coefficients[i] ?? 0);
+  return sum;
+}
+
+/** The fitted curve on the display x column; null outside the fitted range. */
+export function fitOnX(analysis: SweepAnalysis, x: readonly number[]): (number | null)[] {
+  const { coefficients, fromV, toV } = analysis.fit;
+  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? evalFit(coefficients, v) : null));
+}
+
+export function stallRegions(thresholdV: number | null, unstableBelowV: number | null): XRegion[] {
+  const regions: XRegion[] = [];
+  if (thresholdV !== null) {
+    regions.push({ key: 'stall', fromX: Number.NEGATIVE_INFINITY, toX: thresholdV, className: 'region-stall', title: `No oscillation below ${thresholdV.toFixed(3)} V`, testId: 'stall-region' });
+  }
+  if (thresholdV !== null && unstableBelowV !== null && unstableBelowV > thresholdV) {
+    regions.push({ key: 'unstable', fromX: thresholdV, toX: unstableBelowV, className: 'region-unstable', title: `Unsteady oscillation up to ${unstableBelowV.toFixed(3)} V`, testId: 'unstable-region' });
+  }
+  return regions;
+}
+
+export interface GainColumns {
+  v: number[];
+  stable: (number | null)[];
+  unstable: (number | null)[];
+}
+
+export function gainColumns(analysis: SweepAnalysis): GainColumns {
+  const local = [...analysis.kvco.local].sort((a, b) => a.v - b.v);
+  return {
+    v: local.map((k) => k.v),
+    stable: local.map((k) => (k.unstable || !Number.isFinite(k.hzPerV) ? null : k.hzPerV)),
+    unstable: local.map((k) => (k.unstable && Number.isFinite(k.hzPerV) ? k.hzPerV : null)),
+  };
+}
+
+export function residualColumns(analysis: SweepAnalysis): { v: number[]; residualHz: (number | null)[] } {
+  const { coefficients, fromV, toV } = analysis.fit;
+  const points = analysis.points.filter((p) => Number.isFinite(p.meanHz)).sort((a, b) => a.v - b.v);
+  return {
+    v: points.map((p) => p.v),
+    residualHz: points.map((p) => (p.v >= fromV - 1e-12 && p.v <= toV + 1e-12 && !p.unstable ? p.meanHz - evalFit(coefficients, p.v) : null)),
+  };
+}
