@@ -5,6 +5,7 @@
  * converted back to the unscaled x for output.
  */
 import { solveLeastSquaresInPlace } from './least-squares.ts';
+import { centreAndScale, solveLineScaled, type ScaledSolution } from './poly-fit-line.ts';
 
 export interface PolyFit {
   degree: number;
@@ -42,15 +43,7 @@ export function designMatrix(
   p: number,
 ): { a: Float64Array; rhs: Float64Array; centre: number; scale: number } {
   const n = i1 - i0;
-  let xMin = Infinity;
-  let xMax = -Infinity;
-  for (let i = i0; i < i1; i++) {
-    const x = xs[i] as number;
-    if (x < xMin) xMin = x;
-    if (x > xMax) xMax = x;
-  }
-  const centre = (xMin + xMax) / 2;
-  const scale = xMax > xMin ? (xMax - xMin) / 2 : 1;
+  const { centre, scale } = centreAndScale(xs, i0, i1);
   const a = new Float64Array(n * p);
   const rhs = new Float64Array(n);
   for (let r = 0; r < n; r++) {
@@ -65,13 +58,25 @@ export function designMatrix(
   return { a, rhs, centre, scale };
 }
 
-/** Least-squares polynomial of `degree` through (xs[i], ys[i]), i0 ≤ i < i1. */
+/** Householder QR on the full design matrix (any degree). */
+function solveScaled(xs: Float64Array, ys: Float64Array, i0: number, i1: number, p: number): ScaledSolution {
+  const { a, rhs, centre, scale } = designMatrix(xs, ys, i0, i1, p);
+  const sol = solveLeastSquaresInPlace(a, i1 - i0, p, rhs);
+  return { centre, scale, coefficients: sol.coefficients, unscaledCovariance: sol.unscaledCovariance, fullRank: sol.fullRank };
+}
+
+/**
+ * Least-squares polynomial of `degree` through (xs[i], ys[i]), i0 ≤ i < i1.
+ * A straight line takes the matrix-free path (same arithmetic, no allocation
+ * per point) unless `general` is set (tests compare the two).
+ */
 export function fitPolynomial(
   xs: Float64Array,
   ys: Float64Array,
   i0: number,
   i1: number,
   degree: number,
+  general = false,
 ): PolyFit {
   if (!Number.isInteger(degree) || degree < 0 || degree > 12) {
     throw new RangeError(`degree must be an integer 0–12 (got ${degree})`);
@@ -79,8 +84,8 @@ export function fitPolynomial(
   const n = i1 - i0;
   const p = degree + 1;
   if (n < p) throw new RangeError(`a degree-${degree} fit needs at least ${p} points (got ${n})`);
-  const { a, rhs, centre, scale } = designMatrix(xs, ys, i0, i1, p);
-  const sol = solveLeastSquaresInPlace(a, n, p, rhs);
+  const sol = p === 2 && !general ? solveLineScaled(xs, ys, i0, i1) : solveScaled(xs, ys, i0, i1, p);
+  const { centre, scale } = sol;
   if (!sol.fullRank) throw new RangeError(`a degree-${degree} fit needs ${p} distinct x values`);
   const b = sol.coefficients;
   // Residuals evaluated directly (two-pass) rather than from Qᵀy: same value, clearer.

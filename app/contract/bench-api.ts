@@ -118,8 +118,19 @@ export interface BenchApi {
   restoreRun(id: string): Promise<RunMeta>;
   importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta>;
 
+  /**
+   * Desktop app only (optional): prints the calling window's current page —
+   * the datasheet screen — to a PDF the operator saves through a dialog.
+   * `savedTo` is null when the dialog was cancelled. Browser mode leaves it
+   * out (the browser's own Print → Save as PDF does the job there).
+   */
+  printDatasheetPdf?(fileName: string): Promise<{ savedTo: string | null }>;
+
   /** Subscribe to pushed events; returns an unsubscribe function. */
   subscribe(listener: (event: BenchEvent) => void): () => void;
 }
 
-export type BenchMethod = Exclude<keyof BenchApi, 'subscribe'>;
+/** Methods every carrier answers (IPC and WebSocket). */
+export type BenchMethod = Exclude<keyof BenchApi, 'subscribe' | DesktopMethod>;
+/** Optional methods only the desktop app (IPC) answers; absent from the API object elsewhere. */
+export type DesktopMethod = 'printDatasheetPdf';

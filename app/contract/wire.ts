@@ -10,7 +10,7 @@
  * The access token travels as `?token=…` on the WebSocket URL, exactly as on
  * the page URL that `tunebench serve` prints.
  */
-import type { BenchEvent, BenchMethod } from './bench-api.ts';
+import type { BenchEvent, BenchMethod, DesktopMethod } from './bench-api.ts';
 
 export interface WireCall {
   id: number;
@@ -52,3 +52,6 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'restoreRun',
   'importCsv',
 ] as const;
+
+/** Optional methods the desktop preload adds (see BenchApi); the WebSocket carrier has none. */
+export const DESKTOP_METHODS: readonly DesktopMethod[] = ['printDatasheetPdf'] as const;

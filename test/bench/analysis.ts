@@ -1,7 +1,8 @@
 /**
  * Analysis benchmarks (issue 3 §6): polynomial fit of 10,000 points,
- * full sweep analysis of 10,000 readings, overlapping ADEV of 1,000,000
- * samples at all octave taus next to the direct O(N·m) sum.
+ * full sweep analysis of 10,000 and 100,000 readings, overlapping ADEV of
+ * 1,000,000 samples at all octave taus next to the direct O(N·m) sum, and the
+ * whole drift analysis of a 1,000,000-sample log.
  *
  * Run: npx tsx test/bench/analysis.ts   (or through test/bench/index.ts)
  * Each figure: one warm-up run, then the median of several timed runs.
@@ -13,6 +14,8 @@ import { oadevDirect, octaveFactors, stability } from '../../app/analysis/allan.
 import { fitPolynomialAuto } from '../../app/analysis/poly-fit-auto.ts';
 import { fitPolynomial } from '../../app/analysis/poly-fit.ts';
 import { analyzeSweep } from '../../app/analysis/sweep-analysis.ts';
+import { analyzeDrift } from '../../app/analysis/drift-analysis.ts';
+import { warmingReference } from '../fixtures/drift-scenarios.ts';
 
 export interface BenchFigure {
   name: string;
@@ -50,26 +53,8 @@ function timeMedian(fn: () => unknown, runs: number): { medianMs: number; median
   return { medianMs: median(wall), medianCpuMs: median(cpu), runs };
 }
 
-export function runAnalysisBench(log: (line: string) => void = console.log): BenchFigure[] {
-  const figures: BenchFigure[] = [];
-  const rnd = lcg(42);
-
-  // 1. Polynomial fit of 10,000 points.
-  const n = 10_000;
-  const xs = new Float64Array(n);
-  const ys = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const v = 0.5 + (4 * i) / (n - 1);
-    xs[i] = v;
-    ys[i] = 1e6 + 2e5 * v - 8e3 * v * v + 300 * v * v * v + 20 * (rnd() - 0.5);
-  }
-  figures.push({ name: 'poly fit, 10,000 points, degree 3', ...timeMedian(() => fitPolynomial(xs, ys, 0, n, 3), 21), targetMs: 10 });
-  figures.push({ name: 'poly fit, 10,000 points, auto (AICc over degrees 1–6)', ...timeMedian(() => fitPolynomialAuto(xs, ys, 0, n, 6), 11), targetMs: 10 });
-
-  // 2. Sweep analysis of 10,000 readings: 500 points × 10 readings × up and down,
-  //    stalled below 0.8 V, jittery just above, counter quantisation at 0.1 s gate.
-  const points = 500;
-  const perPoint = 10;
+/** Readings of a sweep: `points` control voltages × `perPoint` readings × up and down. */
+function sweepReadings(points: number, perPoint: number, rnd: () => number): { controlV: Float64Array; frequencyHz: Float64Array; direction: Int8Array; gateS: number } {
   const total = points * perPoint * 2;
   const controlV = new Float64Array(total);
   const frequencyHz = new Float64Array(total);
@@ -88,8 +73,32 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
       }
     }
   }
-  const sweep = { controlV, frequencyHz, direction, gateS: 0.1 };
+  return { controlV, frequencyHz, direction, gateS: 0.1 };
+}
+
+export function runAnalysisBench(log: (line: string) => void = console.log): BenchFigure[] {
+  const figures: BenchFigure[] = [];
+  const rnd = lcg(42);
+
+  // 1. Polynomial fit of 10,000 points.
+  const n = 10_000;
+  const xs = new Float64Array(n);
+  const ys = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = 0.5 + (4 * i) / (n - 1);
+    xs[i] = v;
+    ys[i] = 1e6 + 2e5 * v - 8e3 * v * v + 300 * v * v * v + 20 * (rnd() - 0.5);
+  }
+  figures.push({ name: 'poly fit, 10,000 points, degree 3', ...timeMedian(() => fitPolynomial(xs, ys, 0, n, 3), 21), targetMs: 10 });
+  figures.push({ name: 'poly fit, 10,000 points, auto (AICc over degrees 1–6)', ...timeMedian(() => fitPolynomialAuto(xs, ys, 0, n, 6), 11), targetMs: 10 });
+
+  // 2. Sweep analysis of 10,000 readings: 500 points × 10 readings × up and down,
+  //    stalled below 0.8 V, jittery just above, counter quantisation at 0.1 s gate;
+  //    then 100,000 readings (2,000 points × 25 × up/down).
+  const sweep = sweepReadings(500, 10, rnd);
   figures.push({ name: 'sweep analysis, 10,000 readings (500 points × 10 × up/down)', ...timeMedian(() => analyzeSweep(sweep), 11), targetMs: 50 });
+  const bigSweep = sweepReadings(2000, 25, rnd);
+  figures.push({ name: 'sweep analysis, 100,000 readings (2,000 points × 25 × up/down)', ...timeMedian(() => analyzeSweep(bigSweep), 5), targetMs: 250 });
 
   // 3. Overlapping ADEV of 1,000,000 samples at all octave taus, vs the direct sum.
   const m = 1_000_000;
@@ -110,6 +119,11 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
     ...directSubset,
     note: `ratio direct / phase-based = ${(directSubset.medianCpuMs / fastSubset.medianCpuMs).toFixed(1)}× CPU on this subset (direct not run on all taus: O(N·Σm) ≈ ${(m * all.reduce((a, b) => a + b, 0) * 2).toExponential(1)} additions)`,
   });
+
+  // 4. Whole drift analysis of a 1,000,000-sample log (1 s steps: warm-up, aging, one slow
+  //    temperature excursion, counter noise): tempco, warm-up, drift, f–T loop, ADEV/OADEV/MDEV.
+  const drift = warmingReference(1_000_000);
+  figures.push({ name: 'drift analysis of 1,000,000 samples (all figures)', ...timeMedian(() => analyzeDrift(drift), 5), targetMs: 1000 });
 
   log(`analysis benchmarks (median of timed runs after one warm-up; load average ${loadavg()[0]?.toFixed(1)} on ${cpus().length} CPUs)`);
   log('     wall ms     CPU ms');

@@ -1,0 +1,141 @@
+/**
+ * Browser mode: one HTTP server on loopback that serves the built renderer
+ * and carries the BenchApi over a WebSocket at /api.
+ *
+ * Access (see DEVELOPERS.md, "Browser mode"):
+ * - The printed URL carries a random token. The page request must bear it
+ *   (`/?token=…`); that answer also sets an HttpOnly, SameSite=Strict cookie
+ *   holding the token so the page's own scripts and styles load without it.
+ * - Every other path needs the cookie (or the token as a query parameter).
+ * - The WebSocket needs the token in its URL (the cookie does not count) AND
+ *   an Origin equal to this server's own origin; others are refused at the
+ *   handshake.
+ * - The Host header must name this server (guards against DNS rebinding).
+ * All comparisons of the token are constant-time.
+ */
+import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
+import type { AddressInfo, Socket } from 'node:net';
+import { WebSocketServer } from 'ws';
+import type { BenchApi } from '../../app/contract/bench-api.ts';
+import { securityHeaders } from './security-headers.ts';
+import { readStaticFile } from './static-files.ts';
+import { createAccessToken, readCookie, TOKEN_COOKIE, tokenMatches } from './token.ts';
+import { attachBenchSocket } from './ws-api.ts';
+
+export interface BrowserServerOptions {
+  host: string;
+  port: number;
+  rendererDir: string;
+  api: BenchApi;
+  /** Fixed token for tests; a fresh random one otherwise. */
+  token?: string;
+}
+
+export interface BrowserServer {
+  /** http://host:port/?token=… — the URL to open. */
+  url: string;
+  origin: string;
+  port: number;
+  token: string;
+  close(): Promise<void>;
+}
+
+/** Large enough for a CSV import (the schema caps the text at 128 MiB). */
+const MAX_MESSAGE_BYTES = 160 * 1024 * 1024;
+
+function isLoopbackName(host: string): boolean {
+  return host === '127.0.0.1' || host === 'localhost' || host === '::1' || host === '[::1]';
+}
+
+function hostPort(host: string, port: number): string {
+  return host.includes(':') && !host.startsWith('[') ? `[${host}]:${port}` : `${host}:${port}`;
+}
+
+export async function startBrowserServer(options: BrowserServerOptions): Promise<BrowserServer> {
+  const token = options.token ?? createAccessToken();
+  const http = createServer();
+  const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_MESSAGE_BYTES });
+  await new Promise<void>((resolve, reject) => {
+    http.once('error', reject);
+    http.listen(options.port, options.host, () => {
+      http.off('error', reject);
+      resolve();
+    });
+  });
+  const port = (http.address() as AddressInfo).port;
+  const cookieName = `${TOKEN_COOKIE}_${port}`; // cookies ignore ports; one name per server
+  const wildcard = options.host === '0.0.0.0' || options.host === '::';
+  const allowedHosts = new Set([hostPort(options.host, port)]);
+  if (isLoopbackName(options.host)) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowedHosts.add(`${name}:${port}`);
+  const origin = `http://${hostPort(options.host, port)}`;
+
+  const hostAllowed = (request: IncomingMessage): boolean => {
+    const host = request.headers.host;
+    return typeof host === 'string' && (wildcard || allowedHosts.has(host.toLowerCase()));
+  };
+  const originAllowed = (request: IncomingMessage): boolean => {
+    const offered = request.headers.origin;
+    return typeof offered === 'string' && offered === `http://${request.headers.host ?? ''}` && hostAllowed(request);
+  };
+  const tokenOf = (request: IncomingMessage): { query: boolean; cookie: boolean } => {
+    const url = new URL(request.url ?? '/', 'http://placeholder');
+    return {
+      query: tokenMatches(token, url.searchParams.get('token')),
+      cookie: tokenMatches(token, readCookie(request.headers.cookie, cookieName)),
+    };
+  };
+
+  const refuse = (response: ServerResponse, status: number, text: string): void => {
+    response.writeHead(status, { ...securityHeaders(origin), 'Content-Type': 'text/plain; charset=utf-8' });
+    response.end(`${text}\n`);
+  };
+
+  http.on('request', (request: IncomingMessage, response: ServerResponse) => {
+    void (async () => {
+      if (!hostAllowed(request)) return refuse(response, 421, 'This server answers only to its own address.');
+      if (request.method !== 'GET' && request.method !== 'HEAD') return refuse(response, 405, 'Only GET is served.');
+      const access = tokenOf(request);
+      if (!access.query && !access.cookie) {
+        return refuse(response, 401, 'Access token missing or wrong: open the URL that `tunebench serve` printed (it ends in ?token=…).');
+      }
+      const pathname = new URL(request.url ?? '/', 'http://placeholder').pathname;
+      const file = await readStaticFile(options.rendererDir, pathname);
+      // Browsers ask for an icon unprompted; no icon is not an error.
+      if (!file && pathname === '/favicon.ico') return void response.writeHead(204, securityHeaders(origin)).end();
+      if (!file) return refuse(response, 404, 'Not found.');
+      const headers: Record<string, string> = { ...securityHeaders(origin), 'Content-Type': file.contentType };
+      if (access.query) headers['Set-Cookie'] = `${cookieName}=${token}; HttpOnly; SameSite=Strict; Path=/`;
+      response.writeHead(200, headers);
+      response.end(request.method === 'HEAD' ? undefined : file.body);
+    })().catch(() => {
+      if (!response.headersSent) refuse(response, 500, 'Internal error.');
+      else response.destroy();
+    });
+  });
+
+  http.on('upgrade', (request: IncomingMessage, socket: Socket, head: Buffer) => {
+    const pathname = new URL(request.url ?? '/', 'http://placeholder').pathname;
+    const reject = (status: string): void => {
+      socket.end(`HTTP/1.1 ${status}\r\nConnection: close\r\nContent-Length: 0\r\n\r\n`);
+    };
+    if (pathname !== '/api') return reject('404 Not Found');
+    if (!hostAllowed(request) || !originAllowed(request)) return reject('403 Forbidden');
+    // The socket takes the token from its URL only: the cookie exists for
+    // the page's static assets, and is never enough to drive the bench.
+    if (!tokenOf(request).query) return reject('401 Unauthorized');
+    wss.handleUpgrade(request, socket, head, (ws) => attachBenchSocket(ws, options.api));
+  });
+
+  return {
+    url: `${origin}/?token=${token}`,
+    origin,
+    port,
+    token,
+    close: async () => {
+      for (const client of wss.clients) client.terminate();
+      wss.close();
+      http.closeAllConnections();
+      await new Promise<void>((resolve) => http.close(() => resolve()));
+    },
+  };
+}

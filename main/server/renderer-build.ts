@@ -1,0 +1,133 @@
+/**
+ * Makes sure out/renderer holds a build of the current app/ sources before
+ * browser mode serves it: built when missing, rebuilt when any source under
+ * app/ is newer than the built index.html. Uses vite's build API with the
+ * renderer settings of electron.vite.config.ts (root app/, React plugin).
+ * The build goes to a fresh folder that then replaces the old one, so a
+ * reader never sees half a build.
+ */
+import { mkdir, mkdtemp, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+export const APP_DIR = join(PROJECT_ROOT, 'app');
+export const RENDERER_OUT_DIR = join(PROJECT_ROOT, 'out', 'renderer');
+
+const SOURCE_FILE = /\.(tsx?|css|html|svg|json)$/;
+
+async function newestSourceMs(dir: string): Promise<number> {
+  let newest = 0;
+  for (const entry of await readdir(dir, { withFileTypes: true })) {
+    const path = join(dir, entry.name);
+    if (entry.isDirectory()) newest = Math.max(newest, await newestSourceMs(path));
+    else if (SOURCE_FILE.test(entry.name) && !entry.name.endsWith('.test.ts')) newest = Math.max(newest, (await stat(path)).mtimeMs);
+  }
+  return newest;
+}
+
+export async function rendererIsStale(appDir = APP_DIR, outDir = RENDERER_OUT_DIR): Promise<boolean> {
+  let builtMs: number;
+  try {
+    builtMs = (await stat(join(outDir, 'index.html'))).mtimeMs;
+  } catch {
+    return true;
+  }
+  return (await newestSourceMs(appDir)) > builtMs;
+}
+
+export interface EnsureRendererOptions {
+  appDir?: string;
+  outDir?: string;
+  /** Where progress lines go (the CLI's stderr). */
+  log?: (line: string) => void;
+}
+
+/** A lock older than this was left by a build that died. */
+const STALE_LOCK_MS = 5 * 60_000;
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as { code?: string }).code === 'EPERM';
+  }
+}
+
+/**
+ * Runs `work` holding a lock file, so two processes (two test workers, two
+ * `serve`s) never build into the same folder at once.
+ */
+async function withBuildLock<T>(lockPath: string, work: () => Promise<T>): Promise<T> {
+  await mkdir(dirname(lockPath), { recursive: true });
+  for (;;) {
+    try {
+      await writeFile(lockPath, String(process.pid), { flag: 'wx' });
+      break;
+    } catch (error) {
+      if ((error as { code?: string }).code !== 'EEXIST') throw error;
+      const age = await stat(lockPath).then((info) => Date.now() - info.mtimeMs, () => 0);
+      const holder = Number(await readFile(lockPath, 'utf8').catch(() => ''));
+      // A lock whose process is gone (killed mid-build) or that is very old is left over.
+      if (age > STALE_LOCK_MS || (Number.isInteger(holder) && holder > 0 && !processAlive(holder))) await rm(lockPath, { force: true });
+      else await new Promise((resolve) => setTimeout(resolve, 250));
+    }
+  }
+  try {
+    return await work();
+  } finally {
+    await rm(lockPath, { force: true });
+  }
+}
+
+/** Builds the renderer when missing or stale; returns the folder to serve. */
+export async function ensureRendererBuilt(options: EnsureRendererOptions = {}): Promise<string> {
+  const appDir = options.appDir ?? APP_DIR;
+  const outDir = options.outDir ?? RENDERER_OUT_DIR;
+  if (!(await rendererIsStale(appDir, outDir))) return outDir;
+  // Checked again under the lock: another process may have just built it.
+  return withBuildLock(`${outDir}.lock`, async () => {
+    if (await rendererIsStale(appDir, outDir)) await buildRenderer(appDir, outDir, options.log);
+    return outDir;
+  });
+}
+
+async function buildRenderer(appDir: string, outDir: string, log: ((line: string) => void) | undefined): Promise<void> {
+  log?.(`building the app into ${outDir} …`);
+  const parent = dirname(outDir);
+  await mkdir(parent, { recursive: true });
+  // We hold the lock, so any earlier temporary build folder is a leftover of a killed build.
+  for (const name of await readdir(parent)) if (name.startsWith('.renderer-')) await rm(join(parent, name), { recursive: true, force: true });
+  const tempDir = await mkdtemp(join(parent, '.renderer-'));
+  const [{ build }, { default: react }] = await Promise.all([import('vite'), import('@vitejs/plugin-react')]);
+  try {
+    await build({
+      configFile: false,
+      root: appDir,
+      base: './',
+      plugins: [react()],
+      logLevel: 'warn',
+      build: {
+        outDir: tempDir,
+        emptyOutDir: true,
+        // One bundle by design (a local app); its size is not a concern worth a warning.
+        chunkSizeWarningLimit: 4096,
+        rollupOptions: {
+          input: { index: join(appDir, 'index.html') },
+          // zod's sources carry comments rollup cannot place; harmless, and noise on the CLI.
+          onwarn: (warning, warn) => {
+            if (warning.code !== 'INVALID_ANNOTATION') warn(warning);
+          },
+        },
+      },
+    });
+    const oldDir = `${outDir}.old-${process.pid}-${Date.now()}`;
+    await rename(outDir, oldDir).catch(() => undefined);
+    await rename(tempDir, outDir);
+    await rm(oldDir, { recursive: true, force: true });
+  } catch (error) {
+    await rm(tempDir, { recursive: true, force: true });
+    throw error;
+  }
+}

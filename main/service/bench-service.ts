@@ -1,0 +1,166 @@
+/**
+ * The BenchApi as main/ implements it: one bench connection at a time, one
+ * run at a time, run folders through the store, procedures through their
+ * ports, and a stream of pushed events (connection, live readouts while idle,
+ * run start/progress/sample batches/events/end). Arguments arrive already
+ * validated by the carrier (IPC gate or WebSocket) via the contract schemas.
+ */
+import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
+import type { BenchConfig } from '../../app/contract/plans.ts';
+import { BenchApiError } from './errors.ts';
+import { EventHub } from './event-hub.ts';
+import { LivePoller } from './live-readout.ts';
+import type { OpenedBench, ServicePorts } from './ports.ts';
+import { startRunSession, type RunSession } from './run-session.ts';
+
+export interface BenchService extends BenchApi {
+  /** Stops any run (safe state), closes the bench; for app exit. */
+  close(): Promise<void>;
+}
+
+export interface BenchServiceOptions extends ServicePorts {
+  /** Real ms between live readouts while idle. Default 333. */
+  livePeriodMs?: number;
+  /** Real ms between sample batches during a run. Default 150. */
+  batchMs?: number;
+}
+
+const DISCONNECTED: ConnectionState = { connected: false, simulated: false, roles: [], error: null };
+
+export function createBenchService(options: BenchServiceOptions): BenchService {
+  const hub = new EventHub();
+  const emit = (event: BenchEvent): void => hub.emit(event);
+  let bench: OpenedBench | null = null;
+  let connection: ConnectionState = DISCONNECTED;
+  let live: LivePoller | null = null;
+  let run: RunSession | null = null;
+  let connecting = false;
+  /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
+  let starting = false;
+
+  const setConnection = (state: ConnectionState): ConnectionState => {
+    connection = state;
+    emit({ type: 'connection', state });
+    return state;
+  };
+
+  const startLive = (): void => {
+    if (!bench || run) return;
+    live = new LivePoller({ roles: bench.roles, clock: bench.clock, periodMs: options.livePeriodMs, emit: (readout) => emit({ type: 'live', readout }) });
+    live.start();
+  };
+
+  const stopLive = async (): Promise<void> => {
+    const poller = live;
+    live = null;
+    await poller?.stop();
+  };
+
+  const endRunAndWait = async (): Promise<void> => {
+    const current = run;
+    if (!current) return;
+    current.control.stop('stop');
+    await current.done;
+  };
+
+  const closeBench = async (): Promise<void> => {
+    await endRunAndWait();
+    await stopLive();
+    const closing = bench;
+    bench = null;
+    if (closing) await closing.close();
+  };
+
+  const requireIdleBench = (): OpenedBench => {
+    if (!bench) throw new BenchApiError('no bench connected: connect to your instruments or to the simulated bench first');
+    if (run) throw new BenchApiError(`a run is already in progress (${run.meta.id}); stop it before starting another`);
+    return bench;
+  };
+
+  const startRun = async (kind: RunKind, plan: unknown, dutId: string): Promise<RunMeta> => {
+    const opened = requireIdleBench();
+    if (starting || connecting) throw new BenchApiError('another run or connection is being started; try again in a moment');
+    const procedure = options.procedures[kind];
+    if (!procedure) throw new BenchApiError(`${kind} runs are not available in this build`);
+    starting = true;
+    await stopLive();
+    try {
+      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs });
+      run = session;
+      void session.done.finally(() => {
+        if (run === session) run = null;
+        startLive();
+      });
+      return session.meta;
+    } catch (error) {
+      startLive();
+      throw error;
+    } finally {
+      starting = false;
+    }
+  };
+
+  const requireRun = (): RunSession => {
+    if (!run) throw new BenchApiError('no run in progress');
+    return run;
+  };
+
+  return {
+    listSerialPorts: () => options.listSerialPorts(),
+    listProfiles: () => options.listProfiles(),
+    async connect(config: BenchConfig | 'sim') {
+      if (connecting || starting) throw new BenchApiError('a connection attempt or a run start is already in progress');
+      if (run) throw new BenchApiError(`a run is in progress (${run.meta.id}); stop it before changing the bench`);
+      connecting = true;
+      try {
+        await closeBench();
+        try {
+          bench = await options.openBench(config);
+        } catch (error) {
+          const message = error instanceof Error ? error.message : String(error);
+          setConnection({ ...DISCONNECTED, error: message });
+          throw new BenchApiError(`connect: ${message}`);
+        }
+        setConnection(bench.connection);
+        startLive();
+        return connection;
+      } finally {
+        connecting = false;
+      }
+    },
+    async disconnect() {
+      await closeBench();
+      return setConnection(DISCONNECTED);
+    },
+    getConnection: async () => connection,
+    startSweep: (plan, dutId) => startRun('sweep', plan, dutId),
+    startDrift: (plan, dutId) => startRun('drift', plan, dutId),
+    startPushing: (plan, dutId) => startRun('pushing', plan, dutId),
+    async pauseRun() {
+      requireRun().control.pause();
+    },
+    async resumeRun() {
+      requireRun().control.resume();
+    },
+    async stopRun() {
+      const current = requireRun();
+      current.control.stop('stop');
+      await current.done;
+    },
+    listRuns: () => options.store.list(),
+    openRun: (id) => options.store.open(id),
+    renameRun: (id, dutId) => options.store.rename(id, dutId),
+    addNote: (id, text) => options.store.addNote(id, text),
+    async deleteRun(id) {
+      if (run?.meta.id === id) throw new BenchApiError(`run ${id} is in progress; stop it before deleting it`, 'id');
+      await options.store.delete(id);
+    },
+    restoreRun: (id) => options.store.restore(id),
+    importCsv: (fileName, csvText, dutId) => options.store.importCsv(fileName, csvText, dutId),
+    subscribe: (listener) => hub.subscribe(listener),
+    async close() {
+      await closeBench();
+      connection = DISCONNECTED;
+    },
+  };
+}

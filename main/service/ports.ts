@@ -1,0 +1,59 @@
+/**
+ * What the BenchApi service needs from the rest of main/, as narrow ports.
+ * main/service/default-ports.ts fills them with the real modules (store,
+ * procedures, bench assembly, simulator); tests fill them with fakes.
+ */
+import type {
+  ConnectionState,
+  RunDetail,
+  RunKind,
+  RunMeta,
+  SerialPortInfo,
+} from '../../app/contract/bench-api.ts';
+import type { BenchConfig } from '../../app/contract/plans.ts';
+import type { RunControl } from '../procedures/run-control.ts';
+import type { BenchRoles, ProcedureOutcome, ProcedureProgress, RunSink } from '../procedures/types.ts';
+import type { Clock } from '../time/clock.ts';
+
+export interface OpenedBench {
+  roles: BenchRoles;
+  connection: ConnectionState;
+  /** The clock procedures use on this bench (the simulated bench may run faster than real time). */
+  clock: Clock;
+  /** Closes every link (after the procedures left the supply safe). */
+  close(): Promise<void>;
+}
+
+export interface ProcedureRun {
+  bench: BenchRoles;
+  plan: unknown;
+  clock: Clock;
+  sink: RunSink;
+  control: RunControl;
+  onProgress: (progress: ProcedureProgress) => void;
+  runId: string;
+}
+
+export interface ProcedurePort {
+  columns: readonly string[];
+  run(options: ProcedureRun): Promise<ProcedureOutcome>;
+}
+
+export interface RunStorePort {
+  list(): Promise<RunMeta[]>;
+  open(id: string): Promise<RunDetail>;
+  rename(id: string, dutId: string): Promise<RunMeta>;
+  addNote(id: string, text: string): Promise<void>;
+  delete(id: string): Promise<void>;
+  restore(id: string): Promise<RunMeta>;
+  importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta>;
+}
+
+export interface ServicePorts {
+  runsDir: string;
+  openBench(config: BenchConfig | 'sim'): Promise<OpenedBench>;
+  listSerialPorts(): Promise<SerialPortInfo[]>;
+  listProfiles(): Promise<{ name: string; role: string }[]>;
+  store: RunStorePort;
+  procedures: Partial<Record<RunKind, ProcedurePort>>;
+}

@@ -1,0 +1,101 @@
+/**
+ * One run from start to end: opens the run folder, hands the procedure a
+ * sink that writes to the folder and also feeds the renderer (sample
+ * batches, run events), and on the way out records the final status and
+ * tells the renderer. The procedure itself owns the instruments' safety.
+ */
+import type { BenchEvent, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
+import { RunControl } from '../procedures/run-control.ts';
+import type { ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
+import { createRun, type RunWriter } from '../store/index.ts';
+import type { OpenedBench, ProcedurePort } from './ports.ts';
+import { SampleBatcher } from './sample-batcher.ts';
+
+export interface RunSessionOptions {
+  runsDir: string;
+  kind: RunKind;
+  plan: unknown;
+  dutId: string;
+  bench: OpenedBench;
+  procedure: ProcedurePort;
+  emit: (event: BenchEvent) => void;
+  /** Real ms between sample batches. */
+  batchMs?: number;
+}
+
+export interface RunSession {
+  meta: RunMeta;
+  control: RunControl;
+  /** Resolves with the final run.json once the run has ended and been recorded. */
+  done: Promise<RunMeta>;
+}
+
+function teeSink(writer: RunWriter, batcher: SampleBatcher<SampleRow>, onEvent: (event: ProcedureEvent) => void): RunSink {
+  return {
+    appendSample(row) {
+      writer.appendSample(row);
+      batcher.push(row);
+    },
+    appendEvent(event) {
+      writer.appendEvent(event);
+      onEvent(event);
+    },
+    flush: () => writer.flush(),
+  };
+}
+
+export async function startRunSession(options: RunSessionOptions): Promise<RunSession> {
+  const { bench, emit } = options;
+  const writer = await createRun({
+    runsDir: options.runsDir,
+    kind: options.kind,
+    dut: { id: options.dutId },
+    instruments: bench.connection.roles.map((role) => ({ role: role.role, idn: role.idn, address: role.address })),
+    plan: options.plan,
+    columns: options.procedure.columns,
+    clock: bench.clock,
+    onError: (error) => emit({ type: 'error', message: `saving run samples failed: ${error.message}` }),
+  });
+  const runId = writer.id;
+  const batcher = new SampleBatcher<SampleRow>((rows) => emit({ type: 'samples', runId, rows }), options.batchMs ?? 150);
+  const sink = teeSink(writer, batcher, (event) => {
+    // Samples before the event, so the renderer sees them in order.
+    batcher.flushNow();
+    emit({ type: 'run-event', runId, event });
+  });
+  const control = new RunControl();
+  const meta = writer.meta();
+  emit({ type: 'run-started', meta });
+
+  const done = (async (): Promise<RunMeta> => {
+    let outcome: ProcedureOutcome | null = null;
+    try {
+      outcome = await options.procedure.run({
+        bench: bench.roles,
+        plan: options.plan,
+        clock: bench.clock,
+        sink,
+        control,
+        runId,
+        onProgress: (progress) => emit({ type: 'progress', progress }),
+      });
+    } catch (error) {
+      const message = error instanceof Error ? error.message : String(error);
+      sink.appendEvent({ time_s: writer.elapsedS(), type: 'error', error: message });
+      emit({ type: 'error', message: `${options.kind} run ${runId} failed: ${message}` });
+    }
+    batcher.flushNow();
+    if (outcome?.failure) emit({ type: 'error', message: `${options.kind} run ${runId}: ${outcome.failure.message}` });
+    let final: RunMeta;
+    try {
+      final = await writer.finish(outcome?.status ?? 'aborted');
+    } catch (error) {
+      const message = error instanceof Error ? error.message : String(error);
+      emit({ type: 'error', message: `recording the end of run ${runId} failed: ${message}` });
+      final = { ...writer.meta(), status: outcome?.status ?? 'aborted' };
+    }
+    emit({ type: 'run-ended', meta: final });
+    return final;
+  })();
+  return { meta, control, done };
+}
