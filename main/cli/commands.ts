@@ -1,15 +1,26 @@
 /**
- * Registry of sub-commands. Each contributor adds its command here.
+ * Registry of sub-commands, in the order `tunebench --help` lists them:
+ * the bench procedures first, then analysis, then the tools around them.
  */
-import { runsCommand } from './cmd-runs.ts';
 import { analyzeCommand } from './cmd-analyze.ts';
 import { datasheetCommand } from './cmd-datasheet.ts';
-import type { CliCommand } from './types.ts';
-import { sweepCommand } from './cmd-sweep.ts';
+import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
 import { pushingCommand } from './cmd-pushing.ts';
-import { demoCommand } from './cmd-demo.ts';
+import { runsCommand } from './cmd-runs.ts';
 import { serveCommand } from './cmd-serve.ts';
 import { simCommand } from './cmd-sim.ts';
+import { sweepCommand } from './cmd-sweep.ts';
+import type { CliCommand } from './types.ts';
 
-export const commands: CliCommand[] = [serveCommand, analyzeCommand, runsCommand, datasheetCommand, simCommand, sweepCommand, driftCommand, pushingCommand, demoCommand];
+export const commands: CliCommand[] = [
+  sweepCommand,
+  driftCommand,
+  pushingCommand,
+  analyzeCommand,
+  datasheetCommand,
+  runsCommand,
+  simCommand,
+  serveCommand,
+  demoCommand,
+];
