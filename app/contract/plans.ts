@@ -8,7 +8,20 @@ import { z } from 'zod';
 import { parseDurationS, parseSiNumber } from './si.ts';
 
 /** A number, or a string such as "250m" / "1.5k". */
-export const siNumber = z.union([z.number(), z.string()]).transform((value, ctx) => {
+const numberOrPrefixed = z.union([z.number(), z.string()], {
+  error: (issue) =>
+    issue.input === undefined
+      ? 'required: a number, optionally with an SI prefix (e.g. 0.25 or "250m")'
+      : `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${JSON.stringify(issue.input)}`,
+});
+const durationOrText = z.union([z.number(), z.string()], {
+  error: (issue) =>
+    issue.input === undefined
+      ? 'required: a duration such as 90, "90s", "15m" or "8h"'
+      : `expected a duration such as 90, "90s", "15m" or "8h", got ${JSON.stringify(issue.input)}`,
+});
+
+export const siNumber = numberOrPrefixed.transform((value, ctx) => {
   const parsed = typeof value === 'number' ? value : parseSiNumber(value);
   if (parsed === null || !Number.isFinite(parsed)) {
     ctx.addIssue({ code: 'custom', message: `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${JSON.stringify(value)}` });
@@ -18,7 +31,7 @@ export const siNumber = z.union([z.number(), z.string()]).transform((value, ctx)
 });
 
 /** A duration in seconds: a number, or "90s", "15m", "8h". */
-export const durationS = z.union([z.number(), z.string()]).transform((value, ctx) => {
+export const durationS = durationOrText.transform((value, ctx) => {
   const parsed = typeof value === 'number' ? value : parseDurationS(value);
   if (parsed === null || !(parsed >= 0)) {
     ctx.addIssue({ code: 'custom', message: `expected a duration such as 90, "90s", "15m" or "8h", got ${JSON.stringify(value)}` });
@@ -76,6 +89,8 @@ export const driftPlanSchema = z.object({
   intervalS: durationS.default(1),
   durationS: durationS.default(8 * 3600),
   gateS: durationS.default(0.1),
+  /** Settling at controlV before the first logged reading (optional; default auto, maxS 10 s). */
+  settle: settleSchema.optional(),
   limits: limitsSchema,
   safe: safeStateSchema.default({ controlV: 0, outputOff: true }),
 });

@@ -5,6 +5,8 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { z } from 'zod';
+import { parseAddress } from '../instruments/address.ts';
+import { AddressError } from '../instruments/errors.ts';
 import {
   benchConfigSchema,
   describeIssues,
@@ -46,7 +48,22 @@ export function parseWith<S extends z.ZodType>(schema: S, value: unknown, label:
 }
 
 export async function loadBenchFile(path: string): Promise<BenchConfig> {
-  return parseWith(benchConfigSchema, await readJson(path, 'bench file'), `bench file ${path}`);
+  const bench = parseWith(benchConfigSchema, await readJson(path, 'bench file'), `bench file ${path}`);
+  // Addresses are checked here, not at connect time, so the message names
+  // the role's field (`counter.address`) before any instrument is touched.
+  const problems: string[] = [];
+  for (const role of ['supply', 'counter', 'thermometer'] as const) {
+    const address = bench[role]?.address;
+    if (address === undefined) continue;
+    try {
+      parseAddress(address);
+    } catch (error) {
+      if (!(error instanceof AddressError)) throw error;
+      problems.push(`  ${role}.address: ${error.message.replace(/^address [^:]*: /, '')}`);
+    }
+  }
+  if (problems.length > 0) throw new ConfigFileError(`bench file ${path} is not valid:\n${problems.join('\n')}`);
+  return bench;
 }
 
 export async function loadSweepPlan(path: string): Promise<SweepPlan> {
