@@ -3,6 +3,7 @@
  * of CONTRACTS.md (plain CSV and run-folder samples.csv).
  */
 import { CsvError, numericColumn, requireNumeric, textColumn, type CsvTable } from './csv-input.ts';
+import { meanOfFinite } from './mean-finite.ts';
 import type { DriftInput } from './drift-analysis.ts';
 import type { PushingInput } from './pushing-analysis.ts';
 import type { SweepInput } from './sweep-points.ts';
@@ -95,17 +96,6 @@ export function pushingInputFromTable(table: CsvTable): PushingInput {
   const frequencyHz = requireNumeric(table, 'frequency_hz', 'frequency of each reading, Hz');
   const failed = applyStatus(table, frequencyHz);
   for (let r = 0; r < failed.length; r++) if (failed[r]) supplyV[r] = NaN; // grouping skips these rows
-  const control = numericColumn(table, 'control_v');
-  let controlV: number | undefined;
-  if (control && control.length > 0) {
-    let s = 0;
-    let k = 0;
-    for (const v of control) {
-      if (!Number.isFinite(v)) continue;
-      s += v;
-      k++;
-    }
-    if (k > 0) controlV = s / k;
-  }
+  const controlV = meanOfFinite(numericColumn(table, 'control_v')) ?? undefined;
   return { supplyV, frequencyHz, controlV };
 }

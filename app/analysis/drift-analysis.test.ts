@@ -1,6 +1,8 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { analyzeDrift } from './drift-analysis.ts';
 import { analyzePushing } from './pushing-analysis.ts';
+import { driftScenarios } from '../../test/fixtures/drift-scenarios.ts';
 
 function series(n: number, fn: (i: number) => { f: number; c?: number }): { timeS: Float64Array; frequencyHz: Float64Array; temperatureC: Float64Array } {
   const timeS = new Float64Array(n);
@@ -110,5 +112,16 @@ describe('analyzePushing', () => {
     expect(r.frequencyAtNominalHz).toBeCloseTo(4e8, 4);
     expect(r.pushingPpmPerV).toBeCloseTo(5, 9);
     expect(r.points).toHaveLength(3);
+  });
+});
+
+describe('analyzeDrift after the speed rework', () => {
+  // drift-golden.json is the output of the implementation before the rework (commit a91307a):
+  // the matrix-free line fit, in-place median and shared phase record must change no digit.
+  const golden = JSON.parse(readFileSync(new URL('../../test/fixtures/drift-golden.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+  it.each(driftScenarios().map((s) => [s.name, s] as const))('%s: same output, digit for digit', (name, scenario) => {
+    const now = JSON.parse(JSON.stringify(analyzeDrift(scenario.input, scenario.options))) as unknown;
+    expect(golden[name]).toBeDefined();
+    expect(now).toEqual(golden[name]);
   });
 });

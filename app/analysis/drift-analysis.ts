@@ -3,10 +3,12 @@
  * against time → tempco, warm-up, drift rate, f–T loop and Allan deviations.
  */
 import { AnalysisError } from './analysis-error.ts';
-import { stability, type StabilityPoint } from './allan.ts';
+import { deviationAt, octaveFactors, phaseFromFrequency, type StabilityKind, type StabilityPoint } from './allan.ts';
 import { fitPolynomial } from './poly-fit.ts';
 import { isNoOscillation } from './sweep-points.ts';
 import { frequencyTemperatureLoop, type FtLoop } from './drift-loop.ts';
+import { findWarmUp } from './drift-warmup.ts';
+import { kthSmallestInPlace } from './select-kth.ts';
 
 export interface DriftInput {
   timeS: Float64Array;
@@ -52,24 +54,9 @@ export interface DriftAnalysis {
 }
 
 export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): DriftAnalysis {
+  const { t, f, temp, m, mt } = validSamples(input);
   const n = input.timeS.length;
-  const t = new Float64Array(n);
-  const f = new Float64Array(n);
-  const temp = new Float64Array(n);
   const hasTemp = input.temperatureC !== undefined;
-  let m = 0;
-  let mt = 0; // samples with a temperature
-  for (let i = 0; i < n; i++) {
-    const fi = input.frequencyHz[i] as number;
-    const ti = input.timeS[i] as number;
-    if (isNoOscillation(fi) || !Number.isFinite(ti)) continue;
-    t[m] = ti;
-    f[m] = fi;
-    const c = hasTemp ? (input.temperatureC?.[i] as number) : NaN;
-    temp[m] = c;
-    if (Number.isFinite(c)) mt++;
-    m++;
-  }
   if (m < 3) throw new AnalysisError(`a drift analysis needs at least 3 valid readings (got ${m})`);
   const warnings: string[] = [];
   let meanHz = 0;
@@ -82,13 +69,16 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
   let tSpan: number | null = null;
   let tMean: number | null = null;
   if (mt >= 3) {
-    const tt = new Float64Array(mt);
-    const ff = new Float64Array(mt);
-    let k = 0;
-    for (let i = 0; i < m; i++) {
-      if (!Number.isFinite(temp[i] as number)) continue;
-      tt[k] = temp[i] as number;
-      ff[k++] = f[i] as number;
+    // Every valid sample has a temperature (the usual case): fit the columns as they are.
+    const tt = mt === m ? temp : new Float64Array(mt);
+    const ff = mt === m ? f : new Float64Array(mt);
+    if (mt < m) {
+      let k = 0;
+      for (let i = 0; i < m; i++) {
+        if (!Number.isFinite(temp[i] as number)) continue;
+        tt[k] = temp[i] as number;
+        ff[k++] = f[i] as number;
+      }
     }
     let lo = Infinity;
     let hi = -Infinity;
@@ -119,17 +109,24 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
   if (!warmUp.settled) warnings.push('drift never settled within the limit; drift rate is over the last quarter');
 
   // Allan deviations of y = (f − mean)/mean, assuming the nominal interval.
-  const dts = new Float64Array(m - 1);
+  // One buffer holds the intervals, then (once their median is known) the phase: a fresh
+  // million-sample array costs page faults comparable to the arithmetic.
+  const buffer = new Float64Array(m + 1);
+  const dts = buffer.subarray(0, m - 1);
   for (let i = 1; i < m; i++) dts[i - 1] = (t[i] as number) - (t[i - 1] as number);
-  const tau0S = dts.slice().sort()[(m - 1) >> 1] as number;
+  const tau0S = kthSmallestInPlace(dts, (m - 1) >> 1); // the median interval; reorders dts
   let irregular = 0;
-  for (let i = 0; i < m - 1; i++) if (Math.abs((dts[i] as number) - tau0S) > 0.1 * tau0S) irregular++;
+  for (let i = 1; i < m; i++) if (Math.abs((t[i] as number) - (t[i - 1] as number) - tau0S) > 0.1 * tau0S) irregular++;
   if (irregular > 0) warnings.push(`${irregular} sample intervals differ from ${tau0S} s by > 10 %; Allan deviations assume even spacing`);
   const y = new Float64Array(m);
   for (let i = 0; i < m; i++) y[i] = ((f[i] as number) - meanHz) / meanHz;
   const factors = options.averagingFactors;
   if (factors?.some((f) => !Number.isInteger(f) || f < 1)) throw new AnalysisError('averaging factors must be whole numbers ≥ 1');
-  const oadev = stability('oadev', y, 0, m, tau0S, factors).filter((p) => p.terms > 0);
+  // One phase record serves all three statistics.
+  const x = phaseFromFrequency(y, 0, m, tau0S, buffer);
+  const allan = (kind: StabilityKind): StabilityPoint[] =>
+    (factors ?? octaveFactors(m, kind)).map((factor) => deviationAt(kind, x, tau0S, factor)).filter((p) => p.terms > 0);
+  const oadev = allan('oadev');
   const loop = hasTemp ? frequencyTemperatureLoop(temp, f, m, meanHz) : null;
 
   return {
@@ -154,9 +151,9 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
     allan: {
       tau0S,
       samples: m,
-      adev: stability('adev', y, 0, m, tau0S, factors).filter((p) => p.terms > 0),
+      adev: allan('adev'),
       oadev,
-      mdev: stability('mdev', y, 0, m, tau0S, factors).filter((p) => p.terms > 0),
+      mdev: allan('mdev'),
     },
     samples: n,
     noOscillationSamples: n - m,
@@ -166,34 +163,36 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
 }
 
 /**
- * Warm-up: the record is cut into 20 windows (≥ 10 samples each); the drift
- * rate of each is its least-squares slope. Warm-up ends at the start of the
- * first window after which every window stays within the limit (allowing
- * two standard deviations of the window's slope for noise).
+ * The readings that oscillated, at finite times, as columns of length m (mt
+ * of them with a finite temperature). When every reading is valid the input
+ * columns are used as they are (they are only read): no copy of a million samples.
  */
-function findWarmUp(
-  t: Float64Array,
-  f: Float64Array,
-  m: number,
-  meanHz: number,
-  limit: number,
-): { settled: boolean; startIndex: number; limit: number; windowS: number } {
-  const windows = Math.max(1, Math.min(20, Math.floor(m / 10)));
-  const size = Math.floor(m / windows);
-  const toPpmH = (3600 * 1e6) / meanHz;
-  let start = -1;
-  for (let w = windows - 1; w >= 0; w--) {
-    const a = w * size;
-    const b = w === windows - 1 ? m : a + size;
-    if (b - a < 3 || (t[b - 1] as number) <= (t[a] as number)) break;
-    const line = fitPolynomial(t, f, a, b, 1);
-    const rate = (line.coefficients[1] as number) * toPpmH;
-    const rateSd = Number.isFinite(line.coefficientStdDev[1]) ? (line.coefficientStdDev[1] as number) * toPpmH : 0;
-    // Settled while the rate is consistent (2σ) with lying inside the limit: noise alone does not extend warm-up.
-    if (Math.abs(rate) - 2 * Math.abs(rateSd) > limit) break;
-    start = a;
+function validSamples(input: DriftInput): { t: Float64Array; f: Float64Array; temp: Float64Array; m: number; mt: number } {
+  const n = input.timeS.length;
+  const inTemp = input.temperatureC;
+  let m = 0;
+  let mt = 0;
+  for (let i = 0; i < n; i++) {
+    if (isNoOscillation(input.frequencyHz[i] as number) || !Number.isFinite(input.timeS[i] as number)) continue;
+    m++;
+    if (inTemp !== undefined && Number.isFinite(inTemp[i] as number)) mt++;
   }
-  const windowS = ((t[m - 1] as number) - (t[0] as number)) / windows;
-  if (start < 0) return { settled: false, startIndex: Math.floor((3 * m) / 4), limit, windowS };
-  return { settled: true, startIndex: start, limit, windowS };
+  if (m === n && input.frequencyHz.length >= n && (inTemp === undefined || inTemp.length >= n)) {
+    // Without a temperature column nothing reads `temp` (mt = 0, no loop).
+    return { t: input.timeS, f: input.frequencyHz, temp: inTemp ?? new Float64Array(0), m, mt };
+  }
+  const t = new Float64Array(m);
+  const f = new Float64Array(m);
+  const temp = new Float64Array(m);
+  let k = 0;
+  for (let i = 0; i < n; i++) {
+    const fi = input.frequencyHz[i] as number;
+    const ti = input.timeS[i] as number;
+    if (isNoOscillation(fi) || !Number.isFinite(ti)) continue;
+    t[k] = ti;
+    f[k] = fi;
+    temp[k] = inTemp !== undefined ? (inTemp[i] as number) : NaN;
+    k++;
+  }
+  return { t, f, temp, m, mt };
 }

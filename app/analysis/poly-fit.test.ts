@@ -94,3 +94,41 @@ describe('fitPolynomial recovers random exact polynomials (property)', () => {
     );
   });
 });
+
+describe('fitPolynomial: the matrix-free straight line', () => {
+  // The line path claims the same floating-point operations as design matrix + Householder QR;
+  // equality here is exact (toEqual on every number and Float64Array element), not a tolerance.
+  it('is bit-for-bit the general QR path (property, incl. offsets, wide ranges and windows)', () => {
+    const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
+    fc.assert(
+      fc.property(
+        fc.array(fc.tuple(finite(-1e9, 1e9), finite(-1e12, 1e12)), { minLength: 2, maxLength: 60 }),
+        fc.nat(3),
+        (pairs, skip) => {
+          const xs = Float64Array.from(pairs, (p) => p[0]);
+          const ys = Float64Array.from(pairs, (p) => p[1]);
+          const i0 = Math.min(skip, pairs.length - 2);
+          const run = (general: boolean): unknown => {
+            try {
+              return fitPolynomial(xs, ys, i0, pairs.length, 1, general);
+            } catch (error) {
+              return String(error);
+            }
+          };
+          expect(run(false)).toEqual(run(true));
+        },
+      ),
+      { numRuns: 400 },
+    );
+  });
+
+  it('same on a long, drift-like record, and the same refusal when every x is equal', () => {
+    const n = 20_000;
+    const t = Float64Array.from({ length: n }, (_, i) => 1e6 + i);
+    const f = Float64Array.from({ length: n }, (_, i) => 1e7 + 1e-3 * i + ((i * 7919) % 13) * 1e-3);
+    expect(fitPolynomial(t, f, 17, n, 1)).toEqual(fitPolynomial(t, f, 17, n, 1, true));
+    const flat = new Float64Array(5).fill(2);
+    expect(() => fitPolynomial(flat, f, 0, 5, 1)).toThrow('needs 2 distinct x values');
+  });
+});
+

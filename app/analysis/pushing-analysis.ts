@@ -4,7 +4,7 @@
  */
 import { AnalysisError } from './analysis-error.ts';
 import { derivativeStdDev, evalPoly, fitPolynomial } from './poly-fit.ts';
-import { groupPoints } from './sweep-points.ts';
+import { groupPoints, pointSummaries } from './sweep-points.ts';
 
 export interface PushingInput {
   supplyV: Float64Array;
@@ -43,16 +43,7 @@ export function analyzePushing(input: PushingInput, nominalSupplyV?: number): Pu
   const fNom = evalPoly(line, nominal);
   const slope = line.coefficients[1] as number;
   const sd = v.length > 2 ? derivativeStdDev(line, nominal) : NaN;
-  const points: PushingAnalysis['points'] = [];
-  for (let i = 0; i < pts.count; i++) {
-    points.push({
-      supplyV: pts.v[i] as number,
-      meanHz: pts.meanHz[i] as number,
-      sdHz: pts.sdHz[i] as number,
-      readings: (pts.nOsc[i] as number) + (pts.nNoOsc[i] as number),
-      noOscillation: pts.nNoOsc[i] as number,
-    });
-  }
+  const points: PushingAnalysis['points'] = pointSummaries(pts).map(({ v: supplyV, ...rest }) => ({ supplyV, ...rest }));
   return {
     kind: 'pushing',
     pushingHzPerV: slope,

@@ -9,7 +9,7 @@ import { findEdges, type Edges } from './sweep-edges.ts';
 import { bestLine, fitKvco, widestLinearRange, type LocalKvco } from './sweep-gain.ts';
 import { localKvcoEntries } from './sweep-local-kvco.ts';
 import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
-import { groupPoints, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
+import { groupPoints, pointSummaries, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
 
 export interface SweepOptions {
@@ -175,16 +175,5 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
 }
 
 function pointsJson(points: PointSet, edges: Edges): SweepAnalysis['points'] {
-  const rows: SweepAnalysis['points'] = [];
-  for (let i = 0; i < points.count; i++) {
-    rows.push({
-      v: points.v[i] as number,
-      meanHz: points.meanHz[i] as number,
-      sdHz: points.sdHz[i] as number,
-      readings: (points.nOsc[i] as number) + (points.nNoOsc[i] as number),
-      noOscillation: points.nNoOsc[i] as number,
-      unstable: edges.unstable[i] === 1,
-    });
-  }
-  return rows;
+  return pointSummaries(points).map((row, i) => ({ ...row, unstable: edges.unstable[i] === 1 }));
 }

@@ -111,3 +111,18 @@ export function oscillatingFraction(points: PointSet, i: number): number {
   const b = points.nNoOsc[i] as number;
   return a + b > 0 ? a / (a + b) : 0;
 }
+
+/** One plain row per point (for results and JSON): voltage, mean, SD, readings, of which no oscillation. */
+export function pointSummaries(points: PointSet): { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number }[] {
+  const rows = [];
+  for (let i = 0; i < points.count; i++) {
+    rows.push({
+      v: points.v[i] as number,
+      meanHz: points.meanHz[i] as number,
+      sdHz: points.sdHz[i] as number,
+      readings: (points.nOsc[i] as number) + (points.nNoOsc[i] as number),
+      noOscillation: points.nNoOsc[i] as number,
+    });
+  }
+  return rows;
+}

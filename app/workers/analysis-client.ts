@@ -34,6 +34,22 @@ function getWorker(): Worker | null {
   return worker;
 }
 
+/**
+ * Runs `post` once the next frame has been painted (or after 100 ms when no
+ * frame comes, e.g. a hidden tab): copying a million-row job into the
+ * worker takes a good part of a second, and the plots should paint first.
+ */
+function afterNextFrame(post: () => void): void {
+  let done = false;
+  const once = (): void => {
+    if (done) return;
+    done = true;
+    post();
+  };
+  if (typeof requestAnimationFrame === 'function') requestAnimationFrame(() => setTimeout(once, 0));
+  setTimeout(once, 100);
+}
+
 export function analyzeInBackground(job: AnalysisJob): Promise<JobResult> {
   const target = getWorker();
   if (!target) return new Promise((resolve) => setTimeout(() => resolve(runJob(job)), 0));
@@ -41,6 +57,9 @@ export function analyzeInBackground(job: AnalysisJob): Promise<JobResult> {
   nextId += 1;
   return new Promise((resolve) => {
     waiting.set(id, { job, resolve });
-    target.postMessage({ id, job });
+    afterNextFrame(() => {
+      // The worker may have failed meanwhile; then the error handler has answered this job in the page.
+      if (waiting.has(id)) target.postMessage({ id, job });
+    });
   });
 }

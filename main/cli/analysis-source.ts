@@ -5,9 +5,9 @@
  */
 import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
-import { z } from 'zod';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { detectCsvKind, type CsvKind } from '../../app/analysis/csv-columns.ts';
+import { datasheetRunLabel, planHints, runConditions, type PlanHints } from '../../app/analysis/datasheet-run.ts';
 import { CsvError, numericColumn, parseCsv, type CsvTable } from '../../app/analysis/csv-input.ts';
 import { readRunFolder } from '../store/run-reader.ts';
 import { UsageError } from './types.ts';
@@ -22,24 +22,6 @@ export interface AnalysisSource {
   eventsByType: Record<string, number>;
   gateS: number | undefined;
   conditions: { temperatureC: number | null; supplyV: number | null; gateS: number | null };
-}
-
-const planHints = z.looseObject({
-  gateS: z.number().positive().optional(),
-  supplyV: z.number().optional(),
-  dutSupplyV: z.number().optional(),
-});
-
-function meanOf(col: Float64Array | null): number | null {
-  if (!col) return null;
-  let s = 0;
-  let k = 0;
-  for (const v of col) {
-    if (!Number.isFinite(v)) continue;
-    s += v;
-    k++;
-  }
-  return k > 0 ? s / k : null;
 }
 
 function tableOf(text: string, file: string): CsvTable {
@@ -60,7 +42,7 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
   let meta: RunMeta | null = null;
   let kind: CsvKind;
   let label = path;
-  let hints: z.infer<typeof planHints> = {};
+  let hints: PlanHints = {};
   const eventsByType: Record<string, number> = {};
   if (info.isDirectory()) {
     try {
@@ -73,9 +55,8 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
       throw new UsageError(`${path}: not a readable run folder (${(error as Error).message})`);
     }
     kind = meta.kind;
-    label = `${meta.id}${meta.dut.id ? ` (${meta.dut.id})` : ''}`;
-    const parsed = planHints.safeParse(meta.plan);
-    if (parsed.success) hints = parsed.data;
+    label = datasheetRunLabel(meta.id, meta.dut.id);
+    hints = planHints(meta.plan);
   } else {
     table = tableOf(await readFile(path, 'utf8'), path);
     try {
@@ -85,11 +66,9 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
       throw error;
     }
   }
-  let supplyV: number | null;
-  let temperatureC: number | null;
+  let conditions: AnalysisSource['conditions'];
   try {
-    supplyV = meanOf(numericColumn(table, 'supply_v')) ?? hints.supplyV ?? hints.dutSupplyV ?? null;
-    temperatureC = meanOf(numericColumn(table, 'temperature_c'));
+    conditions = runConditions(kind, { supplyV: numericColumn(table, 'supply_v'), temperatureC: numericColumn(table, 'temperature_c') }, hints);
   } catch (error) {
     if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
     throw error;
@@ -102,6 +81,6 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
     meta,
     eventsByType,
     gateS: hints.gateS,
-    conditions: { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null },
+    conditions,
   };
 }

@@ -18,11 +18,13 @@ const usage = `usage: tunebench drift [--bench BENCH.json] [--plan PLAN.json] [-
 
 Holds the control voltage and logs frequency (and temperature, with a
 thermometer on the bench) every interval until the duration ends or Ctrl-C —
-a clean stop that keeps everything recorded. Dropped links are reopened and
-the gaps recorded. Without --bench it runs on the built-in simulated bench.
+a clean stop that keeps everything recorded. The first reading waits until the
+tuning port has settled at the control voltage (plan "settle"; default
+automatic, at most 10 s). Dropped links are reopened and the gaps recorded.
+Without --bench it runs on the built-in simulated bench.
 
 options:
-  --plan FILE       drift plan { controlV, intervalS, durationS, gateS, limits, safe }
+  --plan FILE       drift plan { controlV, intervalS, durationS, gateS, settle, limits, safe }
   --duration TIME   overrides the plan: 90s, 15m, 8h (default 8h)
   --interval TIME   overrides the plan: time between readings (default 1s)
   --resume RUN_ID   carry on an interrupted drift log in its own folder (gap recorded)

@@ -61,18 +61,26 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
     const sim = bench.sim;
     if (sim === null) throw new Error('expected the simulated bench');
 
-    // Everything the counter driver hands to the procedure, in order.
+    // Everything the counter driver hands to the procedure once logging starts, in order
+    // (readings while the tuning port settles, before the `settled` event, are not samples).
     const delivered: number[] = [];
+    let logging = false;
     const read = bench.counter.readFrequency.bind(bench.counter);
     bench.counter.readFrequency = async (): Promise<FrequencyReading> => {
       const reading = await read();
-      if (reading.status === 'ok') delivered.push(reading.frequencyHz);
+      if (reading.status === 'ok' && logging) delivered.push(reading.frequencyHz);
       return reading;
     };
 
     const plan = driftPlanSchema.parse({ controlV: 3, intervalS: 1, durationS: DURATION_S, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.02 } });
     let runStartS = 0;
-    const recorded = await recordDrift({ bench, plan, clock, runsDir, dutId: 'sensor-osc-12h', onRunStarted: () => (runStartS = clock.now()) });
+    const recorded = await recordDrift({
+      bench, plan, clock, runsDir, dutId: 'sensor-osc-12h',
+      onRunStarted: () => (runStartS = clock.now()),
+      onEvent: (event) => {
+        if (event.type === 'settled') logging = true;
+      },
+    });
     await bench.close();
 
     expect(recorded.meta.status).toBe('complete');

@@ -16,6 +16,7 @@ import { DriftLink } from './drift-link.ts';
 import { applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
+import { DEFAULT_DRIFT_SETTLE, settleAtSetpoint } from './settle-at.ts';
 import { goSafe } from './safe-state.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink } from './types.ts';
 
@@ -59,8 +60,12 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
     ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
     await bench.counter.setGate(plan.gateS);
     await bench.supply.setVoltage(channel, plan.controlV);
+    const stepAtS = clock.now();
     await bench.supply.setOutput(channel, true);
     ctx.event({ type: 'output-on', channel, controlV: plan.controlV });
+    // The tuning port starts from 0 V: a reading before it has settled would sit off the rest of the log.
+    progress.report('settling', 0, null);
+    await progress.excluding(() => settleAtSetpoint(ctx, plan.settle ?? DEFAULT_DRIFT_SETTLE, plan.gateS, stepAtS, plan.controlV, control.signal));
 
     const firstSlotS = ctx.timeS();
     for (let slot = 0; ; slot++) {
@@ -88,6 +93,7 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
     ctx.event(failure === null ? { type: clean ? 'stopped' : 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
   } finally {
     control.onPauseChange(null);
+    progress.finish(outcome.status === 'complete');
     await link.checkErrorQueues(true);
     link.closeGap();
     outcome.gaps = link.gaps;

@@ -1,12 +1,22 @@
 /**
  * Progress reports with an ETA from the mean time per point so far — the
  * settling time varies along a sweep, so the running mean beats a guess
- * from the plan.
+ * from the plan. One-off work that is not a point (the settling probe, the
+ * drift log's first settle) is left out of that mean, so it does not inflate
+ * the ETA of the points after it, and so is the first point (it starts at
+ * switch-on, unlike the rest).
+ *
+ * The total is what is planned now: refinement points are added when the
+ * refinement starts and the total is cut back to the points actually done
+ * when a run completes (a bisection may stop early), so a finished run
+ * always reads "n of n" with an ETA of 0.
  */
 import type { ProgressInfo, RunKind, SampleStatus } from '../../app/contract/bench-api.ts';
 import type { Clock } from '../time/clock.ts';
 
 export type ProgressListener = (progress: ProgressInfo) => void;
+
+type Latest = { controlV: number; frequencyHz: number; status: SampleStatus } | null;
 
 export class ProgressReporter {
   readonly #clock: Clock;
@@ -14,6 +24,10 @@ export class ProgressReporter {
   readonly #runId: string;
   readonly #kind: RunKind;
   readonly #startS: number;
+  #excludedS = 0;
+  #done = 0;
+  /** Clock time and count of the first report with a point done; the rate is measured from there on. */
+  #baseline: { atS: number; done: number; excludedS: number } | null = null;
   total: number;
 
   constructor(clock: Clock, kind: RunKind, runId: string, total: number, listener?: ProgressListener) {
@@ -25,14 +39,33 @@ export class ProgressReporter {
     this.#startS = clock.now();
   }
 
-  report(
-    phase: ProgressInfo['phase'],
-    done: number,
-    latest: { controlV: number; frequencyHz: number; status: SampleStatus } | null,
-  ): void {
+  /** Points done so far (the last count reported). */
+  get done(): number {
+    return this.#done;
+  }
+
+  /** Leaves `seconds` of one-off work out of the time per point. */
+  exclude(seconds: number): void {
+    if (seconds > 0) this.#excludedS += seconds;
+  }
+
+  /** Time `work` and leave it out of the time per point. */
+  async excluding<T>(work: () => Promise<T>): Promise<T> {
+    const t0 = this.#clock.now();
+    try {
+      return await work();
+    } finally {
+      this.exclude(this.#clock.now() - t0);
+    }
+  }
+
+  report(phase: ProgressInfo['phase'], done: number, latest: Latest): void {
+    this.#done = done;
+    const nowS = this.#clock.now();
+    if (this.#baseline === null && done > 0) this.#baseline = { atS: nowS, done, excludedS: this.#excludedS };
     if (!this.#listener) return;
-    const elapsedS = this.#clock.now() - this.#startS;
-    const etaS = done > 0 && this.total >= done ? (elapsedS / done) * (this.total - done) : null;
+    const perPointS = this.#perPointS(nowS, done);
+    const etaS = done > 0 && this.total >= done ? perPointS * (this.total - done) : null;
     this.#listener({
       runId: this.#runId,
       kind: this.#kind,
@@ -42,5 +75,26 @@ export class ProgressReporter {
       etaS,
       latest: latest === null ? null : { controlV: latest.controlV, frequencyHz: Number.isNaN(latest.frequencyHz) ? null : latest.frequencyHz, status: latest.status },
     });
+  }
+
+  /**
+   * Mean time per point. The first point starts at switch-on (no step, or
+   * one through the stall edge), so once a later point is done the rate is
+   * measured from the end of the first.
+   */
+  #perPointS(nowS: number, done: number): number {
+    const base = this.#baseline;
+    if (base !== null && done > base.done) return Math.max(0, nowS - base.atS - (this.#excludedS - base.excludedS)) / (done - base.done);
+    return done > 0 ? Math.max(0, nowS - this.#startS - this.#excludedS) / done : Number.NaN;
+  }
+
+  /**
+   * The last report of a run. A completed run did everything it was going
+   * to: the total becomes the points done (ETA 0). A run that ended early
+   * keeps its planned total, so "12 of 40" says how far it got.
+   */
+  finish(completed: boolean): void {
+    if (completed) this.total = this.#done;
+    this.report('finishing', this.#done, null);
   }
 }

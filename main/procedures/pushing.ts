@@ -6,7 +6,9 @@
  */
 import type { PushingPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
-import { ProcedureContext, classifyEnd } from './context.ts';
+import { ProcedureContext, ProcedureFailure, classifyEnd } from './context.ts';
+import { UnsupportedOperationError } from '../instruments/errors.ts';
+import type { Supply } from '../instruments/roles.ts';
 import { LimitsError, applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
@@ -65,8 +67,21 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
     await control.checkpoint(clock);
     restoreDut = { volts: await bench.supply.getVoltageSetpoint(dutChannel), on: await bench.supply.getOutput(dutChannel) };
     ctx.event({ type: 'dut-supply-found', volts: restoreDut.volts, on: restoreDut.on });
+    const dutOvpV = dutSupplyOvpLevelV(plan.maxSupplyV);
+    if (restoreDut.volts > dutOvpV) {
+      // Protection set below the voltage found would trip (or refuse) the way back: change nothing.
+      throw new ProcedureFailure('limits', `maxSupplyV: the DUT supply (channel ${dutChannel}) is at ${restoreDut.volts} V, above maxSupplyV (${plan.maxSupplyV} V) plus its protection margin; the plan is refused`);
+    }
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
-    ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV, maxSupplyV: plan.maxSupplyV });
+    const dutOvpApplied = await applyDutSupplyOvp(bench.supply, dutChannel, dutOvpV);
+    ctx.event({
+      type: 'limits',
+      currentLimitA: plan.limits.currentLimitA,
+      ovpV: ovpApplied ? ovpLevelV(plan.limits) : null,
+      maxControlV: plan.limits.maxControlV,
+      maxSupplyV: plan.maxSupplyV,
+      dutSupplyOvpV: dutOvpApplied ? dutOvpV : null,
+    });
     await bench.counter.setGate(plan.gateS);
     await bench.supply.setVoltage(channel, plan.controlV);
     await bench.supply.setOutput(channel, true);
@@ -111,6 +126,7 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
     ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
   } finally {
     control.onPauseChange(null);
+    progress.finish(outcome.status === 'complete');
     const record = (event: { type: string; [key: string]: unknown }): void => ctx.event(event);
     const safe = await goSafe(bench, channel, plan.safe, record);
     let restored = true;
@@ -130,6 +146,27 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
     }
   }
   return outcome;
+}
+
+/**
+ * Over-voltage protection level of the DUT supply channel: maxSupplyV plus
+ * 5 % (at least 50 mV), so a setpoint at maxSupplyV never trips it and a
+ * runaway write stops not far above it.
+ */
+export function dutSupplyOvpLevelV(maxSupplyV: number): number {
+  return maxSupplyV + Math.max(0.05, 0.05 * maxSupplyV);
+}
+
+/** Sets OVP on the DUT supply channel when the supply has it; false when it has not. */
+async function applyDutSupplyOvp(supply: Supply, channel: number, volts: number): Promise<boolean> {
+  if (!supply.capabilities.overVoltageProtection) return false;
+  try {
+    await supply.setOverVoltageProtection(channel, volts);
+    return true;
+  } catch (error) {
+    if (error instanceof UnsupportedOperationError) return false;
+    throw error;
+  }
 }
 
 async function bestEffort(action: () => Promise<void>, step: string, record: (event: { type: string; [key: string]: unknown }) => void): Promise<boolean> {

@@ -94,52 +94,40 @@ export function validatePushingPlan(plan: PushingPlan): void {
   checkPushingLimits(plan);
 }
 
-export async function recordSweep(options: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
-  validateSweepPlan(options.plan);
-  const writer = await createRun({
+/** The run folder of a new run of `kind`, described from the options and the plan. */
+function createRunFor(options: RecordOptions, kind: RunMeta['kind'], plan: SweepPlan | DriftPlan | PushingPlan, columns: readonly string[]): Promise<RunWriter> {
+  return createRun({
     runsDir: options.runsDir,
     clock: options.clock,
-    kind: 'sweep',
+    kind,
     dut: { id: options.dutId, notes: options.dutNotes },
     instruments: options.bench.instruments,
-    plan: options.plan,
-    columns: SWEEP_COLUMNS,
+    plan,
+    columns,
   });
-  return record(writer, options, (sink) =>
-    runSweep({ bench: options.bench, plan: options.plan, clock: options.clock, sink, control: options.control, onProgress: options.onProgress, runId: writer.id }),
-  );
+}
+
+/** What every procedure takes from the options besides its plan and sink. */
+function procedureContext(options: RecordOptions, writer: RunWriter) {
+  return { bench: options.bench, clock: options.clock, control: options.control, onProgress: options.onProgress, runId: writer.id };
+}
+
+export async function recordSweep(options: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
+  validateSweepPlan(options.plan);
+  const writer = await createRunFor(options, 'sweep', options.plan, SWEEP_COLUMNS);
+  return record(writer, options, (sink) => runSweep({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
 
 export async function recordDrift(options: RecordOptions & { plan: DriftPlan }): Promise<RecordedRun<DriftOutcome>> {
   validateDriftPlan(options.plan);
-  const writer = await createRun({
-    runsDir: options.runsDir,
-    clock: options.clock,
-    kind: 'drift',
-    dut: { id: options.dutId, notes: options.dutNotes },
-    instruments: options.bench.instruments,
-    plan: options.plan,
-    columns: DRIFT_COLUMNS,
-  });
-  return record(writer, options, (sink) =>
-    runDrift({ bench: options.bench, plan: options.plan, clock: options.clock, sink, control: options.control, onProgress: options.onProgress, runId: writer.id }),
-  );
+  const writer = await createRunFor(options, 'drift', options.plan, DRIFT_COLUMNS);
+  return record(writer, options, (sink) => runDrift({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
 
 export async function recordPushing(options: RecordOptions & { plan: PushingPlan }): Promise<RecordedRun<PushingOutcome>> {
   validatePushingPlan(options.plan);
-  const writer = await createRun({
-    runsDir: options.runsDir,
-    clock: options.clock,
-    kind: 'pushing',
-    dut: { id: options.dutId, notes: options.dutNotes },
-    instruments: options.bench.instruments,
-    plan: options.plan,
-    columns: PUSHING_COLUMNS,
-  });
-  return record(writer, options, (sink) =>
-    runPushing({ bench: options.bench, plan: options.plan, clock: options.clock, sink, control: options.control, onProgress: options.onProgress, runId: writer.id }),
-  );
+  const writer = await createRunFor(options, 'pushing', options.plan, PUSHING_COLUMNS);
+  return record(writer, options, (sink) => runPushing({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
 
 /**
@@ -156,7 +144,6 @@ export async function resumeDrift(options: Omit<RecordOptions, 'dutId' | 'dutNot
     throw new RangeError(`run ${meta.id}: only a drift log with a valid plan can be resumed (kind ${meta.kind})`);
   }
   const plan = parsed.data;
-  return record(writer, { ...options, dutId: meta.dut.id }, (sink) =>
-    runDrift({ bench: options.bench, plan, clock: options.clock, sink, control: options.control, onProgress: options.onProgress, runId: writer.id, timeOffsetS: writer.elapsedS() }),
-  );
+  const resumed = { ...options, dutId: meta.dut.id };
+  return record(writer, resumed, (sink) => runDrift({ ...procedureContext(resumed, writer), plan, sink, timeOffsetS: writer.elapsedS() }));
 }

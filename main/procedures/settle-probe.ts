@@ -10,8 +10,8 @@
  */
 import type { SweepPlan } from '../../app/contract/plans.ts';
 import type { ProcedureContext } from './context.ts';
-import { settleAuto, settleNoiseHz } from './settle.ts';
-import type { PointState } from './sweep-point.ts';
+import { settleAuto } from './settle.ts';
+import { minFitStepHz, type PointState } from './sweep-point.ts';
 
 /** The level a probe from `fromV` steps to: a quarter of the range along the sweep, inside it. */
 export function probeTarget(levels: Float64Array, fromV: number, upward: boolean): number | null {
@@ -24,35 +24,44 @@ export function probeTarget(levels: Float64Array, fromV: number, upward: boolean
   return Math.abs(target - fromV) > 0 ? target : null;
 }
 
-/** Steps to `toV`, waits it out, fits τ; returns the estimate (or null) and leaves the port at `toV`. */
+/**
+ * Steps to `toV`, waits it out, fits τ; returns the estimate (or null) and
+ * the settled frequency at `toV` (NaN if none), leaving the port at `toV`.
+ */
 export async function probeTimeConstant(
   ctx: ProcedureContext,
   plan: SweepPlan,
   state: PointState,
   toV: number,
   signal: AbortSignal,
-): Promise<number | null> {
-  if (plan.settle.mode !== 'auto') return null;
+): Promise<{ tauS: number | null; endHz: number }> {
+  if (plan.settle.mode !== 'auto') return { tauS: null, endHz: Number.NaN };
   const stepAtS = ctx.clock.now();
   await ctx.bench.supply.setVoltage(ctx.bench.controlChannel, toV);
   const options = { gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, trace: state.trace };
   const settled = await settleAuto(ctx.clock, stepAtS, () => ctx.readFrequency(), options, state.tau, signal);
+  const trace = state.trace;
   let sum = 0;
   let count = 0;
   for (let i = 0; i < 3; i++) {
     const reading = await ctx.readFrequency();
-    if (reading.status === 'ok') {
-      sum += reading.frequencyHz;
-      count++;
+    if (reading.status !== 'ok') continue;
+    sum += reading.frequencyHz;
+    count++;
+    // The settled readings are the tail of the step: the fit finds the end value from them.
+    if (trace.n < trace.timesS.length) {
+      trace.timesS[trace.n] = ctx.clock.now() - plan.gateS / 2 - stepAtS;
+      trace.valuesHz[trace.n] = reading.frequencyHz;
+      trace.n++;
     }
   }
   if (count === 0) {
     ctx.event({ type: 'settle-probe', toV, tauS: null, note: 'no oscillation at the probe voltage' });
-    return null;
+    return { tauS: null, endHz: Number.NaN };
   }
   const endHz = sum / count;
-  state.tau.fitPoint(state.trace.timesS, state.trace.valuesHz, state.trace.n, endHz, settleNoiseHz(options));
+  state.tau.fitStep(trace.timesS, trace.valuesHz, trace.n, minFitStepHz(plan.gateS));
   const tauS = state.tau.tauS;
   ctx.event({ type: 'settle-probe', toV, tauS, settled: settled.settled, waitedS: settled.elapsedS });
-  return tauS;
+  return { tauS, endHz };
 }

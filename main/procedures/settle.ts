@@ -12,8 +12,13 @@
  *    f − f_before = A·(1 − e^(−t/τ)), gives the step A and so what is left,
  *    A·e^(−t/τ); A is never taken smaller than the previous step's size (on
  *    a smooth curve steps are alike, and a few counts of step can hide in the
- *    quantisation of an early reading). The next reading is placed where the
- *    rest should be half the tolerance — one jump instead of creeping up.
+ *    quantisation of an early reading). The first reading after the step
+ *    places the next where the rest should be half the tolerance — one jump,
+ *    t = τ·ln(2A/tol), instead of creeping up — and that reading decides.
+ *    Only a reading taken once half the step is done (by τ) may decide: an
+ *    earlier one can hide the whole step in its ±1 count. The deciding
+ *    reading is returned (`last`): it is as settled as any after it, so the
+ *    sweep records it as the point's first reading instead of reading again.
  * 2. Otherwise: two readings Δ apart differ by d = rem·(e^(Δ/τ) − 1), so
  *    rem = d / (e^(Δ/τ) − 1), which grows with τ; with τ taken as the time
  *    since the step (T), the test covers any τ up to T, and readings are
@@ -66,10 +71,22 @@ export interface SettleOutcome {
   elapsedS: number;
   readings: number;
   toleranceHz: number;
+  /**
+   * The reading that showed the port settled and when it ended (clock s);
+   * null when not settled. It is a settled reading like any after it, so a
+   * caller may record it as the point's first.
+   */
+  last: { reading: CounterReading; atS: number } | null;
 }
 
 /** Learned τ is taken this much larger when bounding the remaining error (estimates scatter). */
 const TAU_MARGIN = 1.25;
+
+/** Rule 1 decides only from a reading taken once this fraction of the step is done (by τ). */
+const MIN_DONE_FRACTION = 0.5;
+
+/** Rule 1 places the next reading where the rest should be this fraction of the tolerance. */
+const TARGET_FRACTION = 0.5;
 
 /** Scatter counts at most ten tolerances, so one wild point cannot loosen the next. */
 export function settleToleranceHz(options: AutoSettleOptions): number {
@@ -117,13 +134,43 @@ export async function settleAuto(
     trace.valuesHz[trace.n] = reading.frequencyHz;
     trace.n++;
   };
+  const done = (settled: boolean, reading: CounterReading, atS: number, readings: number): SettleOutcome =>
+    ({ settled, elapsedS: atS - stepAtS, readings, toleranceHz: tolHz, last: settled ? { reading, atS } : null });
+  /**
+   * Rule 1 on one ok reading: null when settled, else when to read next (s
+   * after this reading). Needs τ and the value before the step.
+   */
+  const ruleOne = (reading: CounterReading, atS: number): number | null | undefined => {
+    const tauS = learned.tauS;
+    if (tauS === null || !Number.isFinite(beforeStepHz) || reading.status !== 'ok') return undefined;
+    // The part of the step already done, f − f_before = A·(1 − e^(−t/τ)), gives what is left, A·e^(−t/τ).
+    const tauEffS = TAU_MARGIN * tauS;
+    const centreS = atS - half - stepAtS;
+    const doneFraction = -Math.expm1(-centreS / tauEffS);
+    // No noise taken off here: the estimate may only err towards waiting longer.
+    const stepHz = Math.max(Math.abs(reading.frequencyHz - beforeStepHz) / doneFraction, options.expectedStepHz ?? 0);
+    const remHz = stepHz * Math.exp(-centreS / tauEffS);
+    // Early in the step the done part is too small to tell a step from none (a few counts hide
+    // in the quantisation); from half done on, the estimate is off by at most one count.
+    if (remHz <= tolHz && doneFraction >= MIN_DONE_FRACTION) return null;
+    // Read next where the rest should be within tolerance by a margin: one jump instead of creeping up.
+    // Only the time of that reading rests on this estimate, not the decision, so early in the step
+    // (a small done fraction magnifies the ±1-count quantisation) the noise is taken off here.
+    const plannedStepHz = Math.max(Math.max(0, Math.abs(reading.frequencyHz - beforeStepHz) - noiseHz) / doneFraction, options.expectedStepHz ?? 0);
+    const targetCentreS = tauEffS * Math.log(Math.max(1, Math.min(stepHz, plannedStepHz) / (tolHz * TARGET_FRACTION)));
+    return Math.max(gateS, targetCentreS + half + stepAtS - atS);
+  };
   let previous = await read();
   let previousAtS = clock.now();
   note(previousAtS, previous);
   let readings = 1;
   let nextSpacingS = gateS;
+  // With τ and the value before the step known, one reading right after the step says how long to wait.
+  const first = ruleOne(previous, previousAtS);
+  if (first === null) return done(true, previous, previousAtS, readings);
+  if (first !== undefined) nextSpacingS = first;
   for (;;) {
-    if (previousAtS >= deadlineS) return { settled: false, elapsedS: previousAtS - stepAtS, readings, toleranceHz: tolHz };
+    if (previousAtS >= deadlineS) return done(false, previous, previousAtS, readings);
     // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end.
     const waitS = Math.min(nextSpacingS - gateS, deadlineS - previousAtS);
     if (waitS > 0) await clock.sleep(waitS, signal);
@@ -139,37 +186,27 @@ export async function settleAuto(
       const sinceStepS = currentAtS - stepAtS;
       const learnedTau = learned.tauS;
       const trustAfterS = options.afterOutputOn === true ? maxS : learnedTau === null ? 0 : 3 * learnedTau;
-      if (sinceStepS >= trustAfterS) return { settled: true, elapsedS: sinceStepS, readings, toleranceHz: tolHz };
+      if (sinceStepS >= trustAfterS) return done(true, current, currentAtS, readings);
       nextSpacingS = Math.max(gateS, Math.min(0.5 * sinceStepS, trustAfterS - sinceStepS));
       previous = current;
       previousAtS = currentAtS;
       continue;
     }
-    if (previous.status === 'ok' && current.status === 'ok') {
+    const byRuleOne = ruleOne(current, currentAtS);
+    if (byRuleOne === null) return done(true, current, currentAtS, readings);
+    if (byRuleOne !== undefined) {
+      nextSpacingS = byRuleOne;
+    } else if (previous.status === 'ok' && current.status === 'ok') {
       const spacingS = currentAtS - previousAtS;
       const learnedTau = learned.tauS;
-      if (learnedTau !== null && Number.isFinite(beforeStepHz)) {
-        // τ known and the settled value before the step known: the part of the step
-        // already done, f − f_before = A·(1 − e^(−t/τ)), gives what is left, A·e^(−t/τ).
-        const tauEffS = TAU_MARGIN * learnedTau;
-        const centreS = currentAtS - half - stepAtS;
-        const doneFraction = -Math.expm1(-centreS / tauEffS);
-        // No noise taken off here: the estimate may only err towards waiting longer.
-        const stepHz = Math.max(Math.abs(current.frequencyHz - beforeStepHz) / doneFraction, options.expectedStepHz ?? 0);
-        const remHz = stepHz * Math.exp(-centreS / tauEffS);
-        if (remHz <= tolHz) return { settled: true, elapsedS: currentAtS - stepAtS, readings, toleranceHz: tolHz };
-        const targetCentreS = tauEffS * Math.log(Math.max(1, stepHz / (tolHz / 2)));
-        nextSpacingS = Math.max(gateS, targetCentreS + half + stepAtS - currentAtS);
-      } else {
-        // Without τ: bound the remainder by the last difference, taking τ ≤ time since the step.
-        const tauEffS = learnedTau === null ? currentAtS - stepAtS : TAU_MARGIN * learnedTau;
-        const remHz = remainingBoundHz(current.frequencyHz - previous.frequencyHz, noiseHz, spacingS, tauEffS);
-        if (remHz <= tolHz) return { settled: true, elapsedS: currentAtS - stepAtS, readings, toleranceHz: tolHz };
-        nextSpacingS =
-          learnedTau === null
-            ? Math.max(gateS, 0.5 * (currentAtS - stepAtS))
-            : Math.max(gateS, learnedTau * Math.log(Math.max(1, remHz / (tolHz / 3))));
-      }
+      // Without τ: bound the remainder by the last difference, taking τ ≤ time since the step.
+      const tauEffS = learnedTau === null ? currentAtS - stepAtS : TAU_MARGIN * learnedTau;
+      const remHz = remainingBoundHz(current.frequencyHz - previous.frequencyHz, noiseHz, spacingS, tauEffS);
+      if (remHz <= tolHz) return done(true, current, currentAtS, readings);
+      nextSpacingS =
+        learnedTau === null
+          ? Math.max(gateS, 0.5 * (currentAtS - stepAtS))
+          : Math.max(gateS, learnedTau * Math.log(Math.max(1, remHz / (tolHz / 3))));
     } else {
       nextSpacingS = Math.max(gateS, 0.5 * (currentAtS - stepAtS));
     }

@@ -7,7 +7,8 @@ import type { SweepPlan } from '../../app/contract/plans.ts';
 import { InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
 import type { ProcedureContext } from './context.ts';
 import { scatterHz } from './context.ts';
-import { TimeConstantEstimate, settleAuto, settleNoiseHz, type SettleTrace } from './settle.ts';
+import type { CounterReading } from './read-counter.ts';
+import { TimeConstantEstimate, settleAuto, type SettleTrace } from './settle.ts';
 import type { Direction } from './sweep-points.ts';
 import type { SampleStatus } from './types.ts';
 
@@ -47,10 +48,12 @@ export interface PointState {
   /** |change of mean frequency| over the previous step, Hz (0 if unknown). */
   lastStepHz: number;
   trace: SettleTrace;
+  /** The next point steps from somewhere off the sweep's path (the probe voltage): its step is no guide. */
+  fromElsewhere: boolean;
 }
 
 export function newPointState(plan: SweepPlan): PointState {
-  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 } };
+  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false };
 }
 
 export async function measurePoint(
@@ -66,6 +69,8 @@ export async function measurePoint(
   await supply.setVoltage(channel, point.controlV);
 
   let settled = true;
+  /** The reading that showed the port settled: a settled reading, recorded as the point's first. */
+  let settledReading: { reading: CounterReading; atS: number } | null = null;
   if (plan.settle.mode === 'fixed') {
     if (plan.settle.seconds > 0) await ctx.clock.sleep(plan.settle.seconds, signal);
   } else {
@@ -79,6 +84,7 @@ export async function measurePoint(
       state.lastMeanHz,
     );
     settled = outcome.settled;
+    if (outcome.last !== null && (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')) settledReading = outcome.last;
     if (!settled) {
       ctx.event({ type: 'settle-timeout', point_index: point.index, control_v: point.controlV, waited_s: outcome.elapsedS });
     }
@@ -91,15 +97,25 @@ export async function measurePoint(
   let lastFrequencyHz = Number.NaN;
   let lastStatus: SampleStatus = 'error';
   const readings = state.readingsHz;
+  const trace = state.trace;
+  const halfGateS = plan.gateS / 2;
   for (let r = 0; r < plan.readingsPerPoint; r++) {
-    const reading = await ctx.readFrequency();
+    const reused = r === 0 ? settledReading : null;
+    const reading = reused?.reading ?? (await ctx.readFrequency());
+    const endS = reused?.atS ?? ctx.clock.now();
+    // The readings also feed the τ fit (as the tail of the settling); the reused one is in the trace already.
+    if (reused === null && reading.status === 'ok' && trace.n < trace.timesS.length) {
+      trace.timesS[trace.n] = endS - halfGateS - stepAtS;
+      trace.valuesHz[trace.n] = reading.frequencyHz;
+      trace.n++;
+    }
     readings[r] = reading.frequencyHz;
     if (reading.status === 'ok') oscillating = true;
     if (reading.status === 'no-signal') noSignal++;
     lastFrequencyHz = reading.frequencyHz;
     lastStatus = reading.status;
     ctx.row({
-      time_s: ctx.timeS(),
+      time_s: endS - ctx.startS,
       control_v: point.controlV,
       control_meas_v: measuredV,
       frequency_hz: reading.frequencyHz,
@@ -111,17 +127,27 @@ export async function measurePoint(
     });
   }
   await ctx.sink.flush();
-  const noiseHz = plan.settle.mode === 'auto' ? settleNoiseHz({ gateS: plan.gateS, maxS: 0, toleranceCounts: 0, scatterHz: state.scatterHz }) : 0;
   state.scatterHz = scatterHz(readings, plan.readingsPerPoint);
   const meanHz = meanOf(readings, plan.readingsPerPoint);
-  state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.lastMeanHz) && !point.refined ? Math.abs(meanHz - state.lastMeanHz) : 0;
+  // A step that is not like the sweep's own (from the probe voltage, or a bisection) says nothing about the next.
+  state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.lastMeanHz) && !point.refined && !state.fromElsewhere ? Math.abs(meanHz - state.lastMeanHz) : 0;
+  state.fromElsewhere = false;
   state.lastMeanHz = meanHz;
   // Learn the port's time constant from this point's settling, now that its end value is known
   // (not from switch-on: that step crosses the stall edge, where f(V) is far from a straight line).
   if (plan.settle.mode === 'auto' && point.afterOutputOn !== true && Number.isFinite(state.lastMeanHz)) {
-    state.tau.fitPoint(state.trace.timesS, state.trace.valuesHz, state.trace.n, state.lastMeanHz, noiseHz);
+    state.tau.fitStep(trace.timesS, trace.valuesHz, trace.n, minFitStepHz(plan.gateS));
   }
   return { oscillating, stalled: noSignal === plan.readingsPerPoint, settled, settleS, lastFrequencyHz, lastStatus };
+}
+
+/**
+ * Smallest step whose settling is fitted for τ: 10 counter counts. Below
+ * that the ±1-count quantisation shapes the fit more than the lag does
+ * (the settle probe is there for sweeps of such small steps).
+ */
+export function minFitStepHz(gateS: number): number {
+  return 10 / gateS;
 }
 
 /** Measured control voltage, or NaN when the supply cannot (or fails to) read it. */

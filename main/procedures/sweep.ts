@@ -94,10 +94,13 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       if (plan.settle.mode === 'auto' && !probed && result.oscillating && i + 1 < schedule.controlV.length && state.tau.tauS === null) {
         probed = true;
         const target = probeTarget(levels, controlV, pass === 0);
-        if (target !== null) await probeTimeConstant(ctx, plan, state, target, control.signal);
-        // The next point starts from the probe voltage: no trustworthy "before" value.
-        state.lastMeanHz = Number.NaN;
+        // The probe is no point of the plan: its time stays out of the ETA's time per point.
+        const probe = target === null ? null : await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
+        // The next point starts from the probe voltage, settled there: that is its "before" value
+        // (NaN if the probe saw no oscillation); its step is not like the last one.
+        state.lastMeanHz = probe?.endHz ?? Number.NaN;
         state.lastStepHz = 0;
+        state.fromElsewhere = true;
       }
     }
 
@@ -107,6 +110,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     outcome.edge = bracket;
     if (bracket !== null && plan.refineEdgeV > 0) {
       const steps = bisectionSteps(bracket.oscillatingV - bracket.stalledV, plan.refineEdgeV);
+      // Refinement points join the total only once they are known; the total is cut back below if the bisection stops early.
       progress.total += steps;
       ctx.event({ type: 'refine-start', stalledV: bracket.stalledV, oscillatingV: bracket.oscillatingV, steps });
       let index = schedule.controlV.length;
@@ -119,7 +123,8 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
         if (result.oscillating) return true;
         return result.stalled ? false : null;
       });
-      ctx.event({ type: 'refine-end', stalledV: outcome.edge.stalledV, oscillatingV: outcome.edge.oscillatingV });
+      progress.total = index;
+      ctx.event({ type: 'refine-end', stalledV: outcome.edge.stalledV, oscillatingV: outcome.edge.oscillatingV, points: outcome.refinedPoints });
     }
   } catch (error) {
     const { reason, failure } = classifyEnd(error);
@@ -129,7 +134,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
   } finally {
     control.onPauseChange(null);
-    progress.report('finishing', outcome.pointsDone, null);
+    progress.finish(outcome.status === 'complete');
     const safe = await goSafe(bench, channel, plan.safe, (event) => ctx.event(event));
     outcome.safeStateOk = safe.ok;
     outcome.rowsWritten = ctx.rowsWritten;

@@ -73,6 +73,6 @@ export interface ProcedureOutcome {
   safeStateOk: boolean;
 }
 
-export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall';
+export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits';
 
 export type { SampleStatus };

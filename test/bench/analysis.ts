@@ -122,8 +122,17 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
 
   // 4. Whole drift analysis of a 1,000,000-sample log (1 s steps: warm-up, aging, one slow
   //    temperature excursion, counter noise): tempco, warm-up, drift, f–T loop, ADEV/OADEV/MDEV.
+  //    The renderer's worker analyses a log once, so the first call (JIT still cold) is noted too.
   const drift = warmingReference(1_000_000);
-  figures.push({ name: 'drift analysis of 1,000,000 samples (all figures)', ...timeMedian(() => analyzeDrift(drift), 5), targetMs: 1000 });
+  const firstCall = performance.now();
+  analyzeDrift(drift);
+  const firstMs = performance.now() - firstCall;
+  figures.push({
+    name: 'drift analysis of 1,000,000 samples (all figures)',
+    ...timeMedian(() => analyzeDrift(drift), 5),
+    targetMs: 1000,
+    note: `first call in this process: ${firstMs.toFixed(0)} ms wall`,
+  });
 
   log(`analysis benchmarks (median of timed runs after one warm-up; load average ${loadavg()[0]?.toFixed(1)} on ${cpus().length} CPUs)`);
   log('     wall ms     CPU ms');

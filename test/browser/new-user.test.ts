@@ -141,7 +141,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     }
     // CSV in SI base units: the best-line Kvco equals the figure on the sweep screen (shown to 4 digits).
     const csvLines = (saved.csv ?? '').trim().split(/\r?\n/);
-    expect(csvLines[0]).toBe('parameter,conditions,min,typ,max,unit,runs');
+    expect(csvLines[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs');
     const bestLine = csvLines.find((line) => /best straight line/i.test(line))?.split(',') ?? [];
     expect(bestLine.at(-2)).toBe('Hz/V');
     expect(Math.abs(Number(bestLine.at(-4)) / shownKvcoTyp - 1)).toBeLessThan(1e-3);

@@ -1,12 +1,12 @@
 /** Gain table: pick runs, see min/typ/max with conditions and units, export or print. */
 import { useEffect, useMemo, useState } from 'react';
 import { buildDatasheet, type DatasheetRun } from '../../analysis/datasheet.ts';
+import { displayRow, renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../analysis/datasheet-render.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { when } from '../units.ts';
-import { datasheetCsv, datasheetHtml, datasheetMarkdown, showRow } from './datasheet-files.ts';
 import { downloadText } from './download.ts';
 import { datasheetRun } from './run-analysis.ts';
 
@@ -98,11 +98,12 @@ export function DatasheetScreen() {
               </thead>
               <tbody>
                 {sheet.rows.map((row) => {
-                  const shown = showRow(row);
+                  // The same cells as the Markdown and HTML files.
+                  const shown = displayRow(row);
                   return (
                     <tr key={row.key} data-testid={`datasheet-row-${row.key}`}>
-                      <th scope="row">{shown.parameter}</th>
-                      <td>{shown.conditions}</td>
+                      <th scope="row">{row.parameter}</th>
+                      <td>{row.conditions}</td>
                       <td className="num">{shown.min}</td>
                       <td className="num">{shown.typ}</td>
                       <td className="num">{shown.max}</td>
@@ -118,13 +119,13 @@ export function DatasheetScreen() {
               ))}
             </ul>
             <div className="actions no-print">
-              <button type="button" onClick={() => downloadText(`${stem}.csv`, datasheetCsv(sheet), 'text/csv')} data-testid="datasheet-export-csv">
+              <button type="button" onClick={() => downloadText(`${stem}.csv`, renderDatasheetCsv(sheet), 'text/csv')} data-testid="datasheet-export-csv">
                 Save CSV
               </button>
-              <button type="button" onClick={() => downloadText(`${stem}.md`, datasheetMarkdown(sheet), 'text/markdown')} data-testid="datasheet-export-md">
+              <button type="button" onClick={() => downloadText(`${stem}.md`, renderDatasheetMarkdown(sheet), 'text/markdown')} data-testid="datasheet-export-md">
                 Save Markdown
               </button>
-              <button type="button" onClick={() => downloadText(`${stem}.html`, datasheetHtml(sheet), 'text/html')} data-testid="datasheet-export-html">
+              <button type="button" onClick={() => downloadText(`${stem}.html`, renderDatasheetHtml(sheet), 'text/html')} data-testid="datasheet-export-html">
                 Save HTML
               </button>
               <button type="button" onClick={() => void printPdf()} data-testid="datasheet-print-pdf">

@@ -5,9 +5,9 @@ import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
-import { useEffectiveTheme } from '../App.tsx';
 import { duration } from '../units.ts';
-import { DriftFigures, type DriftSource } from './DriftFigures.tsx';
+import { DriftFigures } from './DriftFigures.tsx';
+import { useLiveRunSource } from '../live-run-source.ts';
 
 function DriftPlan() {
   const { bridge, stores } = useApp();
@@ -43,20 +43,7 @@ function DriftPlan() {
 }
 
 export function DriftScreen() {
-  const { stores } = useApp();
-  const theme = useEffectiveTheme();
-  const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === 'drift' ? s.meta.id : null));
-  const active = useStore(stores.liveRun, (s) => s.active);
-  const source: DriftSource | null = runId
-    ? {
-        key: runId,
-        columns: () => stores.liveRun.getState().columns,
-        rows: () => stores.liveRun.getState().rows,
-        watch: (notify) => stores.liveRun.subscribe((s, prev) => s.version !== prev.version && notify()),
-        done: !active,
-        theme,
-      }
-    : null;
+  const source = useLiveRunSource('drift');
   return (
     <div className="screen screen-sweep">
       <DriftPlan />

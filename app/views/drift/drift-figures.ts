@@ -4,24 +4,15 @@
  * (display only; the analysis gets every reading).
  */
 import { analyzeDrift, type DriftAnalysis } from '../../analysis/drift-analysis.ts';
-import { errorText } from '../../bridge/bench-call-error.ts';
+import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
+import { driftInputFromColumns } from '../../state/column-inputs.ts';
 import { STATUS_CODE, type ColumnSet } from '../../state/columns.ts';
 
-export type DriftOutcome = { ok: true; analysis: DriftAnalysis } | { ok: false; message: string };
+export type DriftOutcome = AnalysisOutcome<DriftAnalysis>;
 
 export function analyzeDriftColumns(columns: ColumnSet, n: number): DriftOutcome {
   if (n < 3) return { ok: false, message: 'fewer than 3 readings' };
-  const frequencyHz = new Float64Array(n);
-  for (let i = 0; i < n; i += 1) frequencyHz[i] = columns.status.at(i) === STATUS_CODE.ok ? columns.frequency_hz.at(i) : Number.NaN;
-  const temperatureC = columns.temperature_c.view().slice(0, n);
-  let anyTemperature = false;
-  for (let i = 0; i < n && !anyTemperature; i += 1) anyTemperature = Number.isFinite(temperatureC[i] ?? Number.NaN);
-  try {
-    const timeS = columns.time_s.view().slice(0, n);
-    return { ok: true, analysis: analyzeDrift(anyTemperature ? { timeS, frequencyHz, temperatureC } : { timeS, frequencyHz }) };
-  } catch (error) {
-    return { ok: false, message: errorText(error) };
-  }
+  return outcomeOf(() => analyzeDrift(driftInputFromColumns(columns, n)));
 }
 
 export interface TempcoColumns {

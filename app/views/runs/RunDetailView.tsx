@@ -1,11 +1,13 @@
 /** One saved run opened: rename, add a note, and its plots and figures. */
 import { useState } from 'react';
+import { planHints } from '../../analysis/datasheet-run.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { useEffectiveTheme } from '../App.tsx';
 import { DriftFigures } from '../drift/DriftFigures.tsx';
 import { SweepFigures } from '../sweep/SweepFigures.tsx';
+import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
 
 export function RunDetailView({ id }: { id: string }) {
@@ -19,14 +21,14 @@ export function RunDetailView({ id }: { id: string }) {
   const [note, setNote] = useState('');
   if (!opened) return <p className="muted">Opening run…</p>;
   const meta = opened.detail.meta;
-  const plan = meta.plan as { gateS?: unknown } | null;
+  const gateS = planHints(meta.plan).gateS;
   const source = {
     key: `${meta.id}|${opened.rows}`,
     columns: () => opened.columns,
     rows: () => opened.rows,
     done: true,
     theme,
-    ...(typeof plan?.gateS === 'number' ? { gateS: plan.gateS } : {}),
+    ...(gateS !== undefined ? { gateS } : {}),
   };
   // Notes may be recorded both in run.json and as events: show each text once.
   const noteTexts = [
@@ -69,7 +71,7 @@ export function RunDetailView({ id }: { id: string }) {
       </p>
       {meta.kind === 'sweep' ? <SweepFigures source={source} /> : null}
       {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
-      {meta.kind === 'pushing' ? <p className="muted">Supply-pushing runs are listed here; their figures appear in the gain table.</p> : null}
+      {meta.kind === 'pushing' ? <PushingFigures source={source} /> : null}
     </Panel>
   );
 }

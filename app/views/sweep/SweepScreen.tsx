@@ -5,8 +5,8 @@ import { useApp } from '../app-context.ts';
 import { Choice, Field, Panel } from '../controls/Field.tsx';
 import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
-import { useEffectiveTheme } from '../App.tsx';
-import { SweepFigures, type SweepSource } from './SweepFigures.tsx';
+import { SweepFigures } from './SweepFigures.tsx';
+import { useLiveRunSource } from '../live-run-source.ts';
 
 function PlanEditor() {
   const { bridge, stores } = useApp();
@@ -81,25 +81,7 @@ function PlanEditor() {
 }
 
 export function SweepScreen() {
-  const { stores } = useApp();
-  const theme = useEffectiveTheme();
-  const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === 'sweep' ? s.meta.id : null));
-  const active = useStore(stores.liveRun, (s) => s.active);
-  const gateS = useStore(stores.liveRun, (s) => {
-    const plan = s.meta?.plan as { gateS?: unknown } | undefined;
-    return typeof plan?.gateS === 'number' ? plan.gateS : undefined;
-  });
-  const source: SweepSource | null = runId
-    ? {
-        key: runId,
-        columns: () => stores.liveRun.getState().columns,
-        rows: () => stores.liveRun.getState().rows,
-        watch: (notify) => stores.liveRun.subscribe((s, prev) => s.version !== prev.version && notify()),
-        done: !active,
-        ...(gateS !== undefined ? { gateS } : {}),
-        theme,
-      }
-    : null;
+  const source = useLiveRunSource('sweep');
   return (
     <div className="screen screen-sweep">
       <PlanEditor />

@@ -4,32 +4,17 @@
  * Runs once when a sweep ends or a stored sweep opens, not per sample.
  */
 import { analyzeSweep } from '../../analysis/sweep-analysis.ts';
-import type { SweepInput } from '../../analysis/sweep-points.ts';
 import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
-import { DIRECTION_CODE, STATUS_CODE, type ColumnSet } from '../../state/columns.ts';
+import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
+import { sweepInputFromColumns } from '../../state/column-inputs.ts';
+import type { ColumnSet } from '../../state/columns.ts';
 import type { XRegion } from '../../plots/regions-plugin.ts';
-import { errorText } from '../../bridge/bench-call-error.ts';
 
-export function sweepInputFrom(columns: ColumnSet, n: number, gateS: number | undefined): SweepInput {
-  const controlV = columns.control_v.view().slice(0, n);
-  const frequencyHz = new Float64Array(n);
-  const direction = new Int8Array(n);
-  for (let i = 0; i < n; i += 1) {
-    frequencyHz[i] = columns.status.at(i) === STATUS_CODE.ok ? columns.frequency_hz.at(i) : Number.NaN;
-    direction[i] = columns.direction.at(i) === DIRECTION_CODE.down ? -1 : 1;
-  }
-  return gateS !== undefined ? { controlV, frequencyHz, direction, gateS } : { controlV, frequencyHz, direction };
-}
-
-export type SweepOutcome = { ok: true; analysis: SweepAnalysis } | { ok: false; message: string };
+export type SweepOutcome = AnalysisOutcome<SweepAnalysis>;
 
 export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined): SweepOutcome {
   if (n === 0) return { ok: false, message: 'no readings' };
-  try {
-    return { ok: true, analysis: analyzeSweep(sweepInputFrom(columns, n, gateS)) };
-  } catch (error) {
-    return { ok: false, message: errorText(error) };
-  }
+  return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS)));
 }
 
 /** f(V) = Σ cᵢ·Vⁱ (CONTRACTS.md fit coefficients, V unscaled). */

@@ -1,0 +1,59 @@
+/**
+ * A stored supply-pushing run: frequency against the DUT's supply voltage
+ * (mean per step) with the fitted line, and the pushing figures.
+ */
+import { useMemo } from 'react';
+import type uPlot from 'uplot';
+import { formatSiWithUncertainty } from '../../analysis/format-si.ts';
+import type { ColumnSet } from '../../state/columns.ts';
+import { PlotPanel } from '../../plots/PlotPanel.tsx';
+import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
+import { Figure } from '../controls/Field.tsx';
+import { hz, plain, volts } from '../units.ts';
+import { analyzePushingColumns, pushingPlotColumns } from './pushing-figures.ts';
+
+export interface PushingSource {
+  key: string;
+  columns(): ColumnSet;
+  rows(): number;
+  theme: string;
+}
+
+export function PushingFigures({ source }: { source: PushingSource }) {
+  const outcome = useMemo(() => analyzePushingColumns(source.columns(), source.rows()), [source.key]);
+  const a = outcome.ok ? outcome.analysis : null;
+  const plot = useMemo(() => (a ? pushingPlotColumns(a) : null), [a]);
+  return (
+    <div className="sweep-figures">
+      <div className="plots">
+        {plot ? (
+          <PlotPanel
+            testId="pushing-plot"
+            title="Frequency against DUT supply voltage"
+            buildKey={`${source.key}|${source.theme}|pushing`}
+            height={260}
+            data={() => [plot.supplyV, plot.meanHz, plot.lineHz] as uPlot.AlignedData}
+            options={(colors, width, height) =>
+              baseOptions(
+                width,
+                height,
+                [xSeries('V', 'Supply'), pointSeries('Mean frequency', colors.series[0], 'Hz'), lineSeries('Fitted line', colors.fit, 'Hz', { width: 2 })],
+                [siAxis(colors, 'DUT supply', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
+              )
+            }
+          />
+        ) : null}
+      </div>
+      <section className="key-figures" aria-label="Pushing figures" data-testid="pushing-figures">
+        <h2>Supply pushing</h2>
+        {!outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
+        <dl className="figures">
+          <Figure label="Pushing" value={a ? formatSiWithUncertainty(a.pushingHzPerV, a.pushingUncertaintyHzPerV, 'Hz/V') : '—'} testId="pushing-hz-per-v" />
+          <Figure label="Pushing, relative" value={plain(a?.pushingPpmPerV, 'ppm/V')} testId="pushing-ppm-per-v" />
+          <Figure label="Nominal supply" value={volts(a?.nominalSupplyV)} note={a ? `f there ${hz(a.frequencyAtNominalHz, 8)}` : undefined} testId="pushing-nominal" />
+          <Figure label="Supply steps" value={a ? String(a.points.length) : '—'} testId="pushing-steps" />
+        </dl>
+      </section>
+    </div>
+  );
+}
