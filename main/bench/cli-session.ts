@@ -9,10 +9,13 @@ import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { safeOnCrash, stopOnSignals } from '../procedures/exit-guard.ts';
 import { LimitsError } from '../procedures/limits.ts';
 import { RunControl } from '../procedures/run-control.ts';
+import type { RecordOptions } from '../procedures/recorded-run.ts';
 import type { ProcedureOutcome } from '../procedures/types.ts';
 import { resolveRunsDir } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
+import { RealClock } from '../time/real-clock.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
+import { parseFlags, type ParsedFlags } from '../cli/flags.ts';
 import { UsageError, WorkFailedError, type CliIo } from '../cli/types.ts';
 import { assembleBench, type AssembledBench } from './assemble.ts';
 import { ConfigFileError, loadBenchFile } from './config-files.ts';
@@ -87,4 +90,55 @@ export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
     return 1;
   }
   return 0;
+}
+
+/** The flags every recording command takes (plus `extra` value flags), no positionals, and the simulated DUT. */
+export function parseRunFlags(argv: readonly string[], extra: readonly string[] = []): { flags: ParsedFlags; dut: DefaultDut } {
+  const flags = parseFlags(argv, { values: ['bench', 'plan', 'runs', 'dut-id', 'dut', ...extra] });
+  if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
+  return { flags, dut: parseDutName(flags.values.get('dut')) };
+}
+
+/** Returns the plan once `validate` passes it; a refusal is a UsageError naming the field. */
+export function validatedCliPlan<P>(plan: P, validate: (plan: P) => void): P {
+  try {
+    validate(plan);
+  } catch (error) {
+    asUsageError(error);
+  }
+  return plan;
+}
+
+/** A bench opened for one recorded run, with its control, progress display and recorded DUT id. */
+export interface CliRun {
+  clock: Clock;
+  bench: AssembledBench;
+  control: RunControl;
+  progress: ReturnType<typeof createProgressDisplay>;
+  /** `--dut-id`, else the simulated DUT's name, else "dut". */
+  dutId: string;
+  /** What every record call takes from this session: bench, clock, control, progress. */
+  recording: Pick<RecordOptions, 'bench' | 'clock' | 'control' | 'onProgress'>;
+  /** Releases the signal handlers and closes the bench. */
+  close: () => Promise<void>;
+}
+
+/**
+ * Shows the cautions, opens the bench (file or simulation), and wires the
+ * run's control and progress. Call after the plan has been validated, so a
+ * refused plan never touches an instrument.
+ */
+export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut, safe: SafeState): Promise<CliRun> {
+  const clock = new RealClock();
+  io.stderr.write(`${CAUTIONS}\n`);
+  const bench = await openCliBench(flags.values.get('bench'), dut, clock);
+  if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
+  const { control, dispose } = cliControl(io, bench, safe);
+  const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
+  const close = async (): Promise<void> => {
+    dispose();
+    await bench.close();
+  };
+  const progress = cliProgress(io);
+  return { clock, bench, control, progress, dutId, recording: { bench, clock, control, onProgress: progress.update }, close };
 }

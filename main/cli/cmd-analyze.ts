@@ -7,7 +7,7 @@ import { analyzeTable, parseFitSpec } from '../../app/analysis/analyze-table.ts'
 import { CsvError } from '../../app/analysis/csv-input.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
-import { parseFlags } from './flags.ts';
+import { parseFlags, positiveFlag } from './flags.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
 const usage = `usage: tunebench analyze RUN_DIR|FILE.csv [--json] [--fit poly:N|auto]
@@ -26,10 +26,7 @@ options:
 `;
 
 function positiveNumber(text: string | undefined, flag: string, form: string): number | undefined {
-  if (text === undefined) return undefined;
-  const value = parseSiNumber(text);
-  if (value === null || !(value > 0)) throw new UsageError(`--${flag}: "${text}" is not ${form}`);
-  return value;
+  return positiveFlag(flag, text, parseSiNumber, (got) => `"${got}" is not ${form}`);
 }
 
 export const analyzeCommand: CliCommand = {

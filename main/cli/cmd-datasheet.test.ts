@@ -4,20 +4,9 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseCsv } from '../../app/analysis/csv-input.ts';
-import { runCli } from './index.ts';
+import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
 
 const fixture = fileURLToPath(new URL('../../test/fixtures/sweep-sensor-osc.csv', import.meta.url));
-
-async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io = {
-    stdout: { write: (s: string) => ((out += s), true) },
-    stderr: { write: (s: string) => ((err += s), true) },
-    env: {},
-  };
-  return { code: await runCli(argv, io), out, err };
-}
 
 let dir = '';
 let second = '';

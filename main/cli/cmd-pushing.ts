@@ -1,14 +1,12 @@
 /**
  * `tunebench pushing [--bench …] [--plan …] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
  */
-import { CAUTIONS, asUsageError, cliControl, cliProgress, exitCodeFor, openCliBench, parseDutName, runsDirFrom } from '../bench/cli-session.ts';
+import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from '../bench/cli-session.ts';
 import { loadPushingPlan } from '../bench/config-files.ts';
 import { defaultPushingPlan } from '../bench/default-plans.ts';
 import { summarizeRun } from '../bench/run-summary.ts';
 import { recordPushing, validatePushingPlan } from '../procedures/recorded-run.ts';
-import { RealClock } from '../time/real-clock.ts';
-import { parseFlags } from './flags.ts';
-import { UsageError, type CliCommand } from './types.ts';
+import type { CliCommand } from './types.ts';
 
 const usage = `usage: tunebench pushing [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]
 
@@ -28,31 +26,16 @@ export const pushingCommand: CliCommand = {
   summary: 'supply pushing (Hz/V) at a fixed control voltage',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['bench', 'plan', 'runs', 'dut-id', 'dut'] });
-    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
-    const dut = parseDutName(flags.values.get('dut'));
+    const { flags, dut } = parseRunFlags(argv);
     const planPath = flags.values.get('plan');
-    const plan = planPath === undefined ? defaultPushingPlan(dut) : await loadPushingPlan(planPath).catch(asUsageError);
-    try {
-      validatePushingPlan(plan);
-    } catch (error) {
-      asUsageError(error);
-    }
-    const clock = new RealClock();
-    io.stderr.write(`${CAUTIONS}\n`);
-    const bench = await openCliBench(flags.values.get('bench'), dut, clock);
-    if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
-    const { control, dispose } = cliControl(io, bench, plan.safe);
-    const progress = cliProgress(io);
+    const plan = validatedCliPlan(planPath === undefined ? defaultPushingPlan(dut) : await loadPushingPlan(planPath).catch(asUsageError), validatePushingPlan);
+    const { progress, dutId, recording, close } = await openCliRun(io, flags, dut, plan.safe);
     try {
       const recorded = await recordPushing({
-        bench,
+        ...recording,
         plan,
-        clock,
         runsDir: runsDirFrom(flags.values.get('runs'), io),
-        dutId: flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut'),
-        control,
-        onProgress: progress.update,
+        dutId,
         onRunStarted: (_meta, dir) => io.stderr.write(`run folder: ${dir}\n`),
       });
       progress.done();
@@ -63,8 +46,7 @@ export const pushingCommand: CliCommand = {
       io.stdout.write((await summarizeRun(recorded.dir)).text);
       return exitCodeFor(o, io);
     } finally {
-      dispose();
-      await bench.close();
+      await close();
     }
   },
 };

@@ -2,14 +2,12 @@
  * `tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
  */
 import { basename } from 'node:path';
-import { CAUTIONS, asUsageError, cliControl, cliProgress, exitCodeFor, openCliBench, parseDutName, runsDirFrom } from '../bench/cli-session.ts';
+import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from '../bench/cli-session.ts';
 import { loadSweepPlan } from '../bench/config-files.ts';
 import { defaultSweepPlan } from '../bench/default-plans.ts';
 import { summarizeRun } from '../bench/run-summary.ts';
 import { recordSweep, validateSweepPlan } from '../procedures/recorded-run.ts';
-import { RealClock } from '../time/real-clock.ts';
-import { parseFlags } from './flags.ts';
-import { UsageError, type CliCommand } from './types.ts';
+import type { CliCommand } from './types.ts';
 
 const usage = `usage: tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]
 
@@ -33,33 +31,16 @@ export const sweepCommand: CliCommand = {
   summary: 'gain sweep of the DUT into a new run folder',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['bench', 'plan', 'runs', 'dut-id', 'dut'] });
-    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
-    const dut = parseDutName(flags.values.get('dut'));
+    const { flags, dut } = parseRunFlags(argv);
     const planPath = flags.values.get('plan');
-    const plan = planPath === undefined ? defaultSweepPlan(dut) : await loadSweepPlan(planPath).catch(asUsageError);
-    try {
-      validateSweepPlan(plan);
-    } catch (error) {
-      asUsageError(error);
-    }
-    const benchPath = flags.values.get('bench');
-    const clock = new RealClock();
-    io.stderr.write(`${CAUTIONS}\n`);
-    const bench = await openCliBench(benchPath, dut, clock);
-    const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
-    if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
-    const { control, dispose } = cliControl(io, bench, plan.safe);
-    const progress = cliProgress(io);
+    const plan = validatedCliPlan(planPath === undefined ? defaultSweepPlan(dut) : await loadSweepPlan(planPath).catch(asUsageError), validateSweepPlan);
+    const { progress, dutId, recording, close } = await openCliRun(io, flags, dut, plan.safe);
     try {
       const recorded = await recordSweep({
-        bench,
+        ...recording,
         plan,
-        clock,
         runsDir: runsDirFrom(flags.values.get('runs'), io),
         dutId,
-        control,
-        onProgress: progress.update,
         onRunStarted: (_meta, dir) => io.stderr.write(`run folder: ${dir}\n`),
       }).catch(asUsageError);
       progress.done();
@@ -70,8 +51,7 @@ export const sweepCommand: CliCommand = {
       if (summary.tableMarkdown !== null) io.stdout.write(`\n${summary.tableMarkdown}`);
       return exitCodeFor(recorded.outcome, io);
     } finally {
-      dispose();
-      await bench.close();
+      await close();
     }
   },
 };

@@ -65,3 +65,15 @@ export function parseFlags(argv: readonly string[], spec: FlagSpec): ParsedFlags
   }
   return parsed;
 }
+
+/**
+ * A flag value that must parse to a number > 0: undefined when the flag is
+ * absent, else `parse(text)`; null, NaN or ≤ 0 is a UsageError
+ * `--name: <refusal(text)>`.
+ */
+export function positiveFlag(name: string, text: string | undefined, parse: (text: string) => number | null, refusal: (text: string) => string): number | undefined {
+  if (text === undefined) return undefined;
+  const value = parse(text);
+  if (value === null || !(value > 0)) throw new UsageError(`--${name}: ${refusal(text)}`);
+  return value;
+}

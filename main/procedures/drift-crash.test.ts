@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
+import { onStdoutLines } from '../../test/support/child-stdout-lines.ts';
 import { assembleBench } from '../bench/assemble.ts';
 import { parseSamplesCsv, readRunFolder } from '../store/index.ts';
 import { RealClock } from '../time/real-clock.ts';
@@ -27,24 +28,23 @@ function runAndKill(runsDir: string, rows: number): Promise<{ dir: string; seen:
     const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', CHILD, runsDir], { stdio: ['ignore', 'pipe', 'pipe'] });
     let dir = '';
     let stderr = '';
-    let buffered = '';
     let killed = false;
     const seen: { timeS: number; frequencyHz: number }[] = [];
     child.stderr?.on('data', (chunk: Buffer) => (stderr += chunk.toString()));
-    child.stdout?.on('data', (chunk: Buffer) => {
-      buffered += chunk.toString();
-      const lines = buffered.split('\n');
-      buffered = lines.pop() ?? '';
-      for (const line of lines) {
+    onStdoutLines(
+      child,
+      (line) => {
         const [tag, a, b] = line.split(' ');
         if (tag === 'dir') dir = line.slice(4);
         else if (tag === 'row') seen.push({ timeS: Number(a), frequencyHz: Number(b) });
-      }
-      if (!killed && seen.length >= rows) {
-        killed = true;
-        child.kill('SIGKILL');
-      }
-    });
+      },
+      () => {
+        if (!killed && seen.length >= rows) {
+          killed = true;
+          child.kill('SIGKILL');
+        }
+      },
+    );
     child.on('error', reject);
     child.on('exit', (_code, signal) => (signal === 'SIGKILL' ? resolve({ dir, seen }) : reject(new Error(`child ended without SIGKILL: ${stderr}`))));
   });

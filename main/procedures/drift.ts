@@ -11,13 +11,13 @@
  */
 import type { DriftPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
-import { ProcedureContext, classifyEnd } from './context.ts';
+import { ProcedureContext } from './context.ts';
 import { DriftLink } from './drift-link.ts';
 import { applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
+import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
 import { DEFAULT_DRIFT_SETTLE, settleAtSetpoint } from './settle-at.ts';
-import { goSafe } from './safe-state.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink } from './types.ts';
 
 export const DRIFT_COLUMNS = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'status'] as const;
@@ -84,29 +84,17 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
       progress.report('logging', Math.min(slotsTotal, slot + 1), { controlV: plan.controlV, frequencyHz: reading.frequencyHz, status: reading.status });
     }
   } catch (error) {
-    const { reason, failure } = classifyEnd(error);
     // An operator's stop (or SIGINT) ends a drift log cleanly; anything else is an abort.
-    const clean = failure === null && (reason === 'stop' || reason === 'signal');
-    outcome.status = clean ? 'complete' : 'aborted';
-    outcome.reason = reason;
-    outcome.failure = failure;
-    ctx.event(failure === null ? { type: clean ? 'stopped' : 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+    recordRunEnd(outcome, ctx, error, true);
   } finally {
-    control.onPauseChange(null);
-    progress.finish(outcome.status === 'complete');
-    await link.checkErrorQueues(true);
-    link.closeGap();
-    outcome.gaps = link.gaps;
-    const safe = await goSafe(bench, channel, plan.safe, (event) => ctx.event(event));
-    outcome.safeStateOk = safe.ok;
-    outcome.rowsWritten = ctx.rowsWritten;
-    ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
-    ctx.dispose();
-    try {
-      await sink.flush();
-    } catch (error) {
-      outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
-    }
+    await finishRun(outcome, {
+      ctx, control, progress, channel, safe: plan.safe,
+      beforeSafe: async () => {
+        await link.checkErrorQueues(true);
+        link.closeGap();
+        outcome.gaps = link.gaps;
+      },
+    });
   }
   return outcome;
 }

@@ -6,13 +6,13 @@
  */
 import type { PushingPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
-import { ProcedureContext, ProcedureFailure, classifyEnd } from './context.ts';
+import { ProcedureContext, ProcedureFailure } from './context.ts';
 import { UnsupportedOperationError } from '../instruments/errors.ts';
 import type { Supply } from '../instruments/roles.ts';
 import { LimitsError, applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
+import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
-import { goSafe } from './safe-state.ts';
 import { linearSlope, supplyLevels } from './pushing-math.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleStatus } from './types.ts';
 
@@ -119,31 +119,18 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       ctx.event({ type: 'pushing-result', hzPerV: outcome.hzPerV, ppmPerV: outcome.ppmPerV, meanHz: outcome.meanHz });
     }
   } catch (error) {
-    const { reason, failure } = classifyEnd(error);
-    outcome.status = 'aborted';
-    outcome.reason = reason;
-    outcome.failure = failure;
-    ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+    recordRunEnd(outcome, ctx, error);
   } finally {
-    control.onPauseChange(null);
-    progress.finish(outcome.status === 'complete');
+    const found = restoreDut;
     const record = (event: { type: string; [key: string]: unknown }): void => ctx.event(event);
-    const safe = await goSafe(bench, channel, plan.safe, record);
-    let restored = true;
-    if (restoreDut !== null) {
-      const found = restoreDut;
-      restored = await bestEffort(() => bench.supply.setVoltage(dutChannel, found.volts), 'dut-supply-restore', record);
-      if (!found.on) restored = (await bestEffort(() => bench.supply.setOutput(dutChannel, false), 'dut-supply-off', record)) && restored;
-    }
-    outcome.safeStateOk = safe.ok && restored;
-    outcome.rowsWritten = ctx.rowsWritten;
-    ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
-    ctx.dispose();
-    try {
-      await sink.flush();
-    } catch (error) {
-      outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
-    }
+    // The DUT supply goes back where it was found, after the control channel is safe.
+    const restoreDutSupply = async (): Promise<boolean> => {
+      if (found === null) return true;
+      const restored = await bestEffort(() => bench.supply.setVoltage(dutChannel, found.volts), 'dut-supply-restore', record);
+      if (found.on) return restored;
+      return (await bestEffort(() => bench.supply.setOutput(dutChannel, false), 'dut-supply-off', record)) && restored;
+    };
+    await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe: restoreDutSupply });
   }
   return outcome;
 }

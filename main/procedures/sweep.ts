@@ -6,12 +6,12 @@
  */
 import type { SweepPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
-import { ProcedureContext, classifyEnd } from './context.ts';
+import { ProcedureContext } from './context.ts';
 import { applyLimits, checkLimits, ovpLevelV } from './limits.ts';
+import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { bisectEdge, bisectionSteps, findEdge, type EdgeBracket } from './refine-edge.ts';
 import { RunControl } from './run-control.ts';
-import { goSafe } from './safe-state.ts';
 import { measurePoint, newPointState } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
 import { sweepSchedule } from './sweep-points.ts';
@@ -127,25 +127,9 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       ctx.event({ type: 'refine-end', stalledV: outcome.edge.stalledV, oscillatingV: outcome.edge.oscillatingV, points: outcome.refinedPoints });
     }
   } catch (error) {
-    const { reason, failure } = classifyEnd(error);
-    outcome.status = 'aborted';
-    outcome.reason = reason;
-    outcome.failure = failure;
-    ctx.event(failure === null ? { type: 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+    recordRunEnd(outcome, ctx, error);
   } finally {
-    control.onPauseChange(null);
-    progress.finish(outcome.status === 'complete');
-    const safe = await goSafe(bench, channel, plan.safe, (event) => ctx.event(event));
-    outcome.safeStateOk = safe.ok;
-    outcome.rowsWritten = ctx.rowsWritten;
-    ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
-    ctx.dispose();
-    try {
-      await sink.flush();
-    } catch (error) {
-      // The data already flushed stays; a failing disk must not skip the safe state (done above).
-      outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
-    }
+    await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe });
   }
   return outcome;
 }
