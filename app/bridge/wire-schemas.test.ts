@@ -35,4 +35,20 @@ describe('run detail from the wire', () => {
     const result = runDetailSchema.safeParse({ meta: noId, samples: { names: [], numeric: {}, text: {} }, events: [] });
     expect(result.success || firstIssue(result.error).field).toBe('meta.id');
   });
+
+  it('takes Float64Array columns and coded text as they are, and checks every column against rowCount', () => {
+    const frequencyHz = new Float64Array([1e6, Number.NaN]);
+    const status = { levels: ['ok', 'no-signal'], codes: new Uint8Array([0, 1]) };
+    const detail = runDetailSchema.parse({ meta, samples: { names: ['frequency_hz', 'status'], numeric: { frequency_hz: frequencyHz }, text: { status }, rowCount: 2 }, events: [] });
+    expect(detail.samples.numeric.frequency_hz).toBe(frequencyHz); // the same array: no per-cell copy
+    expect(detail.samples.text.status).toEqual(status);
+    const short = runDetailSchema.safeParse({ meta, samples: { names: [], numeric: { frequency_hz: frequencyHz }, text: {}, rowCount: 3 }, events: [] });
+    expect(short.success || firstIssue(short.error)).toMatchObject({ field: 'samples.numeric.frequency_hz', message: 'expected 3 rows (rowCount), got 2' });
+  });
+
+  it('refuses a coded text column whose code has no level', () => {
+    const status = { levels: ['ok'], codes: new Uint8Array([0, 1]) };
+    const result = runDetailSchema.safeParse({ meta, samples: { names: [], numeric: {}, text: { status }, rowCount: 2 }, events: [] });
+    expect(result.success || firstIssue(result.error)).toMatchObject({ field: 'samples.text.status', message: 'codes: code 1 has no level (1 levels)' });
+  });
 });

@@ -5,7 +5,7 @@
  * the contract later pass through.
  */
 import { z } from 'zod';
-import type { BenchMethod } from '../contract/bench-api.ts';
+import type { BenchMethod, CodedTextColumn } from '../contract/bench-api.ts';
 
 const nullableNumber = z.number().nullable();
 
@@ -36,11 +36,13 @@ export const runMetaSchema = z.looseObject({
   software: z.looseObject({ version: z.string() }),
 });
 
-// NaN does not survive JSON; empty numeric cells arrive as null and become NaN in the store.
+// NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
 // A hand-written loop rather than z.array(z.number()): stored runs reach a million cells per column.
-const numericColumn = z.unknown().transform((value, ctx): number[] => {
+// A Float64Array (from a binary reply, app/contract/wire.ts) is already numbers: taken as it is, no per-cell work.
+const numericColumn = z.unknown().transform((value, ctx): number[] | Float64Array => {
+  if (value instanceof Float64Array) return value;
   if (!Array.isArray(value)) {
-    ctx.addIssue({ code: 'custom', message: 'expected an array of numbers' });
+    ctx.addIssue({ code: 'custom', message: 'expected a Float64Array or an array of numbers' });
     return z.NEVER;
   }
   const cells = value as unknown[];
@@ -57,11 +59,33 @@ const numericColumn = z.unknown().transform((value, ctx): number[] => {
   return out;
 });
 
-// Text columns (status, direction) are as long; same reasoning.
-const textColumn = z.unknown().transform((value, ctx): string[] => {
+/** Largest code in a coded text column (one pass over bytes, no per-cell schema). */
+function maxCode(codes: Uint8Array | Uint16Array | Uint32Array): number {
+  let max = -1;
+  for (let i = 0; i < codes.length; i += 1) if ((codes[i] as number) > max) max = codes[i] as number;
+  return max;
+}
+
+// Text columns (status, direction) are as long; same reasoning. Either strings or a dictionary with codes.
+const textColumn = z.unknown().transform((value, ctx): string[] | CodedTextColumn => {
   if (!Array.isArray(value)) {
-    ctx.addIssue({ code: 'custom', message: 'expected an array of strings' });
-    return z.NEVER;
+    const coded = value as Partial<CodedTextColumn> | null;
+    const codes = coded?.codes;
+    const levels = coded?.levels;
+    if (!(codes instanceof Uint8Array || codes instanceof Uint16Array || codes instanceof Uint32Array)) {
+      ctx.addIssue({ code: 'custom', message: 'expected an array of strings or { levels, codes: Uint8Array | Uint16Array | Uint32Array }' });
+      return z.NEVER;
+    }
+    if (!Array.isArray(levels) || !levels.every((level) => typeof level === 'string')) {
+      ctx.addIssue({ code: 'custom', message: 'levels: expected an array of strings' });
+      return z.NEVER;
+    }
+    const max = maxCode(codes);
+    if (max >= levels.length) {
+      ctx.addIssue({ code: 'custom', message: `codes: code ${max} has no level (${levels.length} levels)` });
+      return z.NEVER;
+    }
+    return { levels, codes };
   }
   const cells = value as unknown[];
   for (let i = 0; i < cells.length; i += 1) {
@@ -73,13 +97,34 @@ const textColumn = z.unknown().transform((value, ctx): string[] => {
   return cells as string[];
 });
 
-export const runDetailSchema = z.looseObject({
-  meta: runMetaSchema,
-  samples: z.looseObject({
+const columnLength = (column: number[] | Float64Array | string[] | CodedTextColumn): number =>
+  Array.isArray(column) || column instanceof Float64Array ? column.length : column.codes.length;
+
+export const sampleColumnsSchema = z
+  .looseObject({
     names: z.array(z.string()),
     numeric: z.record(z.string(), numericColumn),
     text: z.record(z.string(), textColumn),
-  }),
+    rowCount: z.number().int().nonnegative().optional(),
+  })
+  .superRefine((samples, ctx) => {
+    // Every column holds rowCount values (a Float64Array: byteLength = rowCount·8); without rowCount, all alike.
+    const columns: [string, number][] = [
+      ...Object.entries(samples.numeric).map(([name, column]): [string, number] => [`numeric.${name}`, columnLength(column)]),
+      ...Object.entries(samples.text).map(([name, column]): [string, number] => [`text.${name}`, columnLength(column)]),
+    ];
+    const expected = samples.rowCount ?? columns[0]?.[1];
+    for (const [field, length] of columns) {
+      if (length !== expected) {
+        ctx.addIssue({ code: 'custom', path: field.split('.'), message: `expected ${expected} rows (rowCount), got ${length}` });
+        return;
+      }
+    }
+  });
+
+export const runDetailSchema = z.looseObject({
+  meta: runMetaSchema,
+  samples: sampleColumnsSchema,
   events: z.array(z.looseObject({ time_s: z.number(), type: z.string() })),
 });
 

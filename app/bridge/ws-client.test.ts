@@ -2,10 +2,13 @@ import { describe, expect, it } from 'vitest';
 import type { BenchEvent } from '../contract/bench-api.ts';
 import { BenchCallError } from './bench-call-error.ts';
 import { socketUrlFor } from './pick-bridge.ts';
+import { encodeBinaryReply } from '../contract/wire-binary.ts';
+import { frameParts } from '../contract/wire-parts.ts';
 import { createWsBench, type SocketLike, type Timers } from './ws-client.ts';
 
 class FakeSocket implements SocketLike {
   readyState = 0;
+  binaryType = 'blob';
   sent: string[] = [];
   onopen: (() => void) | null = null;
   onclose: (() => void) | null = null;
@@ -29,6 +32,10 @@ class FakeSocket implements SocketLike {
   }
   reply(message: unknown): void {
     this.onmessage?.({ data: JSON.stringify(message) });
+  }
+  /** As a browser WebSocket with binaryType "arraybuffer" hands over a binary message. */
+  replyBinary(frame: Uint8Array): void {
+    this.onmessage?.({ data: frame.buffer.slice(frame.byteOffset, frame.byteOffset + frame.byteLength) });
   }
   calls(): { id: number; method: string; params: unknown[] }[] {
     return this.sent.map((text) => JSON.parse(text) as { id: number; method: string; params: unknown[] });
@@ -183,4 +190,70 @@ describe('WebSocket BenchApi client', () => {
     expect(timers.queue).toHaveLength(0);
     expect(sockets).toHaveLength(1);
   });
+
+  it('reads a stored run from one binary frame as Float64Array views, checked against rowCount', async () => {
+    const { bench, last } = setup();
+    last().accept();
+    expect(last().binaryType).toBe('arraybuffer');
+    const pending = bench.api.openRun('r1');
+    const id = last().calls()[0]?.id;
+    const frequencyHz = new Float64Array([400e6, Number.NaN, 400.0000001e6, -0]);
+    const samples = {
+      names: ['time_s', 'frequency_hz', 'status'],
+      numeric: { time_s: new Float64Array([0, 1, 2, 3]), frequency_hz: frequencyHz },
+      text: { status: { levels: ['ok', 'no-signal'], codes: new Uint8Array([0, 1, 0, 0]) } },
+      rowCount: 4,
+    };
+    const frame = encodeBinaryReply({ id, ok: true, result: { meta: runMeta, samples, events: [{ time_s: 0, type: 'start' }] } });
+    if (!frame) throw new Error('expected a binary frame');
+    // As the server sends it: consecutive parts (small here so there are several).
+    for (const part of frameParts(frame, 64)) last().replyBinary(part);
+    const detail = await pending;
+    const got = detail.samples.numeric.frequency_hz;
+    expect(got).toBeInstanceOf(Float64Array);
+    expect(Array.from(got ?? []).map((v) => (Object.is(v, -0) ? '-0' : String(v)))).toEqual(['400000000', 'NaN', '400000000.1', '-0']);
+    expect(detail.samples.text.status).toEqual({ levels: ['ok', 'no-signal'], codes: new Uint8Array([0, 1, 0, 0]) });
+    expect(detail.events).toEqual([{ time_s: 0, type: 'start' }]);
+  });
+
+  it('rejects a binary reply whose column does not hold rowCount values, naming the column', async () => {
+    const { bench, last } = setup();
+    last().accept();
+    const pending = bench.api.openRun('r1');
+    const id = last().calls()[0]?.id;
+    const samples = { names: ['time_s'], numeric: { time_s: new Float64Array([0, 1, 3]) }, text: {}, rowCount: 4 };
+    last().replyBinary(encodeBinaryReply({ id, ok: true, result: { meta: runMeta, samples, events: [] } }) as Uint8Array);
+    const error = (await pending.catch((e: unknown) => e)) as BenchCallError;
+    expect(error).toBeInstanceOf(BenchCallError);
+    expect(error.field).toBe('result.samples.numeric.time_s');
+    expect(error.message).toMatch(/expected 4 rows/);
+  });
+
+  it('fails the call (not the link) when a binary frame points outside itself', async () => {
+    const { bench, last } = setup();
+    last().accept();
+    const pending = bench.api.openRun('r1');
+    const id = last().calls()[0]?.id;
+    const frame = encodeBinaryReply({ id, ok: true, result: { numeric: new Float64Array([1, 5, 6]) } }) as Uint8Array;
+    const cut = frame.slice(0, frame.length - 8); // the last value cut off, the frame length made to match
+    new DataView(cut.buffer).setUint32(4, cut.byteLength, true);
+    last().replyBinary(cut);
+    const error = (await pending.catch((e: unknown) => e)) as BenchCallError;
+    expect(error.field).toBe('result.numeric');
+    expect(error.message).toMatch(/past the end of the frame/);
+    expect(bench.link.getState()).toBe('open');
+  });
 });
+
+const runMeta = {
+  schema: 'tunebench.run/1',
+  id: 'r1',
+  kind: 'drift',
+  status: 'complete',
+  startedAt: '2026-12-01T22:00:00Z',
+  endedAt: '2026-12-02T06:00:00Z',
+  dut: { id: 'radio-lo-400m-b', notes: '' },
+  instruments: [],
+  plan: {},
+  software: { version: '0.1.0' },
+};

@@ -8,12 +8,16 @@
  */
 import type { BenchApi, BenchEvent, BenchMethod } from '../contract/bench-api.ts';
 import { BENCH_METHODS, type WireCall } from '../contract/wire.ts';
+import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
+import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
 import { benchEventSchema, firstIssue, resultSchemas, wireInboundSchema } from './wire-schemas.ts';
 
 /** The part of the DOM WebSocket this client uses. */
 export interface SocketLike {
   readonly readyState: number;
+  /** Set to "arraybuffer": binary replies (app/contract/wire.ts) are read in place. */
+  binaryType?: string;
   send(data: string): void;
   close(): void;
   onopen: (() => void) | null;
@@ -74,6 +78,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
   let attempt = 0;
   let retryHandle: unknown = null;
   let closedByUser = false;
+  const assembler = new FrameAssembler();
 
   function setState(next: LinkState): void {
     if (next === state) return;
@@ -104,14 +109,40 @@ export function createWsBench(options: WsBenchOptions): WsBench {
 
   function onMessage(data: unknown): void {
     // Marks around big replies (a stored night's log) so benchmarks can split wire time from parse time.
-    const large = typeof data === 'string' && data.length > 1_000_000;
+    const binary = data instanceof ArrayBuffer;
+    if (!binary && assembler.inProgress) {
+      assembler.reset();
+      emit({ type: 'error', message: 'main sent a text message in the middle of a binary reply; that reply is lost' });
+    }
+    let frame: ArrayBuffer | null = null;
+    if (binary) {
+      try {
+        frame = assembler.push(data);
+      } catch (error) {
+        emit({ type: 'error', message: `main sent an unreadable binary reply (${String(error)})` });
+        return;
+      }
+      if (frame === null) return; // more parts to come
+    }
+    const large = frame ? frame.byteLength > 1_000_000 : typeof data === 'string' && data.length > 1_000_000;
     if (large) performance.mark('tunebench:ws:large-message');
     let parsed: unknown;
-    try {
-      parsed = JSON.parse(typeof data === 'string' ? data : String(data));
-    } catch {
-      emit({ type: 'error', message: 'main sent a message that is not JSON' });
-      return;
+    if (frame) {
+      try {
+        parsed = decodeBinaryReply(frame);
+      } catch (error) {
+        if (error instanceof WireFrameError && error.id !== null) {
+          settle(error.id, { ok: false, message: `unreadable reply from main: ${error.message}`, field: error.field });
+        } else emit({ type: 'error', message: `main sent an unreadable binary reply (${String(error)})` });
+        return;
+      }
+    } else {
+      try {
+        parsed = JSON.parse(typeof data === 'string' ? data : String(data));
+      } catch {
+        emit({ type: 'error', message: 'main sent a message that is not JSON' });
+        return;
+      }
     }
     const message = wireInboundSchema.safeParse(parsed);
     if (!message.success) {
@@ -169,6 +200,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
       return;
     }
     socket = created;
+    created.binaryType = 'arraybuffer';
     created.onopen = () => {
       if (socket !== created) return;
       attempt = 0;
@@ -184,6 +216,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     created.onclose = () => {
       if (socket !== created) return;
       socket = null;
+      assembler.reset();
       failInFlight();
       setState('lost');
       scheduleReconnect();

@@ -1,7 +1,10 @@
 /**
  * BenchApi: the one contract between the renderer and main. Plain
- * serialisable data only (no class instances, no typed arrays on the wire —
- * columns travel as number[] and are turned into Float64Array in the store).
+ * serialisable data only (no class instances). The one exception is sample
+ * columns: a stored run's numeric columns may be Float64Array and its text
+ * columns dictionary-coded (levels + Uint8/16/32 codes) so a million-row run
+ * crosses without a per-cell copy: Electron IPC carries typed arrays by
+ * structured clone, the WebSocket as a binary frame (./wire.ts).
  * Electron carries it over IPC (preload + contextBridge); browser mode over a
  * WebSocket. The renderer never knows which.
  *
@@ -50,11 +53,32 @@ export interface RunMeta {
   software: { version: string };
 }
 
-/** Columns of samples.csv; numeric columns as number[] (NaN allowed for empty). */
+/** A numeric column: NaN for an empty cell. number[] is the older plain form, still accepted everywhere. */
+export type NumericColumn = number[] | Float64Array;
+
+/** A text column as a dictionary: row i holds `levels[codes[i]]` (status, direction: a handful of words). */
+export interface CodedTextColumn {
+  levels: string[];
+  codes: Uint8Array | Uint16Array | Uint32Array;
+}
+
+/** A text column: one string per row, or dictionary-coded. */
+export type TextColumn = string[] | CodedTextColumn;
+
+/** Columns of samples.csv (all columns hold the same number of rows). */
 export interface SampleColumns {
   names: string[];
-  numeric: Record<string, number[]>;
-  text: Record<string, string[]>;
+  numeric: Record<string, NumericColumn>;
+  text: Record<string, TextColumn>;
+  /** Rows in every column; present when main read the run (older senders leave it out). */
+  rowCount?: number;
+}
+
+/** Row i of a text column, whichever form it has ('' past the end). */
+export function textCell(column: TextColumn, row: number): string {
+  if (Array.isArray(column)) return column[row] ?? '';
+  const code = column.codes[row];
+  return code === undefined ? '' : (column.levels[code] ?? '');
 }
 
 export interface RunEvent {

@@ -7,6 +7,30 @@
  *                    { id, ok: false, error: { message, field? } }
  *                    { event: BenchEvent }              pushed events
  *
+ * A reply whose result holds typed arrays (openRun: Float64Array numeric
+ * columns, Uint8/16/32 codes of text columns) is sent instead as ONE binary
+ * message (./wire-binary.ts), so a million-row run needs no number-by-number
+ * JSON on either side:
+ *
+ *   bytes 0..3        header length H, uint32 little-endian
+ *   bytes 4..7        the whole frame's length F, uint32 little-endian
+ *   bytes 8..8+H      UTF-8 JSON of { id, ok: true, result }, each typed array
+ *                     replaced by { "$typedArray": "f64"|"u8"|"u16"|"u32",
+ *                     "byteOffset": o, "byteLength": b }
+ *   padding           zero bytes up to D = the next multiple of 8
+ *   bytes D+o..D+o+b  that array's values, little-endian; o is a multiple
+ *                     of 8 and b a whole number of elements
+ *
+ * The frame goes as consecutive binary messages of at most 1 MiB (nothing
+ * else is sent between them); the page joins them until it has F bytes.
+ * (One 30 MB message made Chromium stall for seconds when freeing it.)
+ * The page opens the socket with binaryType "arraybuffer" and views each
+ * block in place (new Float64Array(frame, D + o, b / 8)). It checks every
+ * offset and length against the frame, then the reply schema checks that
+ * each column holds `samples.rowCount` values (a Float64Array column's
+ * byteLength is rowCount·8). Calls, errors and events stay JSON text; the
+ * server refuses binary frames from the page.
+ *
  * The access token travels as `?token=…` on the WebSocket URL, exactly as on
  * the page URL that `tunebench serve` prints.
  */

@@ -69,4 +69,25 @@ describe('column sets', () => {
     expect(set.status.at(1)).toBe(STATUS_CODE.timeout);
     expect(set.control_v.at(0)).toBeNaN();
   });
+
+  it('adopts a stored run’s Float64Array columns without copying, and appends after them without writing into them', () => {
+    const time = new Float64Array([0, 1, 2]);
+    const frequency = new Float64Array([5, 6, 7]);
+    const status = { levels: ['timeout', 'ok'], codes: new Uint8Array([1, 0, 1]) };
+    const set = columnSetFromStored({ time_s: time, frequency_hz: frequency }, { status });
+    expect(set.time_s.view().buffer).toBe(time.buffer); // the reply's own buffer
+    expect(Array.from(set.status.view())).toEqual([STATUS_CODE.ok, STATUS_CODE.timeout, STATUS_CODE.ok]);
+    expect(set.control_v.at(2)).toBeNaN();
+    appendRows(set, [{ time_s: 3, frequency_hz: 8, status: 'ok' }]);
+    expect(rowCount(set)).toBe(4);
+    expect(Array.from(set.frequency_hz.view())).toEqual([5, 6, 7, 8]);
+    expect(set.frequency_hz.view().buffer).not.toBe(frequency.buffer);
+    set.control_v.clear();
+    set.control_v.push(1);
+    set.frequency_hz.clear();
+    set.frequency_hz.push(9);
+    // The adopted arrays (part of the cached reply) and the shared NaN column are untouched.
+    expect(Array.from(frequency)).toEqual([5, 6, 7]);
+    expect(set.supply_v.at(0)).toBeNaN();
+  });
 });

@@ -2,13 +2,27 @@
  * Growable Float64Array columns: a length plus a capacity that doubles, so a
  * run of a million readings grows in ~20 reallocations and uPlot is handed
  * `subarray(0, length)` views (no copies). Nothing here allocates per sample.
+ * A stored run's Float64Array (from the reply) is adopted as the buffer
+ * itself, so opening a run copies no cells.
  */
+import { type NumericColumn, type TextColumn, textCell } from '../contract/bench-api.ts';
 
 const INITIAL_CAPACITY = 256;
 
 export class GrowableColumn {
   private buffer: Float64Array;
   private size = 0;
+  /** The buffer belongs to someone else too (an adopted reply array): never written in place, moved on first write. */
+  private borrowed = false;
+
+  /** A column whose filled part is `values` itself (not copied); the first append moves it to a buffer of its own. */
+  static adopting(values: Float64Array): GrowableColumn {
+    const column = new GrowableColumn(1);
+    column.buffer = values;
+    column.size = values.length;
+    column.borrowed = true;
+    return column;
+  }
 
   constructor(initialCapacity = INITIAL_CAPACITY) {
     if (!(initialCapacity >= 1) || !Number.isInteger(initialCapacity)) {
@@ -26,7 +40,7 @@ export class GrowableColumn {
   }
 
   push(value: number): void {
-    if (this.size === this.buffer.length) this.grow(this.size + 1);
+    if (this.size === this.buffer.length || this.borrowed) this.grow(this.size + 1);
     this.buffer[this.size] = value;
     this.size += 1;
   }
@@ -34,7 +48,7 @@ export class GrowableColumn {
   /** Appends a plain array in one go (one growth at most). */
   append(values: ArrayLike<number>): void {
     const needed = this.size + values.length;
-    if (needed > this.buffer.length) this.grow(needed);
+    if (needed > this.buffer.length || this.borrowed) this.grow(needed);
     // Native copy; holes and undefined become NaN, as a missing reading should.
     this.buffer.set(values, this.size);
     this.size = needed;
@@ -54,11 +68,12 @@ export class GrowableColumn {
   }
 
   private grow(minCapacity: number): void {
-    let capacity = this.buffer.length;
+    let capacity = Math.max(1, this.buffer.length);
     while (capacity < minCapacity) capacity *= 2;
     const next = new Float64Array(capacity);
     next.set(this.buffer.subarray(0, this.size));
     this.buffer = next;
+    this.borrowed = false;
   }
 }
 
@@ -109,29 +124,53 @@ export function appendRows(set: ColumnSet, rows: readonly Record<string, number 
   }
 }
 
-/** Builds a column set from a stored run (numeric number[] + text string[] columns). */
-export function columnSetFromStored(numeric: Record<string, number[]>, text: Record<string, string[]>): ColumnSet {
+/** Numeric codes of a text column through `codeOf` (per level for coded columns, so a million rows cost one table look-up each). */
+function codedColumn(source: TextColumn | undefined, n: number, codeOf: (text: string) => number, missing: number): Float64Array {
+  const out = new Float64Array(n);
+  if (!source) {
+    if (missing !== 0) out.fill(missing);
+    return out;
+  }
+  if (Array.isArray(source)) {
+    for (let i = 0; i < n; i += 1) out[i] = codeOf(textCell(source, i));
+    return out;
+  }
+  const table = source.levels.map(codeOf);
+  const { codes } = source;
+  for (let i = 0; i < n; i += 1) {
+    const code = codes[i];
+    out[i] = code === undefined ? codeOf('') : (table[code] as number);
+  }
+  return out;
+}
+
+/**
+ * Builds a column set from a stored run. Float64Array columns of the full
+ * length are adopted as they are (no copy); plain arrays are copied once.
+ * Absent columns share one NaN-filled buffer (adopted buffers are never
+ * written in place).
+ */
+export function columnSetFromStored(numeric: Record<string, NumericColumn>, text: Record<string, TextColumn>): ColumnSet {
   let n = 0;
   for (const column of Object.values(numeric)) n = Math.max(n, column.length);
-  for (const column of Object.values(text)) n = Math.max(n, column.length);
-  const set = createColumnSet(Math.max(INITIAL_CAPACITY, n));
-  // Whole columns at a time: a million-row run opens in tens of milliseconds.
-  const nanRow = new Float64Array(n).fill(Number.NaN);
+  for (const column of Object.values(text)) n = Math.max(n, Array.isArray(column) ? column.length : column.codes.length);
+  let nanRow: Float64Array | null = null;
+  const set = {} as ColumnSet;
   for (const name of RUN_COLUMNS) {
-    const column = set[name];
     if (name === 'status') {
-      const source = text.status;
-      const codes = new Float64Array(n);
-      if (source) for (let i = 0; i < n; i += 1) codes[i] = source[i] === 'ok' ? STATUS_CODE.ok : statusCode(source[i]);
-      column.append(codes);
+      set.status = GrowableColumn.adopting(codedColumn(text.status, n, (t) => (t === 'ok' ? STATUS_CODE.ok : statusCode(t)), STATUS_CODE.ok));
     } else if (name === 'direction') {
-      const source = text.direction;
-      const codes = new Float64Array(n);
-      if (source) for (let i = 0; i < n; i += 1) codes[i] = source[i] === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up;
-      column.append(codes);
+      set.direction = GrowableColumn.adopting(codedColumn(text.direction, n, (t) => (t === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up), DIRECTION_CODE.up));
     } else {
       const source = numeric[name];
-      column.append(source && source.length === n ? source : source ? Float64Array.from({ length: n }, (_, i) => source[i] ?? Number.NaN) : nanRow);
+      if (source instanceof Float64Array && source.length === n) set[name] = GrowableColumn.adopting(source);
+      else if (source) {
+        // One native copy; rows past a short column (and holes) stay NaN.
+        const copy = new Float64Array(n).fill(Number.NaN);
+        copy.set(source);
+        set[name] = GrowableColumn.adopting(copy);
+      }
+      else set[name] = GrowableColumn.adopting((nanRow ??= new Float64Array(n).fill(Number.NaN)));
     }
   }
   return set;

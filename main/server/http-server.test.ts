@@ -5,6 +5,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { WebSocket } from 'ws';
 import type { BenchApi, BenchEvent } from '../../app/contract/bench-api.ts';
+import { decodeBinaryReply } from '../../app/contract/wire-binary.ts';
+import { FrameAssembler, PART_BYTES } from '../../app/contract/wire-parts.ts';
 import { EventHub } from '../service/event-hub.ts';
 import { startBrowserServer, type BrowserServer } from './http-server.ts';
 
@@ -16,8 +18,13 @@ function fakeApi(hub: EventHub, calls: unknown[][]): BenchApi {
   };
   const api: Record<string, unknown> = { subscribe: (listener: (event: BenchEvent) => void) => hub.subscribe(listener) };
   for (const name of ['getConnection', 'startSweep', 'listRuns']) api[name] = answer;
+  // A stored run with columns as the store gives them: Float64Array and coded text.
+  api.openRun = async () => ({ samples: { names: ['frequency_hz', 'status'], numeric: { frequency_hz: BIG_COLUMN }, text: { status: { levels: ['ok'], codes: new Uint8Array(BIG_COLUMN.length) } }, rowCount: BIG_COLUMN.length } });
   return api as unknown as BenchApi;
 }
+
+/** Noisy values (no rule to send instead of bytes), long enough to need several parts. */
+const BIG_COLUMN = Float64Array.from({ length: 100_000 }, (_, i) => 4e8 + Math.sin(i * 0.37) * 1234.5678);
 
 interface HttpAnswer {
   status: number;
@@ -144,6 +151,31 @@ describe('browser-mode server', () => {
     expect(await nextMessage(socket)).toEqual({ id: 4, ok: true, result: { connected: false, simulated: false, roles: [], error: null } });
     hub.emit({ type: 'error', message: 'pushed' });
     expect(await nextMessage(socket)).toEqual({ event: { type: 'error', message: 'pushed' } });
+    socket.close();
+  });
+
+  it('sends a reply with typed arrays as consecutive binary parts that join into one frame, events after it', async () => {
+    const opened = await openSocket(`ws://127.0.0.1:${server.port}/api?token=${server.token}`, server.origin);
+    if (!('socket' in opened)) throw new Error(`socket refused: ${opened.status}`);
+    const socket = opened.socket;
+    const messages: { data: Buffer; isBinary: boolean }[] = [];
+    socket.on('message', (data: Buffer, isBinary: boolean) => messages.push({ data, isBinary }));
+    socket.send(JSON.stringify({ id: 5, method: 'openRun', params: ['r1'] }));
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    hub.emit({ type: 'error', message: 'after' });
+    await expect.poll(() => messages.some((m) => !m.isBinary)).toBe(true);
+    const parts = messages.filter((m) => m.isBinary);
+    expect(parts.length).toBeGreaterThan(2);
+    expect(parts.every((m) => m.data.byteLength <= PART_BYTES)).toBe(true);
+    expect(messages[messages.length - 1]?.isBinary).toBe(false); // the event came after every part
+    const assembler = new FrameAssembler();
+    let frame: ArrayBuffer | null = null;
+    for (const { data } of parts) frame = assembler.push(data.buffer.slice(data.byteOffset, data.byteOffset + data.byteLength) as ArrayBuffer);
+    if (frame === null) throw new Error('frame incomplete');
+    const reply = decodeBinaryReply(frame) as { id: number; ok: boolean; result: { samples: { numeric: { frequency_hz: Float64Array }; rowCount: number } } };
+    expect(reply).toMatchObject({ id: 5, ok: true });
+    expect(reply.result.samples.rowCount).toBe(BIG_COLUMN.length);
+    expect(reply.result.samples.numeric.frequency_hz).toEqual(BIG_COLUMN);
     socket.close();
   });
 });

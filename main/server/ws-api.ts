@@ -8,6 +8,8 @@ import type { WebSocket } from 'ws';
 import { z } from 'zod';
 import type { BenchApi, BenchEvent } from '../../app/contract/bench-api.ts';
 import type { WireReply } from '../../app/contract/wire.ts';
+import { encodeBinaryReply } from '../../app/contract/wire-binary.ts';
+import { frameParts } from '../../app/contract/wire-parts.ts';
 import { callBenchApi } from '../service/call-guard.ts';
 
 /** Replies to messages with no readable id carry this id. */
@@ -60,7 +62,18 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi): void {
       return;
     }
     void callBenchApi(api, call.method, call.params).then((outcome) => {
-      send(outcome.ok ? { id: call.id, ok: true, result: outcome.result } : { id: call.id, ok: false, error: outcome.error });
+      if (!outcome.ok) {
+        send({ id: call.id, ok: false, error: outcome.error });
+        return;
+      }
+      const reply: WireReply = { id: call.id, ok: true, result: outcome.result };
+      // A result with typed arrays (a stored run's columns) goes as one binary frame (app/contract/wire.ts).
+      const frame = encodeBinaryReply(reply);
+      if (frame === null) send(reply);
+      else if (socket.readyState === socket.OPEN) {
+        // Consecutive parts of one frame, sent in one go so nothing lands between them.
+        for (const part of frameParts(frame)) socket.send(part, { binary: true });
+      }
     });
   });
   socket.on('close', unsubscribe);

@@ -16,7 +16,7 @@ describe('importCsvRun', () => {
       });
       expect(meta).toMatchObject({ id: '20261202-010000-400-mhz-varactor-vco', kind: 'sweep', status: 'complete', plan: { importedFrom: 'varactor-400m.csv' } });
       const run = await openRun(runsDir, meta.id);
-      expect(run.samples.numeric.frequency_hz).toEqual([3.8e8, 4.0e8, 4.15e8]);
+      expect(run.samples.numeric.frequency_hz).toEqual(new Float64Array([3.8e8, 4.0e8, 4.15e8]));
       expect(run.events).toEqual([{ time_s: 0, type: 'imported', fileName: 'varactor-400m.csv', rows: 3 }]);
     });
   });

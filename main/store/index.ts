@@ -2,6 +2,7 @@
 export { createRun, type CreateRunOptions, type RunEventInput, type RunWriter, type SampleRow, type WriterOptions } from './run-writer.ts';
 export { readRunFolder, readRunStatus, type ReadOptions, type RunFolderContents } from './run-reader.ts';
 export { parseSamplesCsv, type DroppedLine, type ParsedSamples } from './samples-csv.ts';
+export { readSampleTable, type SampleTable } from './sample-table.ts';
 export { parseEventsJsonl } from './events-jsonl.ts';
 export { assertRunId, dutIdSchema, makeRunId, runFolder, runIdSchema } from './run-id.ts';
 export { RunFormatError, RUN_SCHEMA } from './run-meta.ts';

@@ -42,8 +42,8 @@ describe('run store', () => {
     await withTempDir(async (runsDir) => {
       const id = await finishedRun(runsDir, '2026-12-01T09:00:00Z', 'sensor-osc-a');
       const run = await openRun(runsDir, id);
-      expect(run.samples.numeric.control_v).toEqual([1, 1.5]);
-      expect(run.samples.text.status).toEqual(['ok', 'ok']);
+      expect(run.samples.numeric.control_v).toEqual(new Float64Array([1, 1.5]));
+      expect(run.samples.text.status).toEqual({ levels: ['ok'], codes: new Uint8Array([0, 0]) });
       await expect(openRun(runsDir, '../etc')).rejects.toThrow(/run id/);
       await expect(openRun(runsDir, 'no-such-run')).rejects.toMatchObject({ reason: 'not-found' });
     });

@@ -11,7 +11,7 @@ import { eventLineAfter } from './events-jsonl.ts';
 import { assertRunId, dutIdSchema } from './run-id.ts';
 import { EVENTS_JSONL, readRunMeta, writeRunMeta } from './run-meta.ts';
 import { type ReadOptions, lastTimeS, readRunFolder, readRunStatus } from './run-reader.ts';
-import { type ParsedSamples, parseSamplesCsv } from './samples-csv.ts';
+import { type SampleTable, readSampleTable } from './sample-table.ts';
 import { StoreError } from './store-error.ts';
 import { type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
 
@@ -31,7 +31,8 @@ export interface ListResult {
 }
 
 export interface OpenedRun extends RunDetail {
-  samples: ParsedSamples;
+  /** Float64Array numeric and dictionary-coded text columns (the fast reader; same rows as parseSamplesCsv). */
+  samples: SampleTable;
   droppedEventLines: number[];
 }
 
@@ -98,7 +99,7 @@ async function runDir(fs: StoreFs, runsDir: string, id: unknown): Promise<string
 export async function openRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<OpenedRun> {
   const dir = await runDir(fsOf(options), runsDir, id);
   const run = await readRunFolder(dir, options);
-  return { meta: run.meta, samples: parseSamplesCsv(run.samplesCsv), events: run.events, droppedEventLines: run.droppedEventLines };
+  return { meta: run.meta, samples: readSampleTable(run.samplesCsv), events: run.events, droppedEventLines: run.droppedEventLines };
 }
 
 const editQueues = new Map<string, Promise<unknown>>();

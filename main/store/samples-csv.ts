@@ -18,7 +18,10 @@ export interface DroppedLine {
   text: string;
 }
 
+/** The reference reader's result: plain arrays (see ./sample-table.ts for the fast columnar reader). */
 export interface ParsedSamples extends SampleColumns {
+  numeric: Record<string, number[]>;
+  text: Record<string, string[]>;
   rowCount: number;
   dropped: DroppedLine[];
 }
@@ -29,7 +32,7 @@ export interface ParseSamplesOptions {
 }
 
 /** One data line (line break and CR removed), or null for a blank line. */
-function dataLine(raw: string): string | null {
+export function dataLine(raw: string): string | null {
   const line = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw;
   return line.length === 0 || (line.charCodeAt(0) <= 32 && line.trim() === '') ? null : line;
 }
@@ -95,7 +98,7 @@ export function parseSamplesCsv(text: string, options: ParseSamplesOptions = {})
 const TYPE_SAMPLE_ROWS = 200;
 
 /** A column not known to be text is still text when most of its filled cells (in the first rows) are not numbers. */
-function mostlyNonNumeric(lines: readonly string[], width: number, column: number): boolean {
+export function mostlyNonNumeric(lines: readonly string[], width: number, column: number): boolean {
   let filled = 0;
   let words = 0;
   let looked = 0;
