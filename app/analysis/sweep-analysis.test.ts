@@ -209,3 +209,38 @@ describe('analyzeSweep on a falling tuning curve', () => {
     expect(r.kvco.linear.slopeHzPerV).toBeLessThan(0);
   });
 });
+
+describe('analyzeSweep on a tuning curve that turns back', () => {
+  // f = 1 MHz + 400 kHz/V·v − 100 kHz/V²·v² rises to its peak at 2 V and falls
+  // after it (a fold-over such as a supply-limited tuning port shows). Past
+  // the peak the loop gain changes sign, so the usable range must end there
+  // (common practice in PLL design: Kvco must keep one sign over the lock range).
+  const readings: Reading[] = [];
+  for (let k = 0; k <= 30; k++) {
+    const v = k / 10;
+    const f = 1e6 + 4e5 * v - 1e5 * v * v;
+    for (const wiggle of [1, -1, 1]) readings.push({ v, f: f + wiggle });
+  }
+  const result = analyzeSweep(toInput(readings, 0.1));
+
+  it('ends the usable range at the peak and keeps Kvco positive over it', () => {
+    expect(result.kvco.turnsBackAboveV).toBeCloseTo(2, 12);
+    expect(result.kvco.linear.toV).toBeCloseTo(2, 12);
+    expect(result.kvco.minHzPerV).toBeGreaterThanOrEqual(-1e-6 * 4e5);
+    // The derivative 400 kHz/V − 200 kHz/V²·v is largest at the bottom of the range.
+    expect(result.kvco.maxHzPerV).toBeCloseTo(4e5, -2);
+    expect(result.tuningRange.vAtFMax).toBeCloseTo(2, 12);
+    expect(result.warnings.some((w) => /turns back above 2 V/.test(w))).toBe(true);
+  });
+
+  it('still reports a local Kvco entry at every oscillating point, negative past the turn', () => {
+    expect(result.kvco.local).toHaveLength(31);
+    const last = result.kvco.local.at(-1);
+    expect(last?.v).toBeCloseTo(3, 12);
+    expect(last?.hzPerV).toBeLessThan(0);
+  });
+
+  it('reports no turn for a monotonic curve', () => {
+    expect(analyzeSweep(toInput(lineSweep(), 0.1)).kvco.turnsBackAboveV).toBeNull();
+  });
+});

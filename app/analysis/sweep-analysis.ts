@@ -47,6 +47,31 @@ function pointUncertainty(points: PointSet, gateS: number | undefined): Float64A
   return u;
 }
 
+/**
+ * Index of the extreme point where a tuning curve turns back, or null when it
+ * is monotonic within noise. The curve's sense is taken from its two ends;
+ * the turn counts only when the frequency past the extreme falls back by
+ * more than 3σ of the two points' uncertainties.
+ */
+export function turningPoint(meanHz: Float64Array, u: Float64Array, i0: number, i1: number): number | null {
+  if (i1 - i0 < 3) return null;
+  const rising = (meanHz[i1 - 1] as number) >= (meanHz[i0] as number);
+  let iExt = i0;
+  for (let i = i0 + 1; i < i1; i++) {
+    const f = meanHz[i] as number;
+    if (rising ? f > (meanHz[iExt] as number) : f < (meanHz[iExt] as number)) iExt = i;
+  }
+  if (iExt >= i1 - 1) return null;
+  let worstBack = 0;
+  let iWorst = iExt;
+  for (let i = iExt + 1; i < i1; i++) {
+    const back = rising ? (meanHz[iExt] as number) - (meanHz[i] as number) : (meanHz[i] as number) - (meanHz[iExt] as number);
+    if (back > worstBack) [worstBack, iWorst] = [back, i];
+  }
+  const noise = 3 * Math.hypot(u[iExt] as number, u[iWorst] as number);
+  return worstBack > noise ? iExt : null;
+}
+
 export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
@@ -59,10 +84,20 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const warnings: string[] = [];
   if (edges.blockI1 === edges.blockI0) throw new AnalysisError('the oscillator stalled over the whole range', true);
   const i0 = edges.usableI0;
-  const i1 = edges.blockI1;
+  const u = pointUncertainty(points, input.gateS);
+  // A tuning curve that turns back (frequency falls again past its extreme)
+  // is unusable beyond the turn: a PLL's loop gain changes sign there. The
+  // usable range ends at the turning point when the fall-back exceeds 3σ.
+  const turn = turningPoint(points.meanHz, u, i0, edges.blockI1);
+  const i1 = turn === null ? edges.blockI1 : turn + 1;
   const n = i1 - i0;
   if (n < 2) throw new AnalysisError(`only ${n} oscillating point in the usable range; need at least 2`, true);
-  const u = pointUncertainty(points, input.gateS);
+  if (turn !== null) {
+    warnings.push(
+      `the tuning curve turns back above ${points.v[turn] as number} V (frequency falls again toward ${points.v[edges.blockI1 - 1] as number} V); ` +
+        'the usable range ends at the turn',
+    );
+  }
   let rmsU = 0;
   for (let i = i0; i < i1; i++) rmsU += (u[i] as number) * (u[i] as number);
   rmsU = Math.sqrt(rmsU / n);
@@ -152,6 +187,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
       vAtMax: kMaxV,
       // Ratio of magnitudes, so a falling (negative-gain) curve reads the same; NaN if the sign changes.
       maxToMinRatio: kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
+      turnsBackAboveV: turn === null ? null : (points.v[turn] as number),
       nominal: { v: nominalV, hzPerV: nominal.hzPerV, uncertaintyHzPerV: nominal.sd },
       widestLinearRange: widestLinearRange(fit, fromV, toV, limitPct),
     },

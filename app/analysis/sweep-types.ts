@@ -37,6 +37,8 @@ export interface SweepAnalysis {
     vAtMin: number;
     vAtMax: number;
     maxToMinRatio: number;
+    /** Control voltage where the tuning curve turns back (usable range ends there); null if monotonic. */
+    turnsBackAboveV: number | null;
     nominal: { v: number; hzPerV: number; uncertaintyHzPerV: number };
     widestLinearRange: WidestRange | null;
   };

@@ -40,7 +40,13 @@ function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; r
       <dl className="figures">
         <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
         <Figure label="Tempco" value={plain(a?.tempcoPpmPerC, 'ppm/°C')} note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined} testId="drift-tempco" />
-        <Figure label="Drift rate after warm-up" value={plain(a?.driftPpmPerHour, 'ppm/h')} testId="drift-rate" />
+        <Figure
+          label="Drift rate after warm-up"
+          value={plain(a?.driftPpmPerHour, 'ppm/h')}
+          // A short log cannot pin the rate down: show its standard uncertainty beside it.
+          note={a?.driftUncertaintyPpmPerHour != null ? `± ${plain(a.driftUncertaintyPpmPerHour, 'ppm/h')} (1σ)` : undefined}
+          testId="drift-rate"
+        />
         <Figure label="Warm-up" value={a ? (a.warmUp.settled ? duration(a.warmUp.warmUpS) : 'not settled') : '—'} testId="drift-warmup" />
         <Figure label="Logged" value={a ? `${a.samples} readings over ${duration(a.durationS)}` : '—'} testId="drift-count" />
       </dl>
