@@ -225,11 +225,14 @@ describe('analyzeSweep on a tuning curve that turns back', () => {
 
   it('ends the usable range at the peak and keeps Kvco positive over it', () => {
     expect(result.kvco.turnsBackAboveV).toBeCloseTo(2, 12);
-    expect(result.kvco.linear.toV).toBeCloseTo(2, 12);
+    // Just below the peak Kvco falls under 10 % of its median, so the flat-top
+    // rule may end the range one step earlier; never past the peak.
+    expect(result.kvco.linear.toV).toBeGreaterThanOrEqual(1.9 - 1e-12);
+    expect(result.kvco.linear.toV).toBeLessThanOrEqual(2 + 1e-12);
     expect(result.kvco.minHzPerV).toBeGreaterThanOrEqual(-1e-6 * 4e5);
     // The derivative 400 kHz/V − 200 kHz/V²·v is largest at the bottom of the range.
     expect(result.kvco.maxHzPerV).toBeCloseTo(4e5, -2);
-    expect(result.tuningRange.vAtFMax).toBeCloseTo(2, 12);
+    expect(result.tuningRange.vAtFMax).toBeCloseTo(result.kvco.linear.toV, 12);
     expect(result.warnings.some((w) => /turns back above 2 V/.test(w))).toBe(true);
   });
 
@@ -242,5 +245,32 @@ describe('analyzeSweep on a tuning curve that turns back', () => {
 
   it('reports no turn for a monotonic curve', () => {
     expect(analyzeSweep(toInput(lineSweep(), 0.1)).kvco.turnsBackAboveV).toBeNull();
+  });
+});
+
+describe('analyzeSweep on a tuning curve that saturates', () => {
+  // f rises at 10 kHz/V up to 3 V, then stays at 130 kHz (a tuning port clamped
+  // at its rail): Kvco ≈ 0 there, so the usable range ends at 3 V.
+  const readings: Reading[] = [];
+  for (let k = 0; k <= 40; k++) {
+    const v = k / 10;
+    const f = 1e5 + 1e4 * Math.min(v, 3);
+    for (const wiggle of [1, -1, 1]) readings.push({ v, f: f + wiggle });
+  }
+  const result = analyzeSweep(toInput(readings, 0.1));
+  it('ends the usable range where the curve goes flat', () => {
+    expect(result.kvco.flatAboveV).toBeCloseTo(3, 12);
+    expect(result.kvco.linear.toV).toBeCloseTo(3, 12);
+    expect(result.kvco.linear.slopeHzPerV).toBeCloseTo(1e4, 0);
+    // The last usable point sits on the knee, where the smoothed local slope
+    // straddles the flat part: half the slope, still positive.
+    expect(result.kvco.minHzPerV).toBeGreaterThan(0.45e4);
+    expect(result.kvco.maxHzPerV).toBeCloseTo(1e4, -1);
+    expect(result.warnings.some((w) => /flattens above 3 V/.test(w))).toBe(true);
+  });
+  it('keeps the whole range when the rule is switched off', () => {
+    const all = analyzeSweep(toInput(readings, 0.1), { flatKvcoFraction: 0 });
+    expect(all.kvco.flatAboveV).toBeNull();
+    expect(all.kvco.linear.toV).toBeCloseTo(4, 12);
   });
 });

@@ -21,6 +21,8 @@ export interface SweepOptions {
   nominalV?: number;
   /** See EdgeOptions.unstableFactor. Default 5. */
   unstableFactor?: number;
+  /** The usable range ends where the step slope stays below this fraction of its median (flat top). Default 0.1; 0 disables. */
+  flatKvcoFraction?: number;
 }
 
 interface Curve {
@@ -72,6 +74,35 @@ export function turningPoint(meanHz: Float64Array, u: Float64Array, i0: number, 
   return worstBack > noise ? iExt : null;
 }
 
+/**
+ * End (exclusive) of the usable range after trimming a flat top: trailing
+ * steps whose slope, in the curve's sense, stays below `fraction` of the
+ * median step slope by more than 3σ. A saturated tuning port gives Kvco ≈ 0
+ * there, and a loop's gain vanishes with it. The 10 % default is tunebench's
+ * own rule, not a published one.
+ */
+export function flatTopEnd(v: Float64Array, meanHz: Float64Array, u: Float64Array, i0: number, i1: number, fraction: number): number {
+  const steps = i1 - i0 - 1;
+  if (steps < 3 || !(fraction > 0)) return i1;
+  const sense = (meanHz[i1 - 1] as number) >= (meanHz[i0] as number) ? 1 : -1;
+  const slopes = new Float64Array(steps);
+  for (let i = i0; i < i1 - 1; i++) {
+    slopes[i - i0] = (sense * ((meanHz[i + 1] as number) - (meanHz[i] as number))) / ((v[i + 1] as number) - (v[i] as number));
+  }
+  const sorted = Float64Array.from(slopes).sort();
+  const median = sorted[steps >> 1] as number;
+  if (!(median > 0)) return i1;
+  let end = i1;
+  while (end - i0 > 2) {
+    const a = end - 2;
+    const dv = (v[a + 1] as number) - (v[a] as number);
+    const slopeSd = Math.hypot(u[a] as number, u[a + 1] as number) / dv;
+    if ((slopes[a - i0] as number) + 3 * slopeSd < fraction * median) end--;
+    else break;
+  }
+  return end;
+}
+
 export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
@@ -89,7 +120,15 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   // is unusable beyond the turn: a PLL's loop gain changes sign there. The
   // usable range ends at the turning point when the fall-back exceeds 3σ.
   const turn = turningPoint(points.meanHz, u, i0, edges.blockI1);
-  const i1 = turn === null ? edges.blockI1 : turn + 1;
+  const afterTurn = turn === null ? edges.blockI1 : turn + 1;
+  const flatFraction = options.flatKvcoFraction ?? 0.1;
+  const i1 = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
+  if (i1 < afterTurn) {
+    warnings.push(
+      `the tuning curve flattens above ${points.v[i1 - 1] as number} V (Kvco below ${flatFraction * 100} % of its median); ` +
+        'the usable range ends there',
+    );
+  }
   const n = i1 - i0;
   if (n < 2) throw new AnalysisError(`only ${n} oscillating point in the usable range; need at least 2`, true);
   if (turn !== null) {
@@ -188,6 +227,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
       // Ratio of magnitudes, so a falling (negative-gain) curve reads the same; NaN if the sign changes.
       maxToMinRatio: kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
       turnsBackAboveV: turn === null ? null : (points.v[turn] as number),
+      flatAboveV: i1 < afterTurn ? (points.v[i1 - 1] as number) : null,
       nominal: { v: nominalV, hzPerV: nominal.hzPerV, uncertaintyHzPerV: nominal.sd },
       widestLinearRange: widestLinearRange(fit, fromV, toV, limitPct),
     },

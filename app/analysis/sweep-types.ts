@@ -39,6 +39,8 @@ export interface SweepAnalysis {
     maxToMinRatio: number;
     /** Control voltage where the tuning curve turns back (usable range ends there); null if monotonic. */
     turnsBackAboveV: number | null;
+    /** Control voltage above which the tuning curve is flat (Kvco below 10 % of its median); null if it is not. */
+    flatAboveV: number | null;
     nominal: { v: number; hzPerV: number; uncertaintyHzPerV: number };
     widestLinearRange: WidestRange | null;
   };
