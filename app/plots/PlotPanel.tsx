@@ -7,6 +7,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
+import { recordPlotWork } from './frame-work.ts';
 import { createFrameGate } from './frame-gate.ts';
 import { readPlotColors, type PlotColors } from './plot-colors.ts';
 
@@ -40,7 +41,12 @@ export function PlotPanel(props: PlotPanelProps) {
     const chart = new uPlot(latest.current.options(colors, width, height), latest.current.data(), host);
     // A mark per drawn chart, so benchmarks can time "data in → first draw" from outside.
     performance.mark(`tunebench:plot-drawn:${latest.current.testId}`);
-    const gate = createFrameGate(() => chart.setData(latest.current.data()), (cb) => requestAnimationFrame(cb));
+    const gate = createFrameGate(() => {
+      const startMs = performance.now();
+      chart.setData(latest.current.data());
+      // uPlot redraws in a microtask it queued in setData; this one runs after it.
+      queueMicrotask(() => recordPlotWork(startMs, performance.now()));
+    }, (cb) => requestAnimationFrame(cb));
     const unwatch = latest.current.watch?.(() => gate.request()) ?? (() => undefined);
     const resize = new ResizeObserver(() => {
       const w = Math.max(200, host.clientWidth);
