@@ -40,16 +40,50 @@ export function planHints(plan: unknown): PlanHints {
   return hints;
 }
 
+/** Plan hints plus the conditions run.json recorded around the run (each optional). */
+export interface RunHints extends PlanHints {
+  /** Mean of the temperatures read at the start and end of the run. */
+  recordedTemperatureC?: number;
+  /** Mean of the DUT supply voltages read at the start and end of the run. */
+  recordedDutSupplyV?: number;
+}
+
+// run.json `conditions` ({ start, end } per condition, null when not read); malformed parts are ignored.
+const spanSchema = z.looseObject({
+  start: z.number().nullable().optional().catch(undefined),
+  end: z.number().nullable().optional().catch(undefined),
+}).optional().catch(undefined);
+const recordedSchema = z.looseObject({ dutSupplyV: spanSchema, temperatureC: spanSchema });
+
+function spanMean(span: { start?: number | null | undefined; end?: number | null | undefined } | undefined): number | undefined {
+  if (!span) return undefined;
+  return meanOfFinite([span.start ?? Number.NaN, span.end ?? Number.NaN]) ?? undefined;
+}
+
+/** Hints from a run's run.json (unvalidated: any shape): its plan and recorded `conditions`, if any. */
+export function runHints(meta: { plan: unknown; conditions?: unknown }): RunHints {
+  const hints: RunHints = planHints(meta.plan);
+  const parsed = recordedSchema.safeParse(meta.conditions);
+  if (!parsed.success) return hints;
+  const temperatureC = spanMean(parsed.data.temperatureC);
+  const dutSupplyV = spanMean(parsed.data.dutSupplyV);
+  if (temperatureC !== undefined) hints.recordedTemperatureC = temperatureC;
+  if (dutSupplyV !== undefined) hints.recordedDutSupplyV = dutSupplyV;
+  return hints;
+}
+
 /**
- * Conditions of one run: mean measured temperature and supply (the plan's
- * supply when none was logged), gate from the plan. A pushing run varies the
- * supply on purpose, so it has no single supply condition.
+ * Conditions of one run: mean logged temperature and supply; without a
+ * logged column, the mean of those recorded at the run's start and end (then
+ * the plan's supply); gate from the plan. A pushing run varies the supply on
+ * purpose, so it has no single supply condition.
  */
 export function runConditions(
   kind: CsvKind,
   columns: { temperatureC?: ArrayLike<number> | null; supplyV?: ArrayLike<number> | null },
-  hints: PlanHints,
+  hints: RunHints,
 ): RunConditions {
-  const supplyV = meanOfFinite(columns.supplyV) ?? hints.supplyV ?? hints.dutSupplyV ?? null;
-  return { temperatureC: meanOfFinite(columns.temperatureC), supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
+  const supplyV = meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
+  const temperatureC = meanOfFinite(columns.temperatureC) ?? hints.recordedTemperatureC ?? null;
+  return { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
 }

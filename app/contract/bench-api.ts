@@ -51,6 +51,20 @@ export interface RunMeta {
   instruments: { role: string; idn: string; address: string }[];
   plan: unknown;
   software: { version: string };
+  /** Conditions read at the start and end of the run (sweeps; absent in older runs). */
+  conditions?: RecordedConditions;
+}
+
+/** A condition read at the start and at the end of a run; null when it could not be read. */
+export interface ConditionSpan {
+  start: number | null;
+  end: number | null;
+}
+
+/** run.json `conditions`: the DUT supply voltage and the temperature around a run. */
+export interface RecordedConditions {
+  dutSupplyV: ConditionSpan;
+  temperatureC: ConditionSpan;
 }
 
 /** A numeric column: NaN for an empty cell. number[] is the older plain form, still accepted everywhere. */

@@ -7,7 +7,7 @@ import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { detectCsvKind, type CsvKind } from '../../app/analysis/csv-columns.ts';
-import { datasheetRunLabel, planHints, runConditions, type PlanHints } from '../../app/analysis/datasheet-run.ts';
+import { datasheetRunLabel, runConditions, runHints, type RunHints } from '../../app/analysis/datasheet-run.ts';
 import { CsvError, numericColumn, parseCsv, type CsvTable } from '../../app/analysis/csv-input.ts';
 import { readRunFolder } from '../store/run-reader.ts';
 import { UsageError } from './types.ts';
@@ -42,7 +42,7 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
   let meta: RunMeta | null = null;
   let kind: CsvKind;
   let label = path;
-  let hints: PlanHints = {};
+  let hints: RunHints = {};
   const eventsByType: Record<string, number> = {};
   if (info.isDirectory()) {
     try {
@@ -56,7 +56,7 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
     }
     kind = meta.kind;
     label = datasheetRunLabel(meta.id, meta.dut.id);
-    hints = planHints(meta.plan);
+    hints = runHints(meta);
   } else {
     table = tableOf(await readFile(path, 'utf8'), path);
     try {

@@ -75,7 +75,7 @@ async function record<O extends ProcedureOutcome>(
     await writer.finish('aborted');
     throw error;
   }
-  const meta = await writer.finish(outcome.status);
+  const meta = await writer.finish(outcome.status, outcome.conditions ? { conditions: outcome.conditions } : undefined);
   return { meta, dir: writer.dir, outcome };
 }
 

@@ -12,6 +12,7 @@ import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { bisectEdge, bisectionSteps, findEdge, type EdgeBracket } from './refine-edge.ts';
 import { RunControl } from './run-control.ts';
+import { emptyConditions, recordConditions } from './run-conditions.ts';
 import { measurePoint, newPointState } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
 import { sweepSchedule } from './sweep-points.ts';
@@ -77,6 +78,9 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     await bench.supply.setVoltage(channel, schedule.controlV[0] as number);
     await bench.supply.setOutput(channel, true);
     ctx.event({ type: 'output-on', channel, controlV: schedule.controlV[0] });
+    // The conditions the figures were taken under; read again after the safe state.
+    outcome.conditions = emptyConditions();
+    await recordConditions(ctx, 'start', outcome.conditions);
 
     const state = newPointState(plan);
     let probed = false;
@@ -129,7 +133,10 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
   } catch (error) {
     recordRunEnd(outcome, ctx, error);
   } finally {
-    await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe });
+    // End conditions after the safe state, so a slow or failing read cannot hold it up.
+    const conditions = outcome.conditions;
+    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return true; } : undefined;
+    await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;
 }

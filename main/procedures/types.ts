@@ -5,7 +5,7 @@
  * 12-hour drift log runs on a virtual clock in seconds.
  */
 import type { Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
-import type { ProgressInfo, RunKind, RunStatus, SampleStatus } from '../../app/contract/bench-api.ts';
+import type { ProgressInfo, RecordedConditions, RunKind, RunStatus, SampleStatus } from '../../app/contract/bench-api.ts';
 
 /** The role drivers of one bench, plus which supply channel does what. */
 export interface BenchRoles {
@@ -71,6 +71,8 @@ export interface ProcedureOutcome {
   rowsWritten: number;
   /** True when every safe-state step succeeded (or none was needed). */
   safeStateOk: boolean;
+  /** Conditions read around the run (sweeps, once the output was on); run.json `conditions`. */
+  conditions?: RecordedConditions;
 }
 
 export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits';

@@ -133,7 +133,7 @@ export function startWriter(state: WriterState): RunWriter {
       arm();
     },
     flush: () => enqueue(false),
-    finish(status) {
+    finish(status, extra) {
       finishing ??= (async () => {
         cancelTimer();
         armed = false;
@@ -151,7 +151,7 @@ export function startWriter(state: WriterState): RunWriter {
         await events.close();
         // Keep DUT renames and notes made by other processes while we ran.
         const onDisk = await readRunMeta(fs, dir).catch(() => meta);
-        meta = { ...onDisk, status, endedAt: clock.wallTimeIso() };
+        meta = { ...onDisk, ...extra, status, endedAt: clock.wallTimeIso() };
         await writeRunMeta(fs, dir, meta);
         await removeLock(fs, dir);
         unregisterOpenWriter(dir);

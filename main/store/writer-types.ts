@@ -47,8 +47,11 @@ export interface RunWriter {
   appendEvent(event: RunEventInput): void;
   /** Writes everything pending; rejects if the disk refuses (the data stays pending). */
   flush(): Promise<void>;
-  /** Flushes, fsyncs, closes, and records the final status in run.json. */
-  finish(status: Exclude<RunStatus, 'running'>): Promise<RunMeta>;
+  /**
+   * Flushes, fsyncs, closes, and records the final status in run.json, with
+   * `extra` keys (e.g. the run's `conditions`) added to it.
+   */
+  finish(status: Exclude<RunStatus, 'running'>, extra?: Pick<RunMeta, 'conditions'>): Promise<RunMeta>;
   /** Rows appended but not yet written. */
   pendingRows(): number;
   /** Rows written to samples.csv by this writer. */

@@ -7,7 +7,7 @@
  */
 import type { AnyAnalysis } from '../../analysis/analyze-table.ts';
 import type { DatasheetRun, RunConditions } from '../../analysis/datasheet.ts';
-import { datasheetRunLabel, planHints, runConditions } from '../../analysis/datasheet-run.ts';
+import { datasheetRunLabel, planHints, runConditions, runHints } from '../../analysis/datasheet-run.ts';
 import type { RunMeta } from '../../contract/bench-api.ts';
 import type { AnalysisOutcome } from '../../state/analysis-outcome.ts';
 import type { ColumnSet } from '../../state/columns.ts';
@@ -25,7 +25,7 @@ export function analyzeRun(meta: RunMeta, columns: ColumnSet, rows: number): Run
 
 export function conditionsOf(meta: RunMeta, columns: ColumnSet, rows: number): RunConditions {
   const logged = { temperatureC: columns.temperature_c.view().subarray(0, rows), supplyV: columns.supply_v.view().subarray(0, rows) };
-  return runConditions(meta.kind, logged, planHints(meta.plan));
+  return runConditions(meta.kind, logged, runHints(meta));
 }
 
 export function datasheetRun(meta: RunMeta, columns: ColumnSet, rows: number): { run: DatasheetRun | null; message: string | null } {

@@ -67,7 +67,47 @@ async function makeRuns(runsDir: string): Promise<string[]> {
   return [sweep.dir, drift.dir, pushing.dir];
 }
 
+/** A sweep that logged no temperature or supply column but recorded its conditions in run.json (as sweeps now do). */
+async function makeSweepWithConditions(runsDir: string): Promise<string> {
+  const clock = new VirtualClock({ startWallIso: '2026-12-02T08:00:00.000Z' });
+  const sweep = await createRun({
+    runsDir, kind: 'sweep', dut: { id: 'sensor-osc-4' }, instruments: [], plan: { gateS: 0.1 },
+    columns: ['time_s', 'control_v', 'frequency_hz', 'direction', 'status'], clock,
+  });
+  for (let k = 0; k <= 20; k++) {
+    const v = 1 + k * 0.1;
+    sweep.appendSample({ time_s: k, control_v: v, frequency_hz: 1e5 + 2e4 * v + (k % 3), direction: 'up', status: 'ok' });
+  }
+  await sweep.finish('complete', { conditions: { dutSupplyV: { start: 4.999, end: 5.001 }, temperatureC: { start: 23.05, end: 23.15 } } });
+  return sweep.dir;
+}
+
+/** The screen's table from run folders, as the gain-table screen builds it. */
+async function screenSheet(runsDir: string, dirs: string[], title: string) {
+  const runs: DatasheetRun[] = [];
+  for (const dir of dirs) {
+    const opened = await openRun(runsDir, dir.split('/').pop() ?? '');
+    const columns = columnSetFromStored(opened.samples.numeric, opened.samples.text);
+    const made = datasheetRun(opened.meta, columns, columns.time_s.length);
+    expect(made.message).toBeNull();
+    if (made.run) runs.push(made.run);
+  }
+  return buildDatasheet(runs, title);
+}
+
 describe('gain table: screen and command agree', () => {
+  it('shows the conditions a sweep recorded in run.json (temperature, DUT supply, gate), the same on both', async () => {
+    await withTempDir(async (runsDir) => {
+      const dir = await makeSweepWithConditions(runsDir);
+      const sheet = await screenSheet(runsDir, [dir], 'Sensor oscillator');
+      const md = await cli('datasheet', dir, '--format', 'md', '--title', 'Sensor oscillator');
+      expect(renderDatasheetMarkdown(sheet)).toBe(md);
+      expect(renderDatasheetCsv(sheet)).toBe(await cli('datasheet', dir, '--format', 'csv', '--title', 'Sensor oscillator'));
+      expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe('T 23.1 °C; supply 5.00 V; gate 100 ms');
+      expect(md).toContain('T 23.1 °C; supply 5.00 V; gate 100 ms');
+    });
+  });
+
   it('same CSV, Markdown and HTML from the same run folders (incl. no-signal, timeout and error rows)', async () => {
     await withTempDir(async (runsDir) => {
       const dirs = await makeRuns(runsDir);
