@@ -1,18 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { runMetaFixture } from './testing/run-meta-fixture.ts';
 import { firstIssue, runDetailSchema } from './wire-schemas.ts';
 
-const meta = {
-  schema: 'tunebench.run/1',
-  id: 'r1',
-  kind: 'drift',
-  status: 'complete',
-  startedAt: '2026-12-01T22:00:00Z',
-  endedAt: '2026-12-02T06:00:00Z',
-  dut: { id: 'sensor-osc-3', notes: '' },
-  instruments: [],
-  plan: {},
-  software: { version: '0.1.0' },
-};
+const meta = runMetaFixture('sensor-osc-3');
 
 describe('run detail from the wire', () => {
   it('turns null cells (NaN does not survive JSON) back into NaN', () => {

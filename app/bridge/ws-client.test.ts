@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { runMetaFixture } from './testing/run-meta-fixture.ts';
 import type { BenchEvent } from '../contract/bench-api.ts';
 import { BenchCallError } from './bench-call-error.ts';
 import { socketUrlFor } from './pick-bridge.ts';
@@ -245,15 +246,4 @@ describe('WebSocket BenchApi client', () => {
   });
 });
 
-const runMeta = {
-  schema: 'tunebench.run/1',
-  id: 'r1',
-  kind: 'drift',
-  status: 'complete',
-  startedAt: '2026-12-01T22:00:00Z',
-  endedAt: '2026-12-02T06:00:00Z',
-  dut: { id: 'radio-lo-400m-b', notes: '' },
-  instruments: [],
-  plan: {},
-  software: { version: '0.1.0' },
-};
+const runMeta = runMetaFixture('radio-lo-400m-b');
