@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, CodedTextColumn } from '../contract/bench-api.ts';
+import { runMetaSchema } from '../contract/run-meta-schema.ts';
 
 const nullableNumber = z.number().nullable();
 
@@ -23,18 +24,6 @@ export const connectionStateSchema = z.looseObject({
   error: z.string().nullable(),
 });
 
-export const runMetaSchema = z.looseObject({
-  schema: z.literal('tunebench.run/1'),
-  id: z.string(),
-  kind: z.enum(['sweep', 'drift', 'pushing']),
-  status: z.enum(['running', 'complete', 'aborted', 'interrupted']),
-  startedAt: z.string(),
-  endedAt: z.string().nullable(),
-  dut: z.looseObject({ id: z.string(), notes: z.string() }),
-  instruments: z.array(z.looseObject({ role: z.string(), idn: z.string(), address: z.string() })),
-  plan: z.unknown(),
-  software: z.looseObject({ version: z.string() }),
-});
 
 // NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
 // A hand-written loop rather than z.array(z.number()): stored runs reach a million cells per column.

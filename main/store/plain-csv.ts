@@ -3,11 +3,14 @@
  * input"): header row required, columns by name in any order, extra columns
  * ignored. Sweep: control_v, frequency_hz. Drift: time_s, frequency_hz,
  * optional temperature_c. A frequency that is empty, NaN, 0 or the SCPI
- * not-a-number 9.91E37 means "no oscillation measured". Unlike samples.csv
- * (our own file, where a bad line is a crash artefact), every problem here is
- * an error with its line number: the user can fix the file.
+ * not-a-number 9.91E37 means "no oscillation measured" — the analysis's own
+ * rule (`isNoOscillation`), so an imported run reads as `analyze` reads the
+ * file. Unlike samples.csv (our own file, where a bad line is a crash
+ * artefact), every problem here is an error with its line number: the user
+ * can fix the file.
  */
 import type { RunKind } from '../../app/contract/bench-api.ts';
+import { isNoOscillation } from '../../app/analysis/sweep-points.ts';
 import { parseNumberCell, splitCsvLine } from './csv-cells.ts';
 
 export interface CsvProblem {
@@ -33,13 +36,7 @@ export interface PlainCsvData {
   rows: (number | string)[][];
 }
 
-/** SCPI reports "no value" as 9.91E37 (IEEE 488.2 / SCPI-99 convention, from memory). */
-const SCPI_NAN_MIN = 9.9e37;
 const MAX_PROBLEMS = 20;
-
-function noSignal(frequencyHz: number): boolean {
-  return Number.isNaN(frequencyHz) || frequencyHz === 0 || Math.abs(frequencyHz) >= SCPI_NAN_MIN;
-}
 
 export function parsePlainCsv(text: string, source: string, forceKind?: 'sweep' | 'drift'): PlainCsvData {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
@@ -95,7 +92,7 @@ export function parsePlainCsv(text: string, source: string, forceKind?: 'sweep' 
   const columns = [...wanted, 'status'];
   const fIndex = at('frequency_hz');
   const rows = values.map((row) => {
-    const silent = noSignal(row[fIndex] as number);
+    const silent = isNoOscillation(row[fIndex] as number);
     const out: (number | string)[] = row.map((value, c) => (c === fIndex && silent ? Number.NaN : value));
     out.push(silent ? 'no-signal' : 'ok');
     return out;

@@ -6,26 +6,14 @@
 import { join } from 'node:path';
 import { z } from 'zod';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
+import { RUN_SCHEMA, runMetaSchema } from '../../app/contract/run-meta-schema.ts';
 import { writeJsonAtomic } from './atomic-json.ts';
 import { type StoreFs } from './store-fs.ts';
 
-export const RUN_SCHEMA = 'tunebench.run/1';
+export { RUN_SCHEMA, runMetaSchema };
 export const RUN_JSON = 'run.json';
 export const SAMPLES_CSV = 'samples.csv';
 export const EVENTS_JSONL = 'events.jsonl';
-
-export const runMetaSchema = z.looseObject({
-  schema: z.literal(RUN_SCHEMA),
-  id: z.string(),
-  kind: z.enum(['sweep', 'drift', 'pushing']),
-  status: z.enum(['running', 'complete', 'aborted', 'interrupted']),
-  startedAt: z.string(),
-  endedAt: z.string().nullable(),
-  dut: z.looseObject({ id: z.string(), notes: z.string() }),
-  instruments: z.array(z.looseObject({ role: z.string(), idn: z.string(), address: z.string() })),
-  plan: z.unknown(),
-  software: z.looseObject({ version: z.string() }),
-});
 
 /** A run.json that is missing or does not match the schema. */
 export class RunFormatError extends Error {

@@ -1,0 +1,22 @@
+/**
+ * run.json (CONTRACTS.md "Run folder", schema `tunebench.run/1`) as a zod
+ * schema. One definition for every reader: the store checks files with it,
+ * the renderer checks replies and events with it. Objects are loose so keys a
+ * later version adds (e.g. `conditions`) pass through.
+ */
+import { z } from 'zod';
+
+export const RUN_SCHEMA = 'tunebench.run/1';
+
+export const runMetaSchema = z.looseObject({
+  schema: z.literal(RUN_SCHEMA),
+  id: z.string(),
+  kind: z.enum(['sweep', 'drift', 'pushing']),
+  status: z.enum(['running', 'complete', 'aborted', 'interrupted']),
+  startedAt: z.string(),
+  endedAt: z.string().nullable(),
+  dut: z.looseObject({ id: z.string(), notes: z.string() }),
+  instruments: z.array(z.looseObject({ role: z.string(), idn: z.string(), address: z.string() })),
+  plan: z.unknown(),
+  software: z.looseObject({ version: z.string() }),
+});
