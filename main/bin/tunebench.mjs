@@ -1,11 +1,22 @@
 #!/usr/bin/env node
-// Launcher for the `tunebench` command. The CLI is TypeScript under main/;
-// tsx compiles it on load so `npx tunebench` works straight after
-// `npm install`, with no build step.
-import { register } from 'tsx/esm/api';
+// Launcher for the `tunebench` command. Runs the prebuilt CLI bundle
+// (out/cli/, made by `npm run build:cli`, which `npm install` runs through
+// `prepare`) when it is current; in a checkout whose sources are newer, or
+// with TUNEBENCH_FROM_SOURCE=1, tsx compiles the TypeScript on load instead,
+// so `npx tunebench` always runs the code you see.
+import { bundleStaleReason, BUNDLE_FILE } from './cli-bundle.mjs';
+import { pathToFileURL } from 'node:url';
 
-register();
-const { runCli } = await import('../cli/index.ts');
+async function loadCli() {
+  if (process.env.TUNEBENCH_FROM_SOURCE !== '1' && bundleStaleReason() === null) {
+    return import(pathToFileURL(BUNDLE_FILE).href);
+  }
+  const { register } = await import('tsx/esm/api');
+  register();
+  return import('../cli/index.ts');
+}
+
+const { runCli } = await loadCli();
 const code = await runCli(process.argv.slice(2), {
   stdout: process.stdout,
   stderr: process.stderr,

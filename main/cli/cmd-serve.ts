@@ -8,7 +8,7 @@ import { parseFlags } from './flags.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 import { resolveRunsDir } from '../store/index.ts';
 import { startBrowserServer } from '../server/http-server.ts';
-import { ensureRendererBuilt } from '../server/renderer-build.ts';
+import { builtRendererDir, RendererMissingError } from '../server/renderer-dir.ts';
 import { createDefaultBenchService } from '../service/default-ports.ts';
 
 const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR]
@@ -62,7 +62,10 @@ export const serveCommand: CliCommand = {
     if (!/^[A-Za-z0-9.:[\]-]+$/.test(host)) throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
     const port = parsePort(flags.values.get('port'));
     const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
-    const rendererDir = await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) });
+    // Served as built by the build step; serve never runs vite (a devDependency).
+    const rendererDir = await builtRendererDir((line) => io.stderr.write(`${line}\n`)).catch((error: unknown) => {
+      throw error instanceof RendererMissingError ? new WorkFailedError(error.message) : error;
+    });
     const service = createDefaultBenchService({ runsDir });
     let server;
     try {

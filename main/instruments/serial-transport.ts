@@ -2,7 +2,7 @@
  * Serial-line transport over the `serialport` package. Each open() creates a
  * fresh port object, so a session can reopen after a USB adapter comes back.
  */
-import { SerialPort } from 'serialport';
+import type { SerialPort } from 'serialport';
 import { formatAddress, SERIAL_DEFAULTS, type FlowControl, type Parity } from './address.ts';
 import { DisconnectedError } from './errors.ts';
 import { TransportListeners } from './transport-listeners.ts';
@@ -41,8 +41,11 @@ export class SerialTransport implements Transport {
     return this.port !== null;
   }
 
-  open(): Promise<void> {
-    if (this.port !== null) return Promise.resolve();
+  async open(): Promise<void> {
+    if (this.port !== null) return;
+    // Loaded on first use: its native binding would cost every CLI start ~40 ms.
+    const { SerialPort } = await import('serialport');
+    if (this.port !== null) return;
     const { path, baudRate, dataBits, parity, stopBits, flow } = this.options;
     const port = new SerialPort({
       path, baudRate, dataBits, parity, stopBits,
@@ -118,6 +121,7 @@ export interface SerialPortListing {
 /** Lists serial ports; never throws (SerialPort.list() fails where udev is missing). */
 export async function listSerialPorts(): Promise<SerialPortListing> {
   try {
+    const { SerialPort } = await import('serialport');
     const ports = await SerialPort.list();
     return {
       ports: ports.map((p) => ({ path: p.path, manufacturer: p.manufacturer, serialNumber: p.serialNumber, vendorId: p.vendorId, productId: p.productId })),

@@ -15,7 +15,6 @@
  */
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
 import type { AddressInfo, Socket } from 'node:net';
-import { WebSocketServer } from 'ws';
 import type { BenchApi } from '../../app/contract/bench-api.ts';
 import { securityHeaders } from './security-headers.ts';
 import { readStaticFile } from './static-files.ts';
@@ -54,6 +53,8 @@ function hostPort(host: string, port: number): string {
 export async function startBrowserServer(options: BrowserServerOptions): Promise<BrowserServer> {
   const token = options.token ?? createAccessToken();
   const http = createServer();
+  // Loaded here, not at the top: every CLI start would pay for it otherwise.
+  const { WebSocketServer } = await import('ws');
   const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_MESSAGE_BYTES });
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);

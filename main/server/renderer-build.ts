@@ -1,40 +1,16 @@
 /**
- * Makes sure out/renderer holds a build of the current app/ sources before
- * browser mode serves it: built when missing, rebuilt when any source under
+ * Builds out/renderer from the app/ sources, for the build step
+ * (main/bin/build.mjs) and for tests that need a current build: built when missing, rebuilt when any source under
  * app/ is newer than the built index.html. Uses vite's build API with the
  * renderer settings of electron.vite.config.ts (root app/, React plugin).
  * The build goes to a fresh folder that then replaces the old one, so a
  * reader never sees half a build.
  */
 import { mkdir, mkdtemp, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
-import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { dirname, join } from 'node:path';
+import { APP_DIR, RENDERER_OUT_DIR, rendererIsStale } from './renderer-dir.ts';
 
-export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
-export const APP_DIR = join(PROJECT_ROOT, 'app');
-export const RENDERER_OUT_DIR = join(PROJECT_ROOT, 'out', 'renderer');
-
-const SOURCE_FILE = /\.(tsx?|css|html|svg|json)$/;
-
-async function newestSourceMs(dir: string): Promise<number> {
-  let newest = 0;
-  for (const entry of await readdir(dir, { withFileTypes: true })) {
-    const path = join(dir, entry.name);
-    if (entry.isDirectory()) newest = Math.max(newest, await newestSourceMs(path));
-    else if (SOURCE_FILE.test(entry.name) && !entry.name.endsWith('.test.ts')) newest = Math.max(newest, (await stat(path)).mtimeMs);
-  }
-  return newest;
-}
-
-export async function rendererIsStale(appDir = APP_DIR, outDir = RENDERER_OUT_DIR): Promise<boolean> {
-  let builtMs: number;
-  try {
-    builtMs = (await stat(join(outDir, 'index.html'))).mtimeMs;
-  } catch {
-    return true;
-  }
-  return (await newestSourceMs(appDir)) > builtMs;
-}
+export { APP_DIR, PROJECT_ROOT, RENDERER_OUT_DIR, rendererIsStale } from './renderer-dir.ts';
 
 export interface EnsureRendererOptions {
   appDir?: string;
@@ -81,7 +57,17 @@ async function withBuildLock<T>(lockPath: string, work: () => Promise<T>): Promi
   }
 }
 
-/** Builds the renderer when missing or stale; returns the folder to serve. */
+/** Builds the renderer now, whatever its state (the build step). */
+export async function buildRendererNow(options: EnsureRendererOptions = {}): Promise<string> {
+  const appDir = options.appDir ?? APP_DIR;
+  const outDir = options.outDir ?? RENDERER_OUT_DIR;
+  return withBuildLock(`${outDir}.lock`, async () => {
+    await buildRenderer(appDir, outDir, options.log);
+    return outDir;
+  });
+}
+
+/** Builds the renderer when missing or stale (tests and the bench); returns its folder. */
 export async function ensureRendererBuilt(options: EnsureRendererOptions = {}): Promise<string> {
   const appDir = options.appDir ?? APP_DIR;
   const outDir = options.outDir ?? RENDERER_OUT_DIR;

@@ -1,0 +1,79 @@
+#!/usr/bin/env node
+// The build step: `node main/bin/build.mjs [cli] [renderer]` (both when
+// none is named). Run by `npm install`/`npm ci` (the `prepare` script), by
+// `npm pack`, and by hand after editing sources.
+//  - cli: bundles main/cli/ with esbuild into out/cli/tunebench.mjs, so the
+//    launcher starts without compiling TypeScript. Packages with native parts
+//    or only needed by some commands (serialport, ws) stay outside and load
+//    on first use.
+//  - renderer: builds app/ with vite into out/renderer, which `tunebench
+//    serve` serves as is. Needs the devDependencies; skipped with a note in an
+//    install without them (a packed tarball carries the built folder).
+import { mkdir, rename, writeFile } from 'node:fs/promises';
+import { relative, sep } from 'node:path';
+import { BUNDLE_FILE, INPUTS_FILE, PROJECT_ROOT } from './cli-bundle.mjs';
+
+const EXTERNAL = ['serialport', '@serialport/*', 'ws', 'bufferutil', 'utf-8-validate', 'tsx', 'vite', '@vitejs/*', 'electron'];
+
+async function buildCli() {
+  const { build } = await import('esbuild');
+  const tempFile = `${BUNDLE_FILE}.${process.pid}.tmp`;
+  await mkdir(new URL('../../out/cli/', import.meta.url), { recursive: true });
+  const result = await build({
+    absWorkingDir: PROJECT_ROOT,
+    entryPoints: ['main/cli/index.ts'],
+    outfile: tempFile,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    external: EXTERNAL,
+    metafile: true,
+    logLevel: 'warning',
+    legalComments: 'none',
+    // Bundled CommonJS code (if any) calls require; give it the real one.
+    banner: { js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);" },
+  });
+  const inputs = Object.keys(result.metafile.inputs)
+    .map((input) => relative(PROJECT_ROOT, `${PROJECT_ROOT}${input}`).split(sep).join('/'))
+    .filter((input) => !input.startsWith('node_modules/'));
+  // A dependency upgrade changes package.json or the lock file.
+  inputs.push('package.json');
+  // The input list first, the bundle last: a launcher that sees the new
+  // bundle also sees its list.
+  await writeFile(`${INPUTS_FILE}.${process.pid}.tmp`, `${JSON.stringify(inputs, null, 0)}\n`);
+  await rename(`${INPUTS_FILE}.${process.pid}.tmp`, INPUTS_FILE);
+  await rename(tempFile, BUNDLE_FILE);
+  console.log(`build: CLI bundled from ${inputs.length} files into ${relative(PROJECT_ROOT, BUNDLE_FILE)}`);
+}
+
+async function hasPackage(name) {
+  try {
+    await import(name);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+async function buildRenderer() {
+  if (!(await hasPackage('vite')) || !(await hasPackage('@vitejs/plugin-react'))) {
+    console.log('build: renderer skipped (vite is a devDependency and is not installed); `tunebench serve` needs out/renderer from a full install or a packed tarball');
+    return;
+  }
+  const { register } = await import('tsx/esm/api');
+  register();
+  const { buildRendererNow, RENDERER_OUT_DIR } = await import('../server/renderer-build.ts');
+  await buildRendererNow();
+  console.log(`build: renderer built into ${relative(PROJECT_ROOT, RENDERER_OUT_DIR)}`);
+}
+
+const steps = { cli: buildCli, renderer: buildRenderer };
+const wanted = process.argv.slice(2);
+for (const name of wanted) if (!(name in steps)) {
+  console.error(`build: unknown step "${name}"; known: ${Object.keys(steps).join(', ')}`);
+  process.exit(2);
+}
+for (const name of wanted.length > 0 ? wanted : Object.keys(steps)) {
+  await steps[name]();
+}
