@@ -9,9 +9,10 @@
 //  - renderer: builds app/ with vite into out/renderer, which `tunebench
 //    serve` serves as is. Needs the devDependencies; skipped with a note in an
 //    install without them (a packed tarball carries the built folder).
-import { mkdir, rename, writeFile } from 'node:fs/promises';
+import { mkdir, rename } from 'node:fs/promises';
 import { relative, sep } from 'node:path';
 import { BUNDLE_FILE, INPUTS_FILE, PROJECT_ROOT } from './cli-bundle.mjs';
+import { writeSourceManifest } from './source-manifest.mjs';
 
 const EXTERNAL = ['serialport', '@serialport/*', 'ws', 'bufferutil', 'utf-8-validate', 'tsx', 'vite', '@vitejs/*', 'electron'];
 
@@ -39,10 +40,9 @@ async function buildCli() {
     .filter((input) => !input.startsWith('node_modules/'));
   // A dependency upgrade changes package.json or the lock file.
   inputs.push('package.json');
-  // The input list first, the bundle last: a launcher that sees the new
+  // The source list first, the bundle last: a launcher that sees the new
   // bundle also sees its list.
-  await writeFile(`${INPUTS_FILE}.${process.pid}.tmp`, `${JSON.stringify(inputs, null, 0)}\n`);
-  await rename(`${INPUTS_FILE}.${process.pid}.tmp`, INPUTS_FILE);
+  writeSourceManifest(INPUTS_FILE, PROJECT_ROOT, inputs);
   await rename(tempFile, BUNDLE_FILE);
   console.log(`build: CLI bundled from ${inputs.length} files into ${relative(PROJECT_ROOT, BUNDLE_FILE)}`);
 }

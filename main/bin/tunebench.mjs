@@ -7,10 +7,18 @@
 import { bundleStaleReason, BUNDLE_FILE } from './cli-bundle.mjs';
 import { pathToFileURL } from 'node:url';
 
+// TUNEBENCH_SHOW_LAUNCH=1 says on stderr which one ran (tests, bug reports).
+function said(line) {
+  if (process.env.TUNEBENCH_SHOW_LAUNCH === '1') process.stderr.write(`tunebench launcher: ${line}\n`);
+}
+
 async function loadCli() {
-  if (process.env.TUNEBENCH_FROM_SOURCE !== '1' && bundleStaleReason() === null) {
+  const stale = process.env.TUNEBENCH_FROM_SOURCE === '1' ? 'TUNEBENCH_FROM_SOURCE=1' : bundleStaleReason();
+  if (stale === null) {
+    said('prebuilt bundle');
     return import(pathToFileURL(BUNDLE_FILE).href);
   }
+  said(`sources through tsx (bundle not used: ${stale})`);
   const { register } = await import('tsx/esm/api');
   register();
   return import('../cli/index.ts');

@@ -8,7 +8,8 @@
  */
 import { mkdir, mkdtemp, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
-import { APP_DIR, RENDERER_OUT_DIR, rendererIsStale } from './renderer-dir.ts';
+import { writeSourceManifest } from '../bin/source-manifest.mjs';
+import { APP_DIR, listAppSources, RENDERER_OUT_DIR, rendererIsStale, rendererSourcesFile } from './renderer-dir.ts';
 
 export { APP_DIR, PROJECT_ROOT, RENDERER_OUT_DIR, rendererIsStale } from './renderer-dir.ts';
 
@@ -86,6 +87,8 @@ async function buildRenderer(appDir: string, outDir: string, log: ((line: string
   // We hold the lock, so any earlier temporary build folder is a leftover of a killed build.
   for (const name of await readdir(parent)) if (name.startsWith('.renderer-')) await rm(join(parent, name), { recursive: true, force: true });
   const tempDir = await mkdtemp(join(parent, '.renderer-'));
+  // Listed before the build: a source edited during it then reads as changed.
+  const sources = await listAppSources(appDir);
   const [{ build }, { default: react }] = await Promise.all([import('vite'), import('@vitejs/plugin-react')]);
   try {
     await build({
@@ -111,6 +114,7 @@ async function buildRenderer(appDir: string, outDir: string, log: ((line: string
     const oldDir = `${outDir}.old-${process.pid}-${Date.now()}`;
     await rename(outDir, oldDir).catch(() => undefined);
     await rename(tempDir, outDir);
+    writeSourceManifest(rendererSourcesFile(outDir), appDir, sources);
     await rm(oldDir, { recursive: true, force: true });
   } catch (error) {
     await rm(tempDir, { recursive: true, force: true });

@@ -5,6 +5,7 @@
  * devDependency (vite) and works from an install without them.
  */
 import { readdir, stat } from 'node:fs/promises';
+import { readSourceManifest, sourceChange } from '../bin/source-manifest.mjs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -12,28 +13,46 @@ export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..
 export const APP_DIR = join(PROJECT_ROOT, 'app');
 export const RENDERER_OUT_DIR = join(PROJECT_ROOT, 'out', 'renderer');
 
-const SOURCE_FILE = /\.(tsx?|css|html|svg|json)$/;
-
-async function newestSourceMs(dir: string): Promise<number> {
-  let newest = 0;
-  for (const entry of await readdir(dir, { withFileTypes: true })) {
-    const path = join(dir, entry.name);
-    if (entry.isDirectory()) newest = Math.max(newest, await newestSourceMs(path));
-    else if (SOURCE_FILE.test(entry.name) && !entry.name.endsWith('.test.ts')) newest = Math.max(newest, (await stat(path)).mtimeMs);
-  }
-  return newest;
+/** The record of the app/ sources a renderer build in `outDir` was made from (beside it, so it is not served). */
+export function rendererSourcesFile(outDir: string): string {
+  return `${outDir}.sources.json`;
 }
 
-/** True when out/renderer is missing or any app/ source is newer than its index.html. */
-export async function rendererIsStale(appDir = APP_DIR, outDir = RENDERER_OUT_DIR): Promise<boolean> {
+const SOURCE_FILE = /\.(tsx?|css|html|svg|json)$/;
+
+/** The renderer's source files under `dir`, relative to it, tests left out. */
+export async function listAppSources(dir: string, prefix = ''): Promise<string[]> {
+  const found: string[] = [];
+  for (const entry of await readdir(join(dir, prefix), { withFileTypes: true })) {
+    const path = prefix === '' ? entry.name : `${prefix}/${entry.name}`;
+    if (entry.isDirectory()) found.push(...(await listAppSources(dir, path)));
+    else if (SOURCE_FILE.test(entry.name) && !entry.name.endsWith('.test.ts')) found.push(path);
+  }
+  return found;
+}
+
+/**
+ * True when out/renderer is missing or was built from other app/ sources
+ * than those now present (one added, gone or changed). Compared by content
+ * where times disagree, since an installed package's file times are only
+ * the time it was unpacked.
+ */
+export async function rendererIsStale(appDir = APP_DIR, outDir = RENDERER_OUT_DIR, sourcesFile = rendererSourcesFile(outDir)): Promise<boolean> {
   let builtMs: number;
   try {
     builtMs = (await stat(join(outDir, 'index.html'))).mtimeMs;
   } catch {
     return true;
   }
-  const sourcesMs = await newestSourceMs(appDir).catch(() => 0);
-  return sourcesMs > builtMs;
+  const manifest = readSourceManifest(sourcesFile);
+  const sources = await listAppSources(appDir).catch(() => null);
+  if (manifest === null || sources === null) return true;
+  if (sources.length !== manifest.size) return true;
+  for (const path of sources) {
+    const entry = manifest.get(path);
+    if (entry === undefined || sourceChange(appDir, entry, builtMs) !== null) return true;
+  }
+  return false;
 }
 
 export class RendererMissingError extends Error {

@@ -1,0 +1,5 @@
+// Types of cli-bundle.mjs for the TypeScript that imports it.
+export const PROJECT_ROOT: string;
+export const BUNDLE_FILE: string;
+export const INPUTS_FILE: string;
+export function bundleStaleReason(): string | null;

@@ -1,0 +1,42 @@
+/**
+ * The `tunebench` bin runs the prebuilt bundle when it is current and the
+ * TypeScript sources through tsx otherwise, with the same behaviour.
+ */
+import { execFile } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { promisify } from 'node:util';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { runCliCaptured } from '../../test/support/run-cli-captured.ts';
+import { bundleStaleReason } from './cli-bundle.mjs';
+
+const run = promisify(execFile);
+const BIN = fileURLToPath(new URL('./tunebench.mjs', import.meta.url));
+const BUILD = fileURLToPath(new URL('./build.mjs', import.meta.url));
+const FIXTURE = fileURLToPath(new URL('../../test/fixtures/sweep-sensor-osc.csv', import.meta.url));
+
+async function bin(args: string[], env: Record<string, string> = {}): Promise<{ stdout: string; stderr: string }> {
+  return run(process.execPath, [BIN, ...args], { env: { ...process.env, TUNEBENCH_SHOW_LAUNCH: '1', ...env } });
+}
+
+describe('tunebench launcher', () => {
+  beforeAll(async () => {
+    await run(process.execPath, [BUILD, 'cli']);
+  }, 120_000);
+
+  it('runs the freshly built bundle, and prints what the sources print', async () => {
+    expect(bundleStaleReason()).toBeNull();
+    const fromBundle = await bin(['--help']);
+    expect(fromBundle.stderr).toContain('tunebench launcher: prebuilt bundle');
+    const inProcess = await runCliCaptured('--help');
+    expect(fromBundle.stdout).toBe(inProcess.out);
+  }, 60_000);
+
+  it('falls back to the sources through tsx on request, with the same analysis', async () => {
+    const fromSource = await bin(['analyze', FIXTURE, '--json'], { TUNEBENCH_FROM_SOURCE: '1' });
+    expect(fromSource.stderr).toContain('sources through tsx (bundle not used: TUNEBENCH_FROM_SOURCE=1)');
+    const fromBundle = await bin(['analyze', FIXTURE, '--json']);
+    expect(fromBundle.stderr).toContain('prebuilt bundle');
+    // The bundle finds resources/ and the analysis the same way the sources do.
+    expect(JSON.parse(fromBundle.stdout)).toEqual(JSON.parse(fromSource.stdout));
+  }, 60_000);
+});
