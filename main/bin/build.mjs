@@ -9,8 +9,10 @@
 //  - renderer: builds app/ with vite into out/renderer, which `tunebench
 //    serve` serves as is. Needs the devDependencies; skipped with a note in an
 //    install without them (a packed tarball carries the built folder).
-import { mkdir, rename } from 'node:fs/promises';
-import { relative, sep } from 'node:path';
+import { execFileSync } from 'node:child_process';
+import { mkdir, readdir, rename, rm } from 'node:fs/promises';
+import { dirname, join, relative, sep } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { BUNDLE_FILE, INPUTS_FILE, PROJECT_ROOT } from './cli-bundle.mjs';
 import { writeSourceManifest } from './source-manifest.mjs';
 
@@ -26,14 +28,18 @@ async function buildCli() {
     outfile: tempFile,
     bundle: true,
     platform: 'node',
-    format: 'esm',
+    // CommonJS so the launcher can load it through vm.Script with V8's code cache.
+    format: 'cjs',
     target: 'node20',
+    // import() of a package left outside becomes require(), which the launcher provides.
+    supported: { 'dynamic-import': false },
+    define: { 'import.meta.url': '__tunebenchModuleUrl' },
     external: EXTERNAL,
     metafile: true,
     logLevel: 'warning',
     legalComments: 'none',
-    // Bundled CommonJS code (if any) calls require; give it the real one.
-    banner: { js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);" },
+    // The sources find resources/ from their own URL; the bundle sits as deep as they do.
+    banner: { js: "const __tunebenchModuleUrl = require('node:url').pathToFileURL(__filename).href;" },
   });
   const inputs = Object.keys(result.metafile.inputs)
     .map((input) => relative(PROJECT_ROOT, `${PROJECT_ROOT}${input}`).split(sep).join('/'))
@@ -43,7 +49,10 @@ async function buildCli() {
   // The source list first, the bundle last: a launcher that sees the new
   // bundle also sees its list.
   writeSourceManifest(INPUTS_FILE, PROJECT_ROOT, inputs);
+  for (const name of await readdir(dirname(BUNDLE_FILE))) if (name.endsWith('.v8cache')) await rm(join(dirname(BUNDLE_FILE), name), { force: true });
   await rename(tempFile, BUNDLE_FILE);
+  // One run through the launcher leaves V8's code cache beside the bundle.
+  execFileSync(process.execPath, [fileURLToPath(new URL('./tunebench.mjs', import.meta.url)), '--help'], { stdio: 'ignore' });
   console.log(`build: CLI bundled from ${inputs.length} files into ${relative(PROJECT_ROOT, BUNDLE_FILE)}`);
 }
 

@@ -3,3 +3,4 @@ export const PROJECT_ROOT: string;
 export const BUNDLE_FILE: string;
 export const INPUTS_FILE: string;
 export function bundleStaleReason(): string | null;
+export function loadBundle(): { exports: unknown; saveCache(): void };

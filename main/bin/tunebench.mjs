@@ -1,11 +1,10 @@
 #!/usr/bin/env node
 // Launcher for the `tunebench` command. Runs the prebuilt CLI bundle
 // (out/cli/, made by `npm run build:cli`, which `npm install` runs through
-// `prepare`) when it is current; in a checkout whose sources are newer, or
-// with TUNEBENCH_FROM_SOURCE=1, tsx compiles the TypeScript on load instead,
-// so `npx tunebench` always runs the code you see.
-import { bundleStaleReason, BUNDLE_FILE } from './cli-bundle.mjs';
-import { pathToFileURL } from 'node:url';
+// `prepare`) when it is current; in a checkout whose sources have changed
+// since, or with TUNEBENCH_FROM_SOURCE=1, tsx compiles the TypeScript on
+// load instead, so `npx tunebench` always runs the code you see.
+import { bundleStaleReason, loadBundle } from './cli-bundle.mjs';
 
 // TUNEBENCH_SHOW_LAUNCH=1 says on stderr which one ran (tests, bug reports).
 function said(line) {
@@ -16,18 +15,21 @@ async function loadCli() {
   const stale = process.env.TUNEBENCH_FROM_SOURCE === '1' ? 'TUNEBENCH_FROM_SOURCE=1' : bundleStaleReason();
   if (stale === null) {
     said('prebuilt bundle');
-    return import(pathToFileURL(BUNDLE_FILE).href);
+    const { exports, saveCache } = loadBundle();
+    return { runCli: exports.runCli, after: saveCache };
   }
   said(`sources through tsx (bundle not used: ${stale})`);
   const { register } = await import('tsx/esm/api');
   register();
-  return import('../cli/index.ts');
+  const { runCli } = await import('../cli/index.ts');
+  return { runCli, after: () => undefined };
 }
 
-const { runCli } = await loadCli();
+const { runCli, after } = await loadCli();
 const code = await runCli(process.argv.slice(2), {
   stdout: process.stdout,
   stderr: process.stderr,
   env: process.env,
 });
+after();
 process.exitCode = code;

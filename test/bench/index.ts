@@ -10,8 +10,10 @@ import { runProceduresBench } from './procedures.ts';
 import { runBrowserBench } from './browser.ts';
 import { benchStoreAppend } from './store-append.ts';
 import { runSimClockBench } from './sim-clock.ts';
+import { runCliStartBench } from './cli-start.ts';
 
 const suites: Record<string, () => Promise<unknown>> = {
+  'cli-start': () => runCliStartBench(),
   scpi: runScpiThroughputBench,
   analysis: async () => runAnalysisBench(),
   procedures: runProceduresBench,
