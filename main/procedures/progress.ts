@@ -25,9 +25,11 @@ export class ProgressReporter {
   readonly #kind: RunKind;
   readonly #startS: number;
   #excludedS = 0;
+  /** Points whose whole time was left out (one-off work such as the step back from the τ probe). */
+  #excludedPoints = 0;
   #done = 0;
   /** Clock time and count of the first report with a point done; the rate is measured from there on. */
-  #baseline: { atS: number; done: number; excludedS: number } | null = null;
+  #baseline: { atS: number; done: number; excludedS: number; excludedPoints: number } | null = null;
   total: number;
 
   constructor(clock: Clock, kind: RunKind, runId: string, total: number, listener?: ProgressListener) {
@@ -49,6 +51,12 @@ export class ProgressReporter {
     if (seconds > 0) this.#excludedS += seconds;
   }
 
+  /** Time one point's `work` and leave the point out of the time per point altogether. */
+  async excludingPoint<T>(work: () => Promise<T>): Promise<T> {
+    this.#excludedPoints++;
+    return this.excluding(work);
+  }
+
   /** Time `work` and leave it out of the time per point. */
   async excluding<T>(work: () => Promise<T>): Promise<T> {
     const t0 = this.#clock.now();
@@ -62,10 +70,10 @@ export class ProgressReporter {
   report(phase: ProgressInfo['phase'], done: number, latest: Latest): void {
     this.#done = done;
     const nowS = this.#clock.now();
-    if (this.#baseline === null && done > 0) this.#baseline = { atS: nowS, done, excludedS: this.#excludedS };
+    if (this.#baseline === null && done > 0) this.#baseline = { atS: nowS, done, excludedS: this.#excludedS, excludedPoints: this.#excludedPoints };
     if (!this.#listener) return;
     const perPointS = this.#perPointS(nowS, done);
-    const etaS = done > 0 && this.total >= done ? perPointS * (this.total - done) : null;
+    const etaS = done > 0 && this.total >= done && Number.isFinite(perPointS) ? perPointS * (this.total - done) : null;
     this.#listener({
       runId: this.#runId,
       kind: this.#kind,
@@ -84,7 +92,11 @@ export class ProgressReporter {
    */
   #perPointS(nowS: number, done: number): number {
     const base = this.#baseline;
-    if (base !== null && done > base.done) return Math.max(0, nowS - base.atS - (this.#excludedS - base.excludedS)) / (done - base.done);
+    if (base !== null && done > base.done) {
+      const counted = done - base.done - (this.#excludedPoints - base.excludedPoints);
+      // Nothing but left-out points since the first: no rate measured yet.
+      return counted > 0 ? Math.max(0, nowS - base.atS - (this.#excludedS - base.excludedS)) / counted : Number.NaN;
+    }
     return done > 0 ? Math.max(0, nowS - this.#startS - this.#excludedS) / done : Number.NaN;
   }
 

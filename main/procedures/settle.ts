@@ -36,6 +36,7 @@
  */
 import type { Clock } from '../time/clock.ts';
 import type { CounterReading } from './read-counter.ts';
+import { predictedStartS, readingErrorHz } from './settle-predict.ts';
 import { TimeConstantEstimate } from './settle-tau.ts';
 
 export { TimeConstantEstimate } from './settle-tau.ts';
@@ -56,6 +57,13 @@ export interface AutoSettleOptions {
    * quantisation of the first readings, this cannot.
    */
   expectedStepHz?: number;
+  /**
+   * With τ unknown and the port possibly still on its way from switch-on,
+   * believe no signal once this long after the step (instead of maxS or at
+   * once) and mark the outcome provisional: the sweep checks it against τ
+   * once learned.
+   */
+  provisionalAfterS?: number;
 }
 
 /** Preallocated record of one point's settling readings. */
@@ -77,6 +85,14 @@ export interface SettleOutcome {
    * caller may record it as the point's first.
    */
   last: { reading: CounterReading; atS: number } | null;
+  /**
+   * No-signal readings just before `last` (oldest first), when `last` is a
+   * believed no-signal: the port moves one way, so a later "no signal"
+   * vouches for the earlier ones, and they count as the point's readings too.
+   */
+  held: { reading: CounterReading; atS: number }[];
+  /** No signal believed before τ was known (right after switch-on): the sweep re-checks it. */
+  provisional: boolean;
 }
 
 /** Learned τ is taken this much larger when bounding the remaining error (estimates scatter). */
@@ -134,8 +150,20 @@ export async function settleAuto(
     trace.valuesHz[trace.n] = reading.frequencyHz;
     trace.n++;
   };
-  const done = (settled: boolean, reading: CounterReading, atS: number, readings: number): SettleOutcome =>
-    ({ settled, elapsedS: atS - stepAtS, readings, toleranceHz: tolHz, last: settled ? { reading, atS } : null });
+  /** The run of no-signal readings up to the latest (cleared by an oscillating one). */
+  let noSignalRun: { reading: CounterReading; atS: number }[] = [];
+  let provisional = false;
+  const done = (settled: boolean, reading: CounterReading, atS: number, readings: number): SettleOutcome => {
+    const believedNoSignal = settled && reading.status === 'no-signal';
+    return {
+      settled, elapsedS: atS - stepAtS, readings, toleranceHz: tolHz, last: settled ? { reading, atS } : null,
+      held: believedNoSignal ? noSignalRun.slice(0, -1) : [], provisional: believedNoSignal && provisional,
+    };
+  };
+  const remember = (reading: CounterReading, atS: number): void => {
+    if (reading.status === 'no-signal') noSignalRun.push({ reading, atS });
+    else noSignalRun = [];
+  };
   /**
    * Rule 1 on one ok reading: null when settled, else when to read next (s
    * after this reading). Needs τ and the value before the step.
@@ -160,10 +188,22 @@ export async function settleAuto(
     const targetCentreS = tauEffS * Math.log(Math.max(1, Math.min(stepHz, plannedStepHz) / (tolHz * TARGET_FRACTION)));
     return Math.max(gateS, targetCentreS + half + stepAtS - atS);
   };
+  // Settling by prediction (settle-predict.ts): one wait, then the reading that confirms it.
+  const knownTauS = learned.tauS;
+  const expectedStepHz = options.expectedStepHz ?? 0;
+  if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && options.afterOutputOn !== true) {
+    const waitS = stepAtS + Math.min(maxS, predictedStartS(knownTauS, gateS, expectedStepHz, tolHz)) - clock.now();
+    if (waitS > 0) await clock.sleep(waitS, signal);
+  }
   let previous = await read();
   let previousAtS = clock.now();
   note(previousAtS, previous);
+  remember(previous, previousAtS);
   let readings = 1;
+  if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && previous.status === 'ok') {
+    const errorHz = readingErrorHz(knownTauS, gateS, previousAtS - gateS - stepAtS, previous.frequencyHz, beforeStepHz);
+    if (errorHz <= tolHz) return done(true, previous, previousAtS, readings);
+  }
   let nextSpacingS = gateS;
   // With τ and the value before the step known, one reading right after the step says how long to wait.
   const first = ruleOne(previous, previousAtS);
@@ -177,6 +217,7 @@ export async function settleAuto(
     const current = await read();
     const currentAtS = clock.now();
     note(currentAtS, current);
+    remember(current, currentAtS);
     readings++;
     if (previous.status === 'no-signal' && current.status === 'no-signal') {
       // No signal says nothing about how far the port still has to go: a DUT
@@ -185,7 +226,11 @@ export async function settleAuto(
       // maxS right after switch-on (a step from 0 V), else at once.
       const sinceStepS = currentAtS - stepAtS;
       const learnedTau = learned.tauS;
-      const trustAfterS = options.afterOutputOn === true ? maxS : learnedTau === null ? 0 : 3 * learnedTau;
+      let trustAfterS = options.afterOutputOn === true ? maxS : learnedTau === null ? 0 : 3 * learnedTau;
+      if (learnedTau === null && options.provisionalAfterS !== undefined) {
+        trustAfterS = Math.min(maxS, options.provisionalAfterS);
+        provisional = true;
+      }
       if (sinceStepS >= trustAfterS) return done(true, current, currentAtS, readings);
       nextSpacingS = Math.max(gateS, Math.min(0.5 * sinceStepS, trustAfterS - sinceStepS));
       previous = current;

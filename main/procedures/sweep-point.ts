@@ -10,7 +10,7 @@ import { scatterHz } from './context.ts';
 import type { CounterReading } from './read-counter.ts';
 import { TimeConstantEstimate, settleAuto, type SettleTrace } from './settle.ts';
 import type { Direction } from './sweep-points.ts';
-import type { SampleStatus } from './types.ts';
+import type { SampleRow, SampleStatus } from './types.ts';
 
 /** samples.csv columns of a sweep (CONTRACTS.md names first, then ours). */
 export const SWEEP_COLUMNS = [
@@ -34,6 +34,8 @@ export interface PointResult {
   settleS: number;
   lastFrequencyHz: number;
   lastStatus: SampleStatus;
+  /** "No signal" believed before τ was known, the port maybe still on its way from switch-on: clock time of the last such reading, else null. */
+  provisionalAtS: number | null;
 }
 
 export interface PointState {
@@ -50,18 +52,24 @@ export interface PointState {
   trace: SettleTrace;
   /** The next point steps from somewhere off the sweep's path (the probe voltage): its step is no guide. */
   fromElsewhere: boolean;
+  /** Mean of the previous point on the sweep's path (not the probe, a bisection or a point measured again), Hz. */
+  pathMeanHz: number;
+  /** Every point since switch-on read "no signal" before τ was known: the port may still be on its way. */
+  provisionalChain: boolean;
 }
 
 export function newPointState(plan: SweepPlan): PointState {
-  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false };
+  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false, provisionalChain: false, pathMeanHz: Number.NaN };
 }
 
 export async function measurePoint(
   ctx: ProcedureContext,
   plan: SweepPlan,
   state: PointState,
-  point: { controlV: number; direction: Direction; refined: boolean; index: number; afterOutputOn?: boolean },
+  point: { controlV: number; direction: Direction; refined: boolean; index: number; afterOutputOn?: boolean; previouslyProvisional?: boolean },
   signal: AbortSignal,
+  /** Where the point's rows go instead of the run, when the caller may hold them back (a provisional "no signal"). */
+  held?: SampleRow[],
 ): Promise<PointResult> {
   const { supply } = ctx.bench;
   const channel = ctx.bench.controlChannel;
@@ -69,8 +77,9 @@ export async function measurePoint(
   await supply.setVoltage(channel, point.controlV);
 
   let settled = true;
-  /** The reading that showed the port settled: a settled reading, recorded as the point's first. */
-  let settledReading: { reading: CounterReading; atS: number } | null = null;
+  /** The readings that showed the port settled: settled readings, recorded as the point's first. */
+  let settledReadings: { reading: CounterReading; atS: number }[] = [];
+  let provisionalAtS: number | null = null;
   if (plan.settle.mode === 'fixed') {
     if (plan.settle.seconds > 0) await ctx.clock.sleep(plan.settle.seconds, signal);
   } else {
@@ -78,13 +87,22 @@ export async function measurePoint(
       ctx.clock,
       stepAtS,
       () => ctx.readFrequency(),
-      { gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, afterOutputOn: point.afterOutputOn, trace: state.trace, expectedStepHz: state.lastStepHz },
+      {
+        gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, afterOutputOn: point.afterOutputOn,
+        trace: state.trace, expectedStepHz: state.lastStepHz,
+        // From switch-on until something oscillates, with τ unknown: the point's own readings decide
+        // (the last of them ends by then), checked against τ once learned (sweep.ts).
+        provisionalAfterS: point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain) ? (plan.readingsPerPoint - 0.5) * plan.gateS : undefined,
+      },
       state.tau,
       signal,
       state.lastMeanHz,
     );
     settled = outcome.settled;
-    if (outcome.last !== null && (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')) settledReading = outcome.last;
+    if (outcome.last !== null && (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')) {
+      settledReadings = [...outcome.held, outcome.last].slice(-plan.readingsPerPoint);
+    }
+    if (outcome.provisional && outcome.last !== null) provisionalAtS = outcome.last.atS;
     if (!settled) {
       ctx.event({ type: 'settle-timeout', point_index: point.index, control_v: point.controlV, waited_s: outcome.elapsedS });
     }
@@ -100,7 +118,7 @@ export async function measurePoint(
   const trace = state.trace;
   const halfGateS = plan.gateS / 2;
   for (let r = 0; r < plan.readingsPerPoint; r++) {
-    const reused = r === 0 ? settledReading : null;
+    const reused = settledReadings[r] ?? null;
     const reading = reused?.reading ?? (await ctx.readFrequency());
     const endS = reused?.atS ?? ctx.clock.now();
     // The readings also feed the τ fit (as the tail of the settling); the reused one is in the trace already.
@@ -114,7 +132,7 @@ export async function measurePoint(
     if (reading.status === 'no-signal') noSignal++;
     lastFrequencyHz = reading.frequencyHz;
     lastStatus = reading.status;
-    ctx.row({
+    const row: SampleRow = {
       time_s: endS - ctx.startS,
       control_v: point.controlV,
       control_meas_v: measuredV,
@@ -124,21 +142,32 @@ export async function measurePoint(
       refined: point.refined ? 1 : 0,
       point_index: point.index,
       settle_s: settleS,
-    });
+    };
+    if (held) held.push(row);
+    else ctx.row(row);
   }
   await ctx.sink.flush();
   state.scatterHz = scatterHz(readings, plan.readingsPerPoint);
   const meanHz = meanOf(readings, plan.readingsPerPoint);
-  // A step that is not like the sweep's own (from the probe voltage, or a bisection) says nothing about the next.
-  state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.lastMeanHz) && !point.refined && !state.fromElsewhere ? Math.abs(meanHz - state.lastMeanHz) : 0;
+  // The step between neighbours on the sweep's path predicts the next one — also right after a
+  // detour (the probe voltage); a bisection or a point measured again says nothing about it.
+  if (!point.refined && point.previouslyProvisional !== true) {
+    state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.pathMeanHz) ? Math.abs(meanHz - state.pathMeanHz) : 0;
+    state.pathMeanHz = meanHz;
+  } else if (point.refined) {
+    state.lastStepHz = 0;
+  }
   state.fromElsewhere = false;
+  const beforeHz = state.lastMeanHz;
   state.lastMeanHz = meanHz;
-  // Learn the port's time constant from this point's settling, now that its end value is known
-  // (not from switch-on: that step crosses the stall edge, where f(V) is far from a straight line).
-  if (plan.settle.mode === 'auto' && point.afterOutputOn !== true && Number.isFinite(state.lastMeanHz)) {
+  // Learn the port's time constant from this point's settling, now that its end value is known —
+  // only from a step between two oscillating levels (not from switch-on or out of the stalled
+  // region: such a step crosses the stall edge, where f(V) is far from a straight line).
+  if (plan.settle.mode === 'auto' && point.afterOutputOn !== true && Number.isFinite(beforeHz) && Number.isFinite(meanHz)) {
     state.tau.fitStep(trace.timesS, trace.valuesHz, trace.n, minFitStepHz(plan.gateS));
   }
-  return { oscillating, stalled: noSignal === plan.readingsPerPoint, settled, settleS, lastFrequencyHz, lastStatus };
+  state.provisionalChain = provisionalAtS !== null && !oscillating;
+  return { oscillating, stalled: noSignal === plan.readingsPerPoint, settled, settleS, lastFrequencyHz, lastStatus, provisionalAtS };
 }
 
 /**

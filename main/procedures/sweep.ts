@@ -16,7 +16,7 @@ import { emptyConditions, recordConditions } from './run-conditions.ts';
 import { measurePoint, newPointState } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
 import { sweepSchedule } from './sweep-points.ts';
-import type { BenchRoles, ProcedureOutcome, RunSink } from './types.ts';
+import type { BenchRoles, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
 
 export { SWEEP_COLUMNS } from './sweep-point.ts';
 
@@ -84,12 +84,58 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
 
     const state = newPointState(plan);
     let probed = false;
+    /**
+     * Points whose "no signal" was believed before τ was known, while the port was maybe still on
+     * its way from switch-on: their rows are held back until τ is learned. A point stands if it was
+     * read at least 3τ after switch-on (the rule the watching uses); its rows are then written. Else
+     * it is measured again, and only the new rows are written.
+     */
+    let provisional: { i: number; atS: number; rows: SampleRow[] }[] = [];
+    const outputOnAtS = clock.now();
+    let tauNoted = false;
+    let index = schedule.controlV.length; // rows of refinement points are numbered on from the coarse ones
+    const resolveProvisional = async (): Promise<void> => {
+      const tauS = state.tau.tauS;
+      const pending = provisional;
+      provisional = [];
+      for (const p of pending) {
+        const sinceOnS = p.atS - outputOnAtS;
+        if (tauS !== null && sinceOnS >= 3 * tauS) {
+          for (const row of p.rows) ctx.row(row);
+          continue;
+        }
+        await control.checkpoint(clock);
+        const controlV = schedule.controlV[p.i] as number;
+        const pass = schedule.pass[p.i] as number;
+        ctx.event({ type: 'remeasure', point_index: p.i, control_v: controlV, reason: tauS === null ? 'no time constant learned' : `no signal read ${sinceOnS.toFixed(3)} s after switch-on, under 3τ` });
+        // The step is from wherever the sweep is now: its size is no guide (lastMeanHz, where the port is, still is).
+        state.lastStepHz = 0;
+        state.fromElsewhere = true;
+        const result = await measurePoint(ctx, plan, state, { controlV, direction: pass === 0 ? 'up' : 'down', refined: false, index: p.i, afterOutputOn: tauS === null, previouslyProvisional: true }, control.signal);
+        const level = pass === 0 ? p.i : schedule.controlV.length - 1 - p.i;
+        (stalled[pass] as Uint8Array)[level] = result.stalled ? 1 : 0;
+        (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
+        state.fromElsewhere = true;
+      }
+      await ctx.sink.flush();
+    };
     for (let i = 0; i < schedule.controlV.length; i++) {
       await control.checkpoint(clock);
       const controlV = schedule.controlV[i] as number;
       const pass = schedule.pass[i] as number;
       const direction = pass === 0 ? 'up' : 'down';
-      const result = await measurePoint(ctx, plan, state, { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 }, control.signal);
+      const mayHold = plan.settle.mode === 'auto' && state.tau.tauS === null && (i === 0 || state.provisionalChain);
+      const held: SampleRow[] | undefined = mayHold ? [] : undefined;
+      const measure = () => measurePoint(ctx, plan, state, { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 }, control.signal, held);
+      // The step back from the probe voltage is the probe's cost, not a point's: it stays out of the ETA too.
+      const result = await (state.fromElsewhere ? progress.excludingPoint(measure) : measure());
+      if (held && result.provisionalAtS !== null) provisional.push({ i, atS: result.provisionalAtS, rows: held });
+      else if (held) for (const row of held) ctx.row(row);
+      if (!tauNoted && state.tau.tauS !== null) {
+        tauNoted = true;
+        ctx.event({ type: 'settle-tau', tauS: state.tau.tauS, point_index: i });
+      }
+      if (provisional.length > 0 && state.tau.tauS !== null) await resolveProvisional();
       const level = pass === 0 ? i : schedule.controlV.length - 1 - i;
       (stalled[pass] as Uint8Array)[level] = result.stalled ? 1 : 0;
       (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
@@ -100,6 +146,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
         const target = probeTarget(levels, controlV, pass === 0);
         // The probe is no point of the plan: its time stays out of the ETA's time per point.
         const probe = target === null ? null : await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
+        tauNoted = state.tau.tauS !== null;
         // The next point starts from the probe voltage, settled there: that is its "before" value
         // (NaN if the probe saw no oscillation); its step is not like the last one.
         state.lastMeanHz = probe?.endHz ?? Number.NaN;
@@ -107,6 +154,9 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
         state.fromElsewhere = true;
       }
     }
+
+    // Points still provisional (τ never learned): measured again, waiting maxS for a "no signal".
+    await resolveProvisional();
 
     const bracket = plan.direction === 'down'
       ? findEdge(levels, stalled[1] as Uint8Array, oscillating[1] as Uint8Array, 'down')
@@ -117,7 +167,6 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       // Refinement points join the total only once they are known; the total is cut back below if the bisection stops early.
       progress.total += steps;
       ctx.event({ type: 'refine-start', stalledV: bracket.stalledV, oscillatingV: bracket.oscillatingV, steps });
-      let index = schedule.controlV.length;
       outcome.edge = await bisectEdge(bracket, plan.refineEdgeV, async (controlV) => {
         await control.checkpoint(clock);
         const result = await measurePoint(ctx, plan, state, { controlV, direction: bracket.direction, refined: true, index }, control.signal);

@@ -11,12 +11,14 @@ import { runBrowserBench } from './browser.ts';
 import { benchStoreAppend } from './store-append.ts';
 import { runSimClockBench } from './sim-clock.ts';
 import { runCliStartBench } from './cli-start.ts';
+import { runSweepFloorBench } from './sweep-floor.ts';
 
 const suites: Record<string, () => Promise<unknown>> = {
   'cli-start': () => runCliStartBench(),
   scpi: runScpiThroughputBench,
   analysis: async () => runAnalysisBench(),
   procedures: runProceduresBench,
+  'sweep-floor': runSweepFloorBench,
   store: async () => {
     for (const line of await benchStoreAppend()) console.log(line);
   },

@@ -1,0 +1,176 @@
+/**
+ * Sweeps at the physics floor (issue 12 items 3 and 5), over TCP against a
+ * separate `tunebench sim` process whose relaxation DUT's tuning port
+ * settles with τ = 50 ms: 1.0–4.25 V, 3 readings per point at a 100 ms
+ * gate, stall edge refined to 1 mV, automatic settling to 1 count.
+ *
+ * Floor: each point recorded by the sweep (refinement points included, in
+ * the order run), settled to within the counter's ±1 count — τ·ln(step /
+ * resolution) with the step in Hz from the previous point's mean (or, after
+ * a point without oscillation, ΔV × the local slope), resolution 1/gate —
+ * plus its gate times. A point without oscillation costs only its gates.
+ * Not in the floor: the first point's and the τ probe's extra time, link
+ * round trips, the supply's read-back; the target (≤ 1.05× floor) leaves
+ * them 5 %.
+ *
+ * The peer: the hand-written fixed 0.5 s script (peer-fixed-settle.ts) over
+ * the same points (no edge search), against the same simulator, in the
+ * same run; both curves compared point by point (limit 2 counts).
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import { sweepPlanSchema, type SweepPlan } from '../../app/contract/plans.ts';
+import { assembleBench } from '../../main/bench/assemble.ts';
+import { runSweep } from '../../main/procedures/sweep.ts';
+import { sweepSchedule } from '../../main/procedures/sweep-points.ts';
+import { MemorySink } from '../../main/procedures/testing/fake-bench.ts';
+import { builtinDut } from '../../main/sim/builtin-duts.ts';
+import { RealClock } from '../../main/time/real-clock.ts';
+import { runPeerScript } from './peer-fixed-settle.ts';
+
+const BIN = fileURLToPath(new URL('../../main/bin/tunebench.mjs', import.meta.url));
+const TAU_S = 0.05;
+const GATE_S = 0.1;
+const READINGS = 3;
+
+interface SimProcess {
+  child: ChildProcess;
+  supply: string;
+  counter: string;
+}
+
+async function startSim(dutFile: string): Promise<SimProcess> {
+  const child = spawn(process.execPath, [BIN, 'sim', '--base-port', '0', '--dut', dutFile, '--seed', '7'], { stdio: ['ignore', 'pipe', 'inherit'] });
+  let out = '';
+  const deadline = Date.now() + 60_000;
+  child.stdout?.on('data', (chunk: Buffer) => (out += chunk.toString()));
+  while (!/counter\s+tcp:\/\//.test(out)) {
+    if (Date.now() > deadline || child.exitCode !== null) throw new Error(`tunebench sim did not start: ${out}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+  const supply = /supply\s+(tcp:\/\/\S+)/.exec(out)?.[1] as string;
+  const counter = /counter\s+(tcp:\/\/\S+)/.exec(out)?.[1] as string;
+  return { child, supply, counter };
+}
+
+interface PointMean {
+  controlV: number;
+  meanHz: number;
+}
+
+/** Points in the order run, with the mean of their ok readings (NaN when none oscillated). */
+function pointsOf(rows: Record<string, number | string>[]): PointMean[] {
+  const byIndex = new Map<number, { controlV: number; sum: number; n: number }>();
+  for (const row of rows) {
+    const index = row.point_index as number;
+    const p = byIndex.get(index) ?? { controlV: row.control_v as number, sum: 0, n: 0 };
+    if (row.status === 'ok') {
+      p.sum += row.frequency_hz as number;
+      p.n++;
+    }
+    byIndex.set(index, p);
+  }
+  return [...byIndex.entries()].sort((a, b) => a[0] - b[0]).map(([, p]) => ({ controlV: p.controlV, meanHz: p.n > 0 ? p.sum / p.n : Number.NaN }));
+}
+
+/** Local slope |df/dV| at a point, from its nearest oscillating neighbour on the curve. */
+function localSlope(curve: PointMean[], v: number, f: number): number {
+  let best: PointMean | null = null;
+  for (const p of curve) {
+    if (!Number.isFinite(p.meanHz) || p.controlV === v) continue;
+    if (best === null || Math.abs(p.controlV - v) < Math.abs(best.controlV - v)) best = p;
+  }
+  return best === null ? 0 : Math.abs(best.meanHz - f) / Math.abs(best.controlV - v);
+}
+
+export function floorSeconds(points: PointMean[], tauS: number, gateS: number, readings: number): number {
+  const resolutionHz = 1 / gateS;
+  let total = 0;
+  for (let i = 0; i < points.length; i++) {
+    const p = points[i] as PointMean;
+    total += readings * gateS;
+    if (!Number.isFinite(p.meanHz)) continue;
+    const prev = points[i - 1];
+    const stepHz = prev !== undefined && Number.isFinite(prev.meanHz)
+      ? Math.abs(p.meanHz - prev.meanHz)
+      : Math.abs(p.controlV - (prev?.controlV ?? 0)) * localSlope(points, p.controlV, p.meanHz);
+    if (stepHz > resolutionHz) total += tauS * Math.log(stepHz / resolutionHz);
+  }
+  return total;
+}
+
+function plan(stepV: number): SweepPlan {
+  return sweepPlanSchema.parse({
+    start: 1.0, stop: 4.25, step: stepV, readingsPerPoint: READINGS, gateS: GATE_S,
+    settle: { mode: 'auto', maxS: 2, toleranceCounts: 1 }, refineEdgeV: 0.001,
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
+  });
+}
+
+interface AutoRun {
+  wallS: number;
+  points: PointMean[];
+  probeTauS: number | null;
+  timeouts: number;
+}
+
+async function autoSweep(sim: SimProcess, stepV: number): Promise<AutoRun> {
+  const clock = new RealClock();
+  const bench = await assembleBench({ supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: sim.counter } }, { clock });
+  const sink = new MemorySink();
+  const t0 = performance.now();
+  const outcome = await runSweep({ bench, plan: plan(stepV), clock, sink });
+  const wallS = (performance.now() - t0) / 1000;
+  await bench.close();
+  if (outcome.status !== 'complete') throw new Error(`sweep ${outcome.status}: ${outcome.reason ?? ''}`);
+  const probe = sink.eventsOfType('settle-probe')[0];
+  return { wallS, points: pointsOf(sink.rows), probeTauS: (probe?.tauS as number | null | undefined) ?? null, timeouts: sink.eventsOfType('settle-timeout').length };
+}
+
+export async function runSweepFloorBench(): Promise<void> {
+  const dir = await mkdtemp(join(tmpdir(), 'tunebench-floor-'));
+  const dut = builtinDut('relaxation');
+  const dutFile = join(dir, 'relaxation-tau50ms.json');
+  await writeFile(dutFile, JSON.stringify({ ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } }));
+  const sim = await startSim(dutFile);
+  try {
+    console.log(`  relaxation DUT with τ = ${TAU_S * 1000} ms, 1.0–4.25 V, ${READINGS} readings at ${GATE_S * 1000} ms gate, edge refined to 1 mV, auto settle to 1 count; tunebench sim over TCP on 127.0.0.1`);
+    let peerDone = false;
+    for (const stepV of [0.05, 0.2]) {
+      const load = loadavg()[0] as number;
+      const auto = await autoSweep(sim, stepV);
+      const floorS = floorSeconds(auto.points, TAU_S, GATE_S, READINGS);
+      const ratio = auto.wallS / floorS;
+      console.log(
+        `  step ${stepV * 1000} mV: ${auto.points.length} points in ${auto.wallS.toFixed(2)} s, floor ${floorS.toFixed(2)} s, ratio ${ratio.toFixed(3)} (target ≤ 1.05) ${ratio <= 1.05 ? 'meets' : 'MISSES'}` +
+          ` [probe τ ${auto.probeTauS === null ? '–' : `${(auto.probeTauS * 1000).toFixed(1)} ms`}, settle timeouts ${auto.timeouts}, load ${load.toFixed(2)}]`,
+      );
+      if (peerDone) continue;
+      peerDone = true;
+      // The peer: same scheduled points, fixed 0.5 s, no edge search.
+      const pointsV = Array.from(sweepSchedule(plan(stepV)).controlV);
+      const peerLoad = loadavg()[0] as number;
+      const peer = await runPeerScript({ supply: sim.supply, counter: sim.counter }, pointsV, READINGS, 0.5, GATE_S);
+      const peerFloorS = floorSeconds(pointsV.map((v) => ({ controlV: v, meanHz: peer.curve.get(Math.round(v * 1e6) / 1e6) ?? Number.NaN })), TAU_S, GATE_S, READINGS);
+      let maxDiffHz = 0;
+      let compared = 0;
+      for (const p of auto.points) {
+        const f = peer.curve.get(Math.round(p.controlV * 1e6) / 1e6);
+        if (f === undefined || !Number.isFinite(f) || !Number.isFinite(p.meanHz)) continue;
+        compared++;
+        maxDiffHz = Math.max(maxDiffHz, Math.abs(f - p.meanHz));
+      }
+      const limitHz = 2 / GATE_S;
+      console.log(`  peer (hand-written script: VOLT, sleep 0.5 s, ${READINGS} × READ?, same ${pointsV.length} points, no edge search): ${peer.wallS.toFixed(2)} s [load ${peerLoad.toFixed(2)}]; its own points' floor ${peerFloorS.toFixed(2)} s`);
+      console.log(`  tunebench / peer wall time: ${(auto.wallS / peer.wallS).toFixed(3)} (tunebench also refines the edge); largest curve difference ${maxDiffHz.toFixed(1)} Hz over ${compared} points (limit 2 counts = ${limitHz} Hz) ${maxDiffHz <= limitHz ? 'meets' : 'MISSES'}`);
+    }
+  } finally {
+    sim.child.kill('SIGINT');
+    await new Promise((r) => (sim.child.exitCode === null ? sim.child.once('exit', r) : r(null)));
+    await rm(dir, { recursive: true, force: true });
+  }
+}
