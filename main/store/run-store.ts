@@ -9,7 +9,8 @@ import { z } from 'zod';
 import type { RunDetail, RunMeta } from '../../app/contract/bench-api.ts';
 import { eventLineAfter } from './events-jsonl.ts';
 import { assertRunId, dutIdSchema } from './run-id.ts';
-import { EVENTS_JSONL, readRunMeta, writeRunMeta } from './run-meta.ts';
+import { EVENTS_JSONL, SAMPLES_CSV, readRunMeta, writeRunMeta } from './run-meta.ts';
+import { openSamples } from './cached-samples.ts';
 import { type ReadOptions, lastTimeS, readRunFolder, readRunStatus } from './run-reader.ts';
 import { type SampleTable, readSampleTable } from './sample-table.ts';
 import { StoreError } from './store-error.ts';
@@ -98,8 +99,8 @@ async function runDir(fs: StoreFs, runsDir: string, id: unknown): Promise<string
 
 export async function openRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<OpenedRun> {
   const dir = await runDir(fsOf(options), runsDir, id);
-  const run = await readRunFolder(dir, options);
-  return { meta: run.meta, samples: readSampleTable(run.samplesCsv), events: run.events, droppedEventLines: run.droppedEventLines };
+  const samples = await openSamples(join(dir, SAMPLES_CSV), options, () => readRunFolder(dir, options));
+  return { meta: samples.run.meta, samples: samples.table, events: samples.run.events, droppedEventLines: samples.run.droppedEventLines };
 }
 
 const editQueues = new Map<string, Promise<unknown>>();
