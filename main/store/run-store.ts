@@ -12,7 +12,7 @@ import { assertRunId, dutIdSchema } from './run-id.ts';
 import { EVENTS_JSONL, SAMPLES_CSV, readRunMeta, writeRunMeta } from './run-meta.ts';
 import { openSamples } from './cached-samples.ts';
 import { type ReadOptions, lastTimeS, readRunFolder, readRunStatus } from './run-reader.ts';
-import { type SampleTable, readSampleTable } from './sample-table.ts';
+import type { SampleTable } from './sample-table.ts';
 import { StoreError } from './store-error.ts';
 import { type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
 

@@ -18,6 +18,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { DRIFT_COLUMNS } from '../../main/procedures/drift.ts';
 import { encodeBinaryReply } from '../../app/contract/wire-binary.ts';
+import { loadavg } from 'node:os';
 import { createRun } from '../../main/store/index.ts';
 import { VirtualClock } from '../../main/time/virtual-clock.ts';
 import type { BenchService } from '../../main/service/bench-service.ts';
@@ -91,7 +92,12 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
   // folder, then the reply is encoded for the WebSocket exactly as
   // main/server/ws-api.ts does (one binary frame, app/contract/wire.ts).
   // Measured once here on their own; the click below does the same work again.
+  // The first open parses the CSV and writes the binary column cache beside it (main/store/column-cache.ts);
+  // every later open, the click below included, reads the cache.
   let t0 = performance.now();
+  await app.service.openRun(bigId);
+  const firstOpenMs = performance.now() - t0;
+  t0 = performance.now();
   const detail = await app.service.openRun(bigId);
   const storeReadMs = performance.now() - t0;
   t0 = performance.now();
@@ -171,7 +177,12 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
       frames: deltas.length,
       readingsDuringWindow,
     };
-    console.log(`first draw of a ${SAMPLES.toLocaleString('en')}-sample drift run: ${firstDrawMs.toFixed(0)} ms (target ≤ 1000 ms)`);
+    console.log(`first draw of a ${SAMPLES.toLocaleString('en')}-sample drift run: ${firstDrawMs.toFixed(0)} ms (target ≤ 1000 ms) ${firstDrawMs <= 1000 ? 'meets' : 'MISSES'} [load ${loadavg()[0]?.toFixed(2)}]`);
+    const pageHeap = (await page.evaluate('performance.memory ? performance.memory.usedJSHeapSize : null')) as number | null;
+    console.log(
+      `  store: first open (CSV parse + column cache written) ${firstOpenMs.toFixed(0)} ms, later opens from the cache ${storeReadMs.toFixed(0)} ms; ` +
+        `peak RSS of main ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB, page JS heap ${pageHeap === null ? 'n/a' : `${(pageHeap / 2 ** 20).toFixed(0)} MiB`}`,
+    );
     const at = (name: string): number => marks[name] ?? Number.NaN;
     const arrived = at('tunebench:ws:large-message');
     const decoded = at('tunebench:ws:large-message-json');
