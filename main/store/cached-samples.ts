@@ -16,12 +16,13 @@ export interface OpenedSamples {
   source: 'cache' | 'csv';
 }
 
-export async function openSamples(csvPath: string, options: ReadOptions, readFolder: () => Promise<RunFolderContents>): Promise<OpenedSamples> {
+export async function openSamples(csvPath: string, options: ReadOptions, readFolder: (withoutSamples: boolean) => Promise<RunFolderContents>): Promise<OpenedSamples> {
   const cacheable = options.fs === undefined;
   // The CSV's state before it is read: the cache may only describe exactly that file.
   const key = cacheable ? await csvKey(csvPath) : null;
   const cached = key === null ? null : await readColumnCache(csvPath);
-  const run = await readFolder();
+  // With the table from the cache, the CSV itself is not read at all.
+  const run = await readFolder(cached !== null);
   if (cached !== null) return { run, table: cached, source: 'cache' };
   const table = readSampleTable(run.samplesCsv);
   if (key !== null && run.meta.status !== 'running') await writeColumnCache(csvPath, table, key);

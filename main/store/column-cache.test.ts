@@ -64,29 +64,29 @@ describe('binary column cache', () => {
     await withTempDir(async (runsDir) => {
       const { id, dir } = await finishedRun(runsDir, 500);
       const csvPath = join(dir, 'samples.csv');
-      const first = await openSamples(csvPath, {}, () => readRunFolder(dir));
+      const first = await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }));
       expect(first.source).toBe('csv');
-      const second = await openSamples(csvPath, {}, () => readRunFolder(dir));
+      const second = await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }));
       expect(second.source).toBe('cache');
       expect(second.table).toEqual(first.table);
       expect((await openRun(runsDir, id)).samples).toEqual(first.table);
       // The CSV is the truth: a row appended (a resumed log) makes the cache stale, and it is not used.
       await appendFile(csvPath, '500,10000001,ok\n');
-      const third = await openSamples(csvPath, {}, () => readRunFolder(dir));
+      const third = await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }));
       expect(third.source).toBe('csv');
       expect(third.table.rowCount).toBe(501);
       // Same size, other time (a rewrite in place): not used either.
       const info = await stat(csvPath);
       await utimes(csvPath, info.atime, new Date(info.mtimeMs + 5000));
-      expect((await openSamples(csvPath, {}, () => readRunFolder(dir))).source).toBe('csv');
+      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
       // A torn cache file (cut in half) is ignored and replaced.
       const cachePath = join(dir, COLUMN_CACHE_FILE);
       const whole = await readFile(cachePath);
       await writeFile(cachePath, whole.subarray(0, whole.length >> 1));
-      const fourth = await openSamples(csvPath, {}, () => readRunFolder(dir));
+      const fourth = await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }));
       expect(fourth.source).toBe('csv');
       expect(fourth.table.rowCount).toBe(501);
-      expect((await openSamples(csvPath, {}, () => readRunFolder(dir))).source).toBe('cache');
+      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('cache');
     });
   });
 
@@ -94,8 +94,8 @@ describe('binary column cache', () => {
     await withTempDir(async (runsDir) => {
       const { dir } = await finishedRun(runsDir, 50, null);
       const csvPath = join(dir, 'samples.csv');
-      expect((await openSamples(csvPath, {}, () => readRunFolder(dir))).source).toBe('csv');
-      expect((await openSamples(csvPath, {}, () => readRunFolder(dir))).source).toBe('csv');
+      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
+      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
       await expect(stat(join(dir, COLUMN_CACHE_FILE))).rejects.toThrow();
     });
   });

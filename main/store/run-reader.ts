@@ -39,12 +39,13 @@ async function readOptional(fs: StoreFs, path: string): Promise<string> {
   }
 }
 
-export async function readRunFolder(dir: string, options: ReadOptions = {}): Promise<RunFolderContents> {
+/** `withoutSamples`: leave samples.csv unread (samplesCsv ''), when its table comes from the column cache. */
+export async function readRunFolder(dir: string, options: ReadOptions & { withoutSamples?: boolean } = {}): Promise<RunFolderContents> {
   const fs = options.fs ?? nodeStoreFs;
   const absDir = resolve(dir);
   let meta = await readRunMeta(fs, absDir);
   if (meta.status === 'running') meta = await applyLiveness(fs, absDir, meta, options.probe);
-  const samplesCsv = await readOptional(fs, join(absDir, SAMPLES_CSV));
+  const samplesCsv = options.withoutSamples === true ? '' : await readOptional(fs, join(absDir, SAMPLES_CSV));
   const { events, droppedLines } = parseEventsJsonl(await readOptional(fs, join(absDir, EVENTS_JSONL)));
   return { meta, samplesCsv, events, droppedEventLines: droppedLines };
 }

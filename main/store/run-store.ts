@@ -99,7 +99,7 @@ async function runDir(fs: StoreFs, runsDir: string, id: unknown): Promise<string
 
 export async function openRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<OpenedRun> {
   const dir = await runDir(fsOf(options), runsDir, id);
-  const samples = await openSamples(join(dir, SAMPLES_CSV), options, () => readRunFolder(dir, options));
+  const samples = await openSamples(join(dir, SAMPLES_CSV), options, (withoutSamples) => readRunFolder(dir, { ...options, withoutSamples }));
   return { meta: samples.run.meta, samples: samples.table, events: samples.run.events, droppedEventLines: samples.run.droppedEventLines };
 }
 
