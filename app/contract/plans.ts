@@ -68,6 +68,15 @@ export const sweepPlanSchema = z
     points: z.array(siNumber).min(1).optional(),
     direction: z.enum(['up', 'down', 'up-down']).default('up'),
     readingsPerPoint: z.number().int().min(1).max(1000).default(3),
+    /**
+     * Adaptive readings (replaces readingsPerPoint): read each point at least `min` and at most
+     * `max` times, stopping once the standard error of its mean is at most `targetHz`.
+     */
+    readings: z
+      .object({ min: z.number().int().min(2).max(1000), max: z.number().int().min(2).max(1000), targetHz: siNumber.pipe(z.number().positive()) })
+      .strict()
+      .refine((r) => r.min <= r.max, { message: 'min must not exceed max', path: ['min'] })
+      .optional(),
     gateS: durationS.default(0.1),
     settle: settleSchema.default({ mode: 'auto', maxS: 2, toleranceCounts: 2 }),
     /** Bisect the stall edge down to this resolution after the coarse pass, V; 0 disables. */

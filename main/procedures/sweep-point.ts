@@ -8,6 +8,7 @@ import { InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/
 import type { ProcedureContext } from './context.ts';
 import { scatterHz } from './context.ts';
 import type { CounterReading } from './read-counter.ts';
+import { enoughReadings, readingsRule } from './point-readings.ts';
 import { TimeConstantEstimate, settleAuto, type SettleTrace } from './settle.ts';
 import type { Direction } from './sweep-points.ts';
 import type { SampleRow, SampleStatus } from './types.ts';
@@ -34,6 +35,8 @@ export interface PointResult {
   settleS: number;
   lastFrequencyHz: number;
   lastStatus: SampleStatus;
+  /** Readings recorded at the point (fixed, or as many as the adaptive rule needed). */
+  readingsTaken: number;
   /** "No signal" believed before τ was known, the port maybe still on its way from switch-on: clock time of the last such reading, else null. */
   provisionalAtS: number | null;
 }
@@ -59,7 +62,7 @@ export interface PointState {
 }
 
 export function newPointState(plan: SweepPlan): PointState {
-  return { scatterHz: 0, readingsHz: new Float64Array(plan.readingsPerPoint), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false, provisionalChain: false, pathMeanHz: Number.NaN };
+  return { scatterHz: 0, readingsHz: new Float64Array(readingsRule(plan).max), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false, provisionalChain: false, pathMeanHz: Number.NaN };
 }
 
 export async function measurePoint(
@@ -92,7 +95,7 @@ export async function measurePoint(
         trace: state.trace, expectedStepHz: state.lastStepHz,
         // From switch-on until something oscillates, with τ unknown: the point's own readings decide
         // (the last of them ends by then), checked against τ once learned (sweep.ts).
-        provisionalAfterS: point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain) ? (plan.readingsPerPoint - 0.5) * plan.gateS : undefined,
+        provisionalAfterS: point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain) ? (readingsRule(plan).min - 0.5) * plan.gateS : undefined,
       },
       state.tau,
       signal,
@@ -100,7 +103,7 @@ export async function measurePoint(
     );
     settled = outcome.settled;
     if (outcome.last !== null && (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')) {
-      settledReadings = [...outcome.held, outcome.last].slice(-plan.readingsPerPoint);
+      settledReadings = [...outcome.held, outcome.last].slice(-readingsRule(plan).max);
     }
     if (outcome.provisional && outcome.last !== null) provisionalAtS = outcome.last.atS;
     if (!settled) {
@@ -117,7 +120,9 @@ export async function measurePoint(
   const readings = state.readingsHz;
   const trace = state.trace;
   const halfGateS = plan.gateS / 2;
-  for (let r = 0; r < plan.readingsPerPoint; r++) {
+  const rule = readingsRule(plan);
+  let taken = 0;
+  for (let r = 0; !enoughReadings(rule, readings, r, 1 / plan.gateS); r++) {
     const reused = settledReadings[r] ?? null;
     const reading = reused?.reading ?? (await ctx.readFrequency());
     const endS = reused?.atS ?? ctx.clock.now();
@@ -145,10 +150,11 @@ export async function measurePoint(
     };
     if (held) held.push(row);
     else ctx.row(row);
+    taken = r + 1;
   }
   await ctx.sink.flush();
-  state.scatterHz = scatterHz(readings, plan.readingsPerPoint);
-  const meanHz = meanOf(readings, plan.readingsPerPoint);
+  state.scatterHz = scatterHz(readings, taken);
+  const meanHz = meanOf(readings, taken);
   // The step between neighbours on the sweep's path predicts the next one — also right after a
   // detour (the probe voltage); a bisection or a point measured again says nothing about it.
   if (!point.refined && point.previouslyProvisional !== true) {
@@ -167,7 +173,7 @@ export async function measurePoint(
     state.tau.fitStep(trace.timesS, trace.valuesHz, trace.n, minFitStepHz(plan.gateS));
   }
   state.provisionalChain = provisionalAtS !== null && !oscillating;
-  return { oscillating, stalled: noSignal === plan.readingsPerPoint, settled, settleS, lastFrequencyHz, lastStatus, provisionalAtS };
+  return { oscillating, stalled: noSignal === taken, readingsTaken: taken, settled, settleS, lastFrequencyHz, lastStatus, provisionalAtS };
 }
 
 /**

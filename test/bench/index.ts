@@ -12,6 +12,7 @@ import { benchStoreAppend } from './store-append.ts';
 import { runSimClockBench } from './sim-clock.ts';
 import { runCliStartBench } from './cli-start.ts';
 import { runSweepFloorBench } from './sweep-floor.ts';
+import { runAdaptiveReadingsBench } from './adaptive-readings.ts';
 
 const suites: Record<string, () => Promise<unknown>> = {
   'cli-start': () => runCliStartBench(),
@@ -19,6 +20,7 @@ const suites: Record<string, () => Promise<unknown>> = {
   analysis: async () => runAnalysisBench(),
   procedures: runProceduresBench,
   'sweep-floor': runSweepFloorBench,
+  'adaptive-readings': runAdaptiveReadingsBench,
   store: async () => {
     for (const line of await benchStoreAppend()) console.log(line);
   },
