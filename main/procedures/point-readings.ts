@@ -9,6 +9,7 @@
  * same count do not make the mean more certain than the count allows.
  */
 import type { SweepPlan } from '../../app/contract/plans.ts';
+import { scatterHz } from './context.ts';
 
 export interface ReadingsRule {
   min: number;
@@ -24,20 +25,15 @@ export function readingsRule(plan: SweepPlan): ReadingsRule {
 
 /** Standard error of the mean of the non-NaN values (Infinity with fewer than two). */
 export function standardErrorHz(values: Float64Array, n: number, resolutionHz: number): number {
-  let count = 0;
-  let mean = 0;
-  let m2 = 0;
-  for (let i = 0; i < n; i++) {
-    const v = values[i] as number;
-    if (Number.isNaN(v)) continue;
-    count++;
-    const delta = v - mean;
-    mean += delta / count;
-    m2 += delta * (v - mean);
-  }
+  const count = okCount(values, n);
   if (count < 2) return Number.POSITIVE_INFINITY;
-  const s = Math.max(Math.sqrt(m2 / (count - 1)), resolutionHz / Math.sqrt(12));
-  return s / Math.sqrt(count);
+  return Math.max(scatterHz(values, n), resolutionHz / Math.sqrt(12)) / Math.sqrt(count);
+}
+
+function okCount(values: Float64Array, n: number): number {
+  let ok = 0;
+  for (let i = 0; i < n; i++) if (!Number.isNaN(values[i] as number)) ok++;
+  return ok;
 }
 
 /** True once `taken` readings are enough under the rule. */
@@ -45,9 +41,7 @@ export function enoughReadings(rule: ReadingsRule, values: Float64Array, taken: 
   if (taken >= rule.max) return true;
   if (taken < rule.min) return false;
   if (rule.targetHz === null) return true;
-  let ok = 0;
-  for (let i = 0; i < taken; i++) if (!Number.isNaN(values[i] as number)) ok++;
   // Fewer than two oscillating readings by min: a stalled point, nothing to average.
-  if (ok < 2) return true;
+  if (okCount(values, taken) < 2) return true;
   return standardErrorHz(values, taken, resolutionHz) <= rule.targetHz;
 }
