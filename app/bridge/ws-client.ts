@@ -7,7 +7,7 @@
  * injected so tests drive it with a fake.
  */
 import type { BenchApi, BenchEvent, BenchMethod } from '../contract/bench-api.ts';
-import { BENCH_METHODS, type WireCall } from '../contract/wire.ts';
+import { BENCH_METHODS, IMPORT_PART_CHARS, MAX_IMPORT_CHARS, MAX_IMPORT_TEXT, type WireCall } from '../contract/wire.ts';
 import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
 import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
@@ -58,6 +58,23 @@ const defaultTimers: Timers = {
   setTimeout: (callback, delayMs) => globalThis.setTimeout(callback, delayMs),
   clearTimeout: (handle) => globalThis.clearTimeout(handle as ReturnType<typeof globalThis.setTimeout>),
 };
+
+/**
+ * The messages that carry one call: one, or for a long CSV import one per
+ * part (contract/wire.ts), so no message is large and a Stop from any page
+ * is read between them.
+ */
+export function wireMessages(call: WireCall): string[] {
+  const text = call.params[1];
+  if (call.method !== 'importCsv' || typeof text !== 'string' || text.length <= IMPORT_PART_CHARS) return [JSON.stringify(call)];
+  const parts = Math.ceil(text.length / IMPORT_PART_CHARS);
+  const messages: string[] = [];
+  for (let part = 0; part < parts; part += 1) {
+    const chunk = text.slice(part * IMPORT_PART_CHARS, (part + 1) * IMPORT_PART_CHARS);
+    messages.push(JSON.stringify({ ...call, params: [call.params[0], chunk, call.params[2]], part, parts }));
+  }
+  return messages;
+}
 
 interface Pending {
   method: BenchMethod;
@@ -168,7 +185,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
       const item = unsent.shift();
       if (!item) break;
       inFlight.set(item.call.id, item.pending);
-      socket.send(JSON.stringify(item.call));
+      for (const message of wireMessages(item.call)) socket.send(message);
     }
   }
 
@@ -227,6 +244,11 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     return new Promise((resolve, reject) => {
       if (closedByUser) {
         reject(new BenchCallError(method, 'the link to the bench is closed', { linkLost: true }));
+        return;
+      }
+      const text = params[1];
+      if (method === 'importCsv' && typeof text === 'string' && text.length > MAX_IMPORT_CHARS) {
+        reject(new BenchCallError(method, `csvText: is too large (at most ${MAX_IMPORT_TEXT})`, { field: 'csvText' }));
         return;
       }
       const wireCall: WireCall = { id: nextId, method, params };

@@ -9,6 +9,7 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
+import { MAX_IMPORT_CHARS, MAX_IMPORT_TEXT } from './wire.ts';
 import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from './plans.ts';
 
 /**
@@ -45,8 +46,8 @@ export const fileNameSchema = z
   .regex(/^[^/\\]*$/, 'must be a file name without a folder (no / or \\)')
   .regex(/^[^\u0000-\u001f]*$/, 'must not contain control characters');
 
-/** CSV text read in the renderer; 128 MiB holds a week-long 1 s log while bounding memory. */
-export const csvTextSchema = z.string().min(1, 'must not be empty').max(128 * 1024 * 1024, 'is too large (at most 128 MiB)');
+/** CSV text read in the renderer; the cap holds a week-long 1 s log while bounding memory (./wire.ts). */
+export const csvTextSchema = z.string().min(1, 'must not be empty').max(MAX_IMPORT_CHARS, `is too large (at most ${MAX_IMPORT_TEXT})`);
 
 interface MethodParams {
   names: readonly string[];

@@ -126,7 +126,9 @@ export type BenchEvent =
   | { type: 'progress'; progress: ProgressInfo }
   | { type: 'run-ended'; meta: RunMeta }
   | { type: 'run-event'; runId: string; event: RunEvent }
-  | { type: 'error'; message: string };
+  | { type: 'error'; message: string }
+  /** Browser mode: how many other pages drive the same bench (any of them can stop, pause or rename a run). */
+  | { type: 'peers'; others: number };
 
 export interface SerialPortInfo {
   path: string;

@@ -79,3 +79,25 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
 
 /** Optional methods the desktop preload adds (see BenchApi); the WebSocket carrier has none. */
 export const DESKTOP_METHODS: readonly DesktopMethod[] = ['printDatasheetPdf'] as const;
+
+/**
+ * A CSV import larger than one part goes as consecutive messages of one call:
+ *
+ *   { id, method: "importCsv", params: [fileName, textPart, dutId], part: i, parts: n }
+ *
+ * for i = 0 … n−1 in order, every part but the last exactly IMPORT_PART_CHARS
+ * characters (UTF-16 units) long. Main joins them (refusing at once past
+ * MAX_IMPORT_CHARS) and answers once, after the last part, like any call.
+ * No message is then large, so a Stop sent from any page is read and served
+ * between parts.
+ */
+export const IMPORT_PART_CHARS = 256 * 1024;
+
+/** Largest CSV text an import accepts (a week-long log at one reading per second is about 40 MB). */
+export const MAX_IMPORT_CHARS = 64 * 1024 * 1024;
+
+/** The cap as people read it, for error messages. */
+export const MAX_IMPORT_TEXT = '64 MiB';
+
+/** Largest single WebSocket message main accepts: an import part JSON-escaped at worst, or a long plan. */
+export const MAX_WIRE_MESSAGE_BYTES = 4 * 1024 * 1024;

@@ -1,7 +1,10 @@
 /**
  * `tunebench serve`: browser mode. Serves the app and the BenchApi on
- * 127.0.0.1 (by default) and prints a URL with a fresh access token; runs
- * until SIGINT/SIGTERM, then leaves any run's supply in the safe state.
+ * 127.0.0.1 (by default) and prints a URL with a fresh access token. Run as
+ * its own process it installs the last-resort guard
+ * (main/service/last-resort-guard.ts): SIGINT/SIGTERM/SIGHUP, a crash or a
+ * heap near its limit leave any run's supply in the safe state, recorded in
+ * the run, before the process exits.
  */
 import { homedir } from 'node:os';
 import { parseFlags } from './flags.ts';
@@ -10,6 +13,7 @@ import { resolveRunsDir } from '../store/index.ts';
 import { startBrowserServer } from '../server/http-server.ts';
 import { ensureRendererBuilt } from '../server/renderer-build.ts';
 import { createDefaultBenchService } from '../service/default-ports.ts';
+import { installLastResortGuard } from '../service/last-resort-guard.ts';
 
 const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR]
 
@@ -34,20 +38,12 @@ function parsePort(text: string | undefined): number {
   return port;
 }
 
+/** Resolves when the caller's signal stops the server (in-process use); never, when the process's guard owns the ending. */
 function waitForStop(io: CliIo): Promise<void> {
   return new Promise((resolve) => {
-    if (io.signal) {
-      if (io.signal.aborted) resolve();
-      else io.signal.addEventListener('abort', () => resolve(), { once: true });
-      return;
-    }
-    const stop = (): void => {
-      process.off('SIGINT', stop);
-      process.off('SIGTERM', stop);
-      resolve();
-    };
-    process.once('SIGINT', stop);
-    process.once('SIGTERM', stop);
+    if (!io.signal) return;
+    if (io.signal.aborted) resolve();
+    else io.signal.addEventListener('abort', () => resolve(), { once: true });
   });
 }
 
@@ -62,7 +58,8 @@ export const serveCommand: CliCommand = {
     if (!/^[A-Za-z0-9.:[\]-]+$/.test(host)) throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
     const port = parsePort(flags.values.get('port'));
     const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
-    const rendererDir = await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) });
+    // TUNEBENCH_RENDERER_DIR serves a page built elsewhere (a packaged install, the tests) instead of out/renderer.
+    const rendererDir = io.env.TUNEBENCH_RENDERER_DIR || (await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) }));
     const service = createDefaultBenchService({ runsDir });
     let server;
     try {
@@ -76,6 +73,15 @@ export const serveCommand: CliCommand = {
     }
     if (host !== '127.0.0.1' && host !== 'localhost' && host !== '::1') {
       io.stderr.write(`warning: listening on ${host}, not loopback only; anyone who can reach it and holds the token can drive the bench\n`);
+    }
+    if (!io.signal) {
+      // This process holds the bench: whatever ends it, the supply is left safe first.
+      installLastResortGuard({
+        source: process,
+        holder: service,
+        log: (line) => io.stderr.write(`${line}\n`),
+        exit: (code) => process.exit(code),
+      });
     }
     io.stderr.write(`runs folder: ${runsDir}\n`);
     io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl-C stops it\n`);

@@ -7,18 +7,22 @@
  */
 import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
+import { goSafe } from '../procedures/safe-state.ts';
 import { BenchApiError } from './errors.ts';
+import type { BenchHolder, GuardCause } from './last-resort-guard.ts';
 import { EventHub } from './event-hub.ts';
 import { LivePoller } from './live-readout.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
 
-export interface BenchService extends BenchApi {
+export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
   close(): Promise<void>;
 }
 
 export interface BenchServiceOptions extends ServicePorts {
+  /** Real ms the last-resort path waits for a run's own safe state before doing it itself. Default 8000. */
+  lastResortWaitMs?: number;
   /** Real ms between live readouts while idle. Default 333. */
   livePeriodMs?: number;
   /** Real ms between sample batches during a run. Default 150. */
@@ -100,6 +104,41 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     }
   };
 
+  /**
+   * The last-resort path (./last-resort-guard.ts): records why in the run,
+   * stops it so the procedure drives its own safe state and records the end;
+   * if the procedure does not end in time, drives the safe state here and
+   * records the run as aborted. An idle bench's control channel goes to the
+   * default safe state too. Never rejects.
+   */
+  const leaveSafe = async (cause: GuardCause): Promise<{ ok: boolean }> => {
+    let ok = true;
+    const current = run;
+    const opened = bench;
+    try {
+      if (current) {
+        const { kind: _kind, ...detail } = cause;
+        current.note({ type: 'last-resort', cause: cause.kind, ...detail });
+        current.control.stop(cause.kind === 'signal' ? 'signal' : cause.kind);
+        const ended = await Promise.race([
+          current.done.then(() => true),
+          new Promise<boolean>((resolve) => setTimeout(() => resolve(false), options.lastResortWaitMs ?? 8000).unref()),
+        ]);
+        if (!ended && opened) {
+          const result = await goSafe(opened.roles, opened.roles.controlChannel, current.safe, (event) => current.note(event));
+          ok = result.ok;
+          await current.abandon().catch(() => undefined);
+        }
+      } else if (opened) {
+        ok = (await goSafe(opened.roles, opened.roles.controlChannel, { controlV: 0, outputOff: true }, () => undefined)).ok;
+      }
+    } catch {
+      ok = false;
+    }
+    await stopLive().catch(() => undefined);
+    return { ok };
+  };
+
   const requireRun = (): RunSession => {
     if (!run) throw new BenchApiError('no run in progress');
     return run;
@@ -158,6 +197,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     restoreRun: (id) => options.store.restore(id),
     importCsv: (fileName, csvText, dutId) => options.store.importCsv(fileName, csvText, dutId),
     subscribe: (listener) => hub.subscribe(listener),
+    leaveSafe,
     async close() {
       await closeBench();
       connection = DISCONNECTED;
