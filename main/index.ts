@@ -15,6 +15,7 @@ import { isAppUrl } from './desktop/app-url.ts';
 import { hardenSessionAndContents } from './desktop/harden.ts';
 import { createIpcGate, setupBenchIpc } from './ipc/gate.ts';
 import { setupPrintPdfIpc } from './ipc/print-pdf.ts';
+import { parseAllowedHosts } from './service/address-policy.ts';
 import { createDefaultBenchService } from './service/default-ports.ts';
 import { installLastResortGuard } from './service/last-resort-guard.ts';
 import { resolveRunsDir } from './store/index.ts';
@@ -31,7 +32,11 @@ registerAppScheme();
 // One app per machine: two processes must never drive the same instruments.
 if (!app.requestSingleInstanceLock()) app.exit(0);
 
-const service = createDefaultBenchService({ runsDir: resolveRunsDir(undefined, process.env, process.platform, homedir()) });
+const service = createDefaultBenchService({
+  runsDir: resolveRunsDir(undefined, process.env, process.platform, homedir()),
+  // Instruments beyond loopback, private LANs and serial devices only when the user says so.
+  addressPolicy: { extraHosts: parseAllowedHosts(process.env.TUNEBENCH_ALLOW_ADDRESS) },
+});
 const gate = createIpcGate(ipcMain, isOwnPage);
 // The desktop process holds the bench too: a crash, a signal or a heap near its limit leaves the supply safe first.
 installLastResortGuard({

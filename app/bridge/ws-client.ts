@@ -7,7 +7,8 @@
  * injected so tests drive it with a fake.
  */
 import type { BenchApi, BenchEvent, BenchMethod } from '../contract/bench-api.ts';
-import { BENCH_METHODS, IMPORT_PART_CHARS, MAX_IMPORT_CHARS, MAX_IMPORT_TEXT, type WireCall } from '../contract/wire.ts';
+import { BENCH_METHODS, MAX_IMPORT_BYTES, MAX_IMPORT_TEXT, type WireCall } from '../contract/wire.ts';
+import { encodeImportParts } from '../contract/wire-upload.ts';
 import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
 import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
@@ -18,7 +19,7 @@ export interface SocketLike {
   readonly readyState: number;
   /** Set to "arraybuffer": binary replies (app/contract/wire.ts) are read in place. */
   binaryType?: string;
-  send(data: string): void;
+  send(data: string | Uint8Array): void;
   close(): void;
   onopen: (() => void) | null;
   onclose: (() => void) | null;
@@ -59,21 +60,21 @@ const defaultTimers: Timers = {
   clearTimeout: (handle) => globalThis.clearTimeout(handle as ReturnType<typeof globalThis.setTimeout>),
 };
 
+/** An import whose text is longer than this goes as binary parts (contract/wire.ts). */
+const STREAM_IMPORT_ABOVE_CHARS = 64 * 1024;
+
 /**
- * The messages that carry one call: one, or for a long CSV import one per
- * part (contract/wire.ts), so no message is large and a Stop from any page
- * is read between them.
+ * The messages that carry one call: one JSON text, or for a long CSV import
+ * binary parts of its UTF-8 bytes (contract/wire.ts), so no message is large,
+ * main never parses the file on its own thread, and a Stop from any page is
+ * read between parts.
  */
-export function wireMessages(call: WireCall): string[] {
-  const text = call.params[1];
-  if (call.method !== 'importCsv' || typeof text !== 'string' || text.length <= IMPORT_PART_CHARS) return [JSON.stringify(call)];
-  const parts = Math.ceil(text.length / IMPORT_PART_CHARS);
-  const messages: string[] = [];
-  for (let part = 0; part < parts; part += 1) {
-    const chunk = text.slice(part * IMPORT_PART_CHARS, (part + 1) * IMPORT_PART_CHARS);
-    messages.push(JSON.stringify({ ...call, params: [call.params[0], chunk, call.params[2]], part, parts }));
+export function wireMessages(call: WireCall): (string | Uint8Array)[] {
+  const [fileName, text, dutId] = call.params;
+  if (call.method !== 'importCsv' || typeof text !== 'string' || typeof fileName !== 'string' || typeof dutId !== 'string' || text.length <= STREAM_IMPORT_ABOVE_CHARS) {
+    return [JSON.stringify(call)];
   }
-  return messages;
+  return encodeImportParts({ id: call.id, fileName, dutId }, text);
 }
 
 interface Pending {
@@ -247,7 +248,8 @@ export function createWsBench(options: WsBenchOptions): WsBench {
         return;
       }
       const text = params[1];
-      if (method === 'importCsv' && typeof text === 'string' && text.length > MAX_IMPORT_CHARS) {
+      // UTF-8 never takes fewer bytes than UTF-16 units, so this much text is over the cap for sure; main counts the bytes.
+      if (method === 'importCsv' && typeof text === 'string' && text.length > MAX_IMPORT_BYTES) {
         reject(new BenchCallError(method, `csvText: is too large (at most ${MAX_IMPORT_TEXT})`, { field: 'csvText' }));
         return;
       }

@@ -9,7 +9,7 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
-import { MAX_IMPORT_CHARS, MAX_IMPORT_TEXT } from './wire.ts';
+import { MAX_IMPORT_BYTES, MAX_IMPORT_TEXT } from './wire.ts';
 import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from './plans.ts';
 
 /**
@@ -47,7 +47,11 @@ export const fileNameSchema = z
   .regex(/^[^\u0000-\u001f]*$/, 'must not contain control characters');
 
 /** CSV text read in the renderer; the cap holds a week-long 1 s log while bounding memory (./wire.ts). */
-export const csvTextSchema = z.string().min(1, 'must not be empty').max(MAX_IMPORT_CHARS, `is too large (at most ${MAX_IMPORT_TEXT})`);
+export const csvTextSchema = z
+  .string()
+  .min(1, 'must not be empty')
+  // Counted in UTF-16 units here; a streamed upload (./wire.ts) counts its UTF-8 bytes against the same cap.
+  .max(MAX_IMPORT_BYTES, `is too large (at most ${MAX_IMPORT_TEXT})`);
 
 interface MethodParams {
   names: readonly string[];

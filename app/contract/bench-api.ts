@@ -147,7 +147,11 @@ export interface BenchApi {
   startPushing(plan: PushingPlan, dutId: string): Promise<RunMeta>;
   pauseRun(): Promise<void>;
   resumeRun(): Promise<void>;
-  /** Clean stop: drift ends as `complete`, a sweep as `aborted`. */
+  /**
+   * Clean stop: drift ends as `complete`, a sweep as `aborted`. Resolves as
+   * soon as the run has been told to stop (served before anything else
+   * queued); the safe state follows, and `run-ended` says when it is done.
+   */
   stopRun(): Promise<void>;
 
   listRuns(): Promise<RunMeta[]>;

@@ -81,23 +81,27 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
 export const DESKTOP_METHODS: readonly DesktopMethod[] = ['printDatasheetPdf'] as const;
 
 /**
- * A CSV import larger than one part goes as consecutive messages of one call:
+ * A CSV import larger than one part goes as consecutive BINARY messages of
+ * one call (./wire-upload.ts), its text as UTF-8 bytes:
  *
- *   { id, method: "importCsv", params: [fileName, textPart, dutId], part: i, parts: n }
+ *   bytes 0..3     header length H, uint32 little-endian
+ *   bytes 4..4+H   UTF-8 JSON { id, method: "importCsv", fileName, dutId, part, parts }
+ *   the rest       the next slice of the text's UTF-8 bytes
  *
- * for i = 0 … n−1 in order, every part but the last exactly IMPORT_PART_CHARS
- * characters (UTF-16 units) long. Main joins them (refusing at once past
- * MAX_IMPORT_CHARS) and answers once, after the last part, like any call.
- * No message is then large, so a Stop sent from any page is read and served
- * between parts.
+ * for part = 0 … parts−1 in order, every slice but the last exactly
+ * IMPORT_PART_BYTES long (a slice may end inside a character; main decodes
+ * the joined bytes). Main hands each slice straight to the import's worker
+ * thread, refuses at once past MAX_IMPORT_BYTES, and answers once, after the
+ * last part, like any call. No large message is parsed on main's thread, so a
+ * Stop from any page is served between parts.
  */
-export const IMPORT_PART_CHARS = 256 * 1024;
+export const IMPORT_PART_BYTES = 256 * 1024;
 
-/** Largest CSV text an import accepts (a week-long log at one reading per second is about 40 MB). */
-export const MAX_IMPORT_CHARS = 64 * 1024 * 1024;
+/** Largest CSV an import accepts (a week-long log at one reading per second is about 40 MB). */
+export const MAX_IMPORT_BYTES = 64 * 1024 * 1024;
 
 /** The cap as people read it, for error messages. */
 export const MAX_IMPORT_TEXT = '64 MiB';
 
-/** Largest single WebSocket message main accepts: an import part JSON-escaped at worst, or a long plan. */
+/** Largest single WebSocket message main accepts: an import part, or a long plan as JSON. */
 export const MAX_WIRE_MESSAGE_BYTES = 4 * 1024 * 1024;

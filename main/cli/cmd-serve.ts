@@ -12,10 +12,11 @@ import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './type
 import { resolveRunsDir } from '../store/index.ts';
 import { startBrowserServer } from '../server/http-server.ts';
 import { ensureRendererBuilt } from '../server/renderer-build.ts';
+import { parseAllowedHosts } from '../service/address-policy.ts';
 import { createDefaultBenchService } from '../service/default-ports.ts';
 import { installLastResortGuard } from '../service/last-resort-guard.ts';
 
-const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR]
+const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR] [--allow-address HOST,…]
 
 Browser mode: serves the tunebench app and its bench connection on this
 machine and prints a URL carrying an access token (?token=…). Open that URL in
@@ -25,10 +26,16 @@ a browser on the same machine; requests without the token are refused.
   --port N      TCP port (default 7788; 0 picks a free one)
   --runs DIR    folder of saved runs (default: TUNEBENCH_RUNS, then the
                 per-user data folder)
+  --allow-address HOST,…
+                instrument hosts the page may connect to beyond loopback,
+                private LANs and serial devices ("*" for any; default:
+                TUNEBENCH_ALLOW_ADDRESS). Profiles are chosen by name only.
 
 Runs until Ctrl-C. A run in progress is stopped and its supply left in the
-safe state before the server exits. Anyone holding the URL can drive the
-bench: do not share it, and keep --host on loopback unless you must.
+safe state before the server exits — also on SIGTERM/SIGHUP, a crash or
+memory running out. Anyone holding the URL can drive the bench, and every page
+connected to it can stop, pause or rename any run (one bench, one operator):
+do not share it, and keep --host on loopback unless you must.
 `;
 
 function parsePort(text: string | undefined): number {
@@ -52,7 +59,7 @@ export const serveCommand: CliCommand = {
   summary: 'browser mode: serve the app on 127.0.0.1 with an access token',
   usage: USAGE,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['host', 'port', 'runs'] });
+    const flags = parseFlags(argv, { values: ['host', 'port', 'runs', 'allow-address'] });
     if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
     const host = flags.values.get('host') ?? '127.0.0.1';
     if (!/^[A-Za-z0-9.:[\]-]+$/.test(host)) throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
@@ -60,10 +67,11 @@ export const serveCommand: CliCommand = {
     const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
     // TUNEBENCH_RENDERER_DIR serves a page built elsewhere (a packaged install, the tests) instead of out/renderer.
     const rendererDir = io.env.TUNEBENCH_RENDERER_DIR || (await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) }));
-    const service = createDefaultBenchService({ runsDir });
+    const extraHosts = parseAllowedHosts(flags.values.get('allow-address') ?? io.env.TUNEBENCH_ALLOW_ADDRESS);
+    const service = createDefaultBenchService({ runsDir, addressPolicy: { extraHosts } });
     let server;
     try {
-      server = await startBrowserServer({ host, port, rendererDir, api: service });
+      server = await startBrowserServer({ host, port, rendererDir, api: service, openImport: service.openImport });
     } catch (error) {
       await service.close();
       const code = (error as { code?: string }).code;

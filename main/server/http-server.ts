@@ -27,6 +27,7 @@ import { MAX_WIRE_MESSAGE_BYTES } from '../../app/contract/wire.ts';
 import { securityHeaders } from './security-headers.ts';
 import { readStaticFile } from './static-files.ts';
 import { createAccessToken, readCookie, TOKEN_COOKIE, tokenMatches } from './token.ts';
+import type { OpenImport } from './import-upload.ts';
 import { attachBenchSocket } from './ws-api.ts';
 
 export interface BrowserServerOptions {
@@ -34,6 +35,8 @@ export interface BrowserServerOptions {
   port: number;
   rendererDir: string;
   api: BenchApi;
+  /** Streamed CSV imports (the service's openImport); without it, import parts are refused. */
+  openImport?: OpenImport;
   /** Fixed token for tests; a fresh random one otherwise. */
   token?: string;
 }
@@ -148,7 +151,7 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
     if (!tokenOf(request).query) return reject('401 Unauthorized');
     if (wss.clients.size >= MAX_CLIENTS) return reject('503 Service Unavailable');
     wss.handleUpgrade(request, socket, head, (ws) => {
-      attachBenchSocket(ws, options.api);
+      attachBenchSocket(ws, options.api, { openImport: options.openImport });
       ws.on('close', () => tellPeers(wss.clients));
       tellPeers(wss.clients);
     });

@@ -18,8 +18,8 @@ import { checkPayloadBounds } from '../../app/contract/payload-bounds.ts';
 import type { WireReply } from '../../app/contract/wire.ts';
 import { encodeBinaryReply } from '../../app/contract/wire-binary.ts';
 import { frameParts } from '../../app/contract/wire-parts.ts';
-import { callBenchApi, type CallOutcome } from '../service/call-guard.ts';
-import { ImportUploads } from './import-upload.ts';
+import { callBenchApi, describeError, type CallOutcome } from '../service/call-guard.ts';
+import { ImportUploads, type OpenImport } from './import-upload.ts';
 
 /** Replies to messages with no readable id carry this id. */
 export const NO_ID = -1;
@@ -42,11 +42,9 @@ const wireCallSchema = z.object({
   id: z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER),
   method: z.string().max(100),
   params: z.array(z.unknown()),
-  part: z.number().int().nonnegative().optional(),
-  parts: z.number().int().min(1).optional(),
 });
 
-type ParsedCall = { ok: true; id: number; method: string; params: unknown[]; part?: number; parts?: number };
+type ParsedCall = { ok: true; id: number; method: string; params: unknown[] };
 
 export function parseWireCall(text: string): ParsedCall | WireReply {
   let message: unknown;
@@ -66,20 +64,18 @@ export function parseWireCall(text: string): ParsedCall | WireReply {
     const detail = issue ? issue.message : 'invalid';
     return { id, ok: false, error: { message: `${field}: ${detail} (expected {"id": integer, "method": string, "params": array})`, field } };
   }
-  const { part, parts, ...call } = parsed.data;
-  if ((part === undefined) !== (parts === undefined) || (part !== undefined && (call.method !== 'importCsv' || part >= (parts ?? 0)))) {
-    return { id, ok: false, error: { message: 'part: only importCsv is sent in parts, with 0 ≤ part < parts', field: 'part' } };
-  }
-  return { ok: true, ...call, ...(part !== undefined && parts !== undefined ? { part, parts } : {}) };
+  return { ok: true, ...parsed.data };
 }
 
 export interface BenchSocketOptions {
+  /** Streamed imports (binary parts); refused when absent. */
+  openImport?: OpenImport;
   /** Called when the page is dropped for not reading its replies. */
   onDropped?: (reason: string) => void;
 }
 
 export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: BenchSocketOptions = {}): void {
-  const uploads = new ImportUploads();
+  const uploads = new ImportUploads(options.openImport);
   let inFlight = 0;
   let heavyChain: Promise<unknown> = Promise.resolve();
   let dropped = false;
@@ -118,20 +114,20 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
     for (const part of frameParts(frame)) socket.send(part, { binary: true });
   };
 
-  const run = (id: number, method: string, params: unknown[]): void => {
+  const run = (id: number, method: string, call: () => Promise<CallOutcome>): void => {
     const priority = PRIORITY_METHODS.has(method);
     if (!priority && inFlight >= MAX_IN_FLIGHT) {
       sendText({ id, ok: false, error: { message: `${method}: refused, ${MAX_IN_FLIGHT} calls from this page are still running; wait for their answers`, field: 'method' } });
       return;
     }
     if (!priority) inFlight += 1;
-    const work = (): Promise<void> => callBenchApi(api, method, params).then((outcome) => reply(id, outcome));
+    const work = (): Promise<void> => call().then((outcome) => reply(id, outcome));
     let task: Promise<void>;
     if (HEAVY_METHODS.has(method)) {
       task = heavyChain.then(work, work);
       heavyChain = task;
     } else task = work();
-    task
+    void task
       .catch(() => sendText({ id, ok: false, error: { message: `${method}: failed inside the server` } }))
       .finally(() => {
         if (!priority) inFlight -= 1;
@@ -141,10 +137,20 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
   const onMessage = (text: string): void => {
     const call = parseWireCall(text);
     if (!('method' in call)) return sendText(call);
-    if (call.part === undefined || call.parts === undefined) return run(call.id, call.method, call.params);
-    const step = uploads.accept(call.id, call.part, call.parts, call.params);
-    if (step.kind === 'refused') sendText({ id: call.id, ok: false, error: { message: step.message, field: step.field } });
-    else if (step.kind === 'done') run(call.id, call.method, step.params);
+    run(call.id, call.method, () => callBenchApi(api, call.method, call.params));
+  };
+
+  const onImportPart = (message: Uint8Array): void => {
+    const step = uploads.accept(message);
+    if (step.kind === 'refused') sendText({ id: step.id, ok: false, error: { message: step.message, field: step.field } });
+    else if (step.kind === 'done') {
+      run(step.id, 'importCsv', () =>
+        step.result.then(
+          (meta): CallOutcome => ({ ok: true, result: meta }),
+          (error: unknown): CallOutcome => ({ ok: false, error: describeError(error) }),
+        ),
+      );
+    }
   };
 
   const unsubscribe = api.subscribe((event) => {
@@ -154,11 +160,14 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
   });
   socket.on('message', (data, isBinary) => {
     try {
+      const bytes = Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data);
+      // Binary messages are import parts only (app/contract/wire.ts); everything else is JSON text.
       if (isBinary) {
-        sendText({ id: NO_ID, ok: false, error: { message: 'message: binary frames are not accepted; send JSON text', field: 'message' } });
-        return;
-      }
-      onMessage(data.toString());
+        onImportPart(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+        // One part per turn of the event loop: a page streaming a file must not hold up another page's Stop.
+        socket.pause();
+        setImmediate(() => socket.resume());
+      } else onMessage(bytes.toString());
     } catch {
       // A last net: no message may take the server down.
       sendText({ id: NO_ID, ok: false, error: { message: 'message: could not be handled', field: 'message' } });

@@ -8,7 +8,10 @@
 import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import { goSafe } from '../procedures/safe-state.ts';
+import { sanitiseText } from '../../app/contract/excerpt.ts';
+import { checkApiBench, type AddressPolicy } from './address-policy.ts';
 import { BenchApiError } from './errors.ts';
+import type { ImportStream } from './import-off-thread.ts';
 import type { BenchHolder, GuardCause } from './last-resort-guard.ts';
 import { EventHub } from './event-hub.ts';
 import { LivePoller } from './live-readout.ts';
@@ -18,9 +21,13 @@ import { startRunSession, type RunSession } from './run-session.ts';
 export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
   close(): Promise<void>;
+  /** A CSV import fed as UTF-8 slices (browser mode's streamed upload); absent when the store has none. */
+  openImport?: (fileName: string, dutId: string) => ImportStream;
 }
 
 export interface BenchServiceOptions extends ServicePorts {
+  /** What a bench reached over the API may be (./address-policy.ts); default: loopback, private LAN, serial devices. */
+  addressPolicy?: AddressPolicy;
   /** Real ms the last-resort path waits for a run's own safe state before doing it itself. Default 8000. */
   lastResortWaitMs?: number;
   /** Real ms between live readouts while idle. Default 333. */
@@ -150,16 +157,20 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     async connect(config: BenchConfig | 'sim') {
       if (connecting || starting) throw new BenchApiError('a connection attempt or a run start is already in progress');
       if (run) throw new BenchApiError(`a run is in progress (${run.meta.id}); stop it before changing the bench`);
+      await checkApiBench(config, options.addressPolicy ?? { extraHosts: new Set() });
       connecting = true;
       try {
         await closeBench();
         try {
           bench = await options.openBench(config);
         } catch (error) {
-          const message = error instanceof Error ? error.message : String(error);
+          // What a peer or a file said is shown only as a short, escaped excerpt.
+          const message = sanitiseText(error instanceof Error ? error.message : String(error), 200);
           setConnection({ ...DISCONNECTED, error: message });
           throw new BenchApiError(`connect: ${message}`);
         }
+        // An identity is whatever the peer answered: keep it short and printable.
+        bench.connection = { ...bench.connection, roles: bench.connection.roles.map((role) => ({ ...role, idn: sanitiseText(role.idn, 100) })) };
         setConnection(bench.connection);
         startLive();
         return connection;
@@ -182,9 +193,9 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       requireRun().control.resume();
     },
     async stopRun() {
-      const current = requireRun();
-      current.control.stop('stop');
-      await current.done;
+      // Answers as soon as the run has been told: it leaves its waits at once and drives the safe
+      // state, which can take a while on a busy bench; `run-ended` follows with the safe-state steps.
+      requireRun().control.stop('stop');
     },
     listRuns: () => options.store.list(),
     openRun: (id) => options.store.open(id),
@@ -197,6 +208,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     restoreRun: (id) => options.store.restore(id),
     importCsv: (fileName, csvText, dutId) => options.store.importCsv(fileName, csvText, dutId),
     subscribe: (listener) => hub.subscribe(listener),
+    ...(options.store.openImport ? { openImport: options.store.openImport.bind(options.store) } : {}),
     leaveSafe,
     async close() {
       await closeBench();

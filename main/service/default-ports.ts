@@ -14,7 +14,7 @@ import { addNote, deleteRun, listRuns, openRun, renameDut, restoreRun } from '..
 import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { createBenchService, type BenchService, type BenchServiceOptions } from './bench-service.ts';
-import { importCsvOffThread } from './import-off-thread.ts';
+import { importCsvOffThread, openImportStream } from './import-off-thread.ts';
 import { openBench } from './open-bench.ts';
 import type { ProcedurePort, RunStorePort, ServicePorts } from './ports.ts';
 
@@ -30,6 +30,7 @@ export function storePort(runsDir: string): RunStorePort {
     restore: (id) => restoreRun(runsDir, id),
     // Parsed in a worker thread: the main thread stays free to serve Stop (issue: a 10 MB import held calls 5.5 s).
     importCsv: (fileName, csvText, dutId): Promise<RunMeta> => importCsvOffThread({ runsDir, fileName, csvText, dutId }),
+    openImport: (fileName, dutId) => openImportStream({ runsDir, fileName, dutId }),
   };
 }
 

@@ -88,7 +88,7 @@ export async function startServe(options: { runsDir: string; rendererDir: string
 export interface ApiClient {
   socket: WebSocket;
   call(method: string, params: unknown[]): Promise<{ ok: boolean; result?: unknown; error?: { message: string; field?: string } }>;
-  sendRaw(text: string): void;
+  sendRaw(data: string | Uint8Array): void;
   /** The reply to a message sent with sendRaw under `id`. */
   reply(id: number): Promise<{ ok: boolean; result?: unknown; error?: { message: string; field?: string } }>;
   events: { type: string; [key: string]: unknown }[];
@@ -97,10 +97,6 @@ export interface ApiClient {
 
 export async function openApi(origin: string, token: string): Promise<ApiClient> {
   const socket = new WebSocket(`${origin.replace('http', 'ws')}/api?token=${token}`, { origin });
-  await new Promise<void>((done, fail) => {
-    socket.once('open', () => done());
-    socket.once('error', fail);
-  });
   const waiting = new Map<number, (reply: { ok: boolean; result?: unknown; error?: { message: string; field?: string } }) => void>();
   const events: { type: string; [key: string]: unknown }[] = [];
   let nextId = 1;
@@ -109,6 +105,11 @@ export async function openApi(origin: string, token: string): Promise<ApiClient>
     const message = JSON.parse(data.toString()) as { id?: number; event?: { type: string } };
     if (message.event) events.push(message.event);
     else if (typeof message.id === 'number') waiting.get(message.id)?.(message as never);
+  });
+  // Listening before the socket opens: the server's first event can ride in with the handshake.
+  await new Promise<void>((done, fail) => {
+    socket.once('open', () => done());
+    socket.once('error', fail);
   });
   return {
     socket,
