@@ -15,6 +15,14 @@ export function sanitiseText(text: string, max = 60): string {
   return text.length > max ? `${escaped}…` : escaped;
 }
 
+/** DEL, C1 controls and bidi characters: valid raw in JSON, but they garble a terminal. */
+const TERMINAL_UNSAFE_IN_JSON = /[\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g;
+
+/** JSON text with those characters written as \uXXXX escapes: the same JSON value, safe to print. */
+export function terminalSafeJson(json: string): string {
+  return json.replace(TERMINAL_UNSAFE_IN_JSON, (ch) => `\\u${ch.charCodeAt(0).toString(16).padStart(4, '0')}`);
+}
+
 /** True when `text` holds a control (other than those allowed) or bidi-override character. */
 export function hasUnsafeChars(text: string, allowed = ''): boolean {
   for (const match of text.matchAll(UNSAFE_CHARS)) if (!allowed.includes(match[0])) return true;

@@ -13,7 +13,7 @@ import { WebSocket } from 'ws';
 import { wireMessages } from '../../app/bridge/ws-client.ts';
 import { MAX_IMPORT_BYTES } from '../../app/contract/wire.ts';
 import { encodeImportParts } from '../../app/contract/wire-upload.ts';
-import { openApi, readControlChannel, startServe, startSim, stubRendererDir, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
+import { openApi, readControlChannel, type ApiClient, startServe, startSim, stubRendererDir, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
 
 let sim: SimChild;
 let serve: ServeChild;
@@ -153,7 +153,7 @@ describe('browser mode against a real serve process', () => {
 
   it('14.4: connections are capped at 8; each page is told how many others share the bench', async () => {
     const api = `${serve.origin.replace('http', 'ws')}/api?token=${serve.token}`;
-    const pages = [];
+    const pages: ApiClient[] = [];
     let refusal = '';
     // Pages of earlier tests may still be closing: open until the server says no.
     for (let i = 0; i < 9 && refusal === ''; i += 1) {
