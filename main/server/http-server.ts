@@ -37,6 +37,8 @@ export interface BrowserServerOptions {
   api: BenchApi;
   /** Streamed CSV imports (the service's openImport); without it, import parts are refused. */
   openImport?: OpenImport;
+  /** How long a reply waits for a page that does not read (tests shorten it). */
+  drainWaitMs?: number;
   /** Fixed token for tests; a fresh random one otherwise. */
   token?: string;
 }
@@ -68,6 +70,19 @@ function ownHostNames(): string[] {
   return names;
 }
 
+/**
+ * The Host headers this server answers to (DNS-rebinding guard): its own
+ * address, loopback names when on loopback, and — when listening on every
+ * interface — this machine's own addresses and name, never another domain.
+ */
+export function allowedHostHeaders(listenHost: string, port: number, ownNames: readonly string[]): Set<string> {
+  const wildcard = listenHost === '0.0.0.0' || listenHost === '::';
+  const allowed = new Set([hostPort(listenHost, port)]);
+  if (isLoopbackName(listenHost) || wildcard) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowed.add(`${name}:${port}`);
+  if (wildcard) for (const name of ownNames) allowed.add(hostPort(name.toLowerCase(), port));
+  return allowed;
+}
+
 /** Tells each connected page how many other pages drive the same bench. */
 function tellPeers(clients: Set<WebSocket>): void {
   const open = [...clients].filter((client) => client.readyState === client.OPEN);
@@ -88,11 +103,7 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
   });
   const port = (http.address() as AddressInfo).port;
   const cookieName = `${TOKEN_COOKIE}_${port}`; // cookies ignore ports; one name per server
-  const wildcard = options.host === '0.0.0.0' || options.host === '::';
-  const allowedHosts = new Set([hostPort(options.host, port)]);
-  if (isLoopbackName(options.host) || wildcard) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowedHosts.add(`${name}:${port}`);
-  // On every interface the Host must still name this machine: its addresses or its own name, never another domain.
-  if (wildcard) for (const name of ownHostNames()) allowedHosts.add(hostPort(name, port));
+  const allowedHosts = allowedHostHeaders(options.host, port, ownHostNames());
   const origin = `http://${hostPort(options.host, port)}`;
 
   const hostAllowed = (request: IncomingMessage): boolean => {
@@ -151,7 +162,7 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
     if (!tokenOf(request).query) return reject('401 Unauthorized');
     if (wss.clients.size >= MAX_CLIENTS) return reject('503 Service Unavailable');
     wss.handleUpgrade(request, socket, head, (ws) => {
-      attachBenchSocket(ws, options.api, { openImport: options.openImport });
+      attachBenchSocket(ws, options.api, { openImport: options.openImport, drainWaitMs: options.drainWaitMs });
       ws.on('close', () => tellPeers(wss.clients));
       tellPeers(wss.clients);
     });

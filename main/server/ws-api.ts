@@ -70,6 +70,8 @@ export function parseWireCall(text: string): ParsedCall | WireReply {
 export interface BenchSocketOptions {
   /** Streamed imports (binary parts); refused when absent. */
   openImport?: OpenImport;
+  /** How long a reply waits for the page to drain before the page is dropped. Default DRAIN_WAIT_MS. */
+  drainWaitMs?: number | undefined;
   /** Called when the page is dropped for not reading its replies. */
   onDropped?: (reason: string) => void;
 }
@@ -92,10 +94,11 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
   };
   /** Waits until the page has read enough of what it was sent; false when it was dropped instead. */
   const drained = async (): Promise<boolean> => {
-    const deadline = Date.now() + DRAIN_WAIT_MS;
+    const waitMs = options.drainWaitMs ?? DRAIN_WAIT_MS;
+    const deadline = Date.now() + waitMs;
     while (open() && socket.bufferedAmount > SLOW_CLIENT_BYTES) {
       if (Date.now() > deadline) {
-        drop(`the page read nothing for ${DRAIN_WAIT_MS / 1000} s with ${socket.bufferedAmount} bytes unsent`);
+        drop(`the page read nothing for ${waitMs / 1000} s with ${socket.bufferedAmount} bytes unsent`);
         return false;
       }
       await new Promise((resolve) => setTimeout(resolve, 50));
