@@ -42,3 +42,24 @@ describe('what a bench reached over the API may be (issue 14.3)', () => {
     await expect(checkApiBench('sim', strict)).resolves.toBeUndefined();
   });
 });
+
+describe('the service applies the policy before opening anything', () => {
+  it('refuses connect to a public address without ever calling openBench', async () => {
+    const { createBenchService } = await import('./bench-service.ts');
+    let opened = 0;
+    const service = createBenchService({
+      runsDir: '/nonexistent',
+      openBench: async () => {
+        opened += 1;
+        throw new Error('must not be reached');
+      },
+      listSerialPorts: async () => [],
+      listProfiles: async () => [],
+      store: {} as never,
+      procedures: {},
+    });
+    await expect(service.connect(bench('tcp://8.8.8.8:5025'))).rejects.toMatchObject({ field: 'config.counter.address' });
+    await expect(service.connect(bench('tcp://127.0.0.1:5025', '/etc/passwd'))).rejects.toMatchObject({ field: 'config.counter.profile' });
+    expect(opened).toBe(0);
+  });
+});
