@@ -5,11 +5,11 @@
  * simulated supply's state is read back over TCP afterwards. Before the
  * guard, a crash left channel 1 at `OUTP 1 / VOLT 2.5` and run.json `running`.
  */
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CRASH_TRIGGER, openApi, readControlChannel, startServe, startSim, stubRendererDir, type ApiClient, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
+import { CRASH_TRIGGER, spawnCli, openApi, readControlChannel, startServe, startSim, stubRendererDir, type ApiClient, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
 
 let sim: SimChild;
 let rendererDir: string;
@@ -121,5 +121,52 @@ describe('a real serve process leaves the simulated supply safe whatever ends it
     expect(serve.err()).toMatch(/memory: heap at \d+ of \d+ MB/);
     const meta = await expectLeftSafe(runsDir, runId, 'memory');
     expect(meta.status).toBe('aborted');
+  }, 120_000);
+});
+
+describe('a real CLI drift process takes the same last-resort path', () => {
+  async function cliDriftRunning(env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []) {
+    const dir = await mkdtemp(join(tmpdir(), 'tunebench-cli-crash-'));
+    cleanup.push(dir);
+    const runsDir = join(dir, 'runs');
+    const bench = {
+      supply: { address: sim.supply, profile: 'supply-scpi' },
+      counter: { address: sim.counter, profile: 'counter-scpi' },
+      thermometer: { address: sim.thermometer, profile: 'thermometer-scpi' },
+    };
+    await writeFile(join(dir, 'bench.json'), JSON.stringify(bench));
+    await writeFile(join(dir, 'plan.json'), JSON.stringify(DRIFT_PLAN));
+    const child = spawnCli(['drift', '--bench', join(dir, 'bench.json'), '--plan', join(dir, 'plan.json'), '--runs', runsDir, '--dut-id', 'cli-guard'], env, nodeArgs);
+    const deadline = Date.now() + 60_000;
+    let runId: string | undefined;
+    while (Date.now() < deadline && child.process.exitCode === null) {
+      runId = (await readdir(runsDir).catch(() => [] as string[])).find((name) => !name.startsWith('.'));
+      if (runId && (await readControlChannel(sim.supply)).output) break;
+      await new Promise((r) => setTimeout(r, 200));
+    }
+    expect(runId, child.err()).toBeDefined();
+    await new Promise((r) => setTimeout(r, 500)); // a few readings logged
+    expect(await readControlChannel(sim.supply)).toEqual({ output: true, volts: 2.5 });
+    return { child, runsDir, runId: runId as string };
+  }
+
+  it('on an uncaught exception in `tunebench drift`: the run is stopped, the safe state recorded in it, exit 1', async () => {
+    const { child, runsDir, runId } = await cliDriftRunning({ TUNEBENCH_TEST_TRIGGER: 'throw' }, ['--import', CRASH_TRIGGER]);
+    child.process.kill('SIGUSR2');
+    expect(await child.exited).toBe(1);
+    expect(await readControlChannel(sim.supply)).toEqual({ output: false, volts: 0 });
+    const meta = JSON.parse(await readFile(join(runsDir, runId, 'run.json'), 'utf8')) as { status: string };
+    expect(meta.status).toBe('aborted');
+    const events = await readFile(join(runsDir, runId, 'events.jsonl'), 'utf8');
+    expect(events).toMatch(/"type":"safe-state","step":"output-off","ok":true/);
+  }, 120_000);
+
+  it('on SIGHUP (terminal closed): a clean stop, the drift log ends complete with the safe state recorded', async () => {
+    const { child, runsDir, runId } = await cliDriftRunning();
+    child.process.kill('SIGHUP');
+    await child.exited;
+    expect(await readControlChannel(sim.supply)).toEqual({ output: false, volts: 0 });
+    const meta = JSON.parse(await readFile(join(runsDir, runId, 'run.json'), 'utf8')) as { status: string };
+    expect(meta.status).toBe('complete');
   }, 120_000);
 });

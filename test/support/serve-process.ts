@@ -23,7 +23,7 @@ export interface Child {
   exited: Promise<number | null>;
 }
 
-function spawnCli(args: string[], env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []): Child {
+export function spawnCli(args: string[], env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []): Child {
   const child = spawn(process.execPath, [...nodeArgs, BIN, ...args], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
   let out = '';
   let err = '';
