@@ -16,7 +16,7 @@ import { VirtualClock } from '../../time/virtual-clock.ts';
 import { RunControl } from '../run-control.ts';
 import { readCampaignFile } from './campaign-file.ts';
 import { startCampaign, type CampaignOutcome } from './run-campaign.ts';
-import { campaignDut, campaignPlanInput } from './testing/campaign-fixture.ts';
+import { campaignDut, campaignPlanInput } from './demo-campaign.ts';
 
 const dut = campaignDut();
 /** The model's noise-free frequency at control voltage v, DUT temperature t, nominal supply, long after power-on. */

@@ -1,11 +1,11 @@
 /**
- * Shared by the campaign tests and the demo: a sensor-interface DUT whose
+ * The demo campaign (tunebench demo campaign), also the tests' campaign: a sensor-interface DUT whose
  * tuning sensitivity also moves with temperature, and a three-temperature,
  * three-corner plan sized for it.
  */
-import type { CampaignPlanInput } from '../../../../app/contract/campaign-plan.ts';
-import { builtinDut } from '../../../sim/builtin-duts.ts';
-import type { DutParams } from '../../../sim/dut-params.ts';
+import type { CampaignPlanInput } from '../../../app/contract/campaign-plan.ts';
+import { builtinDut } from '../../sim/builtin-duts.ts';
+import type { DutParams } from '../../sim/dut-params.ts';
 
 /** The shipped relaxation DUT with a tuning tempco of +600 ppm/°C and a 240 s thermal time constant. */
 export function campaignDut(): DutParams {
