@@ -210,9 +210,10 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
     }
     file.status = 'complete';
   } catch (error) {
-    if (error instanceof RunStoppedError) {
+    if (error instanceof RunStoppedError || control.signal.aborted) {
+      // A stop shows as RunStoppedError at a checkpoint or as an aborted wait inside a soak.
       file.status = 'aborted';
-      file.reason = error.message;
+      file.reason = control.stopReason ?? (error instanceof Error ? error.message : 'stop');
       for (const entry of file.conditions) {
         if (entry.state === 'soaking' || entry.state === 'sweeping') { entry.state = 'waiting'; entry.message = 'stopped; done again on resume'; }
       }

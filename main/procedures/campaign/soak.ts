@@ -7,6 +7,7 @@
  */
 import type { SoakPlan } from '../../../app/contract/campaign-plan.ts';
 import type { Limits } from '../../../app/contract/plans.ts';
+import { DisconnectedError } from '../../instruments/errors.ts';
 import type { Chamber } from '../../instruments/roles.ts';
 import type { Clock } from '../../time/clock.ts';
 import { applyLimits } from '../limits.ts';
@@ -64,7 +65,11 @@ export async function soakAt(options: SoakOptions): Promise<SoakResult> {
   let last: SoakSample | null = null;
   for (;;) {
     const dutC = await thermometer.readTemperature();
-    const airC = await bench.chamber.readAirTemperature().catch(() => null);
+    // The air reading is for the record: a bad reply leaves it blank, a lost link does not pass.
+    const airC = await bench.chamber.readAirTemperature().catch((error: unknown) => {
+      if (error instanceof DisconnectedError) throw error;
+      return null;
+    });
     let frequencyHz: number | null = null;
     if (useDrift) {
       const reading = await bench.counter.readFrequency();
