@@ -4,6 +4,7 @@
  * shows as `interrupted` (and is recorded so by this very listing).
  */
 import { homedir } from 'node:os';
+import { join } from 'node:path';
 import { listRunsDetailed } from '../store/run-store.ts';
 import { resolveRunsDir } from '../store/runs-dir.ts';
 import { parseFlags } from './flags.ts';
@@ -29,8 +30,9 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     throw new UsageError(`unexpected argument "${flags.positionals[0]}"; expected only --runs DIR and --json`);
   }
   const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
-  const { runs, problems } = await listRunsDetailed(runsDir);
+  const { runs, problems, campaigns } = await listRunsDetailed(runsDir);
   for (const problem of problems) io.stderr.write(`tunebench runs: skipped ${problem.name}: ${problem.message}\n`);
+  for (const name of campaigns ?? []) io.stderr.write(`campaign folder: ${name} (its runs: tunebench runs --runs ${join(runsDir, name)})\n`);
   if (flags.booleans.has('json')) {
     io.stdout.write(`${JSON.stringify(runs, null, 2)}\n`);
     return 0;
