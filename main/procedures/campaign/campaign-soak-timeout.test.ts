@@ -64,3 +64,29 @@ describe('soak timeout', () => {
     expect(r.outcome.file.conditions[1]?.message).toMatch(/timed out/);
   });
 });
+
+describe('soak with a frequency drift limit', () => {
+  it('holds the control voltage at nominal, reads the counter, and ends the soak under the ppm/min limit', async () => {
+    const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-soakdrift-'));
+    dirs.push(runsDir);
+    const clock = new VirtualClock({ autoAdvance: true, startWallIso: '2026-06-02T18:00:00.000Z' });
+    const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { dut: campaignDut(), seed: 10 } });
+    const plan: CampaignPlanInput = campaignPlanInput({ temperaturesC: [40], supplyV: [5] });
+    plan.soak = { ...plan.soak, maxDriftPpmPerMin: 2 };
+    const frequencies: number[] = [];
+    try {
+      const outcome = await startCampaign({ bench, clock, control: new RunControl(), plan, runsDir, onSoakSample: (_e, s) => { if (s.frequencyHz !== null) frequencies.push(s.frequencyHz); } });
+      expect(outcome.file.status).toBe('complete');
+      const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as { type: string; drift_ppm_per_min?: number });
+      const done = events.find((e) => e.type === 'soak-done');
+      expect(Math.abs(done?.drift_ppm_per_min ?? 99)).toBeLessThanOrEqual(2);
+      // The counter read the DUT at 3 V through the soak: about 18.4 kHz at 25 °C for this DUT, rising with temperature.
+      expect(frequencies.length).toBeGreaterThan(30);
+      const sorted = [...frequencies].sort((a, b) => a - b);
+      expect(sorted[Math.floor(sorted.length / 2)]).toBeGreaterThan(18_300);
+      expect(sorted[Math.floor(sorted.length / 2)]).toBeLessThan(18_900);
+    } finally {
+      await bench.close();
+    }
+  });
+});

@@ -13,6 +13,7 @@ import type { Clock } from '../../time/clock.ts';
 import { LimitsError } from '../limits.ts';
 import { recordSweep, validateSweepPlan, type RecordableBench, type RecordOptions } from '../recorded-run.ts';
 import { RunStoppedError, type RunControl } from '../run-control.ts';
+import { goSafe } from '../safe-state.ts';
 import type { EventBody } from '../types.ts';
 import { campaignSafeState } from './campaign-safe.ts';
 import { appendCampaignEvent, createCampaignFolder } from './campaign-folder.ts';
@@ -168,6 +169,8 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
               if (other.unit === entry.unit && other.temperatureC === entry.temperatureC && other.state !== 'done') await setState(other, 'skipped', message);
             }
             soakedAtC = null;
+            // A drift-checked soak left the control output on; it does not stay on through a skip.
+            await safeControl(bench, plan, event);
             continue;
           }
           entry.message = message;
@@ -234,6 +237,12 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
   return { dir, file, safeStateOk: safe.ok, failure };
 }
 
+/** The control channel to its safe state; a failed step stops the campaign. */
+async function safeControl(bench: CampaignBench, plan: CampaignPlan, event: (e: EventBody) => void): Promise<void> {
+  const result = await goSafe(bench, bench.controlChannel, plan.sweep.safe, event);
+  if (!result.ok) throw new CampaignStop(`control channel not safe: ${result.failures.join('; ')}`, 'safe-state');
+}
+
 /** Stops the campaign with a reason recorded in campaign.json. */
 export class CampaignStop extends Error {
   override name = 'CampaignStop';
@@ -260,6 +269,8 @@ async function setDutSupply(bench: CampaignBench, plan: CampaignPlan, volts: num
 async function changeUnit(options: CampaignOptions, plan: CampaignPlan, chamber: Chamber, from: string, next: string, event: (e: EventBody) => void): Promise<void> {
   const { bench, clock, control } = options;
   event({ type: 'unit-change', from, to: next, safe_c: plan.safeC });
+  // Nothing drives the tuning port of a board about to be unpowered and unplugged.
+  await safeControl(bench, plan, event);
   await chamber.setSetpoint(plan.safeC);
   // Wait for the air (the door is about to open), not the DUT.
   const deadline = clock.now() + plan.soak.timeoutS;
