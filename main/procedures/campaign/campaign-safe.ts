@@ -8,42 +8,13 @@
  * Never throws.
  */
 import type { CampaignPlan } from '../../../app/contract/campaign-plan.ts';
-import { DisconnectedError } from '../../instruments/errors.ts';
-import type { Chamber, RoleName } from '../../instruments/roles.ts';
-import { goSafe } from '../safe-state.ts';
+import type { Chamber } from '../../instruments/roles.ts';
+import { goSafe, tryStep } from '../safe-state.ts';
 import type { BenchRoles, EventBody } from '../types.ts';
 
 export interface CampaignSafeResult {
   ok: boolean;
   failures: string[];
-}
-
-async function step(
-  bench: BenchRoles,
-  role: RoleName,
-  name: string,
-  action: () => Promise<void>,
-  record: (event: EventBody) => void,
-  failures: string[],
-): Promise<void> {
-  try {
-    await action();
-    record({ type: 'safe-state', step: name, ok: true });
-  } catch (error) {
-    if (error instanceof DisconnectedError && bench.reconnect) {
-      try {
-        await bench.reconnect(role);
-        await action();
-        record({ type: 'safe-state', step: name, ok: true, afterReconnect: true });
-        return;
-      } catch (retry) {
-        error = retry;
-      }
-    }
-    const message = error instanceof Error ? error.message : String(error);
-    failures.push(`${name}: ${message}`);
-    record({ type: 'safe-state', step: name, ok: false, error: message });
-  }
 }
 
 export async function campaignSafeState(
@@ -54,7 +25,7 @@ export async function campaignSafeState(
   const control = await goSafe(bench, bench.controlChannel, plan.sweep.safe, record);
   const failures = [...control.failures];
   const dutCh = bench.dutSupplyChannel;
-  await step(bench, 'supply', `dut-supply-off channel ${dutCh}`, async () => {
+  await tryStep(bench, `dut-supply-off channel ${dutCh}`, async () => {
     await bench.supply.setOutput(dutCh, false);
     if (await bench.supply.getOutput(dutCh)) throw new Error(`channel ${dutCh} still reads ON after OFF was sent`);
   }, record, failures);
@@ -63,12 +34,12 @@ export async function campaignSafeState(
     // The limits are the plan's, already checked; set here too in case the campaign failed before it set them.
     chamber.setLimits(plan.chamber);
     if (chamber.endAction === 'stop') {
-      await step(bench, 'chamber', 'chamber-stop', async () => {
+      await tryStep(bench, 'chamber-stop', async () => {
         await chamber.setRunning(false);
         if (await chamber.getRunning()) throw new Error('chamber still reads running after stop was sent');
-      }, record, failures);
+      }, record, failures, 'chamber');
     } else {
-      await step(bench, 'chamber', `chamber-setpoint ${plan.safeC} °C`, () => chamber.setSetpoint(plan.safeC), record, failures);
+      await tryStep(bench, `chamber-setpoint ${plan.safeC} °C`, () => chamber.setSetpoint(plan.safeC), record, failures, 'chamber');
     }
   }
   return { ok: failures.length === 0, failures };
