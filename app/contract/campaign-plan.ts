@@ -102,8 +102,3 @@ export function nominalControlOf(plan: Pick<CampaignPlan, 'nominalControlV' | 's
   const [lo, hi] = sweepRangeV(plan.sweep);
   return (lo + hi) / 2;
 }
-
-/** One line per field: `soak.dwellS: expected …`. */
-export function describeCampaignIssues(error: z.ZodError): string {
-  return error.issues.map((issue) => `${issue.path.length > 0 ? issue.path.join('.') : '(root)'}: ${issue.message}`).join('\n');
-}

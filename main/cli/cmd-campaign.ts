@@ -4,7 +4,8 @@
 import { readFile } from 'node:fs/promises';
 import { createInterface } from 'node:readline/promises';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
-import { campaignPlanSchema, describeCampaignIssues, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
+import { campaignPlanSchema, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
+import { describeIssues } from '../../app/contract/plans.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../bench/assemble.ts';
 import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from '../bench/cli-session.ts';
 import { loadBenchFile } from '../bench/config-files.ts';
@@ -58,7 +59,7 @@ async function loadPlan(path: string): Promise<unknown> {
     throw new UsageError(`--plan ${path}: ${(error as Error).message}`);
   }
   const parsed = campaignPlanSchema.safeParse(json);
-  if (!parsed.success) throw new UsageError(`--plan ${path}: ${describeCampaignIssues(parsed.error)}`);
+  if (!parsed.success) throw new UsageError(`--plan ${path}: ${describeIssues(parsed.error)}`);
   return json;
 }
 
