@@ -13,7 +13,8 @@ import type { SimBenchOptions } from '../../sim/sim-bench.ts';
 import { VirtualClock } from '../../time/virtual-clock.ts';
 import { RunControl } from '../run-control.ts';
 import { campaignDut, campaignPlanInput } from './demo-campaign.ts';
-import { startCampaign, type CampaignHooks } from './run-campaign.ts';
+import { resumeCampaign, startCampaign, type CampaignHooks } from './run-campaign.ts';
+import { readRunFolder } from '../../store/index.ts';
 
 const dirs: string[] = [];
 afterAll(async () => {
@@ -77,5 +78,38 @@ describe('campaign safe state', () => {
     expectSafe(result);
     // The safe state reopened the chamber's link once to reach it.
     expect(result.events.some((e) => e.type === 'safe-state' && e.step === 'chamber-setpoint 25 °C' && e.ok === true)).toBe(true);
+  });
+});
+
+describe('a stop during a sweep, then resume', () => {
+  it('keeps the stopped run as an earlier run of its condition and sweeps that condition again', async () => {
+    const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-campaignstop-'));
+    dirs.push(runsDir);
+    const plan = campaignPlanInput({ temperaturesC: [25], supplyV: [4.75, 5.25] });
+    const clock = new VirtualClock({ autoAdvance: true, startWallIso: '2026-05-02T18:00:00.000Z' });
+    const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { dut: campaignDut(), seed: 6 } });
+    try {
+      const control = new RunControl();
+      let samplesAtSecond = 0;
+      let sweepingSecond = false;
+      const stopped = await startCampaign({
+        bench, clock, control, plan, runsDir,
+        sweep: { onSample: () => { if (sweepingSecond && ++samplesAtSecond === 20) control.stop('stop'); } },
+        onState: (entry) => { if (entry.index === 1 && entry.state === 'sweeping') sweepingSecond = true; },
+      });
+      expect(stopped.file.status).toBe('aborted');
+      const second = stopped.file.conditions[1];
+      expect(second?.state).toBe('waiting');
+      expect(second?.earlierRunIds).toHaveLength(1);
+      const firstRun = stopped.file.conditions[0]?.runId;
+      const resumed = await resumeCampaign({ bench, clock, control: new RunControl(), dir: stopped.dir });
+      expect(resumed.file.status).toBe('complete');
+      expect(resumed.file.conditions[0]?.runId).toBe(firstRun);
+      expect(resumed.file.conditions[1]?.runId).not.toBe(second?.earlierRunIds[0]);
+      expect((await readRunFolder(join(stopped.dir, second?.earlierRunIds[0] as string))).meta.status).toBe('aborted');
+      expect((await readRunFolder(join(stopped.dir, resumed.file.conditions[1]?.runId as string))).meta.status).toBe('complete');
+    } finally {
+      await bench.close();
+    }
   });
 });
