@@ -1,12 +1,16 @@
 /**
  * The campaign folder: `<runs>/<YYYYMMDD-HHMMSS>-campaign-<slug>/` holding
- * campaign.json, campaign-events.jsonl and one ordinary run folder per sweep.
+ * campaign.json, campaign-events.jsonl, soak-log.csv and one ordinary run
+ * folder per sweep.
  */
-import { appendFile, mkdir } from 'node:fs/promises';
+import { appendFile, mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { dutSlug } from '../../store/run-id.ts';
 
 export const CAMPAIGN_EVENTS_FILE = 'campaign-events.jsonl';
+/** Every soak reading: condition index, campaign time, setpoint, air, DUT, frequency (empty when not read). */
+export const SOAK_LOG_FILE = 'soak-log.csv';
+export const SOAK_LOG_HEADER = 'index,time_s,setpoint_c,air_c,dut_c,frequency_hz';
 
 export async function createCampaignFolder(runsDir: string, wallIso: string, label: string): Promise<{ id: string; dir: string }> {
   const stamp = wallIso.slice(0, 19).replace(/[-:]/g, '').replace('T', '-');
@@ -28,4 +32,19 @@ export async function createCampaignFolder(runsDir: string, wallIso: string, lab
 /** Appends one event line; the campaign's own log beside its runs. */
 export async function appendCampaignEvent(dir: string, event: Record<string, unknown>): Promise<void> {
   await appendFile(join(dir, CAMPAIGN_EVENTS_FILE), `${JSON.stringify(event)}\n`, 'utf8');
+}
+
+/** Writes the soak log's header unless the file exists (a resumed campaign carries on in it). */
+export async function ensureSoakLog(dir: string): Promise<void> {
+  try {
+    await writeFile(join(dir, SOAK_LOG_FILE), `${SOAK_LOG_HEADER}\n`, { encoding: 'utf8', flag: 'wx' });
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+  }
+}
+
+/** Appends one soak reading; numbers in shortest round-trip form, empty for none. */
+export function appendSoakRow(dir: string, row: readonly (number | null)[]): Promise<void> {
+  const cells = row.map((v) => (v === null || !Number.isFinite(v) ? '' : String(v))).join(',');
+  return appendFile(join(dir, SOAK_LOG_FILE), `${cells}\n`, 'utf8');
 }

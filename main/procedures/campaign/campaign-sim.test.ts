@@ -89,6 +89,22 @@ describe('campaign on the simulated bench', () => {
     expect(analysis.headroom.every((r) => r.inWindow)).toBe(true);
   });
 
+  it('logs every soak reading, converging on each setpoint', async () => {
+    const rows = (await readFile(join(outcome.dir, 'soak-log.csv'), 'utf8')).trim().split('\n');
+    expect(rows[0]).toBe('index,time_s,setpoint_c,air_c,dut_c,frequency_hz');
+    const byIndex = new Map<number, number[][]>();
+    for (const line of rows.slice(1)) {
+      const cells = line.split(',').map(Number);
+      byIndex.set(cells[0] as number, [...(byIndex.get(cells[0] as number) ?? []), cells]);
+    }
+    // One soak per temperature (at the first supply corner of each).
+    expect([...byIndex.keys()]).toEqual([0, 3, 6]);
+    for (const readings of byIndex.values()) {
+      const last = readings[readings.length - 1] as number[];
+      expect(Math.abs((last[4] as number) - (last[2] as number))).toBeLessThanOrEqual(0.2);
+    }
+  });
+
   it('leaves the supply off and the chamber heading to safeC', () => {
     const snap = bench.sim?.snapshot();
     expect(snap?.supply[0].outputOn).toBe(false);

@@ -16,7 +16,7 @@ import { RunStoppedError, type RunControl } from '../run-control.ts';
 import { goSafe } from '../safe-state.ts';
 import type { EventBody } from '../types.ts';
 import { campaignSafeState } from './campaign-safe.ts';
-import { appendCampaignEvent, createCampaignFolder } from './campaign-folder.ts';
+import { appendCampaignEvent, appendSoakRow, createCampaignFolder, ensureSoakLog } from './campaign-folder.ts';
 import { CAMPAIGN_SCHEMA, readCampaignFile, writeCampaignFile, type CampaignEntry, type CampaignFile } from './campaign-file.ts';
 import { orderConditions } from './condition-order.ts';
 import { soakAt, type SoakSample } from './soak.ts';
@@ -120,6 +120,7 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
   };
 
   let failure: string | null = null;
+  await ensureSoakLog(dir);
   event({ type: resumed ? 'campaign-resume' : 'campaign-start', conditions: file.conditions.length });
   await save();
   const nominalControlV = nominalControlOf(plan);
@@ -153,7 +154,10 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
           signal: control.signal,
           drift: { controlV: nominalControlV, limits: plan.sweep.limits, gateS: plan.sweep.gateS },
           event,
-          onSample: (sample) => options.onSoakSample?.(entry, sample),
+          onSample: (sample) => {
+            events.push(appendSoakRow(dir, [entry.index, sample.timeS - startS, sample.setpointC, sample.airC, sample.dutC, sample.frequencyHz]).catch(() => undefined));
+            options.onSoakSample?.(entry, sample);
+          },
         });
         entry.soak = { ...soak };
         if (soak.result === 'timeout') {
