@@ -11,6 +11,7 @@ import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from '../bench/cli-
 import { loadBenchFile } from '../bench/config-files.ts';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { campaignSafeState } from '../procedures/campaign/campaign-safe.ts';
+import { CampaignBusyError } from '../procedures/campaign/campaign-folder.ts';
 import { readCampaignFile, CampaignFileError } from '../procedures/campaign/campaign-file.ts';
 import { resumeCampaign, startCampaign, validateCampaign, type CampaignHooks, type CampaignOutcome } from '../procedures/campaign/run-campaign.ts';
 import { stopOnSignals } from '../procedures/exit-guard.ts';
@@ -154,6 +155,7 @@ async function run(argv: string[], io: CliIo): Promise<number> {
       : startCampaign({ bench, clock, control, plan: planInput, runsDir: runsDirFrom(flags.values.get('runs'), io), ...hooks });
     outcome = await work.catch((error: unknown) => {
       if (error instanceof LimitsError) asUsageError(error);
+      if (error instanceof CampaignBusyError || error instanceof CampaignFileError) throw new UsageError(error.message);
       throw error;
     });
   } finally {

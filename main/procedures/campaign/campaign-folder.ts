@@ -4,7 +4,9 @@
  * folder per sweep.
  */
 import { appendFile, mkdir, writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
+import { makeLock, readLock, registerOpenWriter, removeLock, unregisterOpenWriter, writeLock, writerAlive } from '../../store/writer-lock.ts';
+import { nodeStoreFs } from '../../store/store-fs.ts';
 import { dutSlug } from '../../store/run-id.ts';
 
 export const CAMPAIGN_EVENTS_FILE = 'campaign-events.jsonl';
@@ -47,4 +49,32 @@ export async function ensureSoakLog(dir: string): Promise<void> {
 export function appendSoakRow(dir: string, row: readonly (number | null)[]): Promise<void> {
   const cells = row.map((v) => (v === null || !Number.isFinite(v) ? '' : String(v))).join(',');
   return appendFile(join(dir, SOAK_LOG_FILE), `${cells}\n`, 'utf8');
+}
+
+/**
+ * Claims the campaign folder for this process with the store's writer lock
+ * (pid, host, heartbeat), so a second process cannot resume a campaign that
+ * is still running. Refuses when a live writer holds it. Returns the
+ * heartbeat (call on each save) and the release.
+ */
+export async function claimCampaignFolder(dir: string, startedAtIso: string): Promise<{ beat(): Promise<void>; release(): Promise<void> }> {
+  const abs = resolve(dir);
+  const held = await readLock(nodeStoreFs, abs);
+  if (writerAlive(held, abs)) {
+    throw new CampaignBusyError(`${dir}: the campaign is still running (pid ${held?.pid ?? '?'} on ${held?.host ?? '?'}); stop it before resuming`);
+  }
+  const write = (): Promise<void> => writeLock(nodeStoreFs, abs, makeLock(startedAtIso, Date.now()));
+  await write();
+  registerOpenWriter(abs);
+  return {
+    beat: write,
+    async release() {
+      unregisterOpenWriter(abs);
+      await removeLock(nodeStoreFs, abs);
+    },
+  };
+}
+
+export class CampaignBusyError extends Error {
+  override name = 'CampaignBusyError';
 }

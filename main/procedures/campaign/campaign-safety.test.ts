@@ -8,7 +8,7 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG } from '../../bench/assemble.ts';
+import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../../bench/assemble.ts';
 import type { SimBenchOptions } from '../../sim/sim-bench.ts';
 import { VirtualClock } from '../../time/virtual-clock.ts';
 import { RunControl } from '../run-control.ts';
@@ -21,7 +21,7 @@ afterAll(async () => {
   for (const dir of dirs) await rm(dir, { recursive: true, force: true });
 });
 
-async function campaignWith(sim: Omit<SimBenchOptions, 'clock' | 'dut'>, hooks: (control: RunControl) => CampaignHooks = () => ({}), reconnect?: { attempts: number; delayS: number }) {
+async function campaignWith(sim: Omit<SimBenchOptions, 'clock' | 'dut'>, hooks: (control: RunControl, bench: AssembledBench) => CampaignHooks = () => ({}), reconnect?: { attempts: number; delayS: number }) {
   const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-campaignsafe-'));
   dirs.push(runsDir);
   const clock = new VirtualClock({ autoAdvance: true, startWallIso: '2026-05-01T18:00:00.000Z' });
@@ -29,7 +29,7 @@ async function campaignWith(sim: Omit<SimBenchOptions, 'clock' | 'dut'>, hooks: 
   const control = new RunControl();
   try {
     // Start warm, so the chamber's safe setpoint (25 °C) differs from where it stands when the run ends.
-    const outcome = await startCampaign({ bench, clock, control, plan: campaignPlanInput({ temperaturesC: [60, -10] }), runsDir, ...hooks(control) });
+    const outcome = await startCampaign({ bench, clock, control, plan: campaignPlanInput({ temperaturesC: [60, -10] }), runsDir, ...hooks(control, bench) });
     const snap = bench.sim?.snapshot();
     const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as Record<string, unknown>);
     return { outcome, snap, events };
@@ -63,10 +63,13 @@ describe('campaign safe state', () => {
     expect(result.outcome.safeStateOk).toBe(true);
   });
 
-  it('on an instrument error (the supply reports a SCPI error mid-campaign)', async () => {
-    const result = await campaignWith({ seed: 3, faults: [{ type: 'error', device: 'supply', atS: 2500, code: -222, message: 'Data out of range' }] });
+  it('on an instrument error (the chamber reports a SCPI error during the first soak)', async () => {
+    // Counted by readings (air temperature queries), not time: the 30th falls inside the first soak;
+    // the chamber's next write (the second temperature's setpoint) reports it.
+    const result = await campaignWith({ seed: 3, faults: [{ type: 'error', device: 'chamber', atReading: 30, code: -222, message: 'Data out of range' }] });
     expect(result.outcome.file.status).toBe('failed');
-    expect(result.outcome.failure).toMatch(/-222|Data out of range/);
+    expect(result.outcome.failure).toMatch(/-222, "Data out of range" after TEMP:SETP/);
+    expect(result.outcome.file.conditions.map((c) => c.state)).toEqual(['done', 'done', 'done', 'failed', 'waiting', 'waiting']);
     expectSafe(result);
   });
 
@@ -78,6 +81,31 @@ describe('campaign safe state', () => {
     expectSafe(result);
     // The safe state reopened the chamber's link once to reach it.
     expect(result.events.some((e) => e.type === 'safe-state' && e.step === 'chamber-setpoint 25 °C' && e.ok === true)).toBe(true);
+  });
+});
+
+describe('a campaign folder in use', () => {
+  it('refuses a resume while the campaign is still running, and allows it once it has stopped', async () => {
+    let dir = '';
+    let refusal: unknown = null;
+    const result = await campaignWith({ seed: 8 }, (control, bench) => ({
+      onState: (entry, file) => {
+        if (entry.index === 0 && entry.state === 'soaking') dir = file.id;
+      },
+      onSoakSample: () => {
+        if (refusal !== null || dir === '') return;
+        refusal = 'pending';
+        void resumeCampaign({ bench, clock: new VirtualClock(), control: new RunControl(), dir: join(dirs[dirs.length - 1] as string, dir) }).then(
+          () => { refusal = 'resumed'; },
+          (error: unknown) => { refusal = error; control.stop('stop'); },
+        );
+      },
+    }));
+    expect(refusal).toBeInstanceOf(Error);
+    expect((refusal as Error).message).toMatch(/the campaign is still running \(pid \d+/);
+    expect(result.outcome.file.status).toBe('aborted');
+    // Stopped: the lock is gone and another resume may claim the folder.
+    await expect(readFile(join(result.outcome.dir, 'writer.lock'), 'utf8')).rejects.toThrow(/ENOENT/);
   });
 });
 

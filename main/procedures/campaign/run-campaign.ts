@@ -16,7 +16,7 @@ import { RunStoppedError, type RunControl } from '../run-control.ts';
 import { goSafe } from '../safe-state.ts';
 import type { EventBody } from '../types.ts';
 import { campaignSafeState } from './campaign-safe.ts';
-import { appendCampaignEvent, appendSoakRow, createCampaignFolder, ensureSoakLog } from './campaign-folder.ts';
+import { appendCampaignEvent, appendSoakRow, claimCampaignFolder, createCampaignFolder, ensureSoakLog } from './campaign-folder.ts';
 import { CAMPAIGN_SCHEMA, readCampaignFile, writeCampaignFile, type CampaignEntry, type CampaignFile } from './campaign-file.ts';
 import { orderConditions } from './condition-order.ts';
 import { soakAt, type SoakSample } from './soak.ts';
@@ -95,14 +95,26 @@ export async function resumeCampaign(options: CampaignOptions & { dir: string })
 }
 
 async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: string, file: CampaignFile, resumed = false): Promise<CampaignOutcome> {
-  const { bench, clock, control } = options;
+  const { bench, clock } = options;
   const chamber = bench.chamber as Chamber;
   const startS = clock.now();
+  const claim = await claimCampaignFolder(dir, file.createdAt);
+  try {
+    return await runClaimed(options, plan, dir, file, resumed, chamber, startS, claim.beat);
+  } finally {
+    await claim.release();
+  }
+}
+
+async function runClaimed(
+  options: CampaignOptions, plan: CampaignPlan, dir: string, file: CampaignFile, resumed: boolean, chamber: Chamber, startS: number, beat: () => Promise<void>,
+): Promise<CampaignOutcome> {
+  const { bench, clock, control } = options;
   let writes = Promise.resolve();
   const save = (): Promise<void> => {
     file.updatedAt = clock.wallTimeIso();
     const snapshot = structuredClone(file);
-    writes = writes.then(() => writeCampaignFile(dir, snapshot));
+    writes = writes.then(() => writeCampaignFile(dir, snapshot)).then(beat);
     return writes;
   };
   const events: Promise<void>[] = [];
