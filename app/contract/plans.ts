@@ -124,6 +124,8 @@ export const benchConfigSchema = z.object({
   }),
   counter: instrumentConfigSchema,
   thermometer: instrumentConfigSchema.optional(),
+  /** Temperature chamber (campaigns only); the thermometer on the DUT is the soak reference. */
+  chamber: instrumentConfigSchema.optional(),
 });
 
 export type SweepPlan = z.output<typeof sweepPlanSchema>;

@@ -5,6 +5,7 @@
  */
 import { sanitiseText, terminalSafeJson } from '../../app/contract/excerpt.ts';
 import { homedir } from 'node:os';
+import { join } from 'node:path';
 import { listRunsDetailed } from '../store/run-store.ts';
 import { resolveRunsDir } from '../store/runs-dir.ts';
 import { parseFlags } from './flags.ts';
@@ -30,8 +31,9 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     throw new UsageError(`unexpected argument "${flags.positionals[0]}"; expected only --runs DIR and --json`);
   }
   const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
-  const { runs, problems } = await listRunsDetailed(runsDir);
+  const { runs, problems, campaigns } = await listRunsDetailed(runsDir);
   for (const problem of problems) io.stderr.write(`tunebench runs: skipped ${sanitiseText(problem.name, 200)}: ${sanitiseText(problem.message, 400)}\n`);
+  for (const name of campaigns ?? []) io.stderr.write(`campaign folder: ${sanitiseText(name, 200)} (its runs: tunebench runs --runs ${sanitiseText(join(runsDir, name), 400)})\n`);
   if (flags.booleans.has('json')) {
     // JSON.stringify leaves C1 controls and bidi overrides raw; as \uXXXX escapes the JSON means the same and the terminal stays intact.
     io.stdout.write(`${terminalSafeJson(JSON.stringify(runs, null, 2))}\n`);

@@ -28,6 +28,8 @@ export interface ListResult {
   runs: RunMeta[];
   /** Folders that look like runs but could not be read, with the reason. */
   problems: { name: string; message: string }[];
+  /** Campaign folders (campaign.json; their runs are inside): names only. */
+  campaigns?: string[];
 }
 
 export interface OpenedRun extends RunDetail {
@@ -76,6 +78,10 @@ export async function listRunsDetailed(runsDir: string, options: ReadOptions = {
     const dir = join(runsDir, name);
     const stat = await fs.stat(dir).catch(() => null);
     if (!stat?.isDirectory()) continue;
+    if (!(await exists(fs, join(dir, 'run.json'))) && (await exists(fs, join(dir, 'campaign.json')))) {
+      (result.campaigns ??= []).push(name);
+      continue;
+    }
     try {
       result.runs.push(await readRunStatus(dir, options));
     } catch (error) {
