@@ -41,7 +41,23 @@ async function buildCli() {
     // The sources find resources/ from their own URL; the bundle sits as deep as they do.
     banner: { js: "const __tunebenchModuleUrl = require('node:url').pathToFileURL(__filename).href;" },
   });
-  const inputs = Object.keys(result.metafile.inputs)
+  // The CSV import worker (main/service/import-off-thread.ts) is its own entry beside the bundle:
+  // out/cli/import-worker.js, an ES module (the package is "type": "module").
+  const worker = await build({
+    absWorkingDir: PROJECT_ROOT,
+    entryPoints: ['main/service/import-worker.ts'],
+    outfile: fileURLToPath(new URL('../../out/cli/import-worker.js', import.meta.url)),
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    external: EXTERNAL,
+    metafile: true,
+    logLevel: 'warning',
+    legalComments: 'none',
+    banner: { js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);" },
+  });
+  const inputs = [...new Set([...Object.keys(result.metafile.inputs), ...Object.keys(worker.metafile.inputs)])]
     .map((input) => relative(PROJECT_ROOT, `${PROJECT_ROOT}${input}`).split(sep).join('/'))
     .filter((input) => !input.startsWith('node_modules/'));
   // A dependency upgrade changes package.json or the lock file.
