@@ -52,9 +52,12 @@ describe('analyzeSweep on an exact straight line with a stall edge', () => {
     expect(result.kvco.linear.toV).toBeCloseTo(3, 12);
     expect(result.kvco.minHzPerV).toBeCloseTo(2e5, 4);
     expect(result.kvco.maxHzPerV).toBeCloseTo(2e5, 4);
-    expect(result.fit.degree).toBe(1);
-    expect(result.fit.coefficients[0]).toBeCloseTo(1e5, 4);
-    expect(result.fit.coefficients[1]).toBeCloseTo(2e5, 4);
+    expect(result.fit.model).toBe('spline');
+    // The polynomial option still picks the straight line (AICc).
+    const poly = analyzeSweep(toInput(lineSweep(), 0.1), { fit: 'auto' });
+    expect(poly.fit.degree).toBe(1);
+    expect(poly.fit.coefficients[0]).toBeCloseTo(1e5, 4);
+    expect(poly.fit.coefficients[1]).toBeCloseTo(2e5, 4);
   });
   it('gives a local entry at every oscillating point, finite differences agreeing', () => {
     expect(result.kvco.local).toHaveLength(25);
@@ -132,8 +135,9 @@ describe('analyzeSweep on a quadratic tuning curve', () => {
   }
   const result = analyzeSweep(toInput(readings), { nominalV: 2.5 });
   it('chooses degree 2 and recovers the closed-form Kvco', () => {
-    expect(result.fit.degree).toBe(2);
-    expect(result.fit.coefficients[2]).toBeCloseTo(-2e4, 5);
+    // A parabola lies in the spline penalty's null space: the spline reproduces it exactly.
+    expect(result.fit.model).toBe('spline');
+    expect(analyzeSweep(toInput(readings), { fit: 'auto' }).fit.coefficients[2]).toBeCloseTo(-2e4, 5);
     expect(result.kvco.maxHzPerV).toBeCloseTo(3e5 - 4e4 * 0.5, 4);
     expect(result.kvco.minHzPerV).toBeCloseTo(3e5 - 4e4 * 4.5, 4);
     expect(result.kvco.nominal.hzPerV).toBeCloseTo(2e5, 4);
