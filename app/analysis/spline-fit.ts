@@ -23,7 +23,7 @@
 import { evalPoly, fitPolynomial } from './poly-fit.ts';
 
 const BAND = 3; // cubic B-splines overlap 4 wide; the 3rd-difference penalty too
-const MAX_SEGMENTS = 60;
+const MAX_SEGMENTS = 40;
 
 export interface SplineFit {
   model: 'spline';
@@ -123,7 +123,9 @@ export function fitUniformSpline(xs: Float64Array, ys: Float64Array, u: Float64A
   if (n < 6) throw new RangeError(`a spline needs at least 6 points (got ${n})`);
   const fromV = xs[i0] as number;
   const toV = xs[i1 - 1] as number;
-  const segments = Math.max(3, Math.min(MAX_SEGMENTS, n - 3));
+  // About two points per segment: every basis function rests on data, so even a
+  // small λ leaves the coefficients determined (K < n).
+  const segments = Math.max(3, Math.min(MAX_SEGMENTS, Math.floor(n / 2)));
   const h = (toV - fromV) / segments;
   const k = segments + 3;
   // Weights 1/u², with u floored at half the median: a point whose few readings

@@ -218,6 +218,23 @@ function curveSamples(model: TuningModel, fromV: number, toV: number): SweepAnal
   return { v, hz, sdHz };
 }
 
+/**
+ * Where a flat top begins: between the last usable point and the first flat
+ * one, ± half that step. When the last usable step is itself already below half
+ * the median step slope, the bend lies somewhere in it too, and the interval
+ * starts one point lower (the edge is quoted with the interval it can be in).
+ */
+function saturationEdge(v: Float64Array, f: Float64Array, i0: number, i1: number): { edgeV: number; uncertaintyV: number } {
+  const slopes: number[] = [];
+  for (let i = i0; i < i1 - 1; i++) slopes.push(Math.abs(((f[i + 1] as number) - (f[i] as number)) / ((v[i + 1] as number) - (v[i] as number))));
+  const sorted = [...slopes].sort((a, b) => a - b);
+  const median = sorted[sorted.length >> 1] ?? 0;
+  const last = slopes[slopes.length - 1] ?? Infinity;
+  const lo = last < 0.5 * median && i1 - 2 >= i0 ? (v[i1 - 2] as number) : (v[i1 - 1] as number);
+  const hi = v[i1] as number;
+  return { edgeV: (lo + hi) / 2, uncertaintyV: (hi - lo) / 2 };
+}
+
 export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
@@ -240,9 +257,8 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const i1 = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
   let saturation: SweepAnalysis['kvco']['saturation'] = null;
   if (i1 < afterTurn) {
+    saturation = saturationEdge(points.v, points.meanHz, i0, i1);
     const below = points.v[i1 - 1] as number;
-    const above = points.v[i1] as number;
-    saturation = { edgeV: (below + above) / 2, uncertaintyV: (above - below) / 2 };
     warnings.push(
       `the tuning curve flattens above ${below} V (Kvco below ${flatFraction * 100} % of its median; edge ${saturation.edgeV} ± ${saturation.uncertaintyV} V); ` +
         'the usable range ends there',

@@ -20,13 +20,17 @@ export function localKvcoEntries(
   let misfits = 0;
   for (let i = 0; i < points.count; i++) {
     if ((points.nOsc[i] as number) === 0) continue;
+    // Inside the fit range the local line stays inside it too, so a kink just
+    // outside (a clamped drive, a stall) does not pull the cross-check.
+    const inFit = i >= i0 && i < i1;
+    const lo = inFit ? i0 : 0;
+    const hi = inFit ? i1 : points.count;
     let r0 = i;
-    while (r0 > 0 && (points.nOsc[r0 - 1] as number) > 0 && r0 > i - 2) r0--;
+    while (r0 > lo && (points.nOsc[r0 - 1] as number) > 0 && r0 > i - 2) r0--;
     let r1 = i + 1;
-    while (r1 < points.count && (points.nOsc[r1] as number) > 0 && r1 < i + 3) r1++;
+    while (r1 < hi && (points.nOsc[r1] as number) > 0 && r1 < i + 3) r1++;
     const fd = localSlope(points.v, points.meanHz, u, r0, r1);
     const vi = points.v[i] as number;
-    const inFit = i >= i0 && i < i1;
     const k = inFit ? fitKvco(model, vi) : null;
     // Cross-check: where the fit's slope and the local one differ by more than 3σ and
     // 10 %, the polynomial is not following the curve (e.g. the steep onset just above
