@@ -21,7 +21,10 @@ function sweepLines(a: SweepAnalysis): string[] {
   ];
   const w = k.widestLinearRange;
   if (w) lines.push(`linear within ±${formatNumber(w.limitPct, 3)} %  ${formatSi(w.fromV, 'V')} … ${formatSi(w.toV, 'V')}`);
-  lines.push(`fit               polynomial degree ${a.fit.degree} (${a.fit.selection}), residual SD ${formatSi(a.fit.residualStdDevHz, 'Hz')}`);
+  const model = a.fit.model === 'spline' ? `cubic spline, ${formatNumber(a.fit.effectiveDegreesOfFreedom, 3)} effective parameters` : `polynomial degree ${a.fit.degree}`;
+  lines.push(`fit               ${model} over ${formatSi(a.fit.fromV, 'V')} … ${formatSi(a.fit.toV, 'V')}, residual SD ${formatSi(a.fit.residualStdDevHz, 'Hz', 2)} against ${formatSi(a.fit.pointScatterHz, 'Hz', 2)} point scatter`);
+  lines.push(`window            ${formatSi(a.window.fromV, 'V')} … ${formatSi(a.window.toV, 'V')} (${a.window.source === 'auto' ? 'automatic usable range' : a.window.source === 'plan' ? "the plan's" : '--window'})`);
+  if (k.saturation) lines.push(`flattens above    ${formatSiWithUncertainty(k.saturation.edgeV, k.saturation.uncertaintyV, 'V')}`);
   if (a.hysteresis) {
     const h = a.hysteresis;
     lines.push(

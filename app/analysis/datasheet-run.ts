@@ -19,6 +19,8 @@ export interface PlanHints {
   gateS?: number;
   supplyV?: number;
   dutSupplyV?: number;
+  /** The plan's tuning window, V. */
+  window?: { fromV: number; toV: number };
 }
 
 // Each field on its own: a malformed one is ignored, the others still count (they are hints).
@@ -26,6 +28,7 @@ const planHintsSchema = z.looseObject({
   gateS: z.number().positive().optional().catch(undefined),
   supplyV: z.number().optional().catch(undefined),
   dutSupplyV: z.number().optional().catch(undefined),
+  window: z.object({ fromV: z.number(), toV: z.number() }).optional().catch(undefined),
 });
 
 /** Plan hints from a run's plan (unvalidated: any shape). */
@@ -37,6 +40,8 @@ export function planHints(plan: unknown): PlanHints {
     const value = parsed.data[key];
     if (value !== undefined && Number.isFinite(value)) hints[key] = value;
   }
+  const w = parsed.data.window;
+  if (w && Number.isFinite(w.fromV) && Number.isFinite(w.toV) && w.toV > w.fromV) hints.window = { fromV: w.fromV, toV: w.toV };
   return hints;
 }
 

@@ -161,6 +161,7 @@ function fitModel(
         fromV,
         toV,
         points: n,
+        unsettledLeftOutV: [],
         curve: curveSamples(splineModel(fit), fromV, toV),
       },
     };
@@ -197,6 +198,7 @@ function fitModel(
       fromV,
       toV,
       points: n,
+      unsettledLeftOutV: [],
       curve: curveSamples(model, fromV, toV),
     },
   };
@@ -326,6 +328,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const rising = (points.meanHz[kf1 - 1] as number) >= (points.meanHz[kf0] as number);
   const monotone = falls ? null : rising ? 'rising' : 'falling';
   const { model, json: fitJson } = fitModel(points, u, keep, options, monotone, warnings, rmsU);
+  fitJson.unsettledLeftOutV = leftOut;
   if (Number.isFinite(fitJson.residualStdDevHz) && fitJson.residualStdDevHz > 1.5 * rmsU) {
     warnings.push(
       `the ${fitJson.model} fit leaves residual SD ${fitJson.residualStdDevHz.toPrecision(3)} Hz against ${rmsU.toPrecision(3)} Hz point scatter: ` +

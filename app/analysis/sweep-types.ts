@@ -71,6 +71,8 @@ export interface SweepAnalysis {
     fromV: number;
     toV: number;
     points: number;
+    /** Points that never settled and were left out (see `--keep-unsettled`). */
+    unsettledLeftOutV: number[];
     /** The fitted curve and its 1σ band on an even grid over fromV…toV. */
     curve: { v: number[]; hz: number[]; sdHz: number[] };
   };

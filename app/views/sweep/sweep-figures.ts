@@ -24,10 +24,20 @@ export function evalFit(coefficients: readonly number[], v: number): number {
   return sum;
 }
 
-/** The fitted curve on the display x column; null outside the fitted range. */
+/** The fitted curve on the display x column; null outside the fitted range. A spline comes as samples (fit.curve). */
 export function fitOnX(analysis: SweepAnalysis, x: readonly number[]): (number | null)[] {
-  const { coefficients, fromV, toV } = analysis.fit;
-  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? evalFit(coefficients, v) : null));
+  const { coefficients, fromV, toV, curve } = analysis.fit;
+  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? (coefficients.length ? evalFit(coefficients, v) : onCurve(curve, v)) : null));
+}
+
+/** Linear interpolation in the fitted curve's samples (display only). */
+function onCurve(curve: SweepAnalysis['fit']['curve'], v: number): number {
+  let i = 1;
+  while (i < curve.v.length - 1 && (curve.v[i] as number) < v) i++;
+  const v0 = curve.v[i - 1] as number;
+  const v1 = curve.v[i] as number;
+  const t = v1 > v0 ? (v - v0) / (v1 - v0) : 0;
+  return (curve.hz[i - 1] as number) + t * ((curve.hz[i] as number) - (curve.hz[i - 1] as number));
 }
 
 export function stallRegions(thresholdV: number | null, unstableBelowV: number | null): XRegion[] {
@@ -57,10 +67,9 @@ export function gainColumns(analysis: SweepAnalysis): GainColumns {
 }
 
 export function residualColumns(analysis: SweepAnalysis): { v: number[]; residualHz: (number | null)[] } {
-  const { coefficients, fromV, toV } = analysis.fit;
   const points = analysis.points.filter((p) => Number.isFinite(p.meanHz)).sort((a, b) => a.v - b.v);
   return {
     v: points.map((p) => p.v),
-    residualHz: points.map((p) => (p.v >= fromV - 1e-12 && p.v <= toV + 1e-12 && !p.unstable ? p.meanHz - evalFit(coefficients, p.v) : null)),
+    residualHz: points.map((p) => (p.fitHz !== null && !p.unstable ? p.meanHz - p.fitHz : null)),
   };
 }
