@@ -5,6 +5,7 @@ import type { AnyAnalysis } from './analyze-table.ts';
 import type { DriftAnalysis } from './drift-analysis.ts';
 import { formatDuration, formatNumber, formatPlain, formatSi, formatSiWithUncertainty } from './format-si.ts';
 import type { PushingAnalysis } from './pushing-analysis.ts';
+import type { RunQuality } from './run-quality.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
 
 function sweepLines(a: SweepAnalysis): string[] {
@@ -54,8 +55,21 @@ function pushingLines(a: PushingAnalysis): string[] {
   ];
 }
 
+function qualityLine(q: RunQuality): string {
+  const parts = [
+    `${q.settleTimeouts.count} settle timeout(s)`,
+    `${q.failedReadings.count} failed reading(s)`,
+    `${q.gaps} gap(s)`,
+    `${q.linkRetries} link retr${q.linkRetries === 1 ? 'y' : 'ies'}`,
+    `${q.faults} fault(s)`,
+  ];
+  if (q.unsettledPointsLeftOut > 0) parts.push(`${q.unsettledPointsLeftOut} unsettled point(s) left out of the fit`);
+  return `data quality      ${parts.join(', ')}`;
+}
+
 export function summarizeAnalysis(a: AnyAnalysis): string {
   const lines = a.kind === 'sweep' ? sweepLines(a) : a.kind === 'drift' ? driftLines(a) : pushingLines(a);
+  if (a.quality) lines.push(qualityLine(a.quality));
   const warnings = 'warnings' in a ? a.warnings : [];
   return [`${a.kind} analysis`, ...lines, ...warnings.map((w) => `note: ${w}`)].join('\n') + '\n';
 }

@@ -13,6 +13,7 @@ import type { RunQuality } from '../../app/analysis/run-quality.ts';
 import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
 import { assembleBench } from '../bench/assemble.ts';
+import { summarizeRun } from '../bench/run-summary.ts';
 import { recordSweep } from '../procedures/recorded-run.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 
@@ -52,6 +53,12 @@ describe('analyze on a run folder: quality, fit range, window', () => {
     const kept = JSON.parse((await cli('analyze', runDir, '--json', '--fit-range', 'all', '--keep-unsettled')).out) as Result;
     expect(kept.fit.unsettledLeftOutV).toEqual([]);
     expect(kept.fit.points).toBeGreaterThan(r.fit.points);
+  });
+
+  it("the sweep command's end-of-run summary counts the same faults and names the voltages", async () => {
+    const summary = await summarizeRun(runDir);
+    expect(summary.text).toMatch(/data quality +\d+ settle timeout\(s\), 0 failed reading\(s\)/);
+    expect(summary.text).toMatch(/note: \d+ point\(s\) hit the settle timeout \(at 0\.5, /);
   });
 
   it('takes the window from the plan, from --window over it, and refuses one outside the oscillating range', async () => {
