@@ -35,7 +35,7 @@ export function analyzeTable(kind: CsvKind, table: CsvTable, options: TableAnaly
       break;
     }
     case 'drift':
-      result = analyzeDrift(driftInputFromTable(table), options.drift);
+      result = analyzeDrift(driftInputFromTable(table), { gateS: options.gateS, ...options.drift });
       break;
     case 'pushing':
       result = analyzePushing(pushingInputFromTable(table));

@@ -5,6 +5,7 @@
 import { AnalysisError } from './analysis-error.ts';
 import { fitPolynomialAuto } from './poly-fit-auto.ts';
 import { fitPolynomial, type PolyFit } from './poly-fit.ts';
+import { belowFloor } from './format-figure.ts';
 import { fitSpline } from './spline-fit.ts';
 import { polyModel, splineModel, type TuningModel } from './tuning-model.ts';
 import { findEdges, type Edges } from './sweep-edges.ts';
@@ -329,6 +330,9 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const monotone = falls ? null : rising ? 'rising' : 'falling';
   const { model, json: fitJson } = fitModel(points, u, keep, options, monotone, warnings, rmsU);
   fitJson.unsettledLeftOutV = leftOut;
+  // Rounding noise of an exact fit is not a residual: below 1e-12 of the frequency it is 0.
+  const fScale = Math.max(Math.abs(points.meanHz[kf0] as number), Math.abs(points.meanHz[kf1 - 1] as number));
+  if (belowFloor(fitJson.residualStdDevHz, fScale, 1e-12)) fitJson.residualStdDevHz = 0;
   if (Number.isFinite(fitJson.residualStdDevHz) && fitJson.residualStdDevHz > 1.5 * rmsU) {
     warnings.push(
       `the ${fitJson.model} fit leaves residual SD ${fitJson.residualStdDevHz.toPrecision(3)} Hz against ${rmsU.toPrecision(3)} Hz point scatter: ` +
@@ -381,6 +385,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     if ((points.meanHz[i] as number) > (points.meanHz[iMax] as number)) iMax = i;
   }
   const linear = bestLine(points.v, points.meanHz, w0, w1, rmsU);
+  if (belowFloor(linear.maxLinearityErrorPct, 100, 1e-12)) linear.maxLinearityErrorPct = 0;
   const limitPct = options.linearityLimitPct ?? 5;
   const other = primary === up ? down : null;
   const hysteresis: Hysteresis | null = other ? compareDirections(primary.points, primary.edges, other.points, other.edges) : null;
