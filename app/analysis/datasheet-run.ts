@@ -6,7 +6,8 @@
  */
 import { z } from 'zod';
 import type { CsvKind } from './csv-columns.ts';
-import type { RunConditions } from './datasheet.ts';
+import type { RunConditions, RunOrigin } from './datasheet.ts';
+import { isSimulatedBench } from '../contract/run-meta-schema.ts';
 import { meanOfFinite } from './mean-finite.ts';
 
 /** "run id (DUT id)", or the run id alone. */
@@ -91,4 +92,15 @@ export function runConditions(
   const supplyV = meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
   const temperatureC = meanOfFinite(columns.temperatureC) ?? hints.recordedTemperatureC ?? null;
   return { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
+}
+
+/** What run.json says that decides whether a run may enter a gain table (status, DUT, simulated bench). */
+export function runOrigin(meta: { status: string; dut: { id: string }; instruments: { idn: string; address: string }[]; simulated?: boolean }): RunOrigin {
+  const kind = (meta.dut as { kind?: unknown }).kind;
+  return {
+    status: meta.status,
+    dutId: meta.dut.id,
+    dutKind: typeof kind === 'string' ? kind : null,
+    simulated: meta.simulated === true || isSimulatedBench(meta.instruments),
+  };
 }

@@ -4,7 +4,7 @@
  * and the tuning window. Reproduction (item 6): a varactor up-down sweep whose
  * points hit the settle timeout used to give `"warnings": []`.
  */
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -41,6 +41,11 @@ afterAll(async () => {
 type Result = SweepAnalysis & { quality: RunQuality };
 
 describe('analyze on a run folder: quality, fit range, window', () => {
+  it('run.json says the run came from the simulated bench', async () => {
+    const meta = JSON.parse(await readFile(join(runDir, 'run.json'), 'utf8')) as { simulated?: boolean };
+    expect(meta.simulated).toBe(true);
+  });
+
   it('counts settle timeouts from events.jsonl, names the voltages and leaves those points out of the fit', async () => {
     const { code, out } = await cli('analyze', runDir, '--json', '--fit-range', 'all');
     expect(code).toBe(0);
