@@ -56,7 +56,8 @@ export function formatFigure(value: number | null | undefined, unit: string, opt
   const floor = options.floor ?? 0;
   if (floor > 0 && Math.abs(value) <= floor) return withUnit('0', '', unit);
   const u = options.uncertainty;
-  if (u !== null && u !== undefined && Number.isFinite(u) && u > 0) {
+  // An uncertainty at the numerical floor of the value (exact data) supports no extra digits.
+  if (u !== null && u !== undefined && Number.isFinite(u) && u > 0 && !belowFloor(u, value, 1e-9)) {
     const { scale, symbol } = plain ? { scale: 1, symbol: '' } : siPrefixFor(Math.max(Math.abs(value), u));
     const us = u / scale;
     const decimals = 1 - Math.floor(Math.log10(us));

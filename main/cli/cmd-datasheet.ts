@@ -52,7 +52,8 @@ export const datasheetCommand: CliCommand = {
       const source = await loadAnalysisSource(path);
       try {
         const window = flagWindow ? { ...flagWindow, source: 'flag' as const } : source.window ? { ...source.window, source: 'plan' as const } : undefined;
-        const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS, events: source.events ?? undefined, sweep: { window } });
+        // No events here: the gain-table screen builds the same table from samples alone (parity test).
+        const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { window } });
         runs.push({ label: source.label, analysis, conditions: source.conditions, origin: source.meta ? runOrigin(source.meta) : undefined });
       } catch (error) {
         if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);

@@ -18,7 +18,10 @@ import { analyzeColumns } from '../sweep/sweep-figures.ts';
 export type RunAnalysisOutcome = AnalysisOutcome<AnyAnalysis>;
 
 export function analyzeRun(meta: RunMeta, columns: ColumnSet, rows: number): RunAnalysisOutcome {
-  if (meta.kind === 'sweep') return analyzeColumns(columns, rows, planHints(meta.plan).gateS);
+  if (meta.kind === 'sweep') {
+    const hints = planHints(meta.plan);
+    return analyzeColumns(columns, rows, hints.gateS, hints.window ? { window: { ...hints.window, source: 'plan' } } : undefined);
+  }
   if (meta.kind === 'drift') return analyzeDriftColumns(columns, rows);
   return analyzePushingColumns(columns, rows);
 }

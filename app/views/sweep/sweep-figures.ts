@@ -3,7 +3,7 @@
  * sweep plots draw: fit curve, Kvco against V, residuals, shaded regions.
  * Runs once when a sweep ends or a stored sweep opens, not per sample.
  */
-import { analyzeSweep } from '../../analysis/sweep-analysis.ts';
+import { analyzeSweep, type SweepOptions } from '../../analysis/sweep-analysis.ts';
 import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
 import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
 import { sweepInputFromColumns } from '../../state/column-inputs.ts';
@@ -12,9 +12,9 @@ import type { XRegion } from '../../plots/regions-plugin.ts';
 
 export type SweepOutcome = AnalysisOutcome<SweepAnalysis>;
 
-export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined): SweepOutcome {
+export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined, options?: SweepOptions): SweepOutcome {
   if (n === 0) return { ok: false, message: 'no readings' };
-  return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS)));
+  return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS), options));
 }
 
 /** f(V) = Σ cᵢ·Vⁱ (CONTRACTS.md fit coefficients, V unscaled). */
