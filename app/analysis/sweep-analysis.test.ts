@@ -270,7 +270,7 @@ describe('analyzeSweep on a tuning curve that saturates', () => {
     // straddles the flat part: half the slope, still positive.
     expect(result.kvco.minHzPerV).toBeGreaterThan(0.45e4);
     expect(result.kvco.maxHzPerV).toBeCloseTo(1e4, -1);
-    expect(result.warnings.some((w) => /flattens above 3 V/.test(w))).toBe(true);
+    expect(result.warnings.some((w) => /flattens above 3.000 V/.test(w))).toBe(true);
   });
   it('keeps the whole range when the rule is switched off', () => {
     const all = analyzeSweep(toInput(readings, 0.1), { flatKvcoFraction: 0 });

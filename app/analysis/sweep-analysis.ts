@@ -5,7 +5,7 @@
 import { AnalysisError } from './analysis-error.ts';
 import { fitPolynomialAuto } from './poly-fit-auto.ts';
 import { fitPolynomial, type PolyFit } from './poly-fit.ts';
-import { belowFloor } from './format-figure.ts';
+import { belowFloor, formatFigure } from './format-figure.ts';
 import { fitSpline } from './spline-fit.ts';
 import { polyModel, splineModel, type TuningModel } from './tuning-model.ts';
 import { findEdges, type Edges } from './sweep-edges.ts';
@@ -263,7 +263,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     saturation = saturationEdge(points.v, points.meanHz, i0, i1);
     const below = points.v[i1 - 1] as number;
     warnings.push(
-      `the tuning curve flattens above ${below} V (Kvco below ${flatFraction * 100} % of its median; edge ${saturation.edgeV} ± ${saturation.uncertaintyV} V); ` +
+      `the tuning curve flattens above ${formatFigure(below, 'V', { digits: 4 })} (Kvco below ${flatFraction * 100} % of its median; edge ${formatFigure(saturation.edgeV, 'V', { uncertainty: saturation.uncertaintyV })}); ` +
         'the usable range ends there',
     );
   }
