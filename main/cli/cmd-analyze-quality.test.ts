@@ -50,7 +50,8 @@ describe('analyze on a run folder: quality, fit range, window', () => {
     const { code, out } = await cli('analyze', runDir, '--json', '--fit-range', 'all');
     expect(code).toBe(0);
     const r = JSON.parse(out) as Result;
-    expect(r.quality.settleTimeouts.count).toBeGreaterThan(10);
+    // Settling by prediction needs one reading where watching needed two, so fewer points time out than before.
+    expect(r.quality.settleTimeouts.count).toBeGreaterThan(0);
     expect(r.warnings.some((w) => /hit the settle timeout \(at 0\.5, /.test(w))).toBe(true);
     expect(r.fit.unsettledLeftOutV.length).toBeGreaterThan(0);
     expect(r.quality.unsettledPointsLeftOut).toBe(r.fit.unsettledLeftOutV.length);
