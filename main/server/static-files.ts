@@ -48,7 +48,10 @@ export async function readStaticFile(root: string, urlPath: string): Promise<Sta
     const info = await stat(path);
     if (!info.isFile()) return null;
     return { body: await readFile(path), contentType: CONTENT_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream' };
-  } catch {
-    return null;
+  } catch (error) {
+    // Missing is a 404; any other failure (ELOOP, EIO, EMFILE) is the server's own and must be seen.
+    const code = (error as { code?: unknown }).code;
+    if (code === 'ENOENT' || code === 'ENOTDIR') return null;
+    throw error;
   }
 }

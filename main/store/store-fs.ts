@@ -57,3 +57,13 @@ export function errorCode(error: unknown): string | undefined {
   }
   return undefined;
 }
+
+/** A file's text, or '' when it does not exist; every other error (EACCES, EIO…) is thrown, never read as empty. */
+export async function readFileIfExists(fs: StoreFs, path: string): Promise<string> {
+  try {
+    return await fs.readFile(path);
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT') return '';
+    throw error;
+  }
+}
