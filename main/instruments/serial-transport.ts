@@ -3,6 +3,7 @@
  * fresh port object, so a session can reopen after a USB adapter comes back.
  */
 import { SerialPort } from 'serialport';
+import type { Clock } from '../time/clock.ts';
 import { formatAddress, SERIAL_DEFAULTS, type FlowControl, type Parity } from './address.ts';
 import { DisconnectedError } from './errors.ts';
 import { TransportListeners } from './transport-listeners.ts';
@@ -20,17 +21,30 @@ export interface SerialTransportOptions {
   stopBits?: 1 | 2;
   /** Hardware (RTS/CTS) or software (XON/XOFF) flow control; default none. */
   flow?: FlowControl;
+  /** Timer for the close grace; real time by default. */
+  clock?: Pick<Clock, 'setTimer'>;
+}
+
+/** How long close() lets pending writes drain before closing anyway (a port held off by XOFF/CTS never drains). */
+export const DRAIN_GRACE_S = 1;
+
+function nodeTimer(seconds: number, callback: () => void): () => void {
+  const handle = setTimeout(callback, seconds * 1000);
+  return () => clearTimeout(handle);
 }
 
 export class SerialTransport implements Transport {
   readonly address: string;
-  private readonly options: Required<SerialTransportOptions>;
+  private readonly options: Required<Omit<SerialTransportOptions, 'clock'>>;
+  private readonly setTimer: (seconds: number, callback: () => void) => () => void;
   private readonly listeners = new TransportListeners();
   private port: SerialPort | null = null;
 
   constructor(options: SerialTransportOptions) {
     if (options.path === '') throw new TypeError('path: must not be empty');
-    this.options = { ...SERIAL_DEFAULTS, ...options };
+    const { clock, ...line } = options;
+    this.options = { ...SERIAL_DEFAULTS, ...line };
+    this.setTimer = clock?.setTimer.bind(clock) ?? nodeTimer;
     if (!Number.isInteger(this.options.baudRate) || this.options.baudRate <= 0) {
       throw new TypeError(`baudRate: ${this.options.baudRate} is not a positive integer`);
     }
@@ -74,18 +88,32 @@ export class SerialTransport implements Transport {
     });
   }
 
+  /**
+   * Lets pending writes (a final "output off") reach the line, then closes;
+   * after DRAIN_GRACE_S it closes anyway. A failed close is reported.
+   */
   close(): Promise<void> {
     const port = this.port;
     if (port === null) return Promise.resolve();
     this.port = null;
-    return new Promise((resolve) => {
+    return new Promise((resolve, reject) => {
       if (!port.isOpen) {
         this.listeners.emitClose(null);
         resolve();
         return;
       }
-      // Let pending writes (a final "output off") reach the line before closing.
-      port.drain(() => port.close(() => resolve()));
+      let closing = false;
+      const shut = (): void => {
+        if (closing) return;
+        closing = true;
+        cancelGrace();
+        port.close((error: Error | null | undefined) => {
+          if (error) reject(new DisconnectedError(this.address, `close failed: ${error.message}`, { cause: error }));
+          else resolve();
+        });
+      };
+      const cancelGrace = this.setTimer(DRAIN_GRACE_S, shut);
+      port.drain(shut);
     });
   }
 
