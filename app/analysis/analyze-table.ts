@@ -3,7 +3,7 @@
  * CLI (`tunebench analyze`) and the renderer alike.
  */
 import { driftInputFromTable, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
-import type { CsvTable } from './csv-input.ts';
+import type { ColumnTable } from '../contract/column-table.ts';
 import { analyzeDrift, type DriftAnalysis, type DriftOptions } from './drift-analysis.ts';
 import { analyzePushing, type PushingAnalysis } from './pushing-analysis.ts';
 import { analyzeSweep, type SweepOptions } from './sweep-analysis.ts';
@@ -18,7 +18,7 @@ export interface TableAnalysisOptions {
   gateS?: number;
 }
 
-export function analyzeTable(kind: CsvKind, table: CsvTable, options: TableAnalysisOptions = {}): AnyAnalysis {
+export function analyzeTable(kind: CsvKind, table: ColumnTable, options: TableAnalysisOptions = {}): AnyAnalysis {
   switch (kind) {
     case 'sweep':
       return analyzeSweep(sweepInputFromTable(table, options.gateS), options.sweep);

@@ -133,7 +133,7 @@ describe('tunebench analyze: bad input and failed work', () => {
     await writeFile(file, 'control_v,frequency_hz\n0.5,1000\n0.6,abc\n');
     const { code, err } = await cli('analyze', file);
     expect(code).toBe(2);
-    expect(err).toContain('line 3: column frequency_hz: "abc" is not a number');
+    expect(err).toContain('line 3, column frequency_hz: "abc" is not a number');
   });
   it('exit 2 for a missing file, a bad --fit and a CSV of unknown shape', async () => {
     expect((await cli('analyze', join(dir, 'nope.csv'))).code).toBe(2);

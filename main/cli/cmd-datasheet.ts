@@ -4,7 +4,7 @@
 import { writeFile } from 'node:fs/promises';
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { analyzeTable } from '../../app/analysis/analyze-table.ts';
-import { CsvError } from '../../app/analysis/csv-input.ts';
+import { CsvError } from '../../app/analysis/csv-columns.ts';
 import { buildDatasheet, type DatasheetRun } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';

@@ -24,7 +24,7 @@ describe('importCsvRun', () => {
   it('writes nothing when the CSV is bad', async () => {
     await withTempDir(async (runsDir) => {
       await expect(importCsvRun({ runsDir, fileName: 'x.csv', csvText: 'control_v,frequency_hz\n1,abc\n', dutId: 'osc' })).rejects.toThrow(
-        /x\.csv: line 2, column frequency_hz: expected a number/,
+        /x\.csv: line 2, column frequency_hz: "abc" is not a number/,
       );
       await expect(readdir(runsDir)).resolves.toEqual([]);
     });

@@ -1,17 +1,22 @@
 /**
- * Strict reader for a plain CSV the user brings (CONTRACTS.md "Plain CSV
- * input"): header row required, columns by name in any order, extra columns
- * ignored. Sweep: control_v, frequency_hz. Drift: time_s, frequency_hz,
- * optional temperature_c. A frequency that is empty, NaN, 0 or the SCPI
- * not-a-number 9.91E37 means "no oscillation measured" — the analysis's own
- * rule (`isNoOscillation`), so an imported run reads as `analyze` reads the
- * file. Unlike samples.csv (our own file, where a bad line is a crash
- * artefact), every problem here is an error with its line number: the user
- * can fix the file.
+ * The one reader for a plain CSV a person brings (CONTRACTS.md "Plain CSV
+ * input"), used by `analyze`/`datasheet` and by the import into the runs
+ * list. Header row required; columns by name (case and spaces ignored), any
+ * order, extra columns ignored; blank lines and lines starting with `#` are
+ * skipped; fields are separated by commas, or by semicolons or tabs when the
+ * header has no comma; RFC 4180 quotes are understood; NaN/inf in any case.
+ * Unlike samples.csv (our own file, where a bad line is a crash artefact and
+ * is dropped), every problem here is an error with its line number, and all
+ * of them (up to MAX_PROBLEMS) are reported at once: the user can fix the file.
+ *
+ * Reads straight into Float64Array columns (a million-row file must not
+ * become a million string arrays).
  */
-import type { RunKind } from '../../app/contract/bench-api.ts';
-import { isNoOscillation } from '../../app/analysis/sweep-points.ts';
-import { parseNumberCell, splitCsvLine } from './csv-cells.ts';
+import type { CodedTextColumn } from '../../app/contract/bench-api.ts';
+import type { ColumnTable } from '../../app/contract/column-table.ts';
+import { readingStatus, sweepDirection } from '../../app/contract/reading-status.ts';
+import { parseLooseNumberCell, splitCsvLine } from './csv-cells.ts';
+import { EXACT, scan, scanNumber } from './number-scan.ts';
 
 export interface CsvProblem {
   line: number;
@@ -29,73 +34,126 @@ export class CsvImportError extends Error {
   }
 }
 
-export interface PlainCsvData {
-  kind: Exclude<RunKind, 'pushing'>;
-  /** Output columns in order; values per column. */
-  columns: string[];
-  rows: (number | string)[][];
+/** Columns read as numbers; every other column but the words below is ignored. */
+export const PLAIN_NUMERIC_COLUMNS: readonly string[] = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'supply_v'];
+/** Columns read as words, checked against the reading-status and direction rules. */
+const WORD_COLUMNS: Readonly<Record<string, (cell: string) => string | null>> = {
+  status: (cell) => readingStatus(cell),
+  direction: (cell) => {
+    const d = sweepDirection(cell);
+    return d === null ? null : d === 1 ? 'up' : 'down';
+  },
+};
+const WORD_EXPECTED: Readonly<Record<string, string>> = { status: 'ok, no-signal, timeout or error', direction: 'up or down' };
+
+export interface PlainCsvTable extends ColumnTable {
+  lineOf: Uint32Array;
+  headerLine: number;
 }
 
-const MAX_PROBLEMS = 20;
+export const MAX_PROBLEMS = 20;
 
-export function parsePlainCsv(text: string, source: string, forceKind?: 'sweep' | 'drift'): PlainCsvData {
+interface Reading {
+  column: number;
+  name: string;
+  values: Float64Array | null;
+  words: { levels: string[]; codes: Uint32Array } | null;
+}
+
+export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const lines = body.split('\n').map((line) => line.replace(/\r$/, ''));
-  const headerIndex = lines.findIndex((line) => line.trim() !== '');
-  if (headerIndex < 0) throw new CsvImportError([{ line: 1, message: 'empty file; expected a header row' }], source);
-  const header = (splitCsvLine(lines[headerIndex] as string) ?? []).map((name) => name.trim().toLowerCase());
-  const col = (name: string): number => header.indexOf(name);
-  const hasSweep = col('control_v') >= 0 && col('frequency_hz') >= 0;
-  const hasDrift = col('time_s') >= 0 && col('frequency_hz') >= 0;
-  const headerLine = headerIndex + 1;
-  if ((forceKind === 'sweep' && !hasSweep) || (forceKind === 'drift' && !hasDrift) || (!hasSweep && !hasDrift)) {
-    const hint = (lines[headerIndex] as string).includes(';') ? ' (fields must be separated by commas)' : '';
-    const want = forceKind === 'sweep' ? 'control_v and frequency_hz' : forceKind === 'drift' ? 'time_s and frequency_hz' : 'control_v and frequency_hz (sweep) or time_s and frequency_hz (drift)';
-    throw new CsvImportError([{ line: headerLine, message: `header: expected columns ${want}, found ${header.join(', ') || 'none'}${hint}` }], source);
-  }
-
-  const wanted = ['time_s', 'control_v', 'frequency_hz', 'temperature_c'].filter((name) => col(name) >= 0);
+  const lines = body.split('\n');
   const problems: CsvProblem[] = [];
-  const values: number[][] = [];
-  for (let i = headerIndex + 1; i < lines.length && problems.length < MAX_PROBLEMS; i++) {
-    const line = lines[i] as string;
-    if (line.trim() === '') continue;
-    const cells = splitCsvLine(line);
-    if (cells === null) {
-      problems.push({ line: i + 1, message: 'unbalanced quote' });
-      continue;
+  const fail = (): never => {
+    throw new CsvImportError(problems, source);
+  };
+  const problem = (p: CsvProblem): void => {
+    problems.push(p);
+    if (problems.length >= MAX_PROBLEMS) {
+      problems.push({ line: p.line, message: `stopped after ${MAX_PROBLEMS} problems` });
+      fail();
     }
-    if (cells.length !== header.length) {
-      problems.push({ line: i + 1, message: `expected ${header.length} fields like the header, found ${cells.length}` });
-      continue;
-    }
-    const row: number[] = [];
-    for (const name of wanted) {
-      const cell = cells[col(name)] as string;
-      const value = parseNumberCell(cell);
-      if (value === null) problems.push({ line: i + 1, column: name, message: `expected a number, got ${JSON.stringify(cell)}` });
-      else if (Number.isNaN(value) && (name === 'control_v' || name === 'time_s')) problems.push({ line: i + 1, column: name, message: 'must not be empty' });
-      row.push(value ?? Number.NaN);
-    }
-    values.push(row);
-  }
-  if (problems.length > 0) throw new CsvImportError(problems, source);
-  if (values.length === 0) throw new CsvImportError([{ line: headerLine + 1, message: 'no data rows after the header' }], source);
+  };
 
-  const at = (name: string): number => wanted.indexOf(name);
-  let kind: 'sweep' | 'drift' = forceKind ?? (hasSweep ? 'sweep' : 'drift');
-  if (!forceKind && hasSweep && hasDrift) {
-    // A drift log also carries control_v, but holds it fixed.
-    const first = values[0]?.[at('control_v')];
-    if (values.every((row) => row[at('control_v')] === first)) kind = 'drift';
+  let headerIndex = -1;
+  for (let i = 0; i < lines.length && headerIndex < 0; i++) {
+    const line = (lines[i] as string).trim();
+    if (line !== '' && !line.startsWith('#')) headerIndex = i;
   }
-  const columns = [...wanted, 'status'];
-  const fIndex = at('frequency_hz');
-  const rows = values.map((row) => {
-    const silent = isNoOscillation(row[fIndex] as number);
-    const out: (number | string)[] = row.map((value, c) => (c === fIndex && silent ? Number.NaN : value));
-    out.push(silent ? 'no-signal' : 'ok');
-    return out;
+  if (headerIndex < 0) {
+    problem({ line: 1, message: 'no header row (expected column names such as control_v,frequency_hz)' });
+    fail();
+  }
+  const headerLine = headerIndex + 1;
+  const headerText = (lines[headerIndex] as string).replace(/\r$/, '');
+  const delimiter = headerText.includes(',') ? ',' : headerText.includes('\t') ? '\t' : headerText.includes(';') ? ';' : ',';
+  const header = (splitCsvLine(headerText, delimiter) ?? []).map((name) => name.trim().toLowerCase());
+  const seen = new Set<string>();
+  header.forEach((name, c) => {
+    if (name === '') problem({ line: headerLine, message: `the header has an empty column name (column ${c + 1})` });
+    else if (seen.has(name)) problem({ line: headerLine, message: `the header names column "${name}" twice` });
+    seen.add(name);
   });
-  return { kind, columns, rows };
+  if (problems.length > 0) fail();
+
+  const guess = Math.max(16, lines.length - headerIndex);
+  const readings: Reading[] = [];
+  header.forEach((name, column) => {
+    if (PLAIN_NUMERIC_COLUMNS.includes(name)) readings.push({ column, name, values: new Float64Array(guess), words: null });
+    else if (name in WORD_COLUMNS) readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(guess) } });
+  });
+  const lineOf = new Uint32Array(guess);
+  let rows = 0;
+  const width = header.length;
+
+  for (let i = headerIndex + 1; i < lines.length; i++) {
+    const raw = lines[i] as string;
+    const line = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw;
+    const first = line.charCodeAt(0);
+    if (line.length === 0 || first === 35 || (first <= 32 && (line.trim() === '' || line.trim().startsWith('#')))) continue;
+    const lineNo = i + 1;
+    const cells = splitCsvLine(line, delimiter);
+    if (cells === null) {
+      problem({ line: lineNo, message: 'a quoted field is not closed' });
+      continue;
+    }
+    if (cells.length !== width) {
+      problem({ line: lineNo, message: `${cells.length} fields, but the header has ${width}` });
+      continue;
+    }
+    let ok = true;
+    for (const reading of readings) {
+      const cell = cells[reading.column] as string;
+      if (reading.values) {
+        // Fast path: the exact scanner; anything it is unsure of goes to the full cell parser.
+        const value = scanNumber(cell, 0, cell.length) === EXACT && scan.end === cell.length ? scan.value : parseLooseNumberCell(cell);
+        if (value === null) {
+          problem({ line: lineNo, column: reading.name, message: `"${cell}" is not a number` });
+          ok = false;
+        } else reading.values[rows] = value;
+      } else if (reading.words) {
+        const word = (WORD_COLUMNS[reading.name] as (cell: string) => string | null)(cell);
+        if (word === null) {
+          problem({ line: lineNo, column: reading.name, message: `"${cell}" is not one of ${WORD_EXPECTED[reading.name] ?? ''}` });
+          ok = false;
+        } else {
+          let code = reading.words.levels.indexOf(word);
+          if (code < 0) code = reading.words.levels.push(word) - 1;
+          reading.words.codes[rows] = code;
+        }
+      }
+    }
+    if (!ok) continue;
+    lineOf[rows] = lineNo;
+    rows += 1;
+  }
+  if (problems.length > 0) fail();
+
+  const numeric: Record<string, Float64Array> = {};
+  const textColumns: Record<string, CodedTextColumn> = {};
+  for (const reading of readings) {
+    if (reading.values) numeric[reading.name] = reading.values.slice(0, rows);
+    else if (reading.words) textColumns[reading.name] = { levels: reading.words.levels, codes: Uint8Array.from(reading.words.codes.subarray(0, rows)) };
+  }
+  return { names: header, numeric, text: textColumns, rowCount: rows, lineOf: lineOf.slice(0, rows), headerLine };
 }
