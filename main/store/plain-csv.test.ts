@@ -73,3 +73,24 @@ describe('readPlainCsv (CONTRACTS.md plain CSV input), the one reader for usersâ
     expect(() => importedSamples('a,b\n1,2\n', 'lab/old.csv')).toThrow(/^lab\/old\.csv: line 1: missing column/);
   });
 });
+
+/** Any double but NaN, written as String() writes it (so no -0, which String() prints as "0"). */
+const number = (fc: typeof import('fast-check')) => fc.double({ noNaN: true }).map((x) => (x === 0 ? 0 : x));
+
+describe('readPlainCsv fast and full paths', () => {
+  it('give the same table for the same numbers whatever the delimiter (commas take the fast path)', async () => {
+    const fc = await import('fast-check');
+    fc.assert(
+      fc.property(fc.array(fc.tuple(number(fc), number(fc), fc.constantFrom('ok', 'no-signal', 'Timeout', '')), { minLength: 1, maxLength: 40 }), (rows) => {
+        const text = (sep: string) => `control_v${sep}frequency_hz${sep}status\n${rows.map((r) => r.map(String).join(sep)).join('\n')}\n`;
+        const comma = readPlainCsv(text(','), 'a.csv');
+        const tab = readPlainCsv(text('\t'), 'b.csv');
+        expect(Array.from(comma.numeric.control_v ?? [])).toEqual(rows.map((r) => r[0]));
+        expect(Array.from(comma.numeric.frequency_hz ?? [])).toEqual(Array.from(tab.numeric.frequency_hz ?? []));
+        expect(comma.text.status).toEqual(tab.text.status);
+        expect(Array.from(comma.lineOf)).toEqual(Array.from(tab.lineOf));
+      }),
+      { numRuns: 100 },
+    );
+  });
+});

@@ -16,7 +16,7 @@ import type { CodedTextColumn } from '../../app/contract/bench-api.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
 import { readingStatus, sweepDirection } from '../../app/contract/reading-status.ts';
 import { parseLooseNumberCell, splitCsvLine } from './csv-cells.ts';
-import { EXACT, scan, scanNumber } from './number-scan.ts';
+import { EXACT, NOT_PLAIN, scan, scanNumber } from './number-scan.ts';
 
 export interface CsvProblem {
   line: number;
@@ -60,9 +60,19 @@ interface Reading {
   words: { levels: string[]; codes: Uint32Array } | null;
 }
 
+function codeOf(levels: string[], word: string): number {
+  const k = levels.indexOf(word);
+  return k >= 0 ? k : levels.push(word) - 1;
+}
+
+function grown<T extends Float64Array | Uint32Array>(array: T, length: number): T {
+  const next = new (array.constructor as new (n: number) => T)(length);
+  next.set(array);
+  return next;
+}
+
 export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const lines = body.split('\n');
   const problems: CsvProblem[] = [];
   const fail = (): never => {
     throw new CsvImportError(problems, source);
@@ -75,17 +85,22 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
     }
   };
 
-  let headerIndex = -1;
-  for (let i = 0; i < lines.length && headerIndex < 0; i++) {
-    const line = (lines[i] as string).trim();
-    if (line !== '' && !line.startsWith('#')) headerIndex = i;
+  // The header is the first line that is neither blank nor a comment.
+  let headerStart = 0;
+  let headerLine = 1;
+  for (;;) {
+    const le = body.indexOf('\n', headerStart);
+    const line = body.slice(headerStart, le < 0 ? body.length : le).trim();
+    if (line !== '' && !line.startsWith('#')) break;
+    if (le < 0) {
+      problem({ line: 1, message: 'no header row (expected column names such as control_v,frequency_hz)' });
+      fail();
+    }
+    headerStart = le + 1;
+    headerLine += 1;
   }
-  if (headerIndex < 0) {
-    problem({ line: 1, message: 'no header row (expected column names such as control_v,frequency_hz)' });
-    fail();
-  }
-  const headerLine = headerIndex + 1;
-  const headerText = (lines[headerIndex] as string).replace(/\r$/, '');
+  const headerEnd = body.indexOf('\n', headerStart);
+  const headerText = body.slice(headerStart, headerEnd < 0 ? body.length : headerEnd).replace(/\r$/, '');
   const delimiter = headerText.includes(',') ? ',' : headerText.includes('\t') ? '\t' : headerText.includes(';') ? ';' : ',';
   const header = (splitCsvLine(headerText, delimiter) ?? []).map((name) => name.trim().toLowerCase());
   const seen = new Set<string>();
@@ -96,37 +111,34 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   });
   if (problems.length > 0) fail();
 
-  const guess = Math.max(16, lines.length - headerIndex);
+  const guess = Math.max(16, Math.ceil((body.length - body.indexOf('\n')) / 8));
+  let capacity = guess;
   const readings: Reading[] = [];
   header.forEach((name, column) => {
-    if (PLAIN_NUMERIC_COLUMNS.includes(name)) readings.push({ column, name, values: new Float64Array(guess), words: null });
-    else if (name in WORD_COLUMNS) readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(guess) } });
+    if (PLAIN_NUMERIC_COLUMNS.includes(name)) readings.push({ column, name, values: new Float64Array(capacity), words: null });
+    else if (name in WORD_COLUMNS) readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(capacity) } });
   });
-  const lineOf = new Uint32Array(guess);
+  const readingOf: (Reading | null)[] = header.map((_, c) => readings.find((r) => r.column === c) ?? null);
+  let lineOf = new Uint32Array(capacity);
   let rows = 0;
   const width = header.length;
 
-  for (let i = headerIndex + 1; i < lines.length; i++) {
-    const raw = lines[i] as string;
-    const line = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw;
-    const first = line.charCodeAt(0);
-    if (line.length === 0 || first === 35 || (first <= 32 && (line.trim() === '' || line.trim().startsWith('#')))) continue;
-    const lineNo = i + 1;
+  /** The full per-line reading (quotes, spaces, other delimiters, anything the fast path is unsure of). */
+  const slowLine = (line: string, lineNo: number): boolean => {
     const cells = splitCsvLine(line, delimiter);
     if (cells === null) {
       problem({ line: lineNo, message: 'a quoted field is not closed' });
-      continue;
+      return false;
     }
     if (cells.length !== width) {
       problem({ line: lineNo, message: `${cells.length} fields, but the header has ${width}` });
-      continue;
+      return false;
     }
     let ok = true;
     for (const reading of readings) {
       const cell = cells[reading.column] as string;
       if (reading.values) {
-        // Fast path: the exact scanner; anything it is unsure of goes to the full cell parser.
-        const value = scanNumber(cell, 0, cell.length) === EXACT && scan.end === cell.length ? scan.value : parseLooseNumberCell(cell);
+        const value = parseLooseNumberCell(cell);
         if (value === null) {
           problem({ line: lineNo, column: reading.name, message: `"${cell}" is not a number` });
           ok = false;
@@ -136,16 +148,68 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
         if (word === null) {
           problem({ line: lineNo, column: reading.name, message: `"${cell}" is not one of ${WORD_EXPECTED[reading.name] ?? ''}` });
           ok = false;
-        } else {
-          let code = reading.words.levels.indexOf(word);
-          if (code < 0) code = reading.words.levels.push(word) - 1;
-          reading.words.codes[rows] = code;
-        }
+        } else reading.words.codes[rows] = codeOf(reading.words.levels, word);
       }
     }
-    if (!ok) continue;
-    lineOf[rows] = lineNo;
-    rows += 1;
+    return ok;
+  };
+
+  /** Fast path for comma-separated lines of plain numbers: no per-line or per-cell strings. */
+  const fastLine = (ls: number, end: number): boolean => {
+    if (delimiter !== ',') return false;
+    let p = ls;
+    for (let c = 0; c < width; c++) {
+      const reading = readingOf[c];
+      let fieldEnd: number;
+      if (reading?.values) {
+        const answer = scanNumber(body, p, end);
+        if (answer === NOT_PLAIN) return false;
+        fieldEnd = scan.end;
+        reading.values[rows] = answer === EXACT ? scan.value : Number(body.slice(p, fieldEnd));
+      } else {
+        fieldEnd = p;
+        while (fieldEnd < end && body.charCodeAt(fieldEnd) !== 44) {
+          if (body.charCodeAt(fieldEnd) === 34) return false;
+          fieldEnd++;
+        }
+        if (reading?.words) {
+          const word = (WORD_COLUMNS[reading.name] as (cell: string) => string | null)(body.slice(p, fieldEnd));
+          if (word === null) return false;
+          reading.words.codes[rows] = codeOf(reading.words.levels, word);
+        }
+      }
+      // The last field must end the line; every other one must end at a comma.
+      if (c === width - 1 ? fieldEnd !== end : fieldEnd === end) return false;
+      p = fieldEnd + 1;
+    }
+    return true;
+  };
+
+  let lineNo = headerLine;
+  for (let ls = body.indexOf('\n', headerStart) + 1; ls > 0 && ls < body.length; ) {
+    let le = body.indexOf('\n', ls);
+    if (le < 0) le = body.length;
+    lineNo += 1;
+    const end = le > ls && body.charCodeAt(le - 1) === 13 ? le - 1 : le;
+    const next = le + 1;
+    const first = body.charCodeAt(ls);
+    if (end === ls || first === 35 || (first <= 32 && /^\s*(#.*)?$/.test(body.slice(ls, end)))) {
+      ls = next;
+      continue;
+    }
+    if (rows === capacity) {
+      capacity *= 2;
+      lineOf = grown(lineOf, capacity);
+      for (const reading of readings) {
+        if (reading.values) reading.values = grown(reading.values, capacity);
+        if (reading.words) reading.words.codes = grown(reading.words.codes, capacity);
+      }
+    }
+    if (fastLine(ls, end) || slowLine(body.slice(ls, end), lineNo)) {
+      lineOf[rows] = lineNo;
+      rows += 1;
+    }
+    ls = next;
   }
   if (problems.length > 0) fail();
 
