@@ -6,6 +6,7 @@
  */
 import { runScpiThroughputBench } from './scpi-throughput.ts';
 import { runAnalysisBench } from './analysis.ts';
+import { runBigInputsBench } from './big-inputs.ts';
 import { runProceduresBench } from './procedures.ts';
 import { runBrowserBench } from './browser.ts';
 import { benchStoreAppend } from './store-append.ts';
@@ -14,6 +15,7 @@ import { runSimClockBench } from './sim-clock.ts';
 const suites: Record<string, () => Promise<unknown>> = {
   scpi: runScpiThroughputBench,
   analysis: async () => runAnalysisBench(),
+  'big-inputs': runBigInputsBench,
   procedures: runProceduresBench,
   store: async () => {
     for (const line of await benchStoreAppend()) console.log(line);
