@@ -14,7 +14,7 @@
 import type { BenchConfig, DriftPlan, PushingPlan, SweepPlan } from './plans.ts';
 
 export type RunKind = 'sweep' | 'drift' | 'pushing';
-export type RunStatus = 'running' | 'complete' | 'aborted' | 'interrupted';
+export type RunStatus = 'running' | 'complete' | 'aborted' | 'interrupted' | 'failed';
 export type SampleStatus = 'ok' | 'no-signal' | 'timeout' | 'error';
 
 export interface RoleConnection {
@@ -53,6 +53,8 @@ export interface RunMeta {
   software: { version: string };
   /** Conditions read at the start and end of the run (sweeps; absent in older runs). */
   conditions?: RecordedConditions;
+  /** Why a `failed` run failed (e.g. the disk refused its files), when the disk let us record it. */
+  failure?: string;
 }
 
 /** A condition read at the start and at the end of a run; null when it could not be read. */

@@ -12,7 +12,7 @@ export const runMetaSchema = z.looseObject({
   schema: z.literal(RUN_SCHEMA),
   id: z.string(),
   kind: z.enum(['sweep', 'drift', 'pushing']),
-  status: z.enum(['running', 'complete', 'aborted', 'interrupted']),
+  status: z.enum(['running', 'complete', 'aborted', 'interrupted', 'failed']),
   startedAt: z.string(),
   endedAt: z.string().nullable(),
   dut: z.looseObject({ id: z.string(), notes: z.string() }),

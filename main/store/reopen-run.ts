@@ -72,8 +72,8 @@ export async function reopenRun(options: ReopenRunOptions): Promise<RunWriter> {
     meta,
     dir,
     columns,
-    samples: new AppendFile(samples.handle, samples.bytes),
-    events: new AppendFile(events.handle, events.bytes),
+    samples: new AppendFile(samples.handle, samples.bytes, join(dir, SAMPLES_CSV)),
+    events: new AppendFile(events.handle, events.bytes, join(dir, EVENTS_JSONL)),
     startOffsetS: resumeS,
   });
   writer.appendEvent({ type: 'gap', time_s: resumeS, fromS: lastS, toS: resumeS, reason: 'resumed after the writer stopped' });
