@@ -12,7 +12,7 @@ import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { baseOptions, lineSeries, logSiAxis, siAxis, xSeries } from '../../plots/plot-options.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
-import { useEffectiveTheme } from '../App.tsx';
+import { useEffectiveTheme } from '../use-theme.ts';
 import { Choice, Field, Figure, Panel } from '../controls/Field.tsx';
 import { hz, hzPerV, si, when } from '../units.ts';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
