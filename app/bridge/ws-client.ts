@@ -11,7 +11,7 @@ import { BENCH_METHODS, type WireCall } from '../contract/wire.ts';
 import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
 import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
-import { benchEventSchema, firstIssue, resultSchemas, wireInboundSchema } from './wire-schemas.ts';
+import { benchEventSchema, firstIssue, resultSchemas, wireInboundSchema } from '../contract/wire-schemas.ts';
 
 /** The part of the DOM WebSocket this client uses. */
 export interface SocketLike {

@@ -5,8 +5,8 @@
  * the contract later pass through.
  */
 import { z } from 'zod';
-import type { BenchMethod, CodedTextColumn } from '../contract/bench-api.ts';
-import { runMetaSchema } from '../contract/run-meta-schema.ts';
+import type { BenchMethod, CodedTextColumn } from './bench-api.ts';
+import { runMetaSchema } from './run-meta-schema.ts';
 
 const nullableNumber = z.number().nullable();
 
