@@ -154,7 +154,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     if (large) performance.mark('tunebench:ws:large-message-json');
     if ('event' in value) {
       const event = benchEventSchema.safeParse(value.event);
-      if (event.success) emit(event.data as BenchEvent);
+      if (event.success) emit(event.data);
       else {
         const issue = firstIssue(event.error);
         emit({ type: 'error', message: `main sent an unreadable event (event.${issue.field}: ${issue.message})` });

@@ -8,6 +8,9 @@ import { z } from 'zod';
 
 export const RUN_SCHEMA = 'tunebench.run/1';
 
+/** A condition read at the start and at the end of a run; null when it could not be read. */
+const conditionSpanSchema = z.object({ start: z.number().nullable(), end: z.number().nullable() });
+
 export const runMetaSchema = z.looseObject({
   schema: z.literal(RUN_SCHEMA),
   id: z.string(),
@@ -19,4 +22,8 @@ export const runMetaSchema = z.looseObject({
   instruments: z.array(z.looseObject({ role: z.string(), idn: z.string(), address: z.string() })),
   plan: z.unknown(),
   software: z.looseObject({ version: z.string() }),
+  /** Conditions read at the start and end of the run (sweeps; absent in older runs); a malformed record reads as absent. */
+  conditions: z.object({ dutSupplyV: conditionSpanSchema, temperatureC: conditionSpanSchema }).optional().catch(undefined),
+  /** Why a `failed` run failed (e.g. the disk refused its files), when the disk let us record it. */
+  failure: z.string().optional(),
 });
