@@ -84,7 +84,8 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     expect(r.kind).toBe('drift');
     expect(r.tempcoHzPerC).toBeCloseTo(10, 3);
     expect(r.tempcoPpmPerC).toBeCloseTo(10 / (1e6 + 25) * 1e6, 3);
-    expect(typeof r.driftPpmPerHour).toBe('number');
+    // The log rises 10 Hz/°C × 5 °C over 599 s, a straight ramp: the drift line's slope is exactly that, in ppm/h of the mean.
+    expect(r.driftPpmPerHour).toBeCloseTo(((10 * 5) / 599) * 3600 / r.meanHz * 1e6, 3);
     expect(r.adev[0]?.tauS).toBe(1);
   });
   it('analyses a pushing run CSV (time_s, control_v, supply_v, frequency_hz, status)', async () => {
