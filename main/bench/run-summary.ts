@@ -1,5 +1,5 @@
 /**
- * The summary printed after a run: the analysis (C's analyzeTable +
+ * The summary printed after a run: the analysis (analyzeTable +
  * summarizeAnalysis) and, for a sweep, the gain table in Markdown. If the
  * analysis cannot be made (too few points, everything stalled…), a short
  * plain summary says why instead — the run folder is written either way.
