@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { formatClockDuration } from '../../app/analysis/format-clock.ts';
-import { createProgressDisplay } from '../bench/progress-display.ts';
+import { createProgressDisplay } from '../cli/progress-display.ts';
 import { linearSlope, supplyLevels } from './pushing-math.ts';
 import { TimeConstantEstimate, remainingBoundHz } from './settle.ts';
 import { sweepSchedule } from './sweep-points.ts';

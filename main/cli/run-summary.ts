@@ -8,7 +8,7 @@ import { analyzeTable } from '../../app/analysis/analyze-table.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { buildDatasheet } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
-import { loadAnalysisSource } from '../cli/analysis-source.ts';
+import { loadAnalysisSource } from './analysis-source.ts';
 
 export interface RunSummary {
   /** Analysis in a few lines (or why there is none). */
