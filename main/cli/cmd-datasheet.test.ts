@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { splitCsvLine } from '../store/csv-cells.ts';
-import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured as cli } from '../../test/testing/run-cli-captured.ts';
 
 const fixture = fileURLToPath(new URL('../../test/fixtures/sweep-sensor-osc.csv', import.meta.url));
 

@@ -9,12 +9,12 @@ import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { appendFile, readFile } from 'node:fs/promises';
 import { describe, expect, it } from 'vitest';
-import { runCliCaptured } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured } from '../../test/testing/run-cli-captured.ts';
 import { readRunFolder } from './run-reader.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
-const CHILD = fileURLToPath(new URL('./test-support/crash-writer-child.ts', import.meta.url));
+const CHILD = fileURLToPath(new URL('./testing/crash-writer-child.ts', import.meta.url));
 const READING_INTERVAL_S = 0.02;
 
 interface Killed {

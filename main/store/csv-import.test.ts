@@ -2,7 +2,7 @@ import { readdir } from 'node:fs/promises';
 import { describe, expect, it } from 'vitest';
 import { importCsvRun } from './csv-import.ts';
 import { openRun } from './run-store.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 describe('importCsvRun', () => {
   it('makes a complete run of the inferred kind that opens like any other', async () => {

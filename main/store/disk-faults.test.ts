@@ -14,7 +14,7 @@ import { VirtualClock } from '../time/virtual-clock.ts';
 import { createRun } from './run-writer.ts';
 import { DiskError, RunFolderGoneError } from './store-error.ts';
 import { type StoreFs, nodeStoreFs } from './store-fs.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 /** samples.csv fills the disk: the OS takes part of a write, then refuses the rest with ENOSPC (as Linux does). */
 function fillingDisk(): { fs: StoreFs; full: { on: boolean } } {

@@ -12,7 +12,7 @@ import { readRunStatus } from './run-reader.ts';
 import { addNote } from './run-store.ts';
 import { createRun } from './run-writer.ts';
 import { type StoreFs, nodeStoreFs } from './store-fs.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 import { readLock } from './writer-lock.ts';
 
 function failingReads(suffix: string, code: string): StoreFs {
