@@ -5,7 +5,7 @@
  */
 import { createRoot } from 'react-dom/client';
 import { startApp } from '../views/start-app.tsx';
-import { createFakeBench } from './fake-bench.ts';
+import { createFakeBench } from './fake-bench-api.ts';
 
 const query = new URLSearchParams(window.location.search);
 const big = Number(query.get('big') ?? '0');
