@@ -21,7 +21,7 @@ function table(columns: Record<string, (number | string)[]>, lines?: number[]): 
   for (const name of names) {
     const values = columns[name] ?? [];
     rowCount = values.length;
-    if (values.every((v) => typeof v === 'number')) numeric[name] = Float64Array.from(values as number[]);
+    if (values.every((v) => typeof v === 'number')) numeric[name] = Float64Array.from(values);
     else {
       const levels = [...new Set(values.map(String))];
       (text as Record<string, unknown>)[name] = { levels, codes: Uint8Array.from(values.map((v) => levels.indexOf(String(v)))) };

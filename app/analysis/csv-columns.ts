@@ -123,7 +123,7 @@ export function sweepInputFromTable(table: ColumnTable, gateS?: number): SweepIn
   const failed = applyStatus(table, frequencyHz);
   for (let r = 0; r < controlV.length; r++) {
     if (failed[r]) controlV[r] = Number.NaN; // grouping skips rows without a control voltage
-    else if (!Number.isFinite(controlV[r] as number)) throw rowError(table, r, 'column control_v: a sweep reading needs a control voltage');
+    else if (!Number.isFinite(controlV[r])) throw rowError(table, r, 'column control_v: a sweep reading needs a control voltage');
   }
   return { controlV, frequencyHz, direction: directionColumn(table), gateS };
 }

@@ -14,11 +14,11 @@ export interface ConnectionStoreState {
 }
 
 export interface ConnectionActions {
-  refresh(): Promise<void>;
-  connect(config: BenchConfig | 'sim'): Promise<boolean>;
-  disconnect(): Promise<void>;
-  setConnection(state: ConnectionState): void;
-  setReadout(readout: LiveReadout): void;
+  refresh: () => Promise<void>;
+  connect: (config: BenchConfig | 'sim') => Promise<boolean>;
+  disconnect: () => Promise<void>;
+  setConnection: (state: ConnectionState) => void;
+  setReadout: (readout: LiveReadout) => void;
 }
 
 export type ConnectionStore = StoreApi<ConnectionStoreState & ConnectionActions>;

@@ -101,7 +101,7 @@ describe.skipIf(!haveSocat)('SerialTransport over a socat pty pair', () => {
     const closing = transport.close().then(() => (closed = true));
     await new Promise((r) => setTimeout(r, 300));
     expect(closed).toBe(false); // still draining: the old code waited here for ever
-    clock.advance(DRAIN_GRACE_S);
+    await clock.advance(DRAIN_GRACE_S);
     await closing;
     expect(closed).toBe(true);
     expect(await pendingWrite).toBeInstanceOf(DisconnectedError);

@@ -3,6 +3,7 @@
  * fresh port object, so a session can reopen after a USB adapter comes back.
  */
 import { SerialPort } from 'serialport';
+import { z } from 'zod';
 import type { Clock } from '../time/clock.ts';
 import { formatAddress, SERIAL_DEFAULTS, type FlowControl, type Parity } from './address.ts';
 import { DisconnectedError } from './errors.ts';
@@ -137,6 +138,11 @@ export class SerialTransport implements Transport {
   }
 }
 
+const optionalText = z.string().optional().catch(undefined);
+const portListSchema = z.array(
+  z.looseObject({ path: z.string(), manufacturer: optionalText, serialNumber: optionalText, vendorId: optionalText, productId: optionalText }),
+);
+
 export interface SerialPortListing {
   ports: { path: string; manufacturer?: string; serialNumber?: string; vendorId?: string; productId?: string }[];
   /** Why the list is empty when the system could not enumerate ports (e.g. no udevadm in a container). */
@@ -146,7 +152,8 @@ export interface SerialPortListing {
 /** Lists serial ports; never throws (SerialPort.list() fails where udev is missing). */
 export async function listSerialPorts(): Promise<SerialPortListing> {
   try {
-    const ports = await SerialPort.list();
+    // What the OS reports is checked like any other input (and typed by the check).
+    const ports = portListSchema.parse(await SerialPort.list());
     return {
       ports: ports.map((p) => ({ path: p.path, manufacturer: p.manufacturer, serialNumber: p.serialNumber, vendorId: p.vendorId, productId: p.productId })),
     };

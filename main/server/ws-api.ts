@@ -56,7 +56,8 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi): void {
       send({ id: NO_ID, ok: false, error: { message: 'message: binary frames are not accepted; send JSON text', field: 'message' } });
       return;
     }
-    const call = parseWireCall(data.toString());
+    // A text frame arrives as one Buffer, or as fragments.
+    const call = parseWireCall((Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data)).toString('utf8'));
     if (!('method' in call)) {
       send(call);
       return;

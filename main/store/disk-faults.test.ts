@@ -74,19 +74,19 @@ describe('disk faults while recording', () => {
       let dir = '';
       let rows = 0;
       let rowsAtDelete = -1;
-      let deleting: Promise<void> | null = null;
+      const deletions: Promise<void>[] = [];
       const error = await recordSweep({
         bench, plan, clock, runsDir, dutId: 'vanishing-folder',
         onRunStarted: (_meta, runDir) => (dir = runDir),
         onSample: () => {
           rows++;
-          if (rows === 6 && !deleting) {
+          if (rows === 6) {
             rowsAtDelete = rows;
-            deleting = rm(dir, { recursive: true, force: true });
+            deletions.push(rm(dir, { recursive: true, force: true }));
           }
         },
       }).catch((e: unknown) => e);
-      await deleting;
+      await Promise.all(deletions);
       const control = bench.sim?.supply.state(1);
       await bench.close();
       expect(error).toBeInstanceOf(RunFolderGoneError);
