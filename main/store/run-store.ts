@@ -156,11 +156,14 @@ export async function addNote(runsDir: string, id: string, text: string, options
 export async function deleteRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<void> {
   const fs = fsOf(options);
   const dir = await runDir(fs, runsDir, id);
+  const safeId = checkedId(id);
   const meta = await readRunStatus(dir, options);
   if (meta.status === 'running') throw new StoreError(`run ${id} is still being recorded; stop it first`, 'busy');
+  // The folder moves under its own validated name, never under the id written inside run.json.
+  if (meta.id !== safeId) throw new StoreError(`run folder ${safeId} holds a run.json whose id differs; it was not moved`, 'bad-input');
   const trashDir = join(runsDir, TRASH);
   await fs.mkdir(trashDir, { recursive: true });
-  const target = join(trashDir, meta.id);
+  const target = join(trashDir, safeId);
   if (await exists(fs, target)) throw new StoreError(`the trash already holds a run ${id}; restore or empty it first`, 'exists');
   await fs.rename(dir, target);
 }
