@@ -26,6 +26,8 @@ export default defineConfig({
   },
   renderer: {
     root: resolve(__dirname, 'app'),
+    // @vitejs/plugin-react's types do not resolve under main/tsconfig.json (it is ESM-only with bundler exports).
+     
     plugins: [react()],
     build: {
       outDir: resolve(__dirname, 'out/renderer'),

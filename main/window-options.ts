@@ -9,21 +9,7 @@
 export const APP_SCHEME = 'tunebench';
 export const APP_ORIGIN = `${APP_SCHEME}://app`;
 
-/** Strict policy: nothing inline, nothing from elsewhere. */
-export function contentSecurityPolicy(extraConnectSrc: readonly string[] = []): string {
-  return [
-    "default-src 'self'",
-    "script-src 'self'",
-    "style-src 'self'",
-    "img-src 'self' data:",
-    "font-src 'self'",
-    `connect-src ${["'self'", ...extraConnectSrc].join(' ')}`,
-    "object-src 'none'",
-    "base-uri 'none'",
-    "form-action 'none'",
-    "frame-ancestors 'none'",
-  ].join('; ');
-}
+export { contentSecurityPolicy } from './content-security-policy.ts';
 
 export interface SecureWebPreferences {
   preload: string;

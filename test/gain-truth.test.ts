@@ -19,7 +19,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyzeSweep } from '../app/analysis/sweep-analysis.ts';
-import { simSweep } from './support/sim-sweep.ts';
+import { simSweep } from './testing/sim-sweep.ts';
 
 const base = { readingsPerPoint: 5, gateS: 0.1, settle: { mode: 'auto', maxS: 2 }, limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0, outputOff: true } };
 

@@ -3,7 +3,7 @@
  * CLI (`tunebench analyze`) and the renderer alike.
  */
 import { driftInputFromTable, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
-import type { CsvTable } from './csv-input.ts';
+import type { ColumnTable } from '../contract/column-table.ts';
 import { analyzeDrift, type DriftAnalysis, type DriftOptions } from './drift-analysis.ts';
 import { analyzePushing, type PushingAnalysis } from './pushing-analysis.ts';
 import { analyzeSweep, type SweepOptions } from './sweep-analysis.ts';
@@ -22,7 +22,7 @@ export interface TableAnalysisOptions {
   events?: readonly RunEventLike[];
 }
 
-export function analyzeTable(kind: CsvKind, table: CsvTable, options: TableAnalysisOptions = {}): AnyAnalysis {
+export function analyzeTable(kind: CsvKind, table: ColumnTable, options: TableAnalysisOptions = {}): AnyAnalysis {
   const checked = options.events ? runQuality(table, options.events) : null;
   let result: AnyAnalysis;
   switch (kind) {

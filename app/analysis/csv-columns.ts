@@ -1,8 +1,12 @@
 /**
- * Parsed CSV table → the typed inputs of the analyses. Knows the column names
- * of CONTRACTS.md (plain CSV and run-folder samples.csv).
+ * A table of readings (ColumnTable: a run folder's samples.csv or a user's
+ * plain CSV, each read by its one reader) → the typed inputs of the
+ * analyses. Knows the column names of CONTRACTS.md and applies the
+ * reading-status rules of app/contract/reading-status.ts.
  */
-import { CsvError, numericColumn, requireNumeric, textColumn, type CsvTable } from './csv-input.ts';
+import type { CodedTextColumn } from '../contract/bench-api.ts';
+import type { ColumnTable } from '../contract/column-table.ts';
+import { STATUS_EFFECT, readingStatus, sweepDirection } from '../contract/reading-status.ts';
 import { meanOfFinite } from './mean-finite.ts';
 import type { DriftInput } from './drift-analysis.ts';
 import type { PushingInput } from './pushing-analysis.ts';
@@ -10,92 +14,136 @@ import type { SweepInput } from './sweep-points.ts';
 
 export type CsvKind = 'sweep' | 'drift' | 'pushing';
 
-const STATUSES = new Set(['ok', 'no-signal', 'timeout', 'error']);
+/** Input that the analyses cannot use; `line` is the 1-based source line when known. */
+export class CsvError extends Error {
+  override name = 'CsvError';
+  constructor(
+    message: string,
+    readonly line: number | null,
+  ) {
+    super(line === null ? message : `line ${line}: ${message}`);
+  }
+}
 
-/**
- * Kind of a plain CSV: `supply_v` + `frequency_hz` → pushing; `control_v` with
- * more than one value → sweep; `time_s` + `frequency_hz` → drift.
- */
-export function detectCsvKind(table: CsvTable): CsvKind {
-  const has = (n: string): boolean => table.header.includes(n);
-  if (!has('frequency_hz')) {
-    throw new CsvError(`missing column "frequency_hz"; header has: ${table.header.join(', ')}`, table.headerLine);
+function lineOfRow(table: ColumnTable, row: number): number | null {
+  return table.lineOf?.[row] ?? null;
+}
+
+function rowError(table: ColumnTable, row: number, message: string): CsvError {
+  const line = lineOfRow(table, row);
+  return new CsvError(line === null ? `row ${row + 1}: ${message}` : message, line);
+}
+
+/** A numeric column by name, or null when the table lacks it (the table's own array: copy before changing it). */
+export function numericColumn(table: ColumnTable, name: string): Float64Array | null {
+  return table.numeric[name] ?? null;
+}
+
+function requireNumeric(table: ColumnTable, name: string, purpose: string): Float64Array {
+  const col = numericColumn(table, name);
+  if (!col) throw new CsvError(`missing column "${name}" (${purpose}); header has: ${table.names.join(', ')}`, table.headerLine ?? null);
+  return col.slice(0, table.rowCount);
+}
+
+/** True when the column holds at least two different finite values. */
+function varies(values: Float64Array | null): boolean {
+  if (!values) return false;
+  let first = Number.NaN;
+  for (const v of values) {
+    if (!Number.isFinite(v)) continue;
+    if (Number.isNaN(first)) first = v;
+    else if (v !== first) return true;
   }
-  if (has('supply_v')) {
-    const s = numericColumn(table, 'supply_v');
-    if (s && new Set(Array.from(s).filter(Number.isFinite)).size > 1) return 'pushing';
-  }
-  if (has('control_v')) {
-    const c = numericColumn(table, 'control_v');
-    if (c && (new Set(Array.from(c).filter(Number.isFinite)).size > 1 || !has('time_s'))) return 'sweep';
-  }
-  if (has('time_s')) return 'drift';
-  throw new CsvError('cannot tell the kind: a sweep needs control_v, a drift log time_s, a pushing run supply_v', table.headerLine);
+  return false;
 }
 
 /**
- * Applies the status column: `no-signal` is evidence of no oscillation (the
- * frequency becomes NaN); `timeout` and `error` say nothing either way, so
- * those rows are returned as failed for the caller to drop.
+ * Kind of a table: `supply_v` that varies + `frequency_hz` → pushing;
+ * `control_v` that varies (or no `time_s`) → sweep; `time_s` → drift.
  */
-function applyStatus(table: CsvTable, frequencyHz: Float64Array): Uint8Array {
+export function detectCsvKind(table: ColumnTable): CsvKind {
+  const has = (n: string): boolean => table.names.includes(n);
+  if (!has('frequency_hz')) {
+    throw new CsvError(`missing column "frequency_hz"; header has: ${table.names.join(', ')}`, table.headerLine ?? null);
+  }
+  if (varies(numericColumn(table, 'supply_v'))) return 'pushing';
+  if (has('control_v') && (varies(numericColumn(table, 'control_v')) || !has('time_s'))) return 'sweep';
+  if (has('time_s')) return 'drift';
+  throw new CsvError('cannot tell the kind: a sweep needs control_v, a drift log time_s, a pushing run supply_v', table.headerLine ?? null);
+}
+
+/** Per level of a coded column, then per row: one look-up per row. */
+function levelValues<T>(column: CodedTextColumn, map: (level: string, index: number) => T): T[] {
+  return column.levels.map(map);
+}
+
+/**
+ * Applies the status column to a copy of the frequencies: `no-signal` →
+ * NaN (no oscillation); `timeout`/`error` → NaN and the row is returned as
+ * failed for the caller to drop. A word that is not a status is an error in a
+ * user's file; in a run folder (no line numbers) it counts as `error`.
+ */
+function applyStatus(table: ColumnTable, frequencyHz: Float64Array): Uint8Array {
   const failed = new Uint8Array(frequencyHz.length);
-  const status = textColumn(table, 'status');
+  const status = table.text.status;
   if (!status) return failed;
-  for (let r = 0; r < status.length; r++) {
-    const s = (status[r] as string).toLowerCase();
-    if (s === '' || s === 'ok') continue;
-    if (!STATUSES.has(s)) {
-      throw new CsvError(`column status: "${status[r]}" is not one of ok, no-signal, timeout, error`, table.lineOf[r] as number);
-    }
-    frequencyHz[r] = NaN;
-    if (s !== 'no-signal') failed[r] = 1;
+  const fromFile = table.lineOf !== undefined;
+  const effect = levelValues(status, (level) => {
+    const s = readingStatus(level);
+    return s === null ? null : STATUS_EFFECT[s];
+  });
+  for (let r = 0; r < frequencyHz.length; r++) {
+    const code = status.codes[r] as number;
+    const e = effect[code];
+    if (e === 'measured') continue;
+    if (e === null && fromFile) throw rowError(table, r, `column status: "${status.levels[code] ?? ''}" is not one of ok, no-signal, timeout, error`);
+    frequencyHz[r] = Number.NaN;
+    if (e !== 'no-oscillation') failed[r] = 1;
   }
   return failed;
 }
 
-export function sweepInputFromTable(table: CsvTable, gateS?: number): SweepInput {
+function directionColumn(table: ColumnTable): Int8Array | undefined {
+  const dir = table.text.direction;
+  if (!dir) return undefined;
+  const sign = levelValues(dir, (level) => sweepDirection(level));
+  const out = new Int8Array(table.rowCount);
+  for (let r = 0; r < out.length; r++) {
+    const code = dir.codes[r] as number;
+    const d = sign[code];
+    if (d === null || d === undefined) throw rowError(table, r, `column direction: "${dir.levels[code] ?? ''}" is not up or down`);
+    out[r] = d;
+  }
+  return out;
+}
+
+export function sweepInputFromTable(table: ColumnTable, gateS?: number): SweepInput {
   const controlV = requireNumeric(table, 'control_v', 'control voltage of each reading, V');
   const frequencyHz = requireNumeric(table, 'frequency_hz', 'frequency of each reading, Hz');
   const failed = applyStatus(table, frequencyHz);
   for (let r = 0; r < controlV.length; r++) {
-    if (!Number.isFinite(controlV[r] as number)) {
-      throw new CsvError('column control_v: a sweep reading needs a control voltage', table.lineOf[r] as number);
-    }
-    if (failed[r]) controlV[r] = NaN; // grouping skips rows without a control voltage
+    if (failed[r]) controlV[r] = Number.NaN; // grouping skips rows without a control voltage
+    else if (!Number.isFinite(controlV[r])) throw rowError(table, r, 'column control_v: a sweep reading needs a control voltage');
   }
-  const dirText = textColumn(table, 'direction');
-  let direction: Int8Array | undefined;
-  if (dirText) {
-    direction = new Int8Array(dirText.length);
-    for (let r = 0; r < dirText.length; r++) {
-      const d = (dirText[r] as string).toLowerCase();
-      if (d === 'up' || d === '') direction[r] = 1;
-      else if (d === 'down') direction[r] = -1;
-      else throw new CsvError(`column direction: "${dirText[r]}" is not up or down`, table.lineOf[r] as number);
-    }
-  }
-  return { controlV, frequencyHz, direction, gateS };
+  return { controlV, frequencyHz, direction: directionColumn(table), gateS };
 }
 
-export function driftInputFromTable(table: CsvTable): DriftInput {
+export function driftInputFromTable(table: ColumnTable): DriftInput {
   const timeS = requireNumeric(table, 'time_s', 'time of each reading, s');
   const frequencyHz = requireNumeric(table, 'frequency_hz', 'frequency of each reading, Hz');
   applyStatus(table, frequencyHz);
-  const temperatureC = numericColumn(table, 'temperature_c') ?? undefined;
+  const temperatureC = numericColumn(table, 'temperature_c')?.slice(0, table.rowCount);
   for (let r = 1; r < timeS.length; r++) {
-    if ((timeS[r] as number) < (timeS[r - 1] as number)) {
-      throw new CsvError('column time_s: time goes backwards', table.lineOf[r] as number);
-    }
+    if ((timeS[r] as number) < (timeS[r - 1] as number)) throw rowError(table, r, 'column time_s: time goes backwards');
   }
   return { timeS, frequencyHz, temperatureC };
 }
 
-export function pushingInputFromTable(table: CsvTable): PushingInput {
+export function pushingInputFromTable(table: ColumnTable): PushingInput {
   const supplyV = requireNumeric(table, 'supply_v', 'DUT supply voltage of each reading, V');
   const frequencyHz = requireNumeric(table, 'frequency_hz', 'frequency of each reading, Hz');
   const failed = applyStatus(table, frequencyHz);
-  for (let r = 0; r < failed.length; r++) if (failed[r]) supplyV[r] = NaN; // grouping skips these rows
+  for (let r = 0; r < failed.length; r++) if (failed[r]) supplyV[r] = Number.NaN; // grouping skips these rows
   const controlV = meanOfFinite(numericColumn(table, 'control_v')) ?? undefined;
   return { supplyV, frequencyHz, controlV };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseCsv } from './csv-input.ts';
+import { splitCsvLine } from '../../main/store/csv-cells.ts';
 import { analyzeDrift } from './drift-analysis.ts';
 import { analyzePushing } from './pushing-analysis.ts';
 import { buildDatasheet, type DatasheetRun } from './datasheet.ts';
@@ -64,8 +64,8 @@ describe('datasheet exports', () => {
   it('CSV in SI base units', () => {
     const text = renderDatasheetCsv(sheet);
     expect(text.split('\n')[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs,uncertainty,significant,bench');
-    const table = parseCsv(text); // our own reader handles the quoted "Kvco, best straight line"
-    const cells = table.rows.find((r) => r[0] === 'kvcoLine') ?? [];
+    // The one CSV line splitter handles the quoted "Kvco, best straight line".
+    const cells = text.trim().split('\n').map((line) => splitCsvLine(line) ?? []).find((r) => r[0] === 'kvcoLine') ?? [];
     expect(cells[1]).toBe('Kvco, best straight line');
     expect(Number(cells[3])).toBeCloseTo(100e3, 4);
     expect(cells[6]).toBe('Hz/V');

@@ -84,7 +84,7 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
     if (mt < m) {
       let k = 0;
       for (let i = 0; i < m; i++) {
-        if (!Number.isFinite(temp[i] as number)) continue;
+        if (!Number.isFinite(temp[i])) continue;
         tt[k] = temp[i] as number;
         ff[k++] = f[i] as number;
       }
@@ -209,9 +209,9 @@ function validSamples(input: DriftInput): { t: Float64Array; f: Float64Array; te
   let m = 0;
   let mt = 0;
   for (let i = 0; i < n; i++) {
-    if (isNoOscillation(input.frequencyHz[i] as number) || !Number.isFinite(input.timeS[i] as number)) continue;
+    if (isNoOscillation(input.frequencyHz[i] as number) || !Number.isFinite(input.timeS[i])) continue;
     m++;
-    if (inTemp !== undefined && Number.isFinite(inTemp[i] as number)) mt++;
+    if (inTemp !== undefined && Number.isFinite(inTemp[i])) mt++;
   }
   if (m === n && input.frequencyHz.length >= n && (inTemp === undefined || inTemp.length >= n)) {
     // Without a temperature column nothing reads `temp` (mt = 0, no loop).

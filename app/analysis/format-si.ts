@@ -4,18 +4,12 @@
  * exporters and the renderer. Code keeps SI base units; only this edge
  * formats.
  */
+import { SI_PREFIXES } from '../contract/si-prefixes.ts';
 
-const PREFIXES: readonly (readonly [number, string])[] = [
-  [1e12, 'T'],
-  [1e9, 'G'],
-  [1e6, 'M'],
-  [1e3, 'k'],
-  [1, ''],
-  [1e-3, 'm'],
-  [1e-6, 'µ'],
-  [1e-9, 'n'],
-  [1e-12, 'p'],
-];
+// The one prefix table, with the unprefixed unit in its place (descending scale).
+const PREFIXES: readonly (readonly [number, string])[] = [...SI_PREFIXES.map((p): readonly [number, string] => [p.scale, p.symbol]), [1, ''] as const].sort(
+  (a, b) => b[0] - a[0],
+);
 
 /** The prefix scale and symbol for a value (engineering notation, 1 ≤ |x| < 1000). */
 export function siPrefixFor(value: number): { scale: number; symbol: string } {
@@ -85,4 +79,9 @@ export function formatDuration(seconds: number | null | undefined): string {
   if (Math.abs(seconds) < 100) return formatSi(seconds, 's', 3);
   if (Math.abs(seconds) < 6000) return `${formatNumber(seconds / 60, 3)} min`;
   return `${formatNumber(seconds / 3600, 3)} h`;
+}
+
+/** formatSi for a value that may be missing: an em dash for null, undefined, NaN or ±∞ (screens and plot labels). */
+export function formatSiOrDash(value: number | null | undefined, unit: string, digits = 4): string {
+  return value === null || value === undefined || !Number.isFinite(value) ? '—' : formatSi(value, unit, digits);
 }

@@ -14,8 +14,7 @@ export {
   type StabilityKind,
   type StabilityPoint,
 } from './allan.ts';
-export { detectCsvKind, driftInputFromTable, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
-export { CsvError, numericColumn, parseCsv, textColumn, type CsvTable } from './csv-input.ts';
+export { CsvError, detectCsvKind, driftInputFromTable, numericColumn, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
 export {
   buildDatasheet,
   DatasheetInputError,

@@ -31,8 +31,9 @@ describe('designLoopFilter (Banerjee design equations, from memory) verified on 
       expect(f.c3F).toBeGreaterThan(0);
     }
     const check = evaluateLoop(f, base);
-    expect(Math.abs(check.crossoverHz / bw - 1)).toBeLessThan(0.01);
-    expect(Math.abs(check.phaseMarginDeg / pm - 1)).toBeLessThan(0.01);
+    // The design equations are exact for this circuit: what is left is rounding (about 1e-16 measured).
+    expect(Math.abs(check.crossoverHz / bw - 1)).toBeLessThan(1e-12);
+    expect(Math.abs(check.phaseMarginDeg / pm - 1)).toBeLessThan(1e-12);
   });
 
   it('second order: PM is the phase peak (zero and pole straddle the crossover geometrically)', () => {

@@ -5,7 +5,8 @@
  * also marks the readings of points that never settled, so the sweep
  * analysis can leave them out of the fit.
  */
-import { numericColumn, textColumn, type CsvTable } from './csv-input.ts';
+import { numericColumn } from './csv-columns.ts';
+import type { ColumnTable } from '../contract/column-table.ts';
 
 /** One events.jsonl entry as the reader returns it (anything beyond `type` is optional). */
 export interface RunEventLike {
@@ -31,16 +32,16 @@ function uniqueSorted(values: number[]): number[] {
   return [...new Set(values.map((v) => Number(v.toPrecision(12))))].sort((a, b) => a - b);
 }
 
-export function runQuality(table: CsvTable, events: readonly RunEventLike[]): { quality: RunQuality; unsettledRows: Uint8Array } {
-  const n = table.rows.length;
+export function runQuality(table: ColumnTable, events: readonly RunEventLike[]): { quality: RunQuality; unsettledRows: Uint8Array } {
+  const n = table.rowCount;
   const controlV = numericColumn(table, 'control_v');
   const timeS = numericColumn(table, 'time_s');
-  const status = textColumn(table, 'status');
+  const status = table.text.status;
   const failedAt: number[] = [];
   let failed = 0;
   if (status) {
     for (let r = 0; r < n; r++) {
-      const s = (status[r] as string).toLowerCase();
+      const s = (status.levels[status.codes[r] as number] ?? '').toLowerCase();
       if (s === 'timeout' || s === 'error') {
         failed++;
         const v = controlV ? (controlV[r] as number) : NaN;

@@ -79,8 +79,9 @@ describe('analyzeSweep on an exact straight line with a stall edge', () => {
     // Per point: scatter (sd 1.155 Hz over 4 readings) and 10 Hz/√3 rectangular.
     const perPoint = Math.sqrt((4 / 3) / 4 + 100 / 3);
     expect(result.tuningRange.fMinUncertaintyHz).toBeCloseTo(perPoint, 9);
-    expect(result.kvco.linear.slopeUncertaintyHzPerV).toBeGreaterThan(0);
-    expect(result.kvco.linear.slopeUncertaintyHzPerV).toBeLessThan(20);
+    // Straight-line slope: σ/√Sxx with σ the per-point uncertainty (it exceeds the ±1 Hz residuals) and
+    // Sxx = Σ(v − v̄)² = n(n² − 1)h²/12 = 13 V² for 25 points 0.1 V apart (least squares, common practice).
+    expect(result.kvco.linear.slopeUncertaintyHzPerV).toBeCloseTo(perPoint / Math.sqrt(13), 9);
   });
 });
 

@@ -445,6 +445,7 @@ function pointsJson(points: PointSet, edges: Edges, model: TuningModel): SweepAn
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
   return pointSummaries(points).map((row, i) => {
     const inFit = row.v >= model.fromV - tol && row.v <= model.toV + tol;
-    return { ...row, unstable: edges.unstable[i] === 1, unsettled: points.unsettled[i] === 1, fitHz: inFit ? model.value(row.v) : null };
+    // The flags go onto each row in place: a million-point sweep makes no second copy of its rows.
+    return Object.assign(row, { unstable: edges.unstable[i] === 1, unsettled: points.unsettled[i] === 1, fitHz: inFit ? model.value(row.v) : null });
   });
 }

@@ -50,13 +50,13 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
   let m = 0;
   for (let i = 0; i < n; i++) {
     const d = dirs ? (dirs[i] as number) : 1;
-    if ((d === 0 ? 1 : d) === want && Number.isFinite(controlV[i] as number)) m++;
+    if ((d === 0 ? 1 : d) === want && Number.isFinite(controlV[i])) m++;
   }
   const idx = new Uint32Array(m);
   m = 0;
   for (let i = 0; i < n; i++) {
     const d = dirs ? (dirs[i] as number) : 1;
-    if ((d === 0 ? 1 : d) === want && Number.isFinite(controlV[i] as number)) idx[m++] = i;
+    if ((d === 0 ? 1 : d) === want && Number.isFinite(controlV[i])) idx[m++] = i;
   }
   // Stable order by voltage, then reading order: deterministic grouping.
   idx.sort((a, b) => (controlV[a] as number) - (controlV[b] as number) || a - b);

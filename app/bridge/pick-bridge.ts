@@ -17,8 +17,8 @@ export interface Bridge {
   api: BenchApi;
   transport: 'ipc' | 'websocket';
   link: {
-    getState(): LinkState;
-    subscribe(listener: (state: LinkState) => void): () => void;
+    getState: () => LinkState;
+    subscribe: (listener: (state: LinkState) => void) => () => void;
   };
 }
 

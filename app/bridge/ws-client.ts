@@ -12,7 +12,7 @@ import { encodeImportParts } from '../contract/wire-upload.ts';
 import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
 import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
-import { benchEventSchema, firstIssue, resultSchemas, wireInboundSchema } from './wire-schemas.ts';
+import { benchEventSchema, firstIssue, resultSchemas, wireInboundSchema } from '../contract/wire-schemas.ts';
 
 /** The part of the DOM WebSocket this client uses. */
 export interface SocketLike {
@@ -172,7 +172,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     if (large) performance.mark('tunebench:ws:large-message-json');
     if ('event' in value) {
       const event = benchEventSchema.safeParse(value.event);
-      if (event.success) emit(event.data as BenchEvent);
+      if (event.success) emit(event.data);
       else {
         const issue = firstIssue(event.error);
         emit({ type: 'error', message: `main sent an unreadable event (event.${issue.field}: ${issue.message})` });

@@ -60,10 +60,10 @@ interface MethodParams {
 }
 
 function params<T extends [z.ZodType, ...z.ZodType[]]>(names: { [K in keyof T]: string }, items: T): MethodParams {
-  return { names, schema: z.tuple(items) as unknown as z.ZodType<unknown[]> };
+  return { names, schema: z.tuple(items) };
 }
 
-const none = (): MethodParams => ({ names: [], schema: z.tuple([]) as unknown as z.ZodType<unknown[]> });
+const none = (): MethodParams => ({ names: [], schema: z.tuple([]) });
 
 export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, MethodParams>> = {
   listSerialPorts: none(),

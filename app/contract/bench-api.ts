@@ -11,63 +11,31 @@
  * main/ treats every incoming payload as `unknown` and validates it with the
  * schemas in ./bench-api-schemas.ts before use.
  */
+import type { z } from 'zod';
+import type { KnownShape } from './known-shape.ts';
 import type { BenchConfig, DriftPlan, PushingPlan, SweepPlan } from './plans.ts';
+import type { ReadingStatus } from './reading-status.ts';
+import type { runMetaSchema } from './run-meta-schema.ts';
+import type { connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
 export type RunKind = 'sweep' | 'drift' | 'pushing';
-export type RunStatus = 'running' | 'complete' | 'aborted' | 'interrupted';
-export type SampleStatus = 'ok' | 'no-signal' | 'timeout' | 'error';
+export type SampleStatus = ReadingStatus;
 
-export interface RoleConnection {
-  role: 'supply' | 'counter' | 'thermometer';
-  address: string;
-  idn: string;
-  simulated: boolean;
-}
+// The contract's data types are inferred from their schemas (./state-schemas.ts,
+// ./run-meta-schema.ts): a field dropped from a schema is dropped from the type.
+export type ConnectionState = KnownShape<z.output<typeof connectionStateSchema>>;
+export type RoleConnection = ConnectionState['roles'][number];
+export type LiveReadout = KnownShape<z.output<typeof readoutSchema>>;
+export type ProgressInfo = KnownShape<z.output<typeof progressSchema>>;
 
-export interface ConnectionState {
-  connected: boolean;
-  simulated: boolean;
-  roles: RoleConnection[];
-  error: string | null;
-}
-
-export interface LiveReadout {
-  controlSetV: number | null;
-  controlMeasV: number | null;
-  frequencyHz: number | null;
-  temperatureC: number | null;
-  timeS: number;
-}
-
-/** Metadata as in run.json (CONTRACTS.md). */
-export interface RunMeta {
-  schema: 'tunebench.run/1';
-  id: string;
-  kind: RunKind;
-  status: RunStatus;
-  startedAt: string;
-  endedAt: string | null;
-  dut: { id: string; notes: string };
-  instruments: { role: string; idn: string; address: string }[];
-  plan: unknown;
-  software: { version: string };
-  /** Conditions read at the start and end of the run (sweeps; absent in older runs). */
-  conditions?: RecordedConditions;
-  /** True when the run was taken on the simulated bench (absent: real instruments, or an older run — see isSimulatedBench). */
-  simulated?: boolean;
-}
-
-/** A condition read at the start and at the end of a run; null when it could not be read. */
-export interface ConditionSpan {
-  start: number | null;
-  end: number | null;
-}
+/** Metadata as in run.json (CONTRACTS.md), inferred from runMetaSchema. */
+export type RunMeta = KnownShape<z.output<typeof runMetaSchema>>;
+export type RunStatus = RunMeta['status'];
 
 /** run.json `conditions`: the DUT supply voltage and the temperature around a run. */
-export interface RecordedConditions {
-  dutSupplyV: ConditionSpan;
-  temperatureC: ConditionSpan;
-}
+export type RecordedConditions = NonNullable<RunMeta['conditions']>;
+/** A condition read at the start and at the end of a run; null when it could not be read. */
+export type ConditionSpan = RecordedConditions['dutSupplyV'];
 
 /** A numeric column: NaN for an empty cell. number[] is the older plain form, still accepted everywhere. */
 export type NumericColumn = number[] | Float64Array;
@@ -109,15 +77,6 @@ export interface RunDetail {
   events: RunEvent[];
 }
 
-export interface ProgressInfo {
-  runId: string;
-  kind: RunKind;
-  phase: 'settling' | 'reading' | 'refining' | 'logging' | 'paused' | 'finishing';
-  pointsDone: number;
-  pointsTotal: number;
-  etaS: number | null;
-  latest: { controlV: number; frequencyHz: number | null; status: SampleStatus } | null;
-}
 
 /** Events pushed from main to the renderer. */
 export type BenchEvent =

@@ -3,17 +3,8 @@
  * durations ("90s", "15m", "8h"), as the command line and plan files accept
  * them. Pure; shared by main and the renderer.
  */
+import { SI_PREFIX_SCALE } from './si-prefixes.ts';
 
-const PREFIX_SCALE: Readonly<Record<string, number>> = {
-  p: 1e-12,
-  n: 1e-9,
-  u: 1e-6,
-  'µ': 1e-6,
-  m: 1e-3,
-  k: 1e3,
-  M: 1e6,
-  G: 1e9,
-};
 
 const SI_PATTERN = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([pnuµmkMG]?)([A-Za-z°]*)$/;
 
@@ -28,7 +19,7 @@ export function parseSiNumber(text: string): number | null {
   // "5m" is 5 milli; but "5 MHz" keeps M = mega. A lone unit like "Hz" or
   // "V" with no prefix is fine.
   if (unit !== '' && !/^(V|Hz|A|s|C|°C|W)$/.test(unit)) return null;
-  const value = Number(mantissa) * (PREFIX_SCALE[prefix] ?? 1);
+  const value = Number(mantissa) * (SI_PREFIX_SCALE[prefix] ?? 1);
   return Number.isFinite(value) ? value : null;
 }
 

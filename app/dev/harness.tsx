@@ -5,7 +5,7 @@
  */
 import { createRoot } from 'react-dom/client';
 import { startApp } from '../views/start-app.tsx';
-import { createFakeBench } from './fake-bench.ts';
+import { createFakeBench } from './fake-bench-api.ts';
 
 const query = new URLSearchParams(window.location.search);
 const big = Number(query.get('big') ?? '0');
@@ -18,7 +18,7 @@ if (root) startApp(createRoot(root), { api, transport: 'ipc', link: { getState: 
 // Drive the UI like a user would, through its buttons.
 const click = (testId: string) => {
   const selector = testId.endsWith('*') ? `[data-testid^="${testId.slice(0, -1)}"]` : `[data-testid="${testId}"]`;
-  (document.querySelector(selector) as HTMLElement | null)?.click();
+  document.querySelector<HTMLElement>(selector)?.click();
 };
 // ?then=a,b*,c clicks those test ids in turn after the screen is shown (b* = first id starting with b).
 const then = (query.get('then') ?? '').split(',').filter((id) => id !== '');

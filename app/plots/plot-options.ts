@@ -1,7 +1,6 @@
 /** Shared option pieces so every chart reads the same: themed axes, point and line series. */
 import type uPlot from 'uplot';
-import { siPrefixFor } from '../analysis/format-si.ts';
-import { si } from '../views/units.ts';
+import { formatSiOrDash as si, siPrefixFor } from '../analysis/format-si.ts';
 import type { PlotColors } from './plot-colors.ts';
 
 export function siAxis(colors: PlotColors, label: string, unit: string, extra: Partial<uPlot.Axis> = {}): uPlot.Axis {

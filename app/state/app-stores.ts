@@ -12,7 +12,7 @@ import { createStore, type StoreApi } from 'zustand/vanilla';
 export interface NoticeState {
   /** Latest error pushed by main, shown until dismissed. */
   message: string | null;
-  dismiss(): void;
+  dismiss: () => void;
 }
 
 export interface AppStores {

@@ -1,6 +1,6 @@
 /**
- * Run columns → analysis inputs, by the same status rules as the CLI's
- * plain-CSV reading (app/analysis/csv-columns.ts): `no-signal` is evidence
+ * Run columns → analysis inputs, by the one set of reading-status rules
+ * (app/contract/reading-status.ts, as the CLI uses): `no-signal` is evidence
  * of no oscillation (frequency NaN); `timeout` and `error` rows say nothing
  * either way, so they are dropped (their voltage becomes NaN, which grouping
  * skips). One module for the worker jobs, the after-run figures and the gain
@@ -11,12 +11,20 @@ import { meanOfFinite } from '../analysis/mean-finite.ts';
 import type { DriftInput } from '../analysis/drift-analysis.ts';
 import type { PushingInput } from '../analysis/pushing-analysis.ts';
 import type { SweepInput } from '../analysis/sweep-points.ts';
+import { STATUS_EFFECT, type StatusEffect } from '../contract/reading-status.ts';
 import { DIRECTION_CODE, STATUS_CODE, type ColumnSet } from './columns.ts';
+
+/** Status codes of the store's columns whose readings have `effect`. */
+function codesWith(effect: StatusEffect): ReadonlySet<number> {
+  return new Set(Object.entries(STATUS_CODE).filter(([name]) => STATUS_EFFECT[name as keyof typeof STATUS_CODE] === effect).map(([, code]) => code));
+}
+const MEASURED = codesWith('measured');
+const DROPPED = codesWith('dropped');
 
 /** Frequency with every reading that is not `ok` as NaN. */
 export function okFrequency(columns: ColumnSet, n: number): Float64Array {
   const out = new Float64Array(n);
-  for (let i = 0; i < n; i += 1) out[i] = columns.status.at(i) === STATUS_CODE.ok ? columns.frequency_hz.at(i) : Number.NaN;
+  for (let i = 0; i < n; i += 1) out[i] = MEASURED.has(columns.status.at(i)) ? columns.frequency_hz.at(i) : Number.NaN;
   return out;
 }
 
@@ -24,8 +32,7 @@ export function okFrequency(columns: ColumnSet, n: number): Float64Array {
 function withoutFailedRows(columns: ColumnSet, values: Float64Array): Float64Array {
   const out = values.slice();
   for (let i = 0; i < out.length; i += 1) {
-    const status = columns.status.at(i);
-    if (status === STATUS_CODE.timeout || status === STATUS_CODE.error) out[i] = Number.NaN;
+    if (DROPPED.has(columns.status.at(i))) out[i] = Number.NaN;
   }
   return out;
 }

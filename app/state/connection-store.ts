@@ -16,12 +16,12 @@ export interface ConnectionStoreState {
 }
 
 export interface ConnectionActions {
-  refresh(): Promise<void>;
-  connect(config: BenchConfig | 'sim'): Promise<boolean>;
-  disconnect(): Promise<void>;
-  setConnection(state: ConnectionState): void;
-  setReadout(readout: LiveReadout): void;
-  setPeers(others: number): void;
+  refresh: () => Promise<void>;
+  connect: (config: BenchConfig | 'sim') => Promise<boolean>;
+  disconnect: () => Promise<void>;
+  setConnection: (state: ConnectionState) => void;
+  setReadout: (readout: LiveReadout) => void;
+  setPeers: (others: number) => void;
 }
 
 export type ConnectionStore = StoreApi<ConnectionStoreState & ConnectionActions>;

@@ -20,13 +20,13 @@ export interface LiveRunState {
 }
 
 export interface LiveRunActions {
-  started(meta: RunMeta): void;
-  samples(runId: string, rows: readonly Record<string, number | string>[]): void;
-  progressed(progress: ProgressInfo): void;
-  ended(meta: RunMeta): void;
-  runEvent(runId: string, event: RunEvent): void;
+  started: (meta: RunMeta) => void;
+  samples: (runId: string, rows: readonly Record<string, number | string>[]) => void;
+  progressed: (progress: ProgressInfo) => void;
+  ended: (meta: RunMeta) => void;
+  runEvent: (runId: string, event: RunEvent) => void;
   /** Set when a pause/resume call to main succeeded (main's progress may lag). */
-  setPaused(paused: boolean): void;
+  setPaused: (paused: boolean) => void;
 }
 
 export type LiveRunStore = StoreApi<LiveRunState & LiveRunActions>;

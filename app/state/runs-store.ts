@@ -26,17 +26,17 @@ export interface RunsState {
 }
 
 export interface RunsActions {
-  refresh(): Promise<void>;
-  open(id: string): Promise<OpenedRun | null>;
-  focus(id: string | null): Promise<void>;
-  togglePick(id: string): void;
-  setPicked(ids: string[]): void;
-  rename(id: string, dutId: string): Promise<void>;
-  addNote(id: string, text: string): Promise<void>;
-  remove(id: string): Promise<void>;
-  undoRemove(): Promise<void>;
-  importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta | null>;
-  upsert(meta: RunMeta): void;
+  refresh: () => Promise<void>;
+  open: (id: string) => Promise<OpenedRun | null>;
+  focus: (id: string | null) => Promise<void>;
+  togglePick: (id: string) => void;
+  setPicked: (ids: string[]) => void;
+  rename: (id: string, dutId: string) => Promise<void>;
+  addNote: (id: string, text: string) => Promise<void>;
+  remove: (id: string) => Promise<void>;
+  undoRemove: () => Promise<void>;
+  importCsv: (fileName: string, csvText: string, dutId: string) => Promise<RunMeta | null>;
+  upsert: (meta: RunMeta) => void;
 }
 
 export type RunsStore = StoreApi<RunsState & RunsActions>;

@@ -16,13 +16,13 @@ export interface SettingsState {
 }
 
 export interface SettingsActions {
-  setTheme(theme: ThemeChoice): void;
-  cycleTheme(): void;
-  show(screen: ScreenName): void;
-  setDutId(dutId: string): void;
-  editLimits(patch: Partial<LimitsDraft>): void;
-  editSweep(patch: Partial<SweepDraft>): void;
-  editDrift(patch: Partial<DriftDraft>): void;
+  setTheme: (theme: ThemeChoice) => void;
+  cycleTheme: () => void;
+  show: (screen: ScreenName) => void;
+  setDutId: (dutId: string) => void;
+  editLimits: (patch: Partial<LimitsDraft>) => void;
+  editSweep: (patch: Partial<SweepDraft>) => void;
+  editDrift: (patch: Partial<DriftDraft>) => void;
 }
 
 export type SettingsStore = StoreApi<SettingsState & SettingsActions>;

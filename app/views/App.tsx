@@ -1,5 +1,6 @@
 /** The shell: top bar (name, bench badge, link state, theme), screen rail, the screen. */
 import { useEffect, useSyncExternalStore } from 'react';
+import { useEffectiveTheme } from './use-theme.ts';
 import { SCREENS, type ScreenName, type ThemeChoice } from '../state/settings-store.ts';
 import { useStore } from '../state/use-store.ts';
 import { useApp } from './app-context.ts';
@@ -21,24 +22,6 @@ const SCREEN_LABEL: Record<ScreenName, string> = {
 };
 
 const THEME_LABEL: Record<ThemeChoice, string> = { system: 'Theme: follow system', dark: 'Theme: dark', light: 'Theme: light' };
-
-function usePrefersDark(): boolean {
-  return useSyncExternalStore(
-    (notify) => {
-      const query = window.matchMedia('(prefers-color-scheme: dark)');
-      query.addEventListener('change', notify);
-      return () => query.removeEventListener('change', notify);
-    },
-    () => window.matchMedia('(prefers-color-scheme: dark)').matches,
-  );
-}
-
-export function useEffectiveTheme(): 'dark' | 'light' {
-  const { stores } = useApp();
-  const choice = useStore(stores.settings, (s) => s.theme);
-  const prefersDark = usePrefersDark();
-  return choice === 'system' ? (prefersDark ? 'dark' : 'light') : choice;
-}
 
 function LinkBanner() {
   const { bridge } = useApp();

@@ -6,7 +6,7 @@
 import { planHints } from '../analysis/datasheet-run.ts';
 import type { RunKind } from '../contract/bench-api.ts';
 import { useStore } from '../state/use-store.ts';
-import { useEffectiveTheme } from './App.tsx';
+import { useEffectiveTheme } from './use-theme.ts';
 import { useApp } from './app-context.ts';
 import type { SweepSource } from './sweep/SweepFigures.tsx';
 

@@ -2,11 +2,10 @@
  * Formatting at the edge: SI prefixes for the screen. Thin wrappers so the
  * views read `hz(x)`, `volts(x)`; the prefix logic itself lives with analysis.
  */
-import { formatPlain, formatSi } from '../analysis/format-si.ts';
-export function si(value: number | null | undefined, unit: string, digits = 4): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return formatSi(value, unit, digits);
-}
+import { formatClockDuration } from '../analysis/format-clock.ts';
+import { formatPlain, formatSiOrDash } from '../analysis/format-si.ts';
+
+export const si = formatSiOrDash;
 
 export const hz = (value: number | null | undefined, digits?: number) => si(value, 'Hz', digits);
 export const volts = (value: number | null | undefined, digits?: number) => si(value, 'V', digits);
@@ -25,13 +24,7 @@ export function plain(value: number | null | undefined, unit: string, digits = 3
 }
 
 /** "1 h 02 min", "3 min 05 s", "42 s" for an ETA. */
-export function duration(seconds: number | null | undefined): string {
-  if (seconds === null || seconds === undefined || !Number.isFinite(seconds) || seconds < 0) return '—';
-  const s = Math.round(seconds);
-  if (s >= 3600) return `${Math.floor(s / 3600)} h ${String(Math.floor((s % 3600) / 60)).padStart(2, '0')} min`;
-  if (s >= 60) return `${Math.floor(s / 60)} min ${String(s % 60).padStart(2, '0')} s`;
-  return `${s} s`;
-}
+export const duration = formatClockDuration;
 
 /** Short local date-time for run lists. */
 export function when(iso: string): string {

@@ -6,7 +6,7 @@ import { serveSimBench } from '../sim/tcp-server.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { SIM_BENCH_CONFIG, assembleBench } from './assemble.ts';
-import { ConfigFileError, loadBenchFile, loadSweepPlan } from './config-files.ts';
+import { ConfigFileError, loadBenchFile, loadSweepPlan } from '../cli/config-files.ts';
 
 const dirs: string[] = [];
 afterAll(async () => {

@@ -6,7 +6,7 @@ import { execFile } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runCliCaptured } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured } from '../../test/testing/run-cli-captured.ts';
 import { bundleStaleReason } from './cli-bundle.mjs';
 
 const run = promisify(execFile);

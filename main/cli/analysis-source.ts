@@ -1,23 +1,29 @@
 /**
  * Loads what `analyze` and `datasheet` work on: a run folder (through the
- * store's reader, which also marks dead `running` runs as interrupted) or a
- * plain CSV file. Malformed input becomes a UsageError naming file and line.
+ * store's reader, which also marks dead `running` runs as interrupted, and
+ * drops a line a crash tore as every reader of the store does) or a plain CSV
+ * file (through the one plain-CSV reader). Malformed input becomes a
+ * UsageError naming file and line.
  */
 import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { detectCsvKind, type CsvKind } from '../../app/analysis/csv-columns.ts';
+import type { ColumnTable } from '../../app/contract/column-table.ts';
+import { CsvError, detectCsvKind, numericColumn, type CsvKind } from '../../app/analysis/csv-columns.ts';
 import { datasheetRunLabel, runConditions, runHints, type RunHints } from '../../app/analysis/datasheet-run.ts';
-import { CsvError, numericColumn, parseCsv, type CsvTable } from '../../app/analysis/csv-input.ts';
+import { CsvImportError, readPlainCsv } from '../store/plain-csv.ts';
 import type { RunEventLike } from '../../app/analysis/run-quality.ts';
 import { readRunFolder } from '../store/run-reader.ts';
+import { readSampleTable } from '../store/sample-table.ts';
 import { UsageError } from './types.ts';
 
 export interface AnalysisSource {
   path: string;
   label: string;
   kind: CsvKind;
-  table: CsvTable;
+  table: ColumnTable;
+  /** Run folder only: samples.csv lines the store's reader dropped (torn by a crash, damaged). */
+  droppedLines: number;
   meta: RunMeta | null;
   /** Run folder only: how many events of each type (faults, gaps, retries…). */
   eventsByType: Record<string, number>;
@@ -29,13 +35,13 @@ export interface AnalysisSource {
   conditions: { temperatureC: number | null; supplyV: number | null; gateS: number | null };
 }
 
-function tableOf(text: string, file: string): CsvTable {
+function plainTable(text: string, file: string): ColumnTable {
   try {
-    const table = parseCsv(text);
-    if (table.rows.length === 0) throw new UsageError(`${file}: no data rows after the header`);
+    const table = readPlainCsv(text, file);
+    if (table.rowCount === 0) throw new UsageError(`${file}: no data rows after the header`);
     return table;
   } catch (error) {
-    if (error instanceof CsvError) throw new UsageError(`${file}: ${error.message}`);
+    if (error instanceof CsvImportError) throw new UsageError(error.message);
     throw error;
   }
 }
@@ -43,7 +49,8 @@ function tableOf(text: string, file: string): CsvTable {
 export async function loadAnalysisSource(path: string): Promise<AnalysisSource> {
   const info = await stat(path).catch(() => null);
   if (!info) throw new UsageError(`${path}: no such file or run folder (expected RUN_DIR or FILE.csv)`);
-  let table: CsvTable;
+  let table: ColumnTable;
+  let droppedLines = 0;
   let meta: RunMeta | null = null;
   let kind: CsvKind;
   let label = path;
@@ -56,7 +63,10 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
       meta = run.meta;
       for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
       events = run.events as RunEventLike[];
-      table = tableOf(run.samplesCsv, join(path, 'samples.csv'));
+      const samples = readSampleTable(run.samplesCsv);
+      droppedLines = samples.dropped.length;
+      if (samples.rowCount === 0) throw new UsageError(`${join(path, 'samples.csv')}: no readings recorded`);
+      table = samples;
     } catch (error) {
       if (error instanceof UsageError) throw error;
       throw new UsageError(`${path}: not a readable run folder (${(error as Error).message})`);
@@ -65,7 +75,7 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
     label = datasheetRunLabel(meta.id, meta.dut.id);
     hints = runHints(meta);
   } else {
-    table = tableOf(await readFile(path, 'utf8'), path);
+    table = plainTable(await readFile(path, 'utf8'), path);
     try {
       kind = detectCsvKind(table);
     } catch (error) {
@@ -85,6 +95,7 @@ export async function loadAnalysisSource(path: string): Promise<AnalysisSource> 
     label,
     kind,
     table,
+    droppedLines,
     meta,
     eventsByType,
     events,

@@ -11,9 +11,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SweepAnalysis } from '../../app/analysis/sweep-types.ts';
 import type { RunQuality } from '../../app/analysis/run-quality.ts';
 import { sweepPlanSchema } from '../../app/contract/plans.ts';
-import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured as cli } from '../../test/testing/run-cli-captured.ts';
 import { assembleBench } from '../bench/assemble.ts';
-import { summarizeRun } from '../bench/run-summary.ts';
+import { summarizeRun } from '../cli/run-summary.ts';
 import { recordSweep } from '../procedures/recorded-run.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SweepAnalysis } from '../../app/analysis/sweep-types.ts';
-import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured as cli } from '../../test/testing/run-cli-captured.ts';
 
 const fixture = fileURLToPath(new URL('../../test/fixtures/sweep-sensor-osc.csv', import.meta.url));
 
@@ -85,7 +85,8 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     expect(r.kind).toBe('drift');
     expect(r.tempcoHzPerC).toBeCloseTo(10, 3);
     expect(r.tempcoPpmPerC).toBeCloseTo(10 / (1e6 + 25) * 1e6, 3);
-    expect(typeof r.driftPpmPerHour).toBe('number');
+    // The log rises 10 Hz/°C × 5 °C over 599 s, a straight ramp: the drift line's slope is exactly that, in ppm/h of the mean.
+    expect(r.driftPpmPerHour).toBeCloseTo(((10 * 5) / 599) * 3600 / r.meanHz * 1e6, 3);
     expect(r.adev[0]?.tauS).toBe(1);
   });
   it('analyses a pushing run CSV (time_s, control_v, supply_v, frequency_hz, status)', async () => {
@@ -134,7 +135,7 @@ describe('tunebench analyze: bad input and failed work', () => {
     await writeFile(file, 'control_v,frequency_hz\n0.5,1000\n0.6,abc\n');
     const { code, err } = await cli('analyze', file);
     expect(code).toBe(2);
-    expect(err).toContain('line 3: column frequency_hz: "abc" is not a number');
+    expect(err).toContain('line 3, column frequency_hz: "abc" is not a number');
   });
   it('exit 2 for a missing file, a bad --fit and a CSV of unknown shape', async () => {
     expect((await cli('analyze', join(dir, 'nope.csv'))).code).toBe(2);

@@ -5,7 +5,7 @@ import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
 import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
-import { CsvError } from '../../app/analysis/csv-input.ts';
+import { CsvError } from '../../app/analysis/csv-columns.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
@@ -97,11 +97,12 @@ export const analyzeCommand: CliCommand = {
     }
     if (flags.booleans.has('json')) {
       const out = source.meta
-        ? { ...result, run: { id: source.meta.id, status: source.meta.status, dutId: source.meta.dut.id, eventsByType: source.eventsByType } }
+        ? { ...result, run: { id: source.meta.id, status: source.meta.status, dutId: source.meta.dut.id, eventsByType: source.eventsByType, droppedLines: source.droppedLines } }
         : result;
       io.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
     } else {
       if (source.meta) io.stdout.write(`run ${source.label}, status ${source.meta.status}\n`);
+      if (source.droppedLines > 0) io.stdout.write(`samples.csv: ${source.droppedLines} damaged line(s) left out (a line a crash tore, or a broken one)\n`);
       io.stdout.write(summarizeAnalysis(result));
     }
     return 0;

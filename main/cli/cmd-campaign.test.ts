@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runCliCaptured } from '../../test/support/run-cli-captured.ts';
+import { runCliCaptured } from '../../test/testing/run-cli-captured.ts';
 import { campaignPlanInput } from '../procedures/campaign/demo-campaign.ts';
 
 const BIN = fileURLToPath(new URL('../bin/tunebench.mjs', import.meta.url));

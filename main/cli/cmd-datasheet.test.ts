@@ -3,8 +3,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { parseCsv } from '../../app/analysis/csv-input.ts';
-import { runCliCaptured as cli } from '../../test/support/run-cli-captured.ts';
+import { splitCsvLine } from '../store/csv-cells.ts';
+import { runCliCaptured as cli } from '../../test/testing/run-cli-captured.ts';
 
 const fixture = fileURLToPath(new URL('../../test/fixtures/sweep-sensor-osc.csv', import.meta.url));
 
@@ -35,7 +35,7 @@ describe('tunebench datasheet', () => {
   it('CSV: min/typ/max of the line slope over the two units', async () => {
     const r = await cli('datasheet', fixture, second, '--format', 'csv');
     expect(r.code).toBe(0);
-    const row = parseCsv(r.out).rows.find((x) => x[0] === 'kvcoLine');
+    const row = r.out.trim().split('\n').map((line) => splitCsvLine(line) ?? []).find((x) => x[0] === 'kvcoLine');
     expect(Number(row?.[3])).toBeCloseTo(30.75e3, -2); // fixture's best line (see cmd-analyze test)
     expect(Number(row?.[5])).toBeCloseTo(33e3, 6);
     expect(row?.[7]).toBe('2');

@@ -6,7 +6,7 @@ import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { analyzeTable, parseVoltRange } from '../../app/analysis/analyze-table.ts';
 import { runOrigin } from '../../app/analysis/datasheet-run.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
-import { CsvError } from '../../app/analysis/csv-input.ts';
+import { CsvError } from '../../app/analysis/csv-columns.ts';
 import { buildDatasheet, DatasheetInputError, type DatasheetRun } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';

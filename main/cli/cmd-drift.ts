@@ -3,10 +3,10 @@
  */
 import { parseDurationS } from '../../app/contract/si.ts';
 import type { DriftPlan } from '../../app/contract/plans.ts';
-import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from '../bench/cli-session.ts';
-import { loadDriftPlan } from '../bench/config-files.ts';
-import { defaultDriftPlan } from '../bench/default-plans.ts';
-import { summarizeRun } from '../bench/run-summary.ts';
+import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from './recording-command.ts';
+import { loadDriftPlan } from './config-files.ts';
+import { defaultDriftPlan } from './default-plans.ts';
+import { summarizeRun } from './run-summary.ts';
 import { recordDrift, resumeDrift, validateDriftPlan } from '../procedures/recorded-run.ts';
 import { StoreError } from '../store/store-error.ts';
 import { positiveFlag } from './flags.ts';

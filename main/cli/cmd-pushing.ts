@@ -1,10 +1,10 @@
 /**
  * `tunebench pushing [--bench …] [--plan …] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
  */
-import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from '../bench/cli-session.ts';
-import { loadPushingPlan } from '../bench/config-files.ts';
-import { defaultPushingPlan } from '../bench/default-plans.ts';
-import { summarizeRun } from '../bench/run-summary.ts';
+import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from './recording-command.ts';
+import { loadPushingPlan } from './config-files.ts';
+import { defaultPushingPlan } from './default-plans.ts';
+import { summarizeRun } from './run-summary.ts';
 import { recordPushing, validatePushingPlan } from '../procedures/recorded-run.ts';
 import type { CliCommand } from './types.ts';
 

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { dutIdSchema as apiDutId, noteTextSchema } from '../../app/contract/bench-api-schemas.ts';
 import { createRun } from '../store/run-writer.ts';
 import { dutIdSchema as storeDutId } from '../store/run-id.ts';
-import { withTempDir } from '../store/test-support/temp-dir.ts';
+import { withTempDir } from '../store/testing/temp-dir.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { runsCommand } from './cmd-runs.ts';
 

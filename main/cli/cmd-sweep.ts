@@ -2,10 +2,10 @@
  * `tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
  */
 import { basename } from 'node:path';
-import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from '../bench/cli-session.ts';
-import { loadSweepPlan } from '../bench/config-files.ts';
-import { defaultSweepPlan } from '../bench/default-plans.ts';
-import { summarizeRun } from '../bench/run-summary.ts';
+import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from './recording-command.ts';
+import { loadSweepPlan } from './config-files.ts';
+import { defaultSweepPlan } from './default-plans.ts';
+import { summarizeRun } from './run-summary.ts';
 import { recordSweep, validateSweepPlan } from '../procedures/recorded-run.ts';
 import type { CliCommand } from './types.ts';
 

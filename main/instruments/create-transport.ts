@@ -26,7 +26,7 @@ export function createTransport(address: InstrumentAddress | string, options: Cr
     case 'tcp':
       return new TcpTransport({ host: descriptor.host, port: descriptor.port, connectTimeoutS: options.connectTimeoutS, clock: options.clock });
     case 'serial':
-      return new SerialTransport(descriptor);
+      return new SerialTransport({ ...descriptor, clock: options.clock });
     case 'sim': {
       const role = descriptor.role ?? options.role;
       if (role === undefined) throw new AddressError('sim role', 'bare "sim" needs the role it stands for; write sim:supply, sim:counter or sim:thermometer');

@@ -54,7 +54,7 @@ describe('LineFramer', () => {
     expect(lines).toEqual(['12.5', '4']);
   });
 
-  it('passes a definite block whose payload holds newlines as one line (IEEE 488.2 8.7.9)', () => {
+  it('passes a definite block whose payload holds newlines as one line (IEEE 488.2 8.7.9, section number from memory)', () => {
     const payload = Uint8Array.from([0x0a, 0x00, 0xff, 0x0a, 0x0d, 0x0a, 0x41]);
     const bytes = new Uint8Array([...encoder.encode('#17'), ...payload, 0x0a, ...encoder.encode('next\n')]);
     for (let cut = 0; cut <= bytes.length; cut += 1) {

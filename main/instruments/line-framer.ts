@@ -7,6 +7,10 @@
  *
  * Lines are split on bytes and decoded by the consumer, so a multi-byte UTF-8
  * character split across two chunks arrives whole.
+ *
+ * Why not the readline parser itself on serial links: it cuts a definite block
+ * that holds newline bytes apart; line-framer-vs-readline.test.ts shows that,
+ * and holds this framer to the parser's output on every ordinary reply.
  */
 
 export interface LineFramerOptions {

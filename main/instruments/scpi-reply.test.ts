@@ -30,7 +30,7 @@ function thrown(fn: () => unknown): unknown {
 const notSpecial = (x: number): boolean => x !== SCPI_NAN && Math.abs(x) !== SCPI_INFINITY;
 
 describe('parseNumeric', () => {
-  it('reads NR1, NR2 and NR3 forms with and without sign (IEEE 488.2 8.7.2-8.7.4)', () => {
+  it('reads NR1, NR2 and NR3 forms with and without sign (IEEE 488.2 8.7.2-8.7.4, section numbers from memory)', () => {
     expect(parseNumeric('42')).toEqual({ kind: 'finite', value: 42 });
     expect(parseNumeric('+42')).toEqual({ kind: 'finite', value: 42 });
     expect(parseNumeric('-7')).toEqual({ kind: 'finite', value: -7 });
@@ -126,7 +126,7 @@ describe('other response types', () => {
     expect(thrown(() => splitList('"open'))).toBeInstanceOf(ReplyFormatError);
   });
 
-  it('passes definite and indefinite arbitrary blocks through untouched (IEEE 488.2 8.7.9/8.7.10)', () => {
+  it('passes definite and indefinite arbitrary blocks through untouched (IEEE 488.2 8.7.9/8.7.10, section numbers from memory)', () => {
     fc.assert(fc.property(fc.uint8Array({ maxLength: 300 }), (payload) => {
       const len = String(payload.length);
       const header = new TextEncoder().encode(`#${len.length}${len}`);
@@ -142,14 +142,14 @@ describe('other response types', () => {
     }
   });
 
-  it('reads SYST:ERR? entries (SCPI-99 error numbers: -113 Undefined header, -222 Data out of range)', () => {
+  it('reads SYST:ERR? entries (SCPI-99 error numbers, from memory: -113 Undefined header, -222 Data out of range)', () => {
     expect(parseErrorEntry('-113,"Undefined header"')).toEqual({ code: -113, message: 'Undefined header' });
     expect(parseErrorEntry('-222,"Data out of range;VOLT 99"')).toEqual({ code: -222, message: 'Data out of range;VOLT 99' });
     expect(parseErrorEntry('+0,"No error"')).toEqual({ code: 0, message: 'No error' });
     for (const bad of ['', '0', 'No error', '-113,Undefined', '1.5,"x"']) expect(thrown(() => parseErrorEntry(bad))).toBeInstanceOf(ReplyFormatError);
   });
 
-  it('parses *IDN? into its four fields (IEEE 488.2 10.14)', () => {
+  it('parses *IDN? into its four fields (IEEE 488.2 10.14, section number from memory)', () => {
     expect(parseIdentity('Bench Works,PS-3,SN0042,1.2.3\r')).toEqual({
       idn: 'Bench Works,PS-3,SN0042,1.2.3', manufacturer: 'Bench Works', model: 'PS-3', serial: 'SN0042', firmware: '1.2.3' });
     expect(parseIdentity('A,B,C,fw 1,build 7').firmware).toBe('fw 1,build 7');

@@ -3,12 +3,14 @@ import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { SerialPort } from 'serialport';
-import { afterEach, describe, expect, it } from 'vitest';
+import { openSync, closeSync, writeSync } from 'node:fs';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { VirtualClock } from '../time/virtual-clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { createTransport } from './create-transport.ts';
 import { DisconnectedError, InstrumentError } from './errors.ts';
 import { ScpiSession } from './scpi-session.ts';
-import { listSerialPorts, SerialTransport } from './serial-transport.ts';
+import { DRAIN_GRACE_S, listSerialPorts, SerialTransport } from './serial-transport.ts';
 import { RESPONDER_IDN, ScpiResponder } from './testing/scpi-responder.ts';
 
 const SOCAT = '/usr/bin/socat';
@@ -84,6 +86,27 @@ describe.skipIf(!haveSocat)('SerialTransport over a socat pty pair', () => {
     expect(responder.received).toBeGreaterThanOrEqual(6);
   });
 
+  it('closes after a grace time when pending output cannot drain (peer sent XOFF), issue 10 item 4', async () => {
+    const pair = await ptyPair();
+    const clock = new VirtualClock();
+    const transport = new SerialTransport({ path: pair.b, baudRate: 9600, flow: 'xon', clock });
+    await transport.open();
+    // The far end says "stop sending" (XOFF, 0x13): the tty holds our output and drain never completes.
+    const far = openSync(pair.a, 'r+');
+    cleanups.push(() => closeSync(far));
+    writeSync(far, Buffer.from([0x13]));
+    await new Promise((r) => setTimeout(r, 100));
+    const pendingWrite = transport.write('X'.repeat(200_000)).catch((e: unknown) => e);
+    let closed = false;
+    const closing = transport.close().then(() => (closed = true));
+    await new Promise((r) => setTimeout(r, 300));
+    expect(closed).toBe(false); // still draining: the old code waited here for ever
+    await clock.advance(DRAIN_GRACE_S);
+    await closing;
+    expect(closed).toBe(true);
+    expect(await pendingWrite).toBeInstanceOf(DisconnectedError);
+  });
+
   it('opens with the VISA ASRL form and reports a vanished port as DisconnectedError', async () => {
     const pair = await ptyPair();
     await serveResponder(pair.a);
@@ -116,9 +139,15 @@ describe('SerialTransport without a port', () => {
     expect(String(error)).toContain('/nonexistent/tty-tunebench');
   });
 
-  it('lists ports without throwing, giving the reason when the system cannot enumerate', async () => {
-    const listing = await listSerialPorts();
-    expect(Array.isArray(listing.ports)).toBe(true);
-    if (listing.ports.length === 0 && listing.error !== undefined) expect(listing.error.length).toBeGreaterThan(0);
+  it('lists ports, and gives the reason instead of throwing when the system cannot enumerate', async () => {
+    const list = vi.spyOn(SerialPort, 'list');
+    try {
+      list.mockResolvedValueOnce([{ path: '/dev/ttyUSB0', manufacturer: 'acme', serialNumber: 'S1', pnpId: undefined, locationId: undefined, vendorId: '0403', productId: '6001' }]);
+      expect(await listSerialPorts()).toEqual({ ports: [{ path: '/dev/ttyUSB0', manufacturer: 'acme', serialNumber: 'S1', vendorId: '0403', productId: '6001' }] });
+      list.mockRejectedValueOnce(new Error('udevadm: not found'));
+      expect(await listSerialPorts()).toEqual({ ports: [], error: 'udevadm: not found' });
+    } finally {
+      list.mockRestore();
+    }
   });
 });

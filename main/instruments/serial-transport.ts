@@ -3,6 +3,8 @@
  * fresh port object, so a session can reopen after a USB adapter comes back.
  */
 import type { SerialPort } from 'serialport';
+import { z } from 'zod';
+import type { Clock } from '../time/clock.ts';
 import { formatAddress, SERIAL_DEFAULTS, type FlowControl, type Parity } from './address.ts';
 import { DisconnectedError } from './errors.ts';
 import { TransportListeners } from './transport-listeners.ts';
@@ -20,17 +22,30 @@ export interface SerialTransportOptions {
   stopBits?: 1 | 2;
   /** Hardware (RTS/CTS) or software (XON/XOFF) flow control; default none. */
   flow?: FlowControl;
+  /** Timer for the close grace; real time by default. */
+  clock?: Pick<Clock, 'setTimer'>;
+}
+
+/** How long close() lets pending writes drain before closing anyway (a port held off by XOFF/CTS never drains). */
+export const DRAIN_GRACE_S = 1;
+
+function nodeTimer(seconds: number, callback: () => void): () => void {
+  const handle = setTimeout(callback, seconds * 1000);
+  return () => clearTimeout(handle);
 }
 
 export class SerialTransport implements Transport {
   readonly address: string;
-  private readonly options: Required<SerialTransportOptions>;
+  private readonly options: Required<Omit<SerialTransportOptions, 'clock'>>;
+  private readonly setTimer: (seconds: number, callback: () => void) => () => void;
   private readonly listeners = new TransportListeners();
   private port: SerialPort | null = null;
 
   constructor(options: SerialTransportOptions) {
     if (options.path === '') throw new TypeError('path: must not be empty');
-    this.options = { ...SERIAL_DEFAULTS, ...options };
+    const { clock, ...line } = options;
+    this.options = { ...SERIAL_DEFAULTS, ...line };
+    this.setTimer = clock?.setTimer.bind(clock) ?? nodeTimer;
     if (!Number.isInteger(this.options.baudRate) || this.options.baudRate <= 0) {
       throw new TypeError(`baudRate: ${this.options.baudRate} is not a positive integer`);
     }
@@ -77,18 +92,32 @@ export class SerialTransport implements Transport {
     });
   }
 
+  /**
+   * Lets pending writes (a final "output off") reach the line, then closes;
+   * after DRAIN_GRACE_S it closes anyway. A failed close is reported.
+   */
   close(): Promise<void> {
     const port = this.port;
     if (port === null) return Promise.resolve();
     this.port = null;
-    return new Promise((resolve) => {
+    return new Promise((resolve, reject) => {
       if (!port.isOpen) {
         this.listeners.emitClose(null);
         resolve();
         return;
       }
-      // Let pending writes (a final "output off") reach the line before closing.
-      port.drain(() => port.close(() => resolve()));
+      let closing = false;
+      const shut = (): void => {
+        if (closing) return;
+        closing = true;
+        cancelGrace();
+        port.close((error: Error | null | undefined) => {
+          if (error) reject(new DisconnectedError(this.address, `close failed: ${error.message}`, { cause: error }));
+          else resolve();
+        });
+      };
+      const cancelGrace = this.setTimer(DRAIN_GRACE_S, shut);
+      port.drain(shut);
     });
   }
 
@@ -112,6 +141,11 @@ export class SerialTransport implements Transport {
   }
 }
 
+const optionalText = z.string().optional().catch(undefined);
+const portListSchema = z.array(
+  z.looseObject({ path: z.string(), manufacturer: optionalText, serialNumber: optionalText, vendorId: optionalText, productId: optionalText }),
+);
+
 export interface SerialPortListing {
   ports: { path: string; manufacturer?: string; serialNumber?: string; vendorId?: string; productId?: string }[];
   /** Why the list is empty when the system could not enumerate ports (e.g. no udevadm in a container). */
@@ -122,7 +156,8 @@ export interface SerialPortListing {
 export async function listSerialPorts(): Promise<SerialPortListing> {
   try {
     const { SerialPort } = await import('serialport');
-    const ports = await SerialPort.list();
+    // What the OS reports is checked like any other input (and typed by the check).
+    const ports = portListSchema.parse(await SerialPort.list());
     return {
       ports: ports.map((p) => ({ path: p.path, manufacturer: p.manufacturer, serialNumber: p.serialNumber, vendorId: p.vendorId, productId: p.productId })),
     };

@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { onStdoutLines } from '../../test/support/child-stdout-lines.ts';
+import { onStdoutLines } from '../../test/testing/child-stdout-lines.ts';
 import { assembleBench } from '../bench/assemble.ts';
 import { parseSamplesCsv, readRunFolder } from '../store/index.ts';
 import { RealClock } from '../time/real-clock.ts';

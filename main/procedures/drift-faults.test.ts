@@ -134,7 +134,7 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
 });
 
 function matches(type: string, e: { type: string; [key: string]: unknown }): boolean {
-  const text = `${String(e.errorName ?? '')} ${String(e.error ?? '')} ${String(e.event ?? '')}`;
+  const text = JSON.stringify([e.errorName ?? '', e.error ?? '', e.event ?? '']);
   switch (type) {
     case 'drop': return e.type === 'link-lost' || (e.type === 'link' && (e.event === 'disconnected' || e.event === 'reconnected'));
     case 'delay': return (e.type === 'fault' && /timeout|TimeoutError/.test(text)) || (e.type === 'link' && (e.event === 'resync' || e.event === 'stale-line'));

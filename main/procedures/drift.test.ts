@@ -28,8 +28,11 @@ describe('runDrift', () => {
     const last = sink.rows[599]?.time_s as number;
     const first = sink.rows[0]?.time_s as number;
     expect(last - first).toBeCloseTo(599, 6);
-    expect(typeof sink.rows[10]?.temperature_c).toBe('number');
-    expect(Number.isNaN(sink.rows[10]?.temperature_c)).toBe(false);
+    // FakeThermometer reads 25 + sin(t / 1 h) °C: over this ten-minute log, between 25 and 25 + sin(1/6) ≈ 25.166 °C.
+    for (const row of sink.rows) {
+      expect(row.temperature_c).toBeGreaterThanOrEqual(25);
+      expect(row.temperature_c).toBeLessThanOrEqual(25 + Math.sin(700 / 3600));
+    }
     expect(bench.supply.channel(1)).toMatchObject({ voltageV: 0, output: false });
   });
 

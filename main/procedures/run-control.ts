@@ -11,8 +11,9 @@ export type StopReason = 'stop' | 'pause-timeout' | 'signal';
 /** Thrown out of checkpoint() when the run must end; carries the reason. */
 export class RunStoppedError extends Error {
   override readonly name = 'RunStoppedError';
-  readonly reason: StopReason | string;
-  constructor(reason: StopReason | string) {
+  // `string & {}` keeps the known reasons offered by editors while any text is allowed.
+  readonly reason: StopReason | (string & {});
+  constructor(reason: StopReason | (string & {})) {
     super(`run stopped: ${reason}`);
     this.reason = reason;
   }
@@ -71,7 +72,7 @@ export class RunControl {
     for (const wake of waiters) wake();
   }
 
-  stop(reason: StopReason | string = 'stop'): void {
+  stop(reason: StopReason | (string & {}) = 'stop'): void {
     if (this.#abort.signal.aborted) return;
     this.#abort.abort(reason);
     const waiters = this.#resumeWaiters;

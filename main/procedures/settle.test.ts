@@ -33,10 +33,10 @@ describe('automatic settling against a known settling lag', () => {
     const { outcome, rows } = await sweepWith(0.05, { mode: 'auto', maxS: 2 });
     expect(outcome.status).toBe('complete');
     expect(worstErrorHz(rows)).toBeLessThanOrEqual(300);
-    // 2 kHz must decay below ~200 Hz: at least τ·ln(10) ≈ 115 ms after each step.
+    // 2 kHz must decay below the 200 Hz tolerance: at least τ·ln(10) ≈ 115 ms after each step.
     // Point 0 has no step (its voltage was set before the output went on).
     const settleS = rows.filter((r) => r.point_index !== 0).map((r) => r.settle_s as number);
-    expect(Math.min(...settleS)).toBeGreaterThan(0.05 * Math.log(2000 / 300));
+    expect(Math.min(...settleS)).toBeGreaterThanOrEqual(0.05 * Math.log(10));
   });
 
   it('does not hold back a fast DUT (τ = 0.5 ms): released after two readings', async () => {

@@ -12,7 +12,7 @@ import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { assembleBench } from '../bench/assemble.ts';
 import type { Supply, Thermometer } from '../instruments/roles.ts';
 import { readRunFolder } from '../store/index.ts';
-import { withTempDir } from '../store/test-support/temp-dir.ts';
+import { withTempDir } from '../store/testing/temp-dir.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { recordSweep } from './recorded-run.ts';
 import { runSweep } from './sweep.ts';

@@ -41,6 +41,8 @@ export interface BrowserServerOptions {
   drainWaitMs?: number;
   /** Fixed token for tests; a fresh random one otherwise. */
   token?: string;
+  /** Where an internal error behind a 500 answer is reported; default stderr. */
+  logError?: (message: string) => void;
 }
 
 export interface BrowserServer {
@@ -146,7 +148,8 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
       if (access.query) headers['Set-Cookie'] = `${cookieName}=${assetSecret}; HttpOnly; SameSite=Strict; Path=/`;
       response.writeHead(200, headers);
       response.end(request.method === 'HEAD' ? undefined : file.body);
-    })().catch(() => {
+    })().catch((error: unknown) => {
+      (options.logError ?? console.error)(`tunebench serve: ${request.method ?? '?'} ${request.url ?? '?'} failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
       if (!response.headersSent) refuse(response, 500, 'Internal error.');
       else response.destroy();
     });

@@ -5,7 +5,7 @@
  * engines do not count ws: as 'self'), no framing, no referrer (the page URL
  * carries the access token, which must never leak to another site).
  */
-import { contentSecurityPolicy } from '../window-options.ts';
+import { contentSecurityPolicy } from '../content-security-policy.ts';
 
 export function securityHeaders(origin: string): Record<string, string> {
   const wsOrigin = origin.replace(/^http:/, 'ws:');

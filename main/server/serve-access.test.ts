@@ -13,7 +13,7 @@ import { WebSocket } from 'ws';
 import { wireMessages } from '../../app/bridge/ws-client.ts';
 import { MAX_IMPORT_BYTES } from '../../app/contract/wire.ts';
 import { encodeImportParts } from '../../app/contract/wire-upload.ts';
-import { openApi, readControlChannel, type ApiClient, startServe, startSim, stubRendererDir, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
+import { openApi, readControlChannel, type ApiClient, startServe, startSim, stubRendererDir, type ServeChild, type SimChild } from '../../test/testing/serve-process.ts';
 
 let sim: SimChild;
 let serve: ServeChild;

@@ -9,7 +9,7 @@ import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CRASH_TRIGGER, spawnCli, openApi, readControlChannel, startServe, startSim, stubRendererDir, type ApiClient, type ServeChild, type SimChild } from '../../test/support/serve-process.ts';
+import { CRASH_TRIGGER, spawnCli, openApi, readControlChannel, startServe, startSim, stubRendererDir, type ApiClient, type ServeChild, type SimChild } from '../../test/testing/serve-process.ts';
 
 let sim: SimChild;
 let rendererDir: string;

@@ -13,6 +13,7 @@ import type { BenchApi } from '../../app/contract/bench-api.ts';
 import { EventHub } from '../service/event-hub.ts';
 import { allowedHostHeaders, startBrowserServer, type BrowserServer } from './http-server.ts';
 import { MAX_IN_FLIGHT } from './ws-api.ts';
+import { wsText } from '../../test/testing/serve-process.ts';
 
 const BIG = Float64Array.from({ length: 500_000 }, (_, i) => Math.sin(i) * 1e6); // 4 MB per reply
 const releases: (() => void)[] = [];
@@ -76,7 +77,7 @@ describe('server limits', () => {
     const socket = await open();
     const replies: { id: number; ok: boolean; error?: { message: string } }[] = [];
     socket.on('message', (data, binary) => {
-      const message = binary ? null : (JSON.parse(data.toString()) as { id?: number });
+      const message = binary ? null : (JSON.parse(wsText(data)) as { id?: number });
       if (message && typeof message.id === 'number') replies.push(message as never);
     });
     for (let id = 1; id <= MAX_IN_FLIGHT; id += 1) socket.send(JSON.stringify({ id, method: 'listProfiles', params: [] }));
@@ -103,7 +104,7 @@ describe('server limits', () => {
     await closed; // the server dropped it…
     expect(binaryBytes).toBeLessThan(MAX_IN_FLIGHT * BIG.byteLength); // …before sending every reply
     const other = await open();
-    const answered = new Promise<Record<string, unknown>>((resolve) => other.on('message', (data, binary) => !binary && resolve(JSON.parse(data.toString()) as Record<string, unknown>)));
+    const answered = new Promise<Record<string, unknown>>((resolve) => other.on('message', (data, binary) => !binary && resolve(JSON.parse(wsText(data)) as Record<string, unknown>)));
     other.send(JSON.stringify({ id: 1, method: 'stopRun', params: [] }));
     expect(await answered).toMatchObject({ id: 1, ok: true });
     other.terminate();

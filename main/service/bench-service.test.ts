@@ -5,7 +5,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { BenchEvent, ConnectionState } from '../../app/contract/bench-api.ts';
 import { parseCallParams } from '../../app/contract/bench-api-schemas.ts';
 import { fakeBench, FakeThermometer } from '../procedures/testing/fake-bench.ts';
-import { ScaledClock } from './scaled-clock.ts';
+import { ScaledClock } from '../time/scaled-clock.ts';
 import { createBenchService, type BenchService } from './bench-service.ts';
 import { driftPort, storePort, sweepPort } from './default-ports.ts';
 

@@ -96,7 +96,7 @@ describe('simulated thermometer', () => {
     const { clock, bench, open, q } = await setup({ ambient: { kind: 'ramp', startC: 20, ratePerHourC: 10 } });
     const thermo = await open('thermometer');
     expect(Number(await q(thermo, 'MEAS:TEMP?'))).toBeCloseTo(20, 1);
-    await bench.supply.device.connect().write('SOUR1:VOLT 2.55;:OUTP1 ON\n');
+    bench.supply.device.connect().write('SOUR1:VOLT 2.55;:OUTP1 ON\n');
     await clock.advance(0.1);
     const f0 = bench.snapshot().dut;
     await clock.advance(3600);

@@ -23,7 +23,7 @@ describe('simulated supply', () => {
     expect(await q('SYST:ERR?')).toBe('0,"No error"');
   });
 
-  it('pushes -113 for an unknown header and sets ESR bit 5 (IEEE 488.2 CME)', async () => {
+  it('pushes -113 for an unknown header and sets ESR bit 5 (IEEE 488.2 command error bit CME, from memory)', async () => {
     const { q, send } = await setup();
     await send('FOO:BAR 1');
     expect(await q('SYST:ERR?')).toBe('-113,"Undefined header"');

@@ -4,8 +4,18 @@
  * per flush. If a write fails (disk full, a faulty file system) the text
  * stays pending and the next flush first cuts the file back to the last
  * whole write, so a partial write can never glue onto the retried row.
+ * A short write (the OS took part of the text, as on a filling disk) is
+ * continued; the error that ends it is raised as a DiskError naming the file
+ * and the OS error.
  */
-import { type StoreFileHandle } from './store-fs.ts';
+import { DiskError } from './store-error.ts';
+import { type StoreFileHandle, errorCode } from './store-fs.ts';
+
+function asDiskError(path: string, error: unknown): DiskError {
+  if (error instanceof DiskError) return error;
+  const code = errorCode(error);
+  return new DiskError(path, code, error instanceof Error ? error.message : String(error), { cause: error });
+}
 
 export class AppendFile {
   private pending = '';
@@ -18,6 +28,8 @@ export class AppendFile {
   constructor(
     private readonly handle: StoreFileHandle,
     startBytes: number,
+    /** The file's path, for error messages. */
+    readonly path: string,
   ) {
     this.committedBytes = startBytes;
   }
@@ -44,22 +56,31 @@ export class AppendFile {
         this.dirty = false;
       }
       if (text === '') return;
-      const bytes = Buffer.byteLength(text, 'utf8');
-      const { bytesWritten } = await this.handle.write(text);
-      if (bytesWritten !== bytes) throw new Error(`short write: ${bytesWritten} of ${bytes} bytes`);
-      this.committedBytes += bytes;
+      const buffer = Buffer.from(text, 'utf8');
+      let done = 0;
+      while (done < buffer.length) {
+        const { bytesWritten } = await this.handle.write(done === 0 ? text : buffer.subarray(done));
+        // No progress and no error: report it rather than spin.
+        if (bytesWritten <= 0) throw new DiskError(this.path, undefined, `short write: ${done} of ${buffer.length} bytes, then nothing`);
+        done += bytesWritten;
+      }
+      this.committedBytes += buffer.length;
       this.linesWritten += lines;
     } catch (error) {
       // Keep the text (ahead of anything appended meanwhile) for the next flush.
       this.pending = text + this.pending;
       this.pendingLines += lines;
       this.dirty = true;
-      throw error;
+      throw asDiskError(this.path, error);
     }
   }
 
-  sync(): Promise<void> {
-    return this.handle.sync();
+  async sync(): Promise<void> {
+    try {
+      await this.handle.sync();
+    } catch (error) {
+      throw asDiskError(this.path, error);
+    }
   }
 
   close(): Promise<void> {

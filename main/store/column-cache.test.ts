@@ -8,7 +8,7 @@ import { readRunFolder } from './run-reader.ts';
 import { openRun } from './run-store.ts';
 import { createRun } from './run-writer.ts';
 import { readSampleTable } from './sample-table.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 const CSV = [
   'time_s,control_v,frequency_hz,direction,status',

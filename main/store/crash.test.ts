@@ -7,12 +7,14 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { appendFile, readFile } from 'node:fs/promises';
 import { describe, expect, it } from 'vitest';
+import { runCliCaptured } from '../../test/testing/run-cli-captured.ts';
 import { readRunFolder } from './run-reader.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
-const CHILD = fileURLToPath(new URL('./test-support/crash-writer-child.ts', import.meta.url));
+const CHILD = fileURLToPath(new URL('./testing/crash-writer-child.ts', import.meta.url));
 const READING_INTERVAL_S = 0.02;
 
 interface Killed {
@@ -72,6 +74,22 @@ describe('crash safety (SIGKILL of a real-time writer)', () => {
       expect(onDisk.length).toBeGreaterThanOrEqual(mustHave);
       expect(missing * READING_INTERVAL_S).toBeLessThanOrEqual(1.1);
       expect(run.events.filter((e) => e.type === 'interrupted')).toHaveLength(1);
+
+      // analyze and datasheet read the crashed run as the store does (issue 10 item 1): a torn
+      // last line is left out, not a reason to refuse the run. The kill tears a line only when
+      // it lands mid-write, so make sure one is there.
+      const samplesPath = join(killed.dir, 'samples.csv');
+      if ((await readFile(samplesPath, 'utf8')).endsWith('\n')) await appendFile(samplesPath, '999999,12.3');
+      const analyzed = await runCliCaptured('analyze', killed.dir, '--json');
+      expect(analyzed.err).toBe('');
+      expect(analyzed.code).toBe(0);
+      const report = JSON.parse(analyzed.out) as { kind: string; run: { status: string; droppedLines: number } };
+      expect(report.kind).toBe('drift');
+      expect(report.run).toMatchObject({ status: 'interrupted', droppedLines: 1 });
+      const sheet = await runCliCaptured('datasheet', killed.dir);
+      expect(sheet.err).toBe('');
+      expect(sheet.code).toBe(0);
+      // (reopenRun below cuts a torn tail off before it appends.)
 
       // Resume into the same folder, then crash again.
       const id = basename(killed.dir);

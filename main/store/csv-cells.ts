@@ -20,9 +20,13 @@ export function formatCell(value: CellValue): string {
   return /[",]/.test(flat) ? `"${flat.replace(/"/g, '""')}"` : flat;
 }
 
-/** Splits one line (no line break) into cells; null when a quote is unbalanced. */
-export function splitCsvLine(line: string): string[] | null {
-  if (!line.includes('"')) return line.split(',');
+/**
+ * Splits one line (no line break) into cells, RFC 4180 quoting; null when a
+ * quote is unbalanced. The one CSV line splitter: samples.csv (commas) and
+ * users' plain CSV files (comma, semicolon or tab) both go through it.
+ */
+export function splitCsvLine(line: string, delimiter = ','): string[] | null {
+  if (!line.includes('"')) return line.split(delimiter);
   const cells: string[] = [];
   let i = 0;
   for (;;) {
@@ -43,10 +47,10 @@ export function splitCsvLine(line: string): string[] | null {
       }
       cells.push(cell);
       if (i === line.length) return cells;
-      if (line[i] !== ',') return null;
+      if (line[i] !== delimiter) return null;
       i += 1;
     } else {
-      const comma = line.indexOf(',', i);
+      const comma = line.indexOf(delimiter, i);
       const end = comma < 0 ? line.length : comma;
       const cell = line.slice(i, end);
       if (cell.includes('"')) return null;
@@ -57,7 +61,8 @@ export function splitCsvLine(line: string): string[] | null {
   }
 }
 
-const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+/** A plain decimal number, optionally signed, with an optional exponent. */
+export const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /** A numeric cell: empty or NaN → NaN; a decimal or ±Infinity → its value; anything else → null. */
 export function parseNumberCell(cell: string): number | null {
@@ -73,5 +78,18 @@ export function parseNumberCell(cell: string): number | null {
   if (DECIMAL.test(text)) return Number(text);
   if (text === 'Infinity' || text === '+Infinity') return Number.POSITIVE_INFINITY;
   if (text === '-Infinity') return Number.NEGATIVE_INFINITY;
+  return null;
+}
+
+/**
+ * A number cell of a file a person wrote: as parseNumberCell, and also
+ * surrounding spaces, any case of NaN, and inf/infinity with a sign.
+ */
+export function parseLooseNumberCell(cell: string): number | null {
+  const strict = parseNumberCell(cell);
+  if (strict !== null) return strict;
+  const text = cell.trim().toLowerCase();
+  if (/^[+-]?nan$/.test(text)) return Number.NaN;
+  if (/^[+-]?inf(inity)?$/.test(text)) return text.startsWith('-') ? Number.NEGATIVE_INFINITY : Number.POSITIVE_INFINITY;
   return null;
 }

@@ -2,7 +2,7 @@ import { readdir } from 'node:fs/promises';
 import { describe, expect, it } from 'vitest';
 import { importCsvRun } from './csv-import.ts';
 import { openRun } from './run-store.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 describe('importCsvRun', () => {
   it('makes a complete run of the inferred kind that opens like any other', async () => {
@@ -24,7 +24,7 @@ describe('importCsvRun', () => {
   it('writes nothing when the CSV is bad', async () => {
     await withTempDir(async (runsDir) => {
       await expect(importCsvRun({ runsDir, fileName: 'x.csv', csvText: 'control_v,frequency_hz\n1,abc\n', dutId: 'osc' })).rejects.toThrow(
-        /x\.csv: line 2, column frequency_hz: expected a number/,
+        /x\.csv: line 2, column frequency_hz: "abc" is not a number/,
       );
       await expect(readdir(runsDir)).resolves.toEqual([]);
     });

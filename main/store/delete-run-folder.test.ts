@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { deleteRun, listTrash } from './run-store.ts';
 import { createRun } from './run-writer.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 describe('deleteRun moves the folder by its own name (issue 14.5)', () => {
   it('refuses a folder whose run.json carries another id, such as a path out of the runs folder', async () => {

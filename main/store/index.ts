@@ -11,5 +11,5 @@ export { nodeStoreFs, type StoreFileHandle, type StoreFs } from './store-fs.ts';
 export { addNote, deleteRun, listRuns, listRunsDetailed, listTrash, openRun, renameDut, restoreRun, TRASH, type ListResult, type OpenedRun } from './run-store.ts';
 export { reopenRun, type ReopenRunOptions } from './reopen-run.ts';
 export { importCsvRun, type ImportCsvOptions } from './csv-import.ts';
-export { CsvImportError, parsePlainCsv, type CsvProblem } from './plain-csv.ts';
+export { CsvImportError, readPlainCsv, type CsvProblem, type PlainCsvTable } from './plain-csv.ts';
 export { StoreError, type StoreErrorReason } from './store-error.ts';

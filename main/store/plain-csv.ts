@@ -1,17 +1,22 @@
 /**
- * Strict reader for a plain CSV the user brings (CONTRACTS.md "Plain CSV
- * input"): header row required, columns by name in any order, extra columns
- * ignored. Sweep: control_v, frequency_hz. Drift: time_s, frequency_hz,
- * optional temperature_c. A frequency that is empty, NaN, 0 or the SCPI
- * not-a-number 9.91E37 means "no oscillation measured" — the analysis's own
- * rule (`isNoOscillation`), so an imported run reads as `analyze` reads the
- * file. Unlike samples.csv (our own file, where a bad line is a crash
- * artefact), every problem here is an error with its line number: the user
- * can fix the file.
+ * The one reader for a plain CSV a person brings (CONTRACTS.md "Plain CSV
+ * input"), used by `analyze`/`datasheet` and by the import into the runs
+ * list. Header row required; columns by name (case and spaces ignored), any
+ * order, extra columns ignored; blank lines and lines starting with `#` are
+ * skipped; fields are separated by commas, or by semicolons or tabs when the
+ * header has no comma; RFC 4180 quotes are understood; NaN/inf in any case.
+ * Unlike samples.csv (our own file, where a bad line is a crash artefact and
+ * is dropped), every problem here is an error with its line number, and all
+ * of them (up to MAX_PROBLEMS) are reported at once: the user can fix the file.
+ *
+ * Reads straight into Float64Array columns (a million-row file must not
+ * become a million string arrays).
  */
-import type { RunKind } from '../../app/contract/bench-api.ts';
-import { isNoOscillation } from '../../app/analysis/sweep-points.ts';
-import { parseNumberCell, splitCsvLine } from './csv-cells.ts';
+import type { CodedTextColumn } from '../../app/contract/bench-api.ts';
+import type { ColumnTable } from '../../app/contract/column-table.ts';
+import { readingStatus, sweepDirection } from '../../app/contract/reading-status.ts';
+import { parseLooseNumberCell, splitCsvLine } from './csv-cells.ts';
+import { EXACT, NOT_PLAIN, scan, scanNumber } from './number-scan.ts';
 
 export interface CsvProblem {
   line: number;
@@ -29,73 +34,190 @@ export class CsvImportError extends Error {
   }
 }
 
-export interface PlainCsvData {
-  kind: Exclude<RunKind, 'pushing'>;
-  /** Output columns in order; values per column. */
-  columns: string[];
-  rows: (number | string)[][];
+/** Columns read as numbers; every other column but the words below is ignored. */
+export const PLAIN_NUMERIC_COLUMNS: readonly string[] = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'supply_v'];
+/** Columns read as words, checked against the reading-status and direction rules. */
+const WORD_COLUMNS: Readonly<Record<string, (cell: string) => string | null>> = {
+  status: (cell) => readingStatus(cell),
+  direction: (cell) => {
+    const d = sweepDirection(cell);
+    return d === null ? null : d === 1 ? 'up' : 'down';
+  },
+};
+const WORD_EXPECTED: Readonly<Record<string, string>> = { status: 'ok, no-signal, timeout or error', direction: 'up or down' };
+
+export interface PlainCsvTable extends ColumnTable {
+  lineOf: Uint32Array;
+  headerLine: number;
 }
 
-const MAX_PROBLEMS = 20;
+export const MAX_PROBLEMS = 20;
 
-export function parsePlainCsv(text: string, source: string, forceKind?: 'sweep' | 'drift'): PlainCsvData {
+interface Reading {
+  column: number;
+  name: string;
+  values: Float64Array | null;
+  words: { levels: string[]; codes: Uint32Array } | null;
+}
+
+function codeOf(levels: string[], word: string): number {
+  const k = levels.indexOf(word);
+  return k >= 0 ? k : levels.push(word) - 1;
+}
+
+function grown<T extends Float64Array | Uint32Array>(array: T, length: number): T {
+  const next = new (array.constructor as new (n: number) => T)(length);
+  next.set(array);
+  return next;
+}
+
+export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const lines = body.split('\n').map((line) => line.replace(/\r$/, ''));
-  const headerIndex = lines.findIndex((line) => line.trim() !== '');
-  if (headerIndex < 0) throw new CsvImportError([{ line: 1, message: 'empty file; expected a header row' }], source);
-  const header = (splitCsvLine(lines[headerIndex] as string) ?? []).map((name) => name.trim().toLowerCase());
-  const col = (name: string): number => header.indexOf(name);
-  const hasSweep = col('control_v') >= 0 && col('frequency_hz') >= 0;
-  const hasDrift = col('time_s') >= 0 && col('frequency_hz') >= 0;
-  const headerLine = headerIndex + 1;
-  if ((forceKind === 'sweep' && !hasSweep) || (forceKind === 'drift' && !hasDrift) || (!hasSweep && !hasDrift)) {
-    const hint = (lines[headerIndex] as string).includes(';') ? ' (fields must be separated by commas)' : '';
-    const want = forceKind === 'sweep' ? 'control_v and frequency_hz' : forceKind === 'drift' ? 'time_s and frequency_hz' : 'control_v and frequency_hz (sweep) or time_s and frequency_hz (drift)';
-    throw new CsvImportError([{ line: headerLine, message: `header: expected columns ${want}, found ${header.join(', ') || 'none'}${hint}` }], source);
-  }
-
-  const wanted = ['time_s', 'control_v', 'frequency_hz', 'temperature_c'].filter((name) => col(name) >= 0);
   const problems: CsvProblem[] = [];
-  const values: number[][] = [];
-  for (let i = headerIndex + 1; i < lines.length && problems.length < MAX_PROBLEMS; i++) {
-    const line = lines[i] as string;
-    if (line.trim() === '') continue;
-    const cells = splitCsvLine(line);
-    if (cells === null) {
-      problems.push({ line: i + 1, message: 'unbalanced quote' });
-      continue;
+  const fail = (): never => {
+    throw new CsvImportError(problems, source);
+  };
+  const problem = (p: CsvProblem): void => {
+    problems.push(p);
+    if (problems.length >= MAX_PROBLEMS) {
+      problems.push({ line: p.line, message: `stopped after ${MAX_PROBLEMS} problems` });
+      fail();
     }
-    if (cells.length !== header.length) {
-      problems.push({ line: i + 1, message: `expected ${header.length} fields like the header, found ${cells.length}` });
-      continue;
-    }
-    const row: number[] = [];
-    for (const name of wanted) {
-      const cell = cells[col(name)] as string;
-      const value = parseNumberCell(cell);
-      if (value === null) problems.push({ line: i + 1, column: name, message: `expected a number, got ${JSON.stringify(cell)}` });
-      else if (Number.isNaN(value) && (name === 'control_v' || name === 'time_s')) problems.push({ line: i + 1, column: name, message: 'must not be empty' });
-      row.push(value ?? Number.NaN);
-    }
-    values.push(row);
-  }
-  if (problems.length > 0) throw new CsvImportError(problems, source);
-  if (values.length === 0) throw new CsvImportError([{ line: headerLine + 1, message: 'no data rows after the header' }], source);
+  };
 
-  const at = (name: string): number => wanted.indexOf(name);
-  let kind: 'sweep' | 'drift' = forceKind ?? (hasSweep ? 'sweep' : 'drift');
-  if (!forceKind && hasSweep && hasDrift) {
-    // A drift log also carries control_v, but holds it fixed.
-    const first = values[0]?.[at('control_v')];
-    if (values.every((row) => row[at('control_v')] === first)) kind = 'drift';
+  // The header is the first line that is neither blank nor a comment.
+  let headerStart = 0;
+  let headerLine = 1;
+  for (;;) {
+    const le = body.indexOf('\n', headerStart);
+    const line = body.slice(headerStart, le < 0 ? body.length : le).trim();
+    if (line !== '' && !line.startsWith('#')) break;
+    if (le < 0) {
+      problem({ line: 1, message: 'no header row (expected column names such as control_v,frequency_hz)' });
+      fail();
+    }
+    headerStart = le + 1;
+    headerLine += 1;
   }
-  const columns = [...wanted, 'status'];
-  const fIndex = at('frequency_hz');
-  const rows = values.map((row) => {
-    const silent = isNoOscillation(row[fIndex] as number);
-    const out: (number | string)[] = row.map((value, c) => (c === fIndex && silent ? Number.NaN : value));
-    out.push(silent ? 'no-signal' : 'ok');
-    return out;
+  const headerEnd = body.indexOf('\n', headerStart);
+  const headerText = body.slice(headerStart, headerEnd < 0 ? body.length : headerEnd).replace(/\r$/, '');
+  const delimiter = headerText.includes(',') ? ',' : headerText.includes('\t') ? '\t' : headerText.includes(';') ? ';' : ',';
+  const header = (splitCsvLine(headerText, delimiter) ?? []).map((name) => name.trim().toLowerCase());
+  const seen = new Set<string>();
+  header.forEach((name, c) => {
+    if (name === '') problem({ line: headerLine, message: `the header has an empty column name (column ${c + 1})` });
+    else if (seen.has(name)) problem({ line: headerLine, message: `the header names column "${name}" twice` });
+    seen.add(name);
   });
-  return { kind, columns, rows };
+  if (problems.length > 0) fail();
+
+  const guess = Math.max(16, Math.ceil((body.length - body.indexOf('\n')) / 8));
+  let capacity = guess;
+  const readings: Reading[] = [];
+  header.forEach((name, column) => {
+    if (PLAIN_NUMERIC_COLUMNS.includes(name)) readings.push({ column, name, values: new Float64Array(capacity), words: null });
+    else if (name in WORD_COLUMNS) readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(capacity) } });
+  });
+  const readingOf: (Reading | null)[] = header.map((_, c) => readings.find((r) => r.column === c) ?? null);
+  let lineOf = new Uint32Array(capacity);
+  let rows = 0;
+  const width = header.length;
+
+  /** The full per-line reading (quotes, spaces, other delimiters, anything the fast path is unsure of). */
+  const slowLine = (line: string, lineNo: number): boolean => {
+    const cells = splitCsvLine(line, delimiter);
+    if (cells === null) {
+      problem({ line: lineNo, message: 'a quoted field is not closed' });
+      return false;
+    }
+    if (cells.length !== width) {
+      problem({ line: lineNo, message: `${cells.length} fields, but the header has ${width}` });
+      return false;
+    }
+    let ok = true;
+    for (const reading of readings) {
+      const cell = cells[reading.column] as string;
+      if (reading.values) {
+        const value = parseLooseNumberCell(cell);
+        if (value === null) {
+          problem({ line: lineNo, column: reading.name, message: `"${cell}" is not a number` });
+          ok = false;
+        } else reading.values[rows] = value;
+      } else if (reading.words) {
+        const word = (WORD_COLUMNS[reading.name] as (cell: string) => string | null)(cell);
+        if (word === null) {
+          problem({ line: lineNo, column: reading.name, message: `"${cell}" is not one of ${WORD_EXPECTED[reading.name] ?? ''}` });
+          ok = false;
+        } else reading.words.codes[rows] = codeOf(reading.words.levels, word);
+      }
+    }
+    return ok;
+  };
+
+  /** Fast path for comma-separated lines of plain numbers: no per-line or per-cell strings. */
+  const fastLine = (ls: number, end: number): boolean => {
+    if (delimiter !== ',') return false;
+    let p = ls;
+    for (let c = 0; c < width; c++) {
+      const reading = readingOf[c];
+      let fieldEnd: number;
+      if (reading?.values) {
+        const answer = scanNumber(body, p, end);
+        if (answer === NOT_PLAIN) return false;
+        fieldEnd = scan.end;
+        reading.values[rows] = answer === EXACT ? scan.value : Number(body.slice(p, fieldEnd));
+      } else {
+        fieldEnd = p;
+        while (fieldEnd < end && body.charCodeAt(fieldEnd) !== 44) {
+          if (body.charCodeAt(fieldEnd) === 34) return false;
+          fieldEnd++;
+        }
+        if (reading?.words) {
+          const word = (WORD_COLUMNS[reading.name] as (cell: string) => string | null)(body.slice(p, fieldEnd));
+          if (word === null) return false;
+          reading.words.codes[rows] = codeOf(reading.words.levels, word);
+        }
+      }
+      // The last field must end the line; every other one must end at a comma.
+      if (c === width - 1 ? fieldEnd !== end : fieldEnd === end) return false;
+      p = fieldEnd + 1;
+    }
+    return true;
+  };
+
+  let lineNo = headerLine;
+  for (let ls = body.indexOf('\n', headerStart) + 1; ls > 0 && ls < body.length; ) {
+    let le = body.indexOf('\n', ls);
+    if (le < 0) le = body.length;
+    lineNo += 1;
+    const end = le > ls && body.charCodeAt(le - 1) === 13 ? le - 1 : le;
+    const next = le + 1;
+    const first = body.charCodeAt(ls);
+    if (end === ls || first === 35 || (first <= 32 && /^\s*(#.*)?$/.test(body.slice(ls, end)))) {
+      ls = next;
+      continue;
+    }
+    if (rows === capacity) {
+      capacity *= 2;
+      lineOf = grown(lineOf, capacity);
+      for (const reading of readings) {
+        if (reading.values) reading.values = grown(reading.values, capacity);
+        if (reading.words) reading.words.codes = grown(reading.words.codes, capacity);
+      }
+    }
+    if (fastLine(ls, end) || slowLine(body.slice(ls, end), lineNo)) {
+      lineOf[rows] = lineNo;
+      rows += 1;
+    }
+    ls = next;
+  }
+  if (problems.length > 0) fail();
+
+  const numeric: Record<string, Float64Array> = {};
+  const textColumns: Record<string, CodedTextColumn> = {};
+  for (const reading of readings) {
+    if (reading.values) numeric[reading.name] = reading.values.slice(0, rows);
+    else if (reading.words) textColumns[reading.name] = { levels: reading.words.levels, codes: Uint8Array.from(reading.words.codes.subarray(0, rows)) };
+  }
+  return { names: header, numeric, text: textColumns, rowCount: rows, lineOf: lineOf.slice(0, rows), headerLine };
 }

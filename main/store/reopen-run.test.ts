@@ -7,8 +7,8 @@ import { readRunFolder } from './run-reader.ts';
 import { createRun } from './run-writer.ts';
 import { reopenRun } from './reopen-run.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
-import { deadPid } from './test-support/dead-pid.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { deadPid } from './testing/dead-pid.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 describe('reopenRun', () => {
   it('resumes an interrupted drift log in the same folder: torn tails cut, gap recorded, time axis continued', async () => {

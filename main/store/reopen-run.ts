@@ -16,7 +16,7 @@ import { lastTimeS, readRunStatus } from './run-reader.ts';
 import { startWriter } from './start-writer.ts';
 import type { RunWriter, WriterOptions } from './writer-types.ts';
 import { StoreError } from './store-error.ts';
-import { type StoreFileHandle, type StoreFs, nodeStoreFs } from './store-fs.ts';
+import { type StoreFileHandle, type StoreFs, nodeStoreFs, readFileIfExists } from './store-fs.ts';
 import { makeLock, writeLock } from './writer-lock.ts';
 
 export interface ReopenRunOptions extends WriterOptions {
@@ -26,7 +26,7 @@ export interface ReopenRunOptions extends WriterOptions {
 
 /** Opens `path` for appending with everything after its last newline cut off. */
 async function openWhole(fs: StoreFs, path: string): Promise<{ handle: StoreFileHandle; text: string; bytes: number }> {
-  const text = await fs.readFile(path).catch(() => '');
+  const text = await readFileIfExists(fs, path);
   const whole = text.slice(0, text.lastIndexOf('\n') + 1);
   const bytes = Buffer.byteLength(whole, 'utf8');
   const handle = await fs.open(path, 'a');
@@ -72,8 +72,8 @@ export async function reopenRun(options: ReopenRunOptions): Promise<RunWriter> {
     meta,
     dir,
     columns,
-    samples: new AppendFile(samples.handle, samples.bytes),
-    events: new AppendFile(events.handle, events.bytes),
+    samples: new AppendFile(samples.handle, samples.bytes, join(dir, SAMPLES_CSV)),
+    events: new AppendFile(events.handle, events.bytes, join(dir, EVENTS_JSONL)),
     startOffsetS: resumeS,
   });
   writer.appendEvent({ type: 'gap', time_s: resumeS, fromS: lastS, toS: resumeS, reason: 'resumed after the writer stopped' });

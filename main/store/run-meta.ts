@@ -37,7 +37,7 @@ export function parseRunMeta(text: string, source: string): RunMeta {
   if (!result.success) {
     throw new RunFormatError(`${source}: ${result.error.issues.map(describeIssue).join('; ')}`);
   }
-  return result.data as RunMeta;
+  return result.data;
 }
 
 export async function readRunMeta(fs: StoreFs, dir: string): Promise<RunMeta> {

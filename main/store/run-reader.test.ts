@@ -6,9 +6,9 @@ import { VirtualClock } from '../time/virtual-clock.ts';
 import { readRunFolder, readRunStatus } from './run-reader.ts';
 import { createRun } from './run-writer.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
-import { deadPid } from './test-support/dead-pid.ts';
-import { faultyFs } from './test-support/faulty-fs.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { deadPid } from './testing/dead-pid.ts';
+import { faultyFs } from './testing/faulty-fs.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 function sweepRun(runsDir: string, clock: VirtualClock, fs?: ReturnType<typeof faultyFs>) {
   return createRun({

@@ -10,7 +10,7 @@ import type { RunEvent, RunMeta } from '../../app/contract/bench-api.ts';
 import { eventLineAfter, parseEventsJsonl } from './events-jsonl.ts';
 import { EVENTS_JSONL, SAMPLES_CSV, readRunMeta, writeRunMeta } from './run-meta.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
-import { type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
+import { type StoreFs, errorCode, nodeStoreFs, readFileIfExists } from './store-fs.ts';
 import { type LivenessProbe, type WriterLock, readLock, realProbe, removeLock, writerAlive } from './writer-lock.ts';
 
 export const INTERRUPT_CLAIM = 'interrupted.claim';
@@ -30,23 +30,14 @@ export interface RunFolderContents {
   droppedEventLines: number[];
 }
 
-async function readOptional(fs: StoreFs, path: string): Promise<string> {
-  try {
-    return await fs.readFile(path);
-  } catch (error) {
-    if (errorCode(error) === 'ENOENT') return '';
-    throw error;
-  }
-}
-
 /** `withoutSamples`: leave samples.csv unread (samplesCsv ''), when its table comes from the column cache. */
 export async function readRunFolder(dir: string, options: ReadOptions & { withoutSamples?: boolean } = {}): Promise<RunFolderContents> {
   const fs = options.fs ?? nodeStoreFs;
   const absDir = resolve(dir);
   let meta = await readRunMeta(fs, absDir);
   if (meta.status === 'running') meta = await applyLiveness(fs, absDir, meta, options.probe);
-  const samplesCsv = options.withoutSamples === true ? '' : await readOptional(fs, join(absDir, SAMPLES_CSV));
-  const { events, droppedLines } = parseEventsJsonl(await readOptional(fs, join(absDir, EVENTS_JSONL)));
+  const samplesCsv = options.withoutSamples === true ? '' : await readFileIfExists(fs, join(absDir, SAMPLES_CSV));
+  const { events, droppedLines } = parseEventsJsonl(await readFileIfExists(fs, join(absDir, EVENTS_JSONL)));
   return { meta, samplesCsv, events, droppedEventLines: droppedLines };
 }
 
@@ -93,7 +84,7 @@ async function recordInterrupted(fs: StoreFs, dir: string, lock: WriterLock | nu
     const current = await readRunMeta(fs, dir);
     if (current.status !== 'running') return current;
     const eventsPath = join(dir, EVENTS_JSONL);
-    const eventsText = await readOptional(fs, eventsPath);
+    const eventsText = await readFileIfExists(fs, eventsPath);
     const event: RunEvent = {
       time_s: await lastTimeS(fs, dir, eventsText),
       type: 'interrupted',
@@ -116,7 +107,7 @@ async function recordInterrupted(fs: StoreFs, dir: string, lock: WriterLock | nu
 export async function lastTimeS(fs: StoreFs, dir: string, eventsText: string): Promise<number> {
   let last = 0;
   for (const event of parseEventsJsonl(eventsText).events) if (event.time_s > last) last = event.time_s;
-  const samples = parseSamplesCsv(await readOptional(fs, join(dir, SAMPLES_CSV)));
+  const samples = parseSamplesCsv(await readFileIfExists(fs, join(dir, SAMPLES_CSV)));
   const times = samples.numeric.time_s;
   if (times) for (const t of times) if (t > last) last = t;
   return last;

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { addNote, deleteRun, listRuns, listRunsDetailed, listTrash, openRun, renameDut, restoreRun } from './run-store.ts';
 import { createRun } from './run-writer.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 async function finishedRun(runsDir: string, wallIso: string, dutId: string) {
   const writer = await createRun({

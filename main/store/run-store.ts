@@ -14,7 +14,7 @@ import { openSamples } from './cached-samples.ts';
 import { type ReadOptions, lastTimeS, readRunFolder, readRunStatus } from './run-reader.ts';
 import type { SampleTable } from './sample-table.ts';
 import { StoreError } from './store-error.ts';
-import { type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
+import { type StoreFs, errorCode, nodeStoreFs, readFileIfExists } from './store-fs.ts';
 
 export const TRASH = '.trash';
 
@@ -127,8 +127,10 @@ export async function renameDut(runsDir: string, id: string, dutId: string, opti
   const fs = fsOf(options);
   const parsed = dutIdSchema.safeParse(dutId);
   if (!parsed.success) throw new StoreError(parsed.error.issues[0]?.message ?? 'dut id: invalid', 'bad-input');
-  const dir = await runDir(fs, runsDir, id);
+  // Join the run's queue before any await: edits then apply in call order.
+  const dir = join(runsDir, checkedId(id));
   return serialised(dir, async () => {
+    await runDir(fs, runsDir, id);
     const meta = await readRunStatus(dir, options);
     const renamed: RunMeta = { ...meta, dut: { ...meta.dut, id: parsed.data } };
     await writeRunMeta(fs, dir, renamed);
@@ -142,10 +144,11 @@ export async function addNote(runsDir: string, id: string, text: string, options
   const parsed = noteSchema.safeParse(text);
   if (!parsed.success) throw new StoreError(parsed.error.issues[0]?.message ?? 'note: invalid', 'bad-input');
   const note = parsed.data;
-  const dir = await runDir(fs, runsDir, id);
+  const dir = join(runsDir, checkedId(id));
   return serialised(dir, async () => {
+    await runDir(fs, runsDir, id);
     const eventsPath = join(dir, EVENTS_JSONL);
-    const eventsText = await fs.readFile(eventsPath).catch(() => '');
+    const eventsText = await readFileIfExists(fs, eventsPath);
     const event = { time_s: await lastTimeS(fs, dir, eventsText), type: 'note', text: note, at: new Date().toISOString() };
     await fs.appendFile(eventsPath, eventLineAfter(eventsText, event));
     const meta = await readRunStatus(dir, options);

@@ -7,8 +7,8 @@ import { createRun } from './run-writer.ts';
 import { parseRunMeta } from './run-meta.ts';
 import { parseSamplesCsv } from './samples-csv.ts';
 import { parseEventsJsonl } from './events-jsonl.ts';
-import { faultyFs } from './test-support/faulty-fs.ts';
-import { withTempDir } from './test-support/temp-dir.ts';
+import { faultyFs } from './testing/faulty-fs.ts';
+import { withTempDir } from './testing/temp-dir.ts';
 
 const DRIFT_COLUMNS = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'status'] as const;
 

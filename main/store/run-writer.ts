@@ -90,8 +90,8 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
       fs,
       meta,
       dir,
-      samples: new AppendFile(samples, Buffer.byteLength(header)),
-      events: new AppendFile(events, 0),
+      samples: new AppendFile(samples, Buffer.byteLength(header), join(dir, SAMPLES_CSV)),
+      events: new AppendFile(events, 0, join(dir, EVENTS_JSONL)),
       startOffsetS: 0,
     });
   } catch (error) {

@@ -8,8 +8,10 @@
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { AppendFile } from './append-file.ts';
 import { formatCell, type CellValue } from './csv-cells.ts';
-import { readRunMeta, writeRunMeta } from './run-meta.ts';
-import { type StoreFs } from './store-fs.ts';
+import { join } from 'node:path';
+import { SAMPLES_CSV, readRunMeta, writeRunMeta } from './run-meta.ts';
+import { RunFolderGoneError } from './store-error.ts';
+import { type StoreFs, errorCode } from './store-fs.ts';
 import type { RunWriter, WriterOptions } from './writer-types.ts';
 import { makeLock, registerOpenWriter, removeLock, unregisterOpenWriter, writeLock } from './writer-lock.ts';
 
@@ -50,7 +52,22 @@ export function startWriter(state: WriterState): RunWriter {
   const elapsedS = (): number => clock.now() - t0;
   const report = (error: unknown): void => state.onError?.(error instanceof Error ? error : new Error(String(error)));
 
+  /**
+   * A deleted run folder does not fail our writes (the open files live on,
+   * unlinked), so every flush first checks that samples.csv is still there.
+   */
+  async function checkFolder(): Promise<void> {
+    try {
+      await fs.stat(join(dir, SAMPLES_CSV));
+    } catch (error) {
+      const code = errorCode(error);
+      if (code === 'ENOENT' || code === 'ENOTDIR') throw new RunFolderGoneError(dir);
+      throw error;
+    }
+  }
+
   async function writeOut(forceSync: boolean): Promise<void> {
+    await checkFolder();
     const wrote = samples.pendingCount + events.pendingCount > 0;
     await samples.drain();
     await events.drain();
@@ -105,6 +122,22 @@ export function startWriter(state: WriterState): RunWriter {
   }, HEARTBEAT_EVERY_MS);
   heartbeat.unref();
 
+  /** The disk refused the run's files: record the run as failed, with the reason, where the disk still allows. */
+  async function recordFailure(error: unknown): Promise<void> {
+    const reason = error instanceof Error ? error.message : String(error);
+    await samples.close().catch(() => undefined);
+    await events.close().catch(() => undefined);
+    try {
+      const onDisk = await readRunMeta(fs, dir).catch(() => meta);
+      meta = { ...onDisk, status: 'failed', endedAt: clock.wallTimeIso(), failure: reason };
+      await writeRunMeta(fs, dir, meta);
+      await removeLock(fs, dir);
+    } catch {
+      // The folder is gone or the disk is full even for run.json: a reader will find it interrupted.
+    }
+    unregisterOpenWriter(dir);
+  }
+
   function assertOpen(): void {
     if (finishing) throw new Error(`run ${meta.id}: already finished`);
   }
@@ -141,10 +174,10 @@ export function startWriter(state: WriterState): RunWriter {
         clearTimeout(syncTimer);
         syncTimer = undefined;
         try {
-          await enqueue(true);
+          // A second try: the first may have been a passing fault (its partial write is cut back first).
+          await enqueue(true).catch(() => enqueue(true));
         } catch (error) {
-          // Nothing is lost yet: let the caller retry finish() after fixing the disk.
-          finishing = null;
+          await recordFailure(error);
           throw error;
         }
         await samples.close();

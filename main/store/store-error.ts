@@ -10,3 +10,25 @@ export class StoreError extends Error {
     super(message);
   }
 }
+
+/** A run file could not be written. The message names the file and the OS error (ENOSPC, EIO, EROFS…). */
+export class DiskError extends Error {
+  override name = 'DiskError';
+  constructor(
+    readonly path: string,
+    /** The OS error code, when the system gave one. */
+    readonly osCode: string | undefined,
+    detail: string,
+    options?: ErrorOptions,
+  ) {
+    super(`cannot write ${path}: ${detail}`, options);
+  }
+}
+
+/** The run folder disappeared while the run was recording (deleted, or its disk unmounted). */
+export class RunFolderGoneError extends Error {
+  override name = 'RunFolderGoneError';
+  constructor(readonly dir: string) {
+    super(`the run folder ${dir} has gone (deleted or unmounted while recording); the run was stopped there`);
+  }
+}

@@ -7,8 +7,8 @@ import * as fsp from 'node:fs/promises';
 
 /** An open file: the writer keeps one per appended file. */
 export interface StoreFileHandle {
-  /** Writes at the end (files are opened in append mode); resolves with bytes written. */
-  write(text: string): Promise<{ bytesWritten: number }>;
+  /** Writes at the end (files are opened in append mode); resolves with bytes written (may be fewer: a short write). */
+  write(data: string | Uint8Array): Promise<{ bytesWritten: number }>;
   sync(): Promise<void>;
   truncate(lengthBytes: number): Promise<void>;
   close(): Promise<void>;
@@ -34,7 +34,7 @@ export const nodeStoreFs: StoreFs = {
   async open(path, flags) {
     const handle = await fsp.open(path, flags);
     return {
-      write: (text) => handle.write(text, null, 'utf8'),
+      write: (data) => (typeof data === 'string' ? handle.write(data, null, 'utf8') : handle.write(data)),
       sync: () => handle.sync(),
       truncate: (lengthBytes) => handle.truncate(lengthBytes),
       close: () => handle.close(),
@@ -52,8 +52,18 @@ export const nodeStoreFs: StoreFs = {
 /** Error code of a Node system error, or undefined. */
 export function errorCode(error: unknown): string | undefined {
   if (typeof error === 'object' && error !== null && 'code' in error) {
-    const code = (error as { code: unknown }).code;
+    const code = (error).code;
     return typeof code === 'string' ? code : undefined;
   }
   return undefined;
+}
+
+/** A file's text, or '' when it does not exist; every other error (EACCES, EIO…) is thrown, never read as empty. */
+export async function readFileIfExists(fs: StoreFs, path: string): Promise<string> {
+  try {
+    return await fs.readFile(path);
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT') return '';
+    throw error;
+  }
 }

@@ -69,14 +69,28 @@ export async function writeLock(fs: StoreFs, dir: string, lock: WriterLock): Pro
   await fs.rename(temp, join(dir, WRITER_LOCK));
 }
 
-/** The lock, or null when it is missing or unreadable (both mean: no provable writer). */
+/**
+ * The lock, or null when it is missing or not a lock (both mean: no provable
+ * writer). Any other failure to read it (EACCES, EIO, EMFILE…) is thrown: a
+ * lock we could not read says nothing about the writer, and reading it as
+ * "no writer" would mark a live run interrupted and delete its lock.
+ */
 export async function readLock(fs: StoreFs, dir: string): Promise<WriterLock | null> {
+  let text: string;
   try {
-    const parsed = writerLockSchema.safeParse(JSON.parse(await fs.readFile(join(dir, WRITER_LOCK))));
-    return parsed.success ? parsed.data : null;
+    text = await fs.readFile(join(dir, WRITER_LOCK));
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT') return null;
+    throw error;
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
   } catch {
     return null;
   }
+  const parsed = writerLockSchema.safeParse(json);
+  return parsed.success ? parsed.data : null;
 }
 
 export function isPidAlive(pid: number): boolean {

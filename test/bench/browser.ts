@@ -147,8 +147,8 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
     await page.waitForTimeout(1500); // past the start-up of the run
     const liveStart = await countRows(app.service, bigId);
     // A string, not a function: tsx's name-keeping helpers do not exist in the page.
-    const windowStartMs = (await page.evaluate('performance.now()')) as number;
-    const deltas = (await page.evaluate(`new Promise((resolve) => {
+    const windowStartMs = await page.evaluate<number>('performance.now()');
+    const deltas = await page.evaluate<number[]>(`new Promise((resolve) => {
       const seen = [];
       let last = performance.now();
       const end = last + 5000;
@@ -159,9 +159,9 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
         else resolve(seen.slice(1));
       }
       requestAnimationFrame(tick);
-    })`)) as number[];
+    })`);
     // The plots' own work per update (setData + redraw), from app/plots/frame-work.ts.
-    const plotWork = ((await page.evaluate(`window.tunebenchPlotWorkSince ? window.tunebenchPlotWorkSince(${windowStartMs}) : []`)) as number[]).sort(
+    const plotWork = (await page.evaluate<number[]>(`window.tunebenchPlotWorkSince ? window.tunebenchPlotWorkSince(${windowStartMs}) : []`)).sort(
       (a, b) => a - b,
     );
     const readingsDuringWindow = (await countRows(app.service, bigId)) - liveStart;

@@ -6,6 +6,7 @@
  */
 import { runScpiThroughputBench } from './scpi-throughput.ts';
 import { runAnalysisBench } from './analysis.ts';
+import { runBigInputsBench } from './big-inputs.ts';
 import { runProceduresBench } from './procedures.ts';
 import { runBrowserBench } from './browser.ts';
 import { benchStoreAppend } from './store-append.ts';
@@ -18,6 +19,7 @@ const suites: Record<string, () => Promise<unknown>> = {
   'cli-start': () => runCliStartBench(),
   scpi: runScpiThroughputBench,
   analysis: async () => runAnalysisBench(),
+  'big-inputs': runBigInputsBench,
   procedures: runProceduresBench,
   'sweep-floor': runSweepFloorBench,
   'adaptive-readings': runAdaptiveReadingsBench,

@@ -16,7 +16,7 @@ import { performance } from 'node:perf_hooks';
 import { pathToFileURL } from 'node:url';
 import { sweepPlanSchema, type SweepPlanInput } from '../../app/contract/plans.ts';
 import { assembleBench, type AssembledBench } from '../../main/bench/assemble.ts';
-import type { Counter, FrequencyReading, Supply } from '../../main/instruments/roles.ts';
+import type { Counter, FrequencyReading } from '../../main/instruments/roles.ts';
 import { runSweep } from '../../main/procedures/sweep.ts';
 import { FakeSupply, MemorySink } from '../../main/procedures/testing/fake-bench.ts';
 import type { BenchRoles } from '../../main/procedures/types.ts';
@@ -97,7 +97,7 @@ function zeroDelayBench(clock: Clock): BenchRoles {
     readFrequency: (): Promise<FrequencyReading> => Promise.resolve({ status: 'ok', frequencyHz: 10e3 + 1e3 * supply.channel(1).voltageV }),
     close: () => Promise.resolve(),
   };
-  return { supply: supply as Supply, counter, controlChannel: 1, dutSupplyChannel: 2 };
+  return { supply, counter, controlChannel: 1, dutSupplyChannel: 2 };
 }
 
 async function settlingFigure(stepV: number): Promise<SettlingFigure> {

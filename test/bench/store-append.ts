@@ -34,7 +34,7 @@ export async function benchStoreAppend(rows = 500_000, rowsPerFlush = 1000): Pro
       for (let j = i; j < i + rowsPerFlush && j < rows; j++) {
         row[0] = j * 0.013;
         row[1] = 0.5 + (j % 400) * 0.01;
-        row[2] = (row[1] as number) + 1.234e-4;
+        row[2] = row[1] + 1.234e-4;
         row[3] = 8.192e6 + Math.sin(j) * 1234.5678;
         writer.appendSample(row);
       }

@@ -13,7 +13,7 @@ import { startBrowserServer, type BrowserServer } from '../../main/server/http-s
 import { ensureRendererBuilt, PROJECT_ROOT } from '../../main/server/renderer-build.ts';
 import type { BenchService } from '../../main/service/bench-service.ts';
 import { createDefaultBenchService } from '../../main/service/default-ports.ts';
-import { ScaledClock } from '../../main/service/scaled-clock.ts';
+import { ScaledClock } from '../../main/time/scaled-clock.ts';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 export const hasChromium = existsSync(CHROMIUM_PATH);

@@ -11,7 +11,7 @@ import { columnSetFromStored } from '../../state/columns.ts';
 import { datasheetRun } from './run-analysis.ts';
 import { openRun } from '../../../main/store/run-store.ts';
 import { createRun } from '../../../main/store/run-writer.ts';
-import { withTempDir } from '../../../main/store/test-support/temp-dir.ts';
+import { withTempDir } from '../../../main/store/testing/temp-dir.ts';
 import { VirtualClock } from '../../../main/time/virtual-clock.ts';
 import { runCli } from '../../../main/cli/index.ts';
 

@@ -19,9 +19,9 @@ import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 
 export interface DriftSource {
   key: string;
-  columns(): ColumnSet;
-  rows(): number;
-  watch?(notify: () => void): () => void;
+  columns: () => ColumnSet;
+  rows: () => number;
+  watch?: (notify: () => void) => () => void;
   done: boolean;
   theme: string;
 }

@@ -16,7 +16,7 @@ import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { baseOptions, lineSeries, logSiAxis, siAxis, xSeries } from '../../plots/plot-options.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
-import { useEffectiveTheme } from '../App.tsx';
+import { useEffectiveTheme } from '../use-theme.ts';
 import { Choice, Field, Figure, Panel } from '../controls/Field.tsx';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import { hz, si, when } from '../units.ts';

@@ -4,7 +4,7 @@ import { planHints } from '../../analysis/datasheet-run.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
-import { useEffectiveTheme } from '../App.tsx';
+import { useEffectiveTheme } from '../use-theme.ts';
 import { DriftFigures } from '../drift/DriftFigures.tsx';
 import { SweepFigures } from '../sweep/SweepFigures.tsx';
 import { PushingFigures } from './PushingFigures.tsx';

@@ -7,7 +7,7 @@ import { baseOptions, pointSeries, siAxis, xSeries } from '../../plots/plot-opti
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
-import { useEffectiveTheme } from '../App.tsx';
+import { useEffectiveTheme } from '../use-theme.ts';
 import { when } from '../units.ts';
 import { overlayColumns } from './overlay.ts';
 import { RunDetailView } from './RunDetailView.tsx';

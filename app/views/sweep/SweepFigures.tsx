@@ -23,7 +23,7 @@ export interface SweepSource {
   key: string;
   columns(): ColumnSet;
   rows(): number;
-  watch?(notify: () => void): () => void;
+  watch?: (notify: () => void) => () => void;
   /** True once no more readings will come: the analysis runs then. */
   done: boolean;
   gateS?: number;

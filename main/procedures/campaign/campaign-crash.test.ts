@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { onStdoutLines } from '../../../test/support/child-stdout-lines.ts';
+import { onStdoutLines } from '../../../test/testing/child-stdout-lines.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG } from '../../bench/assemble.ts';
 import { readRunFolder } from '../../store/index.ts';
 import { VirtualClock } from '../../time/virtual-clock.ts';

@@ -3,19 +3,12 @@
  * and the ETA; otherwise plain lines, at most one every few seconds so a log
  * file stays readable.
  */
+import { formatClockDuration } from '../../app/analysis/format-clock.ts';
 import type { ProgressInfo } from '../../app/contract/bench-api.ts';
 
 export interface ProgressOutput {
   write(text: string): unknown;
   isTTY?: boolean;
-}
-
-export function formatDurationS(seconds: number | null): string {
-  if (seconds === null || !Number.isFinite(seconds)) return '--';
-  const s = Math.max(0, Math.round(seconds));
-  if (s < 60) return `${s}s`;
-  if (s < 3600) return `${Math.floor(s / 60)}m${String(s % 60).padStart(2, '0')}s`;
-  return `${Math.floor(s / 3600)}h${String(Math.floor((s % 3600) / 60)).padStart(2, '0')}m`;
 }
 
 function formatHz(hz: number | null): string {
@@ -28,7 +21,7 @@ function formatHz(hz: number | null): string {
 
 export function describeProgress(p: ProgressInfo): string {
   const latest = p.latest === null ? '' : `  ${p.latest.controlV.toFixed(4)} V → ${p.latest.status === 'ok' ? formatHz(p.latest.frequencyHz) : p.latest.status}`;
-  return `${p.phase} ${p.pointsDone}/${p.pointsTotal}  ETA ${formatDurationS(p.etaS)}${latest}`;
+  return `${p.phase} ${p.pointsDone}/${p.pointsTotal}  ETA ${formatClockDuration(p.etaS)}${latest}`;
 }
 
 export function createProgressDisplay(out: ProgressOutput, nowMs: () => number = Date.now, plainEveryMs = 5000): { update: (p: ProgressInfo) => void; done: () => void } {

@@ -6,8 +6,8 @@
  * instruments, whose settling and gate times are physical.
  */
 import { performance } from 'node:perf_hooks';
-import type { Clock } from '../time/clock.ts';
-import { sleepOn } from '../time/real-clock.ts';
+import type { Clock } from './clock.ts';
+import { sleepOn } from './real-clock.ts';
 
 export class ScaledClock implements Clock {
   readonly #scale: number;

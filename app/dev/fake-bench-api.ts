@@ -30,7 +30,7 @@ function toColumns(rows: Row[]): SampleColumns {
   const text: Record<string, string[]> = {};
   for (const name of names) {
     if (!rows.some((r) => typeof r[name] === 'number')) text[name] = rows.map((r) => String(r[name] ?? ''));
-    else numeric[name] = rows.map((r) => (typeof r[name] === 'number' ? (r[name] as number) : Number.NaN));
+    else numeric[name] = rows.map((r) => (typeof r[name] === 'number' ? r[name] : Number.NaN));
   }
   return { names, numeric, text };
 }

@@ -10,17 +10,22 @@ import { mkdir, mkdtemp, writeFile } from 'node:fs/promises';
 import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { WebSocket } from 'ws';
+import { WebSocket, type RawData } from 'ws';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
 const BIN = join(ROOT, 'main', 'bin', 'tunebench.mjs');
-export const CRASH_TRIGGER = join(ROOT, 'test', 'support', 'crash-trigger.mjs');
+export const CRASH_TRIGGER = join(ROOT, 'test', 'testing', 'crash-trigger.mjs');
 
 export interface Child {
   process: ChildProcess;
   out: () => string;
   err: () => string;
   exited: Promise<number | null>;
+}
+
+/** The text of a WebSocket message, whatever form `ws` hands it in (one buffer, fragments, an ArrayBuffer). */
+export function wsText(data: RawData): string {
+  return (Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data)).toString('utf8');
 }
 
 export function spawnCli(args: string[], env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []): Child {
@@ -56,7 +61,7 @@ export async function startSim(): Promise<SimChild> {
     'tunebench sim addresses',
     () => {
       const found = ['supply', 'counter', 'thermometer'].map((role) => new RegExp(`${role}\\s+(tcp://127\\.0\\.0\\.1:\\d+)`).exec(child.out())?.[1]);
-      return found.every((a) => a !== undefined) ? (found as string[]) : null;
+      return found.every((a) => a !== undefined) ? found : null;
     },
     child,
   );
@@ -102,7 +107,7 @@ export async function openApi(origin: string, token: string): Promise<ApiClient>
   let nextId = 1;
   socket.on('message', (data, binary) => {
     if (binary) return;
-    const message = JSON.parse(data.toString()) as { id?: number; event?: { type: string } };
+    const message = JSON.parse(wsText(data)) as { id?: number; event?: { type: string } };
     if (message.event) events.push(message.event);
     else if (typeof message.id === 'number') waiting.get(message.id)?.(message as never);
   });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { runMetaFixture } from './testing/run-meta-fixture.ts';
+import { runMetaFixture } from '../bridge/testing/run-meta-fixture.ts';
 import { firstIssue, runDetailSchema } from './wire-schemas.ts';
 
 const meta = runMetaFixture('sensor-osc-3');

@@ -1,5 +1,5 @@
 /**
- * The summary printed after a run: the analysis (C's analyzeTable +
+ * The summary printed after a run: the analysis (analyzeTable +
  * summarizeAnalysis) and, for a sweep, the gain table in Markdown. If the
  * analysis cannot be made (too few points, everything stalled…), a short
  * plain summary says why instead — the run folder is written either way.
@@ -8,7 +8,7 @@ import { analyzeTable } from '../../app/analysis/analyze-table.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { buildDatasheet } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
-import { loadAnalysisSource } from '../cli/analysis-source.ts';
+import { loadAnalysisSource } from './analysis-source.ts';
 
 export interface RunSummary {
   /** Analysis in a few lines (or why there is none). */

@@ -5,24 +5,11 @@
  * the contract later pass through.
  */
 import { z } from 'zod';
-import type { BenchMethod, CodedTextColumn } from '../contract/bench-api.ts';
-import { runMetaSchema } from '../contract/run-meta-schema.ts';
+import type { BenchMethod, CodedTextColumn } from './bench-api.ts';
+import { runMetaSchema } from './run-meta-schema.ts';
+import { connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
-const nullableNumber = z.number().nullable();
 
-export const connectionStateSchema = z.looseObject({
-  connected: z.boolean(),
-  simulated: z.boolean(),
-  roles: z.array(
-    z.looseObject({
-      role: z.enum(['supply', 'counter', 'thermometer']),
-      address: z.string(),
-      idn: z.string(),
-      simulated: z.boolean(),
-    }),
-  ),
-  error: z.string().nullable(),
-});
 
 
 // NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
@@ -115,26 +102,6 @@ export const runDetailSchema = z.looseObject({
   meta: runMetaSchema,
   samples: sampleColumnsSchema,
   events: z.array(z.looseObject({ time_s: z.number(), type: z.string() })),
-});
-
-const readoutSchema = z.looseObject({
-  controlSetV: nullableNumber,
-  controlMeasV: nullableNumber,
-  frequencyHz: nullableNumber,
-  temperatureC: nullableNumber,
-  timeS: z.number(),
-});
-
-const progressSchema = z.looseObject({
-  runId: z.string(),
-  kind: z.enum(['sweep', 'drift', 'pushing']),
-  phase: z.enum(['settling', 'reading', 'refining', 'logging', 'paused', 'finishing']),
-  pointsDone: z.number(),
-  pointsTotal: z.number(),
-  etaS: nullableNumber,
-  latest: z
-    .looseObject({ controlV: z.number(), frequencyHz: nullableNumber, status: z.enum(['ok', 'no-signal', 'timeout', 'error']) })
-    .nullable(),
 });
 
 export const benchEventSchema = z.discriminatedUnion('type', [

@@ -1,0 +1,100 @@
+/**
+ * Issue 15 item 6: disk faults. A full disk names the file and the OS error
+ * (not "short write") and leaves run.json `failed` with the reason; a run
+ * folder deleted mid-run is noticed at the next flush and the run stops there,
+ * with the simulated supply left in the safe state (read back from the sim).
+ */
+import { readFile, rm } from 'node:fs/promises';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { sweepPlanSchema } from '../../app/contract/plans.ts';
+import { assembleBench } from '../bench/assemble.ts';
+import { recordSweep } from '../procedures/recorded-run.ts';
+import { VirtualClock } from '../time/virtual-clock.ts';
+import { createRun } from './run-writer.ts';
+import { DiskError, RunFolderGoneError } from './store-error.ts';
+import { type StoreFs, nodeStoreFs } from './store-fs.ts';
+import { withTempDir } from './testing/temp-dir.ts';
+
+/** samples.csv fills the disk: the OS takes part of a write, then refuses the rest with ENOSPC (as Linux does). */
+function fillingDisk(): { fs: StoreFs; full: { on: boolean } } {
+  const full = { on: false };
+  const fs: StoreFs = {
+    ...nodeStoreFs,
+    async open(path, flags) {
+      const handle = await nodeStoreFs.open(path, flags);
+      let partialDone = false;
+      return {
+        ...handle,
+        async write(data) {
+          if (!full.on || !path.endsWith('samples.csv')) return handle.write(data);
+          if (!partialDone) {
+            partialDone = true;
+            const bytes = typeof data === 'string' ? Buffer.from(data) : data;
+            return handle.write(bytes.subarray(0, Math.floor(bytes.length / 3)));
+          }
+          throw Object.assign(new Error('ENOSPC: no space left on device, write'), { code: 'ENOSPC', syscall: 'write' });
+        },
+      };
+    },
+  };
+  return { fs, full };
+}
+
+describe('disk faults while recording', () => {
+  it('a full disk names samples.csv and ENOSPC, and run.json ends failed with the reason', async () => {
+    await withTempDir(async (runsDir) => {
+      const { fs, full } = fillingDisk();
+      const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'disk-probe' }, instruments: [], plan: {}, columns: ['control_v', 'frequency_hz', 'status'], clock: new VirtualClock(), fs });
+      writer.appendSample([1, 1000, 'ok']);
+      await writer.flush();
+      full.on = true;
+      for (let i = 0; i < 20; i++) writer.appendSample([1 + i / 10, 1000 + i, 'ok']);
+      const error = await writer.flush().catch((e: unknown) => e);
+      expect(error).toBeInstanceOf(DiskError);
+      expect((error as DiskError).osCode).toBe('ENOSPC');
+      expect((error as Error).message).toBe(`cannot write ${join(writer.dir, 'samples.csv')}: ENOSPC: no space left on device, write`);
+      await expect(writer.finish('complete')).rejects.toThrow(/samples\.csv: ENOSPC/);
+      const meta = JSON.parse(await readFile(join(writer.dir, 'run.json'), 'utf8')) as { status: string; failure: string };
+      expect(meta.status).toBe('failed');
+      expect(meta.failure).toMatch(/samples\.csv: ENOSPC/);
+      // The partial write was cut back: the file holds whole rows only.
+      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe('control_v,frequency_hz,status\n1,1000,ok\n');
+    });
+  });
+
+  it('a run folder deleted mid-sweep is noticed at the next flush; the sweep stops there and leaves the supply safe', async () => {
+    await withTempDir(async (runsDir) => {
+      const plan = sweepPlanSchema.parse({
+        start: 1.6, stop: 3, step: 0.1, readingsPerPoint: 2, gateS: 0.05, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0,
+        limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0.5, outputOff: true },
+      });
+      const clock = new VirtualClock({ autoAdvance: true });
+      const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
+      let dir = '';
+      let rows = 0;
+      let rowsAtDelete = -1;
+      const deletions: Promise<void>[] = [];
+      const error = await recordSweep({
+        bench, plan, clock, runsDir, dutId: 'vanishing-folder',
+        onRunStarted: (_meta, runDir) => (dir = runDir),
+        onSample: () => {
+          rows++;
+          if (rows === 6) {
+            rowsAtDelete = rows;
+            deletions.push(rm(dir, { recursive: true, force: true }));
+          }
+        },
+      }).catch((e: unknown) => e);
+      await Promise.all(deletions);
+      const control = bench.sim?.supply.state(1);
+      await bench.close();
+      expect(error).toBeInstanceOf(RunFolderGoneError);
+      expect((error as Error).message).toContain(dir);
+      // Stopped at the next flush (the end of the point): at most one point's readings after the deletion.
+      expect(rows - rowsAtDelete).toBeLessThanOrEqual(plan.readingsPerPoint);
+      expect(control?.outputOn).toBe(false);
+      expect(control?.setpointV).toBeCloseTo(0.5, 9);
+    });
+  });
+});
