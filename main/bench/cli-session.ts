@@ -80,16 +80,20 @@ export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay>
 
 /** Exit code for an outcome; failures and aborts are explained on stderr. */
 export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
-  if (!outcome.safeStateOk) io.stderr.write('WARNING: the safe state could not be confirmed on every step — check the supply now (see events.jsonl).\n');
+  if (!outcome.safeStateOk) {
+    io.stderr.write('WARNING: the safe state could not be confirmed by readback — check the supply now (see events.jsonl):\n');
+    for (const line of outcome.safeStateFailures ?? []) io.stderr.write(`  ${line}\n`);
+  }
   if (outcome.failure !== null) {
     io.stderr.write(`${outcome.kind} failed (${outcome.failure.kind}): ${outcome.failure.message}\n`);
     return 1;
   }
   if (outcome.status === 'aborted') {
-    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); the supply was put in its safe state.\n`);
+    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); ${outcome.safeStateOk ? 'the supply was put in its safe state' : 'the safe state was NOT confirmed'}.\n`);
     return 1;
   }
-  return 0;
+  // An unconfirmed safe state is a failure even when the work itself completed.
+  return outcome.safeStateOk ? 0 : 1;
 }
 
 /** The flags every recording command takes (plus `extra` value flags), no positionals, and the simulated DUT. */

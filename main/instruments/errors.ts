@@ -51,6 +51,26 @@ export class DisconnectedError extends Error {
   }
 }
 
+/**
+ * A reply that cannot be proven to answer the query it was taken for: after
+ * a timeout the link's resync found no proof of alignment, or the reply kept
+ * coming late. The reading is a fault, never a value.
+ */
+export class AlignmentError extends Error {
+  override readonly name = 'AlignmentError';
+  constructor(readonly command: string, detail: string, options?: { cause?: unknown }) {
+    super(`reply to ${command} not proven in step: ${detail}`, options);
+  }
+}
+
+/** A supply write refused because it would put a channel above its ceiling (channel-ceilings.ts). Nothing was sent. */
+export class ChannelLimitError extends Error {
+  override readonly name = 'ChannelLimitError';
+  constructor(readonly channel: number, readonly volts: number, readonly maxV: number, message: string) {
+    super(message);
+  }
+}
+
 /** A reply that is not what the query's grammar allows. Never a silent wrong value. */
 export class ReplyFormatError extends Error {
   override readonly name = 'ReplyFormatError';

@@ -32,6 +32,15 @@ export const supplyProfileSchema = z.object({
     measureCurrent: z.boolean(),
     overVoltageProtection: z.boolean(),
   }),
+  /**
+   * The supply's ratings: a voltage read back (setpoint or measured) beyond
+   * ±maxVoltageV, or a current beyond ±maxCurrentA, is not a measurement
+   * but a fault.
+   */
+  ratings: z.object({
+    maxVoltageV: z.number().positive().max(1e4).default(100),
+    maxCurrentA: z.number().positive().max(1e3).default(20),
+  }).default({ maxVoltageV: 100, maxCurrentA: 20 }),
   commands: z.object({
     identify: command.default('*IDN?'),
     setVoltage: command,
@@ -66,6 +75,14 @@ export const counterProfileSchema = z.object({
   }).default({ defaultS: 2, measureMarginS: 1 }),
   /** Gate assumed until setGate is called, s. */
   defaultGateS: positiveS.default(0.1),
+  /** Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. */
+  maxInputHz: z.number().positive().max(1e12).default(3e9),
+  /**
+   * Shape of a reading reply: `nr3` needs an exponent (+1.0E+04), `decimal`
+   * a point or an exponent (NR2 or NR3), `any` also takes integers (NR1).
+   * A reply of another shape (a stray "1") is a fault, never a frequency.
+   */
+  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal'),
   /** Which replies mean "no oscillation" rather than a fault. */
   noSignal: z.object({
     notANumber: z.boolean().default(true),
@@ -87,6 +104,11 @@ export const thermometerProfileSchema = z.object({
   timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
   /** Unit the instrument replies in; converted to °C. */
   unit: z.enum(['C', 'K', 'F']).default('C'),
+  /** Plausible readings, °C (after conversion): outside them a reading is a fault (an open or shorted probe). */
+  plausibleC: z.object({
+    min: z.number().min(-273.15).default(-200),
+    max: z.number().max(5000).default(1000),
+  }).default({ min: -200, max: 1000 }),
   commands: z.object({
     identify: command.default('*IDN?'),
     readTemperature: command,

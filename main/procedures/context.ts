@@ -5,7 +5,7 @@
  */
 import type { Clock } from '../time/clock.ts';
 import type { RoleName } from '../instruments/roles.ts';
-import { DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import { AlignmentError, ChannelLimitError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
 import { RunStoppedError } from './run-control.ts';
 import { isLinkLoss, readCounter, type CounterReading } from './read-counter.ts';
 import type { BenchRoles, FailureKind, EventBody, RunSink, SampleRow } from './types.ts';
@@ -130,7 +130,8 @@ export function classifyEnd(error: unknown): { reason: string; failure: { kind: 
   if (error instanceof DisconnectedError) return { reason: 'disconnected', failure: { kind: 'disconnected', message } };
   if (error instanceof InstrumentError) return { reason: 'instrument-error', failure: { kind: 'instrument-error', message } };
   if (error instanceof TimeoutError) return { reason: 'timeout', failure: { kind: 'timeout', message } };
-  if (error instanceof ReplyFormatError) return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
+  if (error instanceof ReplyFormatError || error instanceof AlignmentError) return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
+  if (error instanceof ChannelLimitError) return { reason: 'limits', failure: { kind: 'limits', message } };
   const name = error instanceof Error ? `${error.name}: ` : '';
   return { reason: 'internal-error', failure: { kind: 'internal', message: `${name}${message}` } };
 }

@@ -135,7 +135,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
   } finally {
     // End conditions after the safe state, so a slow or failing read cannot hold it up.
     const conditions = outcome.conditions;
-    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return true; } : undefined;
+    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return []; } : undefined;
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;

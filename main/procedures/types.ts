@@ -69,8 +69,10 @@ export interface ProcedureOutcome {
   failure: { kind: FailureKind; message: string } | null;
   /** Readings recorded (rows in samples.csv written by this call). */
   rowsWritten: number;
-  /** True when every safe-state step succeeded (or none was needed). */
+  /** True when every safe-state step was confirmed by readback (or none was needed). */
   safeStateOk: boolean;
+  /** One line per unconfirmed safe-state step, naming the channel and what was read back. */
+  safeStateFailures?: string[];
   /** Conditions read around the run (sweeps, once the output was on); run.json `conditions`. */
   conditions?: RecordedConditions;
 }

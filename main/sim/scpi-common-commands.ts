@@ -11,6 +11,13 @@ export function commonCommands(device: ScpiDevice): CommandDef[] {
     { pattern: '*CLS', set: () => device.clearStatus() },
     { pattern: '*OPC', set: () => device.setOpc(), query: () => '1' },
     { pattern: '*ESR', query: () => String(device.readEsr()) },
+    {
+      pattern: '*ESE',
+      set: (ctx) => {
+        device.ese = Math.round(ctx.number(0, { min: 0, max: 255 }, '*ESE'));
+      },
+      query: () => String(device.ese),
+    },
     { pattern: '*WAI', set: () => undefined },
     { pattern: '*TST', query: () => '0' },
     { pattern: 'SYSTem:ERRor[:NEXT]', query: () => device.popError() },

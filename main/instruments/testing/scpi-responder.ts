@@ -21,6 +21,7 @@ export class ScpiResponder {
   private readonly volts = new Map<number, number>();
   private readonly outputs = new Map<number, boolean>();
   received = 0;
+  private ese = 0;
 
   /** Handles one command line (may hold several ;-separated commands). */
   handle(line: string, act: ResponderActions): void {
@@ -38,6 +39,8 @@ export class ScpiResponder {
     switch (header) {
       case '*IDN?': return act.reply(RESPONDER_IDN);
       case '*OPC?': return act.reply('1');
+      case '*ESE': this.ese = Number(arg); return;
+      case '*ESE?': return act.reply(String(this.ese));
       case '*RST': this.volts.clear(); this.outputs.clear(); return;
       case '*CLS': this.errors.length = 0; return;
       case 'SYST:ERR?': return act.reply(this.errors.shift() ?? '+0,"No error"');
