@@ -18,6 +18,7 @@ import type { SafeState } from '../../app/contract/plans.ts';
 import { parseFlags, type ParsedFlags } from '../cli/flags.ts';
 import { UsageError, WorkFailedError, type CliIo } from '../cli/types.ts';
 import { assembleBench, type AssembledBench } from './assemble.ts';
+import { BenchCheckError } from './bench-checks.ts';
 import { ConfigFileError, loadBenchFile } from './config-files.ts';
 import type { DefaultDut } from './default-plans.ts';
 import { createProgressDisplay } from './progress-display.ts';
@@ -39,7 +40,7 @@ export function runsDirFrom(flag: string | undefined, io: CliIo): string {
 
 /** Turns a bad file, plan or address into a UsageError (exit 2) that names the field. */
 export function asUsageError(error: unknown): never {
-  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError) {
+  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) {
     throw new UsageError(error instanceof LimitsError ? `plan refused — ${error.message}` : error.message);
   }
   throw error;
@@ -50,7 +51,7 @@ export async function openCliBench(benchPath: string | undefined, dut: DefaultDu
   try {
     return await assembleBench(config, { clock, sim: { dut } });
   } catch (error) {
-    if (error instanceof AddressError || error instanceof ProfileError) asUsageError(error);
+    if (error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) asUsageError(error);
     throw new WorkFailedError(`cannot open the bench: ${error instanceof Error ? error.message : String(error)}`);
   }
 }
@@ -72,6 +73,11 @@ export function cliControl(io: CliIo, bench: AssembledBench, safe: SafeState): {
     disposers.push(safeOnCrash(bench, safe, process, record, (code) => process.exit(code)));
   }
   return { control, dispose: () => disposers.forEach((dispose) => dispose()) };
+}
+
+/** One line per instrument: role, identity, address (printed at the start of every run on a real bench). */
+export function identityLines(bench: Pick<AssembledBench, 'instruments'>): string[] {
+  return bench.instruments.map(({ role, idn, address }) => `${role}: ${idn} at ${address}`);
 }
 
 export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay> {
@@ -137,6 +143,11 @@ export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut,
   io.stderr.write(`${CAUTIONS}\n`);
   const bench = await openCliBench(flags.values.get('bench'), dut, clock);
   if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
+  else for (const line of identityLines(bench)) io.stderr.write(`${line}\n`);
+  const found = bench.controlFound;
+  if (found.outputOn) {
+    io.stderr.write(`NOTE: control channel ${found.channel} was found ON at ${found.setpointV} V (left by an earlier run or by hand); it goes to the safe state before the limits are applied.\n`);
+  }
   const { control, dispose } = cliControl(io, bench, safe);
   const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
   const close = async (): Promise<void> => {

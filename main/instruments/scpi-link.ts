@@ -86,6 +86,7 @@ export class ScpiLink {
   private lineHook: ((line: Buffer) => void) | null = null;
   /** stats.staleLines when the last timeout happened (resync() reports the difference). */
   private staleAtTimeout = 0;
+  private lastSent: string | null = null;
   private resyncRun: ResyncRun | null = null;
   private lateLinesOwed = 0;
   private outOfStep = false;
@@ -115,6 +116,11 @@ export class ScpiLink {
     return this.transport.address;
   }
 
+  /** The last command written on this link (for error messages), or null. */
+  get lastCommand(): string | null {
+    return this.lastSent;
+  }
+
   /** True while a timeout or a stray line left the link possibly out of step. */
   get isOutOfStep(): boolean {
     return this.outOfStep;
@@ -131,7 +137,8 @@ export class ScpiLink {
       await this.transport.open();
     } catch (error) {
       await this.close();
-      throw new DisconnectedError(this.address, `cannot open: ${message(error)}`, { cause: error });
+      if (error instanceof DisconnectedError && error.opening) throw error;
+      throw new DisconnectedError(this.address, message(error), { cause: error, opening: true });
     }
   }
 
@@ -272,6 +279,7 @@ export class ScpiLink {
   }
 
   private async send(command: string): Promise<void> {
+    this.lastSent = command;
     try {
       await this.transport.write(command + this.terminator);
     } catch (error) {
@@ -283,6 +291,7 @@ export class ScpiLink {
   private exchange(command: string, timeoutS: number, raw: boolean, onSettle: (() => void) | null): Promise<Buffer | string> {
     // Wait first, then write: a fast (in-process) link may answer before write() returns.
     const reply = this.waiter.expect(command, timeoutS, raw, true, onSettle);
+    this.lastSent = command;
     this.transport.write(command + this.terminator).then(undefined, (error: unknown) => this.waiter.fail(asDisconnected(this.address, error)));
     return reply;
   }

@@ -42,6 +42,13 @@ export interface FinishRunParts {
 export async function finishRun(outcome: ProcedureOutcome, parts: FinishRunParts): Promise<void> {
   const { ctx } = parts;
   parts.control.onPauseChange(null);
+  const counterFault = outcome.failure === null ? ctx.counterFault() : null;
+  if (counterFault !== null) {
+    outcome.status = 'aborted';
+    outcome.reason = counterFault.kind;
+    outcome.failure = counterFault;
+    ctx.event({ type: 'abort', reason: counterFault.kind, error: counterFault.message, failure: counterFault.kind });
+  }
   parts.progress.finish(outcome.status === 'complete');
   await parts.beforeSafe?.();
   const safe = await goSafe(ctx.bench, parts.channel, parts.safe, (event) => ctx.event(event));

@@ -14,7 +14,7 @@ import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
 import { linearSlope, supplyLevels } from './pushing-math.ts';
-import { driveVerified, outputOffStep, voltageStep } from './safe-state.ts';
+import { driveVerified, leaveFoundOutput, outputOffStep, voltageStep } from './safe-state.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleStatus } from './types.ts';
 
 export const PUSHING_COLUMNS = ['time_s', 'control_v', 'supply_v', 'frequency_hz', 'status'] as const;
@@ -73,6 +73,7 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       // Protection set below the voltage found would trip (or refuse) the way back: change nothing.
       throw new ProcedureFailure('limits', `maxSupplyV: the DUT supply (channel ${dutChannel}) is at ${restoreDut.volts} V, above maxSupplyV (${plan.maxSupplyV} V) plus its protection margin; the plan is refused`);
     }
+    await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
     // The driver refuses any DUT supply write above its OVP level from here on.
     bench.supply.limitChannel(dutChannel, 'dut-supply', dutOvpV);

@@ -18,6 +18,7 @@
 import type { SafeState } from '../../app/contract/plans.ts';
 import { AlignmentError, DisconnectedError, TimeoutError } from '../instruments/errors.ts';
 import type { SupplyWriteOptions } from '../instruments/roles.ts';
+import { ProcedureFailure } from './context.ts';
 import type { BenchRoles, EventBody } from './types.ts';
 
 export interface SafeStateResult {
@@ -173,4 +174,19 @@ export async function goSafe(
   const steps = [voltageStep(bench, channel, safe.controlV, `control-voltage ${safe.controlV} V`)];
   if (safe.outputOff) steps.push(outputOffStep(bench, channel));
   return driveVerified(bench, steps, record);
+}
+
+/**
+ * Reads `channel` as it is now (output state, setpoint). If its output is
+ * on — left by a crashed run or by hand — records `found-output-on` and
+ * drives it to the safe state before any limit is applied; a safe state that
+ * cannot be confirmed stops the run before it writes anything else.
+ */
+export async function leaveFoundOutput(bench: BenchRoles, channel: number, safe: SafeState, record: (event: EventBody) => void): Promise<void> {
+  const outputOn = await bench.supply.getOutput(channel);
+  if (!outputOn) return;
+  const setpointV = await bench.supply.getVoltageSetpoint(channel);
+  record({ type: 'found-output-on', channel, setpointV });
+  const result = await goSafe(bench, channel, safe, record);
+  if (!result.ok) throw new ProcedureFailure('limits', `channel ${channel} was found on at ${setpointV} V and could not be put in the safe state: ${result.failures.join('; ')}`);
 }

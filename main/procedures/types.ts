@@ -27,6 +27,8 @@ export interface BenchRoles {
    * log notice errors that no write of its own would report. Optional.
    */
   drainErrors?: ((role: RoleName) => Promise<{ code: number; message: string }[]>) | undefined;
+  /** Where each role is (for messages that name the instrument). Optional. */
+  instruments?: readonly { role: string; idn: string; address: string }[] | undefined;
   /** Link diagnostics (drops, reopens, resyncs) of every role; returns an unsubscribe. Optional. */
   subscribeLinkEvents?: ((listener: (role: RoleName, event: { type: string; [key: string]: unknown }) => void) => () => void) | undefined;
 }
@@ -77,6 +79,6 @@ export interface ProcedureOutcome {
   conditions?: RecordedConditions;
 }
 
-export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits';
+export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits' | 'counter-fault';
 
 export type { SampleStatus };

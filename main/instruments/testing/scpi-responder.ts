@@ -88,7 +88,9 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
     socket.on('error', () => undefined);
     let pending = '';
     // Replies leave in command order, as a real instrument's do: a late one holds up those behind it.
+    // One chain, not one timer per reply: two timers due at the same moment may fire in either order.
     let holdUntilMs = 0;
+    let chain: Promise<void> = Promise.resolve();
     const act: ResponderActions = {
       reply: (text, delayS) => {
         const nowMs = performance.now();
@@ -98,7 +100,9 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
           return;
         }
         holdUntilMs = dueMs;
-        setTimeout(() => socket.writable && socket.write(`${text}\n`), dueMs - nowMs);
+        chain = chain.then(() => new Promise<void>((resolve) => setTimeout(resolve, Math.max(0, dueMs - performance.now())))).then(() => {
+          if (socket.writable) socket.write(`${text}\n`);
+        });
       },
       hangUp: () => socket.destroy(),
     };
