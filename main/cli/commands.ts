@@ -3,6 +3,7 @@
  * the bench procedures first, then analysis, then the tools around them.
  */
 import { analyzeCommand } from './cmd-analyze.ts';
+import { checkCommand } from './cmd-check.ts';
 import { datasheetCommand } from './cmd-datasheet.ts';
 import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
@@ -20,6 +21,7 @@ export const commands: CliCommand[] = [
   analyzeCommand,
   datasheetCommand,
   runsCommand,
+  checkCommand,
   simCommand,
   serveCommand,
   demoCommand,
