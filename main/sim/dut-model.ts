@@ -20,15 +20,16 @@ export interface DutConditions {
   wanderPpm?: number;
 }
 
-export function coreOf(p: DutParams, tuneV: number, supplyV: number): OscillatorCore {
+/** `thresholdShiftV`: a relaxation DUT's upper threshold moved by noise (ignored by the varactor model). */
+export function coreOf(p: DutParams, tuneV: number, supplyV: number, thresholdShiftV = 0): OscillatorCore {
   if (supplyV < p.supply.minV) return { oscillating: false, frequencyHz: 0, cycleJitter: 0 };
-  return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV) : varactorCore(p, tuneV, supplyV);
+  return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV, thresholdShiftV) : varactorCore(p, tuneV, supplyV);
 }
 
-/** Noise-free frequency under the given conditions; 0 when not oscillating. */
-export function dutFrequencyHz(p: DutParams, c: DutConditions): number {
+/** Frequency under the given conditions (noise-free unless a threshold shift is given); 0 when not oscillating. */
+export function dutFrequencyHz(p: DutParams, c: DutConditions, thresholdShiftV = 0): number {
   if (c.poweredForS === null) return 0;
-  const core = coreOf(p, c.tuneNodeV, c.supplyV);
+  const core = coreOf(p, c.tuneNodeV, c.supplyV, thresholdShiftV);
   if (!core.oscillating) return 0;
   const fractionalPpm =
     p.tempcoPpmPerC * (c.temperatureC - p.referenceC) +
