@@ -9,6 +9,8 @@ import type { CommandTemplate } from './command-template.ts';
 export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
 
 const command = z.string().trim().min(1, 'must be a non-empty command string');
+/** An operation that reads a reply must be a SCPI query: without "?" the instrument never answers, and silence would pass for "no signal". */
+const query = command.refine((text) => text.includes('?'), 'must be a query (a SCPI query header ends in "?", e.g. "READ?")');
 const positiveS = z.number().positive().finite();
 
 const common = {
@@ -42,15 +44,15 @@ export const supplyProfileSchema = z.object({
     maxCurrentA: z.number().positive().max(1e3).default(20),
   }).default({ maxVoltageV: 100, maxCurrentA: 20 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
+    identify: query.default('*IDN?'),
     setVoltage: command,
-    getVoltageSetpoint: command,
+    getVoltageSetpoint: query,
     setCurrentLimit: command,
     setOverVoltageProtection: command.optional(),
     setOutput: command,
-    getOutput: command,
-    measureVoltage: command.optional(),
-    measureCurrent: command.optional(),
+    getOutput: query,
+    measureVoltage: query.optional(),
+    measureCurrent: query.optional(),
   }),
 }).superRefine((profile, ctx) => {
   const needs: [keyof typeof profile.capabilities, keyof typeof profile.commands][] = [
@@ -92,9 +94,9 @@ export const counterProfileSchema = z.object({
     belowHz: z.number().min(0).finite().default(0),
   }).default({ notANumber: true, zero: true, timeout: true, belowHz: 0 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
+    identify: query.default('*IDN?'),
     setGate: command,
-    readFrequency: command,
+    readFrequency: query,
   }),
 });
 
@@ -110,8 +112,8 @@ export const thermometerProfileSchema = z.object({
     max: z.number().max(5000).default(1000),
   }).default({ min: -200, max: 1000 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
-    readTemperature: command,
+    identify: query.default('*IDN?'),
+    readTemperature: query,
   }),
 });
 
