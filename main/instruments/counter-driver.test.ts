@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createCounter } from './counter-driver.ts';
-import { AlignmentError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from './errors.ts';
+import { AlignmentError, DisconnectedError, InstrumentError, ReplyFormatError } from './errors.ts';
 import { loadProfile, parseProfile } from './profile-loader.ts';
 import type { CounterProfile } from './profile-schema.ts';
 import { ScpiSession } from './scpi-session.ts';
