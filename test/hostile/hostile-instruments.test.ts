@@ -15,7 +15,7 @@ import { runPushing } from '../../main/procedures/pushing.ts';
 import { MemorySink } from '../../main/procedures/testing/fake-bench.ts';
 import { RealClock } from '../../main/time/real-clock.ts';
 import { runCliCaptured } from '../support/run-cli-captured.ts';
-import { misbehave } from '../support/scpi-proxy.ts';
+import { misbehave, type ProxyContext } from '../support/scpi-proxy.ts';
 import { SHORT_SWEEP, hostileBench, runEvents, type HostileBench } from './hostile-bench.ts';
 
 let bench: HostileBench | null = null;
@@ -68,7 +68,7 @@ describe('issue 15 item 2: a wedged supply link still gets the safe state', () =
         if (line === 'INST:NSEL 1;:SOUR:VOLT 2.5') wedged = true;
         return line;
       },
-      reply: (line: string, ctx: { connection: number; lastCommand: string | null }) => (wedged && wedge.reply ? wedge.reply(line, ctx) : `${line}\n`),
+      reply: (line: string, ctx: ProxyContext) => (wedged && wedge.reply ? wedge.reply(line, ctx) : `${line}\n`),
     };
   }
 
@@ -128,6 +128,23 @@ describe('issue 15 item 3: a counter reply that comes late is never recorded as 
     }
     expect(run.events.some((e) => e.type === 'link' && e.role === 'counter' && e.event === 'resync')).toBe(true);
     expect(bench.counterProxy.log.filter((l) => l.direction === 'command' && /^\*ESE \d+;\*ESE\?$/.test(l.line))).toHaveLength(1);
+  });
+});
+
+describe('issue 15 item 3: a counter whose every reply slips one query late', () => {
+  it('records no value at all — every reading is an error (alignment unproven) and the run is a counter fault', { timeout: 60_000 }, async () => {
+    bench = await hostileBench({ counter: misbehave.slipOneQuery(/^READ\?$/) });
+    const run = await sweep(bench);
+    expect(run.code).toBe(1);
+    const csv = (await readFile(join(run.runDir, 'samples.csv'), 'utf8')).trim().split('\n');
+    const status = (csv[0] as string).split(',').indexOf('status');
+    const statuses = csv.slice(1).map((line) => line.split(',')[status]);
+    expect(statuses.length).toBeGreaterThan(0);
+    // Issue 15 reports that with the *OPC? resync a slipped "1" or the previous point's reading was recorded as ok.
+    expect(statuses.every((s) => s === 'error')).toBe(true);
+    expect(run.events.filter((e) => e.type === 'fault' && e.errorName === 'AlignmentError').length).toBe(statuses.length);
+    expect(run.err).toMatch(/counter-fault/);
+    expect(controlChannel(bench)).toMatchObject({ outputOn: false, setpointV: 0 });
   });
 });
 

@@ -17,6 +17,8 @@ export interface ProxyContext {
   connection: number;
   /** The last command line forwarded on this connection (a reply answers it: one in flight at a time). */
   lastCommand: string | null;
+  /** Writes raw text to the client now (e.g. a reply a rule held back). */
+  toClient(text: string): void;
 }
 
 /** What to send back for one reply line: text (terminator included) or nothing, optionally later. */
@@ -69,6 +71,28 @@ export const misbehave = {
   answer(commandPattern: RegExp, text: string): Pick<ProxyRules, 'reply'> {
     return { reply: (line, ctx) => `${ctx.lastCommand !== null && commandPattern.test(ctx.lastCommand) ? text : line}\n` };
   },
+  /**
+   * From the first command matching `from` on, every reply slips one query
+   * late: held back until the next command arrives, then sent (a counter
+   * whose answers lag one query behind).
+   */
+  slipOneQuery(from: RegExp): ProxyRules {
+    let slipping = false;
+    const held: string[] = [];
+    return {
+      command: (line, ctx) => {
+        if (from.test(line)) slipping = true;
+        const late = held.shift();
+        if (late !== undefined) ctx.toClient(`${late}\n`);
+        return line;
+      },
+      reply: (line) => {
+        if (!slipping) return `${line}\n`;
+        held.push(line);
+        return null;
+      },
+    };
+  },
   /** Every reply delayed by `afterS` (order kept). */
   delayReplies(afterS: number): Pick<ProxyRules, 'reply'> {
     return { reply: (line) => ({ text: `${line}\n`, afterS }) };
@@ -89,7 +113,13 @@ export async function startScpiProxy(target: { host: string; port: number }, rul
 
   const server = net.createServer((client) => {
     connections += 1;
-    const ctx: ProxyContext = { connection: connections, lastCommand: null };
+    const ctx: ProxyContext = {
+      connection: connections,
+      lastCommand: null,
+      toClient: (text) => {
+        if (!client.destroyed) client.write(text);
+      },
+    };
     const upstream = net.connect(target.port, target.host);
     client.setNoDelay(true);
     upstream.setNoDelay(true);
