@@ -89,11 +89,12 @@ export async function bringUpBench(config: BenchConfig | 'sim', options: { clock
           reconnect: { attempts: 0, delayS: 0.5 },
         });
         check.idn = (await driver.identify()).idn;
-        check.findings.push(...(await probe(role, driver, bench)));
+        // The identity first: a role's questions asked of another kind of instrument only time out.
         const suggested = rolesSuggestedBy(check.idn);
         if (suggested.length > 0 && !suggested.includes(role)) {
           check.problem = `identifies as "${check.idn}", which reads like a ${suggested.join(' or ')}: are two addresses swapped?`;
         } else {
+          check.findings.push(...(await probe(role, driver, bench)));
           check.pass = true;
         }
       } catch (error) {

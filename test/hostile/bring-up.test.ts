@@ -90,6 +90,10 @@ describe('bench checked before any write (issue 8 items 5 and 9)', () => {
     expect(cli.err).toMatch(/supply at tcp:\/\/127\.0\.0\.1:\d+ identifies as "tunebench,SIM-COUNTER,0,0\.1"/);
     expect(writesOf(b)).toEqual([]);
     expect(b.counterProxy.log.filter((l) => l.direction === 'command' && /SOUR|OUTP/.test(l.line) && !/\?$/.test(l.line))).toEqual([]);
+    const check = await runCliCaptured('check', '--bench', file);
+    expect(check.code).toBe(1);
+    expect(check.out).toMatch(/^supply +FAIL  tunebench,SIM-COUNTER,0,0\.1 at .* — identifies as "tunebench,SIM-COUNTER,0,0\.1", which reads like a counter: are two addresses swapped\?$/m);
+    expect(check.out).toMatch(/^counter +FAIL  tunebench,SIM-SUPPLY/m);
   });
 });
 
