@@ -8,7 +8,7 @@
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import { openInstrument } from '../instruments/open-instrument.ts';
 import { parseAddress } from '../instruments/address.ts';
-import type { Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
+import type { Chamber, Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
 import { ScpiSession } from '../instruments/scpi-session.ts';
 import { createSimBench, type SimBench } from '../sim/sim-bench.ts';
 import type { Clock } from '../time/clock.ts';
@@ -27,7 +27,7 @@ export interface RoleCheck {
   problem: string | null;
 }
 
-type Driver = Supply | Counter | Thermometer;
+type Driver = Supply | Counter | Thermometer | Chamber;
 
 function messageOf(error: unknown): string {
   return error instanceof Error ? error.message : String(error);
@@ -60,8 +60,12 @@ async function probe(role: RoleName, driver: Driver, bench: BenchConfig): Promis
     const counter = driver as Counter;
     const reading = await counter.readFrequency();
     findings.push(reading.status === 'ok' ? `reading ${reading.frequencyHz} Hz (gate ${counter.gateS} s)` : `reading: no signal (${reading.cause}) — the counter answers; is the DUT powered?`);
-  } else {
+  } else if (role === 'thermometer') {
     findings.push(`reading ${(await (driver as Thermometer).readTemperature()).toFixed(2)} °C`);
+  } else {
+    const chamber = driver as Chamber;
+    findings.push(`air ${(await chamber.readAirTemperature()).toFixed(2)} °C, setpoint ${await chamber.getSetpoint()} °C`);
+    if (chamber.capabilities.runStop) findings.push(await chamber.getRunning() ? 'running' : 'stopped');
   }
   return findings;
 }
@@ -72,6 +76,7 @@ export async function bringUpBench(config: BenchConfig | 'sim', options: { clock
   checkBenchChannels(bench);
   const entries: [RoleName, { address: string; profile?: string | undefined }][] = [['supply', bench.supply], ['counter', bench.counter]];
   if (bench.thermometer) entries.push(['thermometer', bench.thermometer]);
+  if (bench.chamber) entries.push(['chamber', bench.chamber]);
   let sim: SimBench | null = null;
   const simFor = (): SimBench => (sim ??= createSimBench({ clock: options.clock }));
   const results: RoleCheck[] = [];

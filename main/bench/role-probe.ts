@@ -21,6 +21,7 @@ const ROLE_WORDS: Record<RoleName, RegExp> = {
   supply: /supply|power|psu|\bps\b|source/i,
   counter: /counter|frequency|timer|\bcnt\b/i,
   thermometer: /therm|temperature|logger|multimeter|\bdmm\b/i,
+  chamber: /chamber|climatic|environmental|\boven\b/i,
 };
 
 /** Roles an identity reads like (empty when it says nothing either way). */

@@ -17,7 +17,7 @@
  */
 import type { SafeState } from '../../app/contract/plans.ts';
 import { AlignmentError, DisconnectedError, TimeoutError } from '../instruments/errors.ts';
-import type { SupplyWriteOptions } from '../instruments/roles.ts';
+import type { RoleName, SupplyWriteOptions } from '../instruments/roles.ts';
 import { ProcedureFailure } from './context.ts';
 import type { BenchRoles, EventBody } from './types.ts';
 
@@ -162,6 +162,43 @@ export async function driveVerified(bench: BenchRoles, steps: readonly VerifiedS
     });
   }
   return { ok: failures.length === 0, failures };
+}
+
+/**
+ * One best-effort step on `role` with no readback (a dropped link reopened
+ * once): the campaign's chamber steps, which have no supply readback. Supply
+ * steps use driveVerified.
+ */
+export async function tryStep(
+  bench: BenchRoles,
+  step: string,
+  action: () => Promise<void>,
+  record: (event: EventBody) => void,
+  failures: string[],
+  role: RoleName = 'supply',
+): Promise<void> {
+  try {
+    await action();
+    record({ type: 'safe-state', step, ok: true });
+    return;
+  } catch (error) {
+    const firstMessage = messageOf(error);
+    if (error instanceof DisconnectedError && bench.reconnect) {
+      try {
+        await bench.reconnect(role);
+        await action();
+        record({ type: 'safe-state', step, ok: true, afterReconnect: true });
+        return;
+      } catch (retryError) {
+        const message = messageOf(retryError);
+        failures.push(`${step}: ${message}`);
+        record({ type: 'safe-state', step, ok: false, error: message, firstError: firstMessage });
+        return;
+      }
+    }
+    failures.push(`${step}: ${firstMessage}`);
+    record({ type: 'safe-state', step, ok: false, error: firstMessage });
+  }
 }
 
 /** Drives `channel` to the safe state and proves it by readback; never throws. */

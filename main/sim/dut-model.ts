@@ -26,10 +26,15 @@ export function coreOf(p: DutParams, tuneV: number, supplyV: number, thresholdSh
   return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV, thresholdShiftV) : varactorCore(p, tuneV, supplyV);
 }
 
+/** The tuning voltage the core sees at a temperature (tuningTempcoPpmPerC scales it). */
+export function tuneVAt(p: DutParams, tuneNodeV: number, temperatureC: number): number {
+  return tuneNodeV * (1 + (p.tuningTempcoPpmPerC ?? 0) * 1e-6 * (temperatureC - p.referenceC));
+}
+
 /** Frequency under the given conditions (noise-free unless a threshold shift is given); 0 when not oscillating. */
 export function dutFrequencyHz(p: DutParams, c: DutConditions, thresholdShiftV = 0): number {
   if (c.poweredForS === null) return 0;
-  const core = coreOf(p, c.tuneNodeV, c.supplyV, thresholdShiftV);
+  const core = coreOf(p, tuneVAt(p, c.tuneNodeV, c.temperatureC), c.supplyV, thresholdShiftV);
   if (!core.oscillating) return 0;
   const fractionalPpm =
     p.tempcoPpmPerC * (c.temperatureC - p.referenceC) +
