@@ -75,8 +75,13 @@ export const sweepPlanSchema = z
     refineEdgeV: siNumber.default(0.001),
     limits: limitsSchema,
     safe: safeStateSchema.default({ controlV: 0, outputOff: true }),
+    /** Tuning window the PLL can drive (its charge pump's compliance), V: the gain table quotes Kvco over it. */
+    window: z.strictObject({ fromV: siNumber, toV: siNumber }).optional(),
   })
   .superRefine((plan, ctx) => {
+    if (plan.window && !(plan.window.toV > plan.window.fromV)) {
+      ctx.addIssue({ code: 'custom', path: ['window', 'toV'], message: `must be above window.fromV (${plan.window.fromV} V)` });
+    }
     if (plan.points === undefined) {
       for (const key of ['start', 'stop', 'step'] as const) {
         if (plan[key] === undefined) ctx.addIssue({ code: 'custom', path: [key], message: `required unless "points" is given` });
