@@ -7,6 +7,11 @@
  */
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import { openInstrument, type OpenInstrumentOptions } from '../instruments/open-instrument.ts';
+import { RoleConnectError } from '../instruments/errors.ts';
+import { defaultProfileName, loadProfile } from '../instruments/profile-loader.ts';
+import type { InstrumentProfile, SupplyProfile } from '../instruments/profile-schema.ts';
+import { checkBenchChannels } from './bench-checks.ts';
+import { probeRoles, type ControlFound } from './role-probe.ts';
 import { parseAddress } from '../instruments/address.ts';
 import type { Chamber, Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
 import type { SessionEvent } from '../instruments/scpi-session.ts';
@@ -16,6 +21,8 @@ import { createSimBench, type SimBench, type SimBenchOptions } from '../sim/sim-
 import type { Clock } from '../time/clock.ts';
 
 export interface AssembledBench extends RecordableBench {
+  /** The control channel as found at connect (output state and setpoint), before anything was written. */
+  controlFound: ControlFound;
   /** Every role is simulated. */
   simulated: boolean;
   /** The in-process simulated bench behind `sim` addresses, if any (tests read its state). */
@@ -60,12 +67,20 @@ function sessionOf(driver: AnyDriver): ScpiSession | null {
 
 export async function assembleBench(config: BenchConfig | 'sim', options: AssembleOptions): Promise<AssembledBench> {
   const bench = config === 'sim' ? SIM_BENCH_CONFIG : config;
+  checkBenchChannels(bench);
   const entries: [RoleName, { address: string; profile?: string | undefined }][] = [
     ['supply', bench.supply],
     ['counter', bench.counter],
   ];
   if (bench.thermometer) entries.push(['thermometer', bench.thermometer]);
   if (bench.chamber) entries.push(['chamber', bench.chamber]);
+  // Every profile is loaded and the bench checked against it before any instrument is touched.
+  const profiles = new Map<RoleName, InstrumentProfile>();
+  for (const [role, entry] of entries) {
+    profiles.set(role, await loadProfile(entry.profile ?? defaultProfileName(role), { role, userDir: options.userProfileDir }));
+  }
+  const supplyProfile = profiles.get('supply') as SupplyProfile;
+  checkBenchChannels(bench, { channels: supplyProfile.capabilities.channels, profile: supplyProfile.name });
   const anySim = entries.some(([, entry]) => isSimAddress(entry.address));
   const sim = anySim ? createSimBench({ ...options.sim, clock: options.clock }) : null;
   const linkListeners = new Set<(role: RoleName, event: SessionEvent) => void>();
@@ -76,6 +91,7 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
         clock: options.clock,
         sim: sim === null ? undefined : (simRole) => sim.transport(simRole),
         connectTimeoutS: options.connectTimeoutS,
+        loadedProfile: profiles.get(role),
         reconnect: options.reconnect,
         userProfileDir: options.userProfileDir,
         onEvent: (event) => {
@@ -87,18 +103,23 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
     }
     const instruments: AssembledBench['instruments'] = [];
     for (const { role, driver, address } of opened) {
-      const identity = await driver.identify();
+      const identity = await driver.identify().catch((error: unknown) => {
+        throw new RoleConnectError(role, address, sessionOf(driver)?.lastCommand ?? null, error);
+      });
       instruments.push({ role, idn: identity.idn, address });
     }
     const byRole = new Map(opened.map((o) => [o.role, o.driver]));
+    const supply = byRole.get('supply') as Supply;
+    const controlFound = await probeRoles(supply, bench.supply.controlChannel, instruments);
     return {
-      supply: byRole.get('supply') as Supply,
+      supply,
       counter: byRole.get('counter') as Counter,
       thermometer: byRole.get('thermometer') as Thermometer | undefined,
       chamber: byRole.get('chamber') as Chamber | undefined,
       controlChannel: bench.supply.controlChannel,
       dutSupplyChannel: bench.supply.dutSupplyChannel,
       instruments,
+      controlFound,
       simulated: entries.every(([, entry]) => isSimAddress(entry.address)),
       sim,
       async reconnect(role) {

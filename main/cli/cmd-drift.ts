@@ -65,7 +65,7 @@ export const driftCommand: CliCommand = {
       progress.done();
       io.stdout.write(`${recorded.dir}\n`);
       io.stdout.write(`status: ${recorded.meta.status}, ${recorded.outcome.readings} readings, ${recorded.outcome.gaps} gap(s)\n`);
-      io.stdout.write((await summarizeRun(recorded.dir)).text);
+      io.stdout.write((await summarizeRun(recorded.dir, undefined, recorded.outcome)).text);
       return exitCodeFor(recorded.outcome, io);
     } finally {
       await close();

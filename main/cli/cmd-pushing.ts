@@ -43,7 +43,7 @@ export const pushingCommand: CliCommand = {
       io.stdout.write(`${recorded.dir}\n`);
       io.stdout.write(`status: ${recorded.meta.status}, ${o.steps} supply steps\n`);
       if (o.hzPerV !== null && o.ppmPerV !== null) io.stdout.write(`pushing: ${o.hzPerV.toPrecision(4)} Hz/V (${o.ppmPerV.toPrecision(4)} ppm/V)\n`);
-      io.stdout.write((await summarizeRun(recorded.dir)).text);
+      io.stdout.write((await summarizeRun(recorded.dir, undefined, o)).text);
       return exitCodeFor(o, io);
     } finally {
       await close();

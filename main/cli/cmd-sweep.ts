@@ -45,7 +45,7 @@ export const sweepCommand: CliCommand = {
       }).catch(asUsageError);
       progress.done();
       io.stdout.write(`${recorded.dir}\n`);
-      const summary = await summarizeRun(recorded.dir, `Gain table — ${basename(recorded.dir)}`);
+      const summary = await summarizeRun(recorded.dir, `Gain table — ${basename(recorded.dir)}`, recorded.outcome);
       io.stdout.write(`status: ${recorded.meta.status}, ${recorded.outcome.rowsWritten} readings, ${recorded.outcome.refinedPoints} refined points\n`);
       io.stdout.write(summary.text);
       if (summary.tableMarkdown !== null) io.stdout.write(`\n${summary.tableMarkdown}`);

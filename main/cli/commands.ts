@@ -4,6 +4,7 @@
  */
 import { analyzeCommand } from './cmd-analyze.ts';
 import { campaignCommand } from './cmd-campaign.ts';
+import { checkCommand } from './cmd-check.ts';
 import { datasheetCommand } from './cmd-datasheet.ts';
 import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
@@ -22,6 +23,7 @@ export const commands: CliCommand[] = [
   analyzeCommand,
   datasheetCommand,
   runsCommand,
+  checkCommand,
   simCommand,
   serveCommand,
   demoCommand,

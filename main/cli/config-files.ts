@@ -7,6 +7,7 @@ import { readFile } from 'node:fs/promises';
 import type { z } from 'zod';
 import { parseAddress } from '../instruments/address.ts';
 import { AddressError } from '../instruments/errors.ts';
+import { benchChannelProblems } from '../bench/bench-checks.ts';
 import {
   benchConfigSchema,
   describeIssues,
@@ -62,6 +63,8 @@ export async function loadBenchFile(path: string): Promise<BenchConfig> {
       problems.push(`  ${role}.address: ${error.message.replace(/^address [^:]*: /, '')}`);
     }
   }
+  // The same channel for tuning port and DUT supply is refused here, before any instrument is opened.
+  problems.push(...benchChannelProblems(bench).map((line) => `  ${line}`));
   if (problems.length > 0) throw new ConfigFileError(`bench file ${path} is not valid:\n${problems.join('\n')}`);
   return bench;
 }

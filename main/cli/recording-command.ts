@@ -20,6 +20,7 @@ import type { SafeState } from '../../app/contract/plans.ts';
 import { parseFlags, type ParsedFlags } from './flags.ts';
 import { UsageError, WorkFailedError, type CliIo } from './types.ts';
 import { assembleBench, type AssembledBench } from '../bench/assemble.ts';
+import { BenchCheckError } from '../bench/bench-checks.ts';
 import { ConfigFileError, loadBenchFile } from './config-files.ts';
 import type { DefaultDut } from './default-plans.ts';
 import { createProgressDisplay } from './progress-display.ts';
@@ -41,7 +42,7 @@ export function runsDirFrom(flag: string | undefined, io: CliIo): string {
 
 /** Turns a bad file, plan or address into a UsageError (exit 2) that names the field. */
 export function asUsageError(error: unknown): never {
-  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError) {
+  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) {
     throw new UsageError(error instanceof LimitsError ? `plan refused — ${error.message}` : error.message);
   }
   throw error;
@@ -52,7 +53,7 @@ export async function openCliBench(benchPath: string | undefined, dut: DefaultDu
   try {
     return await assembleBench(config, { clock, sim: { dut } });
   } catch (error) {
-    if (error instanceof AddressError || error instanceof ProfileError) asUsageError(error);
+    if (error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) asUsageError(error);
     throw new WorkFailedError(`cannot open the bench: ${error instanceof Error ? error.message : String(error)}`);
   }
 }
@@ -102,22 +103,31 @@ export function cliControl(io: CliIo, bench: AssembledBench, safe: SafeState): {
   };
 }
 
+/** One line per instrument: role, identity, address (printed at the start of every run on a real bench). */
+export function identityLines(bench: Pick<AssembledBench, 'instruments'>): string[] {
+  return bench.instruments.map(({ role, idn, address }) => `${role}: ${idn} at ${address}`);
+}
+
 export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay> {
   return createProgressDisplay(io.stderr);
 }
 
 /** Exit code for an outcome; failures and aborts are explained on stderr. */
 export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
-  if (!outcome.safeStateOk) io.stderr.write('WARNING: the safe state could not be confirmed on every step — check the supply now (see events.jsonl).\n');
+  if (!outcome.safeStateOk) {
+    io.stderr.write('WARNING: the safe state could not be confirmed by readback — check the supply now (see events.jsonl):\n');
+    for (const line of outcome.safeStateFailures ?? []) io.stderr.write(`  ${line}\n`);
+  }
   if (outcome.failure !== null) {
     io.stderr.write(`${outcome.kind} failed (${outcome.failure.kind}): ${outcome.failure.message}\n`);
     return 1;
   }
   if (outcome.status === 'aborted') {
-    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); the supply was put in its safe state.\n`);
+    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); ${outcome.safeStateOk ? 'the supply was put in its safe state' : 'the safe state was NOT confirmed'}.\n`);
     return 1;
   }
-  return 0;
+  // An unconfirmed safe state is a failure even when the work itself completed.
+  return outcome.safeStateOk ? 0 : 1;
 }
 
 /** The flags every recording command takes (plus `extra` value flags), no positionals, and the simulated DUT. */
@@ -161,6 +171,11 @@ export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut,
   io.stderr.write(`${CAUTIONS}\n`);
   const bench = await openCliBench(flags.values.get('bench'), dut, clock);
   if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
+  else for (const line of identityLines(bench)) io.stderr.write(`${line}\n`);
+  const found = bench.controlFound;
+  if (found.outputOn) {
+    io.stderr.write(`NOTE: control channel ${found.channel} was found ON at ${found.setpointV} V (left by an earlier run or by hand); it goes to the safe state before the limits are applied.\n`);
+  }
   const { control, dispose } = cliControl(io, bench, safe);
   const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
   const close = async (): Promise<void> => {

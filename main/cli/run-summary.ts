@@ -9,6 +9,7 @@ import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { buildDatasheet } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
+import type { ProcedureOutcome } from '../procedures/types.ts';
 
 export interface RunSummary {
   /** Analysis in a few lines (or why there is none). */
@@ -17,7 +18,13 @@ export interface RunSummary {
   tableMarkdown: string | null;
 }
 
-export async function summarizeRun(dir: string, title?: string): Promise<RunSummary> {
+/**
+ * `outcome`: the run's own outcome when it just ran; a counter fault then
+ * replaces the analysis, since rows that are all errors say nothing about
+ * the DUT (they are not a stall).
+ */
+export async function summarizeRun(dir: string, title?: string, outcome?: Pick<ProcedureOutcome, 'failure'>): Promise<RunSummary> {
+  if (outcome?.failure?.kind === 'counter-fault') return { text: `no analysis: ${outcome.failure.message}\n`, tableMarkdown: null };
   try {
     const source = await loadAnalysisSource(dir);
     const analysis = analyzeTable(source.kind, source.table, {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createCounter } from './counter-driver.ts';
-import { DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from './errors.ts';
+import { AlignmentError, DisconnectedError, InstrumentError, ReplyFormatError } from './errors.ts';
 import { loadProfile, parseProfile } from './profile-loader.ts';
 import type { CounterProfile } from './profile-schema.ts';
 import { ScpiSession } from './scpi-session.ts';
@@ -16,9 +16,13 @@ async function setup(responder: Responder, profile?: CounterProfile) {
   return { clock, link, session, counter: createCounter(session, p) };
 }
 
+/** The token the session's resync asked for (`*ESE n;*ESE?`), or null. */
+const esToken = (cmd: string): string | null => /^\*ESE (\d+);\*ESE\?$/.exec(cmd)?.[1] ?? null;
+
 const okQueue = (cmd: string, l: ScriptedTransport): boolean => {
   if (cmd === 'SYST:ERR?') l.feed('+0,"No error"\n');
   else if (cmd === '*OPC?') l.feed('1\n');
+  else if (esToken(cmd) !== null) l.feed(`${esToken(cmd)}\n`);
   else return false;
   return true;
 };
@@ -36,16 +40,10 @@ describe('CounterDriver', () => {
     expect(await counter.readFrequency()).toEqual({ status: 'no-signal', cause: 'zero' });
   });
 
-  it('waits gate + margin for a reading, calls silence no-signal, and never misreads the late value', async () => {
-    let answerRead = false;
+  it('waits gate + margin, resyncs at once, and calls silence no-signal only when nothing came late', async () => {
     const { counter, clock, link } = await setup((cmd, l) => {
-      if (cmd === '*OPC?') {
-        l.feed('+1.2E+07\n1\n'); // the late reading, then the sync answer
-        answerRead = true;
-        return;
-      }
       if (okQueue(cmd, l)) return;
-      if (cmd === 'READ?' && answerRead) l.feed('+2.5E+07\n');
+      // READ? never answered: the counter sees no oscillation.
     });
     await counter.setGate(1);
     expect(counter.gateS).toBe(1);
@@ -58,10 +56,45 @@ describe('CounterDriver', () => {
     expect(settled).toBe(false);
     await clock.advance(0.02);
     expect(await pending).toEqual({ status: 'no-signal', cause: 'timeout' });
-    const next = counter.readFrequency();
-    await clock.advance(0.1);
-    expect(await next).toEqual({ status: 'ok', frequencyHz: 2.5e7 });
-    expect(link.written.slice(2)).toEqual(['READ?', '*OPC?', 'READ?']);
+    expect(link.written.slice(2).map((c) => c.replace(/\d+/g, 'n'))).toEqual(['READ?', '*ESE n;*ESE?']);
+  });
+
+  it('re-takes a reading that came late, so the late value is never recorded as the next one (issue 15 item 3)', async () => {
+    let reads = 0;
+    let late: string | null = null;
+    const { counter, clock, link } = await setup((cmd, l) => {
+      const token = esToken(cmd);
+      if (token !== null) {
+        // The instrument answers in order: the late reading first, then the token.
+        l.feed(`${late ?? ''}${late === null ? '' : '\n'}${token}\n`);
+        late = null;
+        return;
+      }
+      if (okQueue(cmd, l)) return;
+      if (cmd === 'READ?') {
+        reads += 1;
+        if (reads === 1) late = '+8.620000E+03'; // slips past gate + margin
+        else l.feed('+7.250000E+03\n');
+      }
+    });
+    const pending = counter.readFrequency();
+    await clock.advance(1.2);
+    expect(await pending).toEqual({ status: 'ok', frequencyHz: 7250 });
+    expect(link.written.map((c) => c.replace(/\d+/g, 'n'))).toEqual(['READ?', '*ESE n;*ESE?', 'READ?']);
+  });
+
+  it('refuses a bare "1" from an NR3 counter and readings outside 0 < f ≤ maxInputHz (issue 15 items 3 and 4)', async () => {
+    const replies = ['1', '1e308', '+4.1E+09', '+1.00000000E+04'];
+    const nr3 = parseProfile({ schema: 'tunebench.profile/1', role: 'counter', replyFormat: 'nr3', maxInputHz: 4e9,
+      commands: { setGate: 'G {gateS}', readFrequency: 'READ?' } }, 'nr3') as CounterProfile;
+    const { counter } = await setup((cmd, l) => {
+      if (okQueue(cmd, l)) return;
+      if (cmd === 'READ?') l.feed(`${replies.shift()}\n`);
+    }, nr3);
+    await expect(counter.readFrequency()).rejects.toThrow(/NR3 form.*got "1"/);
+    await expect(counter.readFrequency()).rejects.toThrow(/0 < f ≤ 4000000000 Hz \(profile maxInputHz\)/);
+    await expect(counter.readFrequency()).rejects.toBeInstanceOf(ReplyFormatError);
+    expect(await counter.readFrequency()).toEqual({ status: 'ok', frequencyHz: 1e4 });
   });
 
   it('throws DisconnectedError (not no-signal) when the link drops mid-reading', async () => {
@@ -87,10 +120,12 @@ describe('CounterDriver', () => {
       noSignal: { notANumber: false, zero: false, timeout: false }, commands: { setGate: 'GATE {gateS}', readFrequency: 'MEAS:FREQ? {gateS}' } }, 'strict');
     const replies = ['9.91E37', '0'];
     const { counter, clock } = await setup((cmd, l) => {
+      if (okQueue(cmd, l)) return;
       if (cmd.startsWith('MEAS:FREQ?') && replies.length > 0) l.feed(`${replies.shift()}\n`);
     }, strict as CounterProfile);
     await expect(counter.readFrequency()).rejects.toBeInstanceOf(ReplyFormatError);
-    expect(await counter.readFrequency()).toEqual({ status: 'ok', frequencyHz: 0 });
+    // Zero is not a frequency (0 < f) when the profile does not call it no-signal.
+    await expect(counter.readFrequency()).rejects.toBeInstanceOf(ReplyFormatError);
     const silent = counter.readFrequency().catch((e: unknown) => e);
     await clock.advance(2);
     expect((await silent as Error).name).toBe('TimeoutError');
@@ -113,15 +148,13 @@ describe('CounterDriver', () => {
     expect(counter.gateS).toBe(0.1); // unchanged: the instrument refused it
   });
 
-  it('reports a counter that answers nothing at all (not even the resync) as TimeoutError, not no-signal', async () => {
+  it('reports a counter that answers nothing at all (not even the resync) as out of step, never no-signal', async () => {
     const { counter, clock } = await setup(() => undefined);
-    const first = counter.readFrequency();
+    const first = counter.readFrequency().catch((e: unknown) => e);
     await clock.advance(1.2); // gate 0.1 s + margin 1 s
-    expect(await first).toEqual({ status: 'no-signal', cause: 'timeout' });
-    const second = counter.readFrequency().catch((e: unknown) => e);
-    await clock.advance(2.5);
-    const error = await second;
-    expect(error).toBeInstanceOf(TimeoutError);
-    expect((error as TimeoutError).command).toBe('*OPC?');
+    await clock.advance(2.5); // the resync's own timeout
+    const error = await first;
+    expect(error).toBeInstanceOf(AlignmentError);
+    expect((error as AlignmentError).message).toMatch(/READ\? not proven in step: no answer to the resync \*ESE \d+;\*ESE\?/);
   });
 });

@@ -2,11 +2,16 @@
  * Counter role over a SCPI session. "No oscillation" is a reading, not a
  * fault: the SCPI not-a-number (9.91E37), zero, or no reply within the gate
  * plus the profile's margin all give `no-signal` (each switchable in the
- * profile). A dropped link still throws DisconnectedError. After a timeout
- * the session gets back in step by itself before the next command, so a
- * late reading is never taken for the next one.
+ * profile). A dropped link still throws DisconnectedError.
+ *
+ * After a timeout of the reading command the driver resyncs at once (the
+ * session's `*ESE n;*ESE?` exchange). If nothing came late, the silence was
+ * real; if the reading came late it was dropped and the reading is taken
+ * again; if alignment cannot be proven the reading is an AlignmentError.
+ * Every value is checked for shape (profile `replyFormat`) and range
+ * (0 < f ≤ `maxInputHz`) before it becomes a frequency.
  */
-import { ReplyFormatError, TimeoutError } from './errors.ts';
+import { AlignmentError, ReplyFormatError, TimeoutError } from './errors.ts';
 import type { CounterProfile } from './profile-schema.ts';
 import type { Counter, FrequencyReading, InstrumentIdentity } from './roles.ts';
 import { formatScpiNumber, parseIdentity, parseNumeric } from './scpi-reply.ts';
@@ -45,18 +50,39 @@ export class CounterDriver implements Counter {
   }
 
   async readFrequency(): Promise<FrequencyReading> {
-    const noSignal = this.profile.noSignal;
-    let reply: string;
-    try {
-      reply = await this.session.query(this.readCommand, { timeoutS: this.measureTimeoutS });
-    } catch (error) {
-      // Only silence after the reading command itself means "no signal"; a counter
-      // that does not even answer the session's resync (*OPC?) is a fault.
-      if (error instanceof TimeoutError && error.command === this.readCommand && noSignal.timeout) {
-        return { status: 'no-signal', cause: 'timeout' };
+    const reply = await this.readInStep();
+    return reply === null ? { status: 'no-signal', cause: 'timeout' } : this.interpret(reply);
+  }
+
+  /** The reading command's own reply; null for silence proven real (and meaning no signal). */
+  private async readInStep(): Promise<string | null> {
+    const command = this.readCommand;
+    for (let attempt = 1; ; attempt += 1) {
+      try {
+        return await this.session.query(command, { timeoutS: this.measureTimeoutS });
+      } catch (error) {
+        if (!(error instanceof TimeoutError)) throw error;
+        // A counter that does not even answer the session's own resync is out of step.
+        if (error.command !== command) throw new AlignmentError(command, `no answer to the resync ${error.command}`, { cause: error });
+        let late: number;
+        try {
+          late = await this.session.resync();
+        } catch (syncError) {
+          if (syncError instanceof TimeoutError) throw new AlignmentError(command, `no answer to the resync ${syncError.command}`, { cause: syncError });
+          throw syncError;
+        }
+        if (late === 0) {
+          // Proven silence: the counter answered the resync and owed nothing.
+          if (this.profile.noSignal.timeout) return null;
+          throw error;
+        }
+        if (attempt >= 2) throw new AlignmentError(command, `the reading came later than gate + margin (${this.measureTimeoutS} s) twice`);
       }
-      throw error;
     }
+  }
+
+  private interpret(reply: string): FrequencyReading {
+    const noSignal = this.profile.noSignal;
     const value = parseNumeric(reply);
     if (value.kind === 'not-a-number') {
       if (noSignal.notANumber) return { status: 'no-signal', cause: 'not-a-number' };
@@ -64,6 +90,12 @@ export class CounterDriver implements Counter {
     }
     if (value.kind === 'infinity' || value.value < 0) throw new ReplyFormatError('a frequency of 0 Hz or more', reply);
     if (noSignal.zero && value.value <= noSignal.belowHz) return { status: 'no-signal', cause: 'zero' };
+    if (!REPLY_SHAPE[this.profile.replyFormat].test(reply)) {
+      throw new ReplyFormatError(`a frequency in ${this.profile.replyFormat === 'nr3' ? 'NR3 form (+1.0E+04)' : 'NR2 or NR3 form'} (profile replyFormat)`, reply);
+    }
+    if (!(value.value > 0) || value.value > this.profile.maxInputHz) {
+      throw new ReplyFormatError(`a frequency in 0 < f ≤ ${this.profile.maxInputHz} Hz (profile maxInputHz)`, reply);
+    }
     return { status: 'ok', frequencyHz: value.value };
   }
 
@@ -75,6 +107,13 @@ export class CounterDriver implements Counter {
     return this.profile.commands.readFrequency.render({ gateS: formatScpiNumber(this.gate) });
   }
 }
+
+/** Reply shapes by profile `replyFormat`, on a reply parseNumeric already passed (IEEE 488.2 NR2 has a point, NR3 an exponent). */
+const REPLY_SHAPE = {
+  nr3: /[eE]/,
+  decimal: /[.eE]/,
+  any: /^/,
+} as const;
 
 export function createCounter(session: ScpiSession, profile: CounterProfile): Counter {
   return new CounterDriver(session, profile);

@@ -40,14 +40,41 @@ export class TimeoutError extends Error {
   }
 }
 
-/** The link went away (or could not be reopened). */
+/**
+ * The link went away (or could not be reopened), or — with `opening` — never
+ * came up: then the message says "cannot open", never "lost".
+ */
 export class DisconnectedError extends Error {
   override readonly name = 'DisconnectedError';
   readonly disconnected = true as const;
   readonly address: string;
-  constructor(address: string, detail?: string, options?: { cause?: unknown }) {
-    super(`link to ${address} lost${detail === undefined ? '' : `: ${detail}`}`, options);
+  /** True when the link was never up (open failed). */
+  readonly opening: boolean;
+  constructor(address: string, detail?: string, options?: { cause?: unknown; opening?: boolean }) {
+    const opening = options?.opening === true;
+    super(`${opening ? `cannot open ${address}` : `link to ${address} lost`}${detail === undefined ? '' : `: ${detail}`}`, options);
     this.address = address;
+    this.opening = opening;
+  }
+}
+
+/**
+ * A reply that cannot be proven to answer the query it was taken for: after
+ * a timeout the link's resync found no proof of alignment, or the reply kept
+ * coming late. The reading is a fault, never a value.
+ */
+export class AlignmentError extends Error {
+  override readonly name = 'AlignmentError';
+  constructor(readonly command: string, detail: string, options?: { cause?: unknown }) {
+    super(`reply to ${command} not proven in step: ${detail}`, options);
+  }
+}
+
+/** A supply write refused because it would put a channel above its ceiling (channel-ceilings.ts). Nothing was sent. */
+export class ChannelLimitError extends Error {
+  override readonly name = 'ChannelLimitError';
+  constructor(readonly channel: number, readonly volts: number, readonly maxV: number, message: string) {
+    super(message);
   }
 }
 
@@ -92,5 +119,18 @@ export class ProfileError extends Error {
   constructor(profile: string, message: string) {
     super(`profile ${profile}: ${message}`);
     this.profile = profile;
+  }
+}
+
+/**
+ * Bringing up one role of a bench failed: names the role, the address and
+ * the last command sent, with the underlying error as cause.
+ */
+export class RoleConnectError extends Error {
+  override readonly name = 'RoleConnectError';
+  constructor(readonly role: string, readonly address: string, readonly lastCommand: string | null, cause: unknown) {
+    const detail = cause instanceof Error ? cause.message : String(cause);
+    const where = detail.includes(address) ? `${role}: ` : `${role} at ${address}: `;
+    super(`${where}${detail}${lastCommand === null ? ' (nothing was sent)' : ` (last command sent: ${lastCommand})`}`, { cause });
   }
 }

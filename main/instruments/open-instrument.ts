@@ -5,6 +5,7 @@
  */
 import type { Clock } from '../time/clock.ts';
 import { createTransport } from './create-transport.ts';
+import { RoleConnectError } from './errors.ts';
 import { createCounter } from './counter-driver.ts';
 import { defaultProfileName, loadProfile } from './profile-loader.ts';
 import type { InstrumentProfile } from './profile-schema.ts';
@@ -28,6 +29,8 @@ export interface OpenInstrumentOptions {
   userProfileDir?: string;
   shippedProfileDir?: string;
   connectTimeoutS?: number;
+  /** The profile, already loaded (skips loading `config.profile`). */
+  loadedProfile?: InstrumentProfile;
   reconnect?: { attempts: number; delayS: number };
   onEvent?: (event: SessionEvent) => void;
 }
@@ -35,7 +38,7 @@ export interface OpenInstrumentOptions {
 type RoleDriver<R extends RoleName> = R extends 'supply' ? Supply : R extends 'counter' ? Counter : R extends 'chamber' ? Chamber : Thermometer;
 
 export async function openInstrument<R extends RoleName>(role: R, config: InstrumentConfig, options: OpenInstrumentOptions): Promise<RoleDriver<R>> {
-  const profile: InstrumentProfile = await loadProfile(config.profile ?? defaultProfileName(role), {
+  const profile: InstrumentProfile = options.loadedProfile ?? await loadProfile(config.profile ?? defaultProfileName(role), {
     role,
     userDir: options.userProfileDir,
     shippedDir: options.shippedProfileDir,
@@ -50,14 +53,14 @@ export async function openInstrument<R extends RoleName>(role: R, config: Instru
     reconnect: options.reconnect,
     onEvent: options.onEvent,
   });
-  await session.open();
   try {
+    await session.open();
     for (const command of profile.init) await session.write(command, { checkErrors: false });
     // Start with an empty error queue so the first real write reports only its own errors.
     if (profile.checkErrorsAfterWrite) await session.drainErrors();
   } catch (error) {
     await session.close();
-    throw error;
+    throw new RoleConnectError(role, config.address, session.lastCommand, error);
   }
   return driverFor(session, profile, config.address) as RoleDriver<R>;
 }

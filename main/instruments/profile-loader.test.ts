@@ -75,7 +75,7 @@ describe('profile validation names the field', () => {
     [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: undefined } }, 'commands.setVoltage'],
     [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: '   ' } }, 'commands.setVoltage'],
     [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: 'VOLT {volt}' } }, 'commands.setVoltage: unknown placeholder {volt}'],
-    [{ ...goodSupply, commands: { ...goodSupply.commands, getOutput: 'OUTP{channel' } }, 'commands.getOutput: unclosed'],
+    [{ ...goodSupply, commands: { ...goodSupply.commands, getOutput: 'OUTP{channel?' } }, 'commands.getOutput: unclosed'],
     [{ ...goodSupply, capabilities: { ...goodSupply.capabilities, channels: 0 } }, 'capabilities.channels'],
     [{ ...goodSupply, capabilities: { ...goodSupply.capabilities, measureVoltage: true } }, 'commands.measureVoltage: required because capabilities.measureVoltage'],
     [{ ...goodSupply, lineTerminator: ';' }, 'lineTerminator'],
@@ -103,5 +103,14 @@ describe('compileTemplate', () => {
     expect(template.render({ volts: '3' })).toBe('SYST:COMM "{x}";VOLT 3');
     expect(() => compileTemplate('A}B', [])).toThrow(/stray/);
     expect(() => template.render({})).toThrow(/no value for \{volts\}/);
+  });
+});
+
+describe('query operations must be queries (issue 15 item 5)', () => {
+  it('refuses a readFrequency without "?" (silence would pass for no signal), naming the field', () => {
+    expect(() => parseProfile({ schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'G {gateS}', readFrequency: 'READ' } }, 'mute'))
+      .toThrow(/commands\.readFrequency: must be a query/);
+    expect(() => parseProfile({ schema: 'tunebench.profile/1', role: 'thermometer', commands: { readTemperature: 'MEAS:TEMP' } }, 'mute'))
+      .toThrow(/commands\.readTemperature: must be a query/);
   });
 });

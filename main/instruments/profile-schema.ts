@@ -9,6 +9,8 @@ import type { CommandTemplate } from './command-template.ts';
 export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
 
 const command = z.string().trim().min(1, 'must be a non-empty command string');
+/** An operation that reads a reply must be a SCPI query: without "?" the instrument never answers, and silence would pass for "no signal". */
+const query = command.refine((text) => text.includes('?'), 'must be a query (a SCPI query header ends in "?", e.g. "READ?")');
 const positiveS = z.number().positive().finite();
 
 const common = {
@@ -32,16 +34,25 @@ export const supplyProfileSchema = z.object({
     measureCurrent: z.boolean(),
     overVoltageProtection: z.boolean(),
   }),
+  /**
+   * The supply's ratings: a voltage read back (setpoint or measured) beyond
+   * ±maxVoltageV, or a current beyond ±maxCurrentA, is not a measurement
+   * but a fault.
+   */
+  ratings: z.object({
+    maxVoltageV: z.number().positive().max(1e4).default(100),
+    maxCurrentA: z.number().positive().max(1e3).default(20),
+  }).default({ maxVoltageV: 100, maxCurrentA: 20 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
+    identify: query.default('*IDN?'),
     setVoltage: command,
-    getVoltageSetpoint: command,
+    getVoltageSetpoint: query,
     setCurrentLimit: command,
     setOverVoltageProtection: command.optional(),
     setOutput: command,
-    getOutput: command,
-    measureVoltage: command.optional(),
-    measureCurrent: command.optional(),
+    getOutput: query,
+    measureVoltage: query.optional(),
+    measureCurrent: query.optional(),
   }),
 }).superRefine((profile, ctx) => {
   const needs: [keyof typeof profile.capabilities, keyof typeof profile.commands][] = [
@@ -66,6 +77,14 @@ export const counterProfileSchema = z.object({
   }).default({ defaultS: 2, measureMarginS: 1 }),
   /** Gate assumed until setGate is called, s. */
   defaultGateS: positiveS.default(0.1),
+  /** Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. */
+  maxInputHz: z.number().positive().max(1e12).default(3e9),
+  /**
+   * Shape of a reading reply: `nr3` needs an exponent (+1.0E+04), `decimal`
+   * a point or an exponent (NR2 or NR3), `any` also takes integers (NR1).
+   * A reply of another shape (a stray "1") is a fault, never a frequency.
+   */
+  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal'),
   /** Which replies mean "no oscillation" rather than a fault. */
   noSignal: z.object({
     notANumber: z.boolean().default(true),
@@ -75,9 +94,9 @@ export const counterProfileSchema = z.object({
     belowHz: z.number().min(0).finite().default(0),
   }).default({ notANumber: true, zero: true, timeout: true, belowHz: 0 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
+    identify: query.default('*IDN?'),
     setGate: command,
-    readFrequency: command,
+    readFrequency: query,
   }),
 });
 
@@ -87,9 +106,14 @@ export const thermometerProfileSchema = z.object({
   timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
   /** Unit the instrument replies in; converted to °C. */
   unit: z.enum(['C', 'K', 'F']).default('C'),
+  /** Plausible readings, °C (after conversion): outside them a reading is a fault (an open or shorted probe). */
+  plausibleC: z.object({
+    min: z.number().min(-273.15).default(-200),
+    max: z.number().max(5000).default(1000),
+  }).default({ min: -200, max: 1000 }),
   commands: z.object({
-    identify: command.default('*IDN?'),
-    readTemperature: command,
+    identify: query.default('*IDN?'),
+    readTemperature: query,
   }),
 });
 

@@ -23,18 +23,34 @@ export interface SupplyCapabilities {
   overVoltageProtection: boolean;
 }
 
+/** How a supply write is sent. */
+export interface SupplyWriteOptions {
+  /**
+   * Send at once, ahead of any queued command and of any resync, without
+   * reading the error queue: the safe state's first try on a link whose
+   * replies may have wedged. Verify by readback afterwards.
+   */
+  urgent?: boolean;
+}
+
 export interface Supply {
   readonly role: 'supply';
   readonly capabilities: SupplyCapabilities;
   identify(): Promise<InstrumentIdentity>;
+  /**
+   * Declares `purpose`'s voltage ceiling on `channel` (the lower holds when
+   * two purposes share a channel). From then on setVoltage refuses, with
+   * ChannelLimitError and before anything is sent, a value above it.
+   */
+  limitChannel(channel: number, purpose: 'control' | 'dut-supply', maxV: number): void;
   /** Setpoint in volts on `channel` (1-based). */
-  setVoltage(channel: number, volts: number): Promise<void>;
+  setVoltage(channel: number, volts: number, options?: SupplyWriteOptions): Promise<void>;
   /** Reads the programmed setpoint back (SOURce:VOLTage?). */
   getVoltageSetpoint(channel: number): Promise<number>;
   setCurrentLimit(channel: number, amps: number): Promise<void>;
   /** Throws UnsupportedOperationError when capabilities.overVoltageProtection is false. */
   setOverVoltageProtection(channel: number, volts: number): Promise<void>;
-  setOutput(channel: number, on: boolean): Promise<void>;
+  setOutput(channel: number, on: boolean, options?: SupplyWriteOptions): Promise<void>;
   getOutput(channel: number): Promise<boolean>;
   measureVoltage(channel: number): Promise<number>;
   measureCurrent(channel: number): Promise<number>;

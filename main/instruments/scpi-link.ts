@@ -11,7 +11,9 @@
  *     link is in step again at no cost.
  *  2. Resync (session-resync.ts): if lines are still owed (or an unsolicited
  *     line arrived) when the next operation starts, the link first sends
- *     `*OPC?` and drops everything up to its "1" plus a short quiet window.
+ *     `*ESE n;*ESE?` with a fresh random n and drops everything up to the
+ *     line "n" (or, with the legacy `syncQuery`, `*OPC?` up to its "1"
+ *     plus a short quiet window).
  * A reply that comes after the next command went out is handled by 2, since
  * the next command is only sent after the resync.
  */
@@ -19,7 +21,7 @@ import type { Clock } from '../time/clock.ts';
 import { DisconnectedError } from './errors.ts';
 import { LineFramer } from './line-framer.ts';
 import { LineWaiter } from './line-waiter.ts';
-import { resync, type ResyncRun } from './session-resync.ts';
+import { oneSync, resync, tokenSync, type ResyncRun, type SyncExchange } from './session-resync.ts';
 import { SessionQueue } from './session-queue.ts';
 import { reopenWithRetry, type ReconnectPolicy } from './session-reopen.ts';
 import type { Transport } from './transport.ts';
@@ -31,10 +33,15 @@ export interface ScpiLinkOptions {
   terminator?: string;
   /** Reply timeout when a query names none, s; default 2. */
   defaultTimeoutS?: number;
-  /** Query used to get back in step after a timeout; must answer "1". Default "*OPC?". */
+  /**
+   * Legacy sync query that answers "1" (e.g. "*OPC?"), for an instrument
+   * without *ESE. Default: none, the link syncs with `*ESE n;*ESE?`.
+   */
   syncQuery?: string;
-  /** Quiet time after the sync reply, s; default 0.05. */
+  /** Quiet time after a legacy sync reply, s; default 0.05. */
   syncQuietS?: number;
+  /** Source of the sync token (0 ≤ x < 1); default Math.random. */
+  random?: () => number;
   /** Reopen policy after a dropped link; attempts 0 = never reopen on its own. Default 3 tries, 0.5 s apart, growing. */
   reconnect?: ReconnectPolicy;
   /** Diagnostics: stale lines, resyncs, reconnects. */
@@ -66,8 +73,10 @@ export class ScpiLink {
   private readonly waiter: LineWaiter;
   private readonly queue = new SessionQueue();
   private readonly releaseSlot = (): void => this.queue.release();
-  private readonly syncQuery: string;
+  private readonly syncQuery: string | null;
   private readonly syncQuietS: number;
+  private readonly random: () => number;
+  private lastToken: number | null = null;
   private readonly reconnectPolicy: ReconnectPolicy;
   private readonly onEvent: ((event: SessionEvent) => void) | undefined;
   private readonly io: LinkIo = {
@@ -75,6 +84,9 @@ export class ScpiLink {
     ask: async (command, timeoutS) => (await this.exchange(command, timeoutS ?? this.defaultTimeoutS, false, null)) as string,
   };
   private lineHook: ((line: Buffer) => void) | null = null;
+  /** stats.staleLines when the last timeout happened (resync() reports the difference). */
+  private staleAtTimeout = 0;
+  private lastSent: string | null = null;
   private resyncRun: ResyncRun | null = null;
   private lateLinesOwed = 0;
   private outOfStep = false;
@@ -89,7 +101,8 @@ export class ScpiLink {
     this.clock = options.clock;
     this.terminator = options.terminator ?? '\n';
     this.defaultTimeoutS = positive('defaultTimeoutS', options.defaultTimeoutS ?? 2);
-    this.syncQuery = options.syncQuery ?? '*OPC?';
+    this.syncQuery = options.syncQuery ?? null;
+    this.random = options.random ?? Math.random;
     this.syncQuietS = positive('syncQuietS', options.syncQuietS ?? 0.05);
     this.reconnectPolicy = options.reconnect ?? { attempts: 3, delayS: 0.5 };
     if (!(this.reconnectPolicy.attempts >= 0)) throw new TypeError('reconnect.attempts: must be 0 or more');
@@ -101,6 +114,11 @@ export class ScpiLink {
 
   get address(): string {
     return this.transport.address;
+  }
+
+  /** The last command written on this link (for error messages), or null. */
+  get lastCommand(): string | null {
+    return this.lastSent;
   }
 
   /** True while a timeout or a stray line left the link possibly out of step. */
@@ -119,7 +137,8 @@ export class ScpiLink {
       await this.transport.open();
     } catch (error) {
       await this.close();
-      throw new DisconnectedError(this.address, `cannot open: ${message(error)}`, { cause: error });
+      if (error instanceof DisconnectedError && error.opening) throw error;
+      throw new DisconnectedError(this.address, message(error), { cause: error, opening: true });
     }
   }
 
@@ -168,13 +187,32 @@ export class ScpiLink {
     return this.queue.run(() => this.reopen());
   }
 
-  /** Gets back in step now (normally done on its own before the next operation). */
-  resync(): Promise<void> {
+  /**
+   * Gets back in step now (normally done on its own before the next
+   * operation); resolves with the number of stale lines dropped since the
+   * last timeout, counted or resynced away.
+   */
+  resync(): Promise<number> {
     return this.queue.run(async () => {
       if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
       if (!this.transport.isOpen) await this.reopen();
       await this.runResync();
+      const dropped = this.stats.staleLines - this.staleAtTimeout;
+      this.staleAtTimeout = this.stats.staleLines;
+      return dropped;
     });
+  }
+
+  /**
+   * Writes `command` at once, ahead of any queued operation and of any
+   * resync, with no reply expected: the safe state's way to reach an
+   * instrument whose replies have wedged (it may still obey commands). A
+   * link that is down is reopened first (bounded retries).
+   */
+  async sendUrgent(command: string): Promise<void> {
+    if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
+    if (!this.transport.isOpen) await this.reopen();
+    await this.send(command);
   }
 
   private needsPreparation(): boolean {
@@ -210,12 +248,12 @@ export class ScpiLink {
   }
 
   private async runResync(): Promise<void> {
+    const sync: SyncExchange = this.syncQuery !== null ? oneSync(this.syncQuery, this.syncQuietS) : this.nextTokenSync();
     const run = resync({
       clock: this.clock,
-      syncQuery: this.syncQuery,
+      sync,
       timeoutS: this.resyncTimeoutS,
-      quietS: this.syncQuietS,
-      send: () => this.send(this.syncQuery),
+      send: () => this.send(sync.command),
       setLineHook: (hook) => {
         this.lineHook = hook;
       },
@@ -234,7 +272,14 @@ export class ScpiLink {
     }
   }
 
+  private nextTokenSync(): SyncExchange {
+    const sync = tokenSync(this.random, this.lastToken);
+    this.lastToken = sync.token;
+    return sync;
+  }
+
   private async send(command: string): Promise<void> {
+    this.lastSent = command;
     try {
       await this.transport.write(command + this.terminator);
     } catch (error) {
@@ -246,11 +291,13 @@ export class ScpiLink {
   private exchange(command: string, timeoutS: number, raw: boolean, onSettle: (() => void) | null): Promise<Buffer | string> {
     // Wait first, then write: a fast (in-process) link may answer before write() returns.
     const reply = this.waiter.expect(command, timeoutS, raw, true, onSettle);
+    this.lastSent = command;
     this.transport.write(command + this.terminator).then(undefined, (error: unknown) => this.waiter.fail(asDisconnected(this.address, error)));
     return reply;
   }
 
   private onTimedOut(timeoutS: number): void {
+    if (this.lateLinesOwed === 0 && !this.outOfStep) this.staleAtTimeout = this.stats.staleLines;
     this.stats.timeouts += 1;
     this.lateLinesOwed += 1;
     this.outOfStep = true;

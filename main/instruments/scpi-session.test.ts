@@ -10,7 +10,8 @@ const IDN = 'Bench Works,PS-3,SN0042,1.2.3';
 function setup(responder: Responder, options: Partial<ScpiSessionOptions> = {}) {
   const clock = new FakeClock();
   const link = new ScriptedTransport(responder);
-  const session = new ScpiSession({ transport: link, clock, ...options });
+  // These cases pin the legacy *OPC? sync; the default token sync has its own tests below.
+  const session = new ScpiSession({ transport: link, clock, syncQuery: '*OPC?', ...options });
   return { clock, link, session };
 }
 
@@ -297,5 +298,59 @@ describe('ScpiSession', () => {
     expect(await sequence).toEqual(['a?', 'b?']);
     expect(await other).toBe('c?');
     expect(link.written).toEqual(['VOLT 1', 'A?', 'B?', 'C?']);
+  });
+});
+
+describe('ScpiSession resync with a fresh *ESE token (issue 15 item 3)', () => {
+  function tokenSetup(responder: Responder, random: () => number) {
+    const clock = new FakeClock();
+    const link = new ScriptedTransport(responder);
+    const session = new ScpiSession({ transport: link, clock, random });
+    return { clock, link, session };
+  }
+
+  it('drops late replies — "1" included, which fooled *OPC? — until the token comes back, with no quiet window', async () => {
+    let owed: string[] = ['1', '+8.620000E+03']; // a late *OPC? answer and a late reading, both still in the pipe
+    const { session, clock, link } = tokenSetup((cmd, l) => {
+      const m = /^\*ESE (\d+);\*ESE\?$/.exec(cmd);
+      if (m) {
+        l.feed(`${owed.join('\n')}\n${m[1]}\n`);
+        owed = [];
+      }
+      if (cmd === 'READ?') l.feed('+7.250000E+03\n');
+    }, () => 0.5);
+    await session.open();
+    const first = settle(session.query('OUTP?', { timeoutS: 0.2 }));
+    await clock.advance(0.3);
+    expect((await first).error).toBeInstanceOf(TimeoutError);
+    // With *OPC? the stray "1" ended the resync and the 8620 Hz line became this reply.
+    expect(await session.query('READ?')).toBe('+7.250000E+03');
+    expect(link.written).toEqual(['OUTP?', '*ESE 128;*ESE?', 'READ?']);
+    expect(session.stats).toMatchObject({ resyncs: 1, staleLines: 2 });
+  });
+
+  it('never reuses the previous token, and fails with TimeoutError naming the sync when nothing answers', async () => {
+    const { session, clock, link } = tokenSetup(() => undefined, () => 0.2);
+    await session.open();
+    const first = settle(session.query('READ?', { timeoutS: 0.5 }));
+    await clock.advance(0.6);
+    expect((await first).error).toBeInstanceOf(TimeoutError);
+    const second = settle(session.query('READ?'));
+    await clock.advance(2.1);
+    expect(((await second).error as TimeoutError).command).toBe('*ESE 52;*ESE?');
+    const third = settle(session.query('READ?'));
+    await clock.advance(2.1);
+    expect(((await third).error as TimeoutError).command).toBe('*ESE 53;*ESE?');
+    expect(link.written.filter((c) => c.startsWith('*ESE'))).toEqual(['*ESE 52;*ESE?', '*ESE 53;*ESE?']);
+  });
+
+  it('sendUrgent writes at once while a query still waits for its reply', async () => {
+    const { session, clock, link } = tokenSetup(() => undefined, () => 0.5);
+    await session.open();
+    const pending = settle(session.query('MEAS:VOLT?', { timeoutS: 1 }));
+    await session.sendUrgent('OUTP OFF');
+    expect(link.written).toEqual(['MEAS:VOLT?', 'OUTP OFF']);
+    await clock.advance(1.1);
+    expect((await pending).error).toBeInstanceOf(TimeoutError);
   });
 });

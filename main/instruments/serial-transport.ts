@@ -72,7 +72,8 @@ export class SerialTransport implements Transport {
     return new Promise((resolve, reject) => {
       port.open((error) => {
         if (error) {
-          reject(new DisconnectedError(this.address, `cannot open ${path}: ${error.message}`, { cause: error }));
+          // The OS error once; the address is in the error's own wording.
+          reject(new DisconnectedError(this.address, error.message, { cause: error, opening: true }));
           return;
         }
         this.attach(port);

@@ -1,6 +1,6 @@
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { InstrumentError, ReplyFormatError, UnsupportedOperationError } from './errors.ts';
+import { ChannelLimitError, InstrumentError, ReplyFormatError, UnsupportedOperationError } from './errors.ts';
 import { loadProfile, parseProfile } from './profile-loader.ts';
 import { ScpiSession } from './scpi-session.ts';
 import { createSupply } from './supply-driver.ts';
@@ -92,5 +92,58 @@ describe('ThermometerDriver', () => {
     replies.push('77');
     const fahrenheit = parseProfile({ schema: 'tunebench.profile/1', role: 'thermometer', unit: 'F', commands: { readTemperature: 'MEAS:TEMP?' } }, 'f');
     expect(await createThermometer(session, fahrenheit as ThermometerProfile).readTemperature()).toBeCloseTo(25, 10);
+  });
+});
+
+describe('SupplyDriver channel ceilings and readback ranges (issue 8 item 1, issue 15 item 4)', () => {
+  function okSupply(replies: Record<string, string> = {}) {
+    const { transport, session } = link((cmd, l) => {
+      if (cmd === 'SYST:ERR?') return l.feed('+0,"No error"\n');
+      for (const [suffix, reply] of Object.entries(replies)) if (cmd.endsWith(suffix)) return l.feed(`${reply}\n`);
+    });
+    return { transport, session };
+  }
+
+  it('refuses a write above a channel\'s ceiling before sending anything; the lower of two purposes holds', async () => {
+    const { transport, session } = okSupply();
+    await session.open();
+    const supply = createSupply(session, await loadProfile('supply-scpi', { role: 'supply' }));
+    await supply.setVoltage(1, 7); // no ceiling declared yet
+    supply.limitChannel(1, 'control', 5);
+    supply.limitChannel(1, 'dut-supply', 5.775); // both purposes on one channel: 5 V holds
+    await supply.setVoltage(1, 5);
+    const before = transport.written.length;
+    const error = await supply.setVoltage(1, 5.5).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(ChannelLimitError);
+    expect((error as Error).message).toMatch(/refused to set channel 1 to 5\.5 V, above its ceiling 5 V \(limits\.maxControlV\); nothing was written/);
+    expect(transport.written.length).toBe(before);
+    supply.limitChannel(2, 'dut-supply', 3.78);
+    await expect(supply.setVoltage(2, 3.8)).rejects.toThrow(/ceiling 3\.78 V \(DUT supply OVP level\)/);
+    await supply.setVoltage(2, 3.78);
+  });
+
+  it('an urgent write goes straight out: no error-queue read, even while a resync is owed', async () => {
+    const { transport, session } = okSupply();
+    await session.open();
+    const supply = createSupply(session, await loadProfile('supply-scpi', { role: 'supply' }));
+    await supply.setOutput(1, false, { urgent: true });
+    await supply.setVoltage(1, 0, { urgent: true });
+    expect(transport.written).toEqual(['INST:NSEL 1;:OUTP OFF', 'INST:NSEL 1;:SOUR:VOLT 0']);
+  });
+
+  it('a readback beyond the profile\'s ratings is a fault, not a value', async () => {
+    const { session } = okSupply({ 'SOUR:VOLT?': '1e308', 'MEAS:VOLT?': '-150', 'MEAS:CURR?': '+2.5E+01' });
+    await session.open();
+    const supply = createSupply(session, await loadProfile('supply-scpi', { role: 'supply' }));
+    await expect(supply.getVoltageSetpoint(1)).rejects.toThrow(/within ±100 V \(profile ratings\.maxVoltageV\)/);
+    await expect(supply.measureVoltage(1)).rejects.toBeInstanceOf(ReplyFormatError);
+    await expect(supply.measureCurrent(1)).rejects.toThrow(/within ±20 A \(profile ratings\.maxCurrentA\)/);
+  });
+
+  it('a thermometer reading outside plausibleC (an open probe reading 1e6 °C) is a fault', async () => {
+    const { session } = okSupply({ 'MEAS:TEMP?': '+1.0E+06' });
+    await session.open();
+    const thermometer = createThermometer(session, await loadProfile('thermometer-scpi', { role: 'thermometer' }));
+    await expect(thermometer.readTemperature()).rejects.toThrow(/a temperature in -200\.\.1000 °C \(profile plausibleC\)/);
   });
 });

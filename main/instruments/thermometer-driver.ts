@@ -1,4 +1,5 @@
 /** Thermometer role (a DMM or logger reading a probe) over a SCPI session; always °C out. */
+import { ReplyFormatError } from './errors.ts';
 import type { ThermometerProfile } from './profile-schema.ts';
 import type { InstrumentIdentity, Thermometer } from './roles.ts';
 import { parseFinite, parseIdentity } from './scpi-reply.ts';
@@ -23,9 +24,13 @@ export class ThermometerDriver implements Thermometer {
     return parseIdentity(await this.session.query(this.profile.commands.identify.render({})));
   }
 
-  /** °C. An open probe (not-a-number reply) is a ReplyFormatError, never a number. */
+  /** °C. An open probe (not-a-number reply) or a reading outside profile `plausibleC` is a ReplyFormatError, never a number. */
   async readTemperature(): Promise<number> {
-    return TO_CELSIUS[this.profile.unit](parseFinite(await this.session.query(this.command)));
+    const reply = await this.session.query(this.command);
+    const celsius = TO_CELSIUS[this.profile.unit](parseFinite(reply));
+    const { min, max } = this.profile.plausibleC;
+    if (!(celsius >= min && celsius <= max)) throw new ReplyFormatError(`a temperature in ${min}..${max} °C (profile plausibleC)`, reply);
+    return celsius;
   }
 
   close(): Promise<void> {

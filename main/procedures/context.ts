@@ -5,7 +5,7 @@
  */
 import type { Clock } from '../time/clock.ts';
 import type { RoleName } from '../instruments/roles.ts';
-import { DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import { AlignmentError, ChannelLimitError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
 import { RunStoppedError } from './run-control.ts';
 import { isLinkLoss, readCounter, type CounterReading } from './read-counter.ts';
 import type { BenchRoles, FailureKind, EventBody, RunSink, SampleRow } from './types.ts';
@@ -19,6 +19,8 @@ export class ProcedureContext {
   readonly sink: RunSink;
   readonly startS: number;
   rowsWritten = 0;
+  /** Counter readings by outcome; a run whose every reading failed is a counter fault, not a stall. */
+  readonly tally = { ok: 0, noSignal: 0, failed: 0, lastFailure: null as string | null };
   #consecutiveFailures = 0;
   #unsubscribeLink: (() => void) | null = null;
 
@@ -83,16 +85,44 @@ export class ProcedureContext {
       await this.reconnectOrThrow('counter', error);
       reading = { status: 'error', frequencyHz: Number.NaN, detail: error.message, errorName: error.name };
     }
+    this.count(reading);
     if (reading.status === 'timeout' || reading.status === 'error') {
       this.event({ type: 'fault', role: 'counter', status: reading.status, error: reading.detail, errorName: reading.errorName });
       this.#consecutiveFailures++;
       if (this.#consecutiveFailures >= MAX_CONSECUTIVE_FAILURES) {
-        throw new ProcedureFailure('timeout', `${MAX_CONSECUTIVE_FAILURES} counter readings in a row failed; last: ${reading.detail ?? reading.status}`);
+        throw new ProcedureFailure('counter-fault', `${MAX_CONSECUTIVE_FAILURES} readings in a row failed on ${this.describe('counter')}; last: ${reading.detail ?? reading.status}`);
       }
     } else {
       this.#consecutiveFailures = 0;
     }
     return reading;
+  }
+
+  /** Adds one reading to the tally (procedures that read the counter themselves call it too). */
+  count(reading: CounterReading): void {
+    if (reading.status === 'ok') this.tally.ok++;
+    else if (reading.status === 'no-signal') this.tally.noSignal++;
+    else {
+      this.tally.failed++;
+      this.tally.lastFailure = reading.detail ?? reading.status;
+    }
+  }
+
+  /**
+   * A counter fault when the counter delivered nothing usable: readings
+   * failed and none was a frequency or a no-signal answer. Only no-signal
+   * may mean a stalled DUT; errors mean the counter.
+   */
+  counterFault(): { kind: 'counter-fault'; message: string } | null {
+    const { ok, noSignal, failed, lastFailure } = this.tally;
+    if (failed === 0 || ok + noSignal > 0) return null;
+    return { kind: 'counter-fault', message: `all ${failed} readings failed on ${this.describe('counter')} (last: ${lastFailure ?? 'unknown'}); this is a counter fault, not a stalled DUT` };
+  }
+
+  /** "the counter at tcp://…" when the bench says where, else "the counter". */
+  describe(role: RoleName): string {
+    const address = this.bench.instruments?.find((i) => i.role === role)?.address;
+    return address === undefined ? `the ${role}` : `the ${role} at ${address}`;
   }
 
   async reconnectOrThrow(role: RoleName, cause: DisconnectedError): Promise<void> {
@@ -130,7 +160,8 @@ export function classifyEnd(error: unknown): { reason: string; failure: { kind: 
   if (error instanceof DisconnectedError) return { reason: 'disconnected', failure: { kind: 'disconnected', message } };
   if (error instanceof InstrumentError) return { reason: 'instrument-error', failure: { kind: 'instrument-error', message } };
   if (error instanceof TimeoutError) return { reason: 'timeout', failure: { kind: 'timeout', message } };
-  if (error instanceof ReplyFormatError) return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
+  if (error instanceof ReplyFormatError || error instanceof AlignmentError) return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
+  if (error instanceof ChannelLimitError) return { reason: 'limits', failure: { kind: 'limits', message } };
   const name = error instanceof Error ? `${error.name}: ` : '';
   return { reason: 'internal-error', failure: { kind: 'internal', message: `${name}${message}` } };
 }

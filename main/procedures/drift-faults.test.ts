@@ -140,7 +140,8 @@ function matches(type: string, e: { type: string; [key: string]: unknown }): boo
     case 'delay': return (e.type === 'fault' && /timeout|TimeoutError/.test(text)) || (e.type === 'link' && (e.event === 'resync' || e.event === 'stale-line'));
     case 'garbage': return e.type === 'fault' && /ReplyFormatError|expected/.test(text);
     case 'error': return e.type === 'fault' && e.code === -300;
-    case 'silence': return e.type === 'gap-start' || (e.type === 'fault' && /timeout|TimeoutError/.test(text));
+    // A counter silent even to the resync is out of step (AlignmentError), not just late.
+    case 'silence': return e.type === 'gap-start' || (e.type === 'fault' && /timeout|TimeoutError|AlignmentError/.test(text));
     default: return false;
   }
 }

@@ -51,6 +51,7 @@ export class DriftLink {
       this.#gapMissed++;
       return null;
     }
+    ctx.count(reading);
     // At a fixed, oscillating setpoint a counter that times out is more likely silent than the DUT stalled.
     const silentNoSignal = reading.status === 'no-signal' && reading.detail === 'timeout';
     if (reading.status === 'timeout' || reading.status === 'error' || silentNoSignal) {

@@ -14,6 +14,7 @@ import type { Clock } from '../time/clock.ts';
 import { ProcedureContext } from './context.ts';
 import { DriftLink } from './drift-link.ts';
 import { applyLimits, checkControlV, checkLimits, ovpLevelV } from './limits.ts';
+import { leaveFoundOutput } from './safe-state.ts';
 import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
@@ -56,6 +57,7 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
   ctx.event(options.timeOffsetS ? { type: 'resumed', at_s: options.timeOffsetS } : { type: 'start', channel, controlV: plan.controlV });
   try {
     await control.checkpoint(clock);
+    await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
     ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
     await bench.counter.setGate(plan.gateS);

@@ -43,7 +43,7 @@ describe('finishRun', () => {
 
   it('counts a failed extra step against safeStateOk', async () => {
     const { sink, outcome, parts } = setup();
-    await finishRun(outcome, { ...parts, afterSafe: () => Promise.resolve(false) });
+    await finishRun(outcome, { ...parts, afterSafe: () => Promise.resolve(['channel 2 dut-supply-restore not confirmed']) });
     expect(outcome.safeStateOk).toBe(false);
     expect(sink.eventsOfType('end')).toHaveLength(1);
   });

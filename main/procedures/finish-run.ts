@@ -34,19 +34,27 @@ export interface FinishRunParts {
   safe: SafeState;
   /** Work that must happen before the safe state (drift: drain error queues, close a gap). */
   beforeSafe?: () => Promise<void>;
-  /** Further safe-state steps after the control channel's; resolves false when one failed. */
-  afterSafe?: () => Promise<boolean>;
+  /** Further safe-state steps after the control channel's; resolves with the unconfirmed ones (empty when all held). */
+  afterSafe?: () => Promise<string[]>;
 }
 
 /** Ends a run in its `finally`; never throws for a failing flush (recorded as the outcome's failure). */
 export async function finishRun(outcome: ProcedureOutcome, parts: FinishRunParts): Promise<void> {
   const { ctx } = parts;
   parts.control.onPauseChange(null);
+  const counterFault = outcome.failure === null ? ctx.counterFault() : null;
+  if (counterFault !== null) {
+    outcome.status = 'aborted';
+    outcome.reason = counterFault.kind;
+    outcome.failure = counterFault;
+    ctx.event({ type: 'abort', reason: counterFault.kind, error: counterFault.message, failure: counterFault.kind });
+  }
   parts.progress.finish(outcome.status === 'complete');
   await parts.beforeSafe?.();
   const safe = await goSafe(ctx.bench, parts.channel, parts.safe, (event) => ctx.event(event));
-  const restored = parts.afterSafe ? await parts.afterSafe() : true;
-  outcome.safeStateOk = safe.ok && restored;
+  const failures = [...safe.failures, ...(parts.afterSafe ? await parts.afterSafe() : [])];
+  outcome.safeStateOk = failures.length === 0;
+  if (failures.length > 0) outcome.safeStateFailures = failures;
   outcome.rowsWritten = ctx.rowsWritten;
   ctx.event({ type: 'end', status: outcome.status, reason: outcome.reason });
   ctx.dispose();

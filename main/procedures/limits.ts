@@ -44,15 +44,18 @@ export function checkControlV(field: string, volts: number, limits: Limits): voi
 export type LimitStep = 'current-limit' | 'over-voltage-protection';
 
 /**
- * Sets current limit and over-voltage protection on `channel`. Call before
- * the output is switched on. A supply without OVP is allowed (the software
- * limit still holds) but the caller is told, so it can record it.
+ * Declares maxControlV as `channel`'s ceiling in the supply driver (which
+ * then refuses any write above it, whatever asks), and sets current limit
+ * and over-voltage protection on it. Call before the output is switched on.
+ * A supply without OVP is allowed (the driver's ceiling still holds) but the
+ * caller is told, so it can record it.
  */
 export async function applyLimits(
   supply: Supply,
   channel: number,
   limits: Limits,
 ): Promise<{ ovpApplied: boolean }> {
+  supply.limitChannel(channel, 'control', limits.maxControlV);
   await supply.setCurrentLimit(channel, limits.currentLimitA);
   if (!supply.capabilities.overVoltageProtection) return { ovpApplied: false };
   try {

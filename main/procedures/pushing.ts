@@ -14,6 +14,7 @@ import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { RunControl } from './run-control.ts';
 import { linearSlope, supplyLevels } from './pushing-math.ts';
+import { driveVerified, leaveFoundOutput, outputOffStep, voltageStep } from './safe-state.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleStatus } from './types.ts';
 
 export const PUSHING_COLUMNS = ['time_s', 'control_v', 'supply_v', 'frequency_hz', 'status'] as const;
@@ -72,7 +73,10 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       // Protection set below the voltage found would trip (or refuse) the way back: change nothing.
       throw new ProcedureFailure('limits', `maxSupplyV: the DUT supply (channel ${dutChannel}) is at ${restoreDut.volts} V, above maxSupplyV (${plan.maxSupplyV} V) plus its protection margin; the plan is refused`);
     }
+    await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
+    // The driver refuses any DUT supply write above its OVP level from here on.
+    bench.supply.limitChannel(dutChannel, 'dut-supply', dutOvpV);
     const dutOvpApplied = await applyDutSupplyOvp(bench.supply, dutChannel, dutOvpV);
     ctx.event({
       type: 'limits',
@@ -122,13 +126,12 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
     recordRunEnd(outcome, ctx, error);
   } finally {
     const found = restoreDut;
-    const record = (event: { type: string; [key: string]: unknown }): void => ctx.event(event);
-    // The DUT supply goes back where it was found, after the control channel is safe.
-    const restoreDutSupply = async (): Promise<boolean> => {
-      if (found === null) return true;
-      const restored = await bestEffort(() => bench.supply.setVoltage(dutChannel, found.volts), 'dut-supply-restore', record);
-      if (found.on) return restored;
-      return (await bestEffort(() => bench.supply.setOutput(dutChannel, false), 'dut-supply-off', record)) && restored;
+    // The DUT supply goes back where it was found, after the control channel is safe, proven by readback.
+    const restoreDutSupply = async (): Promise<string[]> => {
+      if (found === null) return [];
+      const steps = [voltageStep(bench, dutChannel, found.volts, 'dut-supply-restore')];
+      if (!found.on) steps.push(outputOffStep(bench, dutChannel, 'dut-supply-off'));
+      return (await driveVerified(bench, steps, (event) => ctx.event(event))).failures;
     };
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe: restoreDutSupply });
   }
@@ -153,16 +156,5 @@ async function applyDutSupplyOvp(supply: Supply, channel: number, volts: number)
   } catch (error) {
     if (error instanceof UnsupportedOperationError) return false;
     throw error;
-  }
-}
-
-async function bestEffort(action: () => Promise<void>, step: string, record: (event: { type: string; [key: string]: unknown }) => void): Promise<boolean> {
-  try {
-    await action();
-    record({ type: 'safe-state', step, ok: true });
-    return true;
-  } catch (error) {
-    record({ type: 'safe-state', step, ok: false, error: error instanceof Error ? error.message : String(error) });
-    return false;
   }
 }

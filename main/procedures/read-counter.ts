@@ -4,7 +4,7 @@
  * `error`) that the run records and survives. A dropped link is not a
  * reading at all: it is thrown so the procedure can reconnect or stop.
  */
-import { DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import { AlignmentError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
 import type { Counter } from '../instruments/roles.ts';
 import type { SampleStatus } from './types.ts';
 
@@ -23,8 +23,8 @@ export function isLinkLoss(error: unknown): error is DisconnectedError {
 }
 
 /** A failure the run can record and carry on from (the link is still there). */
-export function isRecoverableInstrumentFault(error: unknown): error is TimeoutError | InstrumentError | ReplyFormatError {
-  return error instanceof TimeoutError || error instanceof InstrumentError || error instanceof ReplyFormatError;
+export function isRecoverableInstrumentFault(error: unknown): error is TimeoutError | InstrumentError | ReplyFormatError | AlignmentError {
+  return error instanceof TimeoutError || error instanceof InstrumentError || error instanceof ReplyFormatError || error instanceof AlignmentError;
 }
 
 export async function readCounter(counter: Counter): Promise<CounterReading> {
@@ -38,7 +38,7 @@ export async function readCounter(counter: Counter): Promise<CounterReading> {
     if (error instanceof TimeoutError) {
       return { status: 'timeout', frequencyHz: Number.NaN, detail: error.message, errorName: error.name };
     }
-    if (error instanceof InstrumentError || error instanceof ReplyFormatError) {
+    if (error instanceof InstrumentError || error instanceof ReplyFormatError || error instanceof AlignmentError) {
       return { status: 'error', frequencyHz: Number.NaN, detail: error.message, errorName: error.name };
     }
     throw error;

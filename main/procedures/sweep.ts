@@ -8,6 +8,7 @@ import type { SweepPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
 import { ProcedureContext } from './context.ts';
 import { applyLimits, checkLimits, ovpLevelV } from './limits.ts';
+import { leaveFoundOutput } from './safe-state.ts';
 import { finishRun, recordRunEnd } from './finish-run.ts';
 import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { bisectEdge, bisectionSteps, findEdge, type EdgeBracket } from './refine-edge.ts';
@@ -72,6 +73,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
   ctx.event({ type: 'start', points: schedule.controlV.length, channel });
   try {
     await control.checkpoint(clock);
+    await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
     ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
     await bench.counter.setGate(plan.gateS);
@@ -184,7 +186,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
   } finally {
     // End conditions after the safe state, so a slow or failing read cannot hold it up.
     const conditions = outcome.conditions;
-    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return true; } : undefined;
+    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return []; } : undefined;
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;

@@ -27,6 +27,8 @@ export interface BenchRoles {
    * log notice errors that no write of its own would report. Optional.
    */
   drainErrors?: ((role: RoleName) => Promise<{ code: number; message: string }[]>) | undefined;
+  /** Where each role is (for messages that name the instrument). Optional. */
+  instruments?: readonly { role: string; idn: string; address: string }[] | undefined;
   /** Link diagnostics (drops, reopens, resyncs) of every role; returns an unsubscribe. Optional. */
   subscribeLinkEvents?: ((listener: (role: RoleName, event: { type: string; [key: string]: unknown }) => void) => () => void) | undefined;
 }
@@ -69,12 +71,14 @@ export interface ProcedureOutcome {
   failure: { kind: FailureKind; message: string } | null;
   /** Readings recorded (rows in samples.csv written by this call). */
   rowsWritten: number;
-  /** True when every safe-state step succeeded (or none was needed). */
+  /** True when every safe-state step was confirmed by readback (or none was needed). */
   safeStateOk: boolean;
+  /** One line per unconfirmed safe-state step, naming the channel and what was read back. */
+  safeStateFailures?: string[];
   /** Conditions read around the run (sweeps, once the output was on); run.json `conditions`. */
   conditions?: RecordedConditions;
 }
 
-export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits';
+export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits' | 'counter-fault';
 
 export type { SampleStatus };

@@ -20,9 +20,10 @@ export interface DutConditions {
   wanderPpm?: number;
 }
 
-export function coreOf(p: DutParams, tuneV: number, supplyV: number): OscillatorCore {
+/** `thresholdShiftV`: a relaxation DUT's upper threshold moved by noise (ignored by the varactor model). */
+export function coreOf(p: DutParams, tuneV: number, supplyV: number, thresholdShiftV = 0): OscillatorCore {
   if (supplyV < p.supply.minV) return { oscillating: false, frequencyHz: 0, cycleJitter: 0 };
-  return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV) : varactorCore(p, tuneV, supplyV);
+  return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV, thresholdShiftV) : varactorCore(p, tuneV, supplyV);
 }
 
 /** The tuning voltage the core sees at a temperature (tuningTempcoPpmPerC scales it). */
@@ -30,10 +31,10 @@ export function tuneVAt(p: DutParams, tuneNodeV: number, temperatureC: number): 
   return tuneNodeV * (1 + (p.tuningTempcoPpmPerC ?? 0) * 1e-6 * (temperatureC - p.referenceC));
 }
 
-/** Noise-free frequency under the given conditions; 0 when not oscillating. */
-export function dutFrequencyHz(p: DutParams, c: DutConditions): number {
+/** Frequency under the given conditions (noise-free unless a threshold shift is given); 0 when not oscillating. */
+export function dutFrequencyHz(p: DutParams, c: DutConditions, thresholdShiftV = 0): number {
   if (c.poweredForS === null) return 0;
-  const core = coreOf(p, tuneVAt(p, c.tuneNodeV, c.temperatureC), c.supplyV);
+  const core = coreOf(p, tuneVAt(p, c.tuneNodeV, c.temperatureC), c.supplyV, thresholdShiftV);
   if (!core.oscillating) return 0;
   const fractionalPpm =
     p.tempcoPpmPerC * (c.temperatureC - p.referenceC) +

@@ -6,8 +6,17 @@
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
 
-const positive = (what: string) => z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`);
-const finite = (what: string) => z.number({ error: `${what} must be a number` }).finite();
+/**
+ * Every value is bounded to a physical range (wide enough for any bench
+ * oscillator, narrow enough that the model never computes an infinity):
+ * `max` is the largest magnitude accepted.
+ */
+const positive = (what: string, max: number) =>
+  z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`).max(max, `${what} must be ≤ ${max}`);
+const finite = (what: string, max: number) =>
+  z.number({ error: `${what} must be a number` }).min(-max, `${what} must be ≥ ${-max}`).max(max, `${what} must be ≤ ${max}`);
+const nonNegative = (what: string, max: number) =>
+  z.number({ error: `${what} must be a number` }).nonnegative(`${what} must be ≥ 0`).max(max, `${what} must be ≤ ${max}`);
 
 const commonFields = {
   id: z.string().min(1),
@@ -15,41 +24,41 @@ const commonFields = {
   description: z.string().default(''),
   supply: z.object({
     /** The DUT's nominal supply; the bench's supply channel 2 starts here. */
-    nominalV: positive('supply.nominalV'),
+    nominalV: positive('supply.nominalV', 100),
     /** Below this the oscillator does not start. */
-    minV: positive('supply.minV'),
+    minV: positive('supply.minV', 100),
     /** Current drawn at nominal supply (the load is modelled as a resistor). */
-    currentA: positive('supply.currentA'),
+    currentA: positive('supply.currentA', 10),
   }),
   tuning: z.object({
     /** First-order time constant of the tuning node (RC filter in the tuning line). */
-    settleTauS: positive('tuning.settleTauS'),
+    settleTauS: positive('tuning.settleTauS', 1000),
     /** Input resistance of the tuning port, seen by supply channel 1. */
-    inputResistanceOhm: positive('tuning.inputResistanceOhm'),
+    inputResistanceOhm: positive('tuning.inputResistanceOhm', 1e12),
   }),
   /** Fractional frequency change per °C around referenceC. */
-  tempcoPpmPerC: finite('tempcoPpmPerC'),
-  referenceC: finite('referenceC').default(25),
+  tempcoPpmPerC: finite('tempcoPpmPerC', 1e4),
+  referenceC: finite('referenceC', 200).default(25),
   /**
    * Fractional change per °C of the tuning sensitivity: the core sees the
    * tuning node scaled by (1 + k·(T − referenceC)), so Kvco and the stall edge
    * move with temperature. Default 0.
    */
-  tuningTempcoPpmPerC: finite('tuningTempcoPpmPerC').default(0),
+  tuningTempcoPpmPerC: finite('tuningTempcoPpmPerC', 1e5).default(0),
   /** Thermal time constant of the DUT (board and package) to the air around it, s. Default 300. */
-  thermalTauS: positive('thermalTauS').default(300),
+  thermalTauS: positive('thermalTauS', 1e6).default(300),
   warmup: z.object({
     /** Fractional offset at power-on, decaying exponentially to zero. */
-    offsetPpm: finite('warmup.offsetPpm'),
-    tauS: positive('warmup.tauS'),
+    offsetPpm: finite('warmup.offsetPpm', 1e5),
+    tauS: positive('warmup.tauS', 1e6),
   }),
   /** Frequency change per volt of DUT supply away from nominal. */
-  pushingHzPerV: finite('pushingHzPerV'),
+  pushingHzPerV: finite('pushingHzPerV', 1e9),
   noise: z.object({
     /** White frequency noise: fractional σ of a 1 s average (scales as 1/√gate). */
-    whiteFmAt1s: z.number().nonnegative(),
+    whiteFmAt1s: nonNegative('noise.whiteFmAt1s', 1e-3),
     /** Random-walk frequency wander, ppm per √hour. */
-    randomWalkPpmPerSqrtHour: z.number().nonnegative().default(0),
+    randomWalkPpmPerSqrtHour: nonNegative('noise.randomWalkPpmPerSqrtHour', 1e3).default(0),
   }),
 };
 
@@ -57,23 +66,23 @@ export const relaxationDutSchema = z.object({
   kind: z.literal('relaxation'),
   ...commonFields,
   timing: z.object({
-    chargeResistanceOhm: positive('timing.chargeResistanceOhm'),
-    capacitanceF: positive('timing.capacitanceF'),
-    dischargeResistanceOhm: positive('timing.dischargeResistanceOhm'),
+    chargeResistanceOhm: positive('timing.chargeResistanceOhm', 1e12),
+    capacitanceF: positive('timing.capacitanceF', 1),
+    dischargeResistanceOhm: positive('timing.dischargeResistanceOhm', 1e12),
     /** The discharge path pulls the capacitor toward this rail. */
-    dischargeTargetV: finite('timing.dischargeTargetV'),
+    dischargeTargetV: finite('timing.dischargeTargetV', 100),
   }),
   thresholds: z.object({
-    lowerV: finite('thresholds.lowerV'),
-    upperV: finite('thresholds.upperV'),
+    lowerV: finite('thresholds.lowerV', 100),
+    upperV: finite('thresholds.upperV', 100),
     /** RMS noise on the comparator thresholds; becomes timing jitter through dv/dt. */
-    noiseV: z.number().nonnegative(),
+    noiseV: nonNegative('thresholds.noiseV', 1),
   }),
   chargeDrive: z.object({
     /** Vc = gain·Vtune + offsetV, limited to supply − headroomV (source compliance). */
-    gain: positive('chargeDrive.gain'),
-    offsetV: finite('chargeDrive.offsetV'),
-    headroomV: z.number().nonnegative(),
+    gain: positive('chargeDrive.gain', 100),
+    offsetV: finite('chargeDrive.offsetV', 100),
+    headroomV: nonNegative('chargeDrive.headroomV', 100),
   }),
 });
 
@@ -81,18 +90,18 @@ export const varactorDutSchema = z.object({
   kind: z.literal('varactor-lc'),
   ...commonFields,
   tank: z.object({
-    inductanceH: positive('tank.inductanceH'),
-    parasiticCapacitanceF: z.number().nonnegative(),
+    inductanceH: positive('tank.inductanceH', 1),
+    parasiticCapacitanceF: nonNegative('tank.parasiticCapacitanceF', 1e-3),
   }),
   varactor: z.object({
     /** Zero-bias junction capacitance. */
-    cj0F: positive('varactor.cj0F'),
+    cj0F: positive('varactor.cj0F', 1e-3),
     /** Built-in potential φ. */
-    builtInV: positive('varactor.builtInV'),
+    builtInV: positive('varactor.builtInV', 10),
     /** Grading exponent γ: 1/2 abrupt, 1/3 linearly graded, > 1/2 hyperabrupt. */
-    gradingExponent: positive('varactor.gradingExponent'),
+    gradingExponent: positive('varactor.gradingExponent', 5),
     /** Below this reverse bias the diode conducts, the tank loses Q and the loop stops. */
-    minReverseV: finite('varactor.minReverseV'),
+    minReverseV: finite('varactor.minReverseV', 100),
   }),
 });
 

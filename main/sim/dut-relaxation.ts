@@ -36,8 +36,15 @@ export function chargeVoltage(p: RelaxationDutParams, tuneV: number, supplyV: nu
   return Math.min(wanted, supplyV - p.chargeDrive.headroomV);
 }
 
-export function relaxationCore(p: RelaxationDutParams, tuneV: number, supplyV: number): OscillatorCore {
-  const { lowerV, upperV, noiseV } = p.thresholds;
+/**
+ * `upperShiftV` moves the upper threshold (threshold noise, averaged over a
+ * gate, enters here as a voltage — see DutRuntime.gate): a shifted threshold
+ * can never make the oscillator faster than the charging law allows, so near
+ * the stall edge the frequency still falls toward zero.
+ */
+export function relaxationCore(p: RelaxationDutParams, tuneV: number, supplyV: number, upperShiftV = 0): OscillatorCore {
+  const { lowerV, noiseV } = p.thresholds;
+  const upperV = p.thresholds.upperV + upperShiftV;
   const chargeRcS = p.timing.chargeResistanceOhm * p.timing.capacitanceF;
   const dischargeRcS = p.timing.dischargeResistanceOhm * p.timing.capacitanceF;
   const vc = chargeVoltage(p, tuneV, supplyV);

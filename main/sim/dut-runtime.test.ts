@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { builtinDut } from './builtin-duts.ts';
-import type { DutParams } from './dut-params.ts';
+import { parseDutParams, type DutParams } from './dut-params.ts';
+import { coreOf } from './dut-model.ts';
 import { DutRuntime, type DutDrive } from './dut-runtime.ts';
 import { FirstOrderLag } from './first-order-lag.ts';
 import { createRng } from './prng.ts';
@@ -100,5 +101,63 @@ describe('counter gate', () => {
       return sd / mean;
     };
     expect(spread(1.56)).toBeGreaterThan(5 * spread(4.0));
+  });
+});
+
+describe('near the stall edge the model is physics (issue 15 item 8)', () => {
+  /** A DUT held at `tuneV` for long enough that its tuning port has settled. */
+  function heldAt(tuneV: number, seed: number): DutRuntime {
+    const drive: DutDrive = {
+      tuneSourceAt: () => ({ v: tuneV, slopeVPerS: 0, untilS: Infinity }),
+      supplyVAt: () => 5,
+      poweredSinceS: () => -1e6,
+      temperatureCAt: () => 25,
+    };
+    const dut = new DutRuntime(builtinDut('relaxation'), drive, createRng(seed), 0);
+    dut.advanceTo(1);
+    return dut;
+  }
+
+  function readings(tuneV: number, n: number): number[] {
+    const out: number[] = [];
+    for (let seed = 1; seed <= n; seed++) {
+      const result = heldAt(tuneV, seed).gate(1, 0.02);
+      out.push(result.status === 'ok' ? result.frequencyHz : 0);
+    }
+    return out;
+  }
+
+  it('20 ms gates just above the edge read a few kHz at most, never MHz or THz, and below the reading at 2 V', () => {
+    // The built-in DUT stalls where gain·V + offset reaches the 2.0 V threshold: V = 1.55 V.
+    const edgeV = 2.0 - 0.45;
+    const at2V = readings(2.0, 20);
+    const minAt2V = Math.min(...at2V);
+    expect(minAt2V).toBeGreaterThan(8000);
+    // Noise-free ceiling a little way above the edge: the charging law at 1.56 V (≈ 2.2 kHz).
+    const ceilingHz = coreOf(builtinDut('relaxation'), 1.56, 5).frequencyHz;
+    expect(ceilingHz).toBeGreaterThan(2000);
+    expect(ceilingHz).toBeLessThan(2500);
+    for (const offsetV of [1e-15, 1e-9, 1e-5, 1e-4]) {
+      for (const f of readings(edgeV + offsetV, 40)) {
+        expect(Number.isFinite(f)).toBe(true);
+        expect(f).toBeLessThan(ceilingHz);
+        expect(f).toBeLessThan(minAt2V);
+      }
+    }
+  });
+
+  it('the mean reading falls toward zero as the edge is approached from above', () => {
+    const mean = (values: number[]) => values.reduce((a, b) => a + b, 0) / values.length;
+    const means = [0.1, 0.01, 1e-3, 1e-5].map((offsetV) => mean(readings(1.55 + offsetV, 30)));
+    for (let i = 1; i < means.length; i++) expect(means[i] as number).toBeLessThan(means[i - 1] as number);
+  });
+
+  it('DUT files with values outside physical ranges are refused, naming the field', () => {
+    const base = builtinDut('relaxation');
+    if (base.kind !== 'relaxation') throw new Error('expected the relaxation DUT');
+    expect(() => parseDutParams({ ...base, noise: { ...base.noise, whiteFmAt1s: 1e308 } })).toThrow(/noise\.whiteFmAt1s: noise\.whiteFmAt1s must be ≤ 0\.001/);
+    expect(() => parseDutParams({ ...base, tuning: { ...base.tuning, settleTauS: 1e308 } })).toThrow(/tuning\.settleTauS: .*≤ 1000/);
+    expect(() => parseDutParams({ ...base, timing: { ...base.timing, capacitanceF: Infinity } })).toThrow(/timing\.capacitanceF/);
+    expect(parseDutParams(base)).toEqual(base);
   });
 });

@@ -5,7 +5,7 @@
  * ±1-count quantisation. All randomness comes from the injected seeded Rng.
  */
 import type { DutParams } from './dut-params.ts';
-import { coreOf, dutFrequencyHz, type DutConditions } from './dut-model.ts';
+import { dutFrequencyHz, type DutConditions } from './dut-model.ts';
 import { FirstOrderLag } from './first-order-lag.ts';
 import type { Rng } from './prng.ts';
 
@@ -89,32 +89,45 @@ export class DutRuntime {
 
   /**
    * What a counter gated from startS for gateS reads: the cycles counted in
-   * the gate divided by the gate. Noise: white FM (σ ∝ 1/√gate) plus the
-   * per-cycle jitter averaged over N cycles (σ/√N). Quantisation: the count
-   * is an integer with a random starting phase, so readings are multiples of
-   * 1/gate (±1 count, common practice).
+   * the gate divided by the gate. Noise: white FM (σ ∝ 1/√gate, capped) and,
+   * on a relaxation DUT, comparator threshold noise. The latter enters as a
+   * voltage — one threshold shift per gate, σ = noiseV/√N over the N cycles
+   * counted — and goes through the charging law, never as a multiplier on
+   * the frequency: so where dv/dt vanishes at the stall edge the reading
+   * scatters but falls toward zero, and can never exceed what the charging
+   * law allows a few σ above. Quantisation: the count is an integer with a
+   * random starting phase, so readings are multiples of 1/gate (±1 count,
+   * common practice).
    */
   gate(startS: number, gateS: number): GateResult {
     const dt = gateS / GATE_SAMPLES;
-    let cycles = 0;
-    let jitterSq = 0;
-    for (let i = 0; i < GATE_SAMPLES; i++) {
-      const c = this.conditionsAt(startS + (i + 0.5) * dt);
-      const f = dutFrequencyHz(this.params, c);
-      cycles += f * dt;
-      if (f > 0) {
-        const j = coreOf(this.params, c.tuneNodeV, c.supplyV).cycleJitter;
-        jitterSq += j * j;
-      }
-    }
+    const samples: DutConditions[] = [];
+    for (let i = 0; i < GATE_SAMPLES; i++) samples.push(this.conditionsAt(startS + (i + 0.5) * dt));
     this.advanceTo(startS + gateS);
-    if (cycles <= 0) return { status: 'no-signal' };
-    const jitter = Math.sqrt(jitterSq / GATE_SAMPLES);
-    const white = this.params.noise.whiteFmAt1s / Math.sqrt(gateS);
-    const sigma = Math.sqrt(white * white + (jitter * jitter) / cycles);
-    const noisyCycles = cycles * (1 + sigma * this.#rng.gaussian());
+    const nominal = this.#cyclesIn(samples, dt, 0);
+    if (nominal <= 0) return { status: 'no-signal' };
+    let cycles = nominal;
+    if (this.params.kind === 'relaxation' && this.params.thresholds.noiseV > 0) {
+      const shiftV = (this.params.thresholds.noiseV * this.#boundedGaussian()) / Math.sqrt(Math.max(1, nominal));
+      cycles = this.#cyclesIn(samples, dt, shiftV);
+    }
+    // White FM beyond 10 % per gate is not an oscillator any more; the DUT schema bounds it well below.
+    const white = Math.min(0.1, this.params.noise.whiteFmAt1s / Math.sqrt(gateS));
+    const noisyCycles = cycles * (1 + white * this.#boundedGaussian());
     const counts = Math.floor(noisyCycles + this.#rng.uniform());
-    if (counts <= 0) return { status: 'no-signal' };
+    if (!(counts > 0) || !Number.isFinite(counts)) return { status: 'no-signal' };
     return { status: 'ok', frequencyHz: counts / gateS, counts };
+  }
+
+  /** Cycles over the gate's midpoint samples (each `dt` long) with the upper threshold moved by shiftV. */
+  #cyclesIn(samples: readonly DutConditions[], dt: number, shiftV: number): number {
+    let cycles = 0;
+    for (const c of samples) cycles += dutFrequencyHz(this.params, c, shiftV) * dt;
+    return cycles;
+  }
+
+  /** A standard normal draw cut at ±4 σ (a physical noise source has no infinite tails). */
+  #boundedGaussian(): number {
+    return Math.max(-4, Math.min(4, this.#rng.gaussian()));
   }
 }

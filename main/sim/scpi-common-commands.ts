@@ -11,12 +11,19 @@ export interface CommonCommandHost {
   setOpc(): void;
   readEsr(): number;
   popError(): string;
+  /** Standard event status enable register (*ESE), 0–255. */
+  ese: number;
+}
+
+/** The part of a command's context the common commands use (ScpiDevice's CommandContext has it). */
+export interface CommonCommandArgs {
+  number(index: number, spec: { min: number; max: number }, field: string): number;
 }
 
 /** A command without parameters (assignable to ScpiDevice's CommandDef). */
 export interface CommonCommand {
   pattern: string;
-  set?: () => void;
+  set?: (args: CommonCommandArgs) => void;
   query?: () => string;
 }
 
@@ -27,6 +34,13 @@ export function commonCommands(device: CommonCommandHost): CommonCommand[] {
     { pattern: '*CLS', set: () => device.clearStatus() },
     { pattern: '*OPC', set: () => device.setOpc(), query: () => '1' },
     { pattern: '*ESR', query: () => String(device.readEsr()) },
+    {
+      pattern: '*ESE',
+      set: (ctx: CommonCommandArgs) => {
+        device.ese = Math.round(ctx.number(0, { min: 0, max: 255 }, '*ESE'));
+      },
+      query: () => String(device.ese),
+    },
     { pattern: '*WAI', set: () => undefined },
     { pattern: '*TST', query: () => '0' },
     { pattern: 'SYSTem:ERRor[:NEXT]', query: () => device.popError() },

@@ -118,6 +118,9 @@ export class ScpiDevice {
     return value;
   }
 
+  /** Event status enable register (IEEE 488.2 *ESE), 0..255; kept across *CLS and *RST like a real one. */
+  ese = 0;
+
   setOpc(): void {
     this.#esr |= 1;
   }

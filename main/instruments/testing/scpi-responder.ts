@@ -21,6 +21,7 @@ export class ScpiResponder {
   private readonly volts = new Map<number, number>();
   private readonly outputs = new Map<number, boolean>();
   received = 0;
+  private ese = 0;
 
   /** Handles one command line (may hold several ;-separated commands). */
   handle(line: string, act: ResponderActions): void {
@@ -38,6 +39,8 @@ export class ScpiResponder {
     switch (header) {
       case '*IDN?': return act.reply(RESPONDER_IDN);
       case '*OPC?': return act.reply('1');
+      case '*ESE': this.ese = Number(arg); return;
+      case '*ESE?': return act.reply(String(this.ese));
       case '*RST': this.volts.clear(); this.outputs.clear(); return;
       case '*CLS': this.errors.length = 0; return;
       case 'SYST:ERR?': return act.reply(this.errors.shift() ?? '+0,"No error"');
@@ -85,7 +88,9 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
     socket.on('error', () => undefined);
     let pending = '';
     // Replies leave in command order, as a real instrument's do: a late one holds up those behind it.
+    // One chain, not one timer per reply: two timers due at the same moment may fire in either order.
     let holdUntilMs = 0;
+    let chain: Promise<void> = Promise.resolve();
     const act: ResponderActions = {
       reply: (text, delayS) => {
         const nowMs = performance.now();
@@ -95,7 +100,9 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
           return;
         }
         holdUntilMs = dueMs;
-        setTimeout(() => socket.writable && socket.write(`${text}\n`), dueMs - nowMs);
+        chain = chain.then(() => new Promise<void>((resolve) => setTimeout(resolve, Math.max(0, dueMs - performance.now())))).then(() => {
+          if (socket.writable) socket.write(`${text}\n`);
+        });
       },
       hangUp: () => socket.destroy(),
     };

@@ -6,6 +6,7 @@
  * exist so a test can put a fault on one exact operation.
  */
 import type { Clock } from '../../time/clock.ts';
+import { ChannelCeilings, type ChannelPurpose } from '../../instruments/channel-ceilings.ts';
 import type { Counter, FrequencyReading, InstrumentIdentity, Supply, Thermometer } from '../../instruments/roles.ts';
 import type { BenchRoles, EventBody, ProcedureEvent, RunSink, SampleRow } from '../types.ts';
 
@@ -53,7 +54,13 @@ export class FakeSupply implements Supply {
   identify(): Promise<InstrumentIdentity> {
     return Promise.resolve(IDENTITY);
   }
+  /** Same ceilings as the real driver, so procedure tests meet the same refusals. */
+  readonly ceilings = new ChannelCeilings();
+  limitChannel(ch: number, purpose: ChannelPurpose, maxV: number): void {
+    this.ceilings.set(ch, purpose, maxV);
+  }
   async setVoltage(ch: number, volts: number): Promise<void> {
+    this.ceilings.check(ch, volts, 'fake supply');
     this.#op('setVoltage', ch, volts);
     const state = this.channel(ch);
     state.previousV = this.effectiveV(ch, 0);
