@@ -137,6 +137,23 @@ const progressSchema = z.looseObject({
     .nullable(),
 });
 
+const isoTime = z.string().min(1);
+
+export const benchStatusSchema = z.looseObject({
+  source: z.enum(['run', 'idle', 'none']),
+  output: z.boolean().nullable(),
+  controlSetV: nullableNumber,
+  controlMeasV: nullableNumber,
+  frequencyHz: nullableNumber,
+  temperatureC: nullableNumber,
+  updatedAt: isoTime.nullable(),
+  links: z.array(z.looseObject({ role: z.enum(['supply', 'counter', 'thermometer']), state: z.enum(['up', 'lost']), detail: z.string().nullable() })),
+  paused: z.looseObject({ since: isoTime, controlV: nullableNumber }).nullable(),
+  safeState: z
+    .looseObject({ runId: z.string(), reached: z.boolean(), at: isoTime, outputOff: z.boolean(), failures: z.array(z.string()) })
+    .nullable(),
+});
+
 export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('connection'), state: connectionStateSchema }),
   z.object({ type: z.literal('live'), readout: readoutSchema }),
@@ -149,6 +166,7 @@ export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('progress'), progress: progressSchema }),
   z.object({ type: z.literal('run-ended'), meta: runMetaSchema }),
   z.object({ type: z.literal('run-event'), runId: z.string(), event: z.looseObject({ time_s: z.number(), type: z.string() }) }),
+  z.object({ type: z.literal('bench-status'), status: benchStatusSchema }),
   z.object({ type: z.literal('error'), message: z.string() }),
 ]);
 
@@ -167,6 +185,7 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   connect: connectionStateSchema,
   disconnect: connectionStateSchema,
   getConnection: connectionStateSchema,
+  getBenchStatus: benchStatusSchema,
   startSweep: runMetaSchema,
   startDrift: runMetaSchema,
   startPushing: runMetaSchema,

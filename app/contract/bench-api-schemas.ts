@@ -65,6 +65,7 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   connect: params(['config'], [z.union([z.literal('sim'), benchConfigSchema])]),
   disconnect: none(),
   getConnection: none(),
+  getBenchStatus: none(),
   startSweep: params(['plan', 'dutId'], [sweepPlanSchema, dutIdSchema]),
   startDrift: params(['plan', 'dutId'], [driftPlanSchema, dutIdSchema]),
   startPushing: params(['plan', 'dutId'], [pushingPlanSchema, dutIdSchema]),

@@ -117,6 +117,49 @@ export interface ProgressInfo {
   latest: { controlV: number; frequencyHz: number | null; status: SampleStatus } | null;
 }
 
+/** Whether main can talk to one instrument; `lost` after a read failed for want of a link. */
+export interface RoleLinkStatus {
+  role: RoleConnection['role'];
+  state: 'up' | 'lost';
+  /** Why it was marked lost (the instrument's error), null when up. */
+  detail: string | null;
+}
+
+/** How the last run left the supply: every safe-state step and whether each worked. */
+export interface SafeStateReport {
+  runId: string;
+  /** True when every safe-state step succeeded. */
+  reached: boolean;
+  /** Wall-clock time (ISO 8601) the last step was recorded. */
+  at: string;
+  /** The control channel's output is off afterwards (false when the plan keeps it on). */
+  outputOff: boolean;
+  /** "step: error" for each step that failed. */
+  failures: string[];
+}
+
+/**
+ * What the bench is doing now, for the status strip on every screen. During a
+ * run every figure comes from the run's own readings and events (no second
+ * query stream competes with the procedure); while idle from the live poll.
+ */
+export interface BenchStatus {
+  source: 'run' | 'idle' | 'none';
+  /** Control channel output on (true), off (false) or not known (null). */
+  output: boolean | null;
+  controlSetV: number | null;
+  controlMeasV: number | null;
+  frequencyHz: number | null;
+  temperatureC: number | null;
+  /** Wall-clock time (ISO 8601) of the latest figures, null before any. */
+  updatedAt: string | null;
+  links: RoleLinkStatus[];
+  /** Set while the run in progress is paused: since when and where the control voltage sits. */
+  paused: { since: string; controlV: number | null } | null;
+  /** How the latest run ended for the supply; null before any run on this connection. */
+  safeState: SafeStateReport | null;
+}
+
 /** Events pushed from main to the renderer. */
 export type BenchEvent =
   | { type: 'connection'; state: ConnectionState }
@@ -126,6 +169,7 @@ export type BenchEvent =
   | { type: 'progress'; progress: ProgressInfo }
   | { type: 'run-ended'; meta: RunMeta }
   | { type: 'run-event'; runId: string; event: RunEvent }
+  | { type: 'bench-status'; status: BenchStatus }
   | { type: 'error'; message: string };
 
 export interface SerialPortInfo {
@@ -139,6 +183,8 @@ export interface BenchApi {
   connect(config: BenchConfig | 'sim'): Promise<ConnectionState>;
   disconnect(): Promise<ConnectionState>;
   getConnection(): Promise<ConnectionState>;
+  /** The bench status as the strip shows it (also pushed as `bench-status` events). */
+  getBenchStatus(): Promise<BenchStatus>;
 
   startSweep(plan: SweepPlan, dutId: string): Promise<RunMeta>;
   startDrift(plan: DriftPlan, dutId: string): Promise<RunMeta>;

@@ -62,6 +62,7 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'connect',
   'disconnect',
   'getConnection',
+  'getBenchStatus',
   'startSweep',
   'startDrift',
   'startPushing',

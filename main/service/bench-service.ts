@@ -9,6 +9,7 @@ import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '..
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import { BenchApiError } from './errors.ts';
 import { EventHub } from './event-hub.ts';
+import { BenchStatusTracker } from './bench-status.ts';
 import { LivePoller } from './live-readout.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
@@ -23,6 +24,8 @@ export interface BenchServiceOptions extends ServicePorts {
   livePeriodMs?: number;
   /** Real ms between sample batches during a run. Default 150. */
   batchMs?: number;
+  /** Wall clock for the status strip's times (tests pin it). */
+  now?: () => Date;
 }
 
 const DISCONNECTED: ConnectionState = { connected: false, simulated: false, roles: [], error: null };
@@ -38,15 +41,24 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
   let starting = false;
 
+  const status = new BenchStatusTracker((state) => emit({ type: 'bench-status', status: state }), options.now);
+
   const setConnection = (state: ConnectionState): ConnectionState => {
     connection = state;
+    status.connected(state);
     emit({ type: 'connection', state });
     return state;
   };
 
   const startLive = (): void => {
     if (!bench || run) return;
-    live = new LivePoller({ roles: bench.roles, clock: bench.clock, periodMs: options.livePeriodMs, emit: (readout) => emit({ type: 'live', readout }) });
+    live = new LivePoller({
+      roles: bench.roles,
+      clock: bench.clock,
+      periodMs: options.livePeriodMs,
+      emit: (readout) => emit({ type: 'live', readout }),
+      onReading: (reading) => status.idle(reading),
+    });
     live.start();
   };
 
@@ -85,10 +97,11 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     starting = true;
     await stopLive();
     try {
-      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs });
+      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs, status });
       run = session;
       void session.done.finally(() => {
         if (run === session) run = null;
+        status.runEnded();
         startLive();
       });
       return session.meta;
@@ -133,6 +146,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       return setConnection(DISCONNECTED);
     },
     getConnection: async () => connection,
+    getBenchStatus: async () => status.status,
     startSweep: (plan, dutId) => startRun('sweep', plan, dutId),
     startDrift: (plan, dutId) => startRun('drift', plan, dutId),
     startPushing: (plan, dutId) => startRun('pushing', plan, dutId),
