@@ -186,6 +186,7 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   disconnect: connectionStateSchema,
   getConnection: connectionStateSchema,
   getBenchStatus: benchStatusSchema,
+  manualControl: benchStatusSchema,
   startSweep: runMetaSchema,
   startDrift: runMetaSchema,
   startPushing: runMetaSchema,

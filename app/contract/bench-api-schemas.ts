@@ -9,7 +9,10 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
-import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from './plans.ts';
+import { benchConfigSchema, driftPlanSchema, limitsSchema, pushingPlanSchema, siNumber, sweepPlanSchema } from './plans.ts';
+
+/** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
+export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
 
 /**
  * A run id names a folder under the runs directory, so it may never carry a
@@ -66,6 +69,7 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   disconnect: none(),
   getConnection: none(),
   getBenchStatus: none(),
+  manualControl: params(['request'], [manualControlSchema]),
   startSweep: params(['plan', 'dutId'], [sweepPlanSchema, dutIdSchema]),
   startDrift: params(['plan', 'dutId'], [driftPlanSchema, dutIdSchema]),
   startPushing: params(['plan', 'dutId'], [pushingPlanSchema, dutIdSchema]),

@@ -160,6 +160,13 @@ export interface BenchStatus {
   safeState: SafeStateReport | null;
 }
 
+/** A bring-up setting for the control channel, outside any run, under the same limits. */
+export interface ManualControlRequest {
+  controlV: number;
+  output: boolean;
+  limits: { maxControlV: number; currentLimitA: number; ovpV?: number | undefined };
+}
+
 /** Events pushed from main to the renderer. */
 export type BenchEvent =
   | { type: 'connection'; state: ConnectionState }
@@ -185,6 +192,12 @@ export interface BenchApi {
   getConnection(): Promise<ConnectionState>;
   /** The bench status as the strip shows it (also pushed as `bench-status` events). */
   getBenchStatus(): Promise<BenchStatus>;
+  /**
+   * Bring-up: sets the control voltage and output by hand while no run holds
+   * the bench. Limits are checked and applied first, the supply is read back;
+   * disconnecting or closing leaves it in the safe state.
+   */
+  manualControl(request: ManualControlRequest): Promise<BenchStatus>;
 
   startSweep(plan: SweepPlan, dutId: string): Promise<RunMeta>;
   startDrift(plan: DriftPlan, dutId: string): Promise<RunMeta>;

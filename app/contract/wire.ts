@@ -63,6 +63,7 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'disconnect',
   'getConnection',
   'getBenchStatus',
+  'manualControl',
   'startSweep',
   'startDrift',
   'startPushing',

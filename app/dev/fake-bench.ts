@@ -127,6 +127,18 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
       return connection;
     },
     getConnection: async () => connection,
+    manualControl: async (request) => ({
+      source: 'idle',
+      output: request.output,
+      controlSetV: request.controlV,
+      controlMeasV: request.controlV,
+      frequencyHz: null,
+      temperatureC: null,
+      updatedAt: new Date().toISOString(),
+      links: connection.roles.map((r) => ({ role: r.role, state: 'up' as const, detail: null })),
+      paused: null,
+      safeState: null,
+    }),
     getBenchStatus: async () => ({
       source: connection.connected ? 'idle' : 'none',
       output: connection.connected ? false : null,

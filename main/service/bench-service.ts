@@ -11,6 +11,8 @@ import { BenchApiError } from './errors.ts';
 import { EventHub } from './event-hub.ts';
 import { BenchStatusTracker } from './bench-status.ts';
 import { LivePoller } from './live-readout.ts';
+import { applyManualControl } from './manual-control.ts';
+import { goSafe } from '../procedures/safe-state.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
 
@@ -38,6 +40,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   let live: LivePoller | null = null;
   let run: RunSession | null = null;
   let connecting = false;
+  /** A bring-up setting left the output on: closing must put the supply in the safe state. */
+  let manualOutputOn = false;
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
   let starting = false;
 
@@ -78,6 +82,16 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   const closeBench = async (): Promise<void> => {
     await endRunAndWait();
     await stopLive();
+    if (bench && manualOutputOn) {
+      const failures: string[] = [];
+      let outputOff = false;
+      const result = await goSafe(bench.roles, bench.roles.controlChannel, { controlV: 0, outputOff: true }, (event) => {
+        if (event.step === 'output-off' && event.ok === true) outputOff = true;
+      });
+      failures.push(...result.failures);
+      status.manualSafe({ ok: result.ok, failures, outputOff });
+      manualOutputOn = false;
+    }
     const closing = bench;
     bench = null;
     if (closing) await closing.close();
@@ -99,6 +113,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     try {
       const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs, status });
       run = session;
+      // The procedure owns the supply now; its own safe state ends the run.
+      manualOutputOn = false;
       void session.done.finally(() => {
         if (run === session) run = null;
         status.runEnded();
@@ -147,6 +163,23 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     },
     getConnection: async () => connection,
     getBenchStatus: async () => status.status,
+    async manualControl(request) {
+      const opened = requireIdleBench();
+      if (starting || connecting) throw new BenchApiError('a run or a connection is being started; try again in a moment');
+      starting = true;
+      await stopLive();
+      // Until read back, assume the output may be on: a failure half-way must still end in the safe state.
+      if (request.output) manualOutputOn = true;
+      try {
+        const result = await applyManualControl(opened.roles, request);
+        manualOutputOn = result.output;
+        status.manual(result);
+        return status.status;
+      } finally {
+        starting = false;
+        startLive();
+      }
+    },
     startSweep: (plan, dutId) => startRun('sweep', plan, dutId),
     startDrift: (plan, dutId) => startRun('drift', plan, dutId),
     startPushing: (plan, dutId) => startRun('pushing', plan, dutId),

@@ -64,6 +64,8 @@ export class BenchStatusTracker {
     this.#run = null;
     this.#status = {
       ...EMPTY,
+      // How the last run left the supply stays worth knowing after a disconnect.
+      safeState: this.#status.safeState,
       source: connection.connected ? 'idle' : 'none',
       links: connection.roles.map((role) => ({ role: role.role, state: 'up', detail: null })),
     };
@@ -146,6 +148,20 @@ export class BenchStatusTracker {
       default:
         break;
     }
+  }
+
+  /** A bring-up setting the supply confirmed by read-back. */
+  manual(setting: { controlSetV: number; output: boolean }): void {
+    if (this.#run) return;
+    this.#set({ ...setting, source: 'idle', updatedAt: this.#now().toISOString() });
+  }
+
+  /** The safe state applied outside a run (a bring-up output left on at disconnect). */
+  manualSafe(result: { ok: boolean; failures: string[]; outputOff: boolean }): void {
+    this.#set({
+      ...(result.outputOff ? { output: false } : {}),
+      safeState: { runId: 'manual', reached: result.ok, at: this.#now().toISOString(), outputOff: result.outputOff, failures: result.failures },
+    });
   }
 
   /** The run is over (recorded); the idle poll takes over. */
