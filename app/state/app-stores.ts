@@ -58,6 +58,9 @@ export function routeEvent(stores: AppStores, event: BenchEvent): void {
     case 'run-event':
       stores.liveRun.getState().runEvent(event.runId, event.event);
       break;
+    case 'bench-status':
+      stores.connection.getState().setStatus(event.status);
+      break;
     case 'error':
       stores.notice.setState({ message: event.message });
       break;

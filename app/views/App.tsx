@@ -9,6 +9,7 @@ import { DatasheetScreen } from './datasheet/DatasheetScreen.tsx';
 import { DriftScreen } from './drift/DriftScreen.tsx';
 import { LoopScreen } from './loop/LoopScreen.tsx';
 import { RunsScreen } from './runs/RunsScreen.tsx';
+import { StatusStrip } from './StatusStrip.tsx';
 import { SweepScreen } from './sweep/SweepScreen.tsx';
 
 const SCREEN_LABEL: Record<ScreenName, string> = {
@@ -91,6 +92,7 @@ export function App() {
           {THEME_LABEL[themeChoice]}
         </button>
       </header>
+      <StatusStrip />
       <LinkBanner />
       <Notice />
       <nav className="rail" aria-label="Screens">

@@ -4,7 +4,9 @@ import type { RunKind } from '../../contract/bench-api.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
-import { duration } from '../units.ts';
+import { clockTime, safeStateWords } from '../status-text.ts';
+import { duration, volts } from '../units.ts';
+import { ConfirmAction } from './ConfirmAction.tsx';
 
 export interface RunControlsProps {
   kind: RunKind;
@@ -30,6 +32,7 @@ export function RunControls(props: RunControlsProps) {
   const paused = useStore(stores.liveRun, (s) => s.paused);
   const setPaused = useStore(stores.liveRun, (s) => s.setPaused);
   const connected = useStore(stores.connection, (s) => s.connection.connected);
+  const plan = useStore(stores.liveRun, (s) => s.meta?.plan);
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState(false);
 
@@ -67,9 +70,19 @@ export function RunControls(props: RunControlsProps) {
             Pause
           </button>
         )}
-        <button type="button" className="danger" disabled={!mine || pending} onClick={() => void act(() => bridge.api.stopRun())} data-testid="stop-run">
-          {props.kind === 'drift' ? 'Stop and keep' : 'Abort'}
-        </button>
+        <ConfirmAction
+          label={props.kind === 'drift' ? 'Stop the log' : 'Abort'}
+          className="danger"
+          disabled={!mine || pending}
+          question={
+            props.kind === 'drift'
+              ? `Stop the drift log now? The readings so far are kept as a finished log; ${safeStateWords(plan)}.`
+              : `Abort this ${props.kind === 'sweep' ? 'sweep' : 'run'}? The points so far are kept (marked aborted); ${safeStateWords(plan)}.`
+          }
+          confirmLabel={props.kind === 'drift' ? 'Stop and keep the log' : 'Abort now'}
+          onConfirm={() => void act(() => bridge.api.stopRun())}
+          testId="stop-run"
+        />
       </div>
       {!connected ? <p className="muted">Connect a bench first (the Bench screen has a one-click simulator).</p> : null}
       {active && !mine ? <p className="muted">A {activeKind} run is in progress; it has to finish first.</p> : null}
@@ -90,14 +103,18 @@ function ProgressLine({ kind }: { kind: RunKind }) {
   const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
   const eta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
   const phase = useStore(stores.liveRun, (s) => s.progress?.phase ?? null);
+  const paused = useStore(stores.liveRun, (s) => s.paused);
+  const pausedAt = useStore(stores.connection, (s) => s.status?.paused ?? null);
   const status = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.status : null));
   if (progressKind !== kind && status === null) return null;
   const fraction = total > 0 ? Math.min(1, done / total) : 0;
   return (
-    <div className="progress" data-testid="progress" data-done={done} data-total={total} data-status={status ?? ''}>
+    <div className={paused ? 'progress progress-paused' : 'progress'} data-testid="progress" data-paused={paused ? 'yes' : 'no'} data-done={done} data-total={total} data-status={status ?? ''}>
       <progress max={total > 0 ? total : 1} value={status === 'complete' ? (total > 0 ? total : 1) : total > 0 ? done : 0} aria-label="Run progress" />
       <span>
-        {status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
+        {paused && (status === 'running' || status === null)
+          ? `Paused${pausedAt ? ` since ${clockTime(pausedAt.since)}, control held at ${volts(pausedAt.controlV)}` : ''} · ${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · output stays as it is; the run stops safely if the pause outlasts its limit`
+          : status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
       </span>
     </div>
   );
