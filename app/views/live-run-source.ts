@@ -16,6 +16,7 @@ export function useLiveRunSource(kind: RunKind): SweepSource | null {
   const theme = useEffectiveTheme();
   const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.id : null));
   const active = useStore(stores.liveRun, (s) => s.active);
+  const startedAt = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.startedAt : null));
   const gateS = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? planHints(s.meta.plan).gateS : undefined));
   if (!runId) return null;
   return {
@@ -24,6 +25,7 @@ export function useLiveRunSource(kind: RunKind): SweepSource | null {
     rows: () => stores.liveRun.getState().rows,
     watch: (notify) => stores.liveRun.subscribe((s, prev) => s.version !== prev.version && notify()),
     done: !active,
+    startMs: startedAt ? Date.parse(startedAt) : null,
     ...(gateS !== undefined ? { gateS } : {}),
     theme,
   };

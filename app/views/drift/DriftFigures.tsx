@@ -11,8 +11,11 @@ import { useBackgroundAnalysis } from '../../workers/use-analysis.ts';
 import type uPlot from 'uplot';
 import type { ColumnSet } from '../../state/columns.ts';
 import { GapDisplay } from '../../plots/gap-display.ts';
-import { PlotPanel } from '../../plots/PlotPanel.tsx';
-import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
+import { envelope, type EnvelopeSeries } from '../../plots/envelope.ts';
+import { columnsCsv } from '../../plots/plot-export.ts';
+import { PlotPanel, type PlotView } from '../../plots/PlotPanel.tsx';
+import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha, xSeries } from '../../plots/plot-options.ts';
+import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { Figure } from '../controls/Field.tsx';
 import { duration, hz, plain } from '../units.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
@@ -24,6 +27,8 @@ export interface DriftSource {
   watch?(notify: () => void): () => void;
   done: boolean;
   theme: string;
+  /** Wall-clock start of the log, ms (multi-day logs label their time axis in dates). */
+  startMs?: number | null;
 }
 
 function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; running: boolean }) {
@@ -59,13 +64,32 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
   const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () => driftJob(source.columns(), source.rows()));
   const analysis = outcome?.ok ? outcome.analysis : null;
-  const timeData = (): uPlot.AlignedData => {
+  // Set by the last data() call: whether the time plot shows slices (band + mean) or the readings themselves.
+  const dense = useRef(false);
+  const gapColumns = () => {
     const columns = source.columns();
-    const n = source.rows();
     if (!gaps.current || gaps.current.key !== source.key) {
       gaps.current = { key: source.key, freq: new GapDisplay(columns.frequency_hz, columns.status), temp: new GapDisplay(columns.temperature_c, columns.status) };
     }
-    return [columns.time_s.view().subarray(0, n), gaps.current.freq.data(n), gaps.current.temp.data(n)] as uPlot.AlignedData;
+    return { columns, gaps: gaps.current };
+  };
+  const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
+    const { columns, gaps: g } = gapColumns();
+    const n = source.rows();
+    const x = columns.time_s.view().subarray(0, n);
+    const from = view ? view.xMin : (x[0] ?? 0);
+    const to = view ? view.xMax : (x[n - 1] ?? 0);
+    const px = Math.max(100, view?.widthPx ?? widthPx);
+    // Slices 4 px wide: wide enough that a reading flipping between two counts becomes a band, narrow enough to follow drift.
+    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4));
+    dense.current = env.dense;
+    const [freq, temp] = env.series as [EnvelopeSeries, EnvelopeSeries];
+    return [env.x, freq.mid, freq.lo, freq.hi, temp.mid] as uPlot.AlignedData;
+  };
+  const timeCsv = (): string => {
+    const { columns, gaps: g } = gapColumns();
+    const n = source.rows();
+    return columnsCsv(['time_s', 'frequency_hz', 'temperature_c'], [columns.time_s.view().subarray(0, n), g.freq.data(n), g.temp.data(n)]);
   };
   const tempco = useMemo(
     () => (analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null),
@@ -81,14 +105,34 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           buildKey={buildKey}
           height={320}
           data={timeData}
+          csv={timeCsv}
+          exportName={`drift-${source.key}`}
           watch={source.watch}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
-              [xSeries('s', 'Time'), lineSeries('Frequency', colors.series[0], 'Hz'), lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) })],
-              [timeAxis(colors), siAxis(colors, 'Frequency', 'Hz', { size: 96 }), { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 70, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }],
+              [
+                { label: 'Time', value: (_u, v) => (v === null ? '—' : timeTickLabel(v, v >= 60 ? 1 : 0.1)) },
+                lineSeries('Frequency', colors.series[0], 'Hz', {
+                  points: { show: () => !dense.current, size: 4, stroke: colors.series[0], fill: colors.series[0] },
+                }),
+                lineSeries('Lowest in slice', 'transparent', 'Hz', { width: 0 }),
+                lineSeries('Highest in slice', 'transparent', 'Hz', { width: 0 }),
+                lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) }),
+              ],
+              [
+                timeAxis(colors, 'Time', source.startMs ?? null),
+                siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
+                { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 84, labelGap: 6, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) },
+              ],
+              { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.3) }] },
             )
+          }
+          footer={
+            <span data-testid="drift-plot-key">
+              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each slice of time and the line is their mean; zoom in to see each reading.
+            </span>
           }
         />
         {tempco ? (

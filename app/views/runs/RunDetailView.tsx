@@ -28,6 +28,7 @@ export function RunDetailView({ id }: { id: string }) {
     rows: () => opened.rows,
     done: true,
     theme,
+    startMs: Date.parse(meta.startedAt),
     ...(gateS !== undefined ? { gateS } : {}),
   };
   // Notes may be recorded both in run.json and as events: show each text once.

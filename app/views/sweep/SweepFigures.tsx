@@ -28,6 +28,8 @@ export interface SweepSource {
   done: boolean;
   gateS?: number;
   theme: string;
+  /** Wall-clock start of the run, ms. */
+  startMs?: number | null;
 }
 
 export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null; running: boolean }) {
