@@ -9,7 +9,8 @@ import type { BenchStatus, RunKind } from '../contract/bench-api.ts';
 import { useStore } from '../state/use-store.ts';
 import { useApp } from './app-context.ts';
 import { clockTime, runKindLabel, stripRunText } from './status-text.ts';
-import { celsius, hz, volts } from './units.ts';
+import { planHints } from '../analysis/datasheet-run.ts';
+import { celsius, hzAtResolution, volts } from './units.ts';
 
 function OutputCell({ output }: { output: boolean | null }) {
   const text = output === null ? 'Output unknown' : output ? 'Output on' : 'Output off';
@@ -68,6 +69,8 @@ export function StatusStrip() {
   const elapsedS = useStore(stores.liveRun, (s) => (s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? null) : null));
   const done = useStore(stores.liveRun, (s) => s.progress?.pointsDone ?? 0);
   const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
+  // The counter's resolution (1/gate) sets the digits of the frequency while the run's gate is known.
+  const gateS = useStore(stores.liveRun, (s) => (s.active && s.meta ? (planHints(s.meta.plan).gateS ?? null) : null));
   if (!connected || !status) {
     return (
       <div className="status-strip strip-idle" role="status" data-testid="status-strip" data-source="none">
@@ -92,7 +95,7 @@ export function StatusStrip() {
         Control {volts(status.controlSetV)} set{status.controlMeasV !== null ? ` · ${volts(status.controlMeasV)} measured` : ''}
       </span>
       <span className="strip-cell" data-testid="strip-frequency">
-        {hz(status.frequencyHz, 7)}
+        {hzAtResolution(status.frequencyHz, status.source === 'run' && gateS ? 1 / gateS : null)}
       </span>
       <span className="strip-cell" data-testid="strip-temperature">
         {celsius(status.temperatureC)}

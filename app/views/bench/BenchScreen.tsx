@@ -6,7 +6,8 @@ import { Field, Figure, Panel } from '../controls/Field.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { ConfirmAction } from '../controls/ConfirmAction.tsx';
 import { safeStateWords } from '../status-text.ts';
-import { celsius, hz, volts } from '../units.ts';
+import { planHints } from '../../analysis/datasheet-run.ts';
+import { celsius, hzAtResolution, volts } from '../units.ts';
 import { ManualControl } from './ManualControl.tsx';
 import { RoleCard } from './RoleCard.tsx';
 import { buildBenchConfig, DEFAULT_ROLE_DRAFTS, type RoleDraft, type RoleErrors, type RoleName } from './role-draft.ts';
@@ -19,6 +20,7 @@ function LiveReadouts() {
   const status = useStore(stores.connection, (s) => s.status);
   const running = status?.source === 'run';
   const output = status?.output ?? null;
+  const gateS = useStore(stores.liveRun, (s) => (s.active && s.meta ? (planHints(s.meta.plan).gateS ?? null) : null));
   return (
     <Panel title="Live readings" testId="live-readouts">
       <p className="muted" data-testid="readout-source">
@@ -28,7 +30,7 @@ function LiveReadouts() {
         <Figure label="Control, set" value={volts(status?.controlSetV)} testId="readout-control-set" />
         <Figure label="Control, measured" value={volts(status?.controlMeasV)} testId="readout-control-meas" />
         <Figure label="Supply output" value={output === null ? '—' : output ? 'on' : 'off'} testId="readout-output" />
-        <Figure label="Frequency" value={hz(status?.frequencyHz, 7)} testId="readout-frequency" />
+        <Figure label="Frequency" value={hzAtResolution(status?.frequencyHz, running && gateS ? 1 / gateS : null)} testId="readout-frequency" />
         <Figure label="Temperature" value={celsius(status?.temperatureC)} testId="readout-temperature" />
       </dl>
     </Panel>

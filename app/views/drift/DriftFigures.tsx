@@ -14,10 +14,10 @@ import { GapDisplay } from '../../plots/gap-display.ts';
 import { envelope, type EnvelopeSeries } from '../../plots/envelope.ts';
 import { columnsCsv } from '../../plots/plot-export.ts';
 import { PlotPanel, type PlotView } from '../../plots/PlotPanel.tsx';
-import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha, xSeries } from '../../plots/plot-options.ts';
+import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha } from '../../plots/plot-options.ts';
 import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { Figure } from '../controls/Field.tsx';
-import { duration, hz, plain } from '../units.ts';
+import { duration, hz, plain, si } from '../units.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 
 export interface DriftSource {
@@ -126,7 +126,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
                 { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 84, labelGap: 6, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) },
               ],
-              { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.3) }] },
+              { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.2) }] },
             )
           }
           footer={
@@ -163,7 +163,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               baseOptions(
                 width,
                 height,
-                [xSeries('s', 'τ'), lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
+                [{ label: 'τ', value: (_u, v) => (v === null ? '—' : si(v, 's', 3)) }, lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
                 [logSiAxis(colors, 'Averaging time τ', 's'), { ...siAxis(colors, 'σy(τ)', ''), values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) }],
                 { scales: { x: { time: false, distr: 3 }, y: { distr: 3 } } },
               )

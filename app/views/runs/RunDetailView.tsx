@@ -9,6 +9,7 @@ import { DriftFigures } from '../drift/DriftFigures.tsx';
 import { SweepFigures } from '../sweep/SweepFigures.tsx';
 import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
+import { conditionRows, planRows, runWindow } from './run-facts.ts';
 
 export function RunDetailView({ id }: { id: string }) {
   const { stores } = useApp();
@@ -67,9 +68,62 @@ export function RunDetailView({ id }: { id: string }) {
           ))}
         </ul>
       ) : null}
-      <p className="muted">
-        {opened.rows} readings · status {meta.status} · {meta.instruments.map((i) => `${i.role}: ${i.idn}`).join(' · ') || 'no instrument record'}
-      </p>
+      <details className="run-facts" open data-testid="run-facts">
+        <summary>
+          {opened.rows} readings · status {meta.status} · {runWindow(meta)}
+        </summary>
+        <div className="facts-grid">
+          <table className="table facts" data-testid="run-plan">
+            <caption>Plan settings</caption>
+            <tbody>
+              {planRows(meta.plan).map(([key, value]) => (
+                <tr key={key}>
+                  <th scope="row">{key}</th>
+                  <td>{value}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <div>
+            <table className="table facts" data-testid="run-instruments">
+              <caption>Instruments</caption>
+              <tbody>
+                {meta.instruments.length === 0 ? (
+                  <tr>
+                    <td>no instrument record (imported)</td>
+                  </tr>
+                ) : (
+                  meta.instruments.map((i) => (
+                    <tr key={i.role}>
+                      <th scope="row">{i.role}</th>
+                      <td>
+                        <code>{i.idn}</code> at <code>{i.address}</code>
+                      </td>
+                    </tr>
+                  ))
+                )}
+              </tbody>
+            </table>
+            <table className="table facts" data-testid="run-conditions">
+              <caption>Conditions</caption>
+              <tbody>
+                {conditionRows(meta).length === 0 ? (
+                  <tr>
+                    <td>not recorded for this run</td>
+                  </tr>
+                ) : (
+                  conditionRows(meta).map(([key, value]) => (
+                    <tr key={key}>
+                      <th scope="row">{key}</th>
+                      <td>{value}</td>
+                    </tr>
+                  ))
+                )}
+              </tbody>
+            </table>
+          </div>
+        </div>
+      </details>
       {meta.kind === 'sweep' ? <SweepFigures source={source} /> : null}
       {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
       {meta.kind === 'pushing' ? <PushingFigures source={source} /> : null}
