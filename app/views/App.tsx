@@ -81,6 +81,9 @@ export function App() {
 
   return (
     <div className="shell">
+      <a className="skip-link" href="#stage" data-testid="skip-link">
+        Skip to the screen
+      </a>
       <header className="topbar">
         <div className="brand">
           <span className="brand-mark" aria-hidden="true" />
@@ -102,7 +105,7 @@ export function App() {
           </button>
         ))}
       </nav>
-      <main className="stage" key={`${screen}-${theme}`}>
+      <main className="stage" id="stage" tabIndex={-1} key={`${screen}-${theme}`}>
         {screen === 'bench' ? <BenchScreen /> : null}
         {screen === 'sweep' ? <SweepScreen /> : null}
         {screen === 'drift' ? <DriftScreen /> : null}

@@ -42,7 +42,7 @@ export function ManualControl() {
   };
 
   return (
-    <Panel title="Bring-up by hand" testId="manual-control">
+    <Panel title="Bring-up by hand" className="bring-up" testId="manual-control">
       <p className="muted">Sets the control channel outside any run, within the safety limits beside this panel. Disconnecting returns it to 0 V with the output off.</p>
       {blocked ? <p className="busy-reason" data-testid="manual-blocked">{blocked}</p> : null}
       <div className="row">

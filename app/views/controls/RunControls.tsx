@@ -1,5 +1,5 @@
 /** Start / pause / resume / stop for the run in progress, and its progress bar with ETA. */
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import type { RunKind } from '../../contract/bench-api.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
@@ -35,6 +35,13 @@ export function RunControls(props: RunControlsProps) {
   const plan = useStore(stores.liveRun, (s) => s.meta?.plan);
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState(false);
+  const pauseRef = useRef<HTMLButtonElement | null>(null);
+  const mineNow = active && activeKind === props.kind;
+  // After Start the keyboard lands on Pause, the next thing one may need (Start itself is now disabled).
+  useEffect(() => {
+    const at = document.activeElement;
+    if (mineNow && (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled))) pauseRef.current?.focus();
+  }, [mineNow]);
 
   const act = async (work: () => Promise<unknown>) => {
     setError(null);
@@ -63,7 +70,7 @@ export function RunControls(props: RunControlsProps) {
             Resume
           </button>
         ) : (
-          <button type="button" disabled={!mine || pending} onClick={() => void act(async () => {
+          <button type="button" ref={pauseRef} disabled={!mine || pending} onClick={() => void act(async () => {
               await bridge.api.pauseRun();
               setPaused(true);
             })} data-testid="pause-run">
