@@ -17,7 +17,7 @@ import { PlotPanel, type PlotView } from '../../plots/PlotPanel.tsx';
 import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha } from '../../plots/plot-options.ts';
 import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { Figure } from '../controls/Field.tsx';
-import { duration, hz, plain, si } from '../units.ts';
+import { duration, hz, plain, si, volts } from '../units.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 
 export interface DriftSource {
@@ -29,9 +29,11 @@ export interface DriftSource {
   theme: string;
   /** Wall-clock start of the log, ms (multi-day logs label their time axis in dates). */
   startMs?: number | null;
+  /** Set when the screen shows a stored log (no log in this window yet): which one. */
+  storedFrom?: string;
 }
 
-function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; running: boolean }) {
+function DriftKeyFigures({ outcome, running, holdV }: { outcome: DriftOutcome | null; running: boolean; holdV: number | null }) {
   const a = outcome?.ok ? outcome.analysis : null;
   return (
     <section className="key-figures" aria-label="Drift figures" data-testid="drift-figures">
@@ -43,6 +45,7 @@ function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; r
         </p>
       ) : null}
       <dl className="figures">
+        <Figure label="Control held at" value={volts(holdV)} testId="drift-hold" />
         <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
         <Figure label="Tempco" value={plain(a?.tempcoPpmPerC, 'ppm/°C')} note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined} testId="drift-tempco" />
         <Figure
@@ -99,6 +102,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   return (
     <div className="sweep-figures">
       <div className="plots">
+        {source.storedFrom ? (
+          <p className="muted stored-from" data-testid="stored-from">
+            Latest stored drift log: {source.storedFrom}. Start a log to replace it here; the Run archive has the others.
+          </p>
+        ) : null}
         <PlotPanel
           testId="drift-plot"
           title="Frequency and temperature against time"
@@ -171,7 +179,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           />
         ) : null}
       </div>
-      <DriftKeyFigures outcome={outcome} running={running} />
+      <DriftKeyFigures outcome={outcome} running={running} holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null} />
     </div>
   );
 }

@@ -31,6 +31,8 @@ export interface SweepSource {
   theme: string;
   /** Wall-clock start of the run, ms. */
   startMs?: number | null;
+  /** Set when the screen shows a stored run (no run in this window yet): which one. */
+  storedFrom?: string;
 }
 
 export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null; running: boolean }) {
@@ -129,6 +131,11 @@ export function SweepFigures({ source }: { source: SweepSource }) {
   return (
     <div className="sweep-figures">
       <div className="plots">
+        {source.storedFrom ? (
+          <p className="muted stored-from" data-testid="stored-from">
+            Latest stored sweep: {source.storedFrom}. Start a sweep to replace it here; the Run archive has the others.
+          </p>
+        ) : null}
         <PlotPanel
           testId="sweep-plot"
           title="Frequency against control voltage (× = no oscillation)"
