@@ -16,6 +16,8 @@ import { recordPlotWork } from './frame-work.ts';
 import { createFrameGate } from './frame-gate.ts';
 import { readPlotColors, type PlotColors } from './plot-colors.ts';
 import { chartCsv, chartPng, chartSvg } from './plot-export.ts';
+import { cursorDeltas, markAt, type CursorMark } from './cursor-pair.ts';
+import { formatSi } from '../analysis/format-si.ts';
 
 /** The x range on screen when the user has zoomed (null: the whole data). */
 export interface PlotView {
@@ -46,6 +48,41 @@ export interface PlotPanelProps {
   csv?(): string;
   /** Extra lines under the chart (legend of marks). */
   footer?: React.ReactNode;
+  /** Units of x and y: enables two cursors (click readings) with Δx, Δy and the slope. */
+  cursorUnits?: { x: string; y: string };
+}
+
+/** One cursor's value with a unit: SI prefixes, seconds as they are. */
+const withUnit = (value: number, unit: string, digits = 5): string => formatSi(value, unit, digits);
+
+function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[]; units: { x: string; y: string }; onClear(): void; testId: string }) {
+  const [a, b] = marks;
+  const d = a && b ? cursorDeltas(a, b) : null;
+  return (
+    <div className="cursor-readout" data-testid={`${testId}-cursors`} aria-live="polite">
+      {marks.length === 0 ? <span>Click a reading to place cursor A, another for B.</span> : null}
+      {a ? (
+        <span>
+          A: {withUnit(a.x, units.x)}, {withUnit(a.y, units.y, 7)}
+        </span>
+      ) : null}
+      {b ? (
+        <span>
+          B: {withUnit(b.x, units.x)}, {withUnit(b.y, units.y, 7)}
+        </span>
+      ) : null}
+      {d ? (
+        <strong data-testid={`${testId}-deltas`}>
+          Δ{units.x === 'V' ? 'V' : 'x'} {withUnit(d.dx, units.x)} · Δ{units.y === 'Hz' ? 'f' : 'y'} {withUnit(d.dy, units.y)} · slope {d.slope === null ? '— (same x)' : withUnit(d.slope, `${units.y}/${units.x}`, 4)}
+        </strong>
+      ) : null}
+      {marks.length > 0 ? (
+        <button type="button" className="quiet plot-tool" onClick={onClear}>
+          Clear cursors
+        </button>
+      ) : null}
+    </div>
+  );
 }
 
 const ZOOM_LABEL: Record<ZoomMode, string> = { x: 'Drag zooms along x', y: 'Drag zooms along y', box: 'Drag zooms a box' };
@@ -54,12 +91,17 @@ export function PlotPanel(props: PlotPanelProps) {
   const hostRef = useRef<HTMLDivElement | null>(null);
   const chartRef = useRef<uPlot | null>(null);
   const resetRef = useRef<() => void>(() => undefined);
+  const redrawCursors = useRef<() => void>(() => undefined);
   // The latest callbacks, read by the chart without rebuilding it.
   const latest = useRef(props);
   latest.current = props;
   const height = props.height ?? 300;
   const [zoom, setZoom] = useState<ZoomMode>('x');
   const [zoomed, setZoomed] = useState(false);
+  const [marks, setMarks] = useState<CursorMark[]>([]);
+  const marksRef = useRef<CursorMark[]>([]);
+  marksRef.current = marks;
+  const cursorsOn = props.cursorUnits !== undefined;
 
   useEffect(() => {
     const host = hostRef.current;
@@ -118,6 +160,40 @@ export function PlotPanel(props: PlotPanelProps) {
       chart.setData(latest.current.data(null, chart.bbox.width / (window.devicePixelRatio || 1)), true);
     };
     const unwatch = latest.current.watch?.(() => gate.request()) ?? (() => undefined);
+    // Cursors: a click without a drag places A, then B, then starts again at A.
+    let downAt: [number, number] | null = null;
+    const onDown = (e: MouseEvent) => {
+      downAt = [e.clientX, e.clientY];
+    };
+    const onClick = (e: MouseEvent) => {
+      if (!latest.current.cursorUnits) return;
+      const moved = downAt ? Math.hypot(e.clientX - downAt[0], e.clientY - downAt[1]) : 0;
+      if (moved > 3) return;
+      const mark = markAt(chart.data as unknown as ArrayLike<number | null>[], chart.cursor.idx);
+      if (!mark) return;
+      const current = marksRef.current;
+      setMarks(current.length >= 2 ? [mark] : [...current, mark]);
+    };
+    chart.over.addEventListener('mousedown', onDown);
+    chart.over.addEventListener('click', onClick);
+    const lines = new Map<number, HTMLDivElement>();
+    const placeCursorLines = () => {
+      marksRef.current.forEach((mark, i) => {
+        let line = lines.get(i);
+        if (!line) {
+          line = document.createElement('div');
+          line.className = `cursor-line cursor-${i === 0 ? 'a' : 'b'}`;
+          line.dataset.label = i === 0 ? 'A' : 'B';
+          chart.over.appendChild(line);
+          lines.set(i, line);
+        }
+        line.style.left = `${chart.valToPos(mark.x, 'x')}px`;
+        line.style.display = '';
+      });
+      for (const [i, line] of lines) if (i >= marksRef.current.length) line.style.display = 'none';
+    };
+    chart.hooks.draw = [...(chart.hooks.draw ?? []), placeCursorLines];
+    redrawCursors.current = () => placeCursorLines();
     const resize = new ResizeObserver(() => {
       const w = Math.max(200, host.clientWidth);
       if (w !== chart.width) chart.setSize({ width: w, height });
@@ -128,11 +204,17 @@ export function PlotPanel(props: PlotPanelProps) {
       gate.cancel();
       unwatch();
       resize.disconnect();
+      chart.over.removeEventListener('mousedown', onDown);
+      chart.over.removeEventListener('click', onClick);
       chart.destroy();
       chartRef.current = null;
       setZoomed(false);
     };
   }, [props.buildKey, height, zoom]);
+
+  useEffect(() => {
+    redrawCursors.current();
+  }, [marks]);
 
   const stem = (props.exportName ?? props.testId).replace(/[^\w.-]+/g, '-');
   const themeColors = () => {
@@ -183,6 +265,7 @@ export function PlotPanel(props: PlotPanelProps) {
       </div>
       <div className={props.isEmpty ? 'plot-host plot-host-hidden' : 'plot-host'} ref={hostRef} onDoubleClick={() => resetRef.current()} />
       {props.isEmpty ? <p className="plot-empty">{props.emptyText ?? 'No readings yet.'}</p> : null}
+      {cursorsOn && !props.isEmpty && props.cursorUnits ? <CursorReadout marks={marks} units={props.cursorUnits} onClear={() => setMarks([])} testId={props.testId} /> : null}
       {props.footer && !props.isEmpty ? <div className="plot-footer">{props.footer}</div> : null}
     </figure>
   );

@@ -243,6 +243,12 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     const values = await page.locator(`${byId('sweep-plot')} .u-legend .u-series .u-value`).allTextContents();
     expect(values[1]).toMatch(/Hz/); // Rising
     expect(values[2]).toMatch(/Hz/); // Falling
+    // Two cursors by clicking two readings: ΔV, Δf and the slope between them.
+    await page.mouse.click(box.x + box.width * 0.5, box.y + box.height / 2);
+    await page.mouse.click(box.x + box.width * 0.8, box.y + box.height / 2);
+    const deltas = await textMatches(page, 'sweep-plot-deltas', /^ΔV .*V · Δf .*Hz · slope .*Hz\/V$/);
+    // Rising with the voltage on this oscillator: B lies right of A, so the slope is positive.
+    expect(deltas).not.toMatch(/slope −/);
     await shot(page, '14-sweep-up-down');
   });
 

@@ -114,6 +114,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           height={320}
           data={timeData}
           csv={timeCsv}
+          cursorUnits={{ x: 's', y: 'Hz' }}
           exportName={`drift-${source.key}`}
           watch={source.watch}
           options={(colors, width, height) =>

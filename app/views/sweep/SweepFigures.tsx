@@ -143,6 +143,7 @@ export function SweepFigures({ source }: { source: SweepSource }) {
           height={340}
           data={sweepData}
           watch={source.watch}
+          cursorUnits={{ x: 'V', y: 'Hz' }}
           options={(colors, width, height) =>
             baseOptions(
               width,
