@@ -273,6 +273,21 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     expect(csv.length).toBeGreaterThan(20);
   });
 
+  it('sorts and filters the archive, shows Kvco per sweep, and overlays two sweeps with a difference plot', async () => {
+    await page.click(byId('nav-runs'));
+    const kvco = siValue(await textMatches(page, `run-kvco-${sweepId}`, /Hz\/V/));
+    // The archive's Kvco is the same best-line slope the sweep screen showed (4 significant digits there).
+    expect(Math.abs(kvco / shownKvcoTyp - 1)).toBeLessThan(1e-3);
+    await page.selectOption(byId('runs-filter-kind'), 'drift');
+    await expect(page.locator(byId(`run-row-${sweepId}`)).count()).resolves.toBe(0);
+    await page.selectOption(byId('runs-filter-kind'), 'sweep');
+    await page.click(byId('runs-sort-kvco'));
+    const sweeps = (await app.service.listRuns()).filter((run) => run.kind === 'sweep');
+    for (const run of sweeps.slice(0, 2)) await page.check(byId(`run-pick-${run.id}`));
+    await page.waitForSelector(byId('difference-plot'), { timeout: 20_000 });
+    await shot(page, '15-archive-overlay-difference');
+  });
+
   it('looks right on every screen at 1280×800 and 1920×1080 in both themes', async () => {
     for (const [width, height] of [
       [1280, 800],
