@@ -40,6 +40,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   let live: LivePoller | null = null;
   let run: RunSession | null = null;
   let connecting = false;
+  /** What the open bench was opened from, to fall back to when a new connection is refused. */
+  let previousConfig: BenchConfig | 'sim' | null = null;
   /** A bring-up setting left the output on: closing must put the supply in the safe state. */
   let manualOutputOn = false;
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
@@ -142,13 +144,27 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       if (run) throw new BenchApiError(`a run is in progress (${run.meta.id}); stop it before changing the bench`);
       connecting = true;
       try {
+        const previous = bench ? previousConfig : null;
         await closeBench();
         try {
           bench = await options.openBench(config);
+          previousConfig = config;
         } catch (error) {
           const message = error instanceof Error ? error.message : String(error);
-          setConnection({ ...DISCONNECTED, error: message });
-          throw new BenchApiError(`connect: ${message}`);
+          // A refused connection must not also cost the bench that worked: open it again.
+          if (previous !== null) {
+            try {
+              bench = await options.openBench(previous);
+              setConnection(bench.connection);
+              startLive();
+              throw new BenchApiError(`could not connect to these instruments: ${message}. The previous bench is connected again.`);
+            } catch (reopenError) {
+              if (reopenError instanceof BenchApiError) throw reopenError;
+              bench = null;
+            }
+          }
+          setConnection({ ...DISCONNECTED, error: `could not connect to these instruments: ${message}` });
+          throw new BenchApiError(`could not connect to these instruments: ${message}`);
         }
         setConnection(bench.connection);
         startLive();

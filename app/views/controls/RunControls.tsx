@@ -7,6 +7,7 @@ import { useApp } from '../app-context.ts';
 import { clockTime, safeStateWords } from '../status-text.ts';
 import { duration, volts } from '../units.ts';
 import { ConfirmAction } from './ConfirmAction.tsx';
+import { estimateS, nextEta, planPointS, type ShownEta } from './eta.ts';
 
 export interface RunControlsProps {
   kind: RunKind;
@@ -108,11 +109,25 @@ function ProgressLine({ kind }: { kind: RunKind }) {
   const progressKind = useStore(stores.liveRun, (s) => s.progress?.kind ?? null);
   const done = useStore(stores.liveRun, (s) => s.progress?.pointsDone ?? 0);
   const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
-  const eta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
+  const measuredEta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
+  const plan = useStore(stores.liveRun, (s) => s.meta?.plan);
+  const runId = useStore(stores.liveRun, (s) => s.meta?.id ?? null);
+  const tauS = useStore(stores.liveRun, (s) => {
+    const probe = s.events.find((e) => e.type === 'settle-probe' && typeof e.tauS === 'number');
+    return probe ? (probe.tauS as number) : null;
+  });
+  const runClockS = useStore(stores.liveRun, (s) => (s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? 0) : 0));
+  const shownEta = useRef<{ runId: string | null; shown: ShownEta | null }>({ runId: null, shown: null });
   const phase = useStore(stores.liveRun, (s) => s.progress?.phase ?? null);
   const paused = useStore(stores.liveRun, (s) => s.paused);
   const pausedAt = useStore(stores.connection, (s) => s.status?.paused ?? null);
   const status = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.status : null));
+  if (shownEta.current.runId !== runId) shownEta.current = { runId, shown: null };
+  // Steady: from the plan and the learned settle time at first, main's measured pace later, counting down in between.
+  const estimate = estimateS(Math.max(0, total - done), done, measuredEta, planPointS(plan, tauS));
+  const previous = shownEta.current.shown;
+  if (previous === null || runClockS !== previous.atS) shownEta.current.shown = nextEta(previous, estimate, runClockS);
+  const eta = shownEta.current.shown?.etaS ?? null;
   if (progressKind !== kind && status === null) return null;
   const fraction = total > 0 ? Math.min(1, done / total) : 0;
   return (
