@@ -44,7 +44,10 @@ function PlanEditor() {
           testId="plan-direction"
         />
         {text('readingsPerPoint', 'Readings per point', '', 'plan-readings')}
+      </div>
+      <div className="row">
         {text('gateS', 'Counter gate', 's', 'plan-gate')}
+        {text('refineEdgeV', 'Edge resolution', 'V', 'plan-refine', '0 = no edge search')}
       </div>
       <div className="row">
         <Choice
@@ -65,7 +68,6 @@ function PlanEditor() {
           error={errors['settle.maxS'] ?? errors['settle.seconds']}
           testId="plan-settle"
         />
-        {text('refineEdgeV', 'Edge resolution', 'V', 'plan-refine', '0 = no edge search')}
       </div>
       {errors['limits.maxControlV'] || errors['limits.currentLimitA'] ? (
         <p className="error-line" role="alert">
