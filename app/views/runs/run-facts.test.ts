@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
 
 describe('run facts in words', () => {
-  it('lists a sweep plan with units from the key names, nested keys dotted', () => {
+  it('lists a sweep plan in the plan editor's words, with units from the key names', () => {
     const plan = {
       start: 0.5,
       stop: 4.5,
@@ -15,19 +15,19 @@ describe('run facts in words', () => {
       safe: { controlV: 0, outputOff: true },
     };
     expect(planRows(plan)).toEqual([
-      ['start', '500 mV'],
-      ['stop', '4.5 V'],
-      ['step', '250 mV'],
-      ['direction', 'up-down'],
-      ['readingsPerPoint', '3'],
-      ['gateS', '100 ms'],
-      ['settle.mode', 'auto'],
-      ['settle.maxS', '2 s'],
-      ['settle.toleranceCounts', '2'],
-      ['limits.maxControlV', '5 V'],
-      ['limits.currentLimitA', '20 mA'],
-      ['safe.controlV', '0 V'],
-      ['safe.outputOff', 'yes'],
+      ['From', '500 mV'],
+      ['To', '4.5 V'],
+      ['Step', '250 mV'],
+      ['Direction', 'up-down'],
+      ['Readings per point', '3'],
+      ['Counter gate', '100 ms'],
+      ['Settling', 'auto'],
+      ['Longest settling wait', '2 s'],
+      ['Settled within (counts)', '2'],
+      ['Highest control voltage', '5 V'],
+      ['Current limit, control port', '20 mA'],
+      ['Safe control voltage', '0 V'],
+      ['Output off when safe', 'yes'],
     ]);
   });
 

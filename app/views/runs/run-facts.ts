@@ -37,13 +37,41 @@ function valueText(path: string, value: unknown): string {
   return '—';
 }
 
-/** Plan settings as [setting, value] rows, nested keys dotted ("limits.maxControlV"). */
-export function planRows(plan: unknown, prefix = ''): [string, string][] {
+/** The plan editors' own words for the settings they write; other keys show as stored. */
+const LABELS: Record<string, string> = {
+  start: 'From',
+  stop: 'To',
+  step: 'Step',
+  points: 'Setpoints',
+  direction: 'Direction',
+  readingsPerPoint: 'Readings per point',
+  gateS: 'Counter gate',
+  'settle.mode': 'Settling',
+  'settle.maxS': 'Longest settling wait',
+  'settle.seconds': 'Settling wait',
+  'settle.toleranceCounts': 'Settled within (counts)',
+  refineEdgeV: 'Edge resolution',
+  'limits.maxControlV': 'Highest control voltage',
+  'limits.currentLimitA': 'Current limit, control port',
+  'limits.ovpV': 'Over-voltage protection',
+  'safe.controlV': 'Safe control voltage',
+  'safe.outputOff': 'Output off when safe',
+  controlV: 'Hold control at',
+  intervalS: 'Every',
+  durationS: 'For',
+};
+
+/** Plan settings as [setting, value] rows in the editors' words (unknown keys dotted: "limits.maxControlV"). */
+export function planRows(plan: unknown): [string, string][] {
+  return planEntries(plan).map(([key, value]) => [LABELS[key] ?? key, value]);
+}
+
+function planEntries(plan: unknown, prefix = ''): [string, string][] {
   if (!plan || typeof plan !== 'object' || Array.isArray(plan)) return [];
   const rows: [string, string][] = [];
   for (const [key, value] of Object.entries(plan as Record<string, unknown>)) {
     const path = prefix ? `${prefix}.${key}` : key;
-    if (value && typeof value === 'object' && !Array.isArray(value)) rows.push(...planRows(value, path));
+    if (value && typeof value === 'object' && !Array.isArray(value)) rows.push(...planEntries(value, path));
     else rows.push([path, valueText(path, value)]);
   }
   return rows;
