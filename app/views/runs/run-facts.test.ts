@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
 
 describe('run facts in words', () => {
-  it('lists a sweep plan in the plan editor's words, with units from the key names', () => {
+  it('lists a sweep plan in the plan editor words, with units from the key names', () => {
     const plan = {
       start: 0.5,
       stop: 4.5,
