@@ -6,6 +6,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import type uPlot from 'uplot';
 import { designLoopFilter, type LoopDesign } from '../../analysis/loop-filter.ts';
+import { RoundedComponents } from './RoundedComponents.tsx';
 import { loopAcrossKvco, logFrequencies, openLoopResponse } from '../../analysis/loop-filter-eval.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
@@ -171,6 +172,7 @@ export function LoopScreen() {
               {design.design.warnings.map((w) => (
                 <p key={w} className="warnings">{w}</p>
               ))}
+              <RoundedComponents filter={f} dividerN={checked.values?.dividerN ?? 1} chargePumpA={checked.values?.chargePumpA ?? 0} corners={design.checks} />
               <p className="muted small">{design.design.source}</p>
             </section>
           </div>
