@@ -11,6 +11,28 @@ import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
 
+function FactsTable({ caption, rows, empty, testId }: { caption: string; rows: [string, string][]; empty: string; testId: string }) {
+  return (
+    <table className="table facts" data-testid={testId}>
+      <caption>{caption}</caption>
+      <tbody>
+        {rows.length === 0 ? (
+          <tr>
+            <td>{empty}</td>
+          </tr>
+        ) : (
+          rows.map(([key, value]) => (
+            <tr key={key}>
+              <th scope="row">{key}</th>
+              <td>{value}</td>
+            </tr>
+          ))
+        )}
+      </tbody>
+    </table>
+  );
+}
+
 export function RunDetailView({ id }: { id: string }) {
   const { stores } = useApp();
   const theme = useEffectiveTheme();
@@ -73,17 +95,7 @@ export function RunDetailView({ id }: { id: string }) {
           {opened.rows} readings · status {meta.status} · {runWindow(meta)}
         </summary>
         <div className="facts-grid">
-          <table className="table facts" data-testid="run-plan">
-            <caption>Plan settings</caption>
-            <tbody>
-              {planRows(meta.plan).map(([key, value]) => (
-                <tr key={key}>
-                  <th scope="row">{key}</th>
-                  <td>{value}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <FactsTable caption="Plan settings" rows={planRows(meta.plan)} empty="no plan recorded" testId="run-plan" />
           <div>
             <table className="table facts" data-testid="run-instruments">
               <caption>Instruments</caption>
@@ -104,23 +116,7 @@ export function RunDetailView({ id }: { id: string }) {
                 )}
               </tbody>
             </table>
-            <table className="table facts" data-testid="run-conditions">
-              <caption>Conditions</caption>
-              <tbody>
-                {conditionRows(meta).length === 0 ? (
-                  <tr>
-                    <td>not recorded for this run</td>
-                  </tr>
-                ) : (
-                  conditionRows(meta).map(([key, value]) => (
-                    <tr key={key}>
-                      <th scope="row">{key}</th>
-                      <td>{value}</td>
-                    </tr>
-                  ))
-                )}
-              </tbody>
-            </table>
+            <FactsTable caption="Conditions" rows={conditionRows(meta)} empty="not recorded for this run" testId="run-conditions" />
           </div>
         </div>
       </details>
