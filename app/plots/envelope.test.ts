@@ -27,6 +27,13 @@ describe('min/max envelope of a dense trace', () => {
     expect(env.series[0]?.mid.slice(0, 3)).toEqual([13_770, 13_780, 13_780]);
   });
 
+  it('with four readings a slice at the least, 600 readings on a wide plot make 150 slices, not 400 single-reading ones', () => {
+    const env = envelope(x, [f], n, 0, 599, 400, 200, 4);
+    expect(env.dense).toBe(true);
+    expect(env.x).toHaveLength(150);
+    expect(env.series[0]?.lo.every((v) => v === 13_770)).toBe(true);
+  });
+
   it('a slice with only failed readings is a gap (null), not a zero', () => {
     const withGap = Float64Array.from(f);
     for (let i = 60; i < 72; i += 1) withGap[i] = Number.NaN;

@@ -40,12 +40,23 @@ const cell = (value: number | null | undefined): number | null => (value === nul
  * give mean, min and max per series (null where a slice holds no valid value,
  * so the line breaks at a gap).
  */
-export function envelope(x: ArrayLike<number>, ys: readonly ArrayLike<number | null>[], n: number, from: number, to: number, slices: number, maxPoints: number): Envelope {
+export function envelope(
+  x: ArrayLike<number>,
+  ys: readonly ArrayLike<number | null>[],
+  n: number,
+  from: number,
+  to: number,
+  maxSlices: number,
+  maxPoints: number,
+  /** Fewest readings a slice should hold on average (a band needs several to show a spread). */
+  minPerSlice = 1,
+): Envelope {
   const i0 = Math.max(0, lowerBound(x, from, n) - 1);
   let after = lowerBound(x, to, n);
   while (after < n && (x[after] as number) <= to) after += 1;
   const i1 = Math.min(n, after + 1);
   const count = Math.max(0, i1 - i0);
+  const slices = Math.min(maxSlices, Math.floor(count / Math.max(1, minPerSlice)));
   if (count <= maxPoints || slices < 1 || !(to > from)) {
     const xs: number[] = [];
     const series = ys.map((): EnvelopeSeries => ({ mid: [], lo: [], hi: [] }));

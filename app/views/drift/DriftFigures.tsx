@@ -83,8 +83,8 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     const from = view ? view.xMin : (x[0] ?? 0);
     const to = view ? view.xMax : (x[n - 1] ?? 0);
     const px = Math.max(100, view?.widthPx ?? widthPx);
-    // Slices 4 px wide: wide enough that a reading flipping between two counts becomes a band, narrow enough to follow drift.
-    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4));
+    // Slices at least 4 px and 4 readings wide: a reading flipping between two counts becomes a band, and drift still shows.
+    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
     dense.current = env.dense;
     const [freq, temp] = env.series as [EnvelopeSeries, EnvelopeSeries];
     return [env.x, freq.mid, freq.lo, freq.hi, temp.mid] as uPlot.AlignedData;
