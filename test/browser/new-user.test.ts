@@ -199,7 +199,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await page.emulateMedia({ colorScheme: 'dark' });
     await page.setViewportSize({ width: 1280, height: 800 });
     await shot(page, '10-drift-running-1280-dark');
-  });
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
   it('pause shows since when and where the control sits; stopping asks first, then says "safe state reached"', async () => {
     await page.click(byId('pause-run'));
@@ -222,7 +222,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await textMatches(page, 'strip-safe', /^Safe state reached \d\d:\d\d:\d\d · output off$/);
     await page.waitForSelector(`${byId('strip-output')}[data-output="off"]`);
     await shot(page, '13-safe-state-reached');
-  });
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
   it('runs an up-down sweep and shows both directions, their readout and the hysteresis', async () => {
     await page.click(byId('nav-sweep'));
@@ -250,7 +250,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     // Rising with the voltage on this oscillator: B lies right of A, so the slope is positive.
     expect(deltas).not.toMatch(/slope −/);
     await shot(page, '14-sweep-up-down');
-  });
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
   it('exports the sweep plot as PNG and SVG and its data as CSV', async () => {
     const saved: Record<string, Buffer> = {};
@@ -271,7 +271,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     const csv = (saved.csv?.toString('utf8') ?? '').trim().split(/\r\n/);
     expect(csv[0]).toBe('Control,Rising,Falling,Fitted curve');
     expect(csv.length).toBeGreaterThan(20);
-  });
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
   it('sorts and filters the archive, shows Kvco per sweep, and overlays two sweeps with a difference plot', async () => {
     await page.click(byId('nav-runs'));
@@ -286,7 +286,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     for (const run of sweeps.slice(0, 2)) await page.check(byId(`run-pick-${run.id}`));
     await page.waitForSelector(byId('difference-plot'), { timeout: 20_000 });
     await shot(page, '15-archive-overlay-difference');
-  });
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
   it('looks right on every screen at 1280×800 and 1920×1080 in both themes', async () => {
     for (const [width, height] of [
