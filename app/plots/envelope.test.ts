@@ -43,6 +43,16 @@ describe('min/max envelope of a dense trace', () => {
     expect(env.series[0]?.lo[12]).toBe(13_770);
   });
 
+  it('a stretch with no readings at all (a pause) breaks the line instead of joining across it', () => {
+    // Readings at 0…99 s and 200…299 s; nothing in between.
+    const xs = Float64Array.from({ length: 200 }, (_, i) => (i < 100 ? i : i + 100));
+    const fs = Float64Array.from({ length: 200 }, () => 13_780);
+    const env = envelope(xs, [fs], 200, 0, 299, 30, 20);
+    const gapSlices = env.x.filter((t, k) => t > 100 && t < 200 && env.series[0]?.mid[k] === null);
+    expect(gapSlices.length).toBeGreaterThanOrEqual(9);
+    expect(env.series[0]?.mid.filter((v) => v !== null).every((v) => v === 13_780)).toBe(true);
+  });
+
   it('finds the first index at or after a time', () => {
     expect(lowerBound(x, 99.5)).toBe(100);
     expect(lowerBound(x, -1)).toBe(0);

@@ -74,7 +74,7 @@ export function envelope(
   }
   const width = (to - from) / slices;
   const xs: number[] = [];
-  const series = ys.map((): EnvelopeSeries => ({ mid: [], lo: [], hi: [] }));
+  const series: EnvelopeSeries[] = ys.map((): EnvelopeSeries => ({ mid: [], lo: [], hi: [] }));
   let i = i0;
   for (let b = 0; b < slices && i < i1; b += 1) {
     const end = b === slices - 1 ? Number.POSITIVE_INFINITY : from + (b + 1) * width;
@@ -84,7 +84,18 @@ export function envelope(
       sumX += x[i] as number;
       i += 1;
     }
-    if (i === start) continue;
+    if (i === start) {
+      // No reading in this slice (a pause, a gap in the log): break the line rather than draw across it.
+      if (xs.length > 0 && (b === slices - 1 || i < i1)) {
+        xs.push(from + (b + 0.5) * width);
+        for (const s of series) {
+          s.mid.push(null);
+          s.lo.push(null);
+          s.hi.push(null);
+        }
+      }
+      continue;
+    }
     xs.push(sumX / (i - start));
     ys.forEach((y, k) => {
       let lo = Number.POSITIVE_INFINITY;

@@ -156,7 +156,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 width,
                 height,
                 [{ label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) }, pointSeries('Frequency', colors.series[0], 'Hz', { points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] } }), lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 })],
-                [{ ...siAxis(colors, 'Temperature', '°C'), values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
+                [{ ...siAxis(colors, 'Temperature', '°C'), space: 72, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
               )
             }
           />
