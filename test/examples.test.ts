@@ -7,6 +7,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from '../app/contract/plans.ts';
 import { parseAddress } from '../main/instruments/address.ts';
+import { campaignPlanSchema } from '../app/contract/campaign-plan.ts';
 
 const dir = join(import.meta.dirname, '..', 'resources', 'examples');
 const read = (name: string): unknown => JSON.parse(readFileSync(join(dir, name), 'utf8'));
@@ -17,6 +18,7 @@ describe('shipped example files', () => {
     expect(files).toEqual([
       'bench-serial-and-socket.json',
       'bench-sim-over-tcp.json',
+      'campaign-sensor-if.json',
       'drift-overnight.json',
       'pushing-3v3-rail.json',
       'sweep-clock-multiplier.json',
@@ -42,5 +44,9 @@ describe('shipped example files', () => {
     const pushing = pushingPlanSchema.parse(read('pushing-3v3-rail.json'));
     expect(pushing.supplyStepV).toBeCloseTo(0.05, 15);
     expect(pushing.maxSupplyV).toBe(3.6);
+    const campaign = campaignPlanSchema.parse(read('campaign-sensor-if.json'));
+    expect(campaign.temperaturesC).toEqual([-10, 25, 60]);
+    expect(campaign.soak.dwellS).toBe(300);
+    expect(campaign.sweep.limits.maxControlV).toBe(5);
   });
 });

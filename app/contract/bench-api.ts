@@ -53,6 +53,8 @@ export interface RunMeta {
   software: { version: string };
   /** Conditions read at the start and end of the run (sweeps; absent in older runs). */
   conditions?: RecordedConditions;
+  /** True when the run was taken on the simulated bench (absent: real instruments, or an older run — see isSimulatedBench). */
+  simulated?: boolean;
 }
 
 /** A condition read at the start and at the end of a run; null when it could not be read. */
@@ -177,7 +179,9 @@ export type BenchEvent =
   | { type: 'run-ended'; meta: RunMeta }
   | { type: 'run-event'; runId: string; event: RunEvent }
   | { type: 'bench-status'; status: BenchStatus }
-  | { type: 'error'; message: string };
+  | { type: 'error'; message: string }
+  /** Browser mode: how many other pages drive the same bench (any of them can stop, pause or rename a run). */
+  | { type: 'peers'; others: number };
 
 export interface SerialPortInfo {
   path: string;
@@ -204,7 +208,11 @@ export interface BenchApi {
   startPushing(plan: PushingPlan, dutId: string): Promise<RunMeta>;
   pauseRun(): Promise<void>;
   resumeRun(): Promise<void>;
-  /** Clean stop: drift ends as `complete`, a sweep as `aborted`. */
+  /**
+   * Clean stop: drift ends as `complete`, a sweep as `aborted`. Resolves as
+   * soon as the run has been told to stop (served before anything else
+   * queued); the safe state follows, and `run-ended` says when it is done.
+   */
   stopRun(): Promise<void>;
 
   listRuns(): Promise<RunMeta[]>;

@@ -5,6 +5,7 @@
  * accepted and converted here, so nothing downstream sees a string.
  */
 import { z } from 'zod';
+import { excerptOf } from './excerpt.ts';
 import { parseDurationS, parseSiNumber } from './si.ts';
 
 /** A number, or a string such as "250m" / "1.5k". */
@@ -12,19 +13,19 @@ const numberOrPrefixed = z.union([z.number(), z.string()], {
   error: (issue) =>
     issue.input === undefined
       ? 'required: a number, optionally with an SI prefix (e.g. 0.25 or "250m")'
-      : `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${JSON.stringify(issue.input)}`,
+      : `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${excerptOf(issue.input)}`,
 });
 const durationOrText = z.union([z.number(), z.string()], {
   error: (issue) =>
     issue.input === undefined
       ? 'required: a duration such as 90, "90s", "15m" or "8h"'
-      : `expected a duration such as 90, "90s", "15m" or "8h", got ${JSON.stringify(issue.input)}`,
+      : `expected a duration such as 90, "90s", "15m" or "8h", got ${excerptOf(issue.input)}`,
 });
 
 export const siNumber = numberOrPrefixed.transform((value, ctx) => {
   const parsed = typeof value === 'number' ? value : parseSiNumber(value);
   if (parsed === null || !Number.isFinite(parsed)) {
-    ctx.addIssue({ code: 'custom', message: `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${JSON.stringify(value)}` });
+    ctx.addIssue({ code: 'custom', message: `expected a number, optionally with an SI prefix (e.g. 0.25 or "250m"), got ${excerptOf(value)}` });
     return z.NEVER;
   }
   return parsed;
@@ -34,7 +35,7 @@ export const siNumber = numberOrPrefixed.transform((value, ctx) => {
 export const durationS = durationOrText.transform((value, ctx) => {
   const parsed = typeof value === 'number' ? value : parseDurationS(value);
   if (parsed === null || !(parsed >= 0)) {
-    ctx.addIssue({ code: 'custom', message: `expected a duration such as 90, "90s", "15m" or "8h", got ${JSON.stringify(value)}` });
+    ctx.addIssue({ code: 'custom', message: `expected a duration such as 90, "90s", "15m" or "8h", got ${excerptOf(value)}` });
     return z.NEVER;
   }
   return parsed;
@@ -74,8 +75,13 @@ export const sweepPlanSchema = z
     refineEdgeV: siNumber.default(0.001),
     limits: limitsSchema,
     safe: safeStateSchema.default({ controlV: 0, outputOff: true }),
+    /** Tuning window the PLL can drive (its charge pump's compliance), V: the gain table quotes Kvco over it. */
+    window: z.strictObject({ fromV: siNumber, toV: siNumber }).optional(),
   })
   .superRefine((plan, ctx) => {
+    if (plan.window && !(plan.window.toV > plan.window.fromV)) {
+      ctx.addIssue({ code: 'custom', path: ['window', 'toV'], message: `must be above window.fromV (${plan.window.fromV} V)` });
+    }
     if (plan.points === undefined) {
       for (const key of ['start', 'stop', 'step'] as const) {
         if (plan[key] === undefined) ctx.addIssue({ code: 'custom', path: [key], message: `required unless "points" is given` });
@@ -123,6 +129,8 @@ export const benchConfigSchema = z.object({
   }),
   counter: instrumentConfigSchema,
   thermometer: instrumentConfigSchema.optional(),
+  /** Temperature chamber (campaigns only); the thermometer on the DUT is the soak reference. */
+  chamber: instrumentConfigSchema.optional(),
 });
 
 export type SweepPlan = z.output<typeof sweepPlanSchema>;

@@ -15,6 +15,8 @@ export interface ConnectionStoreState {
   profiles: { name: string; role: string }[];
   busy: boolean;
   error: string | null;
+  /** Browser mode: other pages driving the same bench right now (0 on the desktop). */
+  peers: number;
 }
 
 export interface ConnectionActions {
@@ -26,6 +28,7 @@ export interface ConnectionActions {
   setStatus(status: BenchStatus): void;
   /** Opens the last bench again (after a lost link). */
   reconnect(): Promise<boolean>;
+  setPeers(others: number): void;
 }
 
 export type ConnectionStore = StoreApi<ConnectionStoreState & ConnectionActions>;
@@ -54,6 +57,7 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       profiles: [],
       busy: false,
       error: null,
+      peers: 0,
       async refresh() {
         await guarded(async () => {
           const [connection, ports, profiles, status] = await Promise.all([bench.getConnection(), bench.listSerialPorts(), bench.listProfiles(), bench.getBenchStatus()]);
@@ -84,6 +88,9 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       reconnect() {
         const config = get().lastConfig;
         return config === null ? Promise.resolve(false) : get().connect(config);
+      },
+      setPeers(others) {
+        set({ peers: others });
       },
     };
   });

@@ -1,26 +1,38 @@
 /**
- * `tunebench analyze RUN_DIR|FILE.csv [--json] [--fit poly:N|auto]`
+ * `tunebench analyze RUN_DIR|FILE.csv [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B] [--keep-unsettled]`
  */
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
-import { analyzeTable, parseFitSpec } from '../../app/analysis/analyze-table.ts';
+import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
+import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
 import { CsvError } from '../../app/analysis/csv-input.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
+import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
+import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench analyze RUN_DIR|FILE.csv [--json] [--fit poly:N|auto]
+const usage = `usage: tunebench analyze RUN_DIR|CAMPAIGN_DIR|FILE.csv [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
 
 Analyses a sweep, drift or pushing run folder, or a plain CSV file:
   sweep CSV:   columns control_v, frequency_hz (rows sharing control_v are one point;
                empty, NaN, 0 or 9.91E37 = no oscillation); optional direction, status
   drift CSV:   columns time_s, frequency_hz, optional temperature_c
   pushing CSV: columns supply_v, frequency_hz
+  campaign folder (campaign.json): every condition's sweep, tempcos, pushing, headroom
 
 options:
   --json            machine-readable result (keys as documented in CONTRACTS.md)
-  --fit poly:N|auto polynomial degree 1–6 for the tuning curve, or auto (AICc; default)
+  --fit spline|poly:N|auto  tuning-curve model: penalised cubic regression spline (default; smoothing by
+                    generalised cross-validation, monotone where the data allow), polynomial degree 1–6,
+                    or a polynomial of the degree AICc picks
+  --fit-range all|usable|A:B  points the model is fitted to: the automatic usable range (default; the
+                    window when one is given), every oscillating point, or A…B volts (e.g. 1.2:3.8)
+  --window A:B      tuning window the PLL can drive, volts: Kvco min/typ/max and linearity are taken
+                    over it (default: the plan's window, else the usable range); refused outside the
+                    measured oscillating range
+  --keep-unsettled  keep points that hit the settle timeout in the fit (default: left out, with a note)
   --linearity-limit PCT  limit for the widest linear range, ± % of span (default 5)
   --nominal V       control voltage of the nominal point for Kvco (default: middle of the usable range)
 `;
@@ -34,17 +46,47 @@ export const analyzeCommand: CliCommand = {
   summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal'], booleans: ['json'] });
+    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window'], booleans: ['json', 'keep-unsettled'] });
     if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR or FILE.csv');
-    const fitText = flags.values.get('fit') ?? 'auto';
+    const fitText = flags.values.get('fit') ?? 'spline';
     const fit = parseFitSpec(fitText);
-    if (fit === null) throw new UsageError(`--fit: "${fitText}" is not poly:N (N = 1…6) or auto`);
+    if (fit === null) throw new UsageError(`--fit: "${fitText}" is not spline, poly:N (N = 1…6) or auto`);
+    const rangeText = flags.values.get('fit-range');
+    let fitRange: SweepOptions['fitRange'];
+    if (rangeText === 'all' || rangeText === 'usable') fitRange = rangeText;
+    else if (rangeText !== undefined) {
+      const r = parseVoltRange(rangeText, parseSiNumber);
+      if (!r) throw new UsageError(`--fit-range: "${rangeText}" is not all, usable or A:B volts with A < B (e.g. 1.2:3.8)`);
+      fitRange = r;
+    }
+    const windowText = flags.values.get('window');
+    let flagWindow: { fromV: number; toV: number } | undefined;
+    if (windowText !== undefined) {
+      const r = parseVoltRange(windowText, parseSiNumber);
+      if (!r) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
+      flagWindow = r;
+    }
     const linearityLimitPct = positiveNumber(flags.values.get('linearity-limit'), 'linearity-limit', 'a percentage > 0 (e.g. 5)');
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
+    if (await isCampaignDir(flags.positionals[0] as string)) {
+      const { file, analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
+      if (flags.booleans.has('json')) io.stdout.write(`${JSON.stringify({ ...analysis, campaign: { id: file.id, status: file.status } }, null, 2)}\n`);
+      else io.stdout.write(`campaign ${file.id}, status ${file.status}\n${renderCampaignMarkdown(analysis)}`);
+      return 0;
+    }
     const source = await loadAnalysisSource(flags.positionals[0] as string);
     let result;
     try {
-      result = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { fit, linearityLimitPct, nominalV } });
+      const window: SweepOptions['window'] = flagWindow
+        ? { ...flagWindow, source: 'flag' }
+        : source.window
+          ? { ...source.window, source: 'plan' }
+          : undefined;
+      result = analyzeTable(source.kind, source.table, {
+        gateS: source.gateS,
+        events: source.events ?? undefined,
+        sweep: { fit, linearityLimitPct, nominalV, fitRange, window, keepUnsettled: flags.booleans.has('keep-unsettled') },
+      });
     } catch (error) {
       if (error instanceof CsvError) throw new UsageError(`${source.path}: ${error.message}`);
       if (error instanceof AnalysisError) {

@@ -72,7 +72,7 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
             testId="hysteresis"
           />
         ) : null}
-        <Figure label="Fit" value={a ? `polynomial, degree ${a.fit.degree}` : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
+        <Figure label="Fit" value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
       </dl>
       {a && a.warnings.length > 0 ? (
         <ul className="warnings" data-testid="analysis-warnings">
