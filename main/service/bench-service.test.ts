@@ -148,6 +148,8 @@ describe('BenchApi service', () => {
     await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.paused !== null));
     expect((await service.getBenchStatus()).paused).toMatchObject({ controlV: 2 });
     await service.stopRun();
+    // The run's end is recorded, then the status goes back to the idle poll.
+    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.safeState !== null));
     const after = await service.getBenchStatus();
     expect(after).toMatchObject({ source: 'idle', output: false, controlSetV: 0, paused: null, safeState: { reached: true, outputOff: true, failures: [] } });
     expect(Date.parse(after.safeState?.at ?? '')).toBeGreaterThan(0);
