@@ -11,7 +11,10 @@ import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
 import { hasUnsafeChars } from './excerpt.ts';
 import { MAX_IMPORT_BYTES, MAX_IMPORT_TEXT } from './wire.ts';
-import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from './plans.ts';
+import { benchConfigSchema, driftPlanSchema, limitsSchema, pushingPlanSchema, siNumber, sweepPlanSchema } from './plans.ts';
+
+/** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
+export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
 
 /**
  * A run id names a folder under the runs directory, so it may never carry a
@@ -71,6 +74,8 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   connect: params(['config'], [z.union([z.literal('sim'), benchConfigSchema])]),
   disconnect: none(),
   getConnection: none(),
+  getBenchStatus: none(),
+  manualControl: params(['request'], [manualControlSchema]),
   startSweep: params(['plan', 'dutId'], [sweepPlanSchema, dutIdSchema]),
   startDrift: params(['plan', 'dutId'], [driftPlanSchema, dutIdSchema]),
   startPushing: params(['plan', 'dutId'], [pushingPlanSchema, dutIdSchema]),

@@ -16,7 +16,7 @@ import type { KnownShape } from './known-shape.ts';
 import type { BenchConfig, DriftPlan, PushingPlan, SweepPlan } from './plans.ts';
 import type { ReadingStatus } from './reading-status.ts';
 import type { runMetaSchema } from './run-meta-schema.ts';
-import type { connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
+import type { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
 export type RunKind = 'sweep' | 'drift' | 'pushing';
 export type SampleStatus = ReadingStatus;
@@ -78,6 +78,26 @@ export interface RunDetail {
 }
 
 
+/** Whether main can talk to one instrument; `lost` after a read failed for want of a link (detail: why). */
+export type RoleLinkStatus = BenchStatus['links'][number];
+
+/** How the last run left the supply: every safe-state step and whether each worked ("step: error" per failure). */
+export type SafeStateReport = NonNullable<BenchStatus['safeState']>;
+
+/**
+ * What the bench is doing now, for the status strip on every screen. During a
+ * run every figure comes from the run's own readings and events (no second
+ * query stream competes with the procedure); while idle from the live poll.
+ */
+export type BenchStatus = KnownShape<z.output<typeof benchStatusSchema>>;
+
+/** A bring-up setting for the control channel, outside any run, under the same limits. */
+export interface ManualControlRequest {
+  controlV: number;
+  output: boolean;
+  limits: { maxControlV: number; currentLimitA: number; ovpV?: number | undefined };
+}
+
 /** Events pushed from main to the renderer. */
 export type BenchEvent =
   | { type: 'connection'; state: ConnectionState }
@@ -87,6 +107,7 @@ export type BenchEvent =
   | { type: 'progress'; progress: ProgressInfo }
   | { type: 'run-ended'; meta: RunMeta }
   | { type: 'run-event'; runId: string; event: RunEvent }
+  | { type: 'bench-status'; status: BenchStatus }
   | { type: 'error'; message: string }
   /** Browser mode: how many other pages drive the same bench (any of them can stop, pause or rename a run). */
   | { type: 'peers'; others: number };
@@ -102,6 +123,14 @@ export interface BenchApi {
   connect(config: BenchConfig | 'sim'): Promise<ConnectionState>;
   disconnect(): Promise<ConnectionState>;
   getConnection(): Promise<ConnectionState>;
+  /** The bench status as the strip shows it (also pushed as `bench-status` events). */
+  getBenchStatus(): Promise<BenchStatus>;
+  /**
+   * Bring-up: sets the control voltage and output by hand while no run holds
+   * the bench. Limits are checked and applied first, the supply is read back;
+   * disconnecting or closing leaves it in the safe state.
+   */
+  manualControl(request: ManualControlRequest): Promise<BenchStatus>;
 
   startSweep(plan: SweepPlan, dutId: string): Promise<RunMeta>;
   startDrift(plan: DriftPlan, dutId: string): Promise<RunMeta>;

@@ -43,3 +43,21 @@ export const progressSchema = z.looseObject({
     .looseObject({ controlV: z.number(), frequencyHz: nullableNumber, status: z.enum(READING_STATUSES) })
     .nullable(),
 });
+
+const isoTime = z.string().min(1);
+
+export const benchStatusSchema = z.looseObject({
+  source: z.enum(['run', 'idle', 'none']),
+  output: z.boolean().nullable(),
+  controlSetV: nullableNumber,
+  controlMeasV: nullableNumber,
+  frequencyHz: nullableNumber,
+  temperatureC: nullableNumber,
+  updatedAt: isoTime.nullable(),
+  links: z.array(z.looseObject({ role: z.enum(['supply', 'counter', 'thermometer']), state: z.enum(['up', 'lost']), detail: z.string().nullable() })),
+  paused: z.looseObject({ since: isoTime, controlV: nullableNumber }).nullable(),
+  safeState: z
+    .looseObject({ runId: z.string(), reached: z.boolean(), at: isoTime, outputOff: z.boolean(), failures: z.array(z.string()) })
+    .nullable(),
+});
+

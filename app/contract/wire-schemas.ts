@@ -7,7 +7,7 @@
 import { z } from 'zod';
 import type { BenchMethod, CodedTextColumn } from './bench-api.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
-import { connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
+import { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
 
 
@@ -104,6 +104,8 @@ export const runDetailSchema = z.looseObject({
   events: z.array(z.looseObject({ time_s: z.number(), type: z.string() })),
 });
 
+export { benchStatusSchema } from './state-schemas.ts';
+
 export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('connection'), state: connectionStateSchema }),
   z.object({ type: z.literal('live'), readout: readoutSchema }),
@@ -116,6 +118,7 @@ export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('progress'), progress: progressSchema }),
   z.object({ type: z.literal('run-ended'), meta: runMetaSchema }),
   z.object({ type: z.literal('run-event'), runId: z.string(), event: z.looseObject({ time_s: z.number(), type: z.string() }) }),
+  z.object({ type: z.literal('bench-status'), status: benchStatusSchema }),
   z.object({ type: z.literal('error'), message: z.string() }),
   z.object({ type: z.literal('peers'), others: z.number().int().nonnegative() }),
 ]);
@@ -135,6 +138,8 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   connect: connectionStateSchema,
   disconnect: connectionStateSchema,
   getConnection: connectionStateSchema,
+  getBenchStatus: benchStatusSchema,
+  manualControl: benchStatusSchema,
   startSweep: runMetaSchema,
   startDrift: runMetaSchema,
   startPushing: runMetaSchema,

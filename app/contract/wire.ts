@@ -62,6 +62,8 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'connect',
   'disconnect',
   'getConnection',
+  'getBenchStatus',
+  'manualControl',
   'startSweep',
   'startDrift',
   'startPushing',

@@ -127,6 +127,30 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
       return connection;
     },
     getConnection: async () => connection,
+    manualControl: async (request) => ({
+      source: 'idle',
+      output: request.output,
+      controlSetV: request.controlV,
+      controlMeasV: request.controlV,
+      frequencyHz: null,
+      temperatureC: null,
+      updatedAt: new Date().toISOString(),
+      links: connection.roles.map((r) => ({ role: r.role, state: 'up' as const, detail: null })),
+      paused: null,
+      safeState: null,
+    }),
+    getBenchStatus: async () => ({
+      source: connection.connected ? 'idle' : 'none',
+      output: connection.connected ? false : null,
+      controlSetV: null,
+      controlMeasV: null,
+      frequencyHz: null,
+      temperatureC: null,
+      updatedAt: null,
+      links: connection.roles.map((r) => ({ role: r.role, state: 'up' as const, detail: null })),
+      paused: null,
+      safeState: null,
+    }),
     async startSweep(plan: SweepPlan, dutId) {
       const meta = newMeta('sweep', dutId, plan);
       const start = plan.start ?? 0;

@@ -2,6 +2,7 @@
 import type uPlot from 'uplot';
 import { formatSiOrDash as si, siPrefixFor } from '../analysis/format-si.ts';
 import type { PlotColors } from './plot-colors.ts';
+import { TIME_STEPS_S, timeTickLabel } from './time-ticks.ts';
 
 export function siAxis(colors: PlotColors, label: string, unit: string, extra: Partial<uPlot.Axis> = {}): uPlot.Axis {
   return {
@@ -44,16 +45,17 @@ export function logSiAxis(colors: PlotColors, label: string, unit: string): uPlo
   return { ...siAxis(colors, label, unit), values: (_u, values) => values.map((value) => (value === null ? '' : si(value, unit, 2))) };
 }
 
-/** Time axis in s, min or h depending on the span shown, so a night's log reads in hours. */
-export function timeAxis(colors: PlotColors, label = 'Time'): uPlot.Axis {
+/**
+ * Time axis in round clock units (./time-ticks.ts): ticks on whole seconds,
+ * minutes, hours or days, labelled as a clock would, spaced so labels never
+ * touch. `startMs` (the log's start) lets multi-day logs read in dates.
+ */
+export function timeAxis(colors: PlotColors, label = 'Time', startMs: number | null = null): uPlot.Axis {
   return {
     ...siAxis(colors, label, 's'),
-    values: (u, values, _axis, _space, incr) => {
-      const span = (u.scales.x?.max ?? 0) - (u.scales.x?.min ?? 0);
-      const [scale, unit] = span >= 7200 ? [3600, 'h'] : span >= 120 ? [60, 'min'] : [1, 's'];
-      const decimals = decimalsFor(incr / scale);
-      return values.map((value) => (value === null ? '' : `${(value / scale).toFixed(decimals)} ${unit}`));
-    },
+    incrs: [...TIME_STEPS_S],
+    space: 78,
+    values: (_u, values, _axis, _space, incr) => values.map((value) => (value === null ? '' : timeTickLabel(value, incr, startMs))),
   };
 }
 
@@ -88,4 +90,13 @@ export function baseOptions(width: number, height: number, series: uPlot.Series[
     cursor: { drag: { x: true, y: false } },
     ...extra,
   };
+}
+
+/** A theme colour (#rrggbb or #rgb) at the given opacity; other forms pass through. */
+export function withAlpha(color: string, alpha: number): string {
+  const hex = /^#([0-9a-f]{3}|[0-9a-f]{6})$/i.exec(color.trim());
+  if (!hex) return color;
+  const digits = (hex[1] as string).length === 3 ? [...(hex[1] as string)].map((c) => c + c).join('') : (hex[1] as string);
+  const [r, g, b] = [0, 2, 4].map((i) => parseInt(digits.slice(i, i + 2), 16));
+  return `rgba(${r}, ${g}, ${b}, ${alpha})`;
 }

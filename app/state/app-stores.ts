@@ -4,6 +4,7 @@
  */
 import type { BenchApi, BenchEvent } from '../contract/bench-api.ts';
 import { createConnectionStore, type ConnectionStore } from './connection-store.ts';
+import { columnSetFromStored, rowCount } from './columns.ts';
 import { createLiveRunStore, type LiveRunStore } from './live-run-store.ts';
 import { createRunsStore, type RunsStore } from './runs-store.ts';
 import { createSettingsStore, type KeyValue, type SettingsStore } from './settings-store.ts';
@@ -58,6 +59,9 @@ export function routeEvent(stores: AppStores, event: BenchEvent): void {
     case 'run-event':
       stores.liveRun.getState().runEvent(event.runId, event.event);
       break;
+    case 'bench-status':
+      stores.connection.getState().setStatus(event.status);
+      break;
     case 'error':
       stores.notice.setState({ message: event.message });
       break;
@@ -70,4 +74,21 @@ export function routeEvent(stores: AppStores, event: BenchEvent): void {
 /** Subscribes the stores to the bench's events; returns the unsubscribe. */
 export function connectStores(bench: BenchApi, stores: AppStores): () => void {
   return bench.subscribe((event) => routeEvent(stores, event));
+}
+
+/**
+ * After a reload: a run main is still recording becomes this window's live
+ * run again (its stored readings so far, then the pushed batches), so the
+ * status strip, progress and plots carry on where they were.
+ */
+export async function restoreRunContext(bench: BenchApi, stores: AppStores): Promise<void> {
+  if (stores.liveRun.getState().meta) return;
+  const [status, runs] = await Promise.all([bench.getBenchStatus(), bench.listRuns()]);
+  if (status.source !== 'run') return;
+  const running = runs.filter((run) => run.status === 'running').sort((a, b) => b.startedAt.localeCompare(a.startedAt))[0];
+  if (!running) return;
+  const detail = await bench.openRun(running.id);
+  if (stores.liveRun.getState().meta) return;
+  const columns = columnSetFromStored(detail.samples.numeric, detail.samples.text);
+  stores.liveRun.getState().resumed(detail.meta, columns, rowCount(columns), detail.events);
 }

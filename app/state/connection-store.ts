@@ -1,12 +1,16 @@
 /** The bench connection: role identities, live readouts, ports and profiles on offer. */
 import { createStore, type StoreApi } from 'zustand/vanilla';
-import type { BenchApi, ConnectionState, LiveReadout, SerialPortInfo } from '../contract/bench-api.ts';
+import type { BenchApi, BenchStatus, ConnectionState, LiveReadout, SerialPortInfo } from '../contract/bench-api.ts';
 import type { BenchConfig } from '../contract/plans.ts';
 import { errorText } from '../bridge/bench-call-error.ts';
 
 export interface ConnectionStoreState {
   connection: ConnectionState;
   readout: LiveReadout | null;
+  /** What the bench is doing (main's status: the run's own readings during a run). */
+  status: BenchStatus | null;
+  /** The last bench asked for, so a lost link can be reopened with one click. */
+  lastConfig: BenchConfig | 'sim' | null;
   ports: SerialPortInfo[];
   profiles: { name: string; role: string }[];
   busy: boolean;
@@ -21,6 +25,9 @@ export interface ConnectionActions {
   disconnect: () => Promise<void>;
   setConnection: (state: ConnectionState) => void;
   setReadout: (readout: LiveReadout) => void;
+  setStatus: (status: BenchStatus) => void;
+  /** Opens the last bench again (after a lost link). */
+  reconnect: () => Promise<boolean>;
   setPeers: (others: number) => void;
 }
 
@@ -29,7 +36,7 @@ export type ConnectionStore = StoreApi<ConnectionStoreState & ConnectionActions>
 export const DISCONNECTED: ConnectionState = { connected: false, simulated: false, roles: [], error: null };
 
 export function createConnectionStore(bench: BenchApi): ConnectionStore {
-  return createStore<ConnectionStoreState & ConnectionActions>()((set) => {
+  return createStore<ConnectionStoreState & ConnectionActions>()((set, get) => {
     async function guarded(work: () => Promise<void>): Promise<boolean> {
       set({ busy: true, error: null });
       try {
@@ -44,6 +51,8 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
     return {
       connection: DISCONNECTED,
       readout: null,
+      status: null,
+      lastConfig: null,
       ports: [],
       profiles: [],
       busy: false,
@@ -51,11 +60,12 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       peers: 0,
       async refresh() {
         await guarded(async () => {
-          const [connection, ports, profiles] = await Promise.all([bench.getConnection(), bench.listSerialPorts(), bench.listProfiles()]);
-          set({ connection, ports, profiles });
+          const [connection, ports, profiles, status] = await Promise.all([bench.getConnection(), bench.listSerialPorts(), bench.listProfiles(), bench.getBenchStatus()]);
+          set({ connection, ports, profiles, status });
         });
       },
       connect(config) {
+        set({ lastConfig: config });
         return guarded(async () => {
           const connection = await bench.connect(config);
           set({ connection, error: connection.error });
@@ -71,6 +81,13 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       },
       setReadout(readout) {
         set({ readout });
+      },
+      setStatus(status) {
+        set({ status });
+      },
+      reconnect() {
+        const config = get().lastConfig;
+        return config === null ? Promise.resolve(false) : get().connect(config);
       },
       setPeers(others) {
         set({ peers: others });

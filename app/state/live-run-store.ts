@@ -21,6 +21,8 @@ export interface LiveRunState {
 
 export interface LiveRunActions {
   started: (meta: RunMeta) => void;
+  /** A run already under way when this window (re)loaded: its stored readings so far, then live batches. */
+  resumed: (meta: RunMeta, columns: ColumnSet, rows: number, events: RunEvent[]) => void;
   samples: (runId: string, rows: readonly Record<string, number | string>[]) => void;
   progressed: (progress: ProgressInfo) => void;
   ended: (meta: RunMeta) => void;
@@ -44,6 +46,11 @@ export function createLiveRunStore(): LiveRunStore {
     started(meta) {
       // A fresh column set: the previous run's columns may still be on screen elsewhere.
       set({ meta, progress: null, columns: createColumnSet(), rows: 0, version: get().version + 1, events: [], active: true, paused: false });
+    },
+    resumed(meta, columns, rows, events) {
+      if (get().meta?.id === meta.id && get().active) return;
+      const paused = events.reduce((p, e) => (e.type === 'pause' || e.type === 'paused' ? true : e.type === 'resume' ? false : p), false);
+      set({ meta, progress: null, columns, rows, version: get().version + 1, events, active: meta.status === 'running', paused });
     },
     samples(runId, rows) {
       const { meta, columns } = get();

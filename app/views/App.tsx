@@ -10,6 +10,7 @@ import { DatasheetScreen } from './datasheet/DatasheetScreen.tsx';
 import { DriftScreen } from './drift/DriftScreen.tsx';
 import { LoopScreen } from './loop/LoopScreen.tsx';
 import { RunsScreen } from './runs/RunsScreen.tsx';
+import { StatusStrip } from './StatusStrip.tsx';
 import { SweepScreen } from './sweep/SweepScreen.tsx';
 
 const SCREEN_LABEL: Record<ScreenName, string> = {
@@ -75,6 +76,9 @@ export function App() {
 
   return (
     <div className="shell">
+      <a className="skip-link" href="#stage" data-testid="skip-link">
+        Skip to the screen
+      </a>
       <header className="topbar">
         <div className="brand">
           <span className="brand-mark" aria-hidden="true" />
@@ -86,6 +90,7 @@ export function App() {
           {THEME_LABEL[themeChoice]}
         </button>
       </header>
+      <StatusStrip />
       <LinkBanner />
       <PeerNotice />
       <Notice />
@@ -96,7 +101,7 @@ export function App() {
           </button>
         ))}
       </nav>
-      <main className="stage" key={`${screen}-${theme}`}>
+      <main className="stage" id="stage" tabIndex={-1} key={`${screen}-${theme}`}>
         {screen === 'bench' ? <BenchScreen /> : null}
         {screen === 'sweep' ? <SweepScreen /> : null}
         {screen === 'drift' ? <DriftScreen /> : null}

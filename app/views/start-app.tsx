@@ -7,7 +7,7 @@ import type { Root } from 'react-dom/client';
 import { z } from 'zod';
 import { StrictMode } from 'react';
 import type { Bridge } from '../bridge/pick-bridge.ts';
-import { connectStores, createAppStores } from '../state/app-stores.ts';
+import { connectStores, createAppStores, restoreRunContext } from '../state/app-stores.ts';
 import { App } from './App.tsx';
 import { AppContext } from './app-context.ts';
 import '../styles/base.css';
@@ -31,6 +31,7 @@ export function startApp(root: Root, bridge: Bridge): void {
   const refresh = () => {
     void stores.connection.getState().refresh();
     void stores.runs.getState().refresh();
+    void restoreRunContext(bridge.api, stores).catch(() => undefined);
   };
   if (bridge.link.getState() === 'open') refresh();
   bridge.link.subscribe((state) => {

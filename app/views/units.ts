@@ -37,3 +37,15 @@ export function when(iso: string): string {
 export function siTicks(unit: string, digits = 3) {
   return (_u: unknown, values: number[]) => values.map((value) => (value === null ? '' : si(value, unit, digits)));
 }
+
+/**
+ * A counter reading with the digits its resolution supports: a 0.1 s gate
+ * counts in 10 Hz steps, so 13 780 Hz reads "13.78 kHz", not "13.78000 kHz".
+ * Without a known resolution, 7 significant digits.
+ */
+export function hzAtResolution(value: number | null | undefined, resolutionHz: number | null | undefined): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  if (!resolutionHz || !(resolutionHz > 0) || value === 0) return hz(value, 7);
+  const digits = Math.floor(Math.log10(Math.abs(value))) - Math.floor(Math.log10(resolutionHz) + 1e-9) + 1;
+  return hz(value, Math.max(1, Math.min(12, digits)));
+}

@@ -70,7 +70,7 @@ describe('BenchApi service', () => {
 
   it('connects, pushes the connection and live readouts while idle', async () => {
     await expect(service.connect('sim')).resolves.toEqual(CONNECTED);
-    expect(events[0]).toEqual({ type: 'connection', state: CONNECTED });
+    expect(events.find((e) => e.type === 'connection')).toEqual({ type: 'connection', state: CONNECTED });
     await new Promise((resolve) => setTimeout(resolve, 200));
     const live = events.filter((e) => e.type === 'live');
     expect(live.length).toBeGreaterThanOrEqual(2);
@@ -130,6 +130,29 @@ describe('BenchApi service', () => {
     const afterEnd = events.length;
     await waitFor(() => events.slice(afterEnd).find((e) => e.type === 'live'));
     await expect(service.pauseRun()).rejects.toThrow(/no run in progress/);
+  });
+
+  it('publishes the bench status from the run itself: output on and its frequency, then the safe state', async () => {
+    await service.connect('sim');
+    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.output === false));
+    await service.startDrift(...validated('startDrift', { controlV: 2, intervalS: 1, durationS: '8h', limits: { maxControlV: 5, currentLimitA: 0.05 } }));
+    const samples = await waitFor(() => events.find((e) => e.type === 'samples'));
+    const during = await service.getBenchStatus();
+    expect(during).toMatchObject({ source: 'run', output: true, controlSetV: 2 });
+    // The strip's frequency is the run's own last reading, not a second query.
+    const sent = samples.type === 'samples' ? samples.rows.map((row) => row.frequency_hz) : [];
+    const runRows = events.flatMap((e) => (e.type === 'samples' ? e.rows : []));
+    expect(runRows.map((row) => row.frequency_hz)).toContain(during.frequencyHz);
+    expect(sent.length).toBeGreaterThan(0);
+    await service.pauseRun();
+    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.paused !== null));
+    expect((await service.getBenchStatus()).paused).toMatchObject({ controlV: 2 });
+    await service.stopRun();
+    // The run's end is recorded, then the status goes back to the idle poll.
+    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.safeState !== null));
+    const after = await service.getBenchStatus();
+    expect(after).toMatchObject({ source: 'idle', output: false, controlSetV: 0, paused: null, safeState: { reached: true, outputOff: true, failures: [] } });
+    expect(Date.parse(after.safeState?.at ?? '')).toBeGreaterThan(0);
   });
 });
 

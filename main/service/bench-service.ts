@@ -14,7 +14,9 @@ import { BenchApiError } from './errors.ts';
 import type { ImportStream } from './import-off-thread.ts';
 import type { BenchHolder, GuardCause } from './last-resort-guard.ts';
 import { EventHub } from './event-hub.ts';
+import { BenchStatusTracker } from './bench-status.ts';
 import { LivePoller } from './live-readout.ts';
+import { applyManualControl } from './manual-control.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
 
@@ -34,6 +36,8 @@ export interface BenchServiceOptions extends ServicePorts {
   livePeriodMs?: number;
   /** Real ms between sample batches during a run. Default 150. */
   batchMs?: number;
+  /** Wall clock for the status strip's times (tests pin it). */
+  now?: () => Date;
 }
 
 const DISCONNECTED: ConnectionState = { connected: false, simulated: false, roles: [], error: null };
@@ -46,18 +50,31 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   let live: LivePoller | null = null;
   let run: RunSession | null = null;
   let connecting = false;
+  /** What the open bench was opened from, to fall back to when a new connection is refused. */
+  let previousConfig: BenchConfig | 'sim' | null = null;
+  /** A bring-up setting left the output on: closing must put the supply in the safe state. */
+  let manualOutputOn = false;
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
   let starting = false;
 
+  const status = new BenchStatusTracker((state) => emit({ type: 'bench-status', status: state }), options.now);
+
   const setConnection = (state: ConnectionState): ConnectionState => {
     connection = state;
+    status.connected(state);
     emit({ type: 'connection', state });
     return state;
   };
 
   const startLive = (): void => {
     if (!bench || run) return;
-    live = new LivePoller({ roles: bench.roles, clock: bench.clock, periodMs: options.livePeriodMs, emit: (readout) => emit({ type: 'live', readout }) });
+    live = new LivePoller({
+      roles: bench.roles,
+      clock: bench.clock,
+      periodMs: options.livePeriodMs,
+      emit: (readout) => emit({ type: 'live', readout }),
+      onReading: (reading) => status.idle(reading),
+    });
     live.start();
   };
 
@@ -77,6 +94,16 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   const closeBench = async (): Promise<void> => {
     await endRunAndWait();
     await stopLive();
+    if (bench && manualOutputOn) {
+      const failures: string[] = [];
+      let outputOff = false;
+      const result = await goSafe(bench.roles, bench.roles.controlChannel, { controlV: 0, outputOff: true }, (event) => {
+        if (event.step === 'output-off' && event.ok === true) outputOff = true;
+      });
+      failures.push(...result.failures);
+      status.manualSafe({ ok: result.ok, failures, outputOff });
+      manualOutputOn = false;
+    }
     const closing = bench;
     bench = null;
     if (closing) await closing.close();
@@ -96,10 +123,13 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     starting = true;
     await stopLive();
     try {
-      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs });
+      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs, status });
       run = session;
+      // The procedure owns the supply now; its own safe state ends the run.
+      manualOutputOn = false;
       void session.done.finally(() => {
         if (run === session) run = null;
+        status.runEnded();
         startLive();
       });
       return session.meta;
@@ -160,14 +190,28 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       await checkApiBench(config, options.addressPolicy ?? { extraHosts: new Set() });
       connecting = true;
       try {
+        const previous = bench ? previousConfig : null;
         await closeBench();
         try {
           bench = await options.openBench(config);
+          previousConfig = config;
         } catch (error) {
           // What a peer or a file said is shown only as a short, escaped excerpt.
           const message = sanitiseText(error instanceof Error ? error.message : String(error), 200);
-          setConnection({ ...DISCONNECTED, error: message });
-          throw new BenchApiError(`connect: ${message}`);
+          // A refused connection must not also cost the bench that worked: open it again.
+          if (previous !== null) {
+            try {
+              bench = await options.openBench(previous);
+              setConnection(bench.connection);
+              startLive();
+              throw new BenchApiError(`could not connect to these instruments: ${message}. The previous bench is connected again.`);
+            } catch (reopenError) {
+              if (reopenError instanceof BenchApiError) throw reopenError;
+              bench = null;
+            }
+          }
+          setConnection({ ...DISCONNECTED, error: `could not connect to these instruments: ${message}` });
+          throw new BenchApiError(`could not connect to these instruments: ${message}`);
         }
         // An identity is whatever the peer answered: keep it short and printable.
         bench.connection = { ...bench.connection, roles: bench.connection.roles.map((role) => ({ ...role, idn: sanitiseText(role.idn, 100) })) };
@@ -183,6 +227,24 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       return setConnection(DISCONNECTED);
     },
     getConnection: async () => connection,
+    getBenchStatus: async () => status.status,
+    async manualControl(request) {
+      const opened = requireIdleBench();
+      if (starting || connecting) throw new BenchApiError('a run or a connection is being started; try again in a moment');
+      starting = true;
+      await stopLive();
+      // Until read back, assume the output may be on: a failure half-way must still end in the safe state.
+      if (request.output) manualOutputOn = true;
+      try {
+        const result = await applyManualControl(opened.roles, request);
+        manualOutputOn = result.output;
+        status.manual(result);
+        return status.status;
+      } finally {
+        starting = false;
+        startLive();
+      }
+    },
     startSweep: (plan, dutId) => startRun('sweep', plan, dutId),
     startDrift: (plan, dutId) => startRun('drift', plan, dutId),
     startPushing: (plan, dutId) => startRun('pushing', plan, dutId),

@@ -6,39 +6,59 @@
  * it never interleaves with a procedure's commands.
  */
 import type { LiveReadout } from '../../app/contract/bench-api.ts';
+import { DisconnectedError, TimeoutError } from '../instruments/errors.ts';
 import type { BenchRoles } from '../procedures/types.ts';
 import type { Clock } from '../time/clock.ts';
+import type { IdleReading } from './bench-status.ts';
 
 export interface LivePollerOptions {
   roles: BenchRoles;
   clock: Clock;
   emit: (readout: LiveReadout) => void;
+  /** Each poll's figures with the output state and the links that failed (for the bench status). */
+  onReading?: (reading: IdleReading) => void;
   /** Real time between the starts of two polls, ms. Default 333 (3 Hz). */
   periodMs?: number;
 }
 
-async function orNull<T>(read: () => Promise<T>): Promise<T | null> {
-  try {
-    return await read();
-  } catch {
-    return null;
-  }
+/** A failure that means the instrument cannot be reached (as opposed to one refused command). */
+function isLinkFailure(error: unknown): boolean {
+  return error instanceof DisconnectedError || error instanceof TimeoutError;
 }
 
-export async function readLive(roles: BenchRoles, clock: Clock): Promise<LiveReadout> {
+/** One idle poll: the readout plus the output state and each role whose link failed. */
+export async function readLiveStatus(roles: BenchRoles, clock: Clock): Promise<{ readout: LiveReadout; idle: IdleReading }> {
+  const lost: IdleReading['lost'] = {};
+  const read = async <T>(role: 'supply' | 'counter' | 'thermometer', work: () => Promise<T>): Promise<T | null> => {
+    try {
+      return await work();
+    } catch (error) {
+      if (isLinkFailure(error) && lost[role] === undefined) lost[role] = error instanceof Error ? error.message : String(error);
+      return null;
+    }
+  };
   const channel = roles.controlChannel;
-  const controlSetV = await orNull(() => roles.supply.getVoltageSetpoint(channel));
-  const controlMeasV = roles.supply.capabilities.measureVoltage ? await orNull(() => roles.supply.measureVoltage(channel)) : null;
-  const reading = await orNull(() => roles.counter.readFrequency());
+  const controlSetV = await read('supply', () => roles.supply.getVoltageSetpoint(channel));
+  // A supply that has just failed is not asked again in the same poll.
+  const supplyUp = () => lost.supply === undefined;
+  const controlMeasV = roles.supply.capabilities.measureVoltage && supplyUp() ? await read('supply', () => roles.supply.measureVoltage(channel)) : null;
+  const output = supplyUp() ? await read('supply', () => roles.supply.getOutput(channel)) : null;
+  const reading = await read('counter', () => roles.counter.readFrequency());
   const thermometer = roles.thermometer;
-  const temperatureC = thermometer ? await orNull(() => thermometer.readTemperature()) : null;
-  return {
+  const temperatureC = thermometer ? await read('thermometer', () => thermometer.readTemperature()) : null;
+  const readout: LiveReadout = {
     controlSetV,
     controlMeasV,
     frequencyHz: reading && reading.status === 'ok' ? reading.frequencyHz : null,
     temperatureC,
     timeS: clock.now(),
   };
+  const { timeS: _timeS, ...figures } = readout;
+  return { readout, idle: { ...figures, output, lost } };
+}
+
+export async function readLive(roles: BenchRoles, clock: Clock): Promise<LiveReadout> {
+  return (await readLiveStatus(roles, clock)).readout;
 }
 
 export class LivePoller {
@@ -69,9 +89,10 @@ export class LivePoller {
     const periodMs = this.#options.periodMs ?? 333;
     while (this.#running) {
       const startedMs = performance.now();
-      const readout = await readLive(this.#options.roles, this.#options.clock);
+      const { readout, idle } = await readLiveStatus(this.#options.roles, this.#options.clock);
       if (!this.#running) break;
       this.#options.emit(readout);
+      this.#options.onReading?.(idle);
       const waitMs = Math.max(20, periodMs - (performance.now() - startedMs));
       await new Promise<void>((resolve) => {
         const handle = setTimeout(resolve, waitMs);

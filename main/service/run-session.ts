@@ -9,6 +9,7 @@ import { RunControl } from '../procedures/run-control.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
 import type { EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
 import { createRun, type RunWriter } from '../store/index.ts';
+import type { BenchStatusTracker } from './bench-status.ts';
 import type { OpenedBench, ProcedurePort } from './ports.ts';
 import { SampleBatcher } from './sample-batcher.ts';
 
@@ -22,6 +23,8 @@ export interface RunSessionOptions {
   emit: (event: BenchEvent) => void;
   /** Real ms between sample batches. */
   batchMs?: number;
+  /** Fed with the run's own rows and events, so the status strip needs no queries of its own. */
+  status?: BenchStatusTracker;
 }
 
 export interface RunSession {
@@ -64,15 +67,22 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     onError: (error) => emit({ type: 'error', message: `saving run samples failed: ${error.message}` }),
   });
   const runId = writer.id;
-  const batcher = new SampleBatcher<SampleRow>((rows) => emit({ type: 'samples', runId, rows }), options.batchMs ?? 150);
+  const status = options.status;
+  const batcher = new SampleBatcher<SampleRow>((rows) => {
+    emit({ type: 'samples', runId, rows });
+    const last = rows[rows.length - 1];
+    if (last) status?.runRow(last);
+  }, options.batchMs ?? 150);
   const sink = teeSink(writer, batcher, (event) => {
     // Samples before the event, so the renderer sees them in order.
     batcher.flushNow();
     emit({ type: 'run-event', runId, event });
+    status?.runEvent(event);
   });
   const control = new RunControl();
   const meta = writer.meta();
   emit({ type: 'run-started', meta });
+  status?.runStarted(runId);
 
   let finished = false;
   const finishOnce = async (status: Exclude<RunMeta['status'], 'running'>): Promise<RunMeta> => {

@@ -166,6 +166,7 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
     );
     const readingsDuringWindow = (await countRows(app.service, bigId)) - liveStart;
     await page.click('[data-testid="stop-run"]');
+    await page.click('[data-testid="stop-run-yes"]');
     const sorted = [...deltas].sort((a, b) => a - b);
     const figures: BrowserBenchFigures = {
       firstDrawMs,

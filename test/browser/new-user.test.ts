@@ -171,6 +171,146 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     expect(detail.samples.numeric.frequency_hz?.length).toBeGreaterThanOrEqual(100);
   });
 
+  it('a drift log runs while the Bench screen shows its live frequency and "output on", from the run itself', async () => {
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await page.click(byId('nav-drift'));
+    await page.fill(byId('drift-duration'), '30min');
+    await page.fill(byId('drift-interval'), '1s');
+    await page.click(byId('start-drift'));
+    await page.click(byId('nav-bench'));
+    await page.waitForSelector(`${byId('strip-output')}[data-output="on"]`, { timeout: 20_000 });
+    await textMatches(page, 'readout-output', /^on$/);
+    const shown = siValue(await textMatches(page, 'readout-frequency', /kHz/));
+    // The figure is one of the run's own readings: the service's status comes from the run, not a second query.
+    const status = await app.service.getBenchStatus();
+    expect(status.source).toBe('run');
+    const drift = (await app.service.listRuns()).find((run) => run.kind === 'drift' && run.status === 'running');
+    const rows = (await app.service.openRun(drift?.id ?? '')).samples.numeric.frequency_hz ?? [];
+    expect(Array.from(rows).some((f) => Math.abs(f - shown) <= 0.5)).toBe(true);
+    await expect(page.textContent(byId('readout-source'))).resolves.toMatch(/run in progress/);
+    // What would disturb the run is locked, and the screen says why.
+    await expect(page.isDisabled(byId('use-sim'))).resolves.toBe(true);
+    await expect(page.isDisabled(byId('connect-bench'))).resolves.toBe(true);
+    await expect(page.isDisabled(byId('limit-max-control'))).resolves.toBe(true);
+    await expect(page.textContent(byId('bench-locked'))).resolves.toMatch(/locked until it ends/);
+    await shot(page, '09-bench-during-drift-1280-dark');
+    await page.emulateMedia({ colorScheme: 'light' });
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await shot(page, '09-bench-during-drift-1920-light');
+    await page.click(byId('nav-drift'));
+    await page.waitForSelector(byId('drift-plot-key'));
+    await shot(page, '10-drift-running-1920-light');
+    await page.emulateMedia({ colorScheme: 'dark' });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await shot(page, '10-drift-running-1280-dark');
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
+
+  it('pause shows since when and where the control sits; stopping asks first, then says "safe state reached"', async () => {
+    await page.click(byId('pause-run'));
+    await page.waitForSelector(`${byId('progress')}[data-paused="yes"]`);
+    await textMatches(page, 'strip-paused', /Paused since \d\d:\d\d:\d\d · control held at 2\.500* V/);
+    await expect(page.textContent(byId('progress'))).resolves.toMatch(/^Paused since .* control held at 2\.500* V/);
+    await shot(page, '11-drift-paused');
+    await page.click(byId('resume-run'));
+    await page.waitForSelector(`${byId('progress')}[data-paused="no"]`);
+    await page.click(byId('stop-run'));
+    const question = await textMatches(page, 'stop-run-confirm', /output turns off/);
+    expect(question).toMatch(/control voltage goes to 0 V/);
+    await shot(page, '12-stop-asks-first');
+    // "Keep running" leaves the run alone.
+    await page.click(byId('stop-run-no'));
+    await expect.poll(async () => (await app.service.getBenchStatus()).source).toBe('run');
+    await page.click(byId('stop-run'));
+    await page.click(byId('stop-run-yes'));
+    await page.waitForSelector(`${byId('strip-safe')}[data-reached="yes"]`, { timeout: 20_000 });
+    await textMatches(page, 'strip-safe', /^Safe state reached \d\d:\d\d:\d\d · output off$/);
+    await page.waitForSelector(`${byId('strip-output')}[data-output="off"]`);
+    await shot(page, '13-safe-state-reached');
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
+
+  it('runs an up-down sweep and shows both directions, their readout and the hysteresis', async () => {
+    await page.click(byId('nav-sweep'));
+    await page.selectOption(byId('plan-direction'), 'up-down');
+    await page.click(byId('start-sweep'));
+    await textMatches(page, 'hysteresis', /Hz/, 90_000);
+    const runs = await app.service.listRuns();
+    const upDown = runs.find((run) => run.kind === 'sweep' && run.id !== sweepId && run.status === 'complete');
+    const detail = await app.service.openRun(upDown?.id ?? '');
+    const direction = detail.samples.text.direction;
+    const levels = direction && !Array.isArray(direction) ? direction.levels : [...new Set(direction ?? [])];
+    expect(levels).toEqual(expect.arrayContaining(['up', 'down']));
+    // The cursor readout gives both directions at one setpoint.
+    const over = page.locator(`${byId('sweep-plot')} .u-over`);
+    const box = await over.boundingBox();
+    if (!box) throw new Error('no plot area');
+    await page.mouse.move(box.x + box.width * 0.6, box.y + box.height / 2);
+    const values = await page.locator(`${byId('sweep-plot')} .u-legend .u-series .u-value`).allTextContents();
+    expect(values[1]).toMatch(/Hz/); // Rising
+    expect(values[2]).toMatch(/Hz/); // Falling
+    // Two cursors by clicking two readings: ΔV, Δf and the slope between them.
+    await page.mouse.click(box.x + box.width * 0.5, box.y + box.height / 2);
+    await page.mouse.click(box.x + box.width * 0.8, box.y + box.height / 2);
+    const deltas = await textMatches(page, 'sweep-plot-deltas', /^ΔV .*V · Δf .*Hz · slope .*Hz\/V$/);
+    // Rising with the voltage on this oscillator: B lies right of A, so the slope is positive.
+    expect(deltas).not.toMatch(/slope −/);
+    await shot(page, '14-sweep-up-down');
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
+
+  it('exports the sweep plot as PNG and SVG and its data as CSV', async () => {
+    const saved: Record<string, Buffer> = {};
+    for (const format of ['png', 'svg', 'csv']) {
+      const [download] = await Promise.all([page.waitForEvent('download'), page.click(byId(`sweep-plot-${format}`))]);
+      expect(download.suggestedFilename()).toBe(`sweep-plot.${format}`);
+      const path = join(app.downloadsDir, `plot.${format}`);
+      await download.saveAs(path);
+      saved[format] = await readFile(path);
+    }
+    // PNG signature (ISO/IEC 15948 §5.2) and a real image, not an empty canvas.
+    expect([...(saved.png ?? Buffer.alloc(0)).subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    expect(saved.png?.length ?? 0).toBeGreaterThan(10_000);
+    const svg = saved.svg?.toString('utf8') ?? '';
+    expect(svg).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);
+    expect(svg).toContain('Control voltage');
+    expect((svg.match(/<circle /g) ?? []).length).toBeGreaterThan(20);
+    const csv = (saved.csv?.toString('utf8') ?? '').trim().split(/\r\n/);
+    expect(csv[0]).toBe('Control,Rising,Falling,Fitted curve');
+    expect(csv.length).toBeGreaterThan(20);
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
+
+  it('sorts and filters the archive, shows Kvco per sweep, and overlays two sweeps with a difference plot', async () => {
+    await page.click(byId('nav-runs'));
+    const kvco = siValue(await textMatches(page, `run-kvco-${sweepId}`, /Hz\/V/));
+    // The archive's Kvco is the same best-line slope the sweep screen showed (4 significant digits there).
+    expect(Math.abs(kvco / shownKvcoTyp - 1)).toBeLessThan(1e-3);
+    await page.selectOption(byId('runs-filter-kind'), 'drift');
+    await expect(page.locator(byId(`run-row-${sweepId}`)).count()).resolves.toBe(0);
+    await page.selectOption(byId('runs-filter-kind'), 'sweep');
+    await page.click(byId('runs-sort-kvco'));
+    const sweeps = (await app.service.listRuns()).filter((run) => run.kind === 'sweep');
+    for (const run of sweeps.slice(0, 2)) await page.check(byId(`run-pick-${run.id}`));
+    await page.waitForSelector(byId('difference-plot'), { timeout: 20_000 });
+    await shot(page, '15-archive-overlay-difference');
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
+
+  it('looks right on every screen at 1280×800 and 1920×1080 in both themes', async () => {
+    for (const [width, height] of [
+      [1280, 800],
+      [1920, 1080],
+    ] as const) {
+      for (const theme of ['dark', 'light'] as const) {
+        await page.setViewportSize({ width, height });
+        await page.emulateMedia({ colorScheme: theme });
+        for (const screen of ['bench', 'sweep', 'drift', 'runs', 'datasheet', 'loop']) {
+          await page.click(byId(`nav-${screen}`));
+          await page.waitForTimeout(300);
+          await page.screenshot({ path: join(SCREENS_DIR, `20-${screen}-${width}-${theme}.png`) });
+        }
+      }
+    }
+    await page.setViewportSize({ width: 1280, height: 860 });
+    await page.emulateMedia({ colorScheme: 'dark' });
+  }, 180_000);
+
   it('shows the loop-filter screen, and no script errors happened on the way', async () => {
     await page.click(byId('nav-loop'));
     await page.waitForTimeout(500);

@@ -4,7 +4,11 @@ import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Figure, Panel } from '../controls/Field.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
-import { celsius, hz, volts } from '../units.ts';
+import { ConfirmAction } from '../controls/ConfirmAction.tsx';
+import { safeStateWords } from '../status-text.ts';
+import { planHints } from '../../analysis/datasheet-run.ts';
+import { celsius, hzAtResolution, volts } from '../units.ts';
+import { ManualControl } from './ManualControl.tsx';
 import { RoleCard } from './RoleCard.tsx';
 import { buildBenchConfig, DEFAULT_ROLE_DRAFTS, type RoleDraft, type RoleErrors, type RoleName } from './role-draft.ts';
 import { checkSweepDraft } from '../../state/plan-drafts.ts';
@@ -13,17 +17,21 @@ const ROLES: readonly RoleName[] = ['supply', 'counter', 'thermometer'];
 
 function LiveReadouts() {
   const { stores } = useApp();
-  const setV = useStore(stores.connection, (s) => s.readout?.controlSetV ?? null);
-  const measV = useStore(stores.connection, (s) => s.readout?.controlMeasV ?? null);
-  const freq = useStore(stores.connection, (s) => s.readout?.frequencyHz ?? null);
-  const temp = useStore(stores.connection, (s) => s.readout?.temperatureC ?? null);
+  const status = useStore(stores.connection, (s) => s.status);
+  const running = status?.source === 'run';
+  const output = status?.output ?? null;
+  const gateS = useStore(stores.liveRun, (s) => (s.active && s.meta ? (planHints(s.meta.plan).gateS ?? null) : null));
   return (
     <Panel title="Live readings" testId="live-readouts">
+      <p className="muted" data-testid="readout-source">
+        {running ? "From the run in progress (its own readings; nothing else queries the instruments)." : status?.source === 'idle' ? 'Polled a few times a second while no run holds the bench.' : 'No bench connected.'}
+      </p>
       <dl className="figures figures-wide" aria-live="polite">
-        <Figure label="Control, set" value={volts(setV)} testId="readout-control-set" />
-        <Figure label="Control, measured" value={volts(measV)} testId="readout-control-meas" />
-        <Figure label="Frequency" value={hz(freq, 7)} testId="readout-frequency" />
-        <Figure label="Temperature" value={celsius(temp)} testId="readout-temperature" />
+        <Figure label="Control, set" value={volts(status?.controlSetV)} testId="readout-control-set" />
+        <Figure label="Control, measured" value={volts(status?.controlMeasV)} testId="readout-control-meas" />
+        <Figure label="Supply output" value={output === null ? '—' : output ? 'on' : 'off'} testId="readout-output" />
+        <Figure label="Frequency" value={hzAtResolution(status?.frequencyHz, running && gateS ? 1 / gateS : null)} testId="readout-frequency" />
+        <Figure label="Temperature" value={celsius(status?.temperatureC)} testId="readout-temperature" />
       </dl>
     </Panel>
   );
@@ -34,13 +42,15 @@ function LimitsPanel() {
   const limits = useStore(stores.settings, (s) => s.limits);
   const sweepDraft = useStore(stores.settings, (s) => s.sweepDraft);
   const edit = useStore(stores.settings, (s) => s.editLimits);
+  const running = useStore(stores.liveRun, (s) => s.active);
   const errors = checkSweepDraft(sweepDraft, limits).errors;
   return (
     <Panel title="Safety limits" testId="limits">
-      <p className="muted">Applied to every sweep and drift log; main checks them again before each write to the supply.</p>
+      <p className="muted">Applied to every sweep, drift log and bring-up setting; the bench process checks them again before each write to the supply.</p>
+      {running ? <p className="busy-reason">Locked while a run is in progress: the run keeps the limits it started with.</p> : null}
       <div className="row">
-        <Field label="Highest control voltage" unit="V" value={limits.maxControlV} onChange={(maxControlV) => edit({ maxControlV })} error={errors['limits.maxControlV']} testId="limit-max-control" />
-        <Field label="Current limit, control port" unit="A" value={limits.currentLimitA} onChange={(currentLimitA) => edit({ currentLimitA })} error={errors['limits.currentLimitA']} hint="SI prefixes welcome: 20m = 20 mA" testId="limit-current" />
+        <Field label="Highest control voltage" unit="V" value={limits.maxControlV} onChange={(maxControlV) => edit({ maxControlV })} error={errors['limits.maxControlV']} disabled={running} testId="limit-max-control" />
+        <Field label="Current limit, control port" unit="A" value={limits.currentLimitA} onChange={(currentLimitA) => edit({ currentLimitA })} error={errors['limits.currentLimitA']} hint="SI prefixes welcome: 20m = 20 mA" disabled={running} testId="limit-current" />
       </div>
       <SafetyNotes />
     </Panel>
@@ -60,6 +70,10 @@ export function BenchScreen() {
   const disconnect = useStore(stores.connection, (s) => s.disconnect);
   const refresh = useStore(stores.connection, (s) => s.refresh);
   const show = useStore(stores.settings, (s) => s.show);
+  const running = useStore(stores.liveRun, (s) => s.active);
+  const runKind = useStore(stores.liveRun, (s) => s.meta?.kind ?? null);
+  const runPlan = useStore(stores.liveRun, (s) => s.meta?.plan);
+  const locked = busy || running;
   const [drafts, setDrafts] = useState<Record<RoleName, RoleDraft>>(DEFAULT_ROLE_DRAFTS);
   const [errors, setErrors] = useState<RoleErrors>({});
 
@@ -80,16 +94,26 @@ export function BenchScreen() {
           <p>No instruments at hand? The simulated bench drives a model oscillator through the same commands, so you can run a gain sweep right away.</p>
         </div>
         <div className="hero-actions">
-          <button type="button" className="primary big" onClick={() => void useSimulator()} disabled={busy} data-testid="use-sim">
+          <button type="button" className="primary big" onClick={() => void useSimulator()} disabled={locked} data-testid="use-sim">
             Use the simulated bench
           </button>
           {connected ? (
-            <button type="button" onClick={() => void disconnect()} disabled={busy} data-testid="disconnect-bench">
-              Disconnect
-            </button>
+            <ConfirmAction
+              label="Disconnect"
+              question={running ? `Disconnect now? This ends the ${runKind ?? 'run'} in progress: ${safeStateWords(runPlan)}; then the links close. Readings so far stay in the run archive.` : null}
+              confirmLabel="End the run and disconnect"
+              onConfirm={() => void disconnect()}
+              disabled={busy}
+              testId="disconnect-bench"
+            />
           ) : null}
         </div>
       </section>
+      {running ? (
+        <p className="busy-reason" data-testid="bench-locked">
+          A {runKind ?? ''} run is in progress: changing instruments or limits now would disturb it, so they are locked until it ends.
+        </p>
+      ) : null}
       {simulated && connected ? (
         <p className="sim-ribbon" data-testid="sim-ribbon">
           Simulated bench in use: readings come from a model, not from hardware.
@@ -104,7 +128,7 @@ export function BenchScreen() {
         title="Instruments"
         testId="instruments"
         actions={
-          <button type="button" className="quiet" onClick={() => void refresh()} disabled={busy} data-testid="refresh-ports">
+          <button type="button" className="quiet" onClick={() => void refresh()} disabled={locked} data-testid="refresh-ports">
             Look for ports again
           </button>
         }
@@ -119,13 +143,13 @@ export function BenchScreen() {
               ports={ports}
               profiles={profiles}
               identity={roles.find((r) => r.role === role)?.idn ?? null}
-              disabled={busy}
+              disabled={locked}
               onChange={(patch) => setDrafts((all) => ({ ...all, [role]: { ...all[role], ...patch } }))}
             />
           ))}
         </div>
         <div className="actions">
-          <button type="button" className="primary" onClick={() => void connectInstruments()} disabled={busy} data-testid="connect-bench">
+          <button type="button" className="primary" onClick={() => void connectInstruments()} disabled={locked} data-testid="connect-bench">
             Connect these instruments
           </button>
         </div>
@@ -160,6 +184,7 @@ export function BenchScreen() {
         <LiveReadouts />
         <LimitsPanel />
       </div>
+      <ManualControl />
     </div>
   );
 }

@@ -1,10 +1,13 @@
 /** Start / pause / resume / stop for the run in progress, and its progress bar with ETA. */
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import type { RunKind } from '../../contract/bench-api.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
-import { duration } from '../units.ts';
+import { clockTime, safeStateWords } from '../status-text.ts';
+import { duration, volts } from '../units.ts';
+import { ConfirmAction } from './ConfirmAction.tsx';
+import { estimateS, nextEta, planPointS, type ShownEta } from './eta.ts';
 
 export interface RunControlsProps {
   kind: RunKind;
@@ -30,8 +33,16 @@ export function RunControls(props: RunControlsProps) {
   const paused = useStore(stores.liveRun, (s) => s.paused);
   const setPaused = useStore(stores.liveRun, (s) => s.setPaused);
   const connected = useStore(stores.connection, (s) => s.connection.connected);
+  const plan = useStore(stores.liveRun, (s) => s.meta?.plan);
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState(false);
+  const pauseRef = useRef<HTMLButtonElement | null>(null);
+  const mineNow = active && activeKind === props.kind;
+  // After Start the keyboard lands on Pause, the next thing one may need (Start itself is now disabled).
+  useEffect(() => {
+    const at = document.activeElement;
+    if (mineNow && (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled))) pauseRef.current?.focus();
+  }, [mineNow]);
 
   const act = async (work: () => Promise<unknown>) => {
     setError(null);
@@ -60,16 +71,26 @@ export function RunControls(props: RunControlsProps) {
             Resume
           </button>
         ) : (
-          <button type="button" disabled={!mine || pending} onClick={() => void act(async () => {
+          <button type="button" ref={pauseRef} disabled={!mine || pending} onClick={() => void act(async () => {
               await bridge.api.pauseRun();
               setPaused(true);
             })} data-testid="pause-run">
             Pause
           </button>
         )}
-        <button type="button" className="danger" disabled={!mine || pending} onClick={() => void act(() => bridge.api.stopRun())} data-testid="stop-run">
-          {props.kind === 'drift' ? 'Stop and keep' : 'Abort'}
-        </button>
+        <ConfirmAction
+          label={props.kind === 'drift' ? 'Stop the log' : 'Abort'}
+          className="danger"
+          disabled={!mine || pending}
+          question={
+            props.kind === 'drift'
+              ? `Stop the drift log now? The readings so far are kept as a finished log; ${safeStateWords(plan)}.`
+              : `Abort this ${props.kind === 'sweep' ? 'sweep' : 'run'}? The points so far are kept (marked aborted); ${safeStateWords(plan)}.`
+          }
+          confirmLabel={props.kind === 'drift' ? 'Stop and keep the log' : 'Abort now'}
+          onConfirm={() => void act(() => bridge.api.stopRun())}
+          testId="stop-run"
+        />
       </div>
       {!connected ? <p className="muted">Connect a bench first (the Bench screen has a one-click simulator).</p> : null}
       {active && !mine ? <p className="muted">A {activeKind} run is in progress; it has to finish first.</p> : null}
@@ -88,16 +109,34 @@ function ProgressLine({ kind }: { kind: RunKind }) {
   const progressKind = useStore(stores.liveRun, (s) => s.progress?.kind ?? null);
   const done = useStore(stores.liveRun, (s) => s.progress?.pointsDone ?? 0);
   const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
-  const eta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
+  const measuredEta = useStore(stores.liveRun, (s) => s.progress?.etaS ?? null);
+  const plan = useStore(stores.liveRun, (s) => s.meta?.plan);
+  const runId = useStore(stores.liveRun, (s) => s.meta?.id ?? null);
+  const tauS = useStore(stores.liveRun, (s) => {
+    const probe = s.events.find((e) => e.type === 'settle-probe' && typeof e.tauS === 'number');
+    return probe ? (probe.tauS as number) : null;
+  });
+  const runClockS = useStore(stores.liveRun, (s) => (s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? 0) : 0));
+  const shownEta = useRef<{ runId: string | null; shown: ShownEta | null }>({ runId: null, shown: null });
   const phase = useStore(stores.liveRun, (s) => s.progress?.phase ?? null);
+  const paused = useStore(stores.liveRun, (s) => s.paused);
+  const pausedAt = useStore(stores.connection, (s) => s.status?.paused ?? null);
   const status = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.status : null));
+  if (shownEta.current.runId !== runId) shownEta.current = { runId, shown: null };
+  // Steady: from the plan and the learned settle time at first, main's measured pace later, counting down in between.
+  const estimate = estimateS(Math.max(0, total - done), done, measuredEta, planPointS(plan, tauS));
+  const previous = shownEta.current.shown;
+  if (previous === null || runClockS !== previous.atS) shownEta.current.shown = nextEta(previous, estimate, runClockS);
+  const eta = shownEta.current.shown?.etaS ?? null;
   if (progressKind !== kind && status === null) return null;
   const fraction = total > 0 ? Math.min(1, done / total) : 0;
   return (
-    <div className="progress" data-testid="progress" data-done={done} data-total={total} data-status={status ?? ''}>
+    <div className={paused ? 'progress progress-paused' : 'progress'} data-testid="progress" data-paused={paused ? 'yes' : 'no'} data-done={done} data-total={total} data-status={status ?? ''}>
       <progress max={total > 0 ? total : 1} value={status === 'complete' ? (total > 0 ? total : 1) : total > 0 ? done : 0} aria-label="Run progress" />
       <span>
-        {status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
+        {paused && (status === 'running' || status === null)
+          ? `Paused${pausedAt ? ` since ${clockTime(pausedAt.since)}, control held at ${volts(pausedAt.controlV)}` : ''} · ${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · output stays as it is; the run stops safely if the pause outlasts its limit`
+          : status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
       </span>
     </div>
   );

@@ -1,13 +1,6 @@
 /** Saves text as a file through the browser's download (works in Electron too). */
+import { downloadBlob } from '../../plots/download-blob.ts';
+
 export function downloadText(fileName: string, text: string, mimeType: string): void {
-  const url = URL.createObjectURL(new Blob([text], { type: mimeType }));
-  const link = document.createElement('a');
-  link.href = url;
-  link.download = fileName;
-  link.rel = 'noopener';
-  document.body.appendChild(link);
-  link.click();
-  link.remove();
-  // Give the download a moment to start before the URL goes away.
-  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+  downloadBlob(fileName, new Blob([text], { type: mimeType }));
 }

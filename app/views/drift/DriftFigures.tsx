@@ -11,10 +11,13 @@ import { useBackgroundAnalysis } from '../../workers/use-analysis.ts';
 import type uPlot from 'uplot';
 import type { ColumnSet } from '../../state/columns.ts';
 import { GapDisplay } from '../../plots/gap-display.ts';
-import { PlotPanel } from '../../plots/PlotPanel.tsx';
-import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
+import { envelope, type EnvelopeSeries } from '../../plots/envelope.ts';
+import { columnsCsv } from '../../plots/plot-export.ts';
+import { PlotPanel, type PlotView } from '../../plots/PlotPanel.tsx';
+import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha } from '../../plots/plot-options.ts';
+import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { Figure } from '../controls/Field.tsx';
-import { duration, hz, plain } from '../units.ts';
+import { duration, hz, plain, si, volts } from '../units.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 
 export interface DriftSource {
@@ -24,9 +27,13 @@ export interface DriftSource {
   watch?: (notify: () => void) => () => void;
   done: boolean;
   theme: string;
+  /** Wall-clock start of the log, ms (multi-day logs label their time axis in dates). */
+  startMs?: number | null;
+  /** Set when the screen shows a stored log (no log in this window yet): which one. */
+  storedFrom?: string;
 }
 
-function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; running: boolean }) {
+function DriftKeyFigures({ outcome, running, holdV }: { outcome: DriftOutcome | null; running: boolean; holdV: number | null }) {
   const a = outcome?.ok ? outcome.analysis : null;
   return (
     <section className="key-figures" aria-label="Drift figures" data-testid="drift-figures">
@@ -38,6 +45,7 @@ function DriftKeyFigures({ outcome, running }: { outcome: DriftOutcome | null; r
         </p>
       ) : null}
       <dl className="figures">
+        <Figure label="Control held at" value={volts(holdV)} testId="drift-hold" />
         <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
         <Figure label="Tempco" value={plain(a?.tempcoPpmPerC, 'ppm/°C')} note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined} testId="drift-tempco" />
         <Figure
@@ -59,13 +67,32 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
   const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () => driftJob(source.columns(), source.rows()));
   const analysis = outcome?.ok ? outcome.analysis : null;
-  const timeData = (): uPlot.AlignedData => {
+  // Set by the last data() call: whether the time plot shows slices (band + mean) or the readings themselves.
+  const dense = useRef(false);
+  const gapColumns = () => {
     const columns = source.columns();
-    const n = source.rows();
     if (!gaps.current || gaps.current.key !== source.key) {
       gaps.current = { key: source.key, freq: new GapDisplay(columns.frequency_hz, columns.status), temp: new GapDisplay(columns.temperature_c, columns.status) };
     }
-    return [columns.time_s.view().subarray(0, n), gaps.current.freq.data(n), gaps.current.temp.data(n)] as uPlot.AlignedData;
+    return { columns, gaps: gaps.current };
+  };
+  const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
+    const { columns, gaps: g } = gapColumns();
+    const n = source.rows();
+    const x = columns.time_s.view().subarray(0, n);
+    const from = view ? view.xMin : (x[0] ?? 0);
+    const to = view ? view.xMax : (x[n - 1] ?? 0);
+    const px = Math.max(100, view?.widthPx ?? widthPx);
+    // Slices at least 4 px and 4 readings wide: a reading flipping between two counts becomes a band, and drift still shows.
+    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
+    dense.current = env.dense;
+    const [freq, temp] = env.series as [EnvelopeSeries, EnvelopeSeries];
+    return [env.x, freq.mid, freq.lo, freq.hi, temp.mid] as uPlot.AlignedData;
+  };
+  const timeCsv = (): string => {
+    const { columns, gaps: g } = gapColumns();
+    const n = source.rows();
+    return columnsCsv(['time_s', 'frequency_hz', 'temperature_c'], [columns.time_s.view().subarray(0, n), g.freq.data(n), g.temp.data(n)]);
   };
   const tempco = useMemo(
     () => (analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null),
@@ -75,20 +102,46 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   return (
     <div className="sweep-figures">
       <div className="plots">
+        {source.storedFrom ? (
+          <p className="muted stored-from" data-testid="stored-from">
+            Latest stored drift log: {source.storedFrom}. Start a log to replace it here; the Run archive has the others.
+          </p>
+        ) : null}
         <PlotPanel
           testId="drift-plot"
           title="Frequency and temperature against time"
           buildKey={buildKey}
           height={320}
           data={timeData}
+          csv={timeCsv}
+          cursorUnits={{ x: 's', y: 'Hz' }}
+          exportName={`drift-${source.key}`}
           watch={source.watch}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
-              [xSeries('s', 'Time'), lineSeries('Frequency', colors.series[0], 'Hz'), lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) })],
-              [timeAxis(colors), siAxis(colors, 'Frequency', 'Hz', { size: 96 }), { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 70, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }],
+              [
+                { label: 'Time', value: (_u, v) => (v === null ? '—' : timeTickLabel(v, v >= 60 ? 1 : 0.1)) },
+                lineSeries('Frequency', colors.series[0], 'Hz', {
+                  points: { show: () => !dense.current, size: 4, stroke: colors.series[0], fill: colors.series[0] },
+                }),
+                lineSeries('Lowest in slice', 'transparent', 'Hz', { width: 0 }),
+                lineSeries('Highest in slice', 'transparent', 'Hz', { width: 0 }),
+                lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) }),
+              ],
+              [
+                timeAxis(colors, 'Time', source.startMs ?? null),
+                siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
+                { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 84, labelGap: 6, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) },
+              ],
+              { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.2) }] },
             )
+          }
+          footer={
+            <span data-testid="drift-plot-key">
+              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each slice of time and the line is their mean; zoom in to see each reading.
+            </span>
           }
         />
         {tempco ? (
@@ -103,7 +156,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 width,
                 height,
                 [{ label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) }, pointSeries('Frequency', colors.series[0], 'Hz', { points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] } }), lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 })],
-                [{ ...siAxis(colors, 'Temperature', '°C'), values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
+                [{ ...siAxis(colors, 'Temperature', '°C'), space: 72, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
               )
             }
           />
@@ -119,7 +172,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               baseOptions(
                 width,
                 height,
-                [xSeries('s', 'τ'), lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
+                [{ label: 'τ', value: (_u, v) => (v === null ? '—' : si(v, 's', 3)) }, lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
                 [logSiAxis(colors, 'Averaging time τ', 's'), { ...siAxis(colors, 'σy(τ)', ''), values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) }],
                 { scales: { x: { time: false, distr: 3 }, y: { distr: 3 } } },
               )
@@ -127,7 +180,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           />
         ) : null}
       </div>
-      <DriftKeyFigures outcome={outcome} running={running} />
+      <DriftKeyFigures outcome={outcome} running={running} holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null} />
     </div>
   );
 }

@@ -8,6 +8,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import type uPlot from 'uplot';
 import { designLoopFilter, type LoopDesign } from '../../analysis/loop-filter.ts';
+import { RoundedComponents } from './RoundedComponents.tsx';
 import { loopAcrossKvco, logFrequencies, openLoopResponse } from '../../analysis/loop-filter-eval.ts';
 import { loopOperatingPoint, type KvcoCorner } from '../../analysis/loop-operating-point.ts';
 import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
@@ -196,6 +197,7 @@ export function LoopScreen() {
               {design.design.warnings.map((w) => (
                 <p key={w} className="warnings">{w}</p>
               ))}
+              <RoundedComponents filter={f} dividerN={checked.values?.dividerN ?? 1} chargePumpA={checked.values?.chargePumpA ?? 0} corners={design.checks} />
               <p className="muted small">{design.design.source}</p>
             </section>
           </div>

@@ -9,6 +9,29 @@ import { DriftFigures } from '../drift/DriftFigures.tsx';
 import { SweepFigures } from '../sweep/SweepFigures.tsx';
 import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
+import { conditionRows, planRows, runWindow } from './run-facts.ts';
+
+function FactsTable({ caption, rows, empty, testId }: { caption: string; rows: [string, string][]; empty: string; testId: string }) {
+  return (
+    <table className="table facts" data-testid={testId}>
+      <caption>{caption}</caption>
+      <tbody>
+        {rows.length === 0 ? (
+          <tr>
+            <td>{empty}</td>
+          </tr>
+        ) : (
+          rows.map(([key, value]) => (
+            <tr key={key}>
+              <th scope="row">{key}</th>
+              <td>{value}</td>
+            </tr>
+          ))
+        )}
+      </tbody>
+    </table>
+  );
+}
 
 export function RunDetailView({ id }: { id: string }) {
   const { stores } = useApp();
@@ -28,6 +51,7 @@ export function RunDetailView({ id }: { id: string }) {
     rows: () => opened.rows,
     done: true,
     theme,
+    startMs: Date.parse(meta.startedAt),
     ...(gateS !== undefined ? { gateS } : {}),
   };
   // Notes may be recorded both in run.json and as events: show each text once.
@@ -66,9 +90,36 @@ export function RunDetailView({ id }: { id: string }) {
           ))}
         </ul>
       ) : null}
-      <p className="muted">
-        {opened.rows} readings · status {meta.status} · {meta.instruments.map((i) => `${i.role}: ${i.idn}`).join(' · ') || 'no instrument record'}
-      </p>
+      <details className="run-facts" open data-testid="run-facts">
+        <summary>
+          {opened.rows} readings · status {meta.status} · {runWindow(meta)}
+        </summary>
+        <div className="facts-grid">
+          <FactsTable caption="Plan settings" rows={planRows(meta.plan)} empty="no plan recorded" testId="run-plan" />
+          <div>
+            <table className="table facts" data-testid="run-instruments">
+              <caption>Instruments</caption>
+              <tbody>
+                {meta.instruments.length === 0 ? (
+                  <tr>
+                    <td>no instrument record (imported)</td>
+                  </tr>
+                ) : (
+                  meta.instruments.map((i) => (
+                    <tr key={i.role}>
+                      <th scope="row">{i.role}</th>
+                      <td>
+                        <code>{i.idn}</code> at <code>{i.address}</code>
+                      </td>
+                    </tr>
+                  ))
+                )}
+              </tbody>
+            </table>
+            <FactsTable caption="Conditions" rows={conditionRows(meta)} empty="not recorded for this run" testId="run-conditions" />
+          </div>
+        </div>
+      </details>
       {meta.kind === 'sweep' ? <SweepFigures source={source} /> : null}
       {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
       {meta.kind === 'pushing' ? <PushingFigures source={source} /> : null}

@@ -3,12 +3,17 @@ import { useEffect, useRef, useState } from 'react';
 import type uPlot from 'uplot';
 import type { RunMeta } from '../../contract/bench-api.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
-import { baseOptions, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
+import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { useEffectiveTheme } from '../use-theme.ts';
-import { when } from '../units.ts';
+import { hzPerV, when } from '../units.ts';
+import { Choice } from '../controls/Field.tsx';
+import { analyzeColumns } from '../sweep/sweep-figures.ts';
+import { planHints } from '../../analysis/datasheet-run.ts';
+import { archiveRows, NO_FILTER, type ArchiveFilter, type ArchiveSort, type ArchiveSortKey } from './archive-view.ts';
+import { differenceColumns, pointMeans } from './difference.ts';
 import { overlayColumns } from './overlay.ts';
 import { RunDetailView } from './RunDetailView.tsx';
 
@@ -38,7 +43,43 @@ function ImportCsv() {
   );
 }
 
-function RunRow({ run, picked, focused }: { run: RunMeta; picked: boolean; focused: boolean }) {
+/** Kvco (best-line slope) of finished sweeps, worked out one at a time in the background as the archive shows them. */
+const kvcoCache = new Map<string, number | null>();
+
+function useArchiveKvco(runs: readonly RunMeta[]): ReadonlyMap<string, number> {
+  const { stores } = useApp();
+  const open = useStore(stores.runs, (s) => s.open);
+  const [version, setVersion] = useState(0);
+  const pending = runs.filter((r) => r.kind === 'sweep' && r.status !== 'running' && !kvcoCache.has(r.id)).slice(0, 40);
+  const pendingKey = pending.map((r) => r.id).join(',');
+  useEffect(() => {
+    let cancelled = false;
+    void (async () => {
+      for (const id of pendingKey ? pendingKey.split(',') : []) {
+        if (cancelled) return;
+        const opened = await open(id);
+        if (!opened) {
+          kvcoCache.set(id, null);
+          continue;
+        }
+        const outcome = analyzeColumns(opened.columns, opened.rows, planHints(opened.detail.meta.plan).gateS);
+        kvcoCache.set(id, outcome.ok ? outcome.analysis.kvco.linear.slopeHzPerV : null);
+        // Let the page breathe between runs.
+        await new Promise((resolve) => setTimeout(resolve, 0));
+      }
+      if (!cancelled && pendingKey) setVersion((v) => v + 1);
+    })();
+    return () => {
+      cancelled = true;
+    };
+  }, [pendingKey, open]);
+  const known = new Map<string, number>();
+  for (const [id, value] of kvcoCache) if (value !== null) known.set(id, value);
+  void version;
+  return known;
+}
+
+function RunRow({ run, picked, focused, kvco }: { run: RunMeta; picked: boolean; focused: boolean; kvco: number | undefined }) {
   const { stores } = useApp();
   const togglePick = useStore(stores.runs, (s) => s.togglePick);
   const focus = useStore(stores.runs, (s) => s.focus);
@@ -54,6 +95,9 @@ function RunRow({ run, picked, focused }: { run: RunMeta; picked: boolean; focus
       <td>
         <span className={`status status-${run.status}`}>{run.status}</span>
       </td>
+      <td className="num" data-testid={`run-kvco-${run.id}`}>
+        {run.kind === 'sweep' ? (kvco === undefined ? '…' : hzPerV(kvco)) : ''}
+      </td>
       <td className="row-actions">
         <button type="button" onClick={() => void focus(run.id)} data-testid={`run-open-${run.id}`}>
           Open
@@ -68,6 +112,7 @@ function RunRow({ run, picked, focused }: { run: RunMeta; picked: boolean; focus
 
 function Overlay({ ids }: { ids: string[] }) {
   const { stores } = useApp();
+  const [referenceId, setReferenceId] = useState<string>('');
   const theme = useEffectiveTheme();
   const opened = useStore(stores.runs, (s) => s.opened);
   const runs = useStore(stores.runs, (s) => s.runs);
@@ -85,7 +130,19 @@ function Overlay({ ids }: { ids: string[] }) {
   const loaded = sweeps.map((id) => opened[id]).filter((r) => r !== undefined);
   const merged = overlayColumns(loaded.map((r) => ({ columns: r.columns, rows: r.rows })));
   const labels = loaded.map((r) => `${r.detail.meta.dut.id} · ${when(r.detail.meta.startedAt)}`);
+  const refIndex = Math.max(0, loaded.findIndex((r) => r.detail.meta.id === referenceId));
+  const means = loaded.map((r) => pointMeans(r.columns, r.rows));
+  const others = means.map((m, i) => ({ m, i })).filter(({ i }) => i !== refIndex);
+  const diff = differenceColumns(means[refIndex] ?? { v: [], hz: [] }, others.map(({ m }) => m));
   return (
+    <>
+    <Choice
+      label="Reference run for the difference plot"
+      value={loaded[refIndex]?.detail.meta.id ?? ''}
+      options={loaded.map((r, i) => ({ value: r.detail.meta.id, label: labels[i] ?? r.detail.meta.id }))}
+      onChange={setReferenceId}
+      testId="overlay-reference"
+    />
     <PlotPanel
       testId="overlay-plot"
       title="Picked sweeps, frequency against control voltage"
@@ -95,7 +152,25 @@ function Overlay({ ids }: { ids: string[] }) {
       options={(colors, width, height) =>
         baseOptions(width, height, [xSeries('V', 'Control'), ...labels.map((label, i) => pointSeries(label, colors.series[i % colors.series.length] ?? colors.text, 'Hz', { points: { show: true, size: 5 } }))], [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })])
       }
+      cursorUnits={{ x: 'V', y: 'Hz' }}
     />
+    <PlotPanel
+      testId="difference-plot"
+      title={`Difference from ${labels[refIndex] ?? 'the reference'} (run − reference, reference interpolated between its setpoints)`}
+      buildKey={`${sweeps.join(',')}|${theme}|diff|${refIndex}`}
+      height={240}
+      data={() => [diff.x, ...diff.ys] as uPlot.AlignedData}
+      options={(colors, width, height) =>
+        baseOptions(
+          width,
+          height,
+          [xSeries('V', 'Control'), ...others.map(({ i }) => lineSeries(labels[i] ?? '', colors.series[i % colors.series.length] ?? colors.text, 'Hz', { points: { show: true, size: 5 }, spanGaps: true }))],
+          [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Difference', 'Hz', { size: 84 })],
+        )
+      }
+      cursorUnits={{ x: 'V', y: 'Hz' }}
+    />
+    </>
   );
 }
 
@@ -108,6 +183,18 @@ export function RunsScreen() {
   const error = useStore(stores.runs, (s) => s.error);
   const undo = useStore(stores.runs, (s) => s.undoRemove);
   const refresh = useStore(stores.runs, (s) => s.refresh);
+  const [filter, setFilter] = useState<ArchiveFilter>(NO_FILTER);
+  const [sort, setSort] = useState<ArchiveSort>({ key: 'started', descending: true });
+  const kvco = useArchiveKvco(runs);
+  const shown = archiveRows(runs, filter, sort, kvco);
+  const sortHeader = (key: ArchiveSortKey, label: string) => (
+    <th scope="col" aria-sort={sort.key === key ? (sort.descending ? 'descending' : 'ascending') : 'none'}>
+      <button type="button" className="sort-button" onClick={() => setSort({ key, descending: sort.key === key ? !sort.descending : key === 'started' || key === 'kvco' })} data-testid={`runs-sort-${key}`}>
+        {label}
+        {sort.key === key ? (sort.descending ? ' ▾' : ' ▴') : ''}
+      </button>
+    </th>
+  );
   return (
     <div className="screen screen-runs">
       <Panel
@@ -132,28 +219,59 @@ export function RunsScreen() {
             {error}
           </p>
         ) : null}
+        <div className="row archive-filter" data-testid="runs-filter">
+          <Field label="DUT or note contains" value={filter.text} onChange={(text) => setFilter({ ...filter, text })} inputMode="text" testId="runs-filter-text" />
+          <Choice
+            label="Kind"
+            value={filter.kind}
+            options={[
+              { value: 'all', label: 'All kinds' },
+              { value: 'sweep', label: 'Gain sweeps' },
+              { value: 'drift', label: 'Drift logs' },
+              { value: 'pushing', label: 'Supply pushing' },
+            ]}
+            onChange={(kind) => setFilter({ ...filter, kind })}
+            testId="runs-filter-kind"
+          />
+          <Choice
+            label="Status"
+            value={filter.status}
+            options={[
+              { value: 'all', label: 'Any status' },
+              { value: 'complete', label: 'Complete' },
+              { value: 'aborted', label: 'Aborted' },
+              { value: 'interrupted', label: 'Interrupted' },
+              { value: 'running', label: 'Running' },
+            ]}
+            onChange={(status) => setFilter({ ...filter, status })}
+            testId="runs-filter-status"
+          />
+          <Field label="From (YYYY-MM-DD)" value={filter.from} onChange={(from) => setFilter({ ...filter, from })} inputMode="text" testId="runs-filter-from" />
+          <Field label="To (YYYY-MM-DD)" value={filter.to} onChange={(to) => setFilter({ ...filter, to })} inputMode="text" testId="runs-filter-to" />
+        </div>
         <table className="table runs" data-testid="runs-list">
           <thead>
             <tr>
               <th scope="col">Pick</th>
-              <th scope="col">DUT</th>
-              <th scope="col">Kind</th>
-              <th scope="col">Started</th>
-              <th scope="col">Status</th>
+              {sortHeader('dut', 'DUT')}
+              {sortHeader('kind', 'Kind')}
+              {sortHeader('started', 'Started')}
+              {sortHeader('status', 'Status')}
+              {sortHeader('kvco', 'Kvco (best line)')}
               <th scope="col">
                 <span className="sr-only">Actions</span>
               </th>
             </tr>
           </thead>
           <tbody>
-            {runs.length === 0 ? (
+            {shown.length === 0 ? (
               <tr>
-                <td colSpan={6} className="muted">
-                  No saved runs yet.
+                <td colSpan={7} className="muted">
+                  {runs.length === 0 ? 'No saved runs yet.' : 'No run matches the filter.'}
                 </td>
               </tr>
             ) : (
-              runs.map((run) => <RunRow key={run.id} run={run} picked={picked.includes(run.id)} focused={run.id === focusId} />)
+              shown.map((run) => <RunRow key={run.id} run={run} picked={picked.includes(run.id)} focused={run.id === focusId} kvco={kvco.get(run.id)} />)
             )}
           </tbody>
         </table>

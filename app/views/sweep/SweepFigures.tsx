@@ -16,7 +16,8 @@ import { regionsPlugin, type XRegion } from '../../plots/regions-plugin.ts';
 import { buildSweepDisplay, liveStallEstimateV } from '../../plots/sweep-display.ts';
 import { Figure } from '../controls/Field.tsx';
 import { hz, hzPerV, percent, volts } from '../units.ts';
-import { fitOnX, gainColumns, residualColumns, stallRegions, type SweepOutcome } from './sweep-figures.ts';
+import { sameSetpointValue } from './direction-readout.ts';
+import { fitOnX, gainColumns, residualColumns, stallRegions, sweepRegions, usableEndV, type SweepOutcome } from './sweep-figures.ts';
 
 export interface SweepSource {
   /** Identity of the data set (run id); a new id rebuilds the charts. */
@@ -28,6 +29,10 @@ export interface SweepSource {
   done: boolean;
   gateS?: number;
   theme: string;
+  /** Wall-clock start of the run, ms. */
+  startMs?: number | null;
+  /** Set when the screen shows a stored run (no run in this window yet): which one. */
+  storedFrom?: string;
 }
 
 export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null; running: boolean }) {
@@ -51,7 +56,22 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
         <Figure label="Kvco min" value={hzPerV(a?.kvco.minHzPerV)} note={a ? `at ${volts(a.kvco.vAtMin, 3)}` : undefined} testId="kvco-min" />
         <Figure label="Kvco max" value={hzPerV(a?.kvco.maxHzPerV)} note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined} testId="kvco-max" />
         <Figure label="Linearity (worst deviation from line)" value={percent(a?.kvco.linear.maxLinearityErrorPct)} note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined} testId="linearity" />
-        <Figure label="Stall threshold" value={a ? (a.stall.thresholdV === null ? 'none in range' : volts(a.stall.thresholdV)) : '—'} note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined} testId="stall-threshold" />
+        <Figure
+          label="Stall threshold"
+          value={a ? (a.stall.thresholdV === null ? 'none in range' : `${volts(a.stall.thresholdV)}${a.stall.thresholdUncertaintyV !== null ? ` ± ${volts(a.stall.thresholdUncertaintyV, 1)}` : ''}`) : '—'} note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined} testId="stall-threshold" />
+        {a?.hysteresis ? (
+          <Figure
+            label="Hysteresis (largest rising − falling)"
+            value={hz(a.hysteresis.curveMaxDeltaHz, 3)}
+            note={[
+              a.hysteresis.curveMaxDeltaAtV !== null ? `at ${volts(a.hysteresis.curveMaxDeltaAtV, 3)}, ${a.hysteresis.commonPoints} setpoints read both ways` : null,
+              a.hysteresis.thresholdDeltaV !== null ? `stall edge moves ${volts(a.hysteresis.thresholdDeltaV, 2)} ± ${volts(a.hysteresis.thresholdDeltaUncertaintyV, 1)}` : null,
+            ]
+              .filter(Boolean)
+              .join('; ')}
+            testId="hysteresis"
+          />
+        ) : null}
         <Figure label="Fit" value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
       </dl>
       {a && a.warnings.length > 0 ? (
@@ -65,18 +85,42 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
   );
 }
 
+/** What the plot's marks mean: the stall wash, the unsteady hatching, the usable-range edge, the × marks. */
+function SweepMarksKey({ end }: { end: number | null }) {
+  return (
+    <>
+      <span className="mark-key" data-testid="key-stall">
+        <span className="swatch swatch-stall" aria-hidden="true" /> no oscillation (stall)
+      </span>
+      <span className="mark-key" data-testid="key-unstable">
+        <span className="swatch swatch-unstable" aria-hidden="true" /> unsteady oscillation
+      </span>
+      {end !== null ? (
+        <span className="mark-key" data-testid="key-unusable">
+          <span className="swatch swatch-unusable" aria-hidden="true" /> outside the usable range (above {volts(end, 4)})
+        </span>
+      ) : null}
+      <span className="mark-key">× reading with no oscillation</span>
+      <span className="mark-key">● rising · ○ falling</span>
+    </>
+  );
+}
+
 export function SweepFigures({ source }: { source: SweepSource }) {
   // Off the page's thread; the live plot stays drawn meanwhile.
   const { outcome, running } = useBackgroundAnalysis<SweepAnalysis>(source.done ? source.key : null, () => sweepJob(source.columns(), source.rows(), source.gateS));
   const analysis = outcome?.ok ? outcome.analysis : null;
   const regionsRef = useRef<readonly XRegion[]>([]);
   const deadRef = useRef<readonly number[]>([]);
+  // The last display rows, for the readout of both directions at the cursor's setpoint.
+  const shownRef = useRef<{ x: number[]; up: (number | null)[]; down: (number | null)[] }>({ x: [], up: [], down: [] });
   const sweepData = (): uPlot.AlignedData => {
     const n = source.rows();
     const columns = source.columns();
     const shown = buildSweepDisplay(columns, n);
     deadRef.current = shown.deadX;
-    regionsRef.current = analysis ? stallRegions(analysis.stall.thresholdV, analysis.stall.unstableBelowV) : stallRegions(liveStallEstimateV(columns, n), null);
+    shownRef.current = shown;
+    regionsRef.current = analysis ? sweepRegions(analysis) : stallRegions(liveStallEstimateV(columns, n), null);
     const fit = analysis ? fitOnX(analysis, shown.x) : shown.x.map(() => null);
     return [shown.x, shown.up, shown.down, fit] as uPlot.AlignedData;
   };
@@ -87,6 +131,11 @@ export function SweepFigures({ source }: { source: SweepSource }) {
   return (
     <div className="sweep-figures">
       <div className="plots">
+        {source.storedFrom ? (
+          <p className="muted stored-from" data-testid="stored-from">
+            Latest stored sweep: {source.storedFrom}. Start a sweep to replace it here; the Run archive has the others.
+          </p>
+        ) : null}
         <PlotPanel
           testId="sweep-plot"
           title="Frequency against control voltage (× = no oscillation)"
@@ -94,15 +143,28 @@ export function SweepFigures({ source }: { source: SweepSource }) {
           height={340}
           data={sweepData}
           watch={source.watch}
+          cursorUnits={{ x: 'V', y: 'Hz' }}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
-              [xSeries('V', 'Control'), pointSeries('Rising', colors.series[0], 'Hz'), pointSeries('Falling', colors.series[1], 'Hz'), lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 })],
+              [
+                xSeries('V', 'Control'),
+                // Rising as filled dots, falling as wider rings around them: where both agree, both stay visible.
+                pointSeries('Rising', colors.series[0], 'Hz', {
+                  value: (_u, v, _s, k) => hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)), 6),
+                }),
+                pointSeries('Falling', colors.series[1], 'Hz', {
+                  points: { show: true, size: 11, width: 1.5, stroke: colors.series[1], fill: 'transparent' },
+                  value: (_u, v, _s, k) => hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)), 6),
+                }),
+                lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 }),
+              ],
               [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
               { plugins: [regionsPlugin(() => regionsRef.current), deadMarksPlugin(() => deadRef.current, () => colors.text)] },
             )
           }
+          footer={<SweepMarksKey end={analysis ? usableEndV(analysis) : null} />}
         />
         {gain ? (
           <PlotPanel

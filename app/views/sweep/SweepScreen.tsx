@@ -7,6 +7,7 @@ import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { SweepFigures } from './SweepFigures.tsx';
 import { useLiveRunSource } from '../live-run-source.ts';
+import { si, volts } from '../units.ts';
 
 function PlanEditor() {
   const { bridge, stores } = useApp();
@@ -43,7 +44,10 @@ function PlanEditor() {
           testId="plan-direction"
         />
         {text('readingsPerPoint', 'Readings per point', '', 'plan-readings')}
+      </div>
+      <div className="row">
         {text('gateS', 'Counter gate', 's', 'plan-gate')}
+        {text('refineEdgeV', 'Edge resolution', 'V', 'plan-refine', '0 = no edge search')}
       </div>
       <div className="row">
         <Choice
@@ -64,7 +68,6 @@ function PlanEditor() {
           error={errors['settle.maxS'] ?? errors['settle.seconds']}
           testId="plan-settle"
         />
-        {text('refineEdgeV', 'Edge resolution', 'V', 'plan-refine', '0 = no edge search')}
       </div>
       {errors['limits.maxControlV'] || errors['limits.currentLimitA'] ? (
         <p className="error-line" role="alert">
@@ -72,7 +75,7 @@ function PlanEditor() {
         </p>
       ) : null}
       <p className="muted" data-testid="plan-summary">
-        {checked.ok ? `${sweepPointCount(checked.plan)} points per pass · limit ${checked.plan.limits.maxControlV} V, ${checked.plan.limits.currentLimitA * 1000} mA` : 'Fix the marked fields to start.'}
+        {checked.ok ? `${sweepPointCount(checked.plan)} points per pass · limit ${volts(checked.plan.limits.maxControlV)}, ${si(checked.plan.limits.currentLimitA, 'A', 3)}` : 'Fix the marked fields to start.'}
       </p>
       <SafetyNotes />
       <RunControls kind="sweep" startLabel="Start sweep" startTestId="start-sweep" start={start} />

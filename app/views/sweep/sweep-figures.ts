@@ -51,6 +51,23 @@ export function stallRegions(thresholdV: number | null, unstableBelowV: number |
   return regions;
 }
 
+/** Where the usable tuning range ends: the curve turns back or goes flat above this voltage; null if it does neither. */
+export function usableEndV(analysis: SweepAnalysis): number | null {
+  const ends = [analysis.kvco.turnsBackAboveV, analysis.kvco.flatAboveV].filter((v): v is number => v !== null && Number.isFinite(v));
+  return ends.length > 0 ? Math.min(...ends) : null;
+}
+
+/** Stall and unsteady regions, plus the range beyond the usable tuning window. */
+export function sweepRegions(analysis: SweepAnalysis): XRegion[] {
+  const regions = stallRegions(analysis.stall.thresholdV, analysis.stall.unstableBelowV);
+  const end = usableEndV(analysis);
+  if (end !== null) {
+    const why = analysis.kvco.turnsBackAboveV === end ? 'the tuning curve turns back' : 'the tuning curve goes flat';
+    regions.push({ key: 'unusable', fromX: end, toX: Number.POSITIVE_INFINITY, className: 'region-unusable', title: `Outside the usable range above ${end.toFixed(3)} V: ${why}`, testId: 'unusable-region' });
+  }
+  return regions;
+}
+
 export interface GainColumns {
   v: number[];
   stable: (number | null)[];
