@@ -9,7 +9,7 @@ describe('positiveFlag', () => {
     expect(positiveFlag('duration', undefined, parseDurationS, refusal)).toBeUndefined();
   });
   it('returns the parsed value', () => {
-    expect(positiveFlag('duration', '15m', parseDurationS, refusal)).toBe(900);
+    expect(positiveFlag('duration', '15min', parseDurationS, refusal)).toBe(900);
   });
   it.each(['soon', '0s', '-5s'])('refuses "%s" with a UsageError naming the flag', (text) => {
     expect(() => positiveFlag('duration', text, parseDurationS, refusal)).toThrow(UsageError);

@@ -4,6 +4,7 @@
  * compiled once. A bad profile is refused with the field named.
  */
 import { z } from 'zod';
+import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
 import type { CommandTemplate } from './command-template.ts';
 
 export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
@@ -12,6 +13,7 @@ const command = z.string().trim().min(1, 'must be a non-empty command string');
 const positiveS = z.number().positive().finite();
 
 const common = {
+  $schema: schemaRef,
   schema: z.literal(PROFILE_SCHEMA_ID),
   description: z.string().optional(),
   /** Ends every command and reply line. */
@@ -22,17 +24,17 @@ const common = {
   init: z.array(command).default([]),
 };
 
-export const supplyProfileSchema = z.object({
+export const supplyProfileSchema = strictObject({
   ...common,
   role: z.literal('supply'),
-  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
-  capabilities: z.object({
+  timeouts: strictObject({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  capabilities: strictObject({
     channels: z.number().int().min(1).max(64),
     measureVoltage: z.boolean(),
     measureCurrent: z.boolean(),
     overVoltageProtection: z.boolean(),
   }),
-  commands: z.object({
+  commands: strictObject({
     identify: command.default('*IDN?'),
     setVoltage: command,
     getVoltageSetpoint: command,
@@ -56,38 +58,41 @@ export const supplyProfileSchema = z.object({
   }
 });
 
-export const counterProfileSchema = z.object({
+export const counterProfileSchema = strictObject({
   ...common,
   role: z.literal('counter'),
-  timeouts: z.object({
+  timeouts: strictObject({
     defaultS: positiveS.default(2),
     /** A reading may take the gate time plus this much before it counts as "no reply". */
     measureMarginS: positiveS.default(1),
   }).default({ defaultS: 2, measureMarginS: 1 }),
   /** Gate assumed until setGate is called, s. */
   defaultGateS: positiveS.default(0.1),
+  /** Shortest and longest gate the counter takes, s; plans outside are refused before a run starts. */
+  minGateS: positiveS.default(1e-6),
+  maxGateS: positiveS.max(1000).default(10),
   /** Which replies mean "no oscillation" rather than a fault. */
-  noSignal: z.object({
+  noSignal: strictObject({
     notANumber: z.boolean().default(true),
     zero: z.boolean().default(true),
     timeout: z.boolean().default(true),
     /** Readings at or below this many Hz also count as zero. */
     belowHz: z.number().min(0).finite().default(0),
   }).default({ notANumber: true, zero: true, timeout: true, belowHz: 0 }),
-  commands: z.object({
+  commands: strictObject({
     identify: command.default('*IDN?'),
     setGate: command,
     readFrequency: command,
   }),
 });
 
-export const thermometerProfileSchema = z.object({
+export const thermometerProfileSchema = strictObject({
   ...common,
   role: z.literal('thermometer'),
-  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  timeouts: strictObject({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
   /** Unit the instrument replies in; converted to °C. */
   unit: z.enum(['C', 'K', 'F']).default('C'),
-  commands: z.object({
+  commands: strictObject({
     identify: command.default('*IDN?'),
     readTemperature: command,
   }),

@@ -5,15 +5,18 @@
  */
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
+import { parseBoundedJson } from '../../app/contract/bounded-json.ts';
+import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
 
 const positive = (what: string) => z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`);
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).finite();
 
 const commonFields = {
+  $schema: schemaRef,
   id: z.string().min(1),
   /** Scenario in words, shown to the user. */
   description: z.string().default(''),
-  supply: z.object({
+  supply: strictObject({
     /** The DUT's nominal supply; the bench's supply channel 2 starts here. */
     nominalV: positive('supply.nominalV'),
     /** Below this the oscillator does not start. */
@@ -21,7 +24,7 @@ const commonFields = {
     /** Current drawn at nominal supply (the load is modelled as a resistor). */
     currentA: positive('supply.currentA'),
   }),
-  tuning: z.object({
+  tuning: strictObject({
     /** First-order time constant of the tuning node (RC filter in the tuning line). */
     settleTauS: positive('tuning.settleTauS'),
     /** Input resistance of the tuning port, seen by supply channel 1. */
@@ -30,14 +33,14 @@ const commonFields = {
   /** Fractional frequency change per °C around referenceC. */
   tempcoPpmPerC: finite('tempcoPpmPerC'),
   referenceC: finite('referenceC').default(25),
-  warmup: z.object({
+  warmup: strictObject({
     /** Fractional offset at power-on, decaying exponentially to zero. */
     offsetPpm: finite('warmup.offsetPpm'),
     tauS: positive('warmup.tauS'),
   }),
   /** Frequency change per volt of DUT supply away from nominal. */
   pushingHzPerV: finite('pushingHzPerV'),
-  noise: z.object({
+  noise: strictObject({
     /** White frequency noise: fractional σ of a 1 s average (scales as 1/√gate). */
     whiteFmAt1s: z.number().nonnegative(),
     /** Random-walk frequency wander, ppm per √hour. */
@@ -45,23 +48,23 @@ const commonFields = {
   }),
 };
 
-export const relaxationDutSchema = z.object({
+export const relaxationDutSchema = strictObject({
   kind: z.literal('relaxation'),
   ...commonFields,
-  timing: z.object({
+  timing: strictObject({
     chargeResistanceOhm: positive('timing.chargeResistanceOhm'),
     capacitanceF: positive('timing.capacitanceF'),
     dischargeResistanceOhm: positive('timing.dischargeResistanceOhm'),
     /** The discharge path pulls the capacitor toward this rail. */
     dischargeTargetV: finite('timing.dischargeTargetV'),
   }),
-  thresholds: z.object({
+  thresholds: strictObject({
     lowerV: finite('thresholds.lowerV'),
     upperV: finite('thresholds.upperV'),
     /** RMS noise on the comparator thresholds; becomes timing jitter through dv/dt. */
     noiseV: z.number().nonnegative(),
   }),
-  chargeDrive: z.object({
+  chargeDrive: strictObject({
     /** Vc = gain·Vtune + offsetV, limited to supply − headroomV (source compliance). */
     gain: positive('chargeDrive.gain'),
     offsetV: finite('chargeDrive.offsetV'),
@@ -69,14 +72,14 @@ export const relaxationDutSchema = z.object({
   }),
 });
 
-export const varactorDutSchema = z.object({
+export const varactorDutSchema = strictObject({
   kind: z.literal('varactor-lc'),
   ...commonFields,
-  tank: z.object({
+  tank: strictObject({
     inductanceH: positive('tank.inductanceH'),
     parasiticCapacitanceF: z.number().nonnegative(),
   }),
-  varactor: z.object({
+  varactor: strictObject({
     /** Zero-bias junction capacitance. */
     cj0F: positive('varactor.cj0F'),
     /** Built-in potential φ. */
@@ -131,9 +134,9 @@ export async function loadDutParamsFile(path: string): Promise<DutParams> {
   }
   let json: unknown;
   try {
-    json = JSON.parse(text);
+    json = parseBoundedJson(text);
   } catch (error) {
-    throw new DutParamsError(`${path}: not valid JSON (${(error as Error).message})`);
+    throw new DutParamsError(`${path}: ${(error as Error).message}`);
   }
   return parseDutParams(json, path);
 }
