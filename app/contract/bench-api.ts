@@ -114,7 +114,8 @@ export interface ProgressInfo {
   pointsDone: number;
   pointsTotal: number;
   etaS: number | null;
-  latest: { controlV: number; frequencyHz: number | null; status: SampleStatus } | null;
+  /** supplyV: the stepped DUT supply of a pushing run. */
+  latest: { controlV: number; frequencyHz: number | null; status: SampleStatus; supplyV?: number } | null;
 }
 
 /** Events pushed from main to the renderer. */

@@ -91,8 +91,8 @@ export const sweepPlanSchema = strictObject({
   refineEdgeV: volts((n) => n.refine((v) => v === 0 || (v >= 1e-6 && v <= 1), 'must be 0 (off) or between 1 µV and 1 V'))
     .default(0.001)
     .meta({ description: 'Bisect the stall edge down to this resolution after the coarse pass, V. Default 1 mV; 0 turns it off; else 1 µV–1 V.' }),
-  limits: limitsSchema,
-  safe: safeStateSchema.default(safeDefault),
+  limits: limitsSchema.meta({ description: 'Supply limits for the control channel. Required.' }),
+  safe: safeStateSchema.default(safeDefault).meta({ description: 'Where the control channel is left on every way out (completion, stop, error, signal).' }),
 }).superRefine((plan, ctx) => {
   if (plan.points === undefined) {
     for (const key of ['start', 'stop', 'step'] as const) {
@@ -113,8 +113,8 @@ export const driftPlanSchema = strictObject({
     .meta({ description: `Length of the log, s. Default 8 h ("8h"). At most ${MAX_DRIFT_READINGS} readings (durationS / intervalS).` }),
   gateS: gate(),
   settle: settleSchema.optional().meta({ description: 'Settling at controlV before the first logged reading. Default auto with maxS 10 s.' }),
-  limits: limitsSchema,
-  safe: safeStateSchema.default(safeDefault),
+  limits: limitsSchema.meta({ description: 'Supply limits for the control channel. Required.' }),
+  safe: safeStateSchema.default(safeDefault).meta({ description: 'Where the control channel is left on every way out (completion, stop, error, signal).' }),
 }).superRefine((plan, ctx) => {
   for (const problem of driftTimingProblems(plan)) ctx.addIssue({ code: 'custom', path: [problem.field], message: problem.message });
 });
@@ -147,8 +147,8 @@ export const pushingPlanSchema = strictObject({
   maxSupplyV: volts((n) => n.positive('must be greater than 0 V')).meta({
     description: 'Highest DUT supply voltage the plan may write, V. Required. The DUT-supply channel\'s OVP is set to maxSupplyV + 5 % (at least 50 mV above).',
   }),
-  limits: limitsSchema,
-  safe: safeStateSchema.default(safeDefault),
+  limits: limitsSchema.meta({ description: 'Supply limits for the control channel. Required.' }),
+  safe: safeStateSchema.default(safeDefault).meta({ description: 'Where the control channel is left on every way out (completion, stop, error, signal).' }),
 });
 
 export const instrumentConfigSchema = strictObject({
@@ -162,8 +162,8 @@ export const benchConfigSchema = strictObject({
     ...instrumentConfigSchema.shape,
     controlChannel: z.number().int().min(1).max(64).default(1).meta({ description: 'Supply channel wired to the tuning port. Default 1.' }),
     dutSupplyChannel: z.number().int().min(1).max(64).default(2).meta({ description: 'Supply channel powering the DUT (stepped by pushing). Default 2; must differ from controlChannel.' }),
-  }),
-  counter: instrumentConfigSchema,
+  }).meta({ description: 'The programmable supply: tuning port and DUT supply. Required.' }),
+  counter: instrumentConfigSchema.meta({ description: 'The frequency counter. Required.' }),
   thermometer: instrumentConfigSchema.optional().meta({ description: 'Optional; without it temperature columns stay empty.' }),
 });
 

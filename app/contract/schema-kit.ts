@@ -89,14 +89,16 @@ const QUANTITY_FORMS: Readonly<Record<QuantityKind, string>> = {
 export function quantity(kind: QuantityKind, bound: (n: z.ZodNumber) => z.ZodNumber = (n) => n) {
   return textOrNumber(QUANTITY_FORMS[kind])
     .transform(fromParsed((text) => parseQuantity(text, kind)))
-    .pipe(bound(z.number().finite()));
+    .pipe(bound(z.number().finite()))
+    .meta({ 'x-quantity': kind });
 }
 
 /** A time in seconds: a number, or a string with its unit ("100ms", "90s", "15min", "8h"). */
 export function time(bound: (n: z.ZodNumber) => z.ZodNumber = (n) => n) {
   return textOrNumber(TIME_FORMS)
     .transform(fromParsed(parseTime))
-    .pipe(bound(z.number().finite().nonnegative('a time cannot be negative')));
+    .pipe(bound(z.number().finite().nonnegative('a time cannot be negative')))
+    .meta({ 'x-quantity': 'time' });
 }
 
 /** Turns a zod error into one line per field: `limits.maxControlV: expected …`. */

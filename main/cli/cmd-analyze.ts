@@ -4,29 +4,55 @@
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { analyzeTable, parseFitSpec } from '../../app/analysis/analyze-table.ts';
-import { CsvError } from '../../app/analysis/csv-input.ts';
+import { CsvError, numericColumn, type CsvTable } from '../../app/analysis/csv-input.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
+import { runsDirFrom } from '../bench/cli-session.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench analyze RUN_DIR|FILE.csv [--json] [--fit poly:N|auto]
+const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|FILE.csv [--json] [--fit poly:N|auto] [--runs DIR]
 
-Analyses a sweep, drift or pushing run folder, or a plain CSV file:
+Analyses a sweep, drift or pushing run (its folder, or its id as \`tunebench runs\`
+prints it), or a plain CSV file:
   sweep CSV:   columns control_v, frequency_hz (rows sharing control_v are one point;
                empty, NaN, 0 or 9.91E37 = no oscillation); optional direction, status
   drift CSV:   columns time_s, frequency_hz, optional temperature_c
   pushing CSV: columns supply_v, frequency_hz
 
 options:
-  --json            machine-readable result (keys as documented in CONTRACTS.md)
+  --json            machine-readable result (keys in docs/reference.md, "analyze --json")
   --fit poly:N|auto polynomial degree 1–6 for the tuning curve, or auto (AICc; default)
   --linearity-limit PCT  limit for the widest linear range, ± % of span (default 5)
-  --nominal V       control voltage of the nominal point for Kvco (default: middle of the usable range)
+  --nominal V       control voltage of the nominal point for Kvco, inside the measured range
+                    (default: middle of the usable range)
+  --runs DIR        runs folder where a RUN_ID is looked up (default: TUNEBENCH_RUNS, else the user data folder)
 `;
 
 function positiveNumber(text: string | undefined, flag: string, form: string): number | undefined {
   return positiveFlag(flag, text, parseSiNumber, (got) => `"${got}" is not ${form}`);
+}
+
+/** Kvco at a control voltage nobody measured would be an extrapolation of the fit: refused. */
+function checkNominalInside(nominalV: number, table: CsvTable): void {
+  let lo = Infinity;
+  let hi = -Infinity;
+  try {
+    const v = numericColumn(table, 'control_v');
+    const f = numericColumn(table, 'frequency_hz');
+    if (v === null || f === null) return;
+    for (let i = 0; i < v.length; i++) {
+      if (!((f[i] as number) > 0 && (f[i] as number) < 9e37)) continue; // no oscillation there
+      lo = Math.min(lo, v[i] as number);
+      hi = Math.max(hi, v[i] as number);
+    }
+  } catch (error) {
+    if (error instanceof CsvError) return; // the analysis reports the bad cell with its line
+    throw error;
+  }
+  if (lo <= hi && (nominalV < lo || nominalV > hi)) {
+    throw new UsageError(`--nominal: ${nominalV} V is outside the measured range ${lo}–${hi} V (where the DUT oscillated); Kvco there would be extrapolated`);
+  }
 }
 
 export const analyzeCommand: CliCommand = {
@@ -34,14 +60,15 @@ export const analyzeCommand: CliCommand = {
   summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal'], booleans: ['json'] });
-    if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR or FILE.csv');
+    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'runs'], booleans: ['json'] });
+    if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR, RUN_ID or FILE.csv');
     const fitText = flags.values.get('fit') ?? 'auto';
     const fit = parseFitSpec(fitText);
     if (fit === null) throw new UsageError(`--fit: "${fitText}" is not poly:N (N = 1…6) or auto`);
     const linearityLimitPct = positiveNumber(flags.values.get('linearity-limit'), 'linearity-limit', 'a percentage > 0 (e.g. 5)');
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
-    const source = await loadAnalysisSource(flags.positionals[0] as string);
+    const source = await loadAnalysisSource(flags.positionals[0] as string, runsDirFrom(flags.values.get('runs'), io));
+    if (nominalV !== undefined && source.kind === 'sweep') checkNominalInside(nominalV, source.table);
     let result;
     try {
       result = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { fit, linearityLimitPct, nominalV } });

@@ -9,17 +9,20 @@ import { buildDatasheet, type DatasheetRun } from '../../app/analysis/datasheet.
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { parseFlags } from './flags.ts';
+import { runsDirFrom } from '../bench/cli-session.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE] [--title TEXT]
+const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--runs DIR]
 
 Builds the gain table (min / typ / max over the runs) from sweep, drift and
-pushing run folders (plain CSV files are accepted too).
+pushing runs — folders, or ids as \`tunebench runs\` prints them (plain CSV files
+are accepted too).
 
 options:
   --format md|csv|html  output format (default md); html is one printable, self-contained page
   -o, --output FILE     write to FILE instead of standard output
   --title TEXT          heading of the table (default "VCO gain table")
+  --runs DIR            runs folder where a RUN_ID is looked up (default: TUNEBENCH_RUNS, else the user data folder)
 `;
 
 const RENDER = { md: renderDatasheetMarkdown, csv: renderDatasheetCsv, html: renderDatasheetHtml } as const;
@@ -33,13 +36,13 @@ export const datasheetCommand: CliCommand = {
   summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['format', 'output', 'title'], aliases: { o: 'output' } });
-    if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR (or FILE.csv)');
+    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'runs'], aliases: { o: 'output' } });
+    if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR or RUN_ID (or FILE.csv)');
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
     const runs: DatasheetRun[] = [];
     for (const path of flags.positionals) {
-      const source = await loadAnalysisSource(path);
+      const source = await loadAnalysisSource(path, runsDirFrom(flags.values.get('runs'), io));
       try {
         const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS });
         runs.push({ label: source.label, analysis, conditions: source.conditions });

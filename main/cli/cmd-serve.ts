@@ -22,7 +22,7 @@ a browser on the same machine; requests without the token are refused.
   --runs DIR    folder of saved runs (default: TUNEBENCH_RUNS, then the
                 per-user data folder)
 
-Runs until Ctrl-C. A run in progress is stopped and its supply left in the
+Runs until Ctrl+C. A run in progress is stopped and its supply left in the
 safe state before the server exits. Anyone holding the URL can drive the
 bench: do not share it, and keep --host on loopback unless you must.
 `;
@@ -78,7 +78,7 @@ export const serveCommand: CliCommand = {
       io.stderr.write(`warning: listening on ${host}, not loopback only; anyone who can reach it and holds the token can drive the bench\n`);
     }
     io.stderr.write(`runs folder: ${runsDir}\n`);
-    io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl-C stops it\n`);
+    io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl+C stops it\n`);
     await waitForStop(io);
     io.stderr.write('stopping: leaving the bench safe…\n');
     await service.close();

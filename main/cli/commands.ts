@@ -8,6 +8,7 @@ import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
 import { pushingCommand } from './cmd-pushing.ts';
 import { runsCommand } from './cmd-runs.ts';
+import { schemaCommand } from './cmd-schema.ts';
 import { serveCommand } from './cmd-serve.ts';
 import { simCommand } from './cmd-sim.ts';
 import { sweepCommand } from './cmd-sweep.ts';
@@ -20,6 +21,7 @@ export const commands: CliCommand[] = [
   analyzeCommand,
   datasheetCommand,
   runsCommand,
+  schemaCommand,
   simCommand,
   serveCommand,
   demoCommand,

@@ -113,7 +113,7 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       await sink.flush();
       if (ok > 0) meanHz[i] = sum / ok;
       outcome.steps = i + 1;
-      progress.report('reading', i + 1, { controlV: plan.controlV, frequencyHz: last.frequencyHz, status: last.status });
+      progress.report('reading', i + 1, { controlV: plan.controlV, supplyV, frequencyHz: last.frequencyHz, status: last.status });
     }
     const fit = linearSlope(levels, meanHz);
     if (fit !== null) {
