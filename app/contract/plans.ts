@@ -19,8 +19,8 @@ export const MAX_DRIFT_READINGS = 10_000_000;
 export const MAX_SETTLE_S = 600;
 /** Gate (aperture) range a plan may name; the counter's profile narrows it (default 1 µs–10 s). */
 export const GATE_LIMITS_S = { min: 1e-6, max: 1000 } as const;
-/** Time one reading takes beyond its gate: command, reply and conversion over the link (tunebench's own allowance). */
-export const READING_ALLOWANCE_S = 0.05;
+/** Time one reading takes beyond its gate: a query and a ~20-byte reply over LAN or a 115200-baud line (tunebench's own allowance). */
+export const READING_ALLOWANCE_S = 0.02;
 /** A tuning port draws µA to mA; a control-channel current limit above this needs limits.acknowledgeHighCurrent. */
 export const HIGH_CURRENT_LIMIT_A = 0.1;
 

@@ -68,7 +68,7 @@ describe('the one time grammar on flags and bounds on plans', () => {
     const dir = await tempDir();
     const r = await runCliCaptured('drift', '--interval', '10ms', '--duration', '20s', '--runs', dir);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/plan refused — intervalS: 0\.01 s is shorter than one reading \(gateS 0\.1 s \+ 50 ms\)/);
+    expect(r.err).toMatch(/plan refused — intervalS: 0\.01 s is shorter than one reading \(gateS 0\.1 s \+ 20 ms\)/);
     expect(await readdir(dir)).toEqual([]);
   });
 
