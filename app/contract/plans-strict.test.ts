@@ -76,6 +76,10 @@ describe('plausibility bounds', () => {
     expect(sweepPlanSchema.safeParse({ start: 1, stop: 2, step: 0.1, limits: { maxControlV: 5, currentLimitA: '0.5A', acknowledgeHighCurrent: true } }).success).toBe(true);
   });
 
+  it('a drift log is capped at 10,000,000 readings', () => {
+    expect(problems(driftPlanSchema.safeParse({ controlV: 1, intervalS: '1s', durationS: '200d', limits }))).toMatch(/durationS: gives more than 10000000 readings/);
+  });
+
   it('an explicit point list is capped like a stepped sweep', () => {
     expect(problems(sweepPlanSchema.safeParse({ points: new Array(100_001).fill(1), limits }))).toMatch(/points: at most 100000 points/);
   });

@@ -76,6 +76,13 @@ describe('one command line', () => {
     expect(describeProgress({ ...base, kind: 'pushing', latest: { controlV: 2.5, supplyV: 3.1, frequencyHz: 1000, status: 'ok' } })).toMatch(/3\/13 supply steps .* supply 3\.1000 V → 1\.0000 kHz$/);
   });
 
+  it('no help text points at a document that does not ship (analyze once named CONTRACTS.md)', async () => {
+    const { existsSync } = await import('node:fs');
+    for (const command of commands) expect(command.usage, command.name).not.toMatch(/CONTRACTS\.md/);
+    expect(existsSync(join(import.meta.dirname, '..', '..', 'docs', 'reference.md'))).toBe(true);
+    expect((await runCliCaptured('analyze', '--help')).out).toMatch(/docs\/reference\.md/);
+  });
+
   it('one spelling of Ctrl+C in every help text', () => {
     for (const command of commands) expect(command.usage, command.name).not.toMatch(/Ctrl-C/);
     expect(commands.filter((c) => /Ctrl\+C/.test(c.usage)).map((c) => c.name)).toEqual(expect.arrayContaining(['sweep', 'drift', 'pushing', 'sim']));
