@@ -5,7 +5,7 @@
  * sweep with a default in its place.
  */
 import { z } from 'zod';
-import { excerpt, parseQuantity, parseTime, TIME_FORMS, type Parsed, type QuantityKind } from './si.ts';
+import { excerpt, parseQuantity, parseTime, QUANTITY_FORMS, TIME_FORMS, type Parsed, type QuantityKind } from './si.ts';
 
 /** Edit distance (insert, delete, substitute, swap neighbours) — Damerau–Levenshtein, optimal string alignment. */
 export function editDistance(a: string, b: string): number {
@@ -79,11 +79,6 @@ function fromParsed(parse: (text: string) => Parsed) {
   };
 }
 
-const QUANTITY_FORMS: Readonly<Record<QuantityKind, string>> = {
-  voltage: 'a voltage such as 0.25, "250m" or "250mV"',
-  current: 'a current such as 0.02, "20m" or "20mA"',
-  frequency: 'a frequency such as 1000, "1k" or "10MHz"',
-};
 
 /** A finite number in volts, amps or hertz, or a string with an SI prefix and optionally its unit. */
 export function quantity(kind: QuantityKind, bound: (n: z.ZodNumber) => z.ZodNumber = (n) => n) {

@@ -30,7 +30,8 @@ const SI_PATTERN = new RegExp(`^(${NUMBER})\\s*([pnuµmkMG]?)([A-Za-z°]*)$`);
 /** Quantities that take SI prefixes, with the one unit symbol each may carry. */
 export type QuantityKind = 'voltage' | 'current' | 'frequency';
 const UNIT_OF: Readonly<Record<QuantityKind, string>> = { voltage: 'V', current: 'A', frequency: 'Hz' };
-const EXAMPLE_OF: Readonly<Record<QuantityKind, string>> = {
+/** How each quantity may be written, for messages. */
+export const QUANTITY_FORMS: Readonly<Record<QuantityKind, string>> = {
   voltage: 'a voltage such as 0.25, "250m" or "250mV"',
   current: 'a current such as 0.02, "20m" or "20mA"',
   frequency: 'a frequency such as 1000, "1k" or "10MHz"',
@@ -62,7 +63,7 @@ export function parseQuantity(text: string, kind: QuantityKind): Parsed {
       if (Number.isFinite(value)) return { ok: true, value };
     }
   }
-  return { ok: false, error: `expected ${EXAMPLE_OF[kind]}, got ${excerpt(text)}` };
+  return { ok: false, error: `expected ${QUANTITY_FORMS[kind]}, got ${excerpt(text)}` };
 }
 
 /**
