@@ -31,6 +31,22 @@ describe('generated file formats', () => {
     for (const row of keyRows) expect(row, row).not.toMatch(/\|\s*\|$/);
   });
 
+  it('shipped profiles and DUT models name their JSON Schema and load through their strict loaders', async () => {
+    const { readdirSync, existsSync } = await import('node:fs');
+    const { loadProfile } = await import('../main/instruments/profile-loader.ts');
+    const { loadDutParamsFile } = await import('../main/sim/dut-params.ts');
+    for (const [folder, schema] of [['profiles', 'profile'], ['duts', 'dut']] as const) {
+      for (const name of readdirSync(join(root, 'resources', folder)).filter((f) => f.endsWith('.json'))) {
+        const file = join(root, 'resources', folder, name);
+        const ref = (JSON.parse(readFileSync(file, 'utf8')) as { $schema?: string }).$schema;
+        expect(ref, name).toBe(`../schemas/${schema}.schema.json`);
+        expect(existsSync(join(root, 'resources', folder, ref as string))).toBe(true);
+        if (folder === 'profiles') await expect(loadProfile(name.replace(/\.json$/, ''))).resolves.toMatchObject({ schema: 'tunebench.profile/1' });
+        else await expect(loadDutParamsFile(file)).resolves.toMatchObject({ id: expect.any(String) });
+      }
+    }
+  });
+
   it('README links the user reference, and the reference names every address form and the check command', () => {
     expect(readFileSync(join(root, 'README.md'), 'utf8')).toMatch(/\]\(docs\/reference\.md\)/);
     const doc = readFileSync(join(root, 'docs', 'reference.md'), 'utf8');

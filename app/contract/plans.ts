@@ -152,7 +152,7 @@ export const pushingPlanSchema = strictObject({
 });
 
 export const instrumentConfigSchema = strictObject({
-  address: z.string().min(1).max(1000).meta({ description: 'Where the instrument is: tcp://HOST:PORT, serial:PATH?baud=…, TCPIP[n]::HOST::PORT::SOCKET, ASRL<PATH>::INSTR or sim[:role]. Required.' }),
+  address: z.string().min(1).max(300).meta({ description: 'Where the instrument is: tcp://HOST:PORT, serial:PATH?baud=…, TCPIP[n]::HOST::PORT::SOCKET, ASRL<PATH>::INSTR or sim[:role]. Required.' }),
   profile: z.string().min(1).max(1000).optional().meta({ description: 'Profile name (user profile folder, then resources/profiles/) or path to a profile file. Default: the role\'s standard SCPI profile.' }),
 });
 
