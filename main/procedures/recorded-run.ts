@@ -107,10 +107,7 @@ async function record<O extends ProcedureOutcome>(
   let outcome: O;
   try {
     outcome = await run(sink);
-    await refusedBeforeOutput(writer, outcome, outputTouched);
-    announce();
   } catch (error) {
-    if (error instanceof LimitsError) throw error;
     announce();
     // Procedures resolve on every way out after touching instruments; a throw here
     // is a bug before the first write. Close the run as aborted, then report it.
@@ -118,6 +115,8 @@ async function record<O extends ProcedureOutcome>(
     await writer.finish('aborted');
     throw error;
   }
+  await refusedBeforeOutput(writer, outcome, outputTouched);
+  announce();
   const meta = await writer.finish(outcome.status, outcome.conditions ? { conditions: outcome.conditions } : undefined);
   return { meta, dir: writer.dir, outcome };
 }
