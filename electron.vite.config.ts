@@ -8,7 +8,10 @@ export default defineConfig({
   main: {
     build: {
       outDir: 'out/main',
-      rollupOptions: { input: { index: resolve(__dirname, 'main/index.ts') } },
+      rollupOptions: {
+        // The CSV import worker (main/service/import-off-thread.ts) is its own entry: out/main/import-worker.js.
+        input: { index: resolve(__dirname, 'main/index.ts'), 'import-worker': resolve(__dirname, 'main/service/import-worker.ts') },
+      },
       externalizeDeps: true,
     },
   },

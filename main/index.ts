@@ -11,10 +11,13 @@ import { fileURLToPath } from 'node:url';
 import { app, BrowserWindow, dialog, ipcMain, webContents } from 'electron';
 import { BENCH_METHODS } from '../app/contract/wire.ts';
 import { registerAppScheme, serveRendererOnAppScheme } from './desktop/app-protocol.ts';
+import { isAppUrl } from './desktop/app-url.ts';
 import { hardenSessionAndContents } from './desktop/harden.ts';
 import { createIpcGate, setupBenchIpc } from './ipc/gate.ts';
 import { setupPrintPdfIpc } from './ipc/print-pdf.ts';
+import { parseAllowedHosts } from './service/address-policy.ts';
 import { createDefaultBenchService } from './service/default-ports.ts';
+import { installLastResortGuard } from './service/last-resort-guard.ts';
 import { resolveRunsDir } from './store/index.ts';
 import { APP_ORIGIN, mainWindowOptions } from './window-options.ts';
 
@@ -23,16 +26,25 @@ const preloadPath = fileURLToPath(new URL('../preload/preload.cjs', import.meta.
 // electron-vite's dev server, when running `electron-vite dev`.
 const devUrl = process.env.ELECTRON_RENDERER_URL;
 
-function isAppUrl(url: string): boolean {
-  return url.startsWith(`${APP_ORIGIN}/`) || (devUrl !== undefined && url.startsWith(devUrl));
-}
+const isOwnPage = (url: string): boolean => isAppUrl(url, devUrl);
 
 registerAppScheme();
 // One app per machine: two processes must never drive the same instruments.
 if (!app.requestSingleInstanceLock()) app.exit(0);
 
-const service = createDefaultBenchService({ runsDir: resolveRunsDir(undefined, process.env, process.platform, homedir()) });
-const gate = createIpcGate(ipcMain, isAppUrl);
+const service = createDefaultBenchService({
+  runsDir: resolveRunsDir(undefined, process.env, process.platform, homedir()),
+  // Instruments beyond loopback, private LANs and serial devices only when the user says so.
+  addressPolicy: { extraHosts: parseAllowedHosts(process.env.TUNEBENCH_ALLOW_ADDRESS) },
+});
+const gate = createIpcGate(ipcMain, isOwnPage);
+// The desktop process holds the bench too: a crash, a signal or a heap near its limit leaves the supply safe first.
+installLastResortGuard({
+  source: process,
+  holder: service,
+  log: (line) => console.error(line),
+  exit: (code) => app.exit(code),
+});
 
 function createWindow(): BrowserWindow {
   const window = new BrowserWindow(mainWindowOptions(preloadPath));

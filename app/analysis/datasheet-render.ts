@@ -17,12 +17,22 @@ export function displayRow(row: DatasheetRow): { min: string; typ: string; max: 
 
 const HEAD = ['Parameter', 'Conditions', 'Min', 'Typ', 'Max', 'Unit'];
 
-function mdEscape(text: string): string {
-  return text.replace(/\|/g, '\\|');
+/**
+ * Text as Markdown shows it literally: one line, HTML specials as entities
+ * (a `<script>` title stays text wherever the Markdown is rendered), and
+ * Markdown's own marks (emphasis, code, links, tables) backslash-escaped.
+ */
+export function mdEscape(text: string): string {
+  return text
+    .replace(/[\r\n]+/g, ' ')
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/([\\`*_[\]|~])/g, '\\$1');
 }
 
 export function renderDatasheetMarkdown(sheet: Datasheet): string {
-  const lines = [`# ${mdEscape(sheet.title)}`, '', `Runs: ${sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', ')}`, ''];
+  const lines = [`# ${mdEscape(sheet.title)}`, '', `Runs: ${mdEscape(sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', '))}`, ''];
   lines.push(`| ${HEAD.join(' | ')} |`, '|---|---|--:|--:|--:|---|');
   for (const row of sheet.rows) {
     const d = displayRow(row);

@@ -150,6 +150,7 @@ export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('run-ended'), meta: runMetaSchema }),
   z.object({ type: z.literal('run-event'), runId: z.string(), event: z.looseObject({ time_s: z.number(), type: z.string() }) }),
   z.object({ type: z.literal('error'), message: z.string() }),
+  z.object({ type: z.literal('peers'), others: z.number().int().nonnegative() }),
 ]);
 
 export const wireInboundSchema = z.union([

@@ -7,7 +7,8 @@
  * injected so tests drive it with a fake.
  */
 import type { BenchApi, BenchEvent, BenchMethod } from '../contract/bench-api.ts';
-import { BENCH_METHODS, type WireCall } from '../contract/wire.ts';
+import { BENCH_METHODS, MAX_IMPORT_BYTES, MAX_IMPORT_TEXT, type WireCall } from '../contract/wire.ts';
+import { encodeImportParts } from '../contract/wire-upload.ts';
 import { decodeBinaryReply, WireFrameError } from '../contract/wire-binary.ts';
 import { FrameAssembler } from '../contract/wire-parts.ts';
 import { BenchCallError } from './bench-call-error.ts';
@@ -18,7 +19,7 @@ export interface SocketLike {
   readonly readyState: number;
   /** Set to "arraybuffer": binary replies (app/contract/wire.ts) are read in place. */
   binaryType?: string;
-  send(data: string): void;
+  send(data: string | Uint8Array): void;
   close(): void;
   onopen: (() => void) | null;
   onclose: (() => void) | null;
@@ -58,6 +59,23 @@ const defaultTimers: Timers = {
   setTimeout: (callback, delayMs) => globalThis.setTimeout(callback, delayMs),
   clearTimeout: (handle) => globalThis.clearTimeout(handle as ReturnType<typeof globalThis.setTimeout>),
 };
+
+/** An import whose text is longer than this goes as binary parts (contract/wire.ts). */
+const STREAM_IMPORT_ABOVE_CHARS = 64 * 1024;
+
+/**
+ * The messages that carry one call: one JSON text, or for a long CSV import
+ * binary parts of its UTF-8 bytes (contract/wire.ts), so no message is large,
+ * main never parses the file on its own thread, and a Stop from any page is
+ * read between parts.
+ */
+export function wireMessages(call: WireCall): (string | Uint8Array)[] {
+  const [fileName, text, dutId] = call.params;
+  if (call.method !== 'importCsv' || typeof text !== 'string' || typeof fileName !== 'string' || typeof dutId !== 'string' || text.length <= STREAM_IMPORT_ABOVE_CHARS) {
+    return [JSON.stringify(call)];
+  }
+  return encodeImportParts({ id: call.id, fileName, dutId }, text);
+}
 
 interface Pending {
   method: BenchMethod;
@@ -168,7 +186,7 @@ export function createWsBench(options: WsBenchOptions): WsBench {
       const item = unsent.shift();
       if (!item) break;
       inFlight.set(item.call.id, item.pending);
-      socket.send(JSON.stringify(item.call));
+      for (const message of wireMessages(item.call)) socket.send(message);
     }
   }
 
@@ -227,6 +245,12 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     return new Promise((resolve, reject) => {
       if (closedByUser) {
         reject(new BenchCallError(method, 'the link to the bench is closed', { linkLost: true }));
+        return;
+      }
+      const text = params[1];
+      // UTF-8 never takes fewer bytes than UTF-16 units, so this much text is over the cap for sure; main counts the bytes.
+      if (method === 'importCsv' && typeof text === 'string' && text.length > MAX_IMPORT_BYTES) {
+        reject(new BenchCallError(method, `csvText: is too large (at most ${MAX_IMPORT_TEXT})`, { field: 'csvText' }));
         return;
       }
       const wireCall: WireCall = { id: nextId, method, params };

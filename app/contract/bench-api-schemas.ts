@@ -9,6 +9,8 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
+import { hasUnsafeChars } from './excerpt.ts';
+import { MAX_IMPORT_BYTES, MAX_IMPORT_TEXT } from './wire.ts';
 import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from './plans.ts';
 
 /**
@@ -23,19 +25,19 @@ export const runIdSchema = z
   .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'may hold only letters, digits, "-", "_" and "." (no path separators), starting with a letter or digit')
   .refine((id) => !id.includes('..'), 'must not contain ".."');
 
-/** DUT identifier typed by the operator; printable text, no line breaks. */
+/** DUT identifier typed by the operator; printable text: no line breaks, C0/C1 controls or bidi overrides (they rewrite terminal lines). */
 export const dutIdSchema = z
   .string()
   .min(1, 'must not be empty')
   .max(100, 'must be at most 100 characters')
-  .regex(/^[^\u0000-\u001f\u007f]*$/, 'must not contain control characters or line breaks');
+  .refine((text) => !hasUnsafeChars(text), 'must not contain control characters, line breaks or bidi-override characters');
 
 /** Operator note: free text, line breaks allowed, other control characters not. */
 export const noteTextSchema = z
   .string()
   .min(1, 'must not be empty')
   .max(20_000, 'must be at most 20000 characters')
-  .regex(/^[^\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]*$/, 'must not contain control characters');
+  .refine((text) => !hasUnsafeChars(text, '\t\n\r'), 'must not contain control characters (other than tab and line breaks) or bidi-override characters');
 
 /** A file name as picked in a file dialog: the base name only. */
 export const fileNameSchema = z
@@ -45,8 +47,12 @@ export const fileNameSchema = z
   .regex(/^[^/\\]*$/, 'must be a file name without a folder (no / or \\)')
   .regex(/^[^\u0000-\u001f]*$/, 'must not contain control characters');
 
-/** CSV text read in the renderer; 128 MiB holds a week-long 1 s log while bounding memory. */
-export const csvTextSchema = z.string().min(1, 'must not be empty').max(128 * 1024 * 1024, 'is too large (at most 128 MiB)');
+/** CSV text read in the renderer; the cap holds a week-long 1 s log while bounding memory (./wire.ts). */
+export const csvTextSchema = z
+  .string()
+  .min(1, 'must not be empty')
+  // Counted in UTF-16 units here; a streamed upload (./wire.ts) counts its UTF-8 bytes against the same cap.
+  .max(MAX_IMPORT_BYTES, `is too large (at most ${MAX_IMPORT_TEXT})`);
 
 interface MethodParams {
   names: readonly string[];

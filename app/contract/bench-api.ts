@@ -127,7 +127,9 @@ export type BenchEvent =
   | { type: 'progress'; progress: ProgressInfo }
   | { type: 'run-ended'; meta: RunMeta }
   | { type: 'run-event'; runId: string; event: RunEvent }
-  | { type: 'error'; message: string };
+  | { type: 'error'; message: string }
+  /** Browser mode: how many other pages drive the same bench (any of them can stop, pause or rename a run). */
+  | { type: 'peers'; others: number };
 
 export interface SerialPortInfo {
   path: string;
@@ -146,7 +148,11 @@ export interface BenchApi {
   startPushing(plan: PushingPlan, dutId: string): Promise<RunMeta>;
   pauseRun(): Promise<void>;
   resumeRun(): Promise<void>;
-  /** Clean stop: drift ends as `complete`, a sweep as `aborted`. */
+  /**
+   * Clean stop: drift ends as `complete`, a sweep as `aborted`. Resolves as
+   * soon as the run has been told to stop (served before anything else
+   * queued); the safe state follows, and `run-ended` says when it is done.
+   */
   stopRun(): Promise<void>;
 
   listRuns(): Promise<RunMeta[]>;

@@ -7,7 +7,7 @@
  * unknown keys, naming the nearest known one.
  */
 import { z } from 'zod';
-import { quantity, schemaRef, strictObject, time } from './schema-kit.ts';
+import { anyQuantity, quantity, schemaRef, strictObject, time } from './schema-kit.ts';
 
 export { describeIssues } from './schema-kit.ts';
 
@@ -25,6 +25,10 @@ export const READING_ALLOWANCE_S = 0.02;
 export const HIGH_CURRENT_LIMIT_A = 0.1;
 
 const volts = (bound?: (n: z.ZodNumber) => z.ZodNumber) => quantity('voltage', bound);
+/** A number with an optional SI prefix and unit V, A or Hz, for fields of other files (campaign plans). */
+export const siNumber = anyQuantity();
+/** A time in seconds in the one grammar ("100ms", "15min", "8h"; a bare number is seconds). */
+export const durationS = time();
 const amps = (bound?: (n: z.ZodNumber) => z.ZodNumber) => quantity('current', bound);
 const settleTime = () => time((n) => n.max(MAX_SETTLE_S, `at most ${MAX_SETTLE_S} s (10 min): a longer wait is a typo or a job for a drift log`));
 const gate = () =>
@@ -93,7 +97,16 @@ export const sweepPlanSchema = strictObject({
     .meta({ description: 'Bisect the stall edge down to this resolution after the coarse pass, V. Default 1 mV; 0 turns it off; else 1 µV–1 V.' }),
   limits: limitsSchema.meta({ description: 'Supply limits for the control channel. Required.' }),
   safe: safeStateSchema.default(safeDefault).meta({ description: 'Where the control channel is left on every way out (completion, stop, error, signal).' }),
+  window: strictObject({
+    fromV: volts().meta({ description: 'Lowest control voltage the loop can drive, V.' }),
+    toV: volts().meta({ description: 'Highest control voltage the loop can drive, V; above fromV.' }),
+  })
+    .optional()
+    .meta({ description: 'Tuning window the PLL can drive (its charge pump\'s compliance), V: the gain table quotes Kvco over it. Optional.' }),
 }).superRefine((plan, ctx) => {
+  if (plan.window && !(plan.window.toV > plan.window.fromV)) {
+    ctx.addIssue({ code: 'custom', path: ['window', 'toV'], message: `must be above window.fromV (${plan.window.fromV} V)` });
+  }
   if (plan.points === undefined) {
     for (const key of ['start', 'stop', 'step'] as const) {
       if (plan[key] === undefined) ctx.addIssue({ code: 'custom', path: [key], message: `required unless "points" is given` });
@@ -165,6 +178,7 @@ export const benchConfigSchema = strictObject({
   }).meta({ description: 'The programmable supply: tuning port and DUT supply. Required.' }),
   counter: instrumentConfigSchema.meta({ description: 'The frequency counter. Required.' }),
   thermometer: instrumentConfigSchema.optional().meta({ description: 'Optional; without it temperature columns stay empty.' }),
+  chamber: instrumentConfigSchema.optional().meta({ description: 'Temperature chamber (campaigns only); the thermometer on the DUT is the soak reference. Optional.' }),
 });
 
 export type SweepPlan = z.output<typeof sweepPlanSchema>;

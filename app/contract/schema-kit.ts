@@ -5,7 +5,7 @@
  * sweep with a default in its place.
  */
 import { z } from 'zod';
-import { excerpt, parseQuantity, parseTime, QUANTITY_FORMS, TIME_FORMS, type Parsed, type QuantityKind } from './si.ts';
+import { excerpt, parseQuantity, parseSiNumber, parseTime, QUANTITY_FORMS, TIME_FORMS, type Parsed, type QuantityKind } from './si.ts';
 
 /** Edit distance (insert, delete, substitute, swap neighbours) — Damerau–Levenshtein, optimal string alignment. */
 export function editDistance(a: string, b: string): number {
@@ -86,6 +86,17 @@ export function quantity(kind: QuantityKind, bound: (n: z.ZodNumber) => z.ZodNum
     .transform(fromParsed((text) => parseQuantity(text, kind)))
     .pipe(bound(z.number().finite()))
     .meta({ 'x-quantity': kind });
+}
+
+/** A number, or text with an SI prefix and optionally the unit V, A or Hz (for fields of no single quantity). */
+export function anyQuantity() {
+  const forms = 'a number, optionally with an SI prefix and unit (e.g. 0.25, "250m", "3.3V", "10MHz")';
+  return textOrNumber(forms)
+    .transform(fromParsed((text) => {
+      const value = parseSiNumber(text);
+      return value === null ? { ok: false, error: `expected ${forms}, got ${excerpt(text)}` } : { ok: true, value };
+    }))
+    .pipe(z.number().finite());
 }
 
 /** A time in seconds: a number, or a string with its unit ("100ms", "90s", "15min", "8h"). */

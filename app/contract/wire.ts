@@ -79,3 +79,29 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
 
 /** Optional methods the desktop preload adds (see BenchApi); the WebSocket carrier has none. */
 export const DESKTOP_METHODS: readonly DesktopMethod[] = ['printDatasheetPdf'] as const;
+
+/**
+ * A CSV import larger than one part goes as consecutive BINARY messages of
+ * one call (./wire-upload.ts), its text as UTF-8 bytes:
+ *
+ *   bytes 0..3     header length H, uint32 little-endian
+ *   bytes 4..4+H   UTF-8 JSON { id, method: "importCsv", fileName, dutId, part, parts }
+ *   the rest       the next slice of the text's UTF-8 bytes
+ *
+ * for part = 0 … parts−1 in order, every slice but the last exactly
+ * IMPORT_PART_BYTES long (a slice may end inside a character; main decodes
+ * the joined bytes). Main hands each slice straight to the import's worker
+ * thread, refuses at once past MAX_IMPORT_BYTES, and answers once, after the
+ * last part, like any call. No large message is parsed on main's thread, so a
+ * Stop from any page is served between parts.
+ */
+export const IMPORT_PART_BYTES = 256 * 1024;
+
+/** Largest CSV an import accepts (a week-long log at one reading per second is about 40 MB). */
+export const MAX_IMPORT_BYTES = 64 * 1024 * 1024;
+
+/** The cap as people read it, for error messages. */
+export const MAX_IMPORT_TEXT = '64 MiB';
+
+/** Largest single WebSocket message main accepts: an import part, or a long plan as JSON. */
+export const MAX_WIRE_MESSAGE_BYTES = 4 * 1024 * 1024;

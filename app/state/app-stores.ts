@@ -61,6 +61,9 @@ export function routeEvent(stores: AppStores, event: BenchEvent): void {
     case 'error':
       stores.notice.setState({ message: event.message });
       break;
+    case 'peers':
+      stores.connection.getState().setPeers(event.others);
+      break;
   }
 }
 

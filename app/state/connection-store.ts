@@ -11,6 +11,8 @@ export interface ConnectionStoreState {
   profiles: { name: string; role: string }[];
   busy: boolean;
   error: string | null;
+  /** Browser mode: other pages driving the same bench right now (0 on the desktop). */
+  peers: number;
 }
 
 export interface ConnectionActions {
@@ -19,6 +21,7 @@ export interface ConnectionActions {
   disconnect(): Promise<void>;
   setConnection(state: ConnectionState): void;
   setReadout(readout: LiveReadout): void;
+  setPeers(others: number): void;
 }
 
 export type ConnectionStore = StoreApi<ConnectionStoreState & ConnectionActions>;
@@ -45,6 +48,7 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       profiles: [],
       busy: false,
       error: null,
+      peers: 0,
       async refresh() {
         await guarded(async () => {
           const [connection, ports, profiles] = await Promise.all([bench.getConnection(), bench.listSerialPorts(), bench.listProfiles()]);
@@ -67,6 +71,9 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       },
       setReadout(readout) {
         set({ readout });
+      },
+      setPeers(others) {
+        set({ peers: others });
       },
     };
   });

@@ -51,6 +51,18 @@ function LinkBanner() {
   );
 }
 
+/** Browser mode: one bench, one operator — anyone else on it can stop, pause or rename a run, so say so. */
+function PeerNotice() {
+  const { stores } = useApp();
+  const others = useStore(stores.connection, (s) => s.peers);
+  if (others <= 0) return null;
+  return (
+    <div className="link-banner" role="status" data-testid="peer-count">
+      {others === 1 ? 'One other page' : `${others} other pages`} connected to this bench: whoever is there can stop, pause or rename a run too.
+    </div>
+  );
+}
+
 function Notice() {
   const { stores } = useApp();
   const message = useStore(stores.notice, (s) => s.message);
@@ -92,6 +104,7 @@ export function App() {
         </button>
       </header>
       <LinkBanner />
+      <PeerNotice />
       <Notice />
       <nav className="rail" aria-label="Screens">
         {SCREENS.map((name) => (

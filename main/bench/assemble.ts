@@ -8,7 +8,7 @@
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import { openInstrument, type OpenInstrumentOptions } from '../instruments/open-instrument.ts';
 import { parseAddress } from '../instruments/address.ts';
-import type { Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
+import type { Chamber, Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
 import type { SessionEvent } from '../instruments/scpi-session.ts';
 import { ScpiSession } from '../instruments/scpi-session.ts';
 import type { RecordableBench } from '../procedures/recorded-run.ts';
@@ -20,6 +20,8 @@ export interface AssembledBench extends RecordableBench {
   simulated: boolean;
   /** The in-process simulated bench behind `sim` addresses, if any (tests read its state). */
   sim: SimBench | null;
+  /** The temperature chamber, when the bench file names one. */
+  chamber?: Chamber | undefined;
   close(): Promise<void>;
 }
 
@@ -41,12 +43,17 @@ export const SIM_BENCH_CONFIG: BenchConfig = {
   thermometer: { address: 'sim' },
 };
 
+/** The simulated bench with its chamber, for campaigns without --bench. */
+export const SIM_CAMPAIGN_BENCH_CONFIG: BenchConfig = { ...SIM_BENCH_CONFIG, chamber: { address: 'sim' } };
+
+type AnyDriver = Supply | Counter | Thermometer | Chamber;
+
 function isSimAddress(address: string): boolean {
   return parseAddress(address).kind === 'sim';
 }
 
 /** The SCPI session under a driver made by openInstrument (its drivers keep it public). */
-function sessionOf(driver: Supply | Counter | Thermometer): ScpiSession | null {
+function sessionOf(driver: AnyDriver): ScpiSession | null {
   const candidate = (driver as { session?: unknown }).session;
   return candidate instanceof ScpiSession ? candidate : null;
 }
@@ -58,10 +65,11 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
     ['counter', bench.counter],
   ];
   if (bench.thermometer) entries.push(['thermometer', bench.thermometer]);
+  if (bench.chamber) entries.push(['chamber', bench.chamber]);
   const anySim = entries.some(([, entry]) => isSimAddress(entry.address));
   const sim = anySim ? createSimBench({ ...options.sim, clock: options.clock }) : null;
   const linkListeners = new Set<(role: RoleName, event: SessionEvent) => void>();
-  const opened: { role: RoleName; driver: Supply | Counter | Thermometer; address: string }[] = [];
+  const opened: { role: RoleName; driver: AnyDriver; address: string }[] = [];
   try {
     for (const [role, entry] of entries) {
       const driver = await openInstrument(role, { address: entry.address, profile: entry.profile }, {
@@ -87,6 +95,7 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
       supply: byRole.get('supply') as Supply,
       counter: byRole.get('counter') as Counter,
       thermometer: byRole.get('thermometer') as Thermometer | undefined,
+      chamber: byRole.get('chamber') as Chamber | undefined,
       controlChannel: bench.supply.controlChannel,
       dutSupplyChannel: bench.supply.dutSupplyChannel,
       instruments,
@@ -112,7 +121,7 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
   }
 }
 
-function sessionFor(byRole: Map<RoleName, Supply | Counter | Thermometer>, role: RoleName): ScpiSession {
+function sessionFor(byRole: Map<RoleName, AnyDriver>, role: RoleName): ScpiSession {
   const driver = byRole.get(role);
   const session = driver === undefined ? null : sessionOf(driver);
   if (session === null) throw new Error(`no ${role} with a SCPI session on this bench`);

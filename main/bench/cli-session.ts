@@ -6,7 +6,9 @@
  */
 import { homedir } from 'node:os';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
-import { safeOnCrash, stopOnSignals } from '../procedures/exit-guard.ts';
+import { stopOnSignals } from '../procedures/exit-guard.ts';
+import { goSafe } from '../procedures/safe-state.ts';
+import { installLastResortGuard } from '../service/last-resort-guard.ts';
 import { LimitsError } from '../procedures/limits.ts';
 import { RunControl } from '../procedures/run-control.ts';
 import type { RecordOptions } from '../procedures/recorded-run.ts';
@@ -57,22 +59,48 @@ export async function openCliBench(benchPath: string | undefined, dut: DefaultDu
 }
 
 /**
- * A RunControl stopped by io.signal, or by SIGINT/SIGTERM when the caller
- * gave none. When the command owns the process (its streams are the
- * process's), an uncaught error anywhere still drives the supply to the safe
- * state before the process exits with code 1.
+ * A RunControl stopped by io.signal, or by SIGINT/SIGTERM/SIGHUP when the
+ * caller gave none. When the command owns the process (its streams are the
+ * process's), it installs the one last-resort guard
+ * (main/service/last-resort-guard.ts): a signal stops the run cleanly (the
+ * procedure drives and records the safe state); a crash or a heap near its
+ * limit stops it too, and if the procedure has not ended within 8 s the
+ * guard drives the safe state itself; then the process exits with code 1.
  */
 export function cliControl(io: CliIo, bench: AssembledBench, safe: SafeState): { control: RunControl; dispose: () => void } {
   const control = new RunControl({ signal: io.signal });
   const disposers: (() => void)[] = [];
-  if (io.signal === undefined) disposers.push(stopOnSignals(control, process));
-  if (io.stdout === process.stdout) {
+  let ended: () => void = () => undefined;
+  const runEnded = new Promise<void>((resolve) => (ended = resolve));
+  if (io.stdout === process.stdout && io.signal === undefined) {
     const record = (event: { type: string; [key: string]: unknown }): void => {
       io.stderr.write(`${event.type}: ${JSON.stringify(event)}\n`);
     };
-    disposers.push(safeOnCrash(bench, safe, process, record, (code) => process.exit(code)));
-  }
-  return { control, dispose: () => disposers.forEach((dispose) => dispose()) };
+    const holder = {
+      async leaveSafe(cause: { kind: string }): Promise<{ ok: boolean }> {
+        control.stop(cause.kind === 'signal' ? 'signal' : cause.kind);
+        const wait = new Promise<boolean>((resolve) => setTimeout(() => resolve(false), 8000).unref());
+        if (await Promise.race([runEnded.then(() => true), wait])) return { ok: true };
+        return { ok: (await goSafe(bench, bench.controlChannel, safe, record)).ok };
+      },
+    };
+    disposers.push(
+      installLastResortGuard({
+        source: process,
+        holder,
+        log: (line) => io.stderr.write(`${line}\n`),
+        exit: (code) => process.exit(code),
+        onSignal: () => control.stop('signal'),
+      }),
+    );
+  } else if (io.signal === undefined) disposers.push(stopOnSignals(control, process, ['SIGINT', 'SIGTERM', 'SIGHUP']));
+  return {
+    control,
+    dispose: () => {
+      ended();
+      disposers.forEach((dispose) => dispose());
+    },
+  };
 }
 
 export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay> {

@@ -7,11 +7,13 @@ import { analyzeTable, parseFitSpec } from '../../app/analysis/analyze-table.ts'
 import { CsvError, numericColumn, type CsvTable } from '../../app/analysis/csv-input.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
+import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
+import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
 import { runsDirFrom } from '../bench/cli-session.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|FILE.csv [--json] [--fit poly:N|auto] [--runs DIR]
+const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--json] [--fit poly:N|auto] [--runs DIR]
 
 Analyses a sweep, drift or pushing run (its folder, or its id as \`tunebench runs\`
 prints it), or a plain CSV file:
@@ -19,6 +21,7 @@ prints it), or a plain CSV file:
                empty, NaN, 0 or 9.91E37 = no oscillation); optional direction, status
   drift CSV:   columns time_s, frequency_hz, optional temperature_c
   pushing CSV: columns supply_v, frequency_hz
+  campaign folder (campaign.json): every condition's sweep, tempcos, pushing, headroom
 
 options:
   --json            machine-readable result (keys in docs/reference.md, "analyze --json")
@@ -67,6 +70,12 @@ export const analyzeCommand: CliCommand = {
     if (fit === null) throw new UsageError(`--fit: "${fitText}" is not poly:N (N = 1…6) or auto`);
     const linearityLimitPct = positiveNumber(flags.values.get('linearity-limit'), 'linearity-limit', 'a percentage > 0 (e.g. 5)');
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
+    if (await isCampaignDir(flags.positionals[0] as string)) {
+      const { file, analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
+      if (flags.booleans.has('json')) io.stdout.write(`${JSON.stringify({ ...analysis, campaign: { id: file.id, status: file.status } }, null, 2)}\n`);
+      else io.stdout.write(`campaign ${file.id}, status ${file.status}\n${renderCampaignMarkdown(analysis)}`);
+      return 0;
+    }
     const source = await loadAnalysisSource(flags.positionals[0] as string, runsDirFrom(flags.values.get('runs'), io));
     if (nominalV !== undefined && source.kind === 'sweep') checkNominalInside(nominalV, source.table);
     let result;

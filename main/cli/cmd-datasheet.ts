@@ -8,15 +8,19 @@ import { CsvError } from '../../app/analysis/csv-input.ts';
 import { buildDatasheet, type DatasheetRun } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
+import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
+import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags } from './flags.ts';
 import { runsDirFrom } from '../bench/cli-session.ts';
-import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
+import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 
 const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--runs DIR]
 
 Builds the gain table (min / typ / max over the runs) from sweep, drift and
 pushing runs — folders, or ids as \`tunebench runs\` prints them (plain CSV files
-are accepted too).
+are accepted too). Given one campaign folder (tunebench campaign), it builds the
+table over temperature, supply and units: per-temperature Kvco, tempcos, pushing
+and tuning headroom (md or csv).
 
 options:
   --format md|csv|html  output format (default md); html is one printable, self-contained page
@@ -40,6 +44,12 @@ export const datasheetCommand: CliCommand = {
     if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR or RUN_ID (or FILE.csv)');
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
+    if (flags.positionals.length === 1 && (await isCampaignDir(flags.positionals[0] as string))) {
+      if (format === 'html') throw new UsageError('--format: a campaign datasheet is md or csv');
+      const { analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
+      const text = format === 'csv' ? renderCampaignCsv(analysis) : renderCampaignMarkdown(analysis, flags.values.get('title'));
+      return writeOut(text, flags.values.get('output'), io);
+    }
     const runs: DatasheetRun[] = [];
     for (const path of flags.positionals) {
       const source = await loadAnalysisSource(path, runsDirFrom(flags.values.get('runs'), io));
@@ -56,17 +66,20 @@ export const datasheetCommand: CliCommand = {
       }
     }
     const text = RENDER[format](buildDatasheet(runs, flags.values.get('title')));
-    const output = flags.values.get('output');
-    if (output) {
-      try {
-        await writeFile(output, text, 'utf8');
-      } catch (error) {
-        throw new UsageError(`-o ${output}: cannot write (${(error as Error).message})`);
-      }
-      io.stderr.write(`wrote ${output}\n`);
-    } else {
-      io.stdout.write(text);
-    }
-    return 0;
+    return writeOut(text, flags.values.get('output'), io);
   },
 };
+
+async function writeOut(text: string, output: string | undefined, io: CliIo): Promise<number> {
+  if (output) {
+    try {
+      await writeFile(output, text, 'utf8');
+    } catch (error) {
+      throw new UsageError(`-o ${output}: cannot write (${(error as Error).message})`);
+    }
+    io.stderr.write(`wrote ${output}\n`);
+  } else {
+    io.stdout.write(text);
+  }
+  return 0;
+}

@@ -12,15 +12,21 @@ import { defaultSweepPlan } from '../bench/default-plans.ts';
 import { summarizeRun } from '../bench/run-summary.ts';
 import { recordSweep } from '../procedures/recorded-run.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
+import { runCampaignDemo } from './demo-campaign-cli.ts';
 import { parseFlags } from './flags.ts';
 import { UsageError, type CliCommand } from './types.ts';
 
 const usage = `usage: tunebench demo [--runs DIR] [--dut relaxation|varactor]
+       tunebench demo campaign [--runs DIR]
 
 Runs a full gain sweep of a built-in SIMULATED DUT on the in-process
 simulated bench (virtual time, so it finishes in seconds), writes a run
 folder (a new temporary folder unless --runs is given) and prints the gain
 table. No instrument is touched.
+
+\`demo campaign\` runs a short characterisation campaign instead: a simulated
+chamber at −10, 25 and 60 °C, three DUT supply corners, one unit, then the
+campaign datasheet (tempcos, Kvco per temperature, pushing, headroom).
 `;
 
 export const demoCommand: CliCommand = {
@@ -29,7 +35,8 @@ export const demoCommand: CliCommand = {
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, { values: ['runs', 'dut'] });
-    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
+    if (flags.positionals[0] === 'campaign' && flags.positionals.length === 1) return runCampaignDemo(flags.values.get('runs'), io);
+    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}" (expected nothing or "campaign")`);
     const dut = parseDutName(flags.values.get('dut'));
     const runsDir = flags.values.get('runs') ?? (await mkdtemp(join(tmpdir(), 'tunebench-demo-')));
     const clock = new VirtualClock({ autoAdvance: true, startWallIso: new Date().toISOString() });

@@ -1,7 +1,10 @@
 /**
  * `tunebench serve`: browser mode. Serves the app and the BenchApi on
- * 127.0.0.1 (by default) and prints a URL with a fresh access token; runs
- * until SIGINT/SIGTERM, then leaves any run's supply in the safe state.
+ * 127.0.0.1 (by default) and prints a URL with a fresh access token. Run as
+ * its own process it installs the last-resort guard
+ * (main/service/last-resort-guard.ts): SIGINT/SIGTERM/SIGHUP, a crash or a
+ * heap near its limit leave any run's supply in the safe state, recorded in
+ * the run, before the process exits.
  */
 import { homedir } from 'node:os';
 import { parseFlags } from './flags.ts';
@@ -9,9 +12,11 @@ import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './type
 import { resolveRunsDir } from '../store/index.ts';
 import { startBrowserServer } from '../server/http-server.ts';
 import { ensureRendererBuilt } from '../server/renderer-build.ts';
+import { parseAllowedHosts } from '../service/address-policy.ts';
 import { createDefaultBenchService } from '../service/default-ports.ts';
+import { installLastResortGuard } from '../service/last-resort-guard.ts';
 
-const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR]
+const USAGE = `usage: tunebench serve [--host 127.0.0.1] [--port 7788] [--runs DIR] [--allow-address HOST,…]
 
 Browser mode: serves the tunebench app and its bench connection on this
 machine and prints a URL carrying an access token (?token=…). Open that URL in
@@ -21,10 +26,16 @@ a browser on the same machine; requests without the token are refused.
   --port N      TCP port (default 7788; 0 picks a free one)
   --runs DIR    folder of saved runs (default: TUNEBENCH_RUNS, then the
                 per-user data folder)
+  --allow-address HOST,…
+                instrument hosts the page may connect to beyond loopback,
+                private LANs and serial devices ("*" for any; default:
+                TUNEBENCH_ALLOW_ADDRESS). Profiles are chosen by name only.
 
 Runs until Ctrl+C. A run in progress is stopped and its supply left in the
-safe state before the server exits. Anyone holding the URL can drive the
-bench: do not share it, and keep --host on loopback unless you must.
+safe state before the server exits — also on SIGTERM/SIGHUP, a crash or
+memory running out. Anyone holding the URL can drive the bench, and every page
+connected to it can stop, pause or rename any run (one bench, one operator):
+do not share it, and keep --host on loopback unless you must.
 `;
 
 function parsePort(text: string | undefined): number {
@@ -34,20 +45,12 @@ function parsePort(text: string | undefined): number {
   return port;
 }
 
+/** Resolves when the caller's signal stops the server (in-process use); never, when the process's guard owns the ending. */
 function waitForStop(io: CliIo): Promise<void> {
   return new Promise((resolve) => {
-    if (io.signal) {
-      if (io.signal.aborted) resolve();
-      else io.signal.addEventListener('abort', () => resolve(), { once: true });
-      return;
-    }
-    const stop = (): void => {
-      process.off('SIGINT', stop);
-      process.off('SIGTERM', stop);
-      resolve();
-    };
-    process.once('SIGINT', stop);
-    process.once('SIGTERM', stop);
+    if (!io.signal) return;
+    if (io.signal.aborted) resolve();
+    else io.signal.addEventListener('abort', () => resolve(), { once: true });
   });
 }
 
@@ -56,17 +59,19 @@ export const serveCommand: CliCommand = {
   summary: 'browser mode: serve the app on 127.0.0.1 with an access token',
   usage: USAGE,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['host', 'port', 'runs'] });
+    const flags = parseFlags(argv, { values: ['host', 'port', 'runs', 'allow-address'] });
     if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
     const host = flags.values.get('host') ?? '127.0.0.1';
     if (!/^[A-Za-z0-9.:[\]-]+$/.test(host)) throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
     const port = parsePort(flags.values.get('port'));
     const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
-    const rendererDir = await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) });
-    const service = createDefaultBenchService({ runsDir });
+    // TUNEBENCH_RENDERER_DIR serves a page built elsewhere (a packaged install, the tests) instead of out/renderer.
+    const rendererDir = io.env.TUNEBENCH_RENDERER_DIR || (await ensureRendererBuilt({ log: (line) => io.stderr.write(`${line}\n`) }));
+    const extraHosts = parseAllowedHosts(flags.values.get('allow-address') ?? io.env.TUNEBENCH_ALLOW_ADDRESS);
+    const service = createDefaultBenchService({ runsDir, addressPolicy: { extraHosts } });
     let server;
     try {
-      server = await startBrowserServer({ host, port, rendererDir, api: service });
+      server = await startBrowserServer({ host, port, rendererDir, api: service, openImport: service.openImport });
     } catch (error) {
       await service.close();
       const code = (error as { code?: string }).code;
@@ -76,6 +81,15 @@ export const serveCommand: CliCommand = {
     }
     if (host !== '127.0.0.1' && host !== 'localhost' && host !== '::1') {
       io.stderr.write(`warning: listening on ${host}, not loopback only; anyone who can reach it and holds the token can drive the bench\n`);
+    }
+    if (!io.signal) {
+      // This process holds the bench: whatever ends it, the supply is left safe first.
+      installLastResortGuard({
+        source: process,
+        holder: service,
+        log: (line) => io.stderr.write(`${line}\n`),
+        exit: (code) => process.exit(code),
+      });
     }
     io.stderr.write(`runs folder: ${runsDir}\n`);
     io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl+C stops it\n`);

@@ -38,16 +38,18 @@ function tcpQuery(port: number, command: string): Promise<string> {
 }
 
 describe('tunebench sim', () => {
-  it('serves three instruments on ephemeral ports and stops on abort', async () => {
+  it('serves four instruments (chamber on base-port + 3) on ephemeral ports and stops on abort', async () => {
     const controller = new AbortController();
     const { io, out } = captureIo(controller.signal);
     const running = simCommand.run(['--base-port', '0', '--seed', '2', '--dut', 'varactor'], io);
-    for (let i = 0; i < 250 && !out().includes('thermometer'); i++) await new Promise((r) => setTimeout(r, 20));
+    for (let i = 0; i < 250 && !out().includes('chamber'); i++) await new Promise((r) => setTimeout(r, 20));
     const ports = [...out().matchAll(/tcp:\/\/127\.0\.0\.1:(\d+)/g)].map((m) => Number(m[1]));
-    expect(ports).toHaveLength(3);
+    expect(ports).toHaveLength(4);
     expect(await tcpQuery(ports[0] as number, '*IDN?')).toBe('tunebench,SIM-SUPPLY,0,0.1');
     expect(await tcpQuery(ports[1] as number, '*IDN?')).toBe('tunebench,SIM-COUNTER,0,0.1');
     expect(await tcpQuery(ports[2] as number, '*IDN?')).toBe('tunebench,SIM-THERMOMETER,0,0.1');
+    expect(await tcpQuery(ports[3] as number, '*IDN?')).toBe('tunebench,SIM-CHAMBER,0,0.1');
+    expect(await tcpQuery(ports[3] as number, 'CONT?')).toBe('0');
     // Varactor DUT: oscillates at 0 V tuning once its supply is on (channel 2 is on at power-up).
     expect(Number(await tcpQuery(ports[1] as number, 'MEAS:FREQ?'))).toBeGreaterThan(200e6);
     controller.abort();

@@ -1,7 +1,8 @@
 /**
  * `tunebench sim`: serves the simulated bench on TCP ports so any SCPI
  * client can talk to it — supply on base-port, counter on base-port+1,
- * thermometer on base-port+2 — until SIGINT/SIGTERM.
+ * thermometer on base-port+2, temperature chamber on base-port+3 — until
+ * SIGINT/SIGTERM.
  */
 import { builtinDut } from '../sim/builtin-duts.ts';
 import { loadFaultScriptFile, type FaultScript } from '../sim/faults.ts';
@@ -17,10 +18,11 @@ const USAGE = `usage: tunebench sim [--host 127.0.0.1] [--base-port 5025] [--dut
 
 Serves a simulated bench: a two-channel supply (channel 1 drives the DUT's
 tuning port; channel 2 powers the DUT and starts on at its nominal voltage),
-a frequency counter and a thermometer, all speaking SCPI over raw TCP.
+a frequency counter, a thermometer on the DUT and a temperature chamber around
+it, all speaking SCPI over raw TCP.
 
   --host       address to listen on (default 127.0.0.1, loopback only)
-  --base-port  supply port; counter +1, thermometer +2 (default 5025; 0 = any free ports)
+  --base-port  supply port; counter +1, thermometer +2, chamber +3 (default 5025; 0 = any free ports)
   --dut        built-in model (relaxation, varactor) or a DUT model file (JSON; keys in docs/reference.md)
   --seed       integer seed of all simulated noise (default 1)
   --faults     fault script (JSON): drops, delays, garbage, errors, silence
@@ -65,7 +67,7 @@ async function run(argv: string[], io: CliIo): Promise<number> {
   const flags = parseFlags(argv, { values: ['host', 'base-port', 'dut', 'seed', 'faults', 'no-signal'] });
   if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
   const host = flags.values.get('host') ?? '127.0.0.1';
-  const basePort = parseInteger(flags.values.get('base-port'), 'base-port', 0, 65533, 5025);
+  const basePort = parseInteger(flags.values.get('base-port'), 'base-port', 0, 65532, 5025);
   const seed = parseInteger(flags.values.get('seed'), 'seed', 0, 2 ** 32 - 1, 1);
   const noSignalFlag = flags.values.get('no-signal') ?? 'nan';
   const noSignal = NO_SIGNAL[noSignalFlag];
@@ -92,7 +94,8 @@ async function run(argv: string[], io: CliIo): Promise<number> {
       `simulated bench — DUT ${dut.id} (${dut.kind}), seed ${seed}; simulated instruments only, no hardware is driven`,
       `  supply       ${a.supply}   (channel 1 → tuning port; channel 2 → DUT supply, on at ${dut.supply.nominalV} V)`,
       `  counter      ${a.counter}`,
-      `  thermometer  ${a.thermometer}`,
+      `  thermometer  ${a.thermometer}   (on the DUT)`,
+      `  chamber      ${a.chamber}   (idle until run; the DUT lags its air)`,
       'Ctrl+C stops.',
       '',
     ].join('\n'),
@@ -115,7 +118,7 @@ async function run(argv: string[], io: CliIo): Promise<number> {
 
 export const simCommand: CliCommand = {
   name: 'sim',
-  summary: 'serve the simulated bench (supply, counter, thermometer) on TCP ports',
+  summary: 'serve the simulated bench (supply, counter, thermometer, chamber) on TCP ports',
   usage: USAGE,
   run,
 };

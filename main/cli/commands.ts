@@ -3,6 +3,7 @@
  * the bench procedures first, then analysis, then the tools around them.
  */
 import { analyzeCommand } from './cmd-analyze.ts';
+import { campaignCommand } from './cmd-campaign.ts';
 import { datasheetCommand } from './cmd-datasheet.ts';
 import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
@@ -18,6 +19,7 @@ export const commands: CliCommand[] = [
   sweepCommand,
   driftCommand,
   pushingCommand,
+  campaignCommand,
   analyzeCommand,
   datasheetCommand,
   runsCommand,

@@ -43,7 +43,7 @@ export const DEFAULT_SCPI_PORT = 5025;
 /** Serial defaults when the address names none: 9600 8N1, no flow control (the VISA defaults, from memory). */
 export const SERIAL_DEFAULTS = { baudRate: 9600, dataBits: 8, parity: 'none', stopBits: 1, flow: 'none' } as const;
 
-const ROLES: readonly RoleName[] = ['supply', 'counter', 'thermometer'];
+const ROLES: readonly RoleName[] = ['supply', 'counter', 'thermometer', 'chamber'];
 const VISA_TCPIP = /^TCPIP(\d*)::([^:]+|\[[^\]]+\])::(\d+)::SOCKET$/i;
 const VISA_ASRL = /^ASRL(.+)::INSTR$/i;
 

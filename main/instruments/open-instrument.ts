@@ -8,7 +8,8 @@ import { createTransport } from './create-transport.ts';
 import { createCounter } from './counter-driver.ts';
 import { defaultProfileName, loadProfile } from './profile-loader.ts';
 import type { InstrumentProfile } from './profile-schema.ts';
-import type { Counter, RoleName, Supply, Thermometer } from './roles.ts';
+import { createChamber } from './chamber-driver.ts';
+import type { Chamber, Counter, RoleName, Supply, Thermometer } from './roles.ts';
 import { ScpiSession, type SessionEvent } from './scpi-session.ts';
 import { createSupply } from './supply-driver.ts';
 import { createThermometer } from './thermometer-driver.ts';
@@ -31,7 +32,7 @@ export interface OpenInstrumentOptions {
   onEvent?: (event: SessionEvent) => void;
 }
 
-type RoleDriver<R extends RoleName> = R extends 'supply' ? Supply : R extends 'counter' ? Counter : Thermometer;
+type RoleDriver<R extends RoleName> = R extends 'supply' ? Supply : R extends 'counter' ? Counter : R extends 'chamber' ? Chamber : Thermometer;
 
 export async function openInstrument<R extends RoleName>(role: R, config: InstrumentConfig, options: OpenInstrumentOptions): Promise<RoleDriver<R>> {
   const profile: InstrumentProfile = await loadProfile(config.profile ?? defaultProfileName(role), {
@@ -58,13 +59,14 @@ export async function openInstrument<R extends RoleName>(role: R, config: Instru
     await session.close();
     throw error;
   }
-  return driverFor(session, profile) as RoleDriver<R>;
+  return driverFor(session, profile, config.address) as RoleDriver<R>;
 }
 
-function driverFor(session: ScpiSession, profile: InstrumentProfile): Supply | Counter | Thermometer {
+function driverFor(session: ScpiSession, profile: InstrumentProfile, address: string): Supply | Counter | Thermometer | Chamber {
   switch (profile.role) {
     case 'supply': return createSupply(session, profile);
     case 'counter': return createCounter(session, profile);
     case 'thermometer': return createThermometer(session, profile);
+    case 'chamber': return createChamber(session, profile, address);
   }
 }

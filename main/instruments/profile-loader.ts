@@ -14,6 +14,7 @@ import { ProfileError } from './errors.ts';
 import {
   PLACEHOLDERS,
   profileSchema,
+  type ChamberProfile,
   type CounterProfile,
   type InstrumentProfile,
   type SupplyProfile,
@@ -32,7 +33,7 @@ export interface LoadProfileOptions {
   role?: RoleName;
 }
 
-type ProfileFor<R extends RoleName> = R extends 'supply' ? SupplyProfile : R extends 'counter' ? CounterProfile : ThermometerProfile;
+type ProfileFor<R extends RoleName> = R extends 'supply' ? SupplyProfile : R extends 'counter' ? CounterProfile : R extends 'chamber' ? ChamberProfile : ThermometerProfile;
 
 /** The standard-SCPI profile name for a role. */
 export function defaultProfileName(role: RoleName): string {

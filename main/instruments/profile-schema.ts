@@ -98,7 +98,41 @@ export const thermometerProfileSchema = strictObject({
   }),
 });
 
-export const profileSchema = z.discriminatedUnion('role', [supplyProfileSchema, counterProfileSchema, thermometerProfileSchema]);
+export const chamberProfileSchema = strictObject({
+  ...common,
+  role: z.literal('chamber'),
+  timeouts: strictObject({ defaultS: positiveS.default(3) }).default({ defaultS: 3 }),
+  capabilities: strictObject({ rampRate: z.boolean(), runStop: z.boolean() }),
+  /** At the end of a campaign: drive to the plan's safeC ("setpoint") or switch conditioning off ("stop"). */
+  endAction: z.enum(['setpoint', 'stop']).default('setpoint'),
+  /** A setpoint read back within this many °C of what was written counts as taken. */
+  setpointToleranceC: z.number().positive().finite().default(0.05),
+  commands: strictObject({
+    identify: command.default('*IDN?'),
+    setSetpoint: command,
+    getSetpoint: command,
+    readAirTemperature: command,
+    setRampRate: command.optional(),
+    setRunning: command.optional(),
+    getRunning: command.optional(),
+  }),
+}).superRefine((profile, ctx) => {
+  const needs: [keyof typeof profile.capabilities, keyof typeof profile.commands][] = [
+    ['rampRate', 'setRampRate'],
+    ['runStop', 'setRunning'],
+    ['runStop', 'getRunning'],
+  ];
+  for (const [capability, op] of needs) {
+    if (profile.capabilities[capability] && profile.commands[op] === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['commands', op], message: `required because capabilities.${capability} is true` });
+    }
+  }
+  if (profile.endAction === 'stop' && !profile.capabilities.runStop) {
+    ctx.addIssue({ code: 'custom', path: ['endAction'], message: '"stop" needs capabilities.runStop; use "setpoint"' });
+  }
+});
+
+export const profileSchema = z.discriminatedUnion('role', [supplyProfileSchema, counterProfileSchema, thermometerProfileSchema, chamberProfileSchema]);
 
 /** Placeholders each operation may use. */
 export const PLACEHOLDERS = {
@@ -109,6 +143,10 @@ export const PLACEHOLDERS = {
   },
   counter: { identify: [], setGate: ['gateS'], readFrequency: ['gateS'] },
   thermometer: { identify: [], readTemperature: [] },
+  chamber: {
+    identify: [], setSetpoint: ['celsius'], getSetpoint: [], readAirTemperature: [], setRampRate: ['ratePerMin'],
+    setRunning: ['state'], getRunning: [],
+  },
 } as const satisfies Record<string, Record<string, readonly string[]>>;
 
 type Compiled<C> = { [K in keyof C]-?: undefined extends C[K] ? CommandTemplate | undefined : CommandTemplate };
@@ -116,5 +154,6 @@ type Compiled<C> = { [K in keyof C]-?: undefined extends C[K] ? CommandTemplate 
 export type SupplyProfile = Omit<z.output<typeof supplyProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof supplyProfileSchema>['commands']> };
 export type CounterProfile = Omit<z.output<typeof counterProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof counterProfileSchema>['commands']> };
 export type ThermometerProfile = Omit<z.output<typeof thermometerProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof thermometerProfileSchema>['commands']> };
-export type InstrumentProfile = SupplyProfile | CounterProfile | ThermometerProfile;
+export type ChamberProfile = Omit<z.output<typeof chamberProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof chamberProfileSchema>['commands']> };
+export type InstrumentProfile = SupplyProfile | CounterProfile | ThermometerProfile | ChamberProfile;
 export type ProfileInput = z.input<typeof profileSchema>;

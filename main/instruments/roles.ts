@@ -73,4 +73,44 @@ export interface Thermometer {
   close(): Promise<void>;
 }
 
-export type RoleName = 'supply' | 'counter' | 'thermometer';
+export interface ChamberCapabilities {
+  /** The chamber takes a ramp-rate limit (°C/min). */
+  rampRate: boolean;
+  /** The chamber can be switched to run and to stop (conditioning off). */
+  runStop: boolean;
+}
+
+/** Limits a chamber driver holds before it writes any setpoint or ramp rate. */
+export interface ChamberLimits {
+  minC: number;
+  maxC: number;
+  maxRateCPerMin: number;
+}
+
+/**
+ * A temperature chamber: setpoint, air temperature, ramp rate, run/stop.
+ * The DUT thermometer, not the chamber's air sensor, is the soak reference.
+ * The driver refuses every setpoint or ramp write until limits are set, and
+ * any value outside them: safety sits at the layer that writes.
+ */
+export interface Chamber {
+  readonly role: 'chamber';
+  readonly capabilities: ChamberCapabilities;
+  /** What the chamber does at the end of a campaign: go to a setpoint, or stop (per profile). */
+  readonly endAction: 'setpoint' | 'stop';
+  identify(): Promise<InstrumentIdentity>;
+  setLimits(limits: ChamberLimits): void;
+  /** Setpoint in °C; read back and checked. */
+  setSetpoint(celsius: number): Promise<void>;
+  getSetpoint(): Promise<number>;
+  /** Air temperature at the chamber's own sensor, °C. */
+  readAirTemperature(): Promise<number>;
+  /** Ramp-rate limit, °C/min. Throws UnsupportedOperationError when capabilities.rampRate is false. */
+  setRampRate(cPerMin: number): Promise<void>;
+  /** Conditioning on (run) or off (stop). Throws UnsupportedOperationError when capabilities.runStop is false. */
+  setRunning(on: boolean): Promise<void>;
+  getRunning(): Promise<boolean>;
+  close(): Promise<void>;
+}
+
+export type RoleName = 'supply' | 'counter' | 'thermometer' | 'chamber';

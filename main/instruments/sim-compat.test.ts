@@ -8,6 +8,7 @@ import { createSimBench, type SimBench } from '../sim/index.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { InstrumentError } from './errors.ts';
 import { openInstrument } from './open-instrument.ts';
+import type { RoleName } from './roles.ts';
 
 let bench: SimBench | null = null;
 afterEach(() => {
@@ -20,7 +21,7 @@ describe('shipped profiles on the simulated bench', () => {
     const clock = new RealClock();
     const simBench = createSimBench({ clock });
     bench = simBench;
-    const options = { clock, sim: (role: 'supply' | 'counter' | 'thermometer') => simBench.transport(role) };
+    const options = { clock, sim: (role: RoleName) => simBench.transport(role) };
     const supply = await openInstrument('supply', { address: 'sim' }, options);
     const counter = await openInstrument('counter', { address: 'sim:counter' }, options);
     const thermometer = await openInstrument('thermometer', { address: 'sim' }, options);

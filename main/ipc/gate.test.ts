@@ -70,3 +70,18 @@ describe('IPC gate', () => {
     expect(handlers.size).toBe(0);
   });
 });
+
+describe('IPC gate against hostile payloads (issue 14.1)', () => {
+  it('answers a 6000-deep nested argument and a 100 000-character one with a bounded refusal, never a throw', async () => {
+    const { call, renamed } = setup();
+    let nested: unknown = 'x';
+    for (let i = 0; i < 6000; i += 1) nested = [nested];
+    const deep = await call(fromWindow(7), nested, 'osc-b');
+    expect(deep).toMatchObject({ ok: false, error: { message: expect.stringMatching(/nested too deeply \(at most 16 levels\)/) } });
+    const long = await call(fromWindow(7), `run${'\u202e'.repeat(100_000)}`, 'osc-b');
+    expect(long.ok).toBe(false);
+    expect(JSON.stringify(long).length).toBeLessThan(1200);
+    expect(JSON.stringify(long)).not.toContain('\u202e');
+    expect(renamed).toEqual([]);
+  });
+});

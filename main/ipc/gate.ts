@@ -8,8 +8,7 @@
  * test drives the gate with fakes and never launches Electron.
  */
 import type { BenchApi, BenchEvent } from '../../app/contract/bench-api.ts';
-import { describeError, invokeValidated } from '../service/call-guard.ts';
-import { parseCallParams } from '../../app/contract/bench-api-schemas.ts';
+import { checkCall, describeError, invokeValidated } from '../service/call-guard.ts';
 import { callChannel, EVENT_CHANNEL, type IpcMethod, type IpcOutcome } from './channels.ts';
 
 /** What the gate reads from an IPC event (a subset of IpcMainInvokeEvent). */
@@ -59,11 +58,11 @@ export function createIpcGate(ipcMain: IpcMainLike, isAppUrl: (url: string) => b
       const channel = callChannel(method);
       channels.push(channel);
       ipcMain.handle(channel, async (event, ...args): Promise<IpcOutcome> => {
-        const caller = callerOf(event);
-        if (!caller) return { ok: false, error: { message: `${method}: refused, the caller is not a tunebench window` } };
-        const checked = parseCallParams(method, args);
-        if (!checked.ok) return { ok: false, error: checked.field ? { message: checked.message, field: checked.field } : { message: checked.message } };
         try {
+          const caller = callerOf(event);
+          if (!caller) return { ok: false, error: { message: `${method}: refused, the caller is not a tunebench window` } };
+          const checked = checkCall(method, args);
+          if (!checked.ok) return checked;
           const result = await handler(checked.args, caller);
           return { ok: true, result: result === undefined ? null : result };
         } catch (error) {

@@ -17,7 +17,7 @@ export {
 export { RunControl, RunStoppedError, type RunControlOptions, type StopReason } from './run-control.ts';
 export { LimitsError, checkLimits, checkControlV, applyLimits, ovpLevelV } from './limits.ts';
 export { goSafe, type SafeStateResult } from './safe-state.ts';
-export { stopOnSignals, safeOnCrash, type SignalSource } from './exit-guard.ts';
+export { stopOnSignals, type SignalSource } from './exit-guard.ts';
 export { sweepSchedule, sweepLevels, MAX_SWEEP_POINTS, type SweepSchedule } from './sweep-points.ts';
 export type { ProgressListener } from './progress.ts';
 export type { BenchRoles, EventBody, FailureKind, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from './types.ts';

@@ -18,7 +18,7 @@ import type { RunControl } from './run-control.ts';
 import { SWEEP_COLUMNS, runSweep, type SweepOutcome } from './sweep.ts';
 import { sweepSchedule } from './sweep-points.ts';
 import { DEFAULT_GATE_RANGE_S } from '../instruments/roles.ts';
-import type { BenchRoles, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
+import type { BenchRoles, EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
 
 /** What a bench tells run.json about itself. */
 export interface RecordableBench extends BenchRoles {
@@ -38,6 +38,8 @@ export interface RecordOptions {
   /** Each row as it is recorded (for live views). */
   onSample?: (row: SampleRow) => void;
   onEvent?: (event: ProcedureEvent) => void;
+  /** Events recorded first in the run (e.g. a campaign's `campaign-condition`). */
+  startEvents?: readonly EventBody[];
 }
 
 export interface RecordedRun<O extends ProcedureOutcome> {
@@ -104,6 +106,7 @@ async function record<O extends ProcedureOutcome>(
       tee.appendEvent(event);
     },
   };
+  for (const event of options.startEvents ?? []) writer.appendEvent({ ...event });
   let outcome: O;
   try {
     outcome = await run(sink);

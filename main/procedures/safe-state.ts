@@ -6,6 +6,7 @@
  */
 import type { SafeState } from '../../app/contract/plans.ts';
 import { DisconnectedError } from '../instruments/errors.ts';
+import type { RoleName } from '../instruments/roles.ts';
 import type { BenchRoles, EventBody } from './types.ts';
 
 export interface SafeStateResult {
@@ -13,12 +14,14 @@ export interface SafeStateResult {
   failures: string[];
 }
 
-async function tryStep(
+/** One safe-state step on `role` (default the supply); also used by the campaign's safe state. */
+export async function tryStep(
   bench: BenchRoles,
   step: string,
   action: () => Promise<void>,
   record: (event: EventBody) => void,
   failures: string[],
+  role: RoleName = 'supply',
 ): Promise<void> {
   try {
     await action();
@@ -29,7 +32,7 @@ async function tryStep(
     if (error instanceof DisconnectedError && bench.reconnect) {
       // A link that dropped mid-run is the common case; one reopen is worth it.
       try {
-        await bench.reconnect('supply');
+        await bench.reconnect(role);
         await action();
         record({ type: 'safe-state', step, ok: true, afterReconnect: true });
         return;

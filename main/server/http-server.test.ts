@@ -109,7 +109,8 @@ describe('browser-mode server', () => {
   });
 
   it('serves assets with the cookie, but never a path outside the build', async () => {
-    const cookie = `tunebench_token_${server.port}=${server.token}`;
+    const page = await get(server, `/?token=${server.token}`);
+    const cookie = String(page.headers['set-cookie']).split(';')[0] as string;
     const asset = await get(server, '/assets/app.js', { cookie });
     expect(asset.status).toBe(200);
     expect(asset.headers['content-type']).toContain('text/javascript');
@@ -163,11 +164,11 @@ describe('browser-mode server', () => {
     socket.send(JSON.stringify({ id: 5, method: 'openRun', params: ['r1'] }));
     await new Promise((resolve) => setTimeout(resolve, 50));
     hub.emit({ type: 'error', message: 'after' });
-    await expect.poll(() => messages.some((m) => !m.isBinary)).toBe(true);
+    await expect.poll(() => messages.some((m) => !m.isBinary && m.data.toString().includes('"after"'))).toBe(true);
     const parts = messages.filter((m) => m.isBinary);
     expect(parts.length).toBeGreaterThan(2);
     expect(parts.every((m) => m.data.byteLength <= PART_BYTES)).toBe(true);
-    expect(messages[messages.length - 1]?.isBinary).toBe(false); // the event came after every part
+    expect(messages[messages.length - 1]?.data.toString()).toContain('"after"'); // the event came after every part
     const assembler = new FrameAssembler();
     let frame: ArrayBuffer | null = null;
     for (const { data } of parts) frame = assembler.push(data.buffer.slice(data.byteOffset, data.byteOffset + data.byteLength) as ArrayBuffer);

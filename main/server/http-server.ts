@@ -5,21 +5,29 @@
  * Access (see DEVELOPERS.md, "Browser mode"):
  * - The printed URL carries a random token. The page request must bear it
  *   (`/?token=…`); that answer also sets an HttpOnly, SameSite=Strict cookie
- *   holding the token so the page's own scripts and styles load without it.
- * - Every other path needs the cookie (or the token as a query parameter).
- * - The WebSocket needs the token in its URL (the cookie does not count) AND
- *   an Origin equal to this server's own origin; others are refused at the
- *   handshake.
- * - The Host header must name this server (guards against DNS rebinding).
- * All comparisons of the token are constant-time.
+ *   so the page's own scripts and styles load without it. The cookie holds a
+ *   second, unrelated secret that only opens static files: browsers send
+ *   cookies to every port of a host, so the cookie must never be worth the
+ *   token.
+ * - The WebSocket needs the token in its URL (no cookie counts) AND an Origin
+ *   equal to this server's own origin; others are refused at the handshake.
+ * - The Host header must name this server (guards against DNS rebinding),
+ *   also when listening on every interface: then it must name one of this
+ *   machine's own addresses or its host name.
+ * - At most MAX_CLIENTS pages at once; each is told how many others are on
+ *   the same bench (one bench, one operator: any of them can stop a run).
+ * All comparisons of secrets are constant-time.
  */
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
 import type { AddressInfo, Socket } from 'node:net';
-import { WebSocketServer } from 'ws';
+import { hostname, networkInterfaces } from 'node:os';
+import { WebSocketServer, type WebSocket } from 'ws';
 import type { BenchApi } from '../../app/contract/bench-api.ts';
+import { MAX_WIRE_MESSAGE_BYTES } from '../../app/contract/wire.ts';
 import { securityHeaders } from './security-headers.ts';
 import { readStaticFile } from './static-files.ts';
 import { createAccessToken, readCookie, TOKEN_COOKIE, tokenMatches } from './token.ts';
+import type { OpenImport } from './import-upload.ts';
 import { attachBenchSocket } from './ws-api.ts';
 
 export interface BrowserServerOptions {
@@ -27,6 +35,10 @@ export interface BrowserServerOptions {
   port: number;
   rendererDir: string;
   api: BenchApi;
+  /** Streamed CSV imports (the service's openImport); without it, import parts are refused. */
+  openImport?: OpenImport;
+  /** How long a reply waits for a page that does not read (tests shorten it). */
+  drainWaitMs?: number;
   /** Fixed token for tests; a fresh random one otherwise. */
   token?: string;
 }
@@ -40,8 +52,8 @@ export interface BrowserServer {
   close(): Promise<void>;
 }
 
-/** Large enough for a CSV import (the schema caps the text at 128 MiB). */
-const MAX_MESSAGE_BYTES = 160 * 1024 * 1024;
+/** Pages connected at once; more are refused at the handshake (503). */
+export const MAX_CLIENTS = 8;
 
 function isLoopbackName(host: string): boolean {
   return host === '127.0.0.1' || host === 'localhost' || host === '::1' || host === '[::1]';
@@ -51,10 +63,37 @@ function hostPort(host: string, port: number): string {
   return host.includes(':') && !host.startsWith('[') ? `[${host}]:${port}` : `${host}:${port}`;
 }
 
+/** This machine's interface addresses and host name: what a Host header may name when listening on every interface. */
+function ownHostNames(): string[] {
+  const names = [hostname().toLowerCase()];
+  for (const entries of Object.values(networkInterfaces())) for (const entry of entries ?? []) names.push(entry.address.toLowerCase());
+  return names;
+}
+
+/**
+ * The Host headers this server answers to (DNS-rebinding guard): its own
+ * address, loopback names when on loopback, and — when listening on every
+ * interface — this machine's own addresses and name, never another domain.
+ */
+export function allowedHostHeaders(listenHost: string, port: number, ownNames: readonly string[]): Set<string> {
+  const wildcard = listenHost === '0.0.0.0' || listenHost === '::';
+  const allowed = new Set([hostPort(listenHost, port)]);
+  if (isLoopbackName(listenHost) || wildcard) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowed.add(`${name}:${port}`);
+  if (wildcard) for (const name of ownNames) allowed.add(hostPort(name.toLowerCase(), port));
+  return allowed;
+}
+
+/** Tells each connected page how many other pages drive the same bench. */
+function tellPeers(clients: Set<WebSocket>): void {
+  const open = [...clients].filter((client) => client.readyState === client.OPEN);
+  for (const client of open) client.send(JSON.stringify({ event: { type: 'peers', others: open.length - 1 } }));
+}
+
 export async function startBrowserServer(options: BrowserServerOptions): Promise<BrowserServer> {
   const token = options.token ?? createAccessToken();
   const http = createServer();
-  const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_MESSAGE_BYTES });
+  const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_WIRE_MESSAGE_BYTES });
+  const assetSecret = createAccessToken();
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);
     http.listen(options.port, options.host, () => {
@@ -64,14 +103,12 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
   });
   const port = (http.address() as AddressInfo).port;
   const cookieName = `${TOKEN_COOKIE}_${port}`; // cookies ignore ports; one name per server
-  const wildcard = options.host === '0.0.0.0' || options.host === '::';
-  const allowedHosts = new Set([hostPort(options.host, port)]);
-  if (isLoopbackName(options.host)) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowedHosts.add(`${name}:${port}`);
+  const allowedHosts = allowedHostHeaders(options.host, port, ownHostNames());
   const origin = `http://${hostPort(options.host, port)}`;
 
   const hostAllowed = (request: IncomingMessage): boolean => {
     const host = request.headers.host;
-    return typeof host === 'string' && (wildcard || allowedHosts.has(host.toLowerCase()));
+    return typeof host === 'string' && allowedHosts.has(host.toLowerCase());
   };
   const originAllowed = (request: IncomingMessage): boolean => {
     const offered = request.headers.origin;
@@ -81,7 +118,7 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
     const url = new URL(request.url ?? '/', 'http://placeholder');
     return {
       query: tokenMatches(token, url.searchParams.get('token')),
-      cookie: tokenMatches(token, readCookie(request.headers.cookie, cookieName)),
+      cookie: tokenMatches(assetSecret, readCookie(request.headers.cookie, cookieName)),
     };
   };
 
@@ -104,7 +141,7 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
       if (!file && pathname === '/favicon.ico') return void response.writeHead(204, securityHeaders(origin)).end();
       if (!file) return refuse(response, 404, 'Not found.');
       const headers: Record<string, string> = { ...securityHeaders(origin), 'Content-Type': file.contentType };
-      if (access.query) headers['Set-Cookie'] = `${cookieName}=${token}; HttpOnly; SameSite=Strict; Path=/`;
+      if (access.query) headers['Set-Cookie'] = `${cookieName}=${assetSecret}; HttpOnly; SameSite=Strict; Path=/`;
       response.writeHead(200, headers);
       response.end(request.method === 'HEAD' ? undefined : file.body);
     })().catch(() => {
@@ -120,10 +157,15 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
     };
     if (pathname !== '/api') return reject('404 Not Found');
     if (!hostAllowed(request) || !originAllowed(request)) return reject('403 Forbidden');
-    // The socket takes the token from its URL only: the cookie exists for
-    // the page's static assets, and is never enough to drive the bench.
+    // The socket takes the token from its URL only: the cookie opens the
+    // page's static assets, and is never enough to drive the bench.
     if (!tokenOf(request).query) return reject('401 Unauthorized');
-    wss.handleUpgrade(request, socket, head, (ws) => attachBenchSocket(ws, options.api));
+    if (wss.clients.size >= MAX_CLIENTS) return reject('503 Service Unavailable');
+    wss.handleUpgrade(request, socket, head, (ws) => {
+      attachBenchSocket(ws, options.api, { openImport: options.openImport, drainWaitMs: options.drainWaitMs });
+      ws.on('close', () => tellPeers(wss.clients));
+      tellPeers(wss.clients);
+    });
   });
 
   return {

@@ -1,8 +1,10 @@
 /**
  * Serves the built renderer (out/renderer) read-only. A request path is
  * decoded, normalised and must stay inside the root; anything else is 404.
+ * Symbolic links are followed only when the file they lead to is still
+ * inside the (real) root.
  */
-import { readFile, stat } from 'node:fs/promises';
+import { readFile, realpath, stat } from 'node:fs/promises';
 import { extname, join, normalize, sep } from 'node:path';
 
 const CONTENT_TYPES: Readonly<Record<string, string>> = {
@@ -45,9 +47,12 @@ export async function readStaticFile(root: string, urlPath: string): Promise<Sta
   const path = resolveStaticPath(root, urlPath);
   if (path === null) return null;
   try {
-    const info = await stat(path);
+    const [realRoot, realFile] = await Promise.all([realpath(root), realpath(path)]);
+    const rootWithSep = realRoot.endsWith(sep) ? realRoot : realRoot + sep;
+    if (!realFile.startsWith(rootWithSep)) return null;
+    const info = await stat(realFile);
     if (!info.isFile()) return null;
-    return { body: await readFile(path), contentType: CONTENT_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream' };
+    return { body: await readFile(realFile), contentType: CONTENT_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream' };
   } catch {
     return null;
   }

@@ -133,7 +133,7 @@ describe('BenchApi service', () => {
     await service.pauseRun();
     await service.resumeRun();
     await service.stopRun();
-    const ended = events.find((e) => e.type === 'run-ended');
+    const ended = await waitFor(() => events.find((e) => e.type === 'run-ended'));
     expect(ended).toMatchObject({ meta: { id: meta.id, status: 'complete' } });
     const afterEnd = events.length;
     await waitFor(() => events.slice(afterEnd).find((e) => e.type === 'live'));

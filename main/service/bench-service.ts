@@ -7,18 +7,29 @@
  */
 import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
+import { goSafe } from '../procedures/safe-state.ts';
+import { sanitiseText } from '../../app/contract/excerpt.ts';
+import { checkApiBench, type AddressPolicy } from './address-policy.ts';
 import { BenchApiError } from './errors.ts';
+import type { ImportStream } from './import-off-thread.ts';
+import type { BenchHolder, GuardCause } from './last-resort-guard.ts';
 import { EventHub } from './event-hub.ts';
 import { LivePoller } from './live-readout.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
 
-export interface BenchService extends BenchApi {
+export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
   close(): Promise<void>;
+  /** A CSV import fed as UTF-8 slices (browser mode's streamed upload); absent when the store has none. */
+  openImport?: (fileName: string, dutId: string) => ImportStream;
 }
 
 export interface BenchServiceOptions extends ServicePorts {
+  /** What a bench reached over the API may be (./address-policy.ts); default: loopback, private LAN, serial devices. */
+  addressPolicy?: AddressPolicy;
+  /** Real ms the last-resort path waits for a run's own safe state before doing it itself. Default 8000. */
+  lastResortWaitMs?: number;
   /** Real ms between live readouts while idle. Default 333. */
   livePeriodMs?: number;
   /** Real ms between sample batches during a run. Default 150. */
@@ -100,6 +111,41 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     }
   };
 
+  /**
+   * The last-resort path (./last-resort-guard.ts): records why in the run,
+   * stops it so the procedure drives its own safe state and records the end;
+   * if the procedure does not end in time, drives the safe state here and
+   * records the run as aborted. An idle bench's control channel goes to the
+   * default safe state too. Never rejects.
+   */
+  const leaveSafe = async (cause: GuardCause): Promise<{ ok: boolean }> => {
+    let ok = true;
+    const current = run;
+    const opened = bench;
+    try {
+      if (current) {
+        const { kind: _kind, ...detail } = cause;
+        current.note({ type: 'last-resort', cause: cause.kind, ...detail });
+        current.control.stop(cause.kind === 'signal' ? 'signal' : cause.kind);
+        const ended = await Promise.race([
+          current.done.then(() => true),
+          new Promise<boolean>((resolve) => setTimeout(() => resolve(false), options.lastResortWaitMs ?? 8000).unref()),
+        ]);
+        if (!ended && opened) {
+          const result = await goSafe(opened.roles, opened.roles.controlChannel, current.safe, (event) => current.note(event));
+          ok = result.ok;
+          await current.abandon().catch(() => undefined);
+        }
+      } else if (opened) {
+        ok = (await goSafe(opened.roles, opened.roles.controlChannel, { controlV: 0, outputOff: true }, () => undefined)).ok;
+      }
+    } catch {
+      ok = false;
+    }
+    await stopLive().catch(() => undefined);
+    return { ok };
+  };
+
   const requireRun = (): RunSession => {
     if (!run) throw new BenchApiError('no run in progress');
     return run;
@@ -111,16 +157,20 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     async connect(config: BenchConfig | 'sim') {
       if (connecting || starting) throw new BenchApiError('a connection attempt or a run start is already in progress');
       if (run) throw new BenchApiError(`a run is in progress (${run.meta.id}); stop it before changing the bench`);
+      await checkApiBench(config, options.addressPolicy ?? { extraHosts: new Set() });
       connecting = true;
       try {
         await closeBench();
         try {
           bench = await options.openBench(config);
         } catch (error) {
-          const message = error instanceof Error ? error.message : String(error);
+          // What a peer or a file said is shown only as a short, escaped excerpt.
+          const message = sanitiseText(error instanceof Error ? error.message : String(error), 200);
           setConnection({ ...DISCONNECTED, error: message });
           throw new BenchApiError(`connect: ${message}`);
         }
+        // An identity is whatever the peer answered: keep it short and printable.
+        bench.connection = { ...bench.connection, roles: bench.connection.roles.map((role) => ({ ...role, idn: sanitiseText(role.idn, 100) })) };
         setConnection(bench.connection);
         startLive();
         return connection;
@@ -143,9 +193,9 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       requireRun().control.resume();
     },
     async stopRun() {
-      const current = requireRun();
-      current.control.stop('stop');
-      await current.done;
+      // Answers as soon as the run has been told: it leaves its waits at once and drives the safe
+      // state, which can take a while on a busy bench; `run-ended` follows with the safe-state steps.
+      requireRun().control.stop('stop');
     },
     listRuns: () => options.store.list(),
     openRun: (id) => options.store.open(id),
@@ -158,6 +208,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     restoreRun: (id) => options.store.restore(id),
     importCsv: (fileName, csvText, dutId) => options.store.importCsv(fileName, csvText, dutId),
     subscribe: (listener) => hub.subscribe(listener),
+    ...(options.store.openImport ? { openImport: options.store.openImport.bind(options.store) } : {}),
+    leaveSafe,
     async close() {
       await closeBench();
       connection = DISCONNECTED;

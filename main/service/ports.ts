@@ -14,6 +14,7 @@ import type { BenchConfig } from '../../app/contract/plans.ts';
 import type { RunControl } from '../procedures/run-control.ts';
 import type { BenchRoles, ProcedureOutcome, ProcedureProgress, RunSink } from '../procedures/types.ts';
 import type { Clock } from '../time/clock.ts';
+import type { ImportStream } from './import-off-thread.ts';
 
 export interface OpenedBench {
   roles: BenchRoles;
@@ -49,6 +50,8 @@ export interface RunStorePort {
   delete(id: string): Promise<void>;
   restore(id: string): Promise<RunMeta>;
   importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta>;
+  /** The same import fed as UTF-8 slices (browser mode's streamed upload). */
+  openImport?(fileName: string, dutId: string): ImportStream;
 }
 
 export interface ServicePorts {

@@ -6,7 +6,8 @@
  */
 import type { BenchEvent, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import { RunControl } from '../procedures/run-control.ts';
-import type { ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
+import type { SafeState } from '../../app/contract/plans.ts';
+import type { EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
 import { createRun, type RunWriter } from '../store/index.ts';
 import type { OpenedBench, ProcedurePort } from './ports.ts';
 import { SampleBatcher } from './sample-batcher.ts';
@@ -28,6 +29,12 @@ export interface RunSession {
   control: RunControl;
   /** Resolves with the final run.json once the run has ended and been recorded. */
   done: Promise<RunMeta>;
+  /** The plan's safe state (default: 0 V, output off). */
+  safe: SafeState;
+  /** Records an event in the run (events.jsonl) and tells the renderer. */
+  note(event: EventBody): void;
+  /** Last resort when the procedure did not end: records the run as aborted without waiting for it. */
+  abandon(): Promise<void>;
 }
 
 function teeSink(writer: RunWriter, batcher: SampleBatcher<SampleRow>, onEvent: (event: ProcedureEvent) => void): RunSink {
@@ -69,6 +76,12 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
   const meta = writer.meta();
   emit({ type: 'run-started', meta });
 
+  let finished = false;
+  const finishOnce = async (status: Exclude<RunMeta['status'], 'running'>): Promise<RunMeta> => {
+    if (finished) return writer.meta();
+    finished = true;
+    return writer.finish(status);
+  };
   const done = (async (): Promise<RunMeta> => {
     let outcome: ProcedureOutcome | null = null;
     try {
@@ -90,7 +103,7 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     if (outcome?.failure) emit({ type: 'error', message: `${options.kind} run ${runId}: ${outcome.failure.message}` });
     let final: RunMeta;
     try {
-      final = await writer.finish(outcome?.status ?? 'aborted');
+      final = await finishOnce(outcome?.status ?? 'aborted');
     } catch (error) {
       const message = error instanceof Error ? error.message : String(error);
       emit({ type: 'error', message: `recording the end of run ${runId} failed: ${message}` });
@@ -99,5 +112,17 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     emit({ type: 'run-ended', meta: final });
     return final;
   })();
-  return { meta, control, done };
+  const planSafe = (options.plan as { safe?: SafeState } | null)?.safe;
+  return {
+    meta,
+    control,
+    done,
+    safe: planSafe ?? { controlV: 0, outputOff: true },
+    note: (event) => sink.appendEvent({ time_s: writer.elapsedS(), ...event }),
+    abandon: async () => {
+      batcher.flushNow();
+      const final = await finishOnce('aborted');
+      emit({ type: 'run-ended', meta: final });
+    },
+  };
 }

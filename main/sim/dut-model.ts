@@ -25,10 +25,15 @@ export function coreOf(p: DutParams, tuneV: number, supplyV: number): Oscillator
   return p.kind === 'relaxation' ? relaxationCore(p, tuneV, supplyV) : varactorCore(p, tuneV, supplyV);
 }
 
+/** The tuning voltage the core sees at a temperature (tuningTempcoPpmPerC scales it). */
+export function tuneVAt(p: DutParams, tuneNodeV: number, temperatureC: number): number {
+  return tuneNodeV * (1 + (p.tuningTempcoPpmPerC ?? 0) * 1e-6 * (temperatureC - p.referenceC));
+}
+
 /** Noise-free frequency under the given conditions; 0 when not oscillating. */
 export function dutFrequencyHz(p: DutParams, c: DutConditions): number {
   if (c.poweredForS === null) return 0;
-  const core = coreOf(p, c.tuneNodeV, c.supplyV);
+  const core = coreOf(p, tuneVAt(p, c.tuneNodeV, c.temperatureC), c.supplyV);
   if (!core.oscillating) return 0;
   const fractionalPpm =
     p.tempcoPpmPerC * (c.temperatureC - p.referenceC) +

@@ -33,6 +33,14 @@ const commonFields = {
   /** Fractional frequency change per °C around referenceC. */
   tempcoPpmPerC: finite('tempcoPpmPerC'),
   referenceC: finite('referenceC').default(25),
+  /**
+   * Fractional change per °C of the tuning sensitivity: the core sees the
+   * tuning node scaled by (1 + k·(T − referenceC)), so Kvco and the stall edge
+   * move with temperature. Default 0.
+   */
+  tuningTempcoPpmPerC: finite('tuningTempcoPpmPerC').default(0),
+  /** Thermal time constant of the DUT (board and package) to the air around it, s. Default 300. */
+  thermalTauS: positive('thermalTauS').default(300),
   warmup: strictObject({
     /** Fractional offset at power-on, decaying exponentially to zero. */
     offsetPpm: finite('warmup.offsetPpm'),

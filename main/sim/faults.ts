@@ -13,7 +13,7 @@ import type { Rng } from './prng.ts';
 import type { DeviceFaultHooks, ScpiDevice } from './scpi-device.ts';
 
 const trigger = {
-  device: z.enum(['supply', 'counter', 'thermometer']),
+  device: z.enum(['supply', 'counter', 'thermometer', 'chamber']),
   atS: z.number().nonnegative().optional(),
   atReading: z.number().int().positive().optional(),
 };

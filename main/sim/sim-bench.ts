@@ -20,6 +20,8 @@ import { SimCounter, type NoSignalReply, type SimCounterState } from './sim-coun
 import { SimSupply } from './sim-supply.ts';
 import { SimThermometer } from './sim-thermometer.ts';
 import { createSimTransport } from './sim-transport.ts';
+import { ChamberThermal, type ChamberThermalState } from './chamber-thermal.ts';
+import { SimChamber } from './sim-chamber.ts';
 import type { SupplyChannel, SupplyChannelState } from './supply-channel.ts';
 
 export interface SimBenchOptions {
@@ -36,6 +38,17 @@ export interface SimBenchOptions {
   counterNoSignal?: NoSignalReply;
   /** Supply output slew, V/s. Default 1000. */
   supplySlewVPerS?: number;
+  /** The simulated chamber around the DUT (idle until first run). */
+  chamber?: SimChamberOptions;
+}
+
+export interface SimChamberOptions {
+  /** Air time constant, s. Default 180. */
+  airTauS?: number;
+  /** Fractional overshoot of the air on a step (0 = first-order approach). Default 0. */
+  overshootFraction?: number;
+  /** Fastest ramp the chamber can do, °C/min. Default 5. */
+  hardwareRampCPerMin?: number;
 }
 
 export interface SimBenchSnapshot {
@@ -43,6 +56,7 @@ export interface SimBenchSnapshot {
   supply: [SupplyChannelState, SupplyChannelState];
   counter: SimCounterState;
   thermometer: { temperatureC: number; readings: number };
+  chamber: ChamberThermalState;
   dut: { id: string; tuneNodeV: number; supplyV: number; temperatureC: number; frequencyHz: number; oscillating: boolean };
 }
 
@@ -53,6 +67,7 @@ export interface SimBench {
   readonly supply: SimSupply;
   readonly counter: SimCounter;
   readonly thermometer: SimThermometer;
+  readonly chamber: SimChamber;
   readonly devices: Readonly<Record<RoleName, ScpiDevice>>;
   readonly faults: Readonly<Record<RoleName, DeviceFaults>>;
   /** A new in-process Transport (one connection) to the device playing `role`. */
@@ -73,6 +88,13 @@ export function createSimBench(options: SimBenchOptions): SimBench {
   const ambient = options.ambient ? ambientProfileSchema.parse(options.ambient) : DEFAULT_AMBIENT;
   const startS = clock.now();
   const ambientCAt = (tS: number): number => ambientAt(ambient, tS - startS);
+  const hardwareRampCPerMin = options.chamber?.hardwareRampCPerMin ?? 5;
+  const thermal = new ChamberThermal(
+    { ambientCAt, airTauS: options.chamber?.airTauS ?? 180, dutTauS: dutParams.thermalTauS, overshootFraction: options.chamber?.overshootFraction ?? 0, hardwareRampCPerMin },
+    startS,
+  );
+  // The DUT (and the thermometer on it) follow the chamber; an idle chamber leaves them in lab air.
+  const dutCAt = (tS: number): number => thermal.dutCAt(tS);
   let dut: DutRuntime | null = null;
 
   const supply = new SimSupply({
@@ -93,21 +115,22 @@ export function createSimBench(options: SimBenchOptions): SimBench {
       tuneSourceAt: (t) => control.pieceAt(t),
       supplyVAt: (t) => dutSupply.outputVAt(t),
       poweredSinceS: (t) => dutSupply.poweredSinceS(t),
-      temperatureCAt: ambientCAt,
+      temperatureCAt: dutCAt,
     },
     rng.fork('dut'),
     startS,
   );
   dut = runtime;
   const counter = new SimCounter({ clock, gate: (t0, gateS) => runtime.gate(t0, gateS), noSignal: options.counterNoSignal });
-  const thermometer = new SimThermometer({ clock, rng: rng.fork('thermometer'), ambientCAt });
-  const devices = { supply: supply.device, counter: counter.device, thermometer: thermometer.device };
+  const thermometer = new SimThermometer({ clock, rng: rng.fork('thermometer'), ambientCAt: dutCAt });
+  const chamber = new SimChamber({ clock, rng: rng.fork('chamber'), thermal, hardwareRampCPerMin });
+  const devices = { supply: supply.device, counter: counter.device, thermometer: thermometer.device, chamber: chamber.device };
 
   const script = options.faults === undefined ? { faults: [] } : Array.isArray(options.faults) ? { faults: options.faults } : options.faults;
   const specs: readonly FaultSpec[] = parseFaultScript(script, 'faults').faults;
   const faultsFor = (role: RoleName): DeviceFaults =>
     new DeviceFaults(devices[role], specs.filter((f) => f.device === role), clock, rng.fork(`faults:${role}`), startS);
-  const faults = { supply: faultsFor('supply'), counter: faultsFor('counter'), thermometer: faultsFor('thermometer') };
+  const faults = { supply: faultsFor('supply'), counter: faultsFor('counter'), thermometer: faultsFor('thermometer'), chamber: faultsFor('chamber') };
 
   return {
     clock,
@@ -116,6 +139,7 @@ export function createSimBench(options: SimBenchOptions): SimBench {
     supply,
     counter,
     thermometer,
+    chamber,
     devices,
     faults,
     transport: (role) => createSimTransport(devices[role]),
@@ -128,11 +152,12 @@ export function createSimBench(options: SimBenchOptions): SimBench {
         supply: [supply.state(1), supply.state(2)],
         counter: counter.state(),
         thermometer: thermometer.state(),
+        chamber: thermal.state(now),
         dut: { id: dutParams.id, tuneNodeV: c.tuneNodeV, supplyV: c.supplyV, temperatureC: c.temperatureC, frequencyHz, oscillating: frequencyHz > 0 },
       };
     },
     close() {
-      for (const role of ['supply', 'counter', 'thermometer'] as const) {
+      for (const role of ['supply', 'counter', 'thermometer', 'chamber'] as const) {
         faults[role].dispose();
         devices[role].dropAllLinks(new Error('simulated bench closed'));
       }

@@ -54,7 +54,7 @@ export async function serveDevice(device: ScpiDevice, options: { host?: string; 
 export interface ServeSimBenchOptions extends Omit<SimBenchOptions, 'clock'> {
   clock?: Clock;
   host?: string;
-  /** Supply on basePort, counter on basePort+1, thermometer on basePort+2. 0: three ephemeral ports. */
+  /** Supply on basePort, counter on basePort+1, thermometer on basePort+2, chamber on basePort+3. 0: four ephemeral ports. */
   basePort?: number;
 }
 
@@ -67,7 +67,7 @@ export interface ServedSimBench {
 export async function serveSimBench(options: ServeSimBenchOptions = {}): Promise<ServedSimBench> {
   const bench = createSimBench({ ...options, clock: options.clock ?? new RealClock() });
   const basePort = options.basePort ?? 5025;
-  const roles: RoleName[] = ['supply', 'counter', 'thermometer'];
+  const roles: RoleName[] = ['supply', 'counter', 'thermometer', 'chamber'];
   const served: ServedDevice[] = [];
   try {
     for (const [i, role] of roles.entries()) {
@@ -78,10 +78,10 @@ export async function serveSimBench(options: ServeSimBenchOptions = {}): Promise
     bench.close();
     throw error;
   }
-  const [supply, counter, thermometer] = served as [ServedDevice, ServedDevice, ServedDevice];
+  const [supply, counter, thermometer, chamber] = served as [ServedDevice, ServedDevice, ServedDevice, ServedDevice];
   return {
     bench,
-    addresses: { supply: supply.address, counter: counter.address, thermometer: thermometer.address },
+    addresses: { supply: supply.address, counter: counter.address, thermometer: thermometer.address, chamber: chamber.address },
     async close() {
       bench.close();
       await Promise.all(served.map((s) => s.close()));

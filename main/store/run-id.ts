@@ -5,6 +5,7 @@
  * runs folder: no separators, no `..`, no control characters, never empty,
  * and it must start with a letter or digit (so never `.trash`).
  */
+import { hasUnsafeChars } from '../../app/contract/excerpt.ts';
 import { join } from 'node:path';
 import { z } from 'zod';
 
@@ -34,7 +35,7 @@ export const dutIdSchema = z
   .trim()
   .min(1, 'dut id: must not be empty')
   .max(100, 'dut id: at most 100 characters')
-  .refine((text) => !/[\u0000-\u001f\u007f]/.test(text), 'dut id: must not contain control characters');
+  .refine((text) => !hasUnsafeChars(text), 'dut id: must not contain control or bidi-override characters');
 
 /** Lower-case slug of a DUT id for the run id; `dut` when nothing is left. */
 export function dutSlug(dutId: string): string {

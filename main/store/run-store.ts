@@ -28,6 +28,8 @@ export interface ListResult {
   runs: RunMeta[];
   /** Folders that look like runs but could not be read, with the reason. */
   problems: { name: string; message: string }[];
+  /** Campaign folders (campaign.json; their runs are inside): names only. */
+  campaigns?: string[];
 }
 
 export interface OpenedRun extends RunDetail {
@@ -76,6 +78,10 @@ export async function listRunsDetailed(runsDir: string, options: ReadOptions = {
     const dir = join(runsDir, name);
     const stat = await fs.stat(dir).catch(() => null);
     if (!stat?.isDirectory()) continue;
+    if (!(await exists(fs, join(dir, 'run.json'))) && (await exists(fs, join(dir, 'campaign.json')))) {
+      (result.campaigns ??= []).push(name);
+      continue;
+    }
     try {
       result.runs.push(await readRunStatus(dir, options));
     } catch (error) {
@@ -153,11 +159,14 @@ export async function addNote(runsDir: string, id: string, text: string, options
 export async function deleteRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<void> {
   const fs = fsOf(options);
   const dir = await runDir(fs, runsDir, id);
+  const safeId = checkedId(id);
   const meta = await readRunStatus(dir, options);
   if (meta.status === 'running') throw new StoreError(`run ${id} is still being recorded; stop it first`, 'busy');
+  // The folder moves under its own validated name, never under the id written inside run.json.
+  if (meta.id !== safeId) throw new StoreError(`run folder ${safeId} holds a run.json whose id differs; it was not moved`, 'bad-input');
   const trashDir = join(runsDir, TRASH);
   await fs.mkdir(trashDir, { recursive: true });
-  const target = join(trashDir, meta.id);
+  const target = join(trashDir, safeId);
   if (await exists(fs, target)) throw new StoreError(`the trash already holds a run ${id}; restore or empty it first`, 'exists');
   await fs.rename(dir, target);
 }

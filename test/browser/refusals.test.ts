@@ -3,11 +3,13 @@
  * token, a page of another origin opening the API socket, and malformed
  * messages (answered with an error naming the field; the server goes on).
  */
+import { mkdir } from 'node:fs/promises';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
+import { join } from 'node:path';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hasChromium, launchChromium, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
 
@@ -65,6 +67,22 @@ describe.skipIf(!hasChromium)('browser mode refusals (Chromium)', () => {
     expect(response?.headers()['content-security-policy']).toContain("script-src 'self'");
     await page.waitForSelector('#root *', { timeout: 15_000 });
     await page.close();
+  });
+
+  it('tells each page when another page drives the same bench (one bench, one operator)', async () => {
+    const first = await browser.newPage({ viewport: { width: 1280, height: 500 } });
+    await first.goto(app.server.url);
+    await first.waitForSelector('#root *', { timeout: 15_000 });
+    expect(await first.locator('[data-testid="peer-count"]').count()).toBe(0);
+    const second = await browser.newPage();
+    await second.goto(app.server.url);
+    await first.waitForSelector('[data-testid="peer-count"]', { timeout: 15_000 });
+    expect(await first.textContent('[data-testid="peer-count"]')).toMatch(/One other page connected to this bench: whoever is there can stop, pause or rename a run too/);
+    await mkdir(SCREENS_DIR, { recursive: true });
+    await first.screenshot({ path: join(SCREENS_DIR, 'peer-notice.png') });
+    await second.close();
+    await first.waitForSelector('[data-testid="peer-count"]', { state: 'detached', timeout: 15_000 });
+    await first.close();
   });
 
   it('refuses the API socket to a page of another origin, even with the token', async () => {

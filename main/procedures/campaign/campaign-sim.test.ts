@@ -1,0 +1,115 @@
+/**
+ * A whole campaign on the simulated bench in virtual time, checked against
+ * the DUT model it ran on: the frequency tempco at a fixed control voltage
+ * (within 3 %) and Kvco at each temperature (within 2 % of the model's own
+ * derivative), plus what the campaign leaves behind.
+ */
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { line } from '../../../app/analysis/campaign-analysis.ts';
+import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../../bench/assemble.ts';
+import { loadCampaignAnalysis } from '../../cli/campaign-source.ts';
+import { dutFrequencyHz } from '../../sim/dut-model.ts';
+import { VirtualClock } from '../../time/virtual-clock.ts';
+import { RunControl } from '../run-control.ts';
+import { readCampaignFile } from './campaign-file.ts';
+import { startCampaign, type CampaignOutcome } from './run-campaign.ts';
+import { campaignDut, campaignPlanInput } from './demo-campaign.ts';
+
+const dut = campaignDut();
+/** The model's noise-free frequency at control voltage v, DUT temperature t, nominal supply, long after power-on. */
+const modelHz = (v: number, t: number): number =>
+  dutFrequencyHz(dut, { tuneNodeV: v, supplyV: dut.supply.nominalV, temperatureC: t, poweredForS: 1e6, wanderPpm: 0 });
+
+let runsDir: string;
+let bench: AssembledBench;
+let outcome: CampaignOutcome;
+
+beforeAll(async () => {
+  runsDir = await mkdtemp(join(tmpdir(), 'tunebench-campaign-'));
+  const clock = new VirtualClock({ autoAdvance: true, startWallIso: '2026-03-01T20:00:00.000Z' });
+  bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { dut, seed: 11 } });
+  outcome = await startCampaign({ bench, clock, control: new RunControl(), plan: campaignPlanInput(), runsDir });
+}, 120_000);
+
+afterAll(async () => {
+  await bench.close();
+  await rm(runsDir, { recursive: true, force: true });
+});
+
+describe('campaign on the simulated bench', () => {
+  it('finishes every condition, one run each, in chamber order', async () => {
+    const file = await readCampaignFile(outcome.dir);
+    expect(file.status).toBe('complete');
+    expect(file.conditions.map((c) => [c.temperatureC, c.supplyV])).toEqual([
+      [-10, 4.75], [-10, 5], [-10, 5.25], [25, 4.75], [25, 5], [25, 5.25], [60, 4.75], [60, 5], [60, 5.25],
+    ]);
+    expect(file.conditions.every((c) => c.state === 'done' && c.runId !== null && c.earlierRunIds.length === 0)).toBe(true);
+    expect(new Set(file.conditions.map((c) => c.runId)).size).toBe(9);
+    // Each run records its condition and the DUT temperature it was swept at.
+    const first = file.conditions[0];
+    const events = await readFile(join(outcome.dir, first?.runId ?? '', 'events.jsonl'), 'utf8');
+    const condition = events.split('\n').filter(Boolean).map((l) => JSON.parse(l) as Record<string, unknown>).find((e) => e.type === 'campaign-condition');
+    expect(condition).toMatchObject({ setpoint_c: -10, supply_v: 4.75, unit: 'unit-a' });
+    expect(Math.abs((first?.dutTemperatureC?.start ?? 99) - -10)).toBeLessThan(0.25);
+  });
+
+  it('measures the frequency tempco at 3 V within 3 % of the model (same temperatures, least-squares line)', async () => {
+    const { analysis } = await loadCampaignAnalysis(outcome.dir);
+    const nominal = analysis.conditions.filter((c) => c.supplyV === 5);
+    const temps = nominal.map((c) => c.dutTemperatureC as number);
+    const model = line(temps, temps.map((t) => modelHz(3, t)), 25);
+    expect(model).not.toBeNull();
+    const modelPpm = ((model?.slope ?? 0) / (model?.at ?? 1)) * 1e6;
+    // Sanity of the reference: with the tuning tempco the model's figure is far from tempcoPpmPerC alone.
+    expect(Math.abs(modelPpm - dut.tempcoPpmPerC)).toBeGreaterThan(100);
+    const measured = analysis.frequencyTempcoPpmPerC as number;
+    expect(Math.abs(measured - modelPpm) / Math.abs(modelPpm)).toBeLessThan(0.03);
+  });
+
+  it('measures Kvco at 3 V at each temperature within 2 % of the model derivative', async () => {
+    const { analysis } = await loadCampaignAnalysis(outcome.dir);
+    for (const c of analysis.conditions.filter((r) => r.supplyV === 5)) {
+      const t = c.dutTemperatureC as number;
+      const h = 1e-3;
+      const modelKvco = (modelHz(3 + h, t) - modelHz(3 - h, t)) / (2 * h);
+      expect(Math.abs((c.kvcoAtNominalHzPerV as number) - modelKvco) / modelKvco, `at ${c.temperatureC} °C`).toBeLessThan(0.02);
+    }
+    // Kvco moves with temperature by the tuning tempco: its sign shows in the coefficient.
+    expect(analysis.kvcoTempcoPpmPerC as number).toBeGreaterThan(0);
+  });
+
+  it('measures pushing from the supply corners near the model (120 Hz/V)', async () => {
+    const { analysis } = await loadCampaignAnalysis(outcome.dir);
+    expect(analysis.pushingHzPerV?.typ).toBeGreaterThan(100);
+    expect(analysis.pushingHzPerV?.typ).toBeLessThan(140);
+    expect(analysis.headroom).toHaveLength(3);
+    expect(analysis.headroom.every((r) => r.inWindow)).toBe(true);
+  });
+
+  it('logs every soak reading, converging on each setpoint', async () => {
+    const rows = (await readFile(join(outcome.dir, 'soak-log.csv'), 'utf8')).trim().split('\n');
+    expect(rows[0]).toBe('index,time_s,setpoint_c,air_c,dut_c,frequency_hz');
+    const byIndex = new Map<number, number[][]>();
+    for (const line of rows.slice(1)) {
+      const cells = line.split(',').map(Number);
+      byIndex.set(cells[0] as number, [...(byIndex.get(cells[0] as number) ?? []), cells]);
+    }
+    // One soak per temperature (at the first supply corner of each).
+    expect([...byIndex.keys()]).toEqual([0, 3, 6]);
+    for (const readings of byIndex.values()) {
+      const last = readings[readings.length - 1] as number[];
+      expect(Math.abs((last[4] as number) - (last[2] as number))).toBeLessThanOrEqual(0.2);
+    }
+  });
+
+  it('leaves the supply off and the chamber heading to safeC', () => {
+    const snap = bench.sim?.snapshot();
+    expect(snap?.supply[0].outputOn).toBe(false);
+    expect(snap?.supply[1].outputOn).toBe(false);
+    expect(snap?.chamber.setpointC).toBe(25);
+    expect(outcome.safeStateOk).toBe(true);
+  });
+});
