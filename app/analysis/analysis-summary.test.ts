@@ -13,7 +13,7 @@ describe('summarizeAnalysis', () => {
         temperatureC: Float64Array.from({ length: n }, (_, i) => 25 + i / 63),
       }),
     );
-    expect(text).toContain('tempco            5.00 ppm/°C'); // 50 Hz/°C on 10 MHz
+    expect(text).toContain('tempco            5.000 ppm/°C'); // 50 Hz/°C on 10 MHz, exact: no ± at the numerical floor
     expect(text).toMatch(/tau\s+1.00 s\s+\S+\s+\(63 terms\)/);
   });
   it('pushing: Hz/V and ppm/V at the nominal supply', () => {

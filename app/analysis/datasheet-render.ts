@@ -3,17 +3,37 @@
  * standalone printable HTML page (inline style, no external assets).
  */
 import type { Datasheet, DatasheetRow } from './datasheet.ts';
+import { belowFloor, formatFigure } from './format-figure.ts';
 import { formatNumber, siPrefixFor } from './format-si.ts';
 
-/** Cells of a row scaled to one prefix per row ("kHz/V" in the unit column). */
+/**
+ * Cells of a row scaled to one prefix per row ("kHz/V" in the unit column).
+ * With an uncertainty, each cell shows the digits it supports and typ carries
+ * "± u" (formatFigure); a figure within 2σ of zero reads "not significant (±u)".
+ */
 export function displayRow(row: DatasheetRow): { min: string; typ: string; max: string; unit: string } {
   const values = [row.min, row.typ, row.max].filter((v): v is number => v !== null);
-  const biggest = values.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+  const biggest = values.reduce((m, v) => Math.max(m, Math.abs(v)), row.uncertainty ?? 0);
   const { scale, symbol } = row.scaling === 'si' ? siPrefixFor(biggest) : { scale: 1, symbol: '' };
   const digits = row.scaling === 'si' ? 4 : 3;
-  const cell = (v: number | null): string => (v === null ? '' : formatNumber(v / scale, digits));
-  return { min: cell(row.min), typ: cell(row.typ), max: cell(row.max), unit: row.unit ? `${symbol}${row.unit}` : '' };
+  // An uncertainty at the numerical floor (exact data) supports no extra digits: shown without ±.
+  const u = row.uncertainty !== null && row.uncertainty > 0 && !belowFloor(row.uncertainty, biggest, 1e-9) ? row.uncertainty / scale : null;
+  const cell = (v: number | null): string => {
+    if (v === null) return '';
+    if (u === null) return formatNumber(v / scale, digits);
+    // The digits u supports: strip the "± u" part of the shared formatter's output.
+    return formatFigure(v / scale, '', { uncertainty: u, plain: true }).split(' ± ')[0] as string;
+  };
+  const typ = row.typ === null ? '' : u === null ? cell(row.typ) : formatFigure(row.typ / scale, '', { uncertainty: u, plain: true });
+  return {
+    min: cell(row.min),
+    typ: row.significant || row.typ === null ? typ : `not significant (±${formatFigure(u ?? NaN, '', { digits: 2, plain: true })})`,
+    max: cell(row.max),
+    unit: row.unit ? `${symbol}${row.unit}` : '',
+  };
 }
+
+const SIMULATED_BANNER = 'SIMULATED BENCH: figures from the built-in simulator, not from hardware.';
 
 const HEAD = ['Parameter', 'Conditions', 'Min', 'Typ', 'Max', 'Unit'];
 
@@ -32,7 +52,7 @@ export function mdEscape(text: string): string {
 }
 
 export function renderDatasheetMarkdown(sheet: Datasheet): string {
-  const lines = [`# ${mdEscape(sheet.title)}`, '', `Runs: ${mdEscape(sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', '))}`, ''];
+  const lines = [`# ${mdEscape(sheet.title)}`, '', ...(sheet.simulated ? [`**${SIMULATED_BANNER}**`, ''] : []), `Runs: ${mdEscape(sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', '))}`, ''];
   lines.push(`| ${HEAD.join(' | ')} |`, '|---|---|--:|--:|--:|---|');
   for (const row of sheet.rows) {
     const d = displayRow(row);
@@ -48,10 +68,11 @@ function csvCell(text: string): string {
 
 /** CSV in SI base units (full precision), for spreadsheets and scripts. */
 export function renderDatasheetCsv(sheet: Datasheet): string {
-  const lines = [['key', 'parameter', 'conditions', 'min', 'typ', 'max', 'unit', 'runs'].join(',')];
+  const lines = [['key', 'parameter', 'conditions', 'min', 'typ', 'max', 'unit', 'runs', 'uncertainty', 'significant', 'bench'].join(',')];
+  const bench = sheet.simulated ? 'simulated' : 'measured';
   for (const row of sheet.rows) {
     const num = (v: number | null): string => (v === null ? '' : String(v));
-    lines.push([row.key, row.parameter, row.conditions, num(row.min), num(row.typ), num(row.max), row.unit, String(row.runs)].map(csvCell).join(','));
+    lines.push([row.key, row.parameter, row.conditions, num(row.min), num(row.typ), num(row.max), row.unit, String(row.runs), num(row.uncertainty), String(row.significant), bench].map(csvCell).join(','));
   }
   return `${lines.join('\n')}\n`;
 }
@@ -64,6 +85,7 @@ const STYLE = `
   body { font: 11pt/1.4 system-ui, sans-serif; color: #111; background: #fff; margin: 2em auto; max-width: 60em; padding: 0 1em; }
   h1 { font-size: 16pt; margin: 0 0 0.3em; }
   p.runs { color: #444; margin: 0 0 1em; }
+  p.simulated { border: 2px solid #333; padding: 0.4em 0.6em; margin: 0 0 1em; }
   table { border-collapse: collapse; width: 100%; }
   th, td { border-bottom: 1px solid #bbb; padding: 0.3em 0.6em; text-align: left; vertical-align: top; }
   th { border-bottom: 2px solid #333; font-weight: 600; }
@@ -90,7 +112,7 @@ export function renderDatasheetHtml(sheet: Datasheet): string {
 </head>
 <body>
 <h1>${html(sheet.title)}</h1>
-<p class="runs">Runs: ${html(sheet.runs.map((r) => `${r.label} (${r.kind})`).join(', '))}</p>
+${sheet.simulated ? `<p class="simulated"><strong>${html(SIMULATED_BANNER)}</strong></p>\n` : ''}<p class="runs">Runs: ${html(sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', '))}</p>
 <table>
 <thead><tr>${HEAD.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
 <tbody>

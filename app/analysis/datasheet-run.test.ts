@@ -45,6 +45,6 @@ describe('runConditions with recorded conditions', () => {
     const v = [1, 1.5, 2, 2.5, 3];
     const analysis = analyzeSweep({ controlV: Float64Array.from(v), frequencyHz: Float64Array.from(v, (x) => 1e6 + 1e5 * x) });
     const sheet = buildDatasheet([{ label: 'sweep-1', analysis, conditions: runConditions('sweep', {}, hints) }]);
-    expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe('T 23.1 °C; supply 5.00 V; gate 50.0 ms');
+    expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toMatch(/^T 23.1 °C; supply 5.00 V; gate 50.0 ms; window /);
   });
 });

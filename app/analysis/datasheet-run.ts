@@ -6,7 +6,8 @@
  */
 import { z } from 'zod';
 import type { CsvKind } from './csv-columns.ts';
-import type { RunConditions } from './datasheet.ts';
+import type { RunConditions, RunOrigin } from './datasheet.ts';
+import { isSimulatedBench } from '../contract/run-meta-schema.ts';
 import { meanOfFinite } from './mean-finite.ts';
 
 /** "run id (DUT id)", or the run id alone. */
@@ -19,6 +20,8 @@ export interface PlanHints {
   gateS?: number;
   supplyV?: number;
   dutSupplyV?: number;
+  /** The plan's tuning window, V. */
+  window?: { fromV: number; toV: number };
 }
 
 // Each field on its own: a malformed one is ignored, the others still count (they are hints).
@@ -26,6 +29,7 @@ const planHintsSchema = z.looseObject({
   gateS: z.number().positive().optional().catch(undefined),
   supplyV: z.number().optional().catch(undefined),
   dutSupplyV: z.number().optional().catch(undefined),
+  window: z.object({ fromV: z.number(), toV: z.number() }).optional().catch(undefined),
 });
 
 /** Plan hints from a run's plan (unvalidated: any shape). */
@@ -37,6 +41,8 @@ export function planHints(plan: unknown): PlanHints {
     const value = parsed.data[key];
     if (value !== undefined && Number.isFinite(value)) hints[key] = value;
   }
+  const w = parsed.data.window;
+  if (w && Number.isFinite(w.fromV) && Number.isFinite(w.toV) && w.toV > w.fromV) hints.window = { fromV: w.fromV, toV: w.toV };
   return hints;
 }
 
@@ -86,4 +92,15 @@ export function runConditions(
   const supplyV = meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
   const temperatureC = meanOfFinite(columns.temperatureC) ?? hints.recordedTemperatureC ?? null;
   return { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
+}
+
+/** What run.json says that decides whether a run may enter a gain table (status, DUT, simulated bench). */
+export function runOrigin(meta: { status: string; dut: { id: string }; instruments: { idn: string; address: string }[]; simulated?: boolean }): RunOrigin {
+  const kind = (meta.dut as { kind?: unknown }).kind;
+  return {
+    status: meta.status,
+    dutId: meta.dut.id,
+    dutKind: typeof kind === 'string' ? kind : null,
+    simulated: meta.simulated === true || isSimulatedBench(meta.instruments),
+  };
 }

@@ -34,7 +34,7 @@ describe('buildDatasheet', () => {
     expect(row?.typ).toBeCloseTo(110e3, 4);
     expect(row?.max).toBeCloseTo(130e3, 4);
     expect(row?.runs).toBe(3);
-    expect(row?.conditions).toBe('T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms');
+    expect(row?.conditions).toBe('T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)');
   });
   it('has the rows a designer looks for, each with its unit', () => {
     const keys = sheet.rows.map((r) => r.key);
@@ -59,11 +59,11 @@ describe('datasheet exports', () => {
   it('Markdown table', () => {
     const md = renderDatasheetMarkdown(sheet);
     expect(md).toContain('# Clock-multiplier VCO');
-    expect(md).toContain('| Kvco, best straight line | T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms | 100.0 | 110.0 | 130.0 | kHz/V |');
+    expect(md).toContain('| Kvco, best straight line | T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range) | 100.0 | 110.0 | 130.0 | kHz/V |');
   });
   it('CSV in SI base units', () => {
     const text = renderDatasheetCsv(sheet);
-    expect(text.split('\n')[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs');
+    expect(text.split('\n')[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs,uncertainty,significant,bench');
     const table = parseCsv(text); // our own reader handles the quoted "Kvco, best straight line"
     const cells = table.rows.find((r) => r[0] === 'kvcoLine') ?? [];
     expect(cells[1]).toBe('Kvco, best straight line');

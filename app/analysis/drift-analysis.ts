@@ -23,6 +23,8 @@ export interface DriftOptions {
   minTemperatureSpanC?: number;
   /** Averaging factors m (tau = m·tau0) for the Allan deviations; default octaves 1, 2, 4, … */
   averagingFactors?: readonly number[];
+  /** Counter gate (s): sets the ±1-count floor 1/(gate·f) that ADEV points are checked against. */
+  gateS?: number;
 }
 
 export interface DriftAnalysis {
@@ -31,14 +33,21 @@ export interface DriftAnalysis {
   tempcoPpmPerC: number | null;
   tempcoHzPerC: number | null;
   driftPpmPerHour: number | null;
-  /** Overlapping ADEV of fractional frequency at octave taus (CONTRACTS.md). */
-  adev: { tauS: number; adev: number; terms: number }[];
+  /** Overlapping ADEV of fractional frequency at octave taus (CONTRACTS.md); at or below the ±1-count floor = resolution-limited. */
+  adev: { tauS: number; adev: number; terms: number; resolutionLimited: boolean }[];
+  /** The counter's ±1-count floor 1/(gate·f) as a fractional frequency; null without a gate. */
+  resolutionFloor: number | null;
+  /** |drift| ≥ 2σ (false when there is no drift figure). */
+  driftSignificant: boolean;
+  /** |tempco| ≥ 2σ (false when there is no tempco). */
+  tempcoSignificant: boolean;
   tempcoUncertaintyHzPerC: number | null;
   tempcoUncertaintyPpmPerC: number | null;
   temperatureSpanC: number | null;
   meanTemperatureC: number | null;
   driftUncertaintyPpmPerHour: number | null;
-  warmUp: { settled: boolean; warmUpS: number | null; limitPpmPerHour: number; windowS: number };
+  /** `determined` false: the log cannot tell whether warm-up has ended (the drift rate's 2σ exceeds the limit). */
+  warmUp: { settled: boolean; determined: boolean; warmUpS: number | null; limitPpmPerHour: number; windowS: number };
   loop: FtLoop | null;
   allan: {
     tau0S: number;
@@ -107,6 +116,22 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
     drift = { ppmH: (line.coefficients[1] as number) * toPpmH, sd: (line.coefficientStdDev[1] as number) * toPpmH };
   }
   if (!warmUp.settled) warnings.push('drift never settled within the limit; drift rate is over the last quarter');
+  // Warm-up and drift must not contradict: a settled warm-up means the drift after it is within the limit.
+  let settled = warmUp.settled;
+  let determined = true;
+  if (drift && settled) {
+    if (2 * drift.sd > warmUp.limit) {
+      settled = false;
+      determined = false;
+      warnings.push(
+        `the log is too short to tell whether warm-up has ended: the drift rate's 2σ (${(2 * drift.sd).toPrecision(2)} ppm/h) exceeds the ${warmUp.limit} ppm/h limit`,
+      );
+    } else if (Math.abs(drift.ppmH) - 2 * drift.sd > warmUp.limit) {
+      settled = false;
+      warnings.push(`the drift rate exceeds the ${warmUp.limit} ppm/h warm-up limit beyond its uncertainty: still warming up`);
+    }
+  }
+  if (m - 1 < 10) warnings.push(`only ${m - 1} interval(s) in the log: drift rate and Allan deviation need at least 10`);
 
   // Allan deviations of y = (f − mean)/mean, assuming the nominal interval.
   // One buffer holds the intervals, then (once their median is known) the phase: a fresh
@@ -127,6 +152,13 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
   const allan = (kind: StabilityKind): StabilityPoint[] =>
     (factors ?? octaveFactors(m, kind)).map((factor) => deviationAt(kind, x, tau0S, factor)).filter((p) => p.terms > 0);
   const oadev = allan('oadev');
+  const resolutionFloor = options.gateS && options.gateS > 0 ? 1 / (options.gateS * meanHz) : null;
+  const limited = oadev.filter((p) => resolutionFloor !== null && p.deviation <= resolutionFloor * (1 + 1e-9));
+  if (limited.length > 0) {
+    warnings.push(
+      `ADEV at τ = ${limited.map((p) => `${p.tauS} s`).join(', ')} is at or below the counter's ±1-count floor ${resolutionFloor?.toPrecision(2)} (1/(gate·f)): resolution-limited, not the oscillator`,
+    );
+  }
   const loop = hasTemp ? frequencyTemperatureLoop(temp, f, m, meanHz) : null;
 
   return {
@@ -135,15 +167,19 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
     tempcoPpmPerC: tempco ? (tempco.hz / meanHz) * 1e6 : null,
     tempcoHzPerC: tempco ? tempco.hz : null,
     driftPpmPerHour: drift ? drift.ppmH : null,
-    adev: oadev.map((p) => ({ tauS: p.tauS, adev: p.deviation, terms: p.terms })),
+    adev: oadev.map((p) => ({ tauS: p.tauS, adev: p.deviation, terms: p.terms, resolutionLimited: resolutionFloor !== null && p.deviation <= resolutionFloor * (1 + 1e-9) })),
+    resolutionFloor,
+    driftSignificant: drift !== null && Number.isFinite(drift.sd) && Math.abs(drift.ppmH) >= 2 * drift.sd,
+    tempcoSignificant: tempco !== null && Number.isFinite(tempco.sd) && Math.abs(tempco.hz) >= 2 * tempco.sd,
     tempcoUncertaintyHzPerC: tempco ? tempco.sd : null,
     tempcoUncertaintyPpmPerC: tempco ? (tempco.sd / meanHz) * 1e6 : null,
     temperatureSpanC: tSpan,
     meanTemperatureC: tMean,
     driftUncertaintyPpmPerHour: drift ? drift.sd : null,
     warmUp: {
-      settled: warmUp.settled,
-      warmUpS: warmUp.settled ? (t[from] as number) - (t[0] as number) : null,
+      settled,
+      determined,
+      warmUpS: settled ? (t[from] as number) - (t[0] as number) : null,
       limitPpmPerHour: warmUp.limit,
       windowS: warmUp.windowS,
     },

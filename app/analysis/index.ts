@@ -16,11 +16,26 @@ export {
 } from './allan.ts';
 export { detectCsvKind, driftInputFromTable, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
 export { CsvError, numericColumn, parseCsv, textColumn, type CsvTable } from './csv-input.ts';
-export { buildDatasheet, type Datasheet, type DatasheetRow, type DatasheetRun, type RunConditions } from './datasheet.ts';
+export {
+  buildDatasheet,
+  DatasheetInputError,
+  dutStem,
+  type Datasheet,
+  type DatasheetOptions,
+  type DatasheetRow,
+  type DatasheetRun,
+  type RunConditions,
+  type RunOrigin,
+} from './datasheet.ts';
 export { displayRow, renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from './datasheet-render.ts';
 export { analyzeDrift, type DriftAnalysis, type DriftInput, type DriftOptions } from './drift-analysis.ts';
 export { frequencyTemperatureLoop, type FtLoop } from './drift-loop.ts';
 export { formatDuration, formatNumber, formatPlain, formatSi, formatSiWithUncertainty, siPrefixFor } from './format-si.ts';
+export { belowFloor, formatFigure, formatSignificance, isSignificant, type FigureOptions } from './format-figure.ts';
+export { loopOperatingPoint, type KvcoCorner, type OperatingPoint } from './loop-operating-point.ts';
+export { qualityWarnings, runQuality, type RunEventLike, type RunQuality } from './run-quality.ts';
+export { fitSpline, splineSlope, splineSlopeSd, splineValue, splineValueSd, type SplineFit } from './spline-fit.ts';
+export { polyModel, splineModel, type TuningModel } from './tuning-model.ts';
 export { designLoopFilter, type LoopDesign, type LoopFilter, type LoopSpec } from './loop-filter.ts';
 export {
   evaluateLoop,

@@ -17,6 +17,8 @@ export interface PushingAnalysis {
   kind: 'pushing';
   pushingHzPerV: number;
   pushingUncertaintyHzPerV: number;
+  /** |pushing| ≥ 2σ. */
+  pushingSignificant: boolean;
   /** Hz/V relative to the frequency at the nominal supply, ×1e6. */
   pushingPpmPerV: number;
   nominalSupplyV: number;
@@ -48,6 +50,7 @@ export function analyzePushing(input: PushingInput, nominalSupplyV?: number): Pu
     kind: 'pushing',
     pushingHzPerV: slope,
     pushingUncertaintyHzPerV: sd,
+    pushingSignificant: Number.isFinite(sd) ? Math.abs(slope) >= 2 * sd : Number.isFinite(slope),
     pushingPpmPerV: (slope / fNom) * 1e6,
     nominalSupplyV: nominal,
     frequencyAtNominalHz: fNom,

@@ -52,9 +52,12 @@ describe('analyzeSweep on an exact straight line with a stall edge', () => {
     expect(result.kvco.linear.toV).toBeCloseTo(3, 12);
     expect(result.kvco.minHzPerV).toBeCloseTo(2e5, 4);
     expect(result.kvco.maxHzPerV).toBeCloseTo(2e5, 4);
-    expect(result.fit.degree).toBe(1);
-    expect(result.fit.coefficients[0]).toBeCloseTo(1e5, 4);
-    expect(result.fit.coefficients[1]).toBeCloseTo(2e5, 4);
+    expect(result.fit.model).toBe('spline');
+    // The polynomial option still picks the straight line (AICc).
+    const poly = analyzeSweep(toInput(lineSweep(), 0.1), { fit: 'auto' });
+    expect(poly.fit.degree).toBe(1);
+    expect(poly.fit.coefficients[0]).toBeCloseTo(1e5, 4);
+    expect(poly.fit.coefficients[1]).toBeCloseTo(2e5, 4);
   });
   it('gives a local entry at every oscillating point, finite differences agreeing', () => {
     expect(result.kvco.local).toHaveLength(25);
@@ -132,8 +135,9 @@ describe('analyzeSweep on a quadratic tuning curve', () => {
   }
   const result = analyzeSweep(toInput(readings), { nominalV: 2.5 });
   it('chooses degree 2 and recovers the closed-form Kvco', () => {
-    expect(result.fit.degree).toBe(2);
-    expect(result.fit.coefficients[2]).toBeCloseTo(-2e4, 5);
+    // A parabola lies in the spline penalty's null space: the spline reproduces it exactly.
+    expect(result.fit.model).toBe('spline');
+    expect(analyzeSweep(toInput(readings), { fit: 'auto' }).fit.coefficients[2]).toBeCloseTo(-2e4, 5);
     expect(result.kvco.maxHzPerV).toBeCloseTo(3e5 - 4e4 * 0.5, 4);
     expect(result.kvco.minHzPerV).toBeCloseTo(3e5 - 4e4 * 4.5, 4);
     expect(result.kvco.nominal.hzPerV).toBeCloseTo(2e5, 4);
@@ -266,7 +270,7 @@ describe('analyzeSweep on a tuning curve that saturates', () => {
     // straddles the flat part: half the slope, still positive.
     expect(result.kvco.minHzPerV).toBeGreaterThan(0.45e4);
     expect(result.kvco.maxHzPerV).toBeCloseTo(1e4, -1);
-    expect(result.warnings.some((w) => /flattens above 3 V/.test(w))).toBe(true);
+    expect(result.warnings.some((w) => /flattens above 3.000 V/.test(w))).toBe(true);
   });
   it('keeps the whole range when the rule is switched off', () => {
     const all = analyzeSweep(toInput(readings, 0.1), { flatKvcoFraction: 0 });

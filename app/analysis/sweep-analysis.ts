@@ -5,16 +5,25 @@
 import { AnalysisError } from './analysis-error.ts';
 import { fitPolynomialAuto } from './poly-fit-auto.ts';
 import { fitPolynomial, type PolyFit } from './poly-fit.ts';
+import { belowFloor, formatFigure } from './format-figure.ts';
+import { fitSpline } from './spline-fit.ts';
+import { polyModel, splineModel, type TuningModel } from './tuning-model.ts';
 import { findEdges, type Edges } from './sweep-edges.ts';
-import { bestLine, fitKvco, widestLinearRange, type LocalKvco } from './sweep-gain.ts';
+import { bestLine, fitKvco, widestLinearRange } from './sweep-gain.ts';
 import { localKvcoEntries } from './sweep-local-kvco.ts';
 import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
 import { groupPoints, pointSummaries, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
 
 export interface SweepOptions {
-  /** Polynomial degree 1–6, or 'auto' (AICc). Default 'auto'. */
-  fit?: 'auto' | number;
+  /** 'spline' (default: penalised regression spline, GCV), polynomial degree 1–6, or 'auto' (polynomial, AICc). */
+  fit?: 'spline' | 'auto' | number;
+  /** Points the model is fitted to: the usable range (default; the window when one is given), all oscillating points, or A–B volts. */
+  fitRange?: 'usable' | 'all' | { fromV: number; toV: number };
+  /** Tuning window the PLL can drive: Kvco min/max/typ and linearity are taken over it. */
+  window?: { fromV: number; toV: number; source: 'plan' | 'flag' };
+  /** Keep points that never settled in the fit (default: left out, with a warning). */
+  keepUnsettled?: boolean;
   /** Linearity limit for the widest linear range, ± % of span. Default 5. */
   linearityLimitPct?: number;
   /** Control voltage of the nominal operating point; default mid usable range. */
@@ -103,6 +112,132 @@ export function flatTopEnd(v: Float64Array, meanHz: Float64Array, u: Float64Arra
   return end;
 }
 
+/** Indices [a, b) of the points with fromV ≤ v ≤ toV inside [lo, hi). */
+function indexRange(v: Float64Array, lo: number, hi: number, fromV: number, toV: number): [number, number] {
+  const tol = 1e-9 * Math.max(1, Math.abs(fromV), Math.abs(toV));
+  let a = lo;
+  while (a < hi && (v[a] as number) < fromV - tol) a++;
+  let b = a;
+  while (b < hi && (v[b] as number) <= toV + tol) b++;
+  return [a, b];
+}
+
+interface FittedModel {
+  model: TuningModel;
+  json: SweepAnalysis['fit'];
+}
+
+function fitModel(
+  points: PointSet,
+  u: Float64Array,
+  keep: number[],
+  options: SweepOptions,
+  monotone: 'rising' | 'falling' | null,
+  warnings: string[],
+  rmsU: number,
+): FittedModel {
+  const n = keep.length;
+  const v = Float64Array.from(keep, (i) => points.v[i] as number);
+  const f = Float64Array.from(keep, (i) => points.meanHz[i] as number);
+  const uk = Float64Array.from(keep, (i) => u[i] as number);
+  const fromV = v[0] as number;
+  const toV = v[n - 1] as number;
+  const spec = options.fit ?? 'spline';
+  if (spec === 'spline' && n >= 6) {
+    const fit = fitSpline(v, f, uk, 0, n, { monotone });
+    return {
+      model: splineModel(fit),
+      json: {
+        model: 'spline',
+        degree: 3,
+        coefficients: [],
+        coefficientStdDev: [],
+        selection: 'penalised cubic regression spline (P-spline), weights 1/u², smoothing by generalised cross-validation' + (monotone ? `, constrained ${monotone === 'rising' ? 'non-decreasing' : 'non-increasing'}` : ''),
+        residualStdDevHz: fit.residualStdDev,
+        pointScatterHz: rmsU,
+        effectiveDegreesOfFreedom: fit.edf,
+        smoothing: fit.lambda,
+        monotone: fit.monotone,
+        r2: fit.rSquared,
+        fromV,
+        toV,
+        points: n,
+        unsettledLeftOutV: [],
+        curve: curveSamples(splineModel(fit), fromV, toV),
+      },
+    };
+  }
+  if (spec === 'spline') warnings.push(`only ${n} points to fit: a spline needs 6, so the tuning curve is a polynomial (AICc)`);
+  let fit: PolyFit;
+  let selection: string;
+  if (spec === 'spline' || spec === 'auto') {
+    fit = fitPolynomialAuto(v, f, 0, n, 6).fit;
+    selection = 'auto: corrected Akaike information criterion (AICc) over degrees 1–6';
+  } else {
+    if (!Number.isInteger(spec) || spec < 1 || spec > 6) throw new AnalysisError(`fit degree must be 1–6 (got ${spec})`);
+    const degree = Math.min(spec, n - 1);
+    if (degree < spec) warnings.push(`fit degree lowered from ${spec} to ${degree}: only ${n} points to fit`);
+    fit = fitPolynomial(v, f, 0, n, degree);
+    selection = 'user';
+  }
+  const sigma = Math.max(Number.isFinite(fit.residualStdDev) ? fit.residualStdDev : 0, rmsU);
+  const model = polyModel(fit, fromV, toV, sigma);
+  return {
+    model,
+    json: {
+      model: 'poly',
+      degree: fit.degree,
+      coefficients: fit.coefficients,
+      coefficientStdDev: fit.coefficientStdDev,
+      selection,
+      residualStdDevHz: fit.residualStdDev,
+      pointScatterHz: rmsU,
+      effectiveDegreesOfFreedom: fit.degree + 1,
+      smoothing: null,
+      monotone: null,
+      r2: fit.rSquared,
+      fromV,
+      toV,
+      points: n,
+      unsettledLeftOutV: [],
+      curve: curveSamples(model, fromV, toV),
+    },
+  };
+}
+
+const CURVE_SAMPLES = 129;
+
+/** The fitted curve and its 1σ band on an even grid: what plots draw (any model). */
+function curveSamples(model: TuningModel, fromV: number, toV: number): SweepAnalysis['fit']['curve'] {
+  const v: number[] = [];
+  const hz: number[] = [];
+  const sdHz: number[] = [];
+  for (let i = 0; i < CURVE_SAMPLES; i++) {
+    const x = i === CURVE_SAMPLES - 1 ? toV : fromV + ((toV - fromV) * i) / (CURVE_SAMPLES - 1);
+    v.push(x);
+    hz.push(model.value(x));
+    sdHz.push(model.valueSd(x));
+  }
+  return { v, hz, sdHz };
+}
+
+/**
+ * Where a flat top begins: between the last usable point and the first flat
+ * one, ± half that step. When the last usable step is itself already below half
+ * the median step slope, the bend lies somewhere in it too, and the interval
+ * starts one point lower (the edge is quoted with the interval it can be in).
+ */
+function saturationEdge(v: Float64Array, f: Float64Array, i0: number, i1: number): { edgeV: number; uncertaintyV: number } {
+  const slopes: number[] = [];
+  for (let i = i0; i < i1 - 1; i++) slopes.push(Math.abs(((f[i + 1] as number) - (f[i] as number)) / ((v[i + 1] as number) - (v[i] as number))));
+  const sorted = [...slopes].sort((a, b) => a - b);
+  const median = sorted[sorted.length >> 1] ?? 0;
+  const last = slopes[slopes.length - 1] ?? Infinity;
+  const lo = last < 0.5 * median && i1 - 2 >= i0 ? (v[i1 - 2] as number) : (v[i1 - 1] as number);
+  const hi = v[i1] as number;
+  return { edgeV: (lo + hi) / 2, uncertaintyV: (hi - lo) / 2 };
+}
+
 export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
@@ -123,9 +258,12 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const afterTurn = turn === null ? edges.blockI1 : turn + 1;
   const flatFraction = options.flatKvcoFraction ?? 0.1;
   const i1 = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
+  let saturation: SweepAnalysis['kvco']['saturation'] = null;
   if (i1 < afterTurn) {
+    saturation = saturationEdge(points.v, points.meanHz, i0, i1);
+    const below = points.v[i1 - 1] as number;
     warnings.push(
-      `the tuning curve flattens above ${points.v[i1 - 1] as number} V (Kvco below ${flatFraction * 100} % of its median); ` +
+      `the tuning curve flattens above ${formatFigure(below, 'V', { digits: 4 })} (Kvco below ${flatFraction * 100} % of its median; edge ${formatFigure(saturation.edgeV, 'V', { uncertainty: saturation.uncertaintyV })}); ` +
         'the usable range ends there',
     );
   }
@@ -137,51 +275,108 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
         'the usable range ends at the turn',
     );
   }
-  let rmsU = 0;
-  for (let i = i0; i < i1; i++) rmsU += (u[i] as number) * (u[i] as number);
-  rmsU = Math.sqrt(rmsU / n);
+  const usableFromV = points.v[i0] as number;
+  const usableToV = points.v[i1 - 1] as number;
+  const measuredFromV = points.v[edges.blockI0] as number;
+  const measuredToV = points.v[edges.blockI1 - 1] as number;
 
-  let fit: PolyFit;
-  let selection: string;
-  if (options.fit === undefined || options.fit === 'auto') {
-    const auto = fitPolynomialAuto(points.v, points.meanHz, i0, i1, 6);
-    fit = auto.fit;
-    selection = 'auto: corrected Akaike information criterion (AICc) over degrees 1–6';
+  // The tuning window: the plan's or the flag's, else the automatic usable range.
+  let window: SweepAnalysis['window'];
+  if (options.window) {
+    const w = options.window;
+    if (!(w.toV > w.fromV)) throw new AnalysisError(`window ${w.fromV}–${w.toV} V: fromV must be below toV`);
+    const tol = 1e-9 * Math.max(1, Math.abs(measuredToV));
+    if (w.fromV < measuredFromV - tol || w.toV > measuredToV + tol) {
+      throw new AnalysisError(
+        `window ${w.fromV}–${w.toV} V (${w.source}) reaches outside the measured oscillating range ${measuredFromV}–${measuredToV} V; choose a window inside it`,
+      );
+    }
+    window = { fromV: w.fromV, toV: w.toV, source: w.source };
   } else {
-    const wanted = options.fit;
-    if (!Number.isInteger(wanted) || wanted < 1 || wanted > 6) throw new AnalysisError(`fit degree must be 1–6 (got ${wanted})`);
-    const degree = Math.min(wanted, n - 1);
-    if (degree < wanted) warnings.push(`fit degree lowered from ${wanted} to ${degree}: only ${n} usable points`);
-    fit = fitPolynomial(points.v, points.meanHz, i0, i1, degree);
-    selection = 'user';
+    window = { fromV: usableFromV, toV: usableToV, source: 'auto' };
   }
-  const sigma = Math.max(Number.isFinite(fit.residualStdDev) ? fit.residualStdDev : 0, rmsU);
-  const fromV = points.v[i0] as number;
-  const toV = points.v[i1 - 1] as number;
+  const [w0, w1] = indexRange(points.v, edges.blockI0, edges.blockI1, window.fromV, window.toV);
+  if (w1 - w0 < 2) throw new AnalysisError(`window ${window.fromV}–${window.toV} V holds ${w1 - w0} measured point(s); need at least 2`);
+  if (window.source !== 'auto' && (window.fromV < usableFromV - 1e-9 || window.toV > usableToV + 1e-9)) {
+    warnings.push(`the tuning window ${window.fromV}–${window.toV} V reaches beyond the usable range ${usableFromV}–${usableToV} V`);
+  }
 
-  const { local, misfits } = localKvcoEntries(points, edges, fit, u, sigma, i0, i1);
+  // The fit range: the user's choice, else the window when one was given, else the usable range.
+  const range = options.fitRange ?? (options.window ? { fromV: window.fromV, toV: window.toV } : 'usable');
+  let f0: number;
+  let f1: number;
+  if (range === 'usable') [f0, f1] = [i0, i1];
+  else if (range === 'all') [f0, f1] = [edges.blockI0, edges.blockI1];
+  else [f0, f1] = indexRange(points.v, edges.blockI0, edges.blockI1, range.fromV, range.toV);
+  const keep: number[] = [];
+  const leftOut: number[] = [];
+  for (let i = f0; i < f1; i++) {
+    if (!((points.nOsc[i] as number) > 0)) continue;
+    if (points.unsettled[i] === 1 && !options.keepUnsettled) leftOut.push(points.v[i] as number);
+    else keep.push(i);
+  }
+  if (leftOut.length > 0) {
+    warnings.push(`${leftOut.length} point(s) never settled and are left out of the fit (at ${leftOut.join(', ')} V); --keep-unsettled keeps them`);
+  }
+  if (keep.length < 2) throw new AnalysisError(`the fit range holds ${keep.length} usable point(s); need at least 2`);
+  let rmsU = 0;
+  for (const i of keep) rmsU += (u[i] as number) * (u[i] as number);
+  rmsU = Math.sqrt(rmsU / keep.length);
+  // Monotone where the data allow it: the curve never falls back beyond 3σ within the fit range.
+  const kf0 = keep[0] as number;
+  const kf1 = (keep[keep.length - 1] as number) + 1;
+  const falls = turningPoint(points.meanHz, u, kf0, kf1) !== null;
+  const rising = (points.meanHz[kf1 - 1] as number) >= (points.meanHz[kf0] as number);
+  const monotone = falls ? null : rising ? 'rising' : 'falling';
+  const { model, json: fitJson } = fitModel(points, u, keep, options, monotone, warnings, rmsU);
+  fitJson.unsettledLeftOutV = leftOut;
+  // Rounding noise of an exact fit is not a residual: below 1e-12 of the frequency it is 0.
+  const fScale = Math.max(Math.abs(points.meanHz[kf0] as number), Math.abs(points.meanHz[kf1 - 1] as number));
+  if (belowFloor(fitJson.residualStdDevHz, fScale, 1e-12)) fitJson.residualStdDevHz = 0;
+  if (Number.isFinite(fitJson.residualStdDevHz) && fitJson.residualStdDevHz > 1.5 * rmsU) {
+    warnings.push(
+      `the ${fitJson.model} fit leaves residual SD ${fitJson.residualStdDevHz.toPrecision(3)} Hz against ${rmsU.toPrecision(3)} Hz point scatter: ` +
+        'the curve has structure the model does not follow',
+    );
+  }
+  const fromV = fitJson.fromV;
+  const toV = fitJson.toV;
+
+  const { local, misfits } = localKvcoEntries(points, edges, model, u, kf0, kf1);
   if (misfits > 0) {
     warnings.push(
-      `the degree-${fit.degree} fit misses the local slope at ${misfits} point(s) (residual SD ${fit.residualStdDev.toPrecision(3)} Hz vs ` +
+      `the ${fitJson.model} fit misses the local slope at ${misfits} point(s) (residual SD ${fitJson.residualStdDevHz.toPrecision(3)} Hz vs ` +
         `measurement ${rmsU.toPrecision(3)} Hz); Kvco there comes from the smoothed finite differences`,
     );
   }
+  // Kvco figures over the window. A figure of the wrong sign counts only when it is
+  // beyond 2σ (the measured curve really falls); otherwise it is noise on a flat part.
+  const sense = rising ? 1 : -1;
   let kMin = Infinity;
   let kMax = -Infinity;
   let kMinU = NaN;
   let kMaxU = NaN;
   let kMinV = NaN;
   let kMaxV = NaN;
-  for (let j = 0; j < local.length; j++) {
-    const e = local[j] as LocalKvco;
-    // min/max over the usable range only (fit-backed or fit-checked entries).
-    if (e.v < fromV || e.v > toV || !Number.isFinite(e.hzPerV)) continue;
+  const wrongWay: number[] = [];
+  for (const e of local) {
+    if (e.v < window.fromV - 1e-9 || e.v > window.toV + 1e-9 || !Number.isFinite(e.hzPerV)) continue;
+    if (sense * e.hzPerV < 0) {
+      if (sense * e.hzPerV < -2 * e.uncertaintyHzPerV) wrongWay.push(e.v);
+      else {
+        e.hzPerV = 0; // flat within its uncertainty: not a sign change
+        e.flatWithinUncertainty = true;
+      }
+    }
     if (e.hzPerV < kMin) [kMin, kMinU, kMinV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
     if (e.hzPerV > kMax) [kMax, kMaxU, kMaxV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
   }
-  const nominalV = options.nominalV ?? (fromV + toV) / 2;
-  if (nominalV < fromV || nominalV > toV) warnings.push(`nominal point ${nominalV} V lies outside the usable range`);
-  const nominal = fitKvco(fit, nominalV, sigma);
+  if (wrongWay.length > 0) {
+    warnings.push(`the measured curve falls back beyond its uncertainty at ${wrongWay.join(', ')} V inside the window: Kvco changes sign there`);
+  }
+  const nominalV = options.nominalV ?? (window.fromV + window.toV) / 2;
+  if (nominalV < fromV || nominalV > toV) warnings.push(`nominal point ${nominalV} V lies outside the fitted range ${fromV}–${toV} V`);
+  const nominal = fitKvco(model, Math.min(Math.max(nominalV, fromV), toV));
 
   let iMin = i0;
   let iMax = i0;
@@ -189,7 +384,8 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     if ((points.meanHz[i] as number) < (points.meanHz[iMin] as number)) iMin = i;
     if ((points.meanHz[i] as number) > (points.meanHz[iMax] as number)) iMax = i;
   }
-  const linear = bestLine(points.v, points.meanHz, i0, i1, rmsU);
+  const linear = bestLine(points.v, points.meanHz, w0, w1, rmsU);
+  if (belowFloor(linear.maxLinearityErrorPct, 100, 1e-12)) linear.maxLinearityErrorPct = 0;
   const limitPct = options.linearityLimitPct ?? 5;
   const other = primary === up ? down : null;
   const hysteresis: Hysteresis | null = other ? compareDirections(primary.points, primary.edges, other.points, other.edges) : null;
@@ -224,32 +420,31 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
       maxUncertaintyHzPerV: kMaxU,
       vAtMin: kMinV,
       vAtMax: kMaxV,
+      typHzPerV: nominal.hzPerV,
+      typUncertaintyHzPerV: nominal.sd,
       // Ratio of magnitudes, so a falling (negative-gain) curve reads the same; NaN if the sign changes.
       maxToMinRatio: kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
       turnsBackAboveV: turn === null ? null : (points.v[turn] as number),
       flatAboveV: i1 < afterTurn ? (points.v[i1 - 1] as number) : null,
+      saturation,
+      signChangeAtV: wrongWay,
       nominal: { v: nominalV, hzPerV: nominal.hzPerV, uncertaintyHzPerV: nominal.sd },
-      widestLinearRange: widestLinearRange(fit, fromV, toV, limitPct),
+      widestLinearRange: widestLinearRange(model, Math.max(window.fromV, fromV), Math.min(window.toV, toV), limitPct),
     },
-    fit: {
-      model: 'poly',
-      degree: fit.degree,
-      coefficients: fit.coefficients,
-      coefficientStdDev: fit.coefficientStdDev,
-      selection,
-      residualStdDevHz: fit.residualStdDev,
-      r2: fit.rSquared,
-      fromV,
-      toV,
-      points: n,
-    },
-    points: pointsJson(points, edges),
+    fit: fitJson,
+    window,
+    usableRange: { fromV: usableFromV, toV: usableToV },
+    points: pointsJson(points, edges, model),
     hysteresis,
     counter: { gateS: input.gateS ?? null, resolutionHz: input.gateS ? 1 / input.gateS : null },
     warnings,
   };
 }
 
-function pointsJson(points: PointSet, edges: Edges): SweepAnalysis['points'] {
-  return pointSummaries(points).map((row, i) => ({ ...row, unstable: edges.unstable[i] === 1 }));
+function pointsJson(points: PointSet, edges: Edges, model: TuningModel): SweepAnalysis['points'] {
+  const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
+  return pointSummaries(points).map((row, i) => {
+    const inFit = row.v >= model.fromV - tol && row.v <= model.toV + tol;
+    return { ...row, unstable: edges.unstable[i] === 1, unsettled: points.unsettled[i] === 1, fitHz: inFit ? model.value(row.v) : null };
+  });
 }

@@ -3,7 +3,8 @@
  * finite differences, the best straight line and its linearity, and the widest
  * range within a linearity limit.
  */
-import { derivativeStdDev, evalPoly, evalPolyDerivative, fitPolynomial, type PolyFit } from './poly-fit.ts';
+import { derivativeStdDev, evalPoly, fitPolynomial } from './poly-fit.ts';
+import type { TuningModel } from './tuning-model.ts';
 
 export interface LocalKvco {
   v: number;
@@ -16,6 +17,8 @@ export interface LocalKvco {
   unstable: boolean;
   /** The fit's slope and the local slope differ by > 3σ and > 10 %: the local one is used. */
   fitDisagrees: boolean;
+  /** The slope had the wrong sign by less than 2σ and is shown as 0 (flat within its uncertainty). */
+  flatWithinUncertainty?: boolean;
 }
 
 /**
@@ -108,13 +111,13 @@ const GRID = 257;
  * uniform grid by a two-pointer sweep (greedy: grows the right end while the
  * window passes, then moves the left end).
  */
-export function widestLinearRange(fit: PolyFit, fromV: number, toV: number, limitPct: number): WidestRange | null {
+export function widestLinearRange(model: TuningModel, fromV: number, toV: number, limitPct: number): WidestRange | null {
   if (!(toV > fromV)) return null;
   const gv = new Float64Array(GRID);
   const gf = new Float64Array(GRID);
   for (let i = 0; i < GRID; i++) {
     gv[i] = fromV + ((toV - fromV) * i) / (GRID - 1);
-    gf[i] = evalPoly(fit, gv[i] as number);
+    gf[i] = model.value(gv[i] as number);
   }
   const check = (a: number, b: number): { ok: boolean; slope: number; errPct: number } => {
     const { slope } = localSlope(gv, gf, gf, a, b + 1);
@@ -156,7 +159,7 @@ export function widestLinearRange(fit: PolyFit, fromV: number, toV: number, limi
   };
 }
 
-/** Fit derivative and its SD at v. */
-export function fitKvco(fit: PolyFit, v: number, sigmaHz: number): { hzPerV: number; sd: number } {
-  return { hzPerV: evalPolyDerivative(fit, v), sd: derivativeStdDev(fit, v, sigmaHz) };
+/** The model's analytic derivative and its SD at v. */
+export function fitKvco(model: TuningModel, v: number): { hzPerV: number; sd: number } {
+  return { hzPerV: model.slope(v), sd: model.slopeSd(v) };
 }

@@ -3,17 +3,16 @@
  * cross-checked against a smoothed finite difference (local straight line
  * over ±2 neighbouring oscillating points).
  */
-import type { PolyFit } from './poly-fit.ts';
 import type { Edges } from './sweep-edges.ts';
 import { fitKvco, localSlope, type LocalKvco } from './sweep-gain.ts';
 import type { PointSet } from './sweep-points.ts';
+import type { TuningModel } from './tuning-model.ts';
 
 export function localKvcoEntries(
   points: PointSet,
   edges: Edges,
-  fit: PolyFit,
+  model: TuningModel,
   u: Float64Array,
-  sigma: number,
   i0: number,
   i1: number,
 ): { local: LocalKvco[]; misfits: number } {
@@ -21,14 +20,18 @@ export function localKvcoEntries(
   let misfits = 0;
   for (let i = 0; i < points.count; i++) {
     if ((points.nOsc[i] as number) === 0) continue;
+    // Inside the fit range the local line stays inside it too, so a kink just
+    // outside (a clamped drive, a stall) does not pull the cross-check.
+    const inFit = i >= i0 && i < i1;
+    const lo = inFit ? i0 : 0;
+    const hi = inFit ? i1 : points.count;
     let r0 = i;
-    while (r0 > 0 && (points.nOsc[r0 - 1] as number) > 0 && r0 > i - 2) r0--;
+    while (r0 > lo && (points.nOsc[r0 - 1] as number) > 0 && r0 > i - 2) r0--;
     let r1 = i + 1;
-    while (r1 < points.count && (points.nOsc[r1] as number) > 0 && r1 < i + 3) r1++;
+    while (r1 < hi && (points.nOsc[r1] as number) > 0 && r1 < i + 3) r1++;
     const fd = localSlope(points.v, points.meanHz, u, r0, r1);
     const vi = points.v[i] as number;
-    const inFit = i >= i0 && i < i1;
-    const k = inFit ? fitKvco(fit, vi, sigma) : null;
+    const k = inFit ? fitKvco(model, vi) : null;
     // Cross-check: where the fit's slope and the local one differ by more than 3σ and
     // 10 %, the polynomial is not following the curve (e.g. the steep onset just above
     // a stall edge); the local slope is the better estimate there.

@@ -12,6 +12,8 @@ export interface SweepInput {
   direction?: Int8Array;
   /** Counter gate time (s); sets the resolution floor 1/gate Hz. */
   gateS?: number;
+  /** 1 for a reading of a point that never settled (a settle-timeout event; see run-quality.ts). */
+  unsettled?: Uint8Array;
 }
 
 export type Direction = 'up' | 'down';
@@ -27,6 +29,8 @@ export interface PointSet {
   sdHz: Float64Array;
   nOsc: Int32Array;
   nNoOsc: Int32Array;
+  /** 1 when any reading of the point was taken before it settled. */
+  unsettled: Uint8Array;
 }
 
 /** True when a raw reading means "no oscillation" (CONTRACTS.md plain CSV rules). */
@@ -61,6 +65,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
   const sdHz = new Float64Array(m);
   const nOsc = new Int32Array(m);
   const nNoOsc = new Int32Array(m);
+  const unsettled = new Uint8Array(m);
   let p = -1;
   let mean = 0;
   let m2 = 0;
@@ -74,6 +79,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
       mean = 0;
       m2 = 0;
     }
+    if (input.unsettled && input.unsettled[i] === 1) unsettled[p] = 1;
     const f = frequencyHz[i] as number;
     if (isNoOscillation(f)) {
       nNoOsc[p] = (nNoOsc[p] as number) + 1;
@@ -96,6 +102,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
     sdHz: sdHz.subarray(0, count),
     nOsc: nOsc.subarray(0, count),
     nNoOsc: nNoOsc.subarray(0, count),
+    unsettled: unsettled.subarray(0, count),
   };
 
   function finish(q: number): void {

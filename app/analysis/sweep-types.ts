@@ -36,27 +36,53 @@ export interface SweepAnalysis {
     maxUncertaintyHzPerV: number;
     vAtMin: number;
     vAtMax: number;
+    /** Kvco at the window's middle (or `--nominal`): the typical figure. */
+    typHzPerV: number;
+    typUncertaintyHzPerV: number;
     maxToMinRatio: number;
     /** Control voltage where the tuning curve turns back (usable range ends there); null if monotonic. */
     turnsBackAboveV: number | null;
     /** Control voltage above which the tuning curve is flat (Kvco below 10 % of its median); null if it is not. */
     flatAboveV: number | null;
+    /** Where the curve flattens (between the last usable point and the next), ± half the step; null if it does not. */
+    saturation: { edgeV: number; uncertaintyV: number } | null;
+    /** Points inside the window where the measured curve falls back beyond 2σ (Kvco changes sign): a finding. */
+    signChangeAtV: number[];
     nominal: { v: number; hzPerV: number; uncertaintyHzPerV: number };
     widestLinearRange: WidestRange | null;
   };
   fit: {
-    model: 'poly';
+    model: 'spline' | 'poly';
+    /** 3 for the (cubic) spline. */
     degree: number;
+    /** f(V) = Σ cᵢ·Vⁱ (poly only; empty for the spline — use `curve`). */
     coefficients: number[];
     coefficientStdDev: number[];
     selection: string;
     residualStdDevHz: number;
+    /** RMS uncertainty of the fitted points' means (reading scatter and ±1 count): what the residual SD is judged against. */
+    pointScatterHz: number;
+    effectiveDegreesOfFreedom: number;
+    /** Smoothing λ chosen by GCV (spline); null for a polynomial. */
+    smoothing: number | null;
+    monotone: 'rising' | 'falling' | null;
     r2: number;
+    /** The range the model was fitted over (see `--fit-range`). */
     fromV: number;
     toV: number;
     points: number;
+    /** Points that never settled and were left out (see `--keep-unsettled`). */
+    unsettledLeftOutV: number[];
+    /** The fitted curve and its 1σ band on an even grid over fromV…toV. */
+    curve: { v: number[]; hz: number[]; sdHz: number[] };
   };
-  points: { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number; unstable: boolean }[];
+  /** The tuning window Kvco min/max/typ and linearity are taken over. */
+  window: { fromV: number; toV: number; source: 'plan' | 'flag' | 'auto' };
+  /** The automatic usable range (stable, before a turn or flat top). */
+  usableRange: { fromV: number; toV: number };
+  points: { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number; unstable: boolean; unsettled: boolean;
+    /** The fitted curve at this point (null outside the fitted range): residual = meanHz − fitHz. */
+    fitHz: number | null }[];
   hysteresis: Hysteresis | null;
   counter: { gateS: number | null; resolutionHz: number | null };
   warnings: string[];

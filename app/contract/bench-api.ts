@@ -53,6 +53,8 @@ export interface RunMeta {
   software: { version: string };
   /** Conditions read at the start and end of the run (sweeps; absent in older runs). */
   conditions?: RecordedConditions;
+  /** True when the run was taken on the simulated bench (absent: real instruments, or an older run — see isSimulatedBench). */
+  simulated?: boolean;
 }
 
 /** A condition read at the start and at the end of a run; null when it could not be read. */

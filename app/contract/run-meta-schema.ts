@@ -20,3 +20,12 @@ export const runMetaSchema = z.looseObject({
   plan: z.unknown(),
   software: z.looseObject({ version: z.string() }),
 });
+
+/**
+ * True when any instrument of a run was the built-in simulated bench: an
+ * in-process `sim` address, or a `tunebench sim` server's identity
+ * ("tunebench,SIM-…"). Run folders record it as run.json `simulated: true`.
+ */
+export function isSimulatedBench(instruments: readonly { idn: string; address: string }[]): boolean {
+  return instruments.some((i) => i.address === 'sim' || i.address.startsWith('sim:') || /^tunebench,SIM-/i.test(i.idn));
+}

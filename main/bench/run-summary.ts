@@ -20,7 +20,11 @@ export interface RunSummary {
 export async function summarizeRun(dir: string, title?: string): Promise<RunSummary> {
   try {
     const source = await loadAnalysisSource(dir);
-    const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS });
+    const analysis = analyzeTable(source.kind, source.table, {
+      gateS: source.gateS,
+      events: source.events ?? undefined,
+      sweep: source.window ? { window: { ...source.window, source: 'plan' } } : undefined,
+    });
     const text = summarizeAnalysis(analysis);
     const tableMarkdown = source.kind === 'drift' ? null : renderDatasheetMarkdown(buildDatasheet([{ label: source.label, analysis, conditions: source.conditions }], title));
     return { text, tableMarkdown };

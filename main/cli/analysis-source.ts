@@ -9,6 +9,7 @@ import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { detectCsvKind, type CsvKind } from '../../app/analysis/csv-columns.ts';
 import { datasheetRunLabel, runConditions, runHints, type RunHints } from '../../app/analysis/datasheet-run.ts';
 import { CsvError, numericColumn, parseCsv, type CsvTable } from '../../app/analysis/csv-input.ts';
+import type { RunEventLike } from '../../app/analysis/run-quality.ts';
 import { readRunFolder } from '../store/run-reader.ts';
 import { runIdSchema } from '../store/run-id.ts';
 import { UsageError } from './types.ts';
@@ -21,7 +22,11 @@ export interface AnalysisSource {
   meta: RunMeta | null;
   /** Run folder only: how many events of each type (faults, gaps, retries…). */
   eventsByType: Record<string, number>;
+  /** Run folder only: the events themselves (null for a plain CSV). */
+  events: RunEventLike[] | null;
   gateS: number | undefined;
+  /** The plan's tuning window, when it has one. */
+  window: { fromV: number; toV: number } | undefined;
   conditions: { temperatureC: number | null; supplyV: number | null; gateS: number | null };
 }
 
@@ -60,11 +65,13 @@ export async function loadAnalysisSource(given: string, runsDir?: string): Promi
   let label = path;
   let hints: RunHints = {};
   const eventsByType: Record<string, number> = {};
+  let events: RunEventLike[] | null = null;
   if (info.isDirectory()) {
     try {
       const run = await readRunFolder(path);
       meta = run.meta;
       for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
+      events = run.events as RunEventLike[];
       table = tableOf(run.samplesCsv, join(path, 'samples.csv'));
     } catch (error) {
       if (error instanceof UsageError) throw error;
@@ -96,7 +103,9 @@ export async function loadAnalysisSource(given: string, runsDir?: string): Promi
     table,
     meta,
     eventsByType,
+    events,
     gateS: hints.gateS,
+    window: hints.window,
     conditions,
   };
 }

@@ -29,8 +29,9 @@ describe('tunebench analyze FILE.csv --json (sweep)', () => {
     expect(Object.keys(r.kvco.linear)).toEqual(
       expect.arrayContaining(['slopeHzPerV', 'interceptHz', 'r2', 'maxLinearityErrorPct', 'fromV', 'toV']),
     );
-    expect(r.fit.model).toBe('poly');
-    expect(r.fit.coefficients).toHaveLength(r.fit.degree + 1);
+    expect(r.fit.model).toBe('spline');
+    expect(r.fit.curve.v).toHaveLength(r.fit.curve.hz.length);
+    expect(r.window.source).toBe('auto');
     // Fixture: no oscillation at ≤ 0.4 V, first oscillation at 0.5 V; jitter at 0.5–0.6 V.
     expect(r.stall.stalled).toBe(true);
     expect(r.stall.thresholdV).toBeCloseTo(0.45, 12);

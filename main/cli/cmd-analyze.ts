@@ -1,9 +1,10 @@
 /**
- * `tunebench analyze RUN_DIR|FILE.csv [--json] [--fit poly:N|auto]`
+ * `tunebench analyze RUN_DIR|FILE.csv [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B] [--keep-unsettled]`
  */
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
-import { analyzeTable, parseFitSpec } from '../../app/analysis/analyze-table.ts';
+import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
+import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
 import { CsvError, numericColumn, type CsvTable } from '../../app/analysis/csv-input.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
@@ -13,7 +14,7 @@ import { parseFlags, positiveFlag } from './flags.ts';
 import { runsDirFrom } from '../bench/cli-session.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--json] [--fit poly:N|auto] [--runs DIR]
+const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
 
 Analyses a sweep, drift or pushing run (its folder, or its id as \`tunebench runs\`
 prints it), or a plain CSV file:
@@ -25,7 +26,15 @@ prints it), or a plain CSV file:
 
 options:
   --json            machine-readable result (keys in docs/reference.md, "analyze --json")
-  --fit poly:N|auto polynomial degree 1–6 for the tuning curve, or auto (AICc; default)
+  --fit spline|poly:N|auto  tuning-curve model: penalised cubic regression spline (default; smoothing by
+                    generalised cross-validation, monotone where the data allow), polynomial degree 1–6,
+                    or a polynomial of the degree AICc picks
+  --fit-range all|usable|A:B  points the model is fitted to: the automatic usable range (default; the
+                    window when one is given), every oscillating point, or A…B volts (e.g. 1.2:3.8)
+  --window A:B      tuning window the PLL can drive, volts: Kvco min/typ/max and linearity are taken
+                    over it (default: the plan's window, else the usable range); refused outside the
+                    measured oscillating range
+  --keep-unsettled  keep points that hit the settle timeout in the fit (default: left out, with a note)
   --linearity-limit PCT  limit for the widest linear range, ± % of span (default 5)
   --nominal V       control voltage of the nominal point for Kvco, inside the measured range
                     (default: middle of the usable range)
@@ -63,11 +72,26 @@ export const analyzeCommand: CliCommand = {
   summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'runs'], booleans: ['json'] });
+    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window', 'runs'], booleans: ['json', 'keep-unsettled'] });
     if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR, RUN_ID or FILE.csv');
-    const fitText = flags.values.get('fit') ?? 'auto';
+    const fitText = flags.values.get('fit') ?? 'spline';
     const fit = parseFitSpec(fitText);
-    if (fit === null) throw new UsageError(`--fit: "${fitText}" is not poly:N (N = 1…6) or auto`);
+    if (fit === null) throw new UsageError(`--fit: "${fitText}" is not spline, poly:N (N = 1…6) or auto`);
+    const rangeText = flags.values.get('fit-range');
+    let fitRange: SweepOptions['fitRange'];
+    if (rangeText === 'all' || rangeText === 'usable') fitRange = rangeText;
+    else if (rangeText !== undefined) {
+      const r = parseVoltRange(rangeText, parseSiNumber);
+      if (!r) throw new UsageError(`--fit-range: "${rangeText}" is not all, usable or A:B volts with A < B (e.g. 1.2:3.8)`);
+      fitRange = r;
+    }
+    const windowText = flags.values.get('window');
+    let flagWindow: { fromV: number; toV: number } | undefined;
+    if (windowText !== undefined) {
+      const r = parseVoltRange(windowText, parseSiNumber);
+      if (!r) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
+      flagWindow = r;
+    }
     const linearityLimitPct = positiveNumber(flags.values.get('linearity-limit'), 'linearity-limit', 'a percentage > 0 (e.g. 5)');
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
     if (await isCampaignDir(flags.positionals[0] as string)) {
@@ -80,7 +104,16 @@ export const analyzeCommand: CliCommand = {
     if (nominalV !== undefined && source.kind === 'sweep') checkNominalInside(nominalV, source.table);
     let result;
     try {
-      result = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { fit, linearityLimitPct, nominalV } });
+      const window: SweepOptions['window'] = flagWindow
+        ? { ...flagWindow, source: 'flag' }
+        : source.window
+          ? { ...source.window, source: 'plan' }
+          : undefined;
+      result = analyzeTable(source.kind, source.table, {
+        gateS: source.gateS,
+        events: source.events ?? undefined,
+        sweep: { fit, linearityLimitPct, nominalV, fitRange, window, keepUnsettled: flags.booleans.has('keep-unsettled') },
+      });
     } catch (error) {
       if (error instanceof CsvError) throw new UsageError(`${source.path}: ${error.message}`);
       if (error instanceof AnalysisError) {

@@ -1,11 +1,13 @@
 /**
- * `tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE]`
+ * `tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE] [--window A:B] [--include-incomplete] [--allow-mixed]`
  */
 import { writeFile } from 'node:fs/promises';
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
-import { analyzeTable } from '../../app/analysis/analyze-table.ts';
+import { analyzeTable, parseVoltRange } from '../../app/analysis/analyze-table.ts';
+import { runOrigin } from '../../app/analysis/datasheet-run.ts';
+import { parseSiNumber } from '../../app/contract/si.ts';
 import { CsvError } from '../../app/analysis/csv-input.ts';
-import { buildDatasheet, type DatasheetRun } from '../../app/analysis/datasheet.ts';
+import { buildDatasheet, DatasheetInputError, type DatasheetRun } from '../../app/analysis/datasheet.ts';
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
@@ -14,18 +16,23 @@ import { parseFlags } from './flags.ts';
 import { runsDirFrom } from '../bench/cli-session.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 
-const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--runs DIR]
+const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--window A:B] [--runs DIR]
+                          [--include-incomplete] [--allow-mixed]
 
 Builds the gain table (min / typ / max over the runs) from sweep, drift and
 pushing runs — folders, or ids as \`tunebench runs\` prints them (plain CSV files
-are accepted too). Given one campaign folder (tunebench campaign), it builds the
-table over temperature, supply and units: per-temperature Kvco, tempcos, pushing
-and tuning headroom (md or csv).
+are accepted too). Given one campaign
+folder (tunebench campaign), it builds the table over temperature, supply and
+units: per-temperature Kvco, tempcos, pushing and tuning headroom (md or csv).
 
 options:
   --format md|csv|html  output format (default md); html is one printable, self-contained page
   -o, --output FILE     write to FILE instead of standard output
   --title TEXT          heading of the table (default "VCO gain table")
+  --window A:B          tuning window (volts) Kvco min/max/line are quoted over, for every sweep
+                        (default: each run's plan window, else its usable range)
+  --include-incomplete  keep aborted and interrupted runs (default: left out, named in the notes)
+  --allow-mixed         allow runs of different DUTs (id, kind, or tuning ranges that do not overlap)
   --runs DIR            runs folder where a RUN_ID is looked up (default: TUNEBENCH_RUNS, else the user data folder)
 `;
 
@@ -40,7 +47,7 @@ export const datasheetCommand: CliCommand = {
   summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'runs'], aliases: { o: 'output' } });
+    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'window', 'runs'], booleans: ['include-incomplete', 'allow-mixed'], aliases: { o: 'output' } });
     if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR or RUN_ID (or FILE.csv)');
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
@@ -50,12 +57,17 @@ export const datasheetCommand: CliCommand = {
       const text = format === 'csv' ? renderCampaignCsv(analysis) : renderCampaignMarkdown(analysis, flags.values.get('title'));
       return writeOut(text, flags.values.get('output'), io);
     }
+    const windowText = flags.values.get('window');
+    const flagWindow = windowText === undefined ? undefined : parseVoltRange(windowText, parseSiNumber);
+    if (flagWindow === null) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
     const runs: DatasheetRun[] = [];
     for (const path of flags.positionals) {
       const source = await loadAnalysisSource(path, runsDirFrom(flags.values.get('runs'), io));
       try {
-        const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS });
-        runs.push({ label: source.label, analysis, conditions: source.conditions });
+        const window = flagWindow ? { ...flagWindow, source: 'flag' as const } : source.window ? { ...source.window, source: 'plan' as const } : undefined;
+        // No events here: the gain-table screen builds the same table from samples alone (parity test).
+        const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { window } });
+        runs.push({ label: source.label, analysis, conditions: source.conditions, origin: source.meta ? runOrigin(source.meta) : undefined });
       } catch (error) {
         if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
         if (error instanceof AnalysisError) {
@@ -65,7 +77,17 @@ export const datasheetCommand: CliCommand = {
         throw error;
       }
     }
-    const text = RENDER[format](buildDatasheet(runs, flags.values.get('title')));
+    let sheet;
+    try {
+      sheet = buildDatasheet(runs, flags.values.get('title'), {
+        includeIncomplete: flags.booleans.has('include-incomplete'),
+        allowMixed: flags.booleans.has('allow-mixed'),
+      });
+    } catch (error) {
+      if (error instanceof DatasheetInputError) throw new UsageError(error.message);
+      throw error;
+    }
+    const text = RENDER[format](sheet);
     return writeOut(text, flags.values.get('output'), io);
   },
 };

@@ -14,6 +14,7 @@ import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { AppendFile } from './append-file.ts';
 import { dutIdSchema, makeRunId } from './run-id.ts';
 import { EVENTS_JSONL, RUN_SCHEMA, SAMPLES_CSV, writeRunMeta } from './run-meta.ts';
+import { isSimulatedBench } from '../../app/contract/run-meta-schema.ts';
 import { SOFTWARE_VERSION } from './software-version.ts';
 import { startWriter } from './start-writer.ts';
 import { type StoreFileHandle, type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
@@ -70,6 +71,8 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
     instruments: options.instruments,
     plan: options.plan,
     software: { version: options.softwareVersion ?? SOFTWARE_VERSION },
+    // Every export of a simulated run says so; run.json states it outright.
+    ...(isSimulatedBench(options.instruments) ? { simulated: true } : {}),
   };
   const wallNowMs = options.wallNowMs ?? Date.now;
   const header = `${options.columns.join(',')}\n`;

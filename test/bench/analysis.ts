@@ -1,5 +1,5 @@
 /**
- * Analysis benchmarks (issue 3 §6): polynomial fit of 10,000 points,
+ * Analysis benchmarks (issue 3 §6, issue 9): polynomial and spline fits of 10,000 points,
  * full sweep analysis of 10,000 and 100,000 readings, overlapping ADEV of
  * 1,000,000 samples at all octave taus next to the direct O(N·m) sum, and the
  * whole drift analysis of a 1,000,000-sample log.
@@ -14,6 +14,7 @@ import { oadevDirect, octaveFactors, stability } from '../../app/analysis/allan.
 import { fitPolynomialAuto } from '../../app/analysis/poly-fit-auto.ts';
 import { fitPolynomial } from '../../app/analysis/poly-fit.ts';
 import { analyzeSweep } from '../../app/analysis/sweep-analysis.ts';
+import { fitSpline } from '../../app/analysis/spline-fit.ts';
 import { analyzeDrift } from '../../app/analysis/drift-analysis.ts';
 import { warmingReference } from '../fixtures/drift-scenarios.ts';
 
@@ -91,6 +92,9 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
   }
   figures.push({ name: 'poly fit, 10,000 points, degree 3', ...timeMedian(() => fitPolynomial(xs, ys, 0, n, 3), 21), targetMs: 10 });
   figures.push({ name: 'poly fit, 10,000 points, auto (AICc over degrees 1–6)', ...timeMedian(() => fitPolynomialAuto(xs, ys, 0, n, 6), 11), targetMs: 10 });
+  // The default tuning-curve model: P-spline with GCV, weights 1/u², monotone, knots warped (two fits).
+  const us = new Float64Array(n).fill(20 / Math.sqrt(12));
+  figures.push({ name: 'spline fit, 10,000 points (GCV, weighted, monotone, warped knots)', ...timeMedian(() => fitSpline(xs, ys, us, 0, n, { monotone: 'rising' }), 21), targetMs: 10 });
 
   // 2. Sweep analysis of 10,000 readings: 500 points × 10 readings × up and down,
   //    stalled below 0.8 V, jittery just above, counter quantisation at 0.1 s gate;

@@ -141,10 +141,14 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     }
     // CSV in SI base units: the best-line Kvco equals the figure on the sweep screen (shown to 4 digits).
     const csvLines = (saved.csv ?? '').trim().split(/\r?\n/);
-    expect(csvLines[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs');
+    expect(csvLines[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs,uncertainty,significant,bench');
     const bestLine = csvLines.find((line) => /best straight line/i.test(line))?.split(',') ?? [];
-    expect(bestLine.at(-2)).toBe('Hz/V');
-    expect(Math.abs(Number(bestLine.at(-4)) / shownKvcoTyp - 1)).toBeLessThan(1e-3);
+    expect(bestLine.at(-5)).toBe('Hz/V');
+    expect(Math.abs(Number(bestLine.at(-7)) / shownKvcoTyp - 1)).toBeLessThan(1e-3);
+    // A run of the simulated bench says so in every export.
+    expect(bestLine.at(-1)).toBe('simulated');
+    expect(saved.md).toMatch(/SIMULATED BENCH/);
+    expect(saved.html).toMatch(/SIMULATED BENCH/);
     expect(saved.md).toMatch(/^\|.*\|$/m);
     expect(saved.md).toMatch(/\| *-+/);
     expect(saved.html).toMatch(/<table[\s>]/);

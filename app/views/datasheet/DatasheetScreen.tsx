@@ -22,6 +22,8 @@ export function DatasheetScreen() {
   const togglePick = useStore(stores.runs, (s) => s.togglePick);
   const open = useStore(stores.runs, (s) => s.open);
   const [title, setTitle] = useState('VCO gain table');
+  const [includeIncomplete, setIncludeIncomplete] = useState(false);
+  const [allowMixed, setAllowMixed] = useState(false);
   const [printMessage, setPrintMessage] = useState<string | null>(null);
   const usable = runs.filter((r) => r.status !== 'running');
   const missingKey = picked.filter((id) => !opened[id]).join(',');
@@ -39,8 +41,14 @@ export function DatasheetScreen() {
       if (made.run) sheetRuns.push(made.run);
       if (made.message) messages.push(made.message);
     }
-    return { sheet: sheetRuns.length > 0 ? buildDatasheet(sheetRuns, title.trim() || 'VCO gain table') : null, problems: messages };
-  }, [picked, opened, title]);
+    if (sheetRuns.length === 0) return { sheet: null, problems: messages };
+    try {
+      return { sheet: buildDatasheet(sheetRuns, title.trim() || 'VCO gain table', { includeIncomplete, allowMixed }), problems: messages };
+    } catch (error) {
+      // A table over runs of different DUTs is refused unless allowed: say why instead of a table.
+      return { sheet: null, problems: [...messages, error instanceof Error ? error.message.replace('(--allow-mixed)', '(tick "Allow mixed DUTs")') : String(error)] };
+    }
+  }, [picked, opened, title, includeIncomplete, allowMixed]);
 
   const stem = fileStem(title);
   const printPdf = async () => {
@@ -76,8 +84,21 @@ export function DatasheetScreen() {
       <section className="panel datasheet" aria-label="Gain table" data-testid="datasheet">
         <div className="no-print">
           <Field label="Title" value={title} onChange={setTitle} inputMode="text" testId="datasheet-title" />
+          <label className="toggle">
+            <input type="checkbox" checked={includeIncomplete} onChange={(e) => setIncludeIncomplete(e.target.checked)} data-testid="datasheet-include-incomplete" />
+            Include incomplete runs (aborted, interrupted)
+          </label>
+          <label className="toggle">
+            <input type="checkbox" checked={allowMixed} onChange={(e) => setAllowMixed(e.target.checked)} data-testid="datasheet-allow-mixed" />
+            Allow mixed DUTs
+          </label>
         </div>
         <h2 className="print-only">{title}</h2>
+        {sheet?.simulated ? (
+          <p className="simulated-banner" data-testid="datasheet-simulated">
+            <strong>Simulated bench:</strong> figures from the built-in simulator, not from hardware.
+          </p>
+        ) : null}
         {problems.map((p) => (
           <p key={p} className="error-line" role="alert">
             {p}

@@ -7,7 +7,7 @@
  */
 import type { AnyAnalysis } from '../../analysis/analyze-table.ts';
 import type { DatasheetRun, RunConditions } from '../../analysis/datasheet.ts';
-import { datasheetRunLabel, planHints, runConditions, runHints } from '../../analysis/datasheet-run.ts';
+import { datasheetRunLabel, planHints, runConditions, runHints, runOrigin } from '../../analysis/datasheet-run.ts';
 import type { RunMeta } from '../../contract/bench-api.ts';
 import type { AnalysisOutcome } from '../../state/analysis-outcome.ts';
 import type { ColumnSet } from '../../state/columns.ts';
@@ -18,7 +18,10 @@ import { analyzeColumns } from '../sweep/sweep-figures.ts';
 export type RunAnalysisOutcome = AnalysisOutcome<AnyAnalysis>;
 
 export function analyzeRun(meta: RunMeta, columns: ColumnSet, rows: number): RunAnalysisOutcome {
-  if (meta.kind === 'sweep') return analyzeColumns(columns, rows, planHints(meta.plan).gateS);
+  if (meta.kind === 'sweep') {
+    const hints = planHints(meta.plan);
+    return analyzeColumns(columns, rows, hints.gateS, hints.window ? { window: { ...hints.window, source: 'plan' } } : undefined);
+  }
   if (meta.kind === 'drift') return analyzeDriftColumns(columns, rows);
   return analyzePushingColumns(columns, rows);
 }
@@ -31,5 +34,8 @@ export function conditionsOf(meta: RunMeta, columns: ColumnSet, rows: number): R
 export function datasheetRun(meta: RunMeta, columns: ColumnSet, rows: number): { run: DatasheetRun | null; message: string | null } {
   const outcome = analyzeRun(meta, columns, rows);
   if (!outcome.ok) return { run: null, message: `${meta.dut.id} (${meta.id}): ${outcome.message}` };
-  return { run: { label: datasheetRunLabel(meta.id, meta.dut.id), analysis: outcome.analysis, conditions: conditionsOf(meta, columns, rows) }, message: null };
+  return {
+    run: { label: datasheetRunLabel(meta.id, meta.dut.id), analysis: outcome.analysis, conditions: conditionsOf(meta, columns, rows), origin: runOrigin(meta) },
+    message: null,
+  };
 }

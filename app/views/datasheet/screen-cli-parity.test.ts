@@ -103,7 +103,7 @@ describe('gain table: screen and command agree', () => {
       const md = await cli('datasheet', dir, '--format', 'md', '--title', 'Sensor oscillator');
       expect(renderDatasheetMarkdown(sheet)).toBe(md);
       expect(renderDatasheetCsv(sheet)).toBe(await cli('datasheet', dir, '--format', 'csv', '--title', 'Sensor oscillator'));
-      expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe('T 23.1 °C; supply 5.00 V; gate 100 ms');
+      expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe('T 23.1 °C; supply 5.00 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)');
       expect(md).toContain('T 23.1 °C; supply 5.00 V; gate 100 ms');
     });
   });

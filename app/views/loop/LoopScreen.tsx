@@ -1,12 +1,16 @@
 /**
  * Loop filter: from a measured sweep's Kvco, a passive charge-pump PLL filter
  * for the entered reference, divider, pump current, bandwidth and phase
- * margin; then how crossover and margin move at Kvco min / typ / max.
+ * margin, designed at the lock point N·f_ref on the run's tuning curve; then
+ * how crossover and margin move at the Kvco corners of the tuning window. A
+ * corner the loop cannot use is listed with its reason, never dropped.
  */
 import { useEffect, useMemo, useState } from 'react';
 import type uPlot from 'uplot';
 import { designLoopFilter, type LoopDesign } from '../../analysis/loop-filter.ts';
 import { loopAcrossKvco, logFrequencies, openLoopResponse } from '../../analysis/loop-filter-eval.ts';
+import { loopOperatingPoint, type KvcoCorner } from '../../analysis/loop-operating-point.ts';
+import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { baseOptions, lineSeries, logSiAxis, siAxis, xSeries } from '../../plots/plot-options.ts';
@@ -14,11 +18,12 @@ import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { useEffectiveTheme } from '../App.tsx';
 import { Choice, Field, Figure, Panel } from '../controls/Field.tsx';
-import { hz, hzPerV, si, when } from '../units.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
+import { hz, si, when } from '../units.ts';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
 import { checkLoopDraft, DEFAULT_LOOP, type LoopDraft } from './loop-inputs.ts';
 
-const KVCO_LABELS = ['Kvco min', 'Kvco typ', 'Kvco max'] as const;
+const CORNER_LABELS: Record<KvcoCorner['label'], string> = { min: 'Kvco min (window)', lock: 'Kvco at the lock point', max: 'Kvco max (window)' };
 
 /** uPlot reads null as a gap; NaN (log of a non-positive gain) would break its ranging. */
 function finiteOrNull(values: Float64Array): (number | null)[] {
@@ -40,32 +45,33 @@ export function LoopScreen() {
   }, [chosen, opened, open]);
 
   const run = chosen ? opened[chosen] : undefined;
-  const kvco = useMemo((): { values: readonly [number, number, number] } | { error: string } | null => {
+  const analysis = useMemo((): { sweep: SweepAnalysis } | { error: string } | null => {
     if (!run) return null;
     const plan = run.detail.meta.plan as { gateS?: unknown } | null;
     const outcome = analyzeColumns(run.columns, run.rows, typeof plan?.gateS === 'number' ? plan.gateS : undefined);
-    if (!outcome.ok) return { error: outcome.message };
-    const k = outcome.analysis.kvco;
-    return { values: [k.minHzPerV, k.linear.slopeHzPerV, k.maxHzPerV] };
+    return outcome.ok ? { sweep: outcome.analysis } : { error: outcome.message };
   }, [run]);
 
   const checked = checkLoopDraft(draft);
+  const point = useMemo(() => {
+    if (!checked.values || !analysis || !('sweep' in analysis)) return null;
+    return loopOperatingPoint(analysis.sweep, checked.values.referenceHz, checked.values.dividerN);
+  }, [analysis, checked.values?.referenceHz, checked.values?.dividerN]);
   const design = useMemo((): { design: LoopDesign; checks: (ReturnType<typeof loopAcrossKvco>[number] & { label: string })[] } | { error: string } | null => {
-    if (!checked.values || !kvco || !('values' in kvco)) return null;
+    if (!checked.values || !point) return null;
     const v = checked.values;
     try {
-      if (!(kvco.values[1] > 0)) return { error: 'the typical Kvco is not positive: this sweep cannot set a loop filter' };
-      const made = designLoopFilter({ ...v, kvcoHzPerV: kvco.values[1] });
-      // A curve that folds over gives a Kvco ≤ 0 somewhere; no loop locks there, so that corner is left out and said so.
-      const usable = kvco.values.map((value, i) => ({ value, label: KVCO_LABELS[i] ?? '' })).filter((k) => k.value > 0);
-      const checks = loopAcrossKvco(made.filter, { dividerN: v.dividerN, chargePumpA: v.chargePumpA }, usable.map((k) => k.value));
-      const dropped = kvco.values.length - usable.length;
-      const warnings = dropped > 0 ? [...made.warnings, 'Kvco falls to zero or below inside the usable range (the tuning curve folds over): that corner has no loop and is left out.'] : made.warnings;
-      return { design: { ...made, warnings }, checks: checks.map((c, i) => ({ ...c, label: usable[i]?.label ?? '' })) };
+      const lock = point.corners.find((c) => c.label === 'lock');
+      if (!lock || !lock.usable) return { error: lock?.reason ?? 'no lock point on this sweep' };
+      const made = designLoopFilter({ ...v, kvcoHzPerV: Math.abs(lock.kvcoHzPerV) });
+      // Only corners with loop gain can be checked; the others stay in the table with their reason.
+      const usable = point.corners.filter((c) => c.usable);
+      const checks = loopAcrossKvco(made.filter, { dividerN: v.dividerN, chargePumpA: v.chargePumpA }, usable.map((c) => Math.abs(c.kvcoHzPerV)));
+      return { design: made, checks: checks.map((c, i) => ({ ...c, label: CORNER_LABELS[usable[i]?.label ?? 'lock'] })) };
     } catch (error) {
       return { error: errorText(error) };
     }
-  }, [checked.values?.referenceHz, checked.values?.dividerN, checked.values?.chargePumpA, checked.values?.loopBandwidthHz, checked.values?.phaseMarginDeg, checked.values?.order, kvco]);
+  }, [checked.values?.referenceHz, checked.values?.dividerN, checked.values?.chargePumpA, checked.values?.loopBandwidthHz, checked.values?.phaseMarginDeg, checked.values?.order, point]);
 
   const bode = useMemo(() => {
     if (!design || !('design' in design) || !checked.values) return null;
@@ -100,13 +106,24 @@ export function LoopScreen() {
           <Field label="Phase margin" unit="°" value={draft.phaseMarginDeg} onChange={(phaseMarginDeg) => edit({ phaseMarginDeg })} error={checked.errors.phaseMarginDeg} testId="loop-margin" />
           <Choice label="Filter" value={draft.order} options={[{ value: '2', label: '2nd order (C1, R2, C2)' }, { value: '3', label: '3rd order (adds R3, C3)' }]} onChange={(order) => edit({ order })} testId="loop-order" />
         </div>
-        {kvco && 'error' in kvco ? <p className="error-line">Sweep analysis: {kvco.error}</p> : null}
-        {kvco && 'values' in kvco ? (
-          <dl className="figures">
-            {kvco.values.map((value, i) => (
-              <Figure key={KVCO_LABELS[i]} label={KVCO_LABELS[i] ?? ''} value={hzPerV(value)} testId={`loop-kvco-${i}`} />
-            ))}
-          </dl>
+        {analysis && 'error' in analysis ? <p className="error-line">Sweep analysis: {analysis.error}</p> : null}
+        {point ? (
+          <>
+            {point.message ? <p className="warnings" role="alert" data-testid="loop-lock-message">{point.message}</p> : null}
+            <dl className="figures">
+              <Figure label="Lock point N·f_ref" value={formatFigure(point.targetHz, 'Hz', { digits: 6 })} testId="loop-target" />
+              <Figure label="Control voltage there" value={point.lockV === null ? '—' : formatFigure(point.lockV, 'V', { uncertainty: point.lockUncertaintyV })} testId="loop-lock-v" />
+              {point.corners.map((c, i) => (
+                <Figure
+                  key={c.label}
+                  label={CORNER_LABELS[c.label]}
+                  value={Number.isFinite(c.kvcoHzPerV) ? formatFigure(c.kvcoHzPerV, 'Hz/V', { uncertainty: c.uncertaintyHzPerV }) : '—'}
+                  note={c.reason ?? (Number.isFinite(c.v) ? `at ${formatFigure(c.v, 'V', { digits: 4 })}` : undefined)}
+                  testId={`loop-kvco-${i}`}
+                />
+              ))}
+            </dl>
+          </>
         ) : null}
       </Panel>
       <div className="results">
@@ -166,6 +183,14 @@ export function LoopScreen() {
                       <td>{c.phaseMarginDeg.toFixed(1)}°</td>
                     </tr>
                   ))}
+                  {point?.corners
+                    .filter((c) => !c.usable)
+                    .map((c) => (
+                      <tr key={`unusable-${c.label}`} data-testid={`loop-unusable-${c.label}`}>
+                        <td>{CORNER_LABELS[c.label]}</td>
+                        <td colSpan={2}>not usable: {c.reason}</td>
+                      </tr>
+                    ))}
                 </tbody>
               </table>
               {design.design.warnings.map((w) => (

@@ -52,7 +52,7 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
         <Figure label="Kvco max" value={hzPerV(a?.kvco.maxHzPerV)} note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined} testId="kvco-max" />
         <Figure label="Linearity (worst deviation from line)" value={percent(a?.kvco.linear.maxLinearityErrorPct)} note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined} testId="linearity" />
         <Figure label="Stall threshold" value={a ? (a.stall.thresholdV === null ? 'none in range' : volts(a.stall.thresholdV)) : '—'} note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined} testId="stall-threshold" />
-        <Figure label="Fit" value={a ? `polynomial, degree ${a.fit.degree}` : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
+        <Figure label="Fit" value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
       </dl>
       {a && a.warnings.length > 0 ? (
         <ul className="warnings" data-testid="analysis-warnings">

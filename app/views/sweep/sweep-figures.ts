@@ -3,7 +3,7 @@
  * sweep plots draw: fit curve, Kvco against V, residuals, shaded regions.
  * Runs once when a sweep ends or a stored sweep opens, not per sample.
  */
-import { analyzeSweep } from '../../analysis/sweep-analysis.ts';
+import { analyzeSweep, type SweepOptions } from '../../analysis/sweep-analysis.ts';
 import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
 import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
 import { sweepInputFromColumns } from '../../state/column-inputs.ts';
@@ -12,9 +12,9 @@ import type { XRegion } from '../../plots/regions-plugin.ts';
 
 export type SweepOutcome = AnalysisOutcome<SweepAnalysis>;
 
-export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined): SweepOutcome {
+export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined, options?: SweepOptions): SweepOutcome {
   if (n === 0) return { ok: false, message: 'no readings' };
-  return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS)));
+  return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS), options));
 }
 
 /** f(V) = Σ cᵢ·Vⁱ (CONTRACTS.md fit coefficients, V unscaled). */
@@ -24,10 +24,20 @@ export function evalFit(coefficients: readonly number[], v: number): number {
   return sum;
 }
 
-/** The fitted curve on the display x column; null outside the fitted range. */
+/** The fitted curve on the display x column; null outside the fitted range. A spline comes as samples (fit.curve). */
 export function fitOnX(analysis: SweepAnalysis, x: readonly number[]): (number | null)[] {
-  const { coefficients, fromV, toV } = analysis.fit;
-  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? evalFit(coefficients, v) : null));
+  const { coefficients, fromV, toV, curve } = analysis.fit;
+  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? (coefficients.length ? evalFit(coefficients, v) : onCurve(curve, v)) : null));
+}
+
+/** Linear interpolation in the fitted curve's samples (display only). */
+function onCurve(curve: SweepAnalysis['fit']['curve'], v: number): number {
+  let i = 1;
+  while (i < curve.v.length - 1 && (curve.v[i] as number) < v) i++;
+  const v0 = curve.v[i - 1] as number;
+  const v1 = curve.v[i] as number;
+  const t = v1 > v0 ? (v - v0) / (v1 - v0) : 0;
+  return (curve.hz[i - 1] as number) + t * ((curve.hz[i] as number) - (curve.hz[i - 1] as number));
 }
 
 export function stallRegions(thresholdV: number | null, unstableBelowV: number | null): XRegion[] {
@@ -57,10 +67,9 @@ export function gainColumns(analysis: SweepAnalysis): GainColumns {
 }
 
 export function residualColumns(analysis: SweepAnalysis): { v: number[]; residualHz: (number | null)[] } {
-  const { coefficients, fromV, toV } = analysis.fit;
   const points = analysis.points.filter((p) => Number.isFinite(p.meanHz)).sort((a, b) => a.v - b.v);
   return {
     v: points.map((p) => p.v),
-    residualHz: points.map((p) => (p.v >= fromV - 1e-12 && p.v <= toV + 1e-12 && !p.unstable ? p.meanHz - evalFit(coefficients, p.v) : null)),
+    residualHz: points.map((p) => (p.fitHz !== null && !p.unstable ? p.meanHz - p.fitHz : null)),
   };
 }
