@@ -30,7 +30,7 @@ assertType<
   >
 >();
 assertType<Equal<LiveReadout, { controlSetV: number | null; controlMeasV: number | null; frequencyHz: number | null; temperatureC: number | null; timeS: number }>>();
-assertType<Equal<ProgressInfo['latest'], { controlV: number; frequencyHz: number | null; status: 'ok' | 'no-signal' | 'timeout' | 'error' } | null>>();
+assertType<Equal<ProgressInfo['latest'], { controlV: number; frequencyHz: number | null; status: 'ok' | 'no-signal' | 'timeout' | 'error'; supplyV?: number | undefined } | null>>();
 assertType<Equal<RunMeta['status'], 'running' | 'complete' | 'aborted' | 'interrupted' | 'failed'>>();
 assertType<Equal<RunMeta['kind'], 'sweep' | 'drift' | 'pushing'>>();
 assertType<

@@ -40,7 +40,7 @@ export const progressSchema = z.looseObject({
   pointsTotal: z.number(),
   etaS: nullableNumber,
   latest: z
-    .looseObject({ controlV: z.number(), frequencyHz: nullableNumber, status: z.enum(READING_STATUSES) })
+    .looseObject({ controlV: z.number(), frequencyHz: nullableNumber, status: z.enum(READING_STATUSES), /** The stepped DUT supply of a pushing run. */ supplyV: z.number().optional() })
     .nullable(),
 });
 

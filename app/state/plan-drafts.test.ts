@@ -12,7 +12,7 @@ describe('plan drafts', () => {
   });
 
   it('names the field while typing: a bad number, a missing stop, a zero step', () => {
-    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '0.2x' }, DEFAULT_LIMITS).errors.start).toMatch(/expected a number/);
+    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '0.2x' }, DEFAULT_LIMITS).errors.start).toMatch(/expected a voltage/);
     expect(checkSweepDraft({ ...DEFAULT_SWEEP, stop: '' }, DEFAULT_LIMITS).errors.stop).toMatch(/required/);
     expect(checkSweepDraft({ ...DEFAULT_SWEEP, step: '0' }, DEFAULT_LIMITS).errors.step).toMatch(/greater than 0/);
     expect(checkSweepDraft(DEFAULT_SWEEP, { ...DEFAULT_LIMITS, currentLimitA: '' }).errors['limits.currentLimitA']).toBeDefined();
@@ -24,8 +24,16 @@ describe('plan drafts', () => {
     expect(checkDriftDraft({ ...DEFAULT_DRIFT, controlV: '7.5' }, DEFAULT_LIMITS).errors.controlV).toMatch(/limit/);
   });
 
-  it('parses drift durations such as 15m', () => {
+  it('parses drift durations such as 15min', () => {
     const checked = checkDriftDraft(DEFAULT_DRIFT, DEFAULT_LIMITS);
     expect(checked.ok && checked.plan.durationS).toBe(900);
+  });
+
+  it('the gate field speaks the file grammar: a bare "m" on a time is refused offering both readings', () => {
+    const gate = checkSweepDraft({ ...DEFAULT_SWEEP, gateS: '100m' }, DEFAULT_LIMITS);
+    expect(gate.ok).toBe(false);
+    expect(gate.errors.gateS).toMatch(/ambiguous.*"100ms" \(0\.1 s\).*"100min" \(6000 s\)/);
+    const ms = checkSweepDraft({ ...DEFAULT_SWEEP, gateS: '100ms' }, DEFAULT_LIMITS);
+    expect(ms.ok && ms.plan.gateS).toBeCloseTo(0.1, 15);
   });
 });

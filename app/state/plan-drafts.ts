@@ -43,7 +43,7 @@ export const DEFAULT_SWEEP: SweepDraft = {
   settleS: '2',
   refineEdgeV: '5m',
 };
-export const DEFAULT_DRIFT: DriftDraft = { controlV: '2.5', intervalS: '1s', durationS: '15m', gateS: '0.1' };
+export const DEFAULT_DRIFT: DriftDraft = { controlV: '2.5', intervalS: '1s', durationS: '15min', gateS: '0.1' };
 
 export type FieldErrors = Record<string, string>;
 

@@ -67,7 +67,7 @@ describe('bench and plan files', () => {
     await expect(loadBenchFile(bench)).rejects.toThrow(/supply\.controlChannel: .*\n.*counter/s);
     const plan = join(dir, 'plan.json');
     await writeFile(plan, JSON.stringify({ start: 1, stop: 2, limits: { maxControlV: '5x', currentLimitA: 0.02 } }));
-    await expect(loadSweepPlan(plan)).rejects.toThrow(/limits\.maxControlV: expected a number/);
+    await expect(loadSweepPlan(plan)).rejects.toThrow(/limits\.maxControlV: expected a voltage/);
     await writeFile(plan, JSON.stringify({ start: 1, stop: 2, limits: { maxControlV: 5, currentLimitA: 0.02 } }));
     await expect(loadSweepPlan(plan)).rejects.toThrow(/step: required unless "points" is given/);
     await writeFile(plan, '{ "start": 1, ');

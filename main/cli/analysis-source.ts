@@ -15,6 +15,7 @@ import { CsvImportError, readPlainCsv } from '../store/plain-csv.ts';
 import type { RunEventLike } from '../../app/analysis/run-quality.ts';
 import { readRunFolder } from '../store/run-reader.ts';
 import { readSampleTable } from '../store/sample-table.ts';
+import { runIdSchema } from '../store/run-id.ts';
 import { UsageError } from './types.ts';
 
 export interface AnalysisSource {
@@ -46,9 +47,24 @@ function plainTable(text: string, file: string): ColumnTable {
   }
 }
 
-export async function loadAnalysisSource(path: string): Promise<AnalysisSource> {
+/**
+ * A path as given, or else a run id as `tunebench runs` prints it, looked up
+ * in `runsDir`.
+ */
+async function locate(path: string, runsDir: string | undefined): Promise<{ path: string; info: Awaited<ReturnType<typeof stat>> }> {
   const info = await stat(path).catch(() => null);
-  if (!info) throw new UsageError(`${path}: no such file or run folder (expected RUN_DIR or FILE.csv)`);
+  if (info) return { path, info };
+  if (runsDir !== undefined && runIdSchema.safeParse(path).success) {
+    const folder = join(runsDir, path);
+    const inRuns = await stat(folder).catch(() => null);
+    if (inRuns?.isDirectory()) return { path: folder, info: inRuns };
+    throw new UsageError(`${path}: no such file, run folder or run id in ${runsDir} (expected RUN_DIR, RUN_ID or FILE.csv; --runs picks the runs folder)`);
+  }
+  throw new UsageError(`${path}: no such file or run folder (expected RUN_DIR, RUN_ID or FILE.csv)`);
+}
+
+export async function loadAnalysisSource(given: string, runsDir?: string): Promise<AnalysisSource> {
+  const { path, info } = await locate(given, runsDir);
   let table: ColumnTable;
   let droppedLines = 0;
   let meta: RunMeta | null = null;

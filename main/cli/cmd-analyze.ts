@@ -5,17 +5,20 @@ import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
 import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
-import { CsvError } from '../../app/analysis/csv-columns.ts';
+import { CsvError, numericColumn } from '../../app/analysis/csv-columns.ts';
+import type { ColumnTable } from '../../app/contract/column-table.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
+import { runsDirFrom } from '../cli/recording-command.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
-const usage = `usage: tunebench analyze RUN_DIR|CAMPAIGN_DIR|FILE.csv [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
+const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
 
-Analyses a sweep, drift or pushing run folder, or a plain CSV file:
+Analyses a sweep, drift or pushing run (its folder, or its id as \`tunebench runs\`
+prints it), or a plain CSV file:
   sweep CSV:   columns control_v, frequency_hz (rows sharing control_v are one point;
                empty, NaN, 0 or 9.91E37 = no oscillation); optional direction, status
   drift CSV:   columns time_s, frequency_hz, optional temperature_c
@@ -23,7 +26,7 @@ Analyses a sweep, drift or pushing run folder, or a plain CSV file:
   campaign folder (campaign.json): every condition's sweep, tempcos, pushing, headroom
 
 options:
-  --json            machine-readable result (keys as documented in CONTRACTS.md)
+  --json            machine-readable result (keys in docs/reference.md, "analyze --json")
   --fit spline|poly:N|auto  tuning-curve model: penalised cubic regression spline (default; smoothing by
                     generalised cross-validation, monotone where the data allow), polynomial degree 1–6,
                     or a polynomial of the degree AICc picks
@@ -34,11 +37,35 @@ options:
                     measured oscillating range
   --keep-unsettled  keep points that hit the settle timeout in the fit (default: left out, with a note)
   --linearity-limit PCT  limit for the widest linear range, ± % of span (default 5)
-  --nominal V       control voltage of the nominal point for Kvco (default: middle of the usable range)
+  --nominal V       control voltage of the nominal point for Kvco, inside the measured range
+                    (default: middle of the usable range)
+  --runs DIR        runs folder where a RUN_ID is looked up (default: TUNEBENCH_RUNS, else the user data folder)
 `;
 
 function positiveNumber(text: string | undefined, flag: string, form: string): number | undefined {
   return positiveFlag(flag, text, parseSiNumber, (got) => `"${got}" is not ${form}`);
+}
+
+/** Kvco at a control voltage nobody measured would be an extrapolation of the fit: refused. */
+function checkNominalInside(nominalV: number, table: ColumnTable): void {
+  let lo = Infinity;
+  let hi = -Infinity;
+  try {
+    const v = numericColumn(table, 'control_v');
+    const f = numericColumn(table, 'frequency_hz');
+    if (v === null || f === null) return;
+    for (let i = 0; i < table.rowCount; i++) {
+      if (!((f[i] as number) > 0 && (f[i] as number) < 9e37)) continue; // no oscillation there
+      lo = Math.min(lo, v[i] as number);
+      hi = Math.max(hi, v[i] as number);
+    }
+  } catch (error) {
+    if (error instanceof CsvError) return; // the analysis reports the bad cell with its line
+    throw error;
+  }
+  if (lo <= hi && (nominalV < lo || nominalV > hi)) {
+    throw new UsageError(`--nominal: ${nominalV} V is outside the measured range ${lo}–${hi} V (where the DUT oscillated); Kvco there would be extrapolated`);
+  }
 }
 
 export const analyzeCommand: CliCommand = {
@@ -46,8 +73,8 @@ export const analyzeCommand: CliCommand = {
   summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window'], booleans: ['json', 'keep-unsettled'] });
-    if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR or FILE.csv');
+    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window', 'runs'], booleans: ['json', 'keep-unsettled'] });
+    if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR, RUN_ID or FILE.csv');
     const fitText = flags.values.get('fit') ?? 'spline';
     const fit = parseFitSpec(fitText);
     if (fit === null) throw new UsageError(`--fit: "${fitText}" is not spline, poly:N (N = 1…6) or auto`);
@@ -74,7 +101,8 @@ export const analyzeCommand: CliCommand = {
       else io.stdout.write(`campaign ${file.id}, status ${file.status}\n${renderCampaignMarkdown(analysis)}`);
       return 0;
     }
-    const source = await loadAnalysisSource(flags.positionals[0] as string);
+    const source = await loadAnalysisSource(flags.positionals[0] as string, runsDirFrom(flags.values.get('runs'), io));
+    if (nominalV !== undefined && source.kind === 'sweep') checkNominalInside(nominalV, source.table);
     let result;
     try {
       const window: SweepOptions['window'] = flagWindow

@@ -13,13 +13,15 @@ import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags } from './flags.ts';
+import { runsDirFrom } from '../cli/recording-command.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 
-const usage = `usage: tunebench datasheet RUN_DIR... [--format md|csv|html] [-o FILE] [--title TEXT] [--window A:B]
+const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--window A:B] [--runs DIR]
                           [--include-incomplete] [--allow-mixed]
 
 Builds the gain table (min / typ / max over the runs) from sweep, drift and
-pushing run folders (plain CSV files are accepted too). Given one campaign
+pushing runs — folders, or ids as \`tunebench runs\` prints them (plain CSV files
+are accepted too). Given one campaign
 folder (tunebench campaign), it builds the table over temperature, supply and
 units: per-temperature Kvco, tempcos, pushing and tuning headroom (md or csv).
 
@@ -31,6 +33,7 @@ options:
                         (default: each run's plan window, else its usable range)
   --include-incomplete  keep aborted and interrupted runs (default: left out, named in the notes)
   --allow-mixed         allow runs of different DUTs (id, kind, or tuning ranges that do not overlap)
+  --runs DIR            runs folder where a RUN_ID is looked up (default: TUNEBENCH_RUNS, else the user data folder)
 `;
 
 const RENDER = { md: renderDatasheetMarkdown, csv: renderDatasheetCsv, html: renderDatasheetHtml } as const;
@@ -44,8 +47,8 @@ export const datasheetCommand: CliCommand = {
   summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'window'], booleans: ['include-incomplete', 'allow-mixed'], aliases: { o: 'output' } });
-    if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR (or FILE.csv)');
+    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'window', 'runs'], booleans: ['include-incomplete', 'allow-mixed'], aliases: { o: 'output' } });
+    if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR or RUN_ID (or FILE.csv)');
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
     if (flags.positionals.length === 1 && (await isCampaignDir(flags.positionals[0] as string))) {
@@ -59,7 +62,7 @@ export const datasheetCommand: CliCommand = {
     if (flagWindow === null) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
     const runs: DatasheetRun[] = [];
     for (const path of flags.positionals) {
-      const source = await loadAnalysisSource(path);
+      const source = await loadAnalysisSource(path, runsDirFrom(flags.values.get('runs'), io));
       try {
         const window = flagWindow ? { ...flagWindow, source: 'flag' as const } : source.window ? { ...source.window, source: 'plan' as const } : undefined;
         // No events here: the gain-table screen builds the same table from samples alone (parity test).

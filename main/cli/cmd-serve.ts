@@ -31,7 +31,7 @@ a browser on the same machine; requests without the token are refused.
                 private LANs and serial devices ("*" for any; default:
                 TUNEBENCH_ALLOW_ADDRESS). Profiles are chosen by name only.
 
-Runs until Ctrl-C. A run in progress is stopped and its supply left in the
+Runs until Ctrl+C. A run in progress is stopped and its supply left in the
 safe state before the server exits — also on SIGTERM/SIGHUP, a crash or
 memory running out. Anyone holding the URL can drive the bench, and every page
 connected to it can stop, pause or rename any run (one bench, one operator):
@@ -97,7 +97,7 @@ export const serveCommand: CliCommand = {
       });
     }
     io.stderr.write(`runs folder: ${runsDir}\n`);
-    io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl-C stops it\n`);
+    io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl+C stops it\n`);
     await waitForStop(io);
     io.stderr.write('stopping: leaving the bench safe…\n');
     await service.close();

@@ -4,13 +4,13 @@
  * thermometer on base-port+2, temperature chamber on base-port+3 — until
  * SIGINT/SIGTERM.
  */
-import { loadDutParamsFile, type DutParams } from '../sim/dut-params.ts';
-import { builtinDut, isBuiltinDutName } from '../sim/builtin-duts.ts';
+import { builtinDut } from '../sim/builtin-duts.ts';
 import { loadFaultScriptFile, type FaultScript } from '../sim/faults.ts';
 import type { NoSignalReply } from '../sim/sim-counter.ts';
 import { serveSimBench } from '../sim/tcp-server.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { parseFlags } from './flags.ts';
+import { resolveSimDut } from './sim-dut.ts';
 import { UsageError, type CliCommand, type CliIo } from './types.ts';
 
 const USAGE = `usage: tunebench sim [--host 127.0.0.1] [--base-port 5025] [--dut relaxation|varactor|FILE.json]
@@ -23,7 +23,7 @@ it, all speaking SCPI over raw TCP.
 
   --host       address to listen on (default 127.0.0.1, loopback only)
   --base-port  supply port; counter +1, thermometer +2, chamber +3 (default 5025; 0 = any free ports)
-  --dut        built-in model (relaxation, varactor) or a DUT model file (JSON)
+  --dut        built-in model (relaxation, varactor) or a DUT model file (JSON; keys in docs/reference.md)
   --seed       integer seed of all simulated noise (default 1)
   --faults     fault script (JSON): drops, delays, garbage, errors, silence
   --no-signal  how the counter shows no oscillation: nan (9.91E37, default), zero, silent
@@ -31,19 +31,6 @@ Runs until Ctrl+C (SIGINT) or SIGTERM.
 `;
 
 const NO_SIGNAL: Record<string, NoSignalReply> = { nan: 'not-a-number', zero: 'zero', silent: 'silent' };
-
-async function resolveDut(value: string | undefined): Promise<DutParams> {
-  if (value === undefined) return builtinDut('relaxation');
-  if (isBuiltinDutName(value)) return builtinDut(value);
-  if (!value.toLowerCase().endsWith('.json')) {
-    throw new UsageError(`--dut "${value}": expected relaxation, varactor or a FILE.json`);
-  }
-  try {
-    return await loadDutParamsFile(value);
-  } catch (error) {
-    throw new UsageError(`--dut: ${(error as Error).message}`);
-  }
-}
 
 async function resolveFaults(value: string | undefined): Promise<FaultScript | undefined> {
   if (value === undefined) return undefined;
@@ -85,7 +72,8 @@ async function run(argv: string[], io: CliIo): Promise<number> {
   const noSignalFlag = flags.values.get('no-signal') ?? 'nan';
   const noSignal = NO_SIGNAL[noSignalFlag];
   if (!noSignal) throw new UsageError(`--no-signal "${noSignalFlag}": expected nan, zero or silent`);
-  const dut = await resolveDut(flags.values.get('dut'));
+  const chosen = await resolveSimDut(flags.values.get('dut'));
+  const dut = typeof chosen === 'string' ? builtinDut(chosen) : chosen;
   const faults = await resolveFaults(flags.values.get('faults'));
 
   let served;

@@ -36,7 +36,7 @@ describe('tunebench sweep / drift / pushing input checks', () => {
     await writeFile(plan, JSON.stringify({ start: 1, stop: 2, step: 0.1, gateS: 'fast', limits: { maxControlV: 5, currentLimitA: 0.02 } }));
     const cli = io();
     expect(await runCli(['sweep', '--plan', plan, '--runs', dir], cli)).toBe(2);
-    expect(cli.err()).toMatch(/gateS: expected a duration/);
+    expect(cli.err()).toMatch(/gateS: expected a time such as/);
   });
 
   it('a plan beyond its limits is refused (exit 2) before any bench is opened', async () => {
@@ -63,7 +63,7 @@ describe('tunebench sweep / drift / pushing input checks', () => {
     expect(await runCli(['sweep', '--dut', 'crystal', '--runs', dir], io())).toBe(2);
     const drift = io();
     expect(await runCli(['drift', '--duration', 'forever', '--runs', dir], drift)).toBe(2);
-    expect(drift.err()).toMatch(/--duration: expected a duration/);
+    expect(drift.err()).toMatch(/--duration: expected a time such as/);
     const missing = io();
     expect(await runCli(['drift', '--bench', join(dir, 'none.json'), '--runs', dir], missing)).toBe(2);
     expect(missing.err()).toMatch(/cannot read/);

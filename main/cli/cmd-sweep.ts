@@ -1,15 +1,40 @@
 /**
- * `tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]`
+ * `tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor|FILE.json]`
  */
 import { basename } from 'node:path';
-import { asUsageError, exitCodeFor, openCliRun, parseRunFlags, runsDirFrom, validatedCliPlan } from './recording-command.ts';
+import type { SweepPlan } from '../../app/contract/plans.ts';
 import { loadSweepPlan } from './config-files.ts';
 import { defaultSweepPlan } from './default-plans.ts';
 import { summarizeRun } from './run-summary.ts';
 import { recordSweep, validateSweepPlan } from '../procedures/recorded-run.ts';
-import type { CliCommand } from './types.ts';
+import { recordingCommand } from './record-command.ts';
 
-const usage = `usage: tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor]
+const mV = (volts: number): string => `${Number((volts * 1000).toPrecision(6))} mV`;
+
+/** The default plan in words, made from the plan itself so the help cannot drift from it. */
+export function describeDefaultSweep(plan: SweepPlan): string {
+  const settle = plan.settle.mode === 'auto' ? `automatic settling (at most ${plan.settle.maxS} s)` : `${plan.settle.seconds} s fixed settling`;
+  return [
+    `${plan.start}–${plan.stop} V in ${mV(plan.step ?? 0)} steps (${plan.direction}), ${plan.readingsPerPoint} readings per point,`,
+    `${plan.gateS * 1000} ms gate, ${settle}, stall edge refined to ${mV(plan.refineEdgeV)},`,
+    `limits ${plan.limits.maxControlV} V / ${plan.limits.currentLimitA * 1000} mA`,
+  ].join(' ');
+}
+
+function wrap(text: string, indent: string, width = 100): string {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    if (line !== '' && indent.length + line.length + word.length + 1 > width) {
+      lines.push(line);
+      line = word;
+    } else line = line === '' ? word : `${line} ${word}`;
+  }
+  lines.push(line);
+  return lines.map((l) => `${indent}${l}`).join('\n');
+}
+
+const usage = `usage: tunebench sweep [--bench BENCH.json] [--plan PLAN.json] [--runs DIR] [--dut-id ID] [--dut relaxation|varactor|FILE.json]
 
 Runs a gain sweep: steps the control voltage, settles, reads the counter,
 refines the stall edge, and records every reading in a new run folder.
@@ -17,41 +42,31 @@ Without --bench it runs against the built-in simulated bench (in real time).
 
 options:
   --bench FILE    bench file (addresses and profiles of supply, counter, thermometer)
-  --plan FILE     sweep plan (start/stop/step or points, settle, limits, safe state);
-                  default: 1–4.5 V in 50 mV steps, automatic settling, 5 V / 20 mA limits
+  --plan FILE     sweep plan (start/stop/step or points, settle, limits, safe state); default:
+${wrap(`relaxation DUT: ${describeDefaultSweep(defaultSweepPlan('relaxation'))}`, '                    ')}
+${wrap(`varactor DUT: ${describeDefaultSweep(defaultSweepPlan('varactor'))}`, '                    ')}
   --runs DIR      runs folder (default: TUNEBENCH_RUNS, else the user data folder)
   --dut-id ID     DUT id recorded with the run
-  --dut NAME      simulated DUT when there is no --bench: relaxation (default) or varactor
+  --dut NAME      simulated DUT when there is no --bench: relaxation (default), varactor or a DUT model FILE.json
 
-Ctrl-C stops the sweep cleanly: control voltage to the safe level, output off.
+Every key of the plan and bench files: docs/reference.md (or \`tunebench schema sweep-plan\`).
+Ctrl+C stops the sweep cleanly: control voltage to the safe level, output off.
 `;
 
-export const sweepCommand: CliCommand = {
+export const sweepCommand = recordingCommand({
   name: 'sweep',
   summary: 'gain sweep of the DUT into a new run folder',
   usage,
-  async run(argv, io) {
-    const { flags, dut } = parseRunFlags(argv);
-    const planPath = flags.values.get('plan');
-    const plan = validatedCliPlan(planPath === undefined ? defaultSweepPlan(dut) : await loadSweepPlan(planPath).catch(asUsageError), validateSweepPlan);
-    const { progress, dutId, recording, close } = await openCliRun(io, flags, dut, plan.safe);
-    try {
-      const recorded = await recordSweep({
-        ...recording,
-        plan,
-        runsDir: runsDirFrom(flags.values.get('runs'), io),
-        dutId,
-        onRunStarted: (_meta, dir) => io.stderr.write(`run folder: ${dir}\n`),
-      }).catch(asUsageError);
-      progress.done();
-      io.stdout.write(`${recorded.dir}\n`);
-      const summary = await summarizeRun(recorded.dir, `Gain table — ${basename(recorded.dir)}`, recorded.outcome);
-      io.stdout.write(`status: ${recorded.meta.status}, ${recorded.outcome.rowsWritten} readings, ${recorded.outcome.refinedPoints} refined points\n`);
-      io.stdout.write(summary.text);
-      if (summary.tableMarkdown !== null) io.stdout.write(`\n${summary.tableMarkdown}`);
-      return exitCodeFor(recorded.outcome, io);
-    } finally {
-      await close();
-    }
+  defaultPlan: defaultSweepPlan,
+  loadPlan: loadSweepPlan,
+  validate: validateSweepPlan,
+  record: (options) => recordSweep(options),
+  async report(recorded) {
+    const summary = await summarizeRun(recorded.dir, `Gain table — ${basename(recorded.dir)}`, recorded.outcome);
+    return [
+      `status: ${recorded.meta.status}, ${recorded.outcome.rowsWritten} readings, ${recorded.outcome.refinedPoints} refined points\n`,
+      summary.text,
+      summary.tableMarkdown !== null ? `\n${summary.tableMarkdown}` : '',
+    ].join('');
   },
-};
+});

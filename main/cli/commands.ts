@@ -10,6 +10,7 @@ import { demoCommand } from './cmd-demo.ts';
 import { driftCommand } from './cmd-drift.ts';
 import { pushingCommand } from './cmd-pushing.ts';
 import { runsCommand } from './cmd-runs.ts';
+import { schemaCommand } from './cmd-schema.ts';
 import { serveCommand } from './cmd-serve.ts';
 import { simCommand } from './cmd-sim.ts';
 import { sweepCommand } from './cmd-sweep.ts';
@@ -24,6 +25,7 @@ export const commands: CliCommand[] = [
   datasheetCommand,
   runsCommand,
   checkCommand,
+  schemaCommand,
   simCommand,
   serveCommand,
   demoCommand,

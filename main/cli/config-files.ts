@@ -5,6 +5,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { z } from 'zod';
+import { JsonShapeError, parseBoundedJson } from '../../app/contract/bounded-json.ts';
 import { parseAddress } from '../instruments/address.ts';
 import { AddressError } from '../instruments/errors.ts';
 import { benchChannelProblems } from '../bench/bench-checks.ts';
@@ -33,9 +34,10 @@ async function readJson(path: string, what: string): Promise<unknown> {
     throw new ConfigFileError(`${what} ${path}: cannot read (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
   }
   try {
-    return JSON.parse(text) as unknown;
+    return parseBoundedJson(text);
   } catch (error) {
-    throw new ConfigFileError(`${what} ${path}: not valid JSON (${(error as Error).message})`);
+    if (error instanceof JsonShapeError) throw new ConfigFileError(`${what} ${path}: ${error.message}`);
+    throw error;
   }
 }
 

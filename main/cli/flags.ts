@@ -1,7 +1,13 @@
 /**
- * Minimal flag parser: `--name value`, `--name=value`, boolean `--flag`,
- * and positionals. Unknown flags are a UsageError naming the flag.
+ * Command-line flags through Node's util.parseArgs: `--name value`,
+ * `--name=value`, boolean `--flag`, short aliases, repeatable flags and
+ * positionals; everything after `--` is a positional, even if it starts
+ * with a dash. Each command declares its flags in one FlagSpec, so adding a
+ * flag is one word in one list. Unknown flags are a UsageError naming the
+ * flag and the nearest known one.
  */
+import { parseArgs, type ParseArgsConfig } from 'node:util';
+import { nearestKey } from '../../app/contract/schema-kit.ts';
 import { UsageError } from './types.ts';
 
 export interface FlagSpec {
@@ -9,7 +15,7 @@ export interface FlagSpec {
   values?: readonly string[];
   /** Flags that stand alone (true when present). */
   booleans?: readonly string[];
-  /** Flags that may repeat (collected into an array). */
+  /** Flags that take a value and may repeat (collected into a list). */
   repeatable?: readonly string[];
   /** Short forms: `{ o: 'output' }` makes `-o FILE` mean `--output FILE`. */
   aliases?: Readonly<Record<string, string>>;
@@ -22,48 +28,71 @@ export interface ParsedFlags {
   positionals: string[];
 }
 
-export function parseFlags(argv: readonly string[], spec: FlagSpec): ParsedFlags {
-  const valueFlags = new Set(spec.values ?? []);
-  const booleanFlags = new Set(spec.booleans ?? []);
-  const repeatable = new Set(spec.repeatable ?? []);
-  const parsed: ParsedFlags = { values: new Map(), lists: new Map(), booleans: new Set(), positionals: [] };
-  for (let i = 0; i < argv.length; i++) {
-    const raw = argv[i] as string;
-    const alias = /^-([A-Za-z])$/.exec(raw)?.[1];
-    const long = alias !== undefined ? spec.aliases?.[alias] : undefined;
-    const arg = long !== undefined ? `--${long}` : raw;
-    if (!arg.startsWith('--') || arg === '--') {
-      parsed.positionals.push(arg);
-      continue;
-    }
-    const eq = arg.indexOf('=');
-    const name = eq >= 0 ? arg.slice(2, eq) : arg.slice(2);
-    if (booleanFlags.has(name)) {
-      if (eq >= 0) throw new UsageError(`--${name} takes no value`);
-      parsed.booleans.add(name);
-      continue;
-    }
-    if (!valueFlags.has(name) && !repeatable.has(name)) {
-      throw new UsageError(`unknown option --${name}`);
-    }
-    let value: string | undefined;
-    if (eq >= 0) value = arg.slice(eq + 1);
-    else {
-      value = argv[i + 1];
-      i++;
-    }
-    if (value === undefined || (eq < 0 && value.startsWith('--'))) {
-      throw new UsageError(`--${name} needs a value`);
-    }
-    if (repeatable.has(name)) {
-      const list = parsed.lists.get(name) ?? [];
-      list.push(value);
-      parsed.lists.set(name, list);
-    } else {
-      parsed.values.set(name, value);
-    }
+/** A FlagSpec with more flags: how a command extends the flags it shares with others. */
+export function withFlags(spec: FlagSpec, more: FlagSpec): FlagSpec {
+  return {
+    values: [...(spec.values ?? []), ...(more.values ?? [])],
+    booleans: [...(spec.booleans ?? []), ...(more.booleans ?? [])],
+    repeatable: [...(spec.repeatable ?? []), ...(more.repeatable ?? [])],
+    aliases: { ...spec.aliases, ...more.aliases },
+  };
+}
+
+function optionsOf(spec: FlagSpec): NonNullable<ParseArgsConfig['options']> {
+  const options: NonNullable<ParseArgsConfig['options']> = {};
+  const shortOf = new Map(Object.entries(spec.aliases ?? {}).map(([short, long]) => [long, short]));
+  const add = (name: string, type: 'string' | 'boolean', multiple: boolean): void => {
+    const short = shortOf.get(name);
+    options[name] = { type, multiple, ...(short === undefined ? {} : { short }) };
+  };
+  for (const name of spec.values ?? []) add(name, 'string', false);
+  for (const name of spec.repeatable ?? []) add(name, 'string', true);
+  for (const name of spec.booleans ?? []) add(name, 'boolean', false);
+  return options;
+}
+
+/** parseArgs' own errors, reworded to name the flag as the rest of the CLI does. */
+function usageErrorOf(error: unknown, spec: FlagSpec, argv: readonly string[]): UsageError {
+  const code = (error as NodeJS.ErrnoException).code;
+  const message = error instanceof Error ? error.message : String(error);
+  const flag = /'(-{1,2}[^' =]+)/.exec(message)?.[1] ?? '';
+  if (code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION') {
+    const known = [...(spec.values ?? []), ...(spec.booleans ?? []), ...(spec.repeatable ?? [])];
+    const near = nearestKey(flag.replace(/^-+/, ''), known);
+    return new UsageError(`unknown option ${flag}${near === null ? '' : ` (did you mean --${near}?)`}`);
   }
-  return parsed;
+  if (code === 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE') {
+    const name = /--([^\s'=<]+)/.exec(message)?.[1] ?? flag.replace(/^-+/, '');
+    if ((spec.booleans ?? []).includes(name)) return new UsageError(`--${name} takes no value`);
+    const i = argv.findIndex((arg) => arg === `--${name}`);
+    const next = i >= 0 ? argv[i + 1] : undefined;
+    return new UsageError(`--${name} needs a value${next === undefined ? '' : ` (got the option "${next}"; write --${name}=${next} if that is the value)`}`);
+  }
+  return new UsageError(message);
+}
+
+export function parseFlags(argv: readonly string[], spec: FlagSpec): ParsedFlags {
+  let parsed: ReturnType<typeof parseArgs>;
+  try {
+    parsed = parseArgs({ args: [...argv], options: optionsOf(spec), strict: true, allowPositionals: true });
+  } catch (error) {
+    throw usageErrorOf(error, spec, argv);
+  }
+  const result: ParsedFlags = { values: new Map(), lists: new Map(), booleans: new Set(), positionals: [...parsed.positionals] };
+  for (const [name, value] of Object.entries(parsed.values)) {
+    if (value === undefined) continue;
+    if (Array.isArray(value)) result.lists.set(name, value.map(String));
+    else if (typeof value === 'boolean') {
+      if (value) result.booleans.add(name);
+    } else result.values.set(name, value);
+  }
+  return result;
+}
+
+/** The arguments before a `--`, where `--help` still means help. */
+export function argsBeforeSeparator(argv: readonly string[]): readonly string[] {
+  const end = argv.indexOf('--');
+  return end < 0 ? argv : argv.slice(0, end);
 }
 
 /**

@@ -4,6 +4,8 @@
  * a stack trace.
  */
 import { commands } from './commands.ts';
+import { argsBeforeSeparator } from './flags.ts';
+import { watchParent } from './parent-watch.ts';
 import { UsageError, WorkFailedError, type CliIo } from './types.ts';
 
 function mainHelp(): string {
@@ -19,6 +21,7 @@ function mainHelp(): string {
     '',
     'Run `tunebench <command> --help` for the options of one command.',
     'With no --bench file, commands run against the built-in simulated bench.',
+    'Every key of the bench, plan, profile and DUT files: docs/reference.md (and `tunebench schema NAME`).',
     '',
   ].join('\n');
 }
@@ -38,10 +41,14 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     io.stderr.write(`tunebench: unknown command "${name}"\n\n${mainHelp()}`);
     return 2;
   }
-  if (rest.includes('--help') || rest.includes('-h')) {
+  const beforeSeparator = argsBeforeSeparator(rest);
+  if (beforeSeparator.includes('--help') || beforeSeparator.includes('-h')) {
     io.stdout.write(`${command.usage.trimEnd()}\n`);
     return 0;
   }
+  // Owning the process (the installed bin or npx): stop as on SIGTERM when the parent goes
+  // away, so an orphaned `sim` or drift log releases its ports and leaves the bench safe.
+  const unwatch = io.stdout === process.stdout ? watchParent(() => process.kill(process.pid, 'SIGTERM')) : () => {};
   try {
     return await command.run(rest, io);
   } catch (error) {
@@ -57,5 +64,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     io.stderr.write(`tunebench ${name}: failed: ${message}\n`);
     if (io.env.TUNEBENCH_DEBUG && error instanceof Error && error.stack) io.stderr.write(`${error.stack}\n`);
     return 1;
+  } finally {
+    unwatch();
   }
 }

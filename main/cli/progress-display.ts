@@ -19,9 +19,17 @@ function formatHz(hz: number | null): string {
   return `${hz.toFixed(2)} Hz`;
 }
 
+/** What a run counts: a sweep visits points, a drift log takes readings, pushing steps the DUT supply. */
+const COUNTED: Readonly<Record<ProgressInfo['kind'], string>> = { sweep: 'points', drift: 'readings', pushing: 'supply steps' };
+
 export function describeProgress(p: ProgressInfo): string {
-  const latest = p.latest === null ? '' : `  ${p.latest.controlV.toFixed(4)} V → ${p.latest.status === 'ok' ? formatHz(p.latest.frequencyHz) : p.latest.status}`;
-  return `${p.phase} ${p.pointsDone}/${p.pointsTotal}  ETA ${formatClockDuration(p.etaS)}${latest}`;
+  let latest = '';
+  if (p.latest !== null) {
+    const reading = p.latest.status === 'ok' ? formatHz(p.latest.frequencyHz) : p.latest.status;
+    // Pushing holds the control voltage; what moves is the DUT supply.
+    latest = p.latest.supplyV !== undefined ? `  supply ${p.latest.supplyV.toFixed(4)} V → ${reading}` : `  ${p.latest.controlV.toFixed(4)} V → ${reading}`;
+  }
+  return `${p.phase} ${p.pointsDone}/${p.pointsTotal} ${COUNTED[p.kind] ?? 'points'}  ETA ${formatClockDuration(p.etaS)}${latest}`;
 }
 
 export function createProgressDisplay(out: ProgressOutput, nowMs: () => number = Date.now, plainEveryMs = 5000): { update: (p: ProgressInfo) => void; done: () => void } {

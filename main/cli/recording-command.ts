@@ -17,11 +17,12 @@ import { resolveRunsDir } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
-import { parseFlags, type ParsedFlags } from './flags.ts';
+import type { ParsedFlags } from './flags.ts';
 import { UsageError, WorkFailedError, type CliIo } from './types.ts';
 import { assembleBench, type AssembledBench } from '../bench/assemble.ts';
 import { BenchCheckError } from '../bench/bench-checks.ts';
 import { ConfigFileError, loadBenchFile } from './config-files.ts';
+import type { DutParams } from '../sim/dut-params.ts';
 import type { DefaultDut } from './default-plans.ts';
 import { createProgressDisplay } from './progress-display.ts';
 
@@ -48,7 +49,7 @@ export function asUsageError(error: unknown): never {
   throw error;
 }
 
-export async function openCliBench(benchPath: string | undefined, dut: DefaultDut, clock: Clock): Promise<AssembledBench> {
+export async function openCliBench(benchPath: string | undefined, dut: DefaultDut | DutParams, clock: Clock): Promise<AssembledBench> {
   const config = benchPath === undefined ? 'sim' : await loadBenchFile(benchPath).catch(asUsageError);
   try {
     return await assembleBench(config, { clock, sim: { dut } });
@@ -130,13 +131,6 @@ export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
   return outcome.safeStateOk ? 0 : 1;
 }
 
-/** The flags every recording command takes (plus `extra` value flags), no positionals, and the simulated DUT. */
-export function parseRunFlags(argv: readonly string[], extra: readonly string[] = []): { flags: ParsedFlags; dut: DefaultDut } {
-  const flags = parseFlags(argv, { values: ['bench', 'plan', 'runs', 'dut-id', 'dut', ...extra] });
-  if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
-  return { flags, dut: parseDutName(flags.values.get('dut')) };
-}
-
 /** Returns the plan once `validate` passes it; a refusal is a UsageError naming the field. */
 export function validatedCliPlan<P>(plan: P, validate: (plan: P) => void): P {
   try {
@@ -166,7 +160,7 @@ export interface CliRun {
  * run's control and progress. Call after the plan has been validated, so a
  * refused plan never touches an instrument.
  */
-export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut, safe: SafeState): Promise<CliRun> {
+export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut | DutParams, safe: SafeState): Promise<CliRun> {
   const clock = new RealClock();
   io.stderr.write(`${CAUTIONS}\n`);
   const bench = await openCliBench(flags.values.get('bench'), dut, clock);

@@ -141,8 +141,10 @@ describe('CounterDriver', () => {
     });
     await expect(counter.setGate(0)).rejects.toThrow(/gateS/);
     await expect(counter.setGate(Number.NaN)).rejects.toThrow(/gateS/);
+    // Outside the profile's gate range (default 1 µs–10 s): refused before anything is sent.
+    await expect(counter.setGate(20)).rejects.toThrow(/gateS: 20 s is outside the counter's gate range/);
     expect(link.written).toEqual([]);
-    const error = await counter.setGate(1000).catch((e: unknown) => e);
+    const error = await counter.setGate(5).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(InstrumentError);
     expect((error as InstrumentError).code).toBe(-222);
     expect(counter.gateS).toBe(0.1); // unchanged: the instrument refused it

@@ -31,6 +31,10 @@ export class CounterDriver implements Counter {
     return this.gate;
   }
 
+  get gateRangeS(): { minS: number; maxS: number } {
+    return { minS: this.profile.minGateS, maxS: this.profile.maxGateS };
+  }
+
   /** Longest wait for one reading, s. */
   get measureTimeoutS(): number {
     return this.gate + this.profile.timeouts.measureMarginS;
@@ -42,6 +46,10 @@ export class CounterDriver implements Counter {
 
   async setGate(seconds: number): Promise<void> {
     if (!(seconds > 0) || !Number.isFinite(seconds)) throw new RangeError(`gateS: must be a positive number of seconds, got ${seconds}`);
+    // Refused here too, below every plan check, so no caller can send a gate the profile rules out.
+    if (seconds < this.profile.minGateS || seconds > this.profile.maxGateS) {
+      throw new RangeError(`gateS: ${seconds} s is outside the counter's gate range ${this.profile.minGateS}–${this.profile.maxGateS} s (profile minGateS/maxGateS)`);
+    }
     await this.session.write(this.profile.commands.setGate.render({ gateS: formatScpiNumber(seconds) }), {
       checkErrors: this.profile.checkErrorsAfterWrite,
     });

@@ -4,6 +4,7 @@
  * profile) and then among the shipped ones in resources/profiles/. A value
  * containing a path separator or ending in .json is read as a file path.
  */
+import { parseBoundedJson } from '../../app/contract/bounded-json.ts';
 import { readdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -55,9 +56,9 @@ export async function loadProfile(name: string, options: LoadProfileOptions = {}
     }
     let json: unknown;
     try {
-      json = JSON.parse(text);
+      json = parseBoundedJson(text);
     } catch (error) {
-      throw new ProfileError(name, `${file} is not valid JSON: ${(error as Error).message}`);
+      throw new ProfileError(name, `${file}: ${(error as Error).message}`);
     }
     const profile = parseProfile(json, profileNameOf(name));
     if (options.role !== undefined && profile.role !== options.role) {

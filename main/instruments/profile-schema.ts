@@ -4,6 +4,7 @@
  * compiled once. A bad profile is refused with the field named.
  */
 import { z } from 'zod';
+import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
 import type { CommandTemplate } from './command-template.ts';
 
 export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
@@ -14,6 +15,7 @@ const query = command.refine((text) => text.includes('?'), 'must be a query (a S
 const positiveS = z.number().positive().finite();
 
 const common = {
+  $schema: schemaRef,
   schema: z.literal(PROFILE_SCHEMA_ID),
   description: z.string().optional(),
   /** Ends every command and reply line. */
@@ -24,11 +26,11 @@ const common = {
   init: z.array(command).default([]),
 };
 
-export const supplyProfileSchema = z.object({
+export const supplyProfileSchema = strictObject({
   ...common,
   role: z.literal('supply'),
-  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
-  capabilities: z.object({
+  timeouts: strictObject({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  capabilities: strictObject({
     channels: z.number().int().min(1).max(64),
     measureVoltage: z.boolean(),
     measureCurrent: z.boolean(),
@@ -39,11 +41,11 @@ export const supplyProfileSchema = z.object({
    * ±maxVoltageV, or a current beyond ±maxCurrentA, is not a measurement
    * but a fault.
    */
-  ratings: z.object({
+  ratings: strictObject({
     maxVoltageV: z.number().positive().max(1e4).default(100),
     maxCurrentA: z.number().positive().max(1e3).default(20),
   }).default({ maxVoltageV: 100, maxCurrentA: 20 }),
-  commands: z.object({
+  commands: strictObject({
     identify: query.default('*IDN?'),
     setVoltage: command,
     getVoltageSetpoint: query,
@@ -67,10 +69,10 @@ export const supplyProfileSchema = z.object({
   }
 });
 
-export const counterProfileSchema = z.object({
+export const counterProfileSchema = strictObject({
   ...common,
   role: z.literal('counter'),
-  timeouts: z.object({
+  timeouts: strictObject({
     defaultS: positiveS.default(2),
     /** A reading may take the gate time plus this much before it counts as "no reply". */
     measureMarginS: positiveS.default(1),
@@ -85,48 +87,51 @@ export const counterProfileSchema = z.object({
    * A reply of another shape (a stray "1") is a fault, never a frequency.
    */
   replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal'),
+  /** Shortest and longest gate the counter takes, s; plans outside are refused before a run starts. */
+  minGateS: positiveS.default(1e-6),
+  maxGateS: positiveS.max(1000).default(10),
   /** Which replies mean "no oscillation" rather than a fault. */
-  noSignal: z.object({
+  noSignal: strictObject({
     notANumber: z.boolean().default(true),
     zero: z.boolean().default(true),
     timeout: z.boolean().default(true),
     /** Readings at or below this many Hz also count as zero. */
     belowHz: z.number().min(0).finite().default(0),
   }).default({ notANumber: true, zero: true, timeout: true, belowHz: 0 }),
-  commands: z.object({
+  commands: strictObject({
     identify: query.default('*IDN?'),
     setGate: command,
     readFrequency: query,
   }),
 });
 
-export const thermometerProfileSchema = z.object({
+export const thermometerProfileSchema = strictObject({
   ...common,
   role: z.literal('thermometer'),
-  timeouts: z.object({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
+  timeouts: strictObject({ defaultS: positiveS.default(2) }).default({ defaultS: 2 }),
   /** Unit the instrument replies in; converted to °C. */
   unit: z.enum(['C', 'K', 'F']).default('C'),
   /** Plausible readings, °C (after conversion): outside them a reading is a fault (an open or shorted probe). */
-  plausibleC: z.object({
+  plausibleC: strictObject({
     min: z.number().min(-273.15).default(-200),
     max: z.number().max(5000).default(1000),
   }).default({ min: -200, max: 1000 }),
-  commands: z.object({
+  commands: strictObject({
     identify: query.default('*IDN?'),
     readTemperature: query,
   }),
 });
 
-export const chamberProfileSchema = z.object({
+export const chamberProfileSchema = strictObject({
   ...common,
   role: z.literal('chamber'),
-  timeouts: z.object({ defaultS: positiveS.default(3) }).default({ defaultS: 3 }),
-  capabilities: z.object({ rampRate: z.boolean(), runStop: z.boolean() }),
+  timeouts: strictObject({ defaultS: positiveS.default(3) }).default({ defaultS: 3 }),
+  capabilities: strictObject({ rampRate: z.boolean(), runStop: z.boolean() }),
   /** At the end of a campaign: drive to the plan's safeC ("setpoint") or switch conditioning off ("stop"). */
   endAction: z.enum(['setpoint', 'stop']).default('setpoint'),
   /** A setpoint read back within this many °C of what was written counts as taken. */
   setpointToleranceC: z.number().positive().finite().default(0.05),
-  commands: z.object({
+  commands: strictObject({
     identify: command.default('*IDN?'),
     setSetpoint: command,
     getSetpoint: command,

@@ -72,9 +72,14 @@ export interface Counter {
   /** Gate (aperture) time in seconds; the ±1-count resolution is 1/gate Hz. */
   setGate(seconds: number): Promise<void>;
   readonly gateS: number;
+  /** Gates this counter takes, s (its profile's minGateS/maxGateS); DEFAULT_GATE_RANGE_S when absent. */
+  readonly gateRangeS?: { minS: number; maxS: number };
   readFrequency(): Promise<FrequencyReading>;
   close(): Promise<void>;
 }
+
+/** Gate range assumed for a counter whose profile declares none: 1 µs to 10 s. */
+export const DEFAULT_GATE_RANGE_S = { minS: 1e-6, maxS: 10 } as const;
 
 export interface Thermometer {
   readonly role: 'thermometer';

@@ -3,7 +3,7 @@
  * switched on. A plan that would drive the DUT past them is refused whole,
  * with a message that names the value and the limit — never clipped quietly.
  */
-import type { Limits, SafeState } from '../../app/contract/plans.ts';
+import { HIGH_CURRENT_LIMIT_A, type Limits, type SafeState } from '../../app/contract/plans.ts';
 import type { Supply } from '../instruments/roles.ts';
 import { UnsupportedOperationError } from '../instruments/errors.ts';
 
@@ -26,6 +26,9 @@ export function ovpLevelV(limits: Limits): number {
 export function checkLimits(limits: Limits, safe: SafeState): void {
   if (!(limits.maxControlV > 0)) throw new LimitsError('limits.maxControlV', `must be greater than 0 V, got ${limits.maxControlV}`);
   if (!(limits.currentLimitA > 0)) throw new LimitsError('limits.currentLimitA', `must be greater than 0 A, got ${limits.currentLimitA}`);
+  if (limits.currentLimitA > HIGH_CURRENT_LIMIT_A && limits.acknowledgeHighCurrent !== true) {
+    throw new LimitsError('limits.currentLimitA', `${limits.currentLimitA} A is above ${HIGH_CURRENT_LIMIT_A * 1000} mA, far more than a tuning port draws; add "acknowledgeHighCurrent": true to limits if it is meant`);
+  }
   if (limits.ovpV !== undefined && !(limits.ovpV >= limits.maxControlV)) {
     throw new LimitsError('limits.ovpV', `${limits.ovpV} V is below limits.maxControlV (${limits.maxControlV} V); protection would trip inside the plan`);
   }

@@ -16,7 +16,7 @@ import type { Clock } from '../time/clock.ts';
 
 export type ProgressListener = (progress: ProgressInfo) => void;
 
-type Latest = { controlV: number; frequencyHz: number; status: SampleStatus } | null;
+type Latest = { controlV: number; frequencyHz: number; status: SampleStatus; supplyV?: number } | null;
 
 export class ProgressReporter {
   readonly #clock: Clock;
@@ -81,7 +81,10 @@ export class ProgressReporter {
       pointsDone: done,
       pointsTotal: this.total,
       etaS,
-      latest: latest === null ? null : { controlV: latest.controlV, frequencyHz: Number.isNaN(latest.frequencyHz) ? null : latest.frequencyHz, status: latest.status },
+      latest:
+        latest === null
+          ? null
+          : { controlV: latest.controlV, frequencyHz: Number.isNaN(latest.frequencyHz) ? null : latest.frequencyHz, status: latest.status, ...(latest.supplyV === undefined ? {} : { supplyV: latest.supplyV }) },
     });
   }
 

@@ -4,7 +4,7 @@
  * ppm/V (least-squares line through the mean frequency at each step). The
  * DUT supply is put back to where it was found on every way out.
  */
-import type { PushingPlan } from '../../app/contract/plans.ts';
+import { MAX_PLAN_POINTS, type PushingPlan } from '../../app/contract/plans.ts';
 import type { Clock } from '../time/clock.ts';
 import { ProcedureContext, ProcedureFailure } from './context.ts';
 import { UnsupportedOperationError } from '../instruments/errors.ts';
@@ -48,6 +48,10 @@ export function checkPushingLimits(plan: PushingPlan): Float64Array {
     if (volts > plan.maxSupplyV) throw new LimitsError(key, `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V); the plan is refused`);
   }
   if (!(plan.supplyStepV > 0)) throw new LimitsError('supplyStepV', `must be greater than 0 V, got ${plan.supplyStepV}`);
+  const steps = Math.abs(plan.supplyStopV - plan.supplyStartV) / plan.supplyStepV;
+  if (!(steps + 2 <= MAX_PLAN_POINTS)) {
+    throw new LimitsError('supplyStepV', `${plan.supplyStepV} V over ${plan.supplyStartV}..${plan.supplyStopV} V gives more than ${MAX_PLAN_POINTS} steps; use a larger step`);
+  }
   return supplyLevels(plan.supplyStartV, plan.supplyStopV, plan.supplyStepV);
 }
 
@@ -113,7 +117,7 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       await sink.flush();
       if (ok > 0) meanHz[i] = sum / ok;
       outcome.steps = i + 1;
-      progress.report('reading', i + 1, { controlV: plan.controlV, frequencyHz: last.frequencyHz, status: last.status });
+      progress.report('reading', i + 1, { controlV: plan.controlV, supplyV, frequencyHz: last.frequencyHz, status: last.status });
     }
     const fit = linearSlope(levels, meanHz);
     if (fit !== null) {

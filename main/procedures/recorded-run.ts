@@ -5,17 +5,19 @@
  * resumed into its own folder. This is what the CLI and the BenchApi
  * service call.
  */
+import { rm } from 'node:fs/promises';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { driftPlanSchema, type DriftPlan, type PushingPlan, type SweepPlan } from '../../app/contract/plans.ts';
+import { driftPlanSchema, driftTimingProblems, type DriftPlan, type PushingPlan, type SweepPlan } from '../../app/contract/plans.ts';
 import { createRun, reopenRun, type RunWriter } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
-import { checkControlV, checkLimits } from './limits.ts';
+import { checkControlV, checkLimits, LimitsError } from './limits.ts';
 import type { ProgressListener } from './progress.ts';
 import { PUSHING_COLUMNS, checkPushingLimits, runPushing, type PushingOutcome } from './pushing.ts';
 import type { RunControl } from './run-control.ts';
 import { SWEEP_COLUMNS, runSweep, type SweepOutcome } from './sweep.ts';
 import { sweepSchedule } from './sweep-points.ts';
+import { DEFAULT_GATE_RANGE_S } from '../instruments/roles.ts';
 import type { BenchRoles, EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
 
 /** What a bench tells run.json about itself. */
@@ -31,7 +33,7 @@ export interface RecordOptions {
   dutNotes?: string;
   control?: RunControl;
   onProgress?: ProgressListener;
-  /** Called once the run folder exists (before any instrument is touched). */
+  /** Called once the run folder will stay: at the first output-on or reading, else at the end (never for a refused plan). */
   onRunStarted?: (meta: RunMeta, dir: string) => void;
   /** Each row as it is recorded (for live views). */
   onSample?: (row: SampleRow) => void;
@@ -61,23 +63,63 @@ function teeSink(writer: RunWriter, options: RecordOptions): RunSink {
   };
 }
 
+/**
+ * A procedure that refuses its plan on what it finds at the bench (a limits
+ * failure before any output turned on and before any reading) leaves no run
+ * folder: the folder is removed and the refusal thrown as a LimitsError.
+ */
+async function refusedBeforeOutput(writer: RunWriter, outcome: ProcedureOutcome, outputTouched: boolean): Promise<void> {
+  if (outcome.failure?.kind !== 'limits' || outputTouched || outcome.rowsWritten > 0) return;
+  await writer.finish('aborted');
+  await rm(writer.dir, { recursive: true, force: true });
+  const field = /^([\w.[\]]+): /.exec(outcome.failure.message)?.[1] ?? 'plan';
+  throw new LimitsError(field, outcome.failure.message.slice(field.length + 2) || outcome.failure.message);
+}
+
 async function record<O extends ProcedureOutcome>(
   writer: RunWriter,
   options: RecordOptions,
   run: (sink: RunSink) => Promise<O>,
+  fresh = true,
 ): Promise<RecordedRun<O>> {
-  options.onRunStarted?.(writer.meta(), writer.dir);
+  let outputTouched = !fresh;
+  let announced = false;
+  // The folder is announced once it will stay: when an output turns on or a reading arrives,
+  // else at the end unless the plan was refused (then it is removed).
+  const announce = (): void => {
+    if (announced) return;
+    announced = true;
+    options.onRunStarted?.(writer.meta(), writer.dir);
+  };
+  const tee = teeSink(writer, options);
+  const sink: RunSink = {
+    ...tee,
+    appendSample(row) {
+      announce();
+      tee.appendSample(row);
+    },
+    appendEvent(event) {
+      if (event.type === 'output-on') {
+        outputTouched = true;
+        announce();
+      }
+      tee.appendEvent(event);
+    },
+  };
   for (const event of options.startEvents ?? []) writer.appendEvent({ ...event });
   let outcome: O;
   try {
-    outcome = await run(teeSink(writer, options));
+    outcome = await run(sink);
   } catch (error) {
+    announce();
     // Procedures resolve on every way out after touching instruments; a throw here
     // is a bug before the first write. Close the run as aborted, then report it.
     writer.appendEvent({ type: 'abort', reason: 'internal-error', error: error instanceof Error ? error.message : String(error) });
     await writer.finish('aborted');
     throw error;
   }
+  await refusedBeforeOutput(writer, outcome, outputTouched);
+  announce();
   const meta = await writer.finish(outcome.status, outcome.conditions ? { conditions: outcome.conditions } : undefined);
   return { meta, dir: writer.dir, outcome };
 }
@@ -91,6 +133,20 @@ export function validateSweepPlan(plan: SweepPlan): void {
 export function validateDriftPlan(plan: DriftPlan): void {
   checkLimits(plan.limits, plan.safe);
   checkControlV('controlV', plan.controlV, plan.limits);
+  const [problem] = driftTimingProblems(plan);
+  if (problem !== undefined) throw new LimitsError(problem.field, problem.message);
+}
+
+/**
+ * Checks a plan against the instruments it will run on, before a run
+ * folder exists: the gate must lie in the counter's range (its profile's
+ * minGateS/maxGateS; 1 µs–10 s when the counter declares none).
+ */
+export function checkPlanAgainstBench(plan: { gateS: number }, bench: BenchRoles): void {
+  const range = bench.counter.gateRangeS ?? DEFAULT_GATE_RANGE_S;
+  if (plan.gateS < range.minS || plan.gateS > range.maxS) {
+    throw new LimitsError('gateS', `${plan.gateS} s is outside the counter's gate range ${range.minS}–${range.maxS} s (a profile may declare minGateS/maxGateS)`);
+  }
 }
 
 export function validatePushingPlan(plan: PushingPlan): void {
@@ -117,18 +173,21 @@ function procedureContext(options: RecordOptions, writer: RunWriter) {
 
 export async function recordSweep(options: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
   validateSweepPlan(options.plan);
+  checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'sweep', options.plan, SWEEP_COLUMNS);
   return record(writer, options, (sink) => runSweep({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
 
 export async function recordDrift(options: RecordOptions & { plan: DriftPlan }): Promise<RecordedRun<DriftOutcome>> {
   validateDriftPlan(options.plan);
+  checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'drift', options.plan, DRIFT_COLUMNS);
   return record(writer, options, (sink) => runDrift({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
 
 export async function recordPushing(options: RecordOptions & { plan: PushingPlan }): Promise<RecordedRun<PushingOutcome>> {
   validatePushingPlan(options.plan);
+  checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'pushing', options.plan, PUSHING_COLUMNS);
   return record(writer, options, (sink) => runPushing({ ...procedureContext(options, writer), plan: options.plan, sink }));
 }
@@ -148,5 +207,5 @@ export async function resumeDrift(options: Omit<RecordOptions, 'dutId' | 'dutNot
   }
   const plan = parsed.data;
   const resumed = { ...options, dutId: meta.dut.id };
-  return record(writer, resumed, (sink) => runDrift({ ...procedureContext(resumed, writer), plan, sink, timeOffsetS: writer.elapsedS() }));
+  return record(writer, resumed, (sink) => runDrift({ ...procedureContext(resumed, writer), plan, sink, timeOffsetS: writer.elapsedS() }), false);
 }

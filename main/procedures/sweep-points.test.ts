@@ -69,11 +69,11 @@ describe('pushing arithmetic and progress text', () => {
     let text = '';
     const plain = createProgressDisplay({ write: (t: string) => (text += t), isTTY: false }, () => 0);
     plain.update({ runId: 'r', kind: 'sweep', phase: 'reading', pointsDone: 5, pointsTotal: 10, etaS: 75, latest: { controlV: 1.5, frequencyHz: 12_345, status: 'ok' } });
-    expect(text).toBe('reading 5/10  ETA 1 min 15 s  1.5000 V → 12.3450 kHz\n');
+    expect(text).toBe('reading 5/10 points  ETA 1 min 15 s  1.5000 V → 12.3450 kHz\n');
     text = '';
     const tty = createProgressDisplay({ write: (t: string) => (text += t), isTTY: true });
     tty.update({ runId: 'r', kind: 'sweep', phase: 'reading', pointsDone: 5, pointsTotal: 10, etaS: null, latest: null });
-    expect(text).toMatch(/^\r\x1b\[2K\[#{12}\.{12}\] reading 5\/10 {2}ETA —$/);
+    expect(text).toMatch(/^\r\x1b\[2K\[#{12}\.{12}\] reading 5\/10 points {2}ETA —$/);
     expect(formatClockDuration(3 * 3600 + 125)).toBe('3 h 02 min');
   });
 });

@@ -3,7 +3,7 @@
  * ranges are computed by index (start + i·step), never by repeated addition,
  * so 400 steps of 10 mV land on the stop voltage and not 3 µV beside it.
  */
-import type { SweepPlan } from '../../app/contract/plans.ts';
+import { MAX_PLAN_POINTS, type SweepPlan } from '../../app/contract/plans.ts';
 import { LimitsError, checkControlV } from './limits.ts';
 
 export type Direction = 'up' | 'down';
@@ -18,7 +18,7 @@ export interface SweepSchedule {
 }
 
 /** A plan with more points than this is a typo, not a sweep. */
-export const MAX_SWEEP_POINTS = 100_000;
+export const MAX_SWEEP_POINTS = MAX_PLAN_POINTS;
 
 /** Ascending distinct levels of a plan (before direction). */
 export function sweepLevels(plan: SweepPlan): Float64Array {

@@ -1,4 +1,4 @@
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
@@ -81,6 +81,14 @@ describe('BenchApi service', () => {
     await service.disconnect();
     expect(closed).toBe(1);
     expect(events.at(-1)).toMatchObject({ type: 'connection', state: { connected: false } });
+  });
+
+  it('a plan refused by its limits or the counter\'s gate range leaves no run folder', async () => {
+    await service.connect('sim');
+    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, stop: 6 }))).rejects.toThrow(/stop: 6 V exceeds limits\.maxControlV/);
+    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, gateS: '20s' }))).rejects.toThrow(/gateS: 20 s is outside the counter's gate range/);
+    expect(await readdir(runsDir)).toEqual([]);
+    expect(events.some((e) => e.type === 'run-started')).toBe(false);
   });
 
   it('runs one sweep at a time, batches samples, records the run, and pushes its end', async () => {

@@ -9,6 +9,7 @@ import { listProfiles, loadProfile } from '../instruments/profile-loader.ts';
 import { listSerialPorts } from '../instruments/serial-transport.ts';
 import { DRIFT_COLUMNS, runDrift } from '../procedures/drift.ts';
 import { PUSHING_COLUMNS, runPushing } from '../procedures/pushing.ts';
+import { checkPlanAgainstBench, validateDriftPlan, validatePushingPlan, validateSweepPlan } from '../procedures/recorded-run.ts';
 import { runSweep, SWEEP_COLUMNS } from '../procedures/sweep.ts';
 import { addNote, deleteRun, listRuns, openRun, renameDut, restoreRun } from '../store/run-store.ts';
 import type { Clock } from '../time/clock.ts';
@@ -36,16 +37,28 @@ export function storePort(runsDir: string): RunStorePort {
 
 export const sweepPort: ProcedurePort = {
   columns: SWEEP_COLUMNS,
+  validate: (plan, roles) => {
+    validateSweepPlan(plan as SweepPlan);
+    checkPlanAgainstBench(plan as SweepPlan, roles);
+  },
   run: (o) => runSweep({ ...o, plan: o.plan as SweepPlan }),
 };
 
 export const driftPort: ProcedurePort = {
   columns: DRIFT_COLUMNS,
+  validate: (plan, roles) => {
+    validateDriftPlan(plan as DriftPlan);
+    checkPlanAgainstBench(plan as DriftPlan, roles);
+  },
   run: (o) => runDrift({ ...o, plan: o.plan as DriftPlan }),
 };
 
 export const pushingPort: ProcedurePort = {
   columns: PUSHING_COLUMNS,
+  validate: (plan, roles) => {
+    validatePushingPlan(plan as PushingPlan);
+    checkPlanAgainstBench(plan as PushingPlan, roles);
+  },
   run: (o) => runPushing({ ...o, plan: o.plan as PushingPlan }),
 };
 

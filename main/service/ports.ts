@@ -37,6 +37,8 @@ export interface ProcedureRun {
 
 export interface ProcedurePort {
   columns: readonly string[];
+  /** Throws LimitsError (naming the field) for a plan to refuse before its run folder exists. */
+  validate?(plan: unknown, roles: ProcedureRun['bench']): void;
   run(options: ProcedureRun): Promise<ProcedureOutcome>;
 }
 

@@ -56,6 +56,8 @@ function teeSink(writer: RunWriter, batcher: SampleBatcher<SampleRow>, onEvent: 
 
 export async function startRunSession(options: RunSessionOptions): Promise<RunSession> {
   const { bench, emit } = options;
+  // A plan refused on its own or against these instruments leaves no run folder.
+  options.procedure.validate?.(options.plan, bench.roles);
   const writer = await createRun({
     runsDir: options.runsDir,
     kind: options.kind,

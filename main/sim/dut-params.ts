@@ -5,6 +5,8 @@
  */
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
+import { parseBoundedJson } from '../../app/contract/bounded-json.ts';
+import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
 
 /**
  * Every value is bounded to a physical range (wide enough for any bench
@@ -19,10 +21,11 @@ const nonNegative = (what: string, max: number) =>
   z.number({ error: `${what} must be a number` }).nonnegative(`${what} must be ≥ 0`).max(max, `${what} must be ≤ ${max}`);
 
 const commonFields = {
+  $schema: schemaRef,
   id: z.string().min(1),
   /** Scenario in words, shown to the user. */
   description: z.string().default(''),
-  supply: z.object({
+  supply: strictObject({
     /** The DUT's nominal supply; the bench's supply channel 2 starts here. */
     nominalV: positive('supply.nominalV', 100),
     /** Below this the oscillator does not start. */
@@ -30,7 +33,7 @@ const commonFields = {
     /** Current drawn at nominal supply (the load is modelled as a resistor). */
     currentA: positive('supply.currentA', 10),
   }),
-  tuning: z.object({
+  tuning: strictObject({
     /** First-order time constant of the tuning node (RC filter in the tuning line). */
     settleTauS: positive('tuning.settleTauS', 1000),
     /** Input resistance of the tuning port, seen by supply channel 1. */
@@ -47,14 +50,14 @@ const commonFields = {
   tuningTempcoPpmPerC: finite('tuningTempcoPpmPerC', 1e5).default(0),
   /** Thermal time constant of the DUT (board and package) to the air around it, s. Default 300. */
   thermalTauS: positive('thermalTauS', 1e6).default(300),
-  warmup: z.object({
+  warmup: strictObject({
     /** Fractional offset at power-on, decaying exponentially to zero. */
     offsetPpm: finite('warmup.offsetPpm', 1e5),
     tauS: positive('warmup.tauS', 1e6),
   }),
   /** Frequency change per volt of DUT supply away from nominal. */
   pushingHzPerV: finite('pushingHzPerV', 1e9),
-  noise: z.object({
+  noise: strictObject({
     /** White frequency noise: fractional σ of a 1 s average (scales as 1/√gate). */
     whiteFmAt1s: nonNegative('noise.whiteFmAt1s', 1e-3),
     /** Random-walk frequency wander, ppm per √hour. */
@@ -62,23 +65,23 @@ const commonFields = {
   }),
 };
 
-export const relaxationDutSchema = z.object({
+export const relaxationDutSchema = strictObject({
   kind: z.literal('relaxation'),
   ...commonFields,
-  timing: z.object({
+  timing: strictObject({
     chargeResistanceOhm: positive('timing.chargeResistanceOhm', 1e12),
     capacitanceF: positive('timing.capacitanceF', 1),
     dischargeResistanceOhm: positive('timing.dischargeResistanceOhm', 1e12),
     /** The discharge path pulls the capacitor toward this rail. */
     dischargeTargetV: finite('timing.dischargeTargetV', 100),
   }),
-  thresholds: z.object({
+  thresholds: strictObject({
     lowerV: finite('thresholds.lowerV', 100),
     upperV: finite('thresholds.upperV', 100),
     /** RMS noise on the comparator thresholds; becomes timing jitter through dv/dt. */
     noiseV: nonNegative('thresholds.noiseV', 1),
   }),
-  chargeDrive: z.object({
+  chargeDrive: strictObject({
     /** Vc = gain·Vtune + offsetV, limited to supply − headroomV (source compliance). */
     gain: positive('chargeDrive.gain', 100),
     offsetV: finite('chargeDrive.offsetV', 100),
@@ -86,14 +89,14 @@ export const relaxationDutSchema = z.object({
   }),
 });
 
-export const varactorDutSchema = z.object({
+export const varactorDutSchema = strictObject({
   kind: z.literal('varactor-lc'),
   ...commonFields,
-  tank: z.object({
+  tank: strictObject({
     inductanceH: positive('tank.inductanceH', 1),
     parasiticCapacitanceF: nonNegative('tank.parasiticCapacitanceF', 1e-3),
   }),
-  varactor: z.object({
+  varactor: strictObject({
     /** Zero-bias junction capacitance. */
     cj0F: positive('varactor.cj0F', 1e-3),
     /** Built-in potential φ. */
@@ -148,9 +151,9 @@ export async function loadDutParamsFile(path: string): Promise<DutParams> {
   }
   let json: unknown;
   try {
-    json = JSON.parse(text);
+    json = parseBoundedJson(text);
   } catch (error) {
-    throw new DutParamsError(`${path}: not valid JSON (${(error as Error).message})`);
+    throw new DutParamsError(`${path}: ${(error as Error).message}`);
   }
   return parseDutParams(json, path);
 }

@@ -30,7 +30,7 @@ function DriftPlan() {
         {text('intervalS', 'Every', '', 'drift-interval', 'e.g. 1s, 500ms')}
       </div>
       <div className="row">
-        {text('durationS', 'For', '', 'drift-duration', 'e.g. 90s, 15m, 8h')}
+        {text('durationS', 'For', '', 'drift-duration', 'e.g. 90s, 15min, 8h')}
         {text('gateS', 'Counter gate', 's', 'drift-gate')}
       </div>
       <p className="muted" data-testid="drift-summary">
