@@ -55,7 +55,7 @@ export interface PlotPanelProps {
 /** One cursor's value with a unit: SI prefixes, seconds as they are. */
 const withUnit = (value: number, unit: string, digits = 5): string => formatSi(value, unit, digits);
 
-function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[]; units: { x: string; y: string }; onClear(): void; testId: string }) {
+function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[]; units: { x: string; y: string }; onClear: () => void; testId: string }) {
   const [a, b] = marks;
   const d = a && b ? cursorDeltas(a, b) : null;
   return (
@@ -169,7 +169,7 @@ export function PlotPanel(props: PlotPanelProps) {
       if (!latest.current.cursorUnits) return;
       const moved = downAt ? Math.hypot(e.clientX - downAt[0], e.clientY - downAt[1]) : 0;
       if (moved > 3) return;
-      const mark = markAt(chart.data as unknown as ArrayLike<number | null>[], chart.cursor.idx);
+      const mark = markAt(chart.data, chart.cursor.idx);
       if (!mark) return;
       const current = marksRef.current;
       setMarks(current.length >= 2 ? [mark] : [...current, mark]);

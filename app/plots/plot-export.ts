@@ -4,6 +4,11 @@
  * for a report), and CSV of the data the chart holds. Text is escaped for XML
  * and quoted for CSV.
  */
+
+/** A series label as text (uPlot also allows an element there; exports show only text). */
+function labelText(label: unknown): string {
+  return typeof label === 'string' || typeof label === 'number' ? String(label) : '';
+}
 import type uPlot from 'uplot';
 
 /** uPlot keeps each axis' last tick positions and labels on the axis object. */
@@ -38,7 +43,7 @@ export function columnsCsv(labels: readonly string[], columns: readonly ArrayLik
 export function chartCsv(u: uPlot): string {
   const shown = u.series.map((s, i) => ({ s, i })).filter(({ s, i }) => i === 0 || s.show !== false);
   return columnsCsv(
-    shown.map(({ s }) => String(s.label ?? '')),
+    shown.map(({ s }) => labelText(s.label)),
     shown.map(({ i }) => u.data[i] as ArrayLike<number | null>),
   );
 }
@@ -154,8 +159,8 @@ export function chartSvg(u: uPlot, title: string, colors: { text: string; grid: 
     if (index === 0 || s.show === false || !s.label) return;
     const stroke = typeof s.stroke === 'function' ? s.stroke(u, index) : s.stroke;
     parts.push(`<rect x="${fmt(lx)}" y="${fmt(top + height + 40)}" width="10" height="10" fill="${xmlText(typeof stroke === 'string' ? stroke : colors.text)}"/>`);
-    parts.push(`<text x="${fmt(lx + 14)}" y="${fmt(top + height + 49)}" fill="${xmlText(colors.text)}">${xmlText(String(s.label))}</text>`);
-    lx += 24 + String(s.label).length * 6.5;
+    parts.push(`<text x="${fmt(lx + 14)}" y="${fmt(top + height + 49)}" fill="${xmlText(colors.text)}">${xmlText(labelText(s.label))}</text>`);
+    lx += 24 + labelText(s.label).length * 6.5;
   });
   parts.push('</g></svg>');
   return parts.join('\n');

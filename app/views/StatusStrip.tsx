@@ -63,7 +63,7 @@ export function StatusStrip() {
   const status = useStore(stores.connection, (s) => s.status);
   const connected = useStore(stores.connection, (s) => s.connection.connected);
   const active = useStore(stores.liveRun, (s) => s.active);
-  const kind = useStore(stores.liveRun, (s) => s.meta?.kind ?? null) as RunKind | null;
+  const kind = useStore(stores.liveRun, (s): RunKind | null => s.meta?.kind ?? null);
   const dut = useStore(stores.liveRun, (s) => s.meta?.dut.id ?? '');
   // Elapsed on the run's own clock: its latest reading's time since start.
   const elapsedS = useStore(stores.liveRun, (s) => (s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? null) : null));

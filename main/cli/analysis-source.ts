@@ -78,7 +78,7 @@ export async function loadAnalysisSource(given: string, runsDir?: string): Promi
       const run = await readRunFolder(path);
       meta = run.meta;
       for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
-      events = run.events as RunEventLike[];
+      events = run.events;
       const samples = readSampleTable(run.samplesCsv);
       droppedLines = samples.dropped.length;
       if (samples.rowCount === 0) throw new UsageError(`${join(path, 'samples.csv')}: no readings recorded`);

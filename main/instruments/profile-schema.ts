@@ -42,9 +42,9 @@ export const supplyProfileSchema = strictObject({
    * but a fault.
    */
   ratings: strictObject({
-    maxVoltageV: z.number().positive().max(1e4).default(100),
-    maxCurrentA: z.number().positive().max(1e3).default(20),
-  }).default({ maxVoltageV: 100, maxCurrentA: 20 }),
+    maxVoltageV: z.number().positive().max(1e4).default(100).meta({ description: 'Rated voltage, V: a voltage read back beyond ± this is a fault, not a value. Default 100.' }),
+    maxCurrentA: z.number().positive().max(1e3).default(20).meta({ description: 'Rated current, A: a current read back beyond ± this is a fault, not a value. Default 20.' }),
+  }).default({ maxVoltageV: 100, maxCurrentA: 20 }).meta({ description: 'The supply\'s ratings; readbacks beyond them are faults.' }),
   commands: strictObject({
     identify: query.default('*IDN?'),
     setVoltage: command,
@@ -80,13 +80,13 @@ export const counterProfileSchema = strictObject({
   /** Gate assumed until setGate is called, s. */
   defaultGateS: positiveS.default(0.1),
   /** Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. */
-  maxInputHz: z.number().positive().max(1e12).default(3e9),
+  maxInputHz: z.number().positive().max(1e12).default(3e9).meta({ description: 'Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. Default 3 GHz.' }),
   /**
    * Shape of a reading reply: `nr3` needs an exponent (+1.0E+04), `decimal`
    * a point or an exponent (NR2 or NR3), `any` also takes integers (NR1).
    * A reply of another shape (a stray "1") is a fault, never a frequency.
    */
-  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal'),
+  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal').meta({ description: 'Shape of a reading reply: nr3 needs an exponent, decimal a point or an exponent, any also takes integers. Another shape is a fault. Default decimal.' }),
   /** Shortest and longest gate the counter takes, s; plans outside are refused before a run starts. */
   minGateS: positiveS.default(1e-6),
   maxGateS: positiveS.max(1000).default(10),
@@ -113,9 +113,9 @@ export const thermometerProfileSchema = strictObject({
   unit: z.enum(['C', 'K', 'F']).default('C'),
   /** Plausible readings, °C (after conversion): outside them a reading is a fault (an open or shorted probe). */
   plausibleC: strictObject({
-    min: z.number().min(-273.15).default(-200),
-    max: z.number().max(5000).default(1000),
-  }).default({ min: -200, max: 1000 }),
+    min: z.number().min(-273.15).default(-200).meta({ description: 'Lowest plausible reading, °C. Default −200.' }),
+    max: z.number().max(5000).default(1000).meta({ description: 'Highest plausible reading, °C. Default 1000.' }),
+  }).default({ min: -200, max: 1000 }).meta({ description: 'Plausible readings after conversion to °C: outside them a reading is a fault (an open or shorted probe).' }),
   commands: strictObject({
     identify: query.default('*IDN?'),
     readTemperature: query,

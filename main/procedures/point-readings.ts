@@ -32,7 +32,7 @@ export function standardErrorHz(values: Float64Array, n: number, resolutionHz: n
 
 function okCount(values: Float64Array, n: number): number {
   let ok = 0;
-  for (let i = 0; i < n; i++) if (!Number.isNaN(values[i] as number)) ok++;
+  for (let i = 0; i < n; i++) if (!Number.isNaN(values[i])) ok++;
   return ok;
 }
 

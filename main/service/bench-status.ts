@@ -127,7 +127,7 @@ export class BenchStatusTracker {
         break;
       case 'safe-state': {
         run.steps += 1;
-        const step = String(event.step ?? 'step');
+        const step = typeof event.step === 'string' ? event.step : 'step';
         if (event.ok !== true) run.failures.push(`${step}: ${typeof event.error === 'string' ? event.error : 'failed'}`);
         const patch: Partial<BenchStatus> = { paused: null };
         const volts = /^control-voltage (\S+) V$/.exec(step);

@@ -179,7 +179,7 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
       readingsDuringWindow,
     };
     console.log(`first draw of a ${SAMPLES.toLocaleString('en')}-sample drift run: ${firstDrawMs.toFixed(0)} ms (target ≤ 1000 ms) ${firstDrawMs <= 1000 ? 'meets' : 'MISSES'} [load ${loadavg()[0]?.toFixed(2)}]`);
-    const pageHeap = (await page.evaluate('performance.memory ? performance.memory.usedJSHeapSize : null')) as number | null;
+    const pageHeap = await page.evaluate<number | null>('performance.memory ? performance.memory.usedJSHeapSize : null');
     console.log(
       `  store: first open (CSV parse + column cache written) ${firstOpenMs.toFixed(0)} ms, later opens from the cache ${storeReadMs.toFixed(0)} ms; ` +
         `peak RSS of main ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB, page JS heap ${pageHeap === null ? 'n/a' : `${(pageHeap / 2 ** 20).toFixed(0)} MiB`}`,

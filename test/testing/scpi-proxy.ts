@@ -109,7 +109,7 @@ export async function startScpiProxy(target: { host: string; port: number }, rul
     get connections() {
       return connections;
     },
-  } as { rules: ProxyRules; log: ProxyLogEntry[]; readonly connections: number };
+  };
 
   const server = net.createServer((client) => {
     connections += 1;
@@ -171,7 +171,7 @@ export async function startScpiProxy(target: { host: string; port: number }, rul
       sockets.clear();
       return new Promise<void>((resolve) => server.close(() => resolve()));
     },
-  }) as ScpiProxy;
+  });
 }
 
 /** Calls `onLine` for every "\n"-terminated line (CR stripped) arriving on `socket`. */

@@ -57,7 +57,7 @@ export function appendSoakRow(dir: string, row: readonly (number | null)[]): Pro
  * is still running. Refuses when a live writer holds it. Returns the
  * heartbeat (call on each save) and the release.
  */
-export async function claimCampaignFolder(dir: string, startedAtIso: string): Promise<{ beat(): Promise<void>; release(): Promise<void> }> {
+export async function claimCampaignFolder(dir: string, startedAtIso: string): Promise<{ beat: () => Promise<void>; release: () => Promise<void> }> {
   const abs = resolve(dir);
   const held = await readLock(nodeStoreFs, abs);
   if (writerAlive(held, abs)) {

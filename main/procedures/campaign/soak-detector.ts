@@ -72,7 +72,7 @@ export class SoakDetector {
     const slopeCPerMin = slope === null ? null : slope * 60;
     let driftPpmPerMin: number | null = null;
     if (c.maxDriftPpmPerMin !== undefined) {
-      const withF = w.filter((r) => r.frequencyHz !== undefined && Number.isFinite(r.frequencyHz) && (r.frequencyHz as number) > 0);
+      const withF = w.filter((r) => r.frequencyHz !== undefined && Number.isFinite(r.frequencyHz) && (r.frequencyHz) > 0);
       const fSlope = slopePerS(withF.map((r) => r.timeS), withF.map((r) => r.frequencyHz as number));
       const mean = withF.reduce((s, r) => s + (r.frequencyHz as number), 0) / Math.max(1, withF.length);
       driftPpmPerMin = fSlope === null || !(mean > 0) ? null : (fSlope / mean) * 1e6 * 60;
