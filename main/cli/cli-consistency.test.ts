@@ -100,7 +100,7 @@ describe('one command line', () => {
       signal: controller.signal,
     });
     expect(code).toBe(0);
-    expect(err).toMatch(/no --duration given, so the log runs 8h00m \(the default\); shorten it with e\.g\. --duration 15min/);
+    expect(err).toMatch(/no --duration given, so the log runs 8 h 00 min \(the default\); shorten it with e\.g\. --duration 15min/);
   });
 
   it('tunebench schema prints a JSON Schema; an unknown name is refused with the list', async () => {

@@ -271,6 +271,8 @@ export class CampaignStop extends Error {
 async function setDutSupply(bench: CampaignBench, plan: CampaignPlan, volts: number, clock: Clock, signal: AbortSignal): Promise<void> {
   if (!(volts > 0) || volts > plan.maxSupplyV) throw new LimitsError('supplyV', `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V)`);
   const ch = bench.dutSupplyChannel;
+  // Defence in depth: the driver itself refuses any DUT-supply write above maxSupplyV from here on.
+  bench.supply.limitChannel(ch, 'dut-supply', plan.maxSupplyV);
   await bench.supply.setVoltage(ch, volts);
   const readBack = await bench.supply.getVoltageSetpoint(ch);
   if (Math.abs(readBack - volts) > Math.max(0.002, volts * 1e-3)) {
