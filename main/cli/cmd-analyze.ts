@@ -12,7 +12,7 @@ import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
-import { runsDirFrom } from '../cli/recording-command.ts';
+import { runsDirFrom } from './run-setup.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
 const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]

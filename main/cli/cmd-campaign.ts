@@ -7,7 +7,7 @@ import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts
 import { campaignPlanSchema, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
 import { describeIssues } from '../../app/contract/plans.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../bench/assemble.ts';
-import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from '../cli/recording-command.ts';
+import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from './run-setup.ts';
 import { loadBenchFile } from '../cli/config-files.ts';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { campaignSafeState } from '../procedures/campaign/campaign-safe.ts';

@@ -3,7 +3,7 @@
  */
 import { bringUpBench, formatRoleCheck } from '../bench/bring-up.ts';
 import { BenchCheckError } from '../bench/bench-checks.ts';
-import { asUsageError } from '../cli/recording-command.ts';
+import { asUsageError } from './run-setup.ts';
 import { loadBenchFile } from '../cli/config-files.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { parseFlags } from './flags.ts';

@@ -13,7 +13,7 @@ import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags } from './flags.ts';
-import { runsDirFrom } from '../cli/recording-command.ts';
+import { runsDirFrom } from './run-setup.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 
 const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--window A:B] [--runs DIR]

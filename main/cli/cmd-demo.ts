@@ -7,7 +7,7 @@ import { mkdtemp } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { assembleBench } from '../bench/assemble.ts';
-import { CAUTIONS, exitCodeFor, parseDutName } from './recording-command.ts';
+import { CAUTIONS, exitCodeFor, parseDutName } from './run-setup.ts';
 import { defaultSweepPlan } from './default-plans.ts';
 import { summarizeRun } from './run-summary.ts';
 import { recordSweep } from '../procedures/recorded-run.ts';

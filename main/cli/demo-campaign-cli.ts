@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG } from '../bench/assemble.ts';
-import { CAUTIONS } from '../cli/recording-command.ts';
+import { CAUTIONS } from './run-setup.ts';
 import { campaignDut, campaignPlanInput } from '../procedures/campaign/demo-campaign.ts';
 import { startCampaign } from '../procedures/campaign/run-campaign.ts';
 import { RunControl } from '../procedures/run-control.ts';

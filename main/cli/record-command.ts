@@ -6,7 +6,7 @@
  * (a refused plan, file or address → 2; the work failed → 1).
  */
 import type { SafeState } from '../../app/contract/plans.ts';
-import { asUsageError, exitCodeFor, openCliRun, runsDirFrom, validatedCliPlan } from './recording-command.ts';
+import { asUsageError, exitCodeFor, openCliRun, runsDirFrom, validatedCliPlan } from './run-setup.ts';
 import type { RecordedRun, RecordOptions } from '../procedures/recorded-run.ts';
 import type { ProcedureOutcome } from '../procedures/types.ts';
 import type { BuiltinDutName } from '../sim/builtin-duts.ts';
