@@ -19,6 +19,7 @@ import type { SafeState } from '../../app/contract/plans.ts';
 import { AlignmentError, DisconnectedError, TimeoutError } from '../instruments/errors.ts';
 import type { RoleName, SupplyWriteOptions } from '../instruments/roles.ts';
 import { ProcedureFailure } from './context.ts';
+import { setpointMatches } from '../instruments/setpoint-match.ts';
 import type { BenchRoles, EventBody } from './types.ts';
 
 export interface SafeStateResult {
@@ -49,10 +50,6 @@ interface Check {
   linkTrouble: boolean;
 }
 
-/** Setpoint readback tolerance: 10 mV + 0.1 % (a supply's programming resolution and rounding; common practice). */
-export function setpointMatches(read: number, target: number): boolean {
-  return Math.abs(read - target) <= 0.01 + 0.001 * Math.abs(target);
-}
 
 export function voltageStep(bench: BenchRoles, channel: number, volts: number, name: string): VerifiedStep {
   return {

@@ -7,6 +7,7 @@
 import type { ManualControlRequest } from '../../app/contract/bench-api.ts';
 import { applyLimits, checkControlV, checkLimits } from '../procedures/limits.ts';
 import type { BenchRoles } from '../procedures/types.ts';
+import { setpointMatches } from '../instruments/setpoint-match.ts';
 import { BenchApiError } from './errors.ts';
 
 export interface ManualResult {
@@ -31,9 +32,7 @@ export async function applyManualControl(roles: BenchRoles, request: ManualContr
   }
   const controlSetV = await supply.getVoltageSetpoint(channel);
   const output = await supply.getOutput(channel);
-  // Setpoints come back in the instrument's own resolution: 1 mV or 0.1 % is agreement (common practice for supplies).
-  const tolerance = Math.max(1e-3, Math.abs(request.controlV) * 1e-3);
-  if (Math.abs(controlSetV - request.controlV) > tolerance || output !== request.output) {
+  if (!setpointMatches(controlSetV, request.controlV) || output !== request.output) {
     throw new BenchApiError(
       `supply (channel ${channel}) did not take the setting: asked ${request.controlV} V, output ${request.output ? 'on' : 'off'}; read back ${controlSetV} V, output ${output ? 'on' : 'off'}`,
       'request.controlV',

@@ -242,6 +242,7 @@ export function RunsScreen() {
               { value: 'aborted', label: 'Aborted' },
               { value: 'interrupted', label: 'Interrupted' },
               { value: 'running', label: 'Running' },
+              { value: 'failed', label: 'Failed' },
             ]}
             onChange={(status) => setFilter({ ...filter, status })}
             testId="runs-filter-status"

@@ -19,6 +19,7 @@ import { campaignSafeState } from './campaign-safe.ts';
 import { appendCampaignEvent, appendSoakRow, claimCampaignFolder, createCampaignFolder, ensureSoakLog } from './campaign-folder.ts';
 import { CAMPAIGN_SCHEMA, readCampaignFile, writeCampaignFile, type CampaignEntry, type CampaignFile } from './campaign-file.ts';
 import { orderConditions } from './condition-order.ts';
+import { setpointMatches } from '../../instruments/setpoint-match.ts';
 import { soakAt, type SoakSample } from './soak.ts';
 
 export type CampaignBench = RecordableBench & { chamber?: Chamber | undefined };
@@ -275,7 +276,7 @@ async function setDutSupply(bench: CampaignBench, plan: CampaignPlan, volts: num
   bench.supply.limitChannel(ch, 'dut-supply', plan.maxSupplyV);
   await bench.supply.setVoltage(ch, volts);
   const readBack = await bench.supply.getVoltageSetpoint(ch);
-  if (Math.abs(readBack - volts) > Math.max(0.002, volts * 1e-3)) {
+  if (!setpointMatches(readBack, volts)) {
     throw new CampaignStop(`DUT supply (channel ${ch}) reads back ${readBack} V after ${volts} V was set`, 'supply-readback');
   }
   if (!(await bench.supply.getOutput(ch))) await bench.supply.setOutput(ch, true);
