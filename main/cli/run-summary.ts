@@ -7,6 +7,7 @@
 import { analyzeTable } from '../../app/analysis/analyze-table.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
 import { buildDatasheet } from '../../app/analysis/datasheet.ts';
+import { runOrigin } from '../../app/analysis/datasheet-run.ts';
 import { renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import type { ProcedureOutcome } from '../procedures/types.ts';
@@ -33,7 +34,10 @@ export async function summarizeRun(dir: string, title?: string, outcome?: Pick<P
       sweep: source.window ? { window: { ...source.window, source: 'plan' } } : undefined,
     });
     const text = summarizeAnalysis(analysis);
-    const tableMarkdown = source.kind === 'drift' ? null : renderDatasheetMarkdown(buildDatasheet([{ label: source.label, analysis, conditions: source.conditions }], title));
+    const tableMarkdown = source.kind === 'drift' ? null : renderDatasheetMarkdown(
+            // The run's own origin, as `tunebench datasheet` gives it: a simulated run says so; a stopped run still shows its own figures.
+            buildDatasheet([{ label: source.label, analysis, conditions: source.conditions, origin: source.meta ? runOrigin(source.meta) : undefined }], title, { includeIncomplete: true }),
+          );
     return { text, tableMarkdown };
   } catch (error) {
     return { text: `no analysis: ${error instanceof Error ? error.message : String(error)}\n`, tableMarkdown: null };
