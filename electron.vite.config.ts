@@ -10,7 +10,10 @@ export default defineConfig({
       outDir: 'out/main',
       rollupOptions: {
         // The CSV import worker (main/service/import-off-thread.ts) is its own entry: out/main/import-worker.js.
-        input: { index: resolve(__dirname, 'main/index.ts'), 'import-worker': resolve(__dirname, 'main/service/import-worker.ts') },
+        input: {
+          index: resolve(__dirname, 'main/index.ts'),
+          'import-worker': resolve(__dirname, 'main/service/import-worker.ts'),
+        },
       },
       externalizeDeps: true,
     },
@@ -27,7 +30,7 @@ export default defineConfig({
   renderer: {
     root: resolve(__dirname, 'app'),
     // @vitejs/plugin-react's types do not resolve under main/tsconfig.json (it is ESM-only with bundler exports).
-     
+
     plugins: [react()],
     build: {
       outDir: resolve(__dirname, 'out/renderer'),

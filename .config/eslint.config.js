@@ -9,7 +9,10 @@ export default tseslint.config(
   {
     languageOptions: {
       // Every file belongs to one of these (tests included: app/tsconfig.test.json).
-      parserOptions: { project: ['main/tsconfig.json', 'app/tsconfig.json', 'app/tsconfig.test.json'], tsconfigRootDir: new URL('..', import.meta.url).pathname },
+      parserOptions: {
+        project: ['main/tsconfig.json', 'app/tsconfig.json', 'app/tsconfig.test.json'],
+        tsconfigRootDir: new URL('..', import.meta.url).pathname,
+      },
     },
   },
   {

@@ -49,7 +49,10 @@ installLastResortGuard({
 function createWindow(): BrowserWindow {
   const window = new BrowserWindow(mainWindowOptions(preloadPath));
   const contents = window.webContents;
-  const untrust = gate.trust({ webContentsId: contents.id, send: (channel, payload) => contents.send(channel, payload) });
+  const untrust = gate.trust({
+    webContentsId: contents.id,
+    send: (channel, payload) => contents.send(channel, payload),
+  });
   window.on('closed', untrust);
   window.once('ready-to-show', () => window.show());
   void window.loadURL(devUrl ?? `${APP_ORIGIN}/index.html`);
@@ -67,7 +70,10 @@ function setupFeatures(): void {
     chooseSavePath: async (id, suggestedName) => {
       const contents = webContents.fromId(id);
       const owner = contents ? BrowserWindow.fromWebContents(contents) : null;
-      const options = { defaultPath: join(app.getPath('documents'), suggestedName), filters: [{ name: 'PDF', extensions: ['pdf'] }] };
+      const options = {
+        defaultPath: join(app.getPath('documents'), suggestedName),
+        filters: [{ name: 'PDF', extensions: ['pdf'] }],
+      };
       const choice = owner ? await dialog.showSaveDialog(owner, options) : await dialog.showSaveDialog(options);
       return choice.canceled || !choice.filePath ? null : choice.filePath;
     },

@@ -46,8 +46,13 @@ describe('preload surface', () => {
   });
 
   it('turns a refusal from main into an error carrying the message and field', async () => {
-    const api = buildPreloadApi(fakePort(() => ({ ok: false, error: { message: 'openRun: id: must not contain ".."', field: 'id' } })).port);
-    await expect(api.openRun('..')).rejects.toMatchObject({ message: 'openRun: id: must not contain ".."', field: 'id' });
+    const api = buildPreloadApi(
+      fakePort(() => ({ ok: false, error: { message: 'openRun: id: must not contain ".."', field: 'id' } })).port,
+    );
+    await expect(api.openRun('..')).rejects.toMatchObject({
+      message: 'openRun: id: must not contain ".."',
+      field: 'id',
+    });
   });
 
   it('rejects a reply that is not an outcome', async () => {

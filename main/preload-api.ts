@@ -38,7 +38,8 @@ export function buildPreloadApi(port: IpcPort): BenchApi {
   for (const method of IPC_METHODS) {
     const channel = callChannel(method);
     // Parameters go across as given; main validates every one of them.
-    api[method] = async (...params: unknown[]): Promise<unknown> => unwrap(method, await port.invoke(channel, ...params));
+    api[method] = async (...params: unknown[]): Promise<unknown> =>
+      unwrap(method, await port.invoke(channel, ...params));
   }
   api.subscribe = (listener: (event: BenchEvent) => void): (() => void) => {
     if (typeof listener !== 'function') throw new TypeError('subscribe: listener must be a function');

@@ -40,14 +40,27 @@ async function tempDir(): Promise<string> {
 
 /** A short sweep every bench example must carry: three points, 10 ms gate. */
 const SHORT_SWEEP = sweepPlanSchema.parse({
-  points: [2, 2.5, 3], readingsPerPoint: 1, gateS: '10ms', settle: { mode: 'fixed', seconds: '10ms' }, refineEdgeV: 0,
+  points: [2, 2.5, 3],
+  readingsPerPoint: 1,
+  gateS: '10ms',
+  settle: { mode: 'fixed', seconds: '10ms' },
+  refineEdgeV: 0,
   limits: { maxControlV: 5, currentLimitA: '20mA' },
 });
 
 describe('shipped example files', () => {
   it('every JSON file in the folder is covered here and names its JSON Schema', () => {
-    const files = readdirSync(dir).filter((f) => f.endsWith('.json')).sort();
-    expect(files).toEqual(['bench-serial-and-socket.json', 'bench-sim-over-tcp.json', 'campaign-sensor-if.json', 'drift-overnight.json', 'pushing-3v3-rail.json', 'sweep-clock-multiplier.json']);
+    const files = readdirSync(dir)
+      .filter((f) => f.endsWith('.json'))
+      .sort();
+    expect(files).toEqual([
+      'bench-serial-and-socket.json',
+      'bench-sim-over-tcp.json',
+      'campaign-sensor-if.json',
+      'drift-overnight.json',
+      'pushing-3v3-rail.json',
+      'sweep-clock-multiplier.json',
+    ]);
     // The campaign plan has no generated schema yet; it is checked by its own schema below.
     for (const file of files.filter((f) => !f.startsWith('campaign-'))) {
       const ref = (JSON.parse(readFileSync(path(file), 'utf8')) as { $schema?: string }).$schema ?? '';
@@ -66,7 +79,9 @@ describe('shipped example files', () => {
     const clock = new VirtualClock({ autoAdvance: true });
     const bench = await assembleBench('sim', { clock, sim: { dut: 'varactor' } });
     try {
-      const recorded = await clock.runUntil(recordSweep({ bench, clock, plan: short, runsDir: await tempDir(), dutId: 'example' }));
+      const recorded = await clock.runUntil(
+        recordSweep({ bench, clock, plan: short, runsDir: await tempDir(), dutId: 'example' }),
+      );
       expect(recorded.meta.status).toBe('complete');
       expect(bench.sim?.counter.state().gateS).toBeCloseTo(0.1, 12); // what the counter was told, not the plan
       expect((recorded.meta.plan as { gateS: number }).gateS).toBeCloseTo(0.1, 15);
@@ -83,7 +98,9 @@ describe('shipped example files', () => {
     const clock = new VirtualClock({ autoAdvance: true });
     const bench = await assembleBench('sim', { clock, sim: { dut: 'varactor' } });
     try {
-      const recorded = await clock.runUntil(recordDrift({ bench, clock, plan: { ...plan, durationS: 5 }, runsDir: await tempDir(), dutId: 'example' }));
+      const recorded = await clock.runUntil(
+        recordDrift({ bench, clock, plan: { ...plan, durationS: 5 }, runsDir: await tempDir(), dutId: 'example' }),
+      );
       expect(recorded.meta.status).toBe('complete');
       expect(recorded.outcome.readings).toBeGreaterThanOrEqual(4);
       expect(bench.sim?.counter.state().gateS).toBeCloseTo(0.1, 12);
@@ -99,7 +116,9 @@ describe('shipped example files', () => {
     const clock = new VirtualClock({ autoAdvance: true });
     const bench = await assembleBench('sim', { clock, sim: { dut: 'varactor' } });
     try {
-      const recorded = await clock.runUntil(recordPushing({ bench, clock, plan, runsDir: await tempDir(), dutId: 'example' }));
+      const recorded = await clock.runUntil(
+        recordPushing({ bench, clock, plan, runsDir: await tempDir(), dutId: 'example' }),
+      );
       expect(recorded.meta.status).toBe('complete');
       expect(recorded.outcome.steps).toBe(13);
       expect(bench.sim?.counter.state().gateS).toBeCloseTo(0.1, 12);
@@ -113,11 +132,23 @@ describe('shipped example files', () => {
     const served = await serveSimBench({ basePort: 0, dut: 'varactor' });
     try {
       const port = (address: string): string => `tcp://127.0.0.1:${(parseAddress(address) as { port: number }).port}`;
-      const wired = { ...bench, supply: { ...bench.supply, address: port(served.addresses.supply) }, counter: { ...bench.counter, address: port(served.addresses.counter) }, thermometer: bench.thermometer && { ...bench.thermometer, address: port(served.addresses.thermometer) }, chamber: bench.chamber && { ...bench.chamber, address: port(served.addresses.chamber) } };
+      const wired = {
+        ...bench,
+        supply: { ...bench.supply, address: port(served.addresses.supply) },
+        counter: { ...bench.counter, address: port(served.addresses.counter) },
+        thermometer: bench.thermometer && { ...bench.thermometer, address: port(served.addresses.thermometer) },
+        chamber: bench.chamber && { ...bench.chamber, address: port(served.addresses.chamber) },
+      };
       const clock = new RealClock();
       const assembled = await assembleBench(wired, { clock });
       try {
-        const recorded = await recordSweep({ bench: assembled, clock, plan: SHORT_SWEEP, runsDir: await tempDir(), dutId: 'example' });
+        const recorded = await recordSweep({
+          bench: assembled,
+          clock,
+          plan: SHORT_SWEEP,
+          runsDir: await tempDir(),
+          dutId: 'example',
+        });
         expect(recorded.meta.status).toBe('complete');
         expect(served.bench.supply.state(1).outputOn).toBe(false);
       } finally {
@@ -132,12 +163,26 @@ describe('shipped example files', () => {
     const bench = await loadBenchFile(path('bench-serial-and-socket.json'));
     expect(parseAddress(bench.supply.address).kind).toBe('tcp');
     const counterAddress = parseAddress(bench.counter.address);
-    expect(counterAddress).toMatchObject({ kind: 'serial', baudRate: 115200, parity: 'none', stopBits: 1, flow: 'none' });
+    expect(counterAddress).toMatchObject({
+      kind: 'serial',
+      baudRate: 115200,
+      parity: 'none',
+      stopBits: 1,
+      flow: 'none',
+    });
     const t = await tempDir();
-    socat = spawn('/usr/bin/socat', [`pty,raw,echo=0,link=${join(t, 'device')}`, `pty,raw,echo=0,link=${join(t, 'host')}`], { stdio: 'ignore' });
-    for (let i = 0; i < 100 && !(existsSync(join(t, 'device')) && existsSync(join(t, 'host'))); i++) await new Promise((r) => setTimeout(r, 20));
+    socat = spawn(
+      '/usr/bin/socat',
+      [`pty,raw,echo=0,link=${join(t, 'device')}`, `pty,raw,echo=0,link=${join(t, 'host')}`],
+      { stdio: 'ignore' },
+    );
+    for (let i = 0; i < 100 && !(existsSync(join(t, 'device')) && existsSync(join(t, 'host'))); i++)
+      await new Promise((r) => setTimeout(r, 20));
     const served = await serveSimBench({ basePort: 0, dut: 'varactor' });
-    const serial = await serveDeviceOnSerial(served.bench.devices.counter, { path: join(t, 'device'), baudRate: 115200 });
+    const serial = await serveDeviceOnSerial(served.bench.devices.counter, {
+      path: join(t, 'device'),
+      baudRate: 115200,
+    });
     try {
       const supplyPort = (parseAddress(served.addresses.supply) as { port: number }).port;
       // Only the host, port and pty path change: the file's address forms and serial options are kept.
@@ -149,7 +194,13 @@ describe('shipped example files', () => {
       const clock = new RealClock();
       const assembled = await assembleBench(wired, { clock });
       try {
-        const recorded = await recordSweep({ bench: assembled, clock, plan: SHORT_SWEEP, runsDir: t, dutId: 'example' });
+        const recorded = await recordSweep({
+          bench: assembled,
+          clock,
+          plan: SHORT_SWEEP,
+          runsDir: t,
+          dutId: 'example',
+        });
         expect(recorded.meta.status).toBe('complete');
         const run = await readRunFolder(recorded.dir);
         expect(run.samplesCsv.split('\n').filter((l) => /,ok,/.test(l))).toHaveLength(3);
@@ -174,6 +225,8 @@ describe('shipped example files', () => {
     const t = await tempDir();
     const text = readFileSync(path('bench-sim-over-tcp.json'), 'utf8').replace('"controlChannel"', '"controlChanel"');
     await writeFile(join(t, 'bench.json'), text);
-    await expect(loadBenchFile(join(t, 'bench.json'))).rejects.toThrow(/supply: unknown key "controlChanel" \(did you mean "controlChannel"\?\)/);
+    await expect(loadBenchFile(join(t, 'bench.json'))).rejects.toThrow(
+      /supply: unknown key "controlChanel" \(did you mean "controlChannel"\?\)/,
+    );
   });
 });

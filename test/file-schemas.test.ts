@@ -17,7 +17,10 @@ describe('generated file formats', () => {
   });
 
   it('strict objects become additionalProperties: false, so an editor flags a misspelt key', () => {
-    const bench = JSON.parse(jsonSchemaText('bench')) as { additionalProperties: boolean; properties: { supply: { additionalProperties: boolean } } };
+    const bench = JSON.parse(jsonSchemaText('bench')) as {
+      additionalProperties: boolean;
+      properties: { supply: { additionalProperties: boolean } };
+    };
     expect(bench.additionalProperties).toBe(false);
     expect(bench.properties.supply.additionalProperties).toBe(false);
   });
@@ -25,7 +28,10 @@ describe('generated file formats', () => {
   it('docs/reference.md holds the generated key tables of every format, and every key has a meaning', () => {
     const doc = readFileSync(join(root, 'docs', 'reference.md'), 'utf8');
     expect(regenerateReference(doc)).toBe(doc);
-    for (const name of FILE_SCHEMA_NAMES) expect(doc).toContain(`<!-- keys:${name} -->\n| key |`.replace('| key |', name === 'profile' || name === 'dut' ? '**' : '| key |'));
+    for (const name of FILE_SCHEMA_NAMES)
+      expect(doc).toContain(
+        `<!-- keys:${name} -->\n| key |`.replace('| key |', name === 'profile' || name === 'dut' ? '**' : '| key |'),
+      );
     const keyRows = doc.split('\n').filter((line) => line.startsWith('| `'));
     expect(keyRows.length).toBeGreaterThan(100);
     for (const row of keyRows) expect(row, row).not.toMatch(/\|\s*\|$/);
@@ -35,13 +41,19 @@ describe('generated file formats', () => {
     const { readdirSync, existsSync } = await import('node:fs');
     const { loadProfile } = await import('../main/instruments/profile-loader.ts');
     const { loadDutParamsFile } = await import('../main/sim/dut-params.ts');
-    for (const [folder, schema] of [['profiles', 'profile'], ['duts', 'dut']] as const) {
+    for (const [folder, schema] of [
+      ['profiles', 'profile'],
+      ['duts', 'dut'],
+    ] as const) {
       for (const name of readdirSync(join(root, 'resources', folder)).filter((f) => f.endsWith('.json'))) {
         const file = join(root, 'resources', folder, name);
         const ref = (JSON.parse(readFileSync(file, 'utf8')) as { $schema?: string }).$schema;
         expect(ref, name).toBe(`../schemas/${schema}.schema.json`);
         expect(existsSync(join(root, 'resources', folder, ref as string))).toBe(true);
-        if (folder === 'profiles') await expect(loadProfile(name.replace(/\.json$/, ''))).resolves.toMatchObject({ schema: 'tunebench.profile/1' });
+        if (folder === 'profiles')
+          await expect(loadProfile(name.replace(/\.json$/, ''))).resolves.toMatchObject({
+            schema: 'tunebench.profile/1',
+          });
         else await expect(loadDutParamsFile(file)).resolves.toMatchObject({ id: expect.any(String) });
       }
     }
@@ -50,7 +62,15 @@ describe('generated file formats', () => {
   it('README links the user reference, and the reference names every address form and the check command', () => {
     expect(readFileSync(join(root, 'README.md'), 'utf8')).toMatch(/\]\(docs\/reference\.md\)/);
     const doc = readFileSync(join(root, 'docs', 'reference.md'), 'utf8');
-    for (const form of ['tcp://HOST:PORT', 'TCPIP[n]::HOST::PORT::SOCKET', 'serial:PATH?options', 'ASRL<PATH>::INSTR', 'tunebench check [--bench FILE]', 'maxControlV` + 10 %', 'defaults 9600 baud']) {
+    for (const form of [
+      'tcp://HOST:PORT',
+      'TCPIP[n]::HOST::PORT::SOCKET',
+      'serial:PATH?options',
+      'ASRL<PATH>::INSTR',
+      'tunebench check [--bench FILE]',
+      'maxControlV` + 10 %',
+      'defaults 9600 baud',
+    ]) {
       expect(doc).toContain(form);
     }
   });

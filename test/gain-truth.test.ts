@@ -21,7 +21,13 @@ import { describe, expect, it } from 'vitest';
 import { analyzeSweep } from '../app/analysis/sweep-analysis.ts';
 import { simSweep } from './testing/sim-sweep.ts';
 
-const base = { readingsPerPoint: 5, gateS: 0.1, settle: { mode: 'auto', maxS: 2 }, limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0, outputOff: true } };
+const base = {
+  readingsPerPoint: 5,
+  gateS: 0.1,
+  settle: { mode: 'auto', maxS: 2 },
+  limits: { maxControlV: 5, currentLimitA: 0.02 },
+  safe: { controlV: 0, outputOff: true },
+};
 
 // sensor-interface-relaxation.json
 const relax = { rc: 1e5 * 1e-9, rdc: 1e4 * 1e-9, v0: 1.1, v1: 2.0, offset: 0.45 };
@@ -45,14 +51,19 @@ function varactorKvco(v: number): number {
  * end points (where a spline's slope rests on one side only) pass within 2 %
  * or within 2σ of their own stated uncertainty.
  */
-function worstKvcoError(a: ReturnType<typeof analyzeSweep>, truth: (v: number) => number): { worst: number; at: number } {
+function worstKvcoError(
+  a: ReturnType<typeof analyzeSweep>,
+  truth: (v: number) => number,
+): { worst: number; at: number } {
   let worst = 0;
   let at = NaN;
   const inside = a.kvco.local.filter((e) => e.v >= a.fit.fromV - 1e-9 && e.v <= a.fit.toV + 1e-9);
   inside.forEach((e, i) => {
     const err = Math.abs(e.hzPerV / truth(e.v) - 1);
     if (i === 0 || i === inside.length - 1) {
-      expect(Math.abs(e.hzPerV - truth(e.v))).toBeLessThanOrEqual(Math.max(0.02 * Math.abs(truth(e.v)), 2 * e.uncertaintyHzPerV));
+      expect(Math.abs(e.hzPerV - truth(e.v))).toBeLessThanOrEqual(
+        Math.max(0.02 * Math.abs(truth(e.v)), 2 * e.uncertaintyHzPerV),
+      );
     } else if (err > worst) [worst, at] = [err, e.v];
   });
   return { worst, at };
@@ -93,15 +104,25 @@ describe('no negative Kvco from a curve that never falls (issue 9 item 4)', () =
   // never falls, reported Kvco min −2.02 kHz/V at 4.40 V with the polynomial.
   for (const seed of [1, 2, 3]) {
     it(`relaxation DUT, 0.2 V steps up to 4.8 V, seed ${seed}: Kvco min ≥ 0 and the saturation edge carries ±`, async () => {
-      const s = await simSweep('relaxation', seed, { ...base, readingsPerPoint: 3, start: 0.6, stop: 4.8, step: 0.2, direction: 'up' });
+      const s = await simSweep('relaxation', seed, {
+        ...base,
+        readingsPerPoint: 3,
+        start: 0.6,
+        stop: 4.8,
+        step: 0.2,
+        direction: 'up',
+      });
       const a = analyzeSweep(s.input);
       expect(a.kvco.minHzPerV).toBeGreaterThanOrEqual(0);
       expect(a.kvco.signChangeAtV).toEqual([]);
-      for (const e of a.kvco.local) if (e.v >= a.window.fromV && e.v <= a.window.toV) expect(e.hzPerV).toBeGreaterThanOrEqual(0);
+      for (const e of a.kvco.local)
+        if (e.v >= a.window.fromV && e.v <= a.window.toV) expect(e.hzPerV).toBeGreaterThanOrEqual(0);
       expect(a.kvco.saturation).not.toBeNull();
       expect(a.kvco.saturation?.uncertaintyV).toBeGreaterThan(0);
       // The sim clamps its drive at 5 V − 0.3 V headroom − 0.45 V offset = 4.25 V.
-      expect(Math.abs((a.kvco.saturation?.edgeV ?? 0) - 4.25)).toBeLessThanOrEqual(a.kvco.saturation?.uncertaintyV ?? 0);
+      expect(Math.abs((a.kvco.saturation?.edgeV ?? 0) - 4.25)).toBeLessThanOrEqual(
+        a.kvco.saturation?.uncertaintyV ?? 0,
+      );
     });
   }
 });

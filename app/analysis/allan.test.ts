@@ -7,7 +7,13 @@ interface Dataset {
   id: string;
   tau0: number;
   y?: number[];
-  generator?: { seed: number; multiplier: number; modulus: number; count: number; derivedChecks: { lastInteger: number; sumOfY: number } };
+  generator?: {
+    seed: number;
+    multiplier: number;
+    modulus: number;
+    count: number;
+    derivedChecks: { lastInteger: number; sumOfY: number };
+  };
   taus: number[];
   published: Record<string, number[]>;
 }
@@ -68,7 +74,11 @@ describe('stability bookkeeping', () => {
     }
   });
   it('counts terms per the SP 1065 definitions', () => {
-    const [a, o, md] = [stability('adev', y, 0, 64, 1, [4]), stability('oadev', y, 0, 64, 1, [4]), stability('mdev', y, 0, 64, 1, [4])];
+    const [a, o, md] = [
+      stability('adev', y, 0, 64, 1, [4]),
+      stability('oadev', y, 0, 64, 1, [4]),
+      stability('mdev', y, 0, 64, 1, [4]),
+    ];
     expect(a[0]?.terms).toBe(15); // ⌊64/4⌋ − 1
     expect(o[0]?.terms).toBe(57); // 65 − 2·4
     expect(md[0]?.terms).toBe(54); // 65 − 3·4 + 1
@@ -101,7 +111,9 @@ function mdevDirect(y: Float64Array, m: number): number {
 describe('O(N) statistics agree with their direct definitions on random data', () => {
   const data = fc
     .array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 12, maxLength: 200 })
-    .chain((ys) => fc.tuple(fc.constant(Float64Array.from(ys)), fc.integer({ min: 1, max: Math.floor((ys.length - 1) / 3) })));
+    .chain((ys) =>
+      fc.tuple(fc.constant(Float64Array.from(ys)), fc.integer({ min: 1, max: Math.floor((ys.length - 1) / 3) })),
+    );
   it('overlapping ADEV', () => {
     fc.assert(
       fc.property(data, ([y, m]) => {

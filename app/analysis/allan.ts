@@ -24,7 +24,13 @@ export type StabilityKind = 'adev' | 'oadev' | 'mdev' | 'hdev' | 'ohdev' | 'tdev
  * `scratch` (length ≥ n+1) to reuse memory across calls: a fresh large array
  * costs page faults that can exceed the arithmetic.
  */
-export function phaseFromFrequency(y: Float64Array, i0: number, i1: number, tau0S: number, scratch?: Float64Array): Float64Array {
+export function phaseFromFrequency(
+  y: Float64Array,
+  i0: number,
+  i1: number,
+  tau0S: number,
+  scratch?: Float64Array,
+): Float64Array {
   const n = i1 - i0;
   let mean = 0;
   for (let i = i0; i < i1; i++) mean += y[i] as number;

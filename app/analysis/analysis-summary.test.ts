@@ -18,7 +18,10 @@ describe('summarizeAnalysis', () => {
   });
   it('pushing: Hz/V and ppm/V at the nominal supply', () => {
     const text = summarizeAnalysis(
-      analyzePushing({ supplyV: new Float64Array([3, 3.3, 3.6]), frequencyHz: new Float64Array([399.9e6, 400e6, 400.1e6]) }),
+      analyzePushing({
+        supplyV: new Float64Array([3, 3.3, 3.6]),
+        frequencyHz: new Float64Array([399.9e6, 400e6, 400.1e6]),
+      }),
     );
     expect(text).toContain('(833 ppm/V) at 3.300 V supply');
   });

@@ -22,11 +22,20 @@ function sweepLines(a: SweepAnalysis): string[] {
     `Kvco at ${formatSi(k.nominal.v, 'V')}   ${formatFigure(k.nominal.hzPerV, 'Hz/V', { uncertainty: k.nominal.uncertaintyHzPerV })}`,
   ];
   const w = k.widestLinearRange;
-  if (w) lines.push(`linear within ±${formatNumber(w.limitPct, 3)} %  ${formatSi(w.fromV, 'V')} … ${formatSi(w.toV, 'V')}`);
-  const model = a.fit.model === 'spline' ? `cubic spline, ${formatNumber(a.fit.effectiveDegreesOfFreedom, 3)} effective parameters` : `polynomial degree ${a.fit.degree}`;
-  lines.push(`fit               ${model} over ${formatSi(a.fit.fromV, 'V')} … ${formatSi(a.fit.toV, 'V')}, residual SD ${formatFigure(a.fit.residualStdDevHz, 'Hz', { digits: 2 })} against ${formatSi(a.fit.pointScatterHz, 'Hz', 2)} point scatter`);
-  lines.push(`window            ${formatSi(a.window.fromV, 'V')} … ${formatSi(a.window.toV, 'V')} (${a.window.source === 'auto' ? 'automatic usable range' : a.window.source === 'plan' ? "the plan's" : '--window'})`);
-  if (k.saturation) lines.push(`flattens above    ${formatSiWithUncertainty(k.saturation.edgeV, k.saturation.uncertaintyV, 'V')}`);
+  if (w)
+    lines.push(`linear within ±${formatNumber(w.limitPct, 3)} %  ${formatSi(w.fromV, 'V')} … ${formatSi(w.toV, 'V')}`);
+  const model =
+    a.fit.model === 'spline'
+      ? `cubic spline, ${formatNumber(a.fit.effectiveDegreesOfFreedom, 3)} effective parameters`
+      : `polynomial degree ${a.fit.degree}`;
+  lines.push(
+    `fit               ${model} over ${formatSi(a.fit.fromV, 'V')} … ${formatSi(a.fit.toV, 'V')}, residual SD ${formatFigure(a.fit.residualStdDevHz, 'Hz', { digits: 2 })} against ${formatSi(a.fit.pointScatterHz, 'Hz', 2)} point scatter`,
+  );
+  lines.push(
+    `window            ${formatSi(a.window.fromV, 'V')} … ${formatSi(a.window.toV, 'V')} (${a.window.source === 'auto' ? 'automatic usable range' : a.window.source === 'plan' ? "the plan's" : '--window'})`,
+  );
+  if (k.saturation)
+    lines.push(`flattens above    ${formatSiWithUncertainty(k.saturation.edgeV, k.saturation.uncertaintyV, 'V')}`);
   if (a.hysteresis) {
     const h = a.hysteresis;
     lines.push(
@@ -54,10 +63,15 @@ function driftLines(a: DriftAnalysis): string[] {
     `warm-up           ${warmUp}`,
     `drift after it    ${a.driftPpmPerHour === null ? '—' : formatSignificance(a.driftPpmPerHour, a.driftUncertaintyPpmPerHour, 'ppm/h', span)}`,
   ];
-  if (a.loop) lines.push(`f–T loop          ${formatSi(a.loop.widthHz, 'Hz')} (${formatPlain(a.loop.widthPpm, 'ppm')}) at ${formatPlain(a.loop.atTemperatureC, '°C')}`);
+  if (a.loop)
+    lines.push(
+      `f–T loop          ${formatSi(a.loop.widthHz, 'Hz')} (${formatPlain(a.loop.widthPpm, 'ppm')}) at ${formatPlain(a.loop.atTemperatureC, '°C')}`,
+    );
   lines.push('ADEV (overlapping, fractional frequency):');
   for (const p of a.adev) {
-    lines.push(`  tau ${formatSi(p.tauS, 's', 3).padStart(9)}  ${formatNumber(p.adev, 3).padStart(9)}  (${p.terms} terms)${p.resolutionLimited ? '  resolution-limited (±1 count)' : ''}`);
+    lines.push(
+      `  tau ${formatSi(p.tauS, 's', 3).padStart(9)}  ${formatNumber(p.adev, 3).padStart(9)}  (${p.terms} terms)${p.resolutionLimited ? '  resolution-limited (±1 count)' : ''}`,
+    );
   }
   return lines;
 }

@@ -55,10 +55,15 @@ export function parseFitSpec(text: string): 'spline' | 'auto' | number | null {
 }
 
 /** Parses "A:B" volts (each with SI prefixes through `parseNumber`); null when malformed or A ≥ B. */
-export function parseVoltRange(text: string, parseNumber: (t: string) => number | null): { fromV: number; toV: number } | null {
+export function parseVoltRange(
+  text: string,
+  parseNumber: (t: string) => number | null,
+): { fromV: number; toV: number } | null {
   const parts = text.split(':');
   if (parts.length !== 2) return null;
   const fromV = parseNumber((parts[0] as string).trim());
   const toV = parseNumber((parts[1] as string).trim());
-  return fromV !== null && toV !== null && Number.isFinite(fromV) && Number.isFinite(toV) && fromV < toV ? { fromV, toV } : null;
+  return fromV !== null && toV !== null && Number.isFinite(fromV) && Number.isFinite(toV) && fromV < toV
+    ? { fromV, toV }
+    : null;
 }

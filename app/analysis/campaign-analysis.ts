@@ -77,7 +77,15 @@ export interface CampaignAnalysis {
   frequencyTempcoByUnit: Record<string, Coefficient | null>;
   kvcoTempcoPpmPerC: number | null;
   kvcoTempcoByUnit: Record<string, Coefficient | null>;
-  perTemperature: { temperatureC: number; dutTemperatureC: number | null; kvcoMinHzPerV: number; kvcoTypHzPerV: number; kvcoMaxHzPerV: number; frequencyTypHz: number; n: number }[];
+  perTemperature: {
+    temperatureC: number;
+    dutTemperatureC: number | null;
+    kvcoMinHzPerV: number;
+    kvcoTypHzPerV: number;
+    kvcoMaxHzPerV: number;
+    frequencyTypHz: number;
+    n: number;
+  }[];
   pushing: { unit: string; temperatureC: number; hzPerV: number; points: number }[];
   pushingHzPerV: { min: number; typ: number; max: number } | null;
   headroomTargetHz: number | null;
@@ -93,7 +101,11 @@ export interface CampaignAnalysis {
 }
 
 /** Least-squares line y = a + b·x; b, its standard error, and y at x0. */
-export function line(x: readonly number[], y: readonly number[], x0: number): { slope: number; slopeSe: number; at: number } | null {
+export function line(
+  x: readonly number[],
+  y: readonly number[],
+  x0: number,
+): { slope: number; slopeSe: number; at: number } | null {
   const n = x.length;
   if (n < 2) return null;
   const mx = x.reduce((s, v) => s + v, 0) / n;
@@ -117,19 +129,40 @@ function spread(values: readonly number[]): { min: number; typ: number; max: num
   return { min: Math.min(...values), typ: values.reduce((s, v) => s + v, 0) / values.length, max: Math.max(...values) };
 }
 
-function coefficient(rows: CampaignConditionResult[], pick: (r: CampaignConditionResult) => number | null, referenceC: number): Coefficient | null {
+function coefficient(
+  rows: CampaignConditionResult[],
+  pick: (r: CampaignConditionResult) => number | null,
+  referenceC: number,
+): Coefficient | null {
   const use = rows.filter((r) => r.dutTemperatureC !== null && pick(r) !== null);
-  const fit = line(use.map((r) => r.dutTemperatureC as number), use.map((r) => pick(r) as number), referenceC);
+  const fit = line(
+    use.map((r) => r.dutTemperatureC as number),
+    use.map((r) => pick(r) as number),
+    referenceC,
+  );
   if (fit === null || !(fit.at !== 0)) return null;
-  return { ppmPerC: (fit.slope / fit.at) * 1e6, uncertaintyPpmPerC: Math.abs(fit.slopeSe / fit.at) * 1e6, points: use.length };
+  return {
+    ppmPerC: (fit.slope / fit.at) * 1e6,
+    uncertaintyPpmPerC: Math.abs(fit.slopeSe / fit.at) * 1e6,
+    points: use.length,
+  };
 }
 
-export function analyzeCampaign(inputs: readonly CampaignConditionInput[], options: CampaignAnalysisOptions): CampaignAnalysis {
+export function analyzeCampaign(
+  inputs: readonly CampaignConditionInput[],
+  options: CampaignAnalysisOptions,
+): CampaignAnalysis {
   const referenceC = options.referenceC ?? 25;
   const conditions: CampaignConditionResult[] = inputs.map((c) => {
     const local = c.points && c.status === 'done' ? localFigures(c.points, options.nominalControlV) : null;
     return {
-      index: c.index, temperatureC: c.temperatureC, dutTemperatureC: c.dutTemperatureC, supplyV: c.supplyV, unit: c.unit, runId: c.runId, status: c.status,
+      index: c.index,
+      temperatureC: c.temperatureC,
+      dutTemperatureC: c.dutTemperatureC,
+      supplyV: c.supplyV,
+      unit: c.unit,
+      runId: c.runId,
+      status: c.status,
       kvcoAtNominalHzPerV: local?.kvcoHzPerV ?? null,
       kvcoUncertaintyHzPerV: local?.kvcoUncertaintyHzPerV ?? null,
       frequencyAtNominalHz: local?.frequencyHz ?? null,
@@ -158,14 +191,28 @@ export function analyzeCampaign(inputs: readonly CampaignConditionInput[], optio
     const f = spread(rows.map((r) => r.frequencyAtNominalHz as number));
     const dut = rows.filter((r) => r.dutTemperatureC !== null).map((r) => r.dutTemperatureC as number);
     if (!k || !f) return [];
-    return [{ temperatureC: t, dutTemperatureC: dut.length ? dut.reduce((s, x) => s + x, 0) / dut.length : null, kvcoMinHzPerV: k.min, kvcoTypHzPerV: k.typ, kvcoMaxHzPerV: k.max, frequencyTypHz: f.typ, n: rows.length }];
+    return [
+      {
+        temperatureC: t,
+        dutTemperatureC: dut.length ? dut.reduce((s, x) => s + x, 0) / dut.length : null,
+        kvcoMinHzPerV: k.min,
+        kvcoTypHzPerV: k.typ,
+        kvcoMaxHzPerV: k.max,
+        frequencyTypHz: f.typ,
+        n: rows.length,
+      },
+    ];
   });
 
   const pushing: CampaignAnalysis['pushing'] = [];
   for (const unit of units) {
     for (const t of temps) {
       const rows = conditions.filter((r) => r.unit === unit && r.temperatureC === t && r.frequencyAtNominalHz !== null);
-      const fit = line(rows.map((r) => r.supplyV), rows.map((r) => r.frequencyAtNominalHz as number), options.nominalSupplyV);
+      const fit = line(
+        rows.map((r) => r.supplyV),
+        rows.map((r) => r.frequencyAtNominalHz as number),
+        options.nominalSupplyV,
+      );
       if (fit) pushing.push({ unit, temperatureC: t, hzPerV: fit.slope, points: rows.length });
     }
   }
@@ -181,7 +228,10 @@ export function analyzeCampaign(inputs: readonly CampaignConditionInput[], optio
       if (Math.abs(c.supplyV - options.nominalSupplyV) >= 1e-9 || c.points === null || c.status !== 'done') continue;
       const v = voltageForFrequency(c.points, targetHz);
       headroom.push({
-        unit: c.unit, temperatureC: c.temperatureC, dutTemperatureC: c.dutTemperatureC, controlV: v,
+        unit: c.unit,
+        temperatureC: c.temperatureC,
+        dutTemperatureC: c.dutTemperatureC,
+        controlV: v,
         marginLowV: v === null ? null : v - Math.max(winLo, c.stallV ?? winLo),
         marginHighV: v === null ? null : winHi - v,
         stallV: c.stallV,
@@ -211,7 +261,9 @@ export function analyzeCampaign(inputs: readonly CampaignConditionInput[], optio
       kvcoHzPerV: spread(done.map((r) => r.kvcoAtNominalHzPerV as number)),
       frequencyHz: spread(done.map((r) => r.frequencyAtNominalHz as number)),
       temperatureRangeC: temps.length ? [temps[0] as number, temps[temps.length - 1] as number] : null,
-      supplyRangeV: inputs.length ? [Math.min(...inputs.map((c) => c.supplyV)), Math.max(...inputs.map((c) => c.supplyV))] : null,
+      supplyRangeV: inputs.length
+        ? [Math.min(...inputs.map((c) => c.supplyV)), Math.max(...inputs.map((c) => c.supplyV))]
+        : null,
       units,
     },
   };

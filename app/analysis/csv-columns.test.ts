@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import type { ColumnTable } from '../contract/column-table.ts';
-import { CsvError, detectCsvKind, driftInputFromTable, pushingInputFromTable, sweepInputFromTable } from './csv-columns.ts';
+import {
+  CsvError,
+  detectCsvKind,
+  driftInputFromTable,
+  pushingInputFromTable,
+  sweepInputFromTable,
+} from './csv-columns.ts';
 
 function errorOf(fn: () => unknown): CsvError {
   try {
@@ -24,22 +30,37 @@ function table(columns: Record<string, (number | string)[]>, lines?: number[]): 
     if (values.every((v) => typeof v === 'number')) numeric[name] = Float64Array.from(values);
     else {
       const levels = [...new Set(values.map(String))];
-      (text as Record<string, unknown>)[name] = { levels, codes: Uint8Array.from(values.map((v) => levels.indexOf(String(v)))) };
+      (text as Record<string, unknown>)[name] = {
+        levels,
+        codes: Uint8Array.from(values.map((v) => levels.indexOf(String(v)))),
+      };
     }
   }
-  return lines ? { names, numeric, text, rowCount, lineOf: Uint32Array.from(lines), headerLine: 1 } : { names, numeric, text, rowCount };
+  return lines
+    ? { names, numeric, text, rowCount, lineOf: Uint32Array.from(lines), headerLine: 1 }
+    : { names, numeric, text, rowCount };
 }
 
 describe('table → analysis inputs', () => {
   it('detects the kind', () => {
     expect(detectCsvKind(table({ control_v: [1, 2], frequency_hz: [10, 20] }))).toBe('sweep');
     expect(detectCsvKind(table({ time_s: [0, 1], control_v: [1, 1], frequency_hz: [10, 11] }))).toBe('drift');
-    expect(detectCsvKind(table({ time_s: [0, 1], control_v: [1, 1], supply_v: [4.5, 5], frequency_hz: [10, 11], status: ['ok', 'ok'] }))).toBe('pushing');
+    expect(
+      detectCsvKind(
+        table({ time_s: [0, 1], control_v: [1, 1], supply_v: [4.5, 5], frequency_hz: [10, 11], status: ['ok', 'ok'] }),
+      ),
+    ).toBe('pushing');
     expect(errorOf(() => detectCsvKind(table({ v: [1], f: [2] }))).message).toMatch(/frequency_hz/);
   });
 
   it('applies the status and direction rules: no-signal is no oscillation, timeout/error rows are dropped', () => {
-    const t = table({ time_s: [0, 1, 2], control_v: [1, 2, 3], frequency_hz: [100, 200, 0], direction: ['up', 'down', 'up'], status: ['ok', 'timeout', 'no-signal'] });
+    const t = table({
+      time_s: [0, 1, 2],
+      control_v: [1, 2, 3],
+      frequency_hz: [100, 200, 0],
+      direction: ['up', 'down', 'up'],
+      status: ['ok', 'timeout', 'no-signal'],
+    });
     const s = sweepInputFromTable(t, 0.1);
     expect(Array.from(s.direction ?? [])).toEqual([1, -1, 1]);
     expect(Array.from(s.frequencyHz)).toEqual([100, Number.NaN, Number.NaN]);
@@ -51,12 +72,14 @@ describe('table → analysis inputs', () => {
   });
 
   it('names the line of a bad word in a user file, and the row in a run folder', () => {
-    expect(errorOf(() => sweepInputFromTable(table({ control_v: [1, 2], frequency_hz: [2, 3], status: ['ok', 'fine'] }, [4, 7]))).message).toBe(
-      'line 7: column status: "fine" is not one of ok, no-signal, timeout, error',
-    );
-    expect(errorOf(() => sweepInputFromTable(table({ control_v: [1], frequency_hz: [2], direction: ['sideways'] }))).message).toBe(
-      'row 1: column direction: "sideways" is not up or down',
-    );
+    expect(
+      errorOf(() =>
+        sweepInputFromTable(table({ control_v: [1, 2], frequency_hz: [2, 3], status: ['ok', 'fine'] }, [4, 7])),
+      ).message,
+    ).toBe('line 7: column status: "fine" is not one of ok, no-signal, timeout, error');
+    expect(
+      errorOf(() => sweepInputFromTable(table({ control_v: [1], frequency_hz: [2], direction: ['sideways'] }))).message,
+    ).toBe('row 1: column direction: "sideways" is not up or down');
     // Our own file with a word we do not know: the reading says nothing, like an error.
     const own = sweepInputFromTable(table({ control_v: [1, 2], frequency_hz: [2, 3], status: ['ok', 'garbled'] }));
     expect(Array.from(own.controlV)).toEqual([1, Number.NaN]);

@@ -41,7 +41,11 @@ export function numericColumn(table: ColumnTable, name: string): Float64Array | 
 
 function requireNumeric(table: ColumnTable, name: string, purpose: string): Float64Array {
   const col = numericColumn(table, name);
-  if (!col) throw new CsvError(`missing column "${name}" (${purpose}); header has: ${table.names.join(', ')}`, table.headerLine ?? null);
+  if (!col)
+    throw new CsvError(
+      `missing column "${name}" (${purpose}); header has: ${table.names.join(', ')}`,
+      table.headerLine ?? null,
+    );
   return col.slice(0, table.rowCount);
 }
 
@@ -64,12 +68,18 @@ function varies(values: Float64Array | null): boolean {
 export function detectCsvKind(table: ColumnTable): CsvKind {
   const has = (n: string): boolean => table.names.includes(n);
   if (!has('frequency_hz')) {
-    throw new CsvError(`missing column "frequency_hz"; header has: ${table.names.join(', ')}`, table.headerLine ?? null);
+    throw new CsvError(
+      `missing column "frequency_hz"; header has: ${table.names.join(', ')}`,
+      table.headerLine ?? null,
+    );
   }
   if (varies(numericColumn(table, 'supply_v'))) return 'pushing';
   if (has('control_v') && (varies(numericColumn(table, 'control_v')) || !has('time_s'))) return 'sweep';
   if (has('time_s')) return 'drift';
-  throw new CsvError('cannot tell the kind: a sweep needs control_v, a drift log time_s, a pushing run supply_v', table.headerLine ?? null);
+  throw new CsvError(
+    'cannot tell the kind: a sweep needs control_v, a drift log time_s, a pushing run supply_v',
+    table.headerLine ?? null,
+  );
 }
 
 /** Per level of a coded column, then per row: one look-up per row. */
@@ -96,7 +106,12 @@ function applyStatus(table: ColumnTable, frequencyHz: Float64Array): Uint8Array 
     const code = status.codes[r] as number;
     const e = effect[code];
     if (e === 'measured') continue;
-    if (e === null && fromFile) throw rowError(table, r, `column status: "${status.levels[code] ?? ''}" is not one of ok, no-signal, timeout, error`);
+    if (e === null && fromFile)
+      throw rowError(
+        table,
+        r,
+        `column status: "${status.levels[code] ?? ''}" is not one of ok, no-signal, timeout, error`,
+      );
     frequencyHz[r] = Number.NaN;
     if (e !== 'no-oscillation') failed[r] = 1;
   }
@@ -111,7 +126,8 @@ function directionColumn(table: ColumnTable): Int8Array | undefined {
   for (let r = 0; r < out.length; r++) {
     const code = dir.codes[r] as number;
     const d = sign[code];
-    if (d === null || d === undefined) throw rowError(table, r, `column direction: "${dir.levels[code] ?? ''}" is not up or down`);
+    if (d === null || d === undefined)
+      throw rowError(table, r, `column direction: "${dir.levels[code] ?? ''}" is not up or down`);
     out[r] = d;
   }
   return out;
@@ -122,8 +138,10 @@ export function sweepInputFromTable(table: ColumnTable, gateS?: number): SweepIn
   const frequencyHz = requireNumeric(table, 'frequency_hz', 'frequency of each reading, Hz');
   const failed = applyStatus(table, frequencyHz);
   for (let r = 0; r < controlV.length; r++) {
-    if (failed[r]) controlV[r] = Number.NaN; // grouping skips rows without a control voltage
-    else if (!Number.isFinite(controlV[r])) throw rowError(table, r, 'column control_v: a sweep reading needs a control voltage');
+    if (failed[r])
+      controlV[r] = Number.NaN; // grouping skips rows without a control voltage
+    else if (!Number.isFinite(controlV[r]))
+      throw rowError(table, r, 'column control_v: a sweep reading needs a control voltage');
   }
   return { controlV, frequencyHz, direction: directionColumn(table), gateS };
 }

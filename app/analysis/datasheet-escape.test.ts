@@ -6,7 +6,19 @@ import { renderDatasheetHtml, renderDatasheetMarkdown } from './datasheet-render
 const hostile: Datasheet = {
   title: '<script>alert(1)</script> *bold* [x](javascript:alert(2))',
   runs: [{ label: '<img src=x onerror=alert(3)>', kind: 'sweep' }],
-  rows: [{ key: 'kvco', parameter: 'Kvco <b>', conditions: 'Vdd = 3.3 V | `rm`', min: 1, typ: 2, max: 3, unit: 'Hz/V', scaling: 'si', runs: 1 }],
+  rows: [
+    {
+      key: 'kvco',
+      parameter: 'Kvco <b>',
+      conditions: 'Vdd = 3.3 V | `rm`',
+      min: 1,
+      typ: 2,
+      max: 3,
+      unit: 'Hz/V',
+      scaling: 'si',
+      runs: 1,
+    },
+  ],
   notes: ['line one\n# injected heading', '<iframe>'],
 } as unknown as Datasheet;
 
@@ -19,7 +31,9 @@ describe('exports escape every text field (issue 14.6)', () => {
     expect(md).toContain('\\[x\\](javascript:alert(2))');
     expect(md).toContain('&lt;img src=x onerror=alert(3)&gt;');
     expect(md).toContain('Vdd = 3.3 V \\| \\`rm\\`');
-    expect(md.split('\n').filter((line) => line.startsWith('#'))).toEqual(['# &lt;script&gt;alert(1)&lt;/script&gt; \\*bold\\* \\[x\\](javascript:alert(2))']);
+    expect(md.split('\n').filter((line) => line.startsWith('#'))).toEqual([
+      '# &lt;script&gt;alert(1)&lt;/script&gt; \\*bold\\* \\[x\\](javascript:alert(2))',
+    ]);
   });
 
   it('HTML: the same fields as text', () => {

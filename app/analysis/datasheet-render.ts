@@ -17,17 +17,28 @@ export function displayRow(row: DatasheetRow): { min: string; typ: string; max: 
   const { scale, symbol } = row.scaling === 'si' ? siPrefixFor(biggest) : { scale: 1, symbol: '' };
   const digits = row.scaling === 'si' ? 4 : 3;
   // An uncertainty at the numerical floor (exact data) supports no extra digits: shown without ±.
-  const u = row.uncertainty !== null && row.uncertainty > 0 && !belowFloor(row.uncertainty, biggest, 1e-9) ? row.uncertainty / scale : null;
+  const u =
+    row.uncertainty !== null && row.uncertainty > 0 && !belowFloor(row.uncertainty, biggest, 1e-9)
+      ? row.uncertainty / scale
+      : null;
   const cell = (v: number | null): string => {
     if (v === null) return '';
     if (u === null) return formatNumber(v / scale, digits);
     // The digits u supports: strip the "± u" part of the shared formatter's output.
     return formatFigure(v / scale, '', { uncertainty: u, plain: true }).split(' ± ')[0] as string;
   };
-  const typ = row.typ === null ? '' : u === null ? cell(row.typ) : formatFigure(row.typ / scale, '', { uncertainty: u, plain: true });
+  const typ =
+    row.typ === null
+      ? ''
+      : u === null
+        ? cell(row.typ)
+        : formatFigure(row.typ / scale, '', { uncertainty: u, plain: true });
   return {
     min: cell(row.min),
-    typ: row.significant || row.typ === null ? typ : `not significant (±${formatFigure(u ?? NaN, '', { digits: 2, plain: true })})`,
+    typ:
+      row.significant || row.typ === null
+        ? typ
+        : `not significant (±${formatFigure(u ?? NaN, '', { digits: 2, plain: true })})`,
     max: cell(row.max),
     unit: row.unit ? `${symbol}${row.unit}` : '',
   };
@@ -52,7 +63,13 @@ export function mdEscape(text: string): string {
 }
 
 export function renderDatasheetMarkdown(sheet: Datasheet): string {
-  const lines = [`# ${mdEscape(sheet.title)}`, '', ...(sheet.simulated ? [`**${SIMULATED_BANNER}**`, ''] : []), `Runs: ${mdEscape(sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', '))}`, ''];
+  const lines = [
+    `# ${mdEscape(sheet.title)}`,
+    '',
+    ...(sheet.simulated ? [`**${SIMULATED_BANNER}**`, ''] : []),
+    `Runs: ${mdEscape(sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', '))}`,
+    '',
+  ];
   lines.push(`| ${HEAD.join(' | ')} |`, '|---|---|--:|--:|--:|---|');
   for (const row of sheet.rows) {
     const d = displayRow(row);
@@ -68,11 +85,31 @@ function csvCell(text: string): string {
 
 /** CSV in SI base units (full precision), for spreadsheets and scripts. */
 export function renderDatasheetCsv(sheet: Datasheet): string {
-  const lines = [['key', 'parameter', 'conditions', 'min', 'typ', 'max', 'unit', 'runs', 'uncertainty', 'significant', 'bench'].join(',')];
+  const lines = [
+    ['key', 'parameter', 'conditions', 'min', 'typ', 'max', 'unit', 'runs', 'uncertainty', 'significant', 'bench'].join(
+      ',',
+    ),
+  ];
   const bench = sheet.simulated ? 'simulated' : 'measured';
   for (const row of sheet.rows) {
     const num = (v: number | null): string => (v === null ? '' : String(v));
-    lines.push([row.key, row.parameter, row.conditions, num(row.min), num(row.typ), num(row.max), row.unit, String(row.runs), num(row.uncertainty), String(row.significant), bench].map(csvCell).join(','));
+    lines.push(
+      [
+        row.key,
+        row.parameter,
+        row.conditions,
+        num(row.min),
+        num(row.typ),
+        num(row.max),
+        row.unit,
+        String(row.runs),
+        num(row.uncertainty),
+        String(row.significant),
+        bench,
+      ]
+        .map(csvCell)
+        .join(','),
+    );
   }
   return `${lines.join('\n')}\n`;
 }

@@ -15,7 +15,10 @@ describe('runHints: run.json conditions', () => {
   });
 
   it('uses the one reading there is when the other is null, and none when both are', () => {
-    const hints = runHints({ plan: {}, conditions: { dutSupplyV: { start: 5.01, end: null }, temperatureC: { start: null, end: null } } });
+    const hints = runHints({
+      plan: {},
+      conditions: { dutSupplyV: { start: 5.01, end: null }, temperatureC: { start: null, end: null } },
+    });
     expect(hints.recordedDutSupplyV).toBe(5.01);
     expect(hints.recordedTemperatureC).toBeUndefined();
   });
@@ -23,7 +26,9 @@ describe('runHints: run.json conditions', () => {
   it('an old run.json without the key, or a malformed one, gives the plan hints alone', () => {
     expect(runHints({ plan: { gateS: 0.1, supplyV: 3.3 } })).toEqual({ gateS: 0.1, supplyV: 3.3 });
     expect(runHints({ plan: { gateS: 0.1 }, conditions: 'warm' })).toEqual({ gateS: 0.1 });
-    expect(runHints({ plan: { gateS: 0.1 }, conditions: { dutSupplyV: { start: 'five' }, temperatureC: [] } })).toEqual({ gateS: 0.1 });
+    expect(runHints({ plan: { gateS: 0.1 }, conditions: { dutSupplyV: { start: 'five' }, temperatureC: [] } })).toEqual(
+      { gateS: 0.1 },
+    );
   });
 });
 
@@ -31,7 +36,11 @@ describe('runConditions with recorded conditions', () => {
   const hints = runHints({ plan: { gateS: 0.05, dutSupplyV: 4.5 }, conditions: recorded });
 
   it('fill in a sweep that logged neither temperature nor supply; the measured supply beats the plan', () => {
-    expect(runConditions('sweep', {}, hints)).toEqual({ temperatureC: expect.closeTo(23.1, 12) as number, supplyV: expect.closeTo(5, 12) as number, gateS: 0.05 });
+    expect(runConditions('sweep', {}, hints)).toEqual({
+      temperatureC: expect.closeTo(23.1, 12) as number,
+      supplyV: expect.closeTo(5, 12) as number,
+      gateS: 0.05,
+    });
   });
 
   it('logged columns still come first', () => {
@@ -43,8 +52,13 @@ describe('runConditions with recorded conditions', () => {
   it('a sweep row of the gain table shows temperature, DUT supply and gate', () => {
     // Straight line f = 1 MHz + 100 kHz/V · V over 1..3 V (exact by construction).
     const v = [1, 1.5, 2, 2.5, 3];
-    const analysis = analyzeSweep({ controlV: Float64Array.from(v), frequencyHz: Float64Array.from(v, (x) => 1e6 + 1e5 * x) });
+    const analysis = analyzeSweep({
+      controlV: Float64Array.from(v),
+      frequencyHz: Float64Array.from(v, (x) => 1e6 + 1e5 * x),
+    });
     const sheet = buildDatasheet([{ label: 'sweep-1', analysis, conditions: runConditions('sweep', {}, hints) }]);
-    expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toMatch(/^T 23.1 °C; supply 5.00 V; gate 50.0 ms; window /);
+    expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toMatch(
+      /^T 23.1 °C; supply 5.00 V; gate 50.0 ms; window /,
+    );
   });
 });

@@ -42,7 +42,8 @@ export function planHints(plan: unknown): PlanHints {
     if (value !== undefined && Number.isFinite(value)) hints[key] = value;
   }
   const w = parsed.data.window;
-  if (w && Number.isFinite(w.fromV) && Number.isFinite(w.toV) && w.toV > w.fromV) hints.window = { fromV: w.fromV, toV: w.toV };
+  if (w && Number.isFinite(w.fromV) && Number.isFinite(w.toV) && w.toV > w.fromV)
+    hints.window = { fromV: w.fromV, toV: w.toV };
   return hints;
 }
 
@@ -55,13 +56,18 @@ export interface RunHints extends PlanHints {
 }
 
 // run.json `conditions` ({ start, end } per condition, null when not read); malformed parts are ignored.
-const spanSchema = z.looseObject({
-  start: z.number().nullable().optional().catch(undefined),
-  end: z.number().nullable().optional().catch(undefined),
-}).optional().catch(undefined);
+const spanSchema = z
+  .looseObject({
+    start: z.number().nullable().optional().catch(undefined),
+    end: z.number().nullable().optional().catch(undefined),
+  })
+  .optional()
+  .catch(undefined);
 const recordedSchema = z.looseObject({ dutSupplyV: spanSchema, temperatureC: spanSchema });
 
-function spanMean(span: { start?: number | null | undefined; end?: number | null | undefined } | undefined): number | undefined {
+function spanMean(
+  span: { start?: number | null | undefined; end?: number | null | undefined } | undefined,
+): number | undefined {
   if (!span) return undefined;
   return meanOfFinite([span.start ?? Number.NaN, span.end ?? Number.NaN]) ?? undefined;
 }
@@ -89,13 +95,19 @@ export function runConditions(
   columns: { temperatureC?: ArrayLike<number> | null; supplyV?: ArrayLike<number> | null },
   hints: RunHints,
 ): RunConditions {
-  const supplyV = meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
+  const supplyV =
+    meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
   const temperatureC = meanOfFinite(columns.temperatureC) ?? hints.recordedTemperatureC ?? null;
   return { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
 }
 
 /** What run.json says that decides whether a run may enter a gain table (status, DUT, simulated bench). */
-export function runOrigin(meta: { status: string; dut: { id: string }; instruments: { idn: string; address: string }[]; simulated?: boolean }): RunOrigin {
+export function runOrigin(meta: {
+  status: string;
+  dut: { id: string };
+  instruments: { idn: string; address: string }[];
+  simulated?: boolean;
+}): RunOrigin {
   const kind = (meta.dut as { kind?: unknown }).kind;
   return {
     status: meta.status,

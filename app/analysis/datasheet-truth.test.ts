@@ -12,19 +12,31 @@ import { displayRow, renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMar
 import { analyzeSweep } from './sweep-analysis.ts';
 
 const conditions = { temperatureC: 25, supplyV: 5, gateS: 0.1 };
-const origin = (o: Partial<RunOrigin>): RunOrigin => ({ status: 'complete', dutId: 'relax-1', dutKind: null, simulated: true, ...o });
+const origin = (o: Partial<RunOrigin>): RunOrigin => ({
+  status: 'complete',
+  dutId: 'relax-1',
+  dutKind: null,
+  simulated: true,
+  ...o,
+});
 
 /** Relaxation-like unit: 8–29 kHz over 1.6–4.2 V (a parabola), points every `step` V up to `topV`. */
 function relaxRun(label: string, topV: number, o: Partial<RunOrigin> = {}): DatasheetRun {
   const v: number[] = [];
   for (let x = 1.6; x <= topV + 1e-9; x += 0.2) v.push(Number(x.toFixed(3)));
-  const analysis = analyzeSweep({ controlV: Float64Array.from(v), frequencyHz: Float64Array.from(v, (x) => 8e3 + 9e3 * (x - 1.6) - 300 * (x - 1.6) ** 2) });
+  const analysis = analyzeSweep({
+    controlV: Float64Array.from(v),
+    frequencyHz: Float64Array.from(v, (x) => 8e3 + 9e3 * (x - 1.6) - 300 * (x - 1.6) ** 2),
+  });
   return { label, analysis, conditions, origin: origin(o) };
 }
 
 function varactorRun(label: string): DatasheetRun {
   const v = Array.from({ length: 21 }, (_, i) => 0.5 + 0.2 * i);
-  const analysis = analyzeSweep({ controlV: Float64Array.from(v), frequencyHz: Float64Array.from(v, (x) => 360e6 + 46e6 * x) });
+  const analysis = analyzeSweep({
+    controlV: Float64Array.from(v),
+    frequencyHz: Float64Array.from(v, (x) => 360e6 + 46e6 * x),
+  });
   return { label, analysis, conditions, origin: origin({ dutId: 'radio-lo-3' }) };
 }
 
@@ -38,12 +50,16 @@ describe('the gain table refuses bad input', () => {
     expect(fMax?.min).toBeCloseTo(fMax?.max ?? NaN, 6);
     expect(sheet.notes.some((n) => n.startsWith('run-3 (13 points) left out: the run is aborted'))).toBe(true);
     // Kept on request.
-    expect(buildDatasheet([...full, aborted], 't', { includeIncomplete: true }).rows.find((r) => r.key === 'fMax')?.runs).toBe(3);
+    expect(
+      buildDatasheet([...full, aborted], 't', { includeIncomplete: true }).rows.find((r) => r.key === 'fMax')?.runs,
+    ).toBe(3);
   });
   it('refuses a varactor and a relaxation DUT in one table unless allowed', () => {
     const mixed = [relaxRun('relax-run', 4.2), varactorRun('lo-run')];
     expect(() => buildDatasheet(mixed)).toThrow(DatasheetInputError);
-    expect(() => buildDatasheet(mixed)).toThrow(/different DUT ids \(relax-1, radio-lo-3\).*tuning ranges that do not overlap/);
+    expect(() => buildDatasheet(mixed)).toThrow(
+      /different DUT ids \(relax-1, radio-lo-3\).*tuning ranges that do not overlap/,
+    );
     expect(buildDatasheet(mixed, 't', { allowMixed: true }).rows.find((r) => r.key === 'fMax')?.runs).toBe(2);
     expect(dutStem('lo-7')).toBe(dutStem('LO_12'));
   });
@@ -64,7 +80,10 @@ describe('the gain table refuses bad input', () => {
       frequencyHz: t.map((x, i) => 1e6 * (1 + 2e-6 * (x / 3600)) + ((i * 7919) % 13) - 6),
       temperatureC: t.map((x) => 25 + x / 3600),
     });
-    const pushing = analyzePushing({ supplyV: new Float64Array([4.5, 5, 5.5]), frequencyHz: new Float64Array([20e3 - 61, 20e3 + 2, 20e3 + 59]) });
+    const pushing = analyzePushing({
+      supplyV: new Float64Array([4.5, 5, 5.5]),
+      frequencyHz: new Float64Array([20e3 - 61, 20e3 + 2, 20e3 + 59]),
+    });
     const sheet = buildDatasheet([
       { label: 'log', analysis: drift, conditions },
       { label: 'push', analysis: pushing, conditions },
@@ -74,8 +93,13 @@ describe('the gain table refuses bad input', () => {
     expect(displayRow(driftRow ?? sheet.rows[0]!).typ).toMatch(/ ± /);
     const pushRow = sheet.rows.find((r) => r.key === 'pushing');
     expect(displayRow(pushRow ?? sheet.rows[0]!).typ).toMatch(/^120\.0 ± 3\.5$/);
-    const flat = analyzePushing({ supplyV: new Float64Array([4.5, 5, 5.5]), frequencyHz: new Float64Array([20e3 + 3, 20e3 - 4, 20e3 + 2]) });
-    const flatRow = buildDatasheet([{ label: 'flat', analysis: flat, conditions }]).rows.find((r) => r.key === 'pushing');
+    const flat = analyzePushing({
+      supplyV: new Float64Array([4.5, 5, 5.5]),
+      frequencyHz: new Float64Array([20e3 + 3, 20e3 - 4, 20e3 + 2]),
+    });
+    const flatRow = buildDatasheet([{ label: 'flat', analysis: flat, conditions }]).rows.find(
+      (r) => r.key === 'pushing',
+    );
     expect(flatRow?.significant).toBe(false);
     expect(displayRow(flatRow ?? sheet.rows[0]!).typ).toMatch(/^not significant \(±/);
   });

@@ -23,7 +23,10 @@ const drift = analyzeDrift({
   temperatureC: Float64Array.from({ length: 100 }, (_, i) => 20 + i / 10),
 });
 runs.push({ label: 'log-1', analysis: drift, conditions: { temperatureC: 24.95, supplyV: 3.3, gateS: 1 } });
-const pushing = analyzePushing({ supplyV: new Float64Array([3, 3.3, 3.6]), frequencyHz: new Float64Array([1.2e6 - 300, 1.2e6, 1.2e6 + 300]) });
+const pushing = analyzePushing({
+  supplyV: new Float64Array([3, 3.3, 3.6]),
+  frequencyHz: new Float64Array([1.2e6 - 300, 1.2e6, 1.2e6 + 300]),
+});
 runs.push({ label: 'push-1', analysis: pushing, conditions: { temperatureC: 25, supplyV: null, gateS: 0.1 } });
 const sheet = buildDatasheet(runs, 'Clock-multiplier VCO');
 
@@ -34,11 +37,26 @@ describe('buildDatasheet', () => {
     expect(row?.typ).toBeCloseTo(110e3, 4);
     expect(row?.max).toBeCloseTo(130e3, 4);
     expect(row?.runs).toBe(3);
-    expect(row?.conditions).toBe('T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)');
+    expect(row?.conditions).toBe(
+      'T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)',
+    );
   });
   it('has the rows a designer looks for, each with its unit', () => {
     const keys = sheet.rows.map((r) => r.key);
-    expect(keys).toEqual(expect.arrayContaining(['fMin', 'fMax', 'kvcoNominal', 'kvcoLow', 'kvcoHigh', 'linearity', 'stall', 'tempco', 'drift', 'pushing']));
+    expect(keys).toEqual(
+      expect.arrayContaining([
+        'fMin',
+        'fMax',
+        'kvcoNominal',
+        'kvcoLow',
+        'kvcoHigh',
+        'linearity',
+        'stall',
+        'tempco',
+        'drift',
+        'pushing',
+      ]),
+    );
     expect(sheet.rows.find((r) => r.key === 'stall')?.typ).toBeCloseTo(0.75, 12);
     // 2 Hz/°C on a mean of 1 MHz − 0.1 Hz = 2.0000002 ppm/°C; one run → typ only.
     const tempco = sheet.rows.find((r) => r.key === 'tempco');
@@ -59,13 +77,20 @@ describe('datasheet exports', () => {
   it('Markdown table', () => {
     const md = renderDatasheetMarkdown(sheet);
     expect(md).toContain('# Clock-multiplier VCO');
-    expect(md).toContain('| Kvco, best straight line | T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range) | 100.0 | 110.0 | 130.0 | kHz/V |');
+    expect(md).toContain(
+      '| Kvco, best straight line | T 25.0 … 26.0 °C; supply 3.30 V; gate 100 ms; window 1.000 V … 3.000 V (usable range) | 100.0 | 110.0 | 130.0 | kHz/V |',
+    );
   });
   it('CSV in SI base units', () => {
     const text = renderDatasheetCsv(sheet);
     expect(text.split('\n')[0]).toBe('key,parameter,conditions,min,typ,max,unit,runs,uncertainty,significant,bench');
     // The one CSV line splitter handles the quoted "Kvco, best straight line".
-    const cells = text.trim().split('\n').map((line) => splitCsvLine(line) ?? []).find((r) => r[0] === 'kvcoLine') ?? [];
+    const cells =
+      text
+        .trim()
+        .split('\n')
+        .map((line) => splitCsvLine(line) ?? [])
+        .find((r) => r[0] === 'kvcoLine') ?? [];
     expect(cells[1]).toBe('Kvco, best straight line');
     expect(Number(cells[3])).toBeCloseTo(100e3, 4);
     expect(cells[6]).toBe('Hz/V');

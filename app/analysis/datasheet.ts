@@ -78,27 +78,177 @@ interface RowSpec {
 }
 
 const windowText = (a: AnyAnalysis): string | null =>
-  a.kind === 'sweep' ? `window ${formatSi(a.window.fromV, 'V')} … ${formatSi(a.window.toV, 'V')}${a.window.source === 'auto' ? ' (usable range)' : ''}` : null;
+  a.kind === 'sweep'
+    ? `window ${formatSi(a.window.fromV, 'V')} … ${formatSi(a.window.toV, 'V')}${a.window.source === 'auto' ? ' (usable range)' : ''}`
+    : null;
 
-const finite = (v: number | null | undefined): number | null => (v === null || v === undefined || !Number.isFinite(v) ? null : v);
+const finite = (v: number | null | undefined): number | null =>
+  v === null || v === undefined || !Number.isFinite(v) ? null : v;
 
 const ROWS: RowSpec[] = [
-  { key: 'fMin', parameter: 'Tuning range, low end', unit: 'Hz', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.tuningRange.fMinHz : null), sd: (a) => (a.kind === 'sweep' ? a.tuningRange.fMinUncertaintyHz : null), extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.tuningRange.vAtFMin, 'V')}` : null) },
-  { key: 'fMax', parameter: 'Tuning range, high end', unit: 'Hz', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.tuningRange.fMaxHz : null), sd: (a) => (a.kind === 'sweep' ? a.tuningRange.fMaxUncertaintyHz : null), extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.tuningRange.vAtFMax, 'V')}` : null) },
-  { key: 'kvcoNominal', parameter: 'Kvco at the nominal point', unit: 'Hz/V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.kvco.nominal.hzPerV : null), sd: (a) => (a.kind === 'sweep' ? a.kvco.nominal.uncertaintyHzPerV : null), extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.kvco.nominal.v, 'V')}` : null) },
-  { key: 'kvcoLow', parameter: 'Kvco, lowest over the tuning window', unit: 'Hz/V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.kvco.minHzPerV : null), sd: (a) => (a.kind === 'sweep' ? a.kvco.minUncertaintyHzPerV : null), extra: windowText },
-  { key: 'kvcoHigh', parameter: 'Kvco, highest over the tuning window', unit: 'Hz/V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.kvco.maxHzPerV : null), sd: (a) => (a.kind === 'sweep' ? a.kvco.maxUncertaintyHzPerV : null), extra: windowText },
-  { key: 'kvcoLine', parameter: 'Kvco, best straight line', unit: 'Hz/V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.kvco.linear.slopeHzPerV : null), sd: (a) => (a.kind === 'sweep' ? a.kvco.linear.slopeUncertaintyHzPerV : null), extra: windowText },
-  { key: 'linearity', parameter: 'Linearity error (worst, of span)', unit: '%', scaling: 'plain', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.kvco.linear.maxLinearityErrorPct : null), extra: (a) => (a.kind === 'sweep' ? `${formatSi(a.kvco.linear.fromV, 'V')} … ${formatSi(a.kvco.linear.toV, 'V')}` : null) },
-  { key: 'stall', parameter: 'Stall threshold (oscillation starts)', unit: 'V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.stall.thresholdV : null), sd: (a) => (a.kind === 'sweep' ? a.stall.thresholdUncertaintyV : null) },
-  { key: 'unstable', parameter: 'Unstable below', unit: 'V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? a.stall.unstableBelowV : null), sd: (a) => (a.kind === 'sweep' ? a.stall.unstableBelowUncertaintyV : null) },
-  { key: 'saturation', parameter: 'Curve flattens above', unit: 'V', scaling: 'si', kinds: ['sweep'], value: (a) => (a.kind === 'sweep' ? (a.kvco.saturation?.edgeV ?? null) : null), sd: (a) => (a.kind === 'sweep' ? (a.kvco.saturation?.uncertaintyV ?? null) : null) },
-  { key: 'tempco', parameter: 'Temperature coefficient', unit: 'ppm/°C', scaling: 'plain', kinds: ['drift'], value: (a) => (a.kind === 'drift' ? a.tempcoPpmPerC : null), sd: (a) => (a.kind === 'drift' ? a.tempcoUncertaintyPpmPerC : null), significant: (a) => a.kind === 'drift' && a.tempcoSignificant },
-  { key: 'warmup', parameter: 'Warm-up time', unit: 'min', scaling: 'plain', kinds: ['drift'], value: (a) => (a.kind === 'drift' && a.warmUp.warmUpS !== null ? a.warmUp.warmUpS / 60 : null), extra: (a) => (a.kind === 'drift' ? `drift within ${a.warmUp.limitPpmPerHour} ppm/h` : null) },
-  { key: 'drift', parameter: 'Drift after warm-up', unit: 'ppm/h', scaling: 'plain', kinds: ['drift'], value: (a) => (a.kind === 'drift' ? a.driftPpmPerHour : null), sd: (a) => (a.kind === 'drift' ? a.driftUncertaintyPpmPerHour : null), significant: (a) => a.kind === 'drift' && a.driftSignificant, extra: (a) => (a.kind === 'drift' ? `over ${formatSi(a.durationS, 's', 3)}` : null) },
-  { key: 'adev1s', parameter: 'Allan deviation (overlapping), τ = 1 s', unit: '', scaling: 'plain', kinds: ['drift'], value: (a) => (a.kind === 'drift' ? (a.adev.find((p) => Math.abs(p.tauS - 1) < 1e-9)?.adev ?? null) : null), extra: (a) => (a.kind === 'drift' && a.adev.find((p) => Math.abs(p.tauS - 1) < 1e-9)?.resolutionLimited ? 'resolution-limited (±1 count)' : null) },
-  { key: 'pushing', parameter: 'Supply pushing', unit: 'Hz/V', scaling: 'si', kinds: ['pushing'], value: (a) => (a.kind === 'pushing' ? a.pushingHzPerV : null), sd: (a) => (a.kind === 'pushing' ? a.pushingUncertaintyHzPerV : null), significant: (a) => a.kind === 'pushing' && a.pushingSignificant, extra: (a) => (a.kind === 'pushing' ? `at ${formatSi(a.nominalSupplyV, 'V')} supply` : null) },
-  { key: 'pushingPpm', parameter: 'Supply pushing, relative', unit: 'ppm/V', scaling: 'plain', kinds: ['pushing'], value: (a) => (a.kind === 'pushing' ? a.pushingPpmPerV : null), sd: (a) => (a.kind === 'pushing' && a.pushingHzPerV !== 0 ? Math.abs((a.pushingUncertaintyHzPerV / a.pushingHzPerV) * a.pushingPpmPerV) : null), significant: (a) => a.kind === 'pushing' && a.pushingSignificant },
+  {
+    key: 'fMin',
+    parameter: 'Tuning range, low end',
+    unit: 'Hz',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.tuningRange.fMinHz : null),
+    sd: (a) => (a.kind === 'sweep' ? a.tuningRange.fMinUncertaintyHz : null),
+    extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.tuningRange.vAtFMin, 'V')}` : null),
+  },
+  {
+    key: 'fMax',
+    parameter: 'Tuning range, high end',
+    unit: 'Hz',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.tuningRange.fMaxHz : null),
+    sd: (a) => (a.kind === 'sweep' ? a.tuningRange.fMaxUncertaintyHz : null),
+    extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.tuningRange.vAtFMax, 'V')}` : null),
+  },
+  {
+    key: 'kvcoNominal',
+    parameter: 'Kvco at the nominal point',
+    unit: 'Hz/V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.kvco.nominal.hzPerV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.kvco.nominal.uncertaintyHzPerV : null),
+    extra: (a) => (a.kind === 'sweep' ? `at ${formatSi(a.kvco.nominal.v, 'V')}` : null),
+  },
+  {
+    key: 'kvcoLow',
+    parameter: 'Kvco, lowest over the tuning window',
+    unit: 'Hz/V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.kvco.minHzPerV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.kvco.minUncertaintyHzPerV : null),
+    extra: windowText,
+  },
+  {
+    key: 'kvcoHigh',
+    parameter: 'Kvco, highest over the tuning window',
+    unit: 'Hz/V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.kvco.maxHzPerV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.kvco.maxUncertaintyHzPerV : null),
+    extra: windowText,
+  },
+  {
+    key: 'kvcoLine',
+    parameter: 'Kvco, best straight line',
+    unit: 'Hz/V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.kvco.linear.slopeHzPerV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.kvco.linear.slopeUncertaintyHzPerV : null),
+    extra: windowText,
+  },
+  {
+    key: 'linearity',
+    parameter: 'Linearity error (worst, of span)',
+    unit: '%',
+    scaling: 'plain',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.kvco.linear.maxLinearityErrorPct : null),
+    extra: (a) =>
+      a.kind === 'sweep' ? `${formatSi(a.kvco.linear.fromV, 'V')} … ${formatSi(a.kvco.linear.toV, 'V')}` : null,
+  },
+  {
+    key: 'stall',
+    parameter: 'Stall threshold (oscillation starts)',
+    unit: 'V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.stall.thresholdV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.stall.thresholdUncertaintyV : null),
+  },
+  {
+    key: 'unstable',
+    parameter: 'Unstable below',
+    unit: 'V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? a.stall.unstableBelowV : null),
+    sd: (a) => (a.kind === 'sweep' ? a.stall.unstableBelowUncertaintyV : null),
+  },
+  {
+    key: 'saturation',
+    parameter: 'Curve flattens above',
+    unit: 'V',
+    scaling: 'si',
+    kinds: ['sweep'],
+    value: (a) => (a.kind === 'sweep' ? (a.kvco.saturation?.edgeV ?? null) : null),
+    sd: (a) => (a.kind === 'sweep' ? (a.kvco.saturation?.uncertaintyV ?? null) : null),
+  },
+  {
+    key: 'tempco',
+    parameter: 'Temperature coefficient',
+    unit: 'ppm/°C',
+    scaling: 'plain',
+    kinds: ['drift'],
+    value: (a) => (a.kind === 'drift' ? a.tempcoPpmPerC : null),
+    sd: (a) => (a.kind === 'drift' ? a.tempcoUncertaintyPpmPerC : null),
+    significant: (a) => a.kind === 'drift' && a.tempcoSignificant,
+  },
+  {
+    key: 'warmup',
+    parameter: 'Warm-up time',
+    unit: 'min',
+    scaling: 'plain',
+    kinds: ['drift'],
+    value: (a) => (a.kind === 'drift' && a.warmUp.warmUpS !== null ? a.warmUp.warmUpS / 60 : null),
+    extra: (a) => (a.kind === 'drift' ? `drift within ${a.warmUp.limitPpmPerHour} ppm/h` : null),
+  },
+  {
+    key: 'drift',
+    parameter: 'Drift after warm-up',
+    unit: 'ppm/h',
+    scaling: 'plain',
+    kinds: ['drift'],
+    value: (a) => (a.kind === 'drift' ? a.driftPpmPerHour : null),
+    sd: (a) => (a.kind === 'drift' ? a.driftUncertaintyPpmPerHour : null),
+    significant: (a) => a.kind === 'drift' && a.driftSignificant,
+    extra: (a) => (a.kind === 'drift' ? `over ${formatSi(a.durationS, 's', 3)}` : null),
+  },
+  {
+    key: 'adev1s',
+    parameter: 'Allan deviation (overlapping), τ = 1 s',
+    unit: '',
+    scaling: 'plain',
+    kinds: ['drift'],
+    value: (a) => (a.kind === 'drift' ? (a.adev.find((p) => Math.abs(p.tauS - 1) < 1e-9)?.adev ?? null) : null),
+    extra: (a) =>
+      a.kind === 'drift' && a.adev.find((p) => Math.abs(p.tauS - 1) < 1e-9)?.resolutionLimited
+        ? 'resolution-limited (±1 count)'
+        : null,
+  },
+  {
+    key: 'pushing',
+    parameter: 'Supply pushing',
+    unit: 'Hz/V',
+    scaling: 'si',
+    kinds: ['pushing'],
+    value: (a) => (a.kind === 'pushing' ? a.pushingHzPerV : null),
+    sd: (a) => (a.kind === 'pushing' ? a.pushingUncertaintyHzPerV : null),
+    significant: (a) => a.kind === 'pushing' && a.pushingSignificant,
+    extra: (a) => (a.kind === 'pushing' ? `at ${formatSi(a.nominalSupplyV, 'V')} supply` : null),
+  },
+  {
+    key: 'pushingPpm',
+    parameter: 'Supply pushing, relative',
+    unit: 'ppm/V',
+    scaling: 'plain',
+    kinds: ['pushing'],
+    value: (a) => (a.kind === 'pushing' ? a.pushingPpmPerV : null),
+    sd: (a) =>
+      a.kind === 'pushing' && a.pushingHzPerV !== 0
+        ? Math.abs((a.pushingUncertaintyHzPerV / a.pushingHzPerV) * a.pushingPpmPerV)
+        : null,
+    significant: (a) => a.kind === 'pushing' && a.pushingSignificant,
+  },
 ];
 
 function median(sorted: number[]): number {
@@ -109,7 +259,8 @@ function median(sorted: number[]): number {
 function span(values: number[], unit: string, scaling: 'si' | 'plain'): string {
   const lo = Math.min(...values);
   const hi = Math.max(...values);
-  if (scaling === 'plain') return lo === hi ? `${lo.toFixed(1)} ${unit}` : `${lo.toFixed(1)} … ${hi.toFixed(1)} ${unit}`;
+  if (scaling === 'plain')
+    return lo === hi ? `${lo.toFixed(1)} ${unit}` : `${lo.toFixed(1)} … ${hi.toFixed(1)} ${unit}`;
   return lo === hi ? formatSi(lo, unit, 3) : `${formatSi(lo, unit, 3)} … ${formatSi(hi, unit, 3)}`;
 }
 
@@ -131,7 +282,10 @@ const INCOMPLETE = new Set(['aborted', 'interrupted', 'failed', 'running']);
 
 /** "lo-7" and "lo_12" share the stem "lo": unit numbers of one design. */
 export function dutStem(id: string): string {
-  return id.trim().toLowerCase().replace(/[-_ .#]*(unit)?[-_ .#]*\d+$/, '');
+  return id
+    .trim()
+    .toLowerCase()
+    .replace(/[-_ .#]*(unit)?[-_ .#]*\d+$/, '');
 }
 
 /** Refusal of a table over runs that do not belong together. */
@@ -144,7 +298,8 @@ function mixedReasons(runs: DatasheetRun[]): string[] {
   const reasons: string[] = [];
   const withOrigin = runs.filter((r) => r.origin);
   const stems = [...new Set(withOrigin.map((r) => dutStem(r.origin?.dutId ?? '')))];
-  if (stems.length > 1) reasons.push(`different DUT ids (${[...new Set(withOrigin.map((r) => r.origin?.dutId))].join(', ')})`);
+  if (stems.length > 1)
+    reasons.push(`different DUT ids (${[...new Set(withOrigin.map((r) => r.origin?.dutId))].join(', ')})`);
   const kinds = [...new Set(withOrigin.map((r) => r.origin?.dutKind).filter((k): k is string => !!k))];
   if (kinds.length > 1) reasons.push(`different DUT kinds (${kinds.join(', ')})`);
   const sweeps = runs.filter((r) => r.analysis.kind === 'sweep');
@@ -156,33 +311,47 @@ function mixedReasons(runs: DatasheetRun[]): string[] {
       const ta = a.analysis.tuningRange;
       const tb = b.analysis.tuningRange;
       if (ta.fMaxHz < tb.fMinHz || tb.fMaxHz < ta.fMinHz) {
-        reasons.push(`tuning ranges that do not overlap (${a.label}: ${formatSi(ta.fMinHz, 'Hz')} … ${formatSi(ta.fMaxHz, 'Hz')}; ${b.label}: ${formatSi(tb.fMinHz, 'Hz')} … ${formatSi(tb.fMaxHz, 'Hz')})`);
+        reasons.push(
+          `tuning ranges that do not overlap (${a.label}: ${formatSi(ta.fMinHz, 'Hz')} … ${formatSi(ta.fMaxHz, 'Hz')}; ${b.label}: ${formatSi(tb.fMinHz, 'Hz')} … ${formatSi(tb.fMaxHz, 'Hz')})`,
+        );
       }
     }
   }
   return reasons;
 }
 
-export function buildDatasheet(all: DatasheetRun[], title = 'VCO gain table', options: DatasheetOptions = {}): Datasheet {
+export function buildDatasheet(
+  all: DatasheetRun[],
+  title = 'VCO gain table',
+  options: DatasheetOptions = {},
+): Datasheet {
   const leftOut: string[] = [];
   const runs = all.filter((r) => {
     if (!r.origin || !INCOMPLETE.has(r.origin.status) || options.includeIncomplete) return true;
-    leftOut.push(`${r.label} left out: the run is ${r.origin.status} (include it with --include-incomplete, or the table's "Include incomplete runs" toggle)`);
+    leftOut.push(
+      `${r.label} left out: the run is ${r.origin.status} (include it with --include-incomplete, or the table's "Include incomplete runs" toggle)`,
+    );
     return false;
   });
   if (!options.allowMixed) {
     const reasons = mixedReasons(runs);
     if (reasons.length > 0) {
-      throw new DatasheetInputError(`these runs are not one design: ${reasons.join('; ')}. Pick runs of one DUT, or allow a mixed table (--allow-mixed)`);
+      throw new DatasheetInputError(
+        `these runs are not one design: ${reasons.join('; ')}. Pick runs of one DUT, or allow a mixed table (--allow-mixed)`,
+      );
     }
   }
   const rows: DatasheetRow[] = [];
   for (const spec of ROWS) {
-    const contributing = runs.filter((r) => spec.kinds.includes(r.analysis.kind) && finite(spec.value(r.analysis)) !== null);
+    const contributing = runs.filter(
+      (r) => spec.kinds.includes(r.analysis.kind) && finite(spec.value(r.analysis)) !== null,
+    );
     if (contributing.length === 0) continue;
     const values = contributing.map((r) => spec.value(r.analysis) as number).sort((a, b) => a - b);
     const extras = spec.extra ? contributing.map((r) => spec.extra?.(r.analysis)).filter((s): s is string => !!s) : [];
-    const sds = spec.sd ? contributing.map((r) => finite(spec.sd?.(r.analysis))).filter((v): v is number => v !== null) : [];
+    const sds = spec.sd
+      ? contributing.map((r) => finite(spec.sd?.(r.analysis))).filter((v): v is number => v !== null)
+      : [];
     const one = values.length === 1;
     rows.push({
       key: spec.key,
@@ -200,13 +369,28 @@ export function buildDatasheet(all: DatasheetRun[], title = 'VCO gain table', op
   }
   const simulated = all.some((r) => r.origin?.simulated);
   const notes = [
-    ...(simulated ? [`SIMULATED: ${runs.filter((r) => r.origin?.simulated).map((r) => r.label).join(', ') || 'runs'} came from the simulated bench, not from hardware.`] : []),
+    ...(simulated
+      ? [
+          `SIMULATED: ${
+            runs
+              .filter((r) => r.origin?.simulated)
+              .map((r) => r.label)
+              .join(', ') || 'runs'
+          } came from the simulated bench, not from hardware.`,
+        ]
+      : []),
     'typ is the median over the runs that give the figure; min and max are shown when two or more runs do; ± is 1σ (the largest among the runs).',
-    'Kvco figures come from the derivative of the fitted tuning curve over the tuning window (the plan\'s or --window, else the usable range).',
+    "Kvco figures come from the derivative of the fitted tuning curve over the tuning window (the plan's or --window, else the usable range).",
     ...leftOut,
   ];
   for (const r of runs) {
     if ('warnings' in r.analysis) for (const w of r.analysis.warnings) notes.push(`${r.label}: ${w}`);
   }
-  return { title, runs: runs.map((r) => ({ label: r.label, kind: r.analysis.kind, simulated: r.origin?.simulated ?? false })), simulated, rows, notes };
+  return {
+    title,
+    runs: runs.map((r) => ({ label: r.label, kind: r.analysis.kind, simulated: r.origin?.simulated ?? false })),
+    simulated,
+    rows,
+    notes,
+  };
 }

@@ -4,7 +4,10 @@ import { analyzeDrift } from './drift-analysis.ts';
 import { analyzePushing } from './pushing-analysis.ts';
 import { driftScenarios } from '../../test/fixtures/drift-scenarios.ts';
 
-function series(n: number, fn: (i: number) => { f: number; c?: number }): { timeS: Float64Array; frequencyHz: Float64Array; temperatureC: Float64Array } {
+function series(
+  n: number,
+  fn: (i: number) => { f: number; c?: number },
+): { timeS: Float64Array; frequencyHz: Float64Array; temperatureC: Float64Array } {
   const timeS = new Float64Array(n);
   const frequencyHz = new Float64Array(n);
   const temperatureC = new Float64Array(n);
@@ -120,9 +123,14 @@ describe('analyzeDrift after the speed rework', () => {
   // the matrix-free line fit, in-place median and shared phase record must change no digit.
   // One deliberate change since (issue 9 item 5): the five-sample log no longer claims a
   // warm-up of 0 s beside a drift rate it cannot resolve; its entry says so.
-  const golden = JSON.parse(readFileSync(new URL('../../test/fixtures/drift-golden.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+  const golden = JSON.parse(
+    readFileSync(new URL('../../test/fixtures/drift-golden.json', import.meta.url), 'utf8'),
+  ) as Record<string, unknown>;
   it.each(driftScenarios().map((s) => [s.name, s] as const))('%s: same output, digit for digit', (name, scenario) => {
-    const now = JSON.parse(JSON.stringify(analyzeDrift(scenario.input, scenario.options))) as Record<string, unknown> & {
+    const now = JSON.parse(JSON.stringify(analyzeDrift(scenario.input, scenario.options))) as Record<
+      string,
+      unknown
+    > & {
       warmUp: Record<string, unknown>;
       adev: Record<string, unknown>[];
     };

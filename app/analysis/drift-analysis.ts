@@ -128,10 +128,13 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
       );
     } else if (Math.abs(drift.ppmH) - 2 * drift.sd > warmUp.limit) {
       settled = false;
-      warnings.push(`the drift rate exceeds the ${warmUp.limit} ppm/h warm-up limit beyond its uncertainty: still warming up`);
+      warnings.push(
+        `the drift rate exceeds the ${warmUp.limit} ppm/h warm-up limit beyond its uncertainty: still warming up`,
+      );
     }
   }
-  if (m - 1 < 10) warnings.push(`only ${m - 1} interval(s) in the log: drift rate and Allan deviation need at least 10`);
+  if (m - 1 < 10)
+    warnings.push(`only ${m - 1} interval(s) in the log: drift rate and Allan deviation need at least 10`);
 
   // Allan deviations of y = (f − mean)/mean, assuming the nominal interval.
   // One buffer holds the intervals, then (once their median is known) the phase: a fresh
@@ -142,11 +145,15 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
   const tau0S = kthSmallestInPlace(dts, (m - 1) >> 1); // the median interval; reorders dts
   let irregular = 0;
   for (let i = 1; i < m; i++) if (Math.abs((t[i] as number) - (t[i - 1] as number) - tau0S) > 0.1 * tau0S) irregular++;
-  if (irregular > 0) warnings.push(`${irregular} sample intervals differ from ${tau0S} s by > 10 %; Allan deviations assume even spacing`);
+  if (irregular > 0)
+    warnings.push(
+      `${irregular} sample intervals differ from ${tau0S} s by > 10 %; Allan deviations assume even spacing`,
+    );
   const y = new Float64Array(m);
   for (let i = 0; i < m; i++) y[i] = ((f[i] as number) - meanHz) / meanHz;
   const factors = options.averagingFactors;
-  if (factors?.some((f) => !Number.isInteger(f) || f < 1)) throw new AnalysisError('averaging factors must be whole numbers ≥ 1');
+  if (factors?.some((f) => !Number.isInteger(f) || f < 1))
+    throw new AnalysisError('averaging factors must be whole numbers ≥ 1');
   // One phase record serves all three statistics.
   const x = phaseFromFrequency(y, 0, m, tau0S, buffer);
   const allan = (kind: StabilityKind): StabilityPoint[] =>
@@ -167,7 +174,12 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
     tempcoPpmPerC: tempco ? (tempco.hz / meanHz) * 1e6 : null,
     tempcoHzPerC: tempco ? tempco.hz : null,
     driftPpmPerHour: drift ? drift.ppmH : null,
-    adev: oadev.map((p) => ({ tauS: p.tauS, adev: p.deviation, terms: p.terms, resolutionLimited: resolutionFloor !== null && p.deviation <= resolutionFloor * (1 + 1e-9) })),
+    adev: oadev.map((p) => ({
+      tauS: p.tauS,
+      adev: p.deviation,
+      terms: p.terms,
+      resolutionLimited: resolutionFloor !== null && p.deviation <= resolutionFloor * (1 + 1e-9),
+    })),
     resolutionFloor,
     driftSignificant: drift !== null && Number.isFinite(drift.sd) && Math.abs(drift.ppmH) >= 2 * drift.sd,
     tempcoSignificant: tempco !== null && Number.isFinite(tempco.sd) && Math.abs(tempco.hz) >= 2 * tempco.sd,
@@ -203,7 +215,13 @@ export function analyzeDrift(input: DriftInput, options: DriftOptions = {}): Dri
  * of them with a finite temperature). When every reading is valid the input
  * columns are used as they are (they are only read): no copy of a million samples.
  */
-function validSamples(input: DriftInput): { t: Float64Array; f: Float64Array; temp: Float64Array; m: number; mt: number } {
+function validSamples(input: DriftInput): {
+  t: Float64Array;
+  f: Float64Array;
+  temp: Float64Array;
+  m: number;
+  mt: number;
+} {
   const n = input.timeS.length;
   const inTemp = input.temperatureC;
   let m = 0;

@@ -22,7 +22,12 @@ export interface FtLoop {
  * lines fitted to each branch. Needs a return of at least half the excursion
  * and 0.5 °C overall, else null.
  */
-export function frequencyTemperatureLoop(temp: Float64Array, f: Float64Array, m: number, meanHz: number): FtLoop | null {
+export function frequencyTemperatureLoop(
+  temp: Float64Array,
+  f: Float64Array,
+  m: number,
+  meanHz: number,
+): FtLoop | null {
   let iMax = -1;
   let iMin = -1;
   for (let i = 0; i < m; i++) {

@@ -17,13 +17,7 @@ export interface WarmUp {
  * first window after which every window stays within the limit (allowing
  * two standard deviations of the window's slope for noise).
  */
-export function findWarmUp(
-  t: Float64Array,
-  f: Float64Array,
-  m: number,
-  meanHz: number,
-  limit: number,
-): WarmUp {
+export function findWarmUp(t: Float64Array, f: Float64Array, m: number, meanHz: number, limit: number): WarmUp {
   const windows = Math.max(1, Math.min(20, Math.floor(m / 10)));
   const size = Math.floor(m / windows);
   const toPpmH = (3600 * 1e6) / meanHz;

@@ -64,15 +64,23 @@ export function formatFigure(value: number | null | undefined, unit: string, opt
     if (decimals < 0) {
       // u ≥ 100 in this prefix: round both to u's two significant digits, no decimals.
       const step = Math.pow(10, -decimals);
-      return withUnit(`${minus(String(Math.round(value / scale / step) * step))} ± ${Math.round(us / step) * step}`, symbol, unit);
+      return withUnit(
+        `${minus(String(Math.round(value / scale / step) * step))} ± ${Math.round(us / step) * step}`,
+        symbol,
+        unit,
+      );
     }
-    return withUnit(`${minus((value / scale).toFixed(Math.min(decimals, 15)))} ± ${us.toFixed(Math.min(decimals, 15))}`, symbol, unit);
+    return withUnit(
+      `${minus((value / scale).toFixed(Math.min(decimals, 15)))} ± ${us.toFixed(Math.min(decimals, 15))}`,
+      symbol,
+      unit,
+    );
   }
   const r = options.resolution;
   if (r !== null && r !== undefined && Number.isFinite(r) && r > 0) {
     const { scale, symbol } = plain ? { scale: 1, symbol: '' } : siPrefixFor(value);
     const decimals = Math.max(0, -Math.floor(Math.log10(r / scale) + 1e-12));
-    return withUnit(minus((Math.round(value / r) * r / scale).toFixed(Math.min(decimals, 15))), symbol, unit);
+    return withUnit(minus(((Math.round(value / r) * r) / scale).toFixed(Math.min(decimals, 15))), symbol, unit);
   }
   const digits = options.digits ?? 4;
   if (value === 0) return withUnit('0', '', unit);
@@ -93,7 +101,12 @@ export function isSignificant(value: number | null | undefined, sd: number | nul
  * A rate or coefficient with its significance: "−3.2 ± 1.1 ppm/h" when |value| ≥ 2σ,
  * else "not significant over <span> (±σ)" — never a bare number that is noise.
  */
-export function formatSignificance(value: number | null | undefined, sd: number | null | undefined, unit: string, span: string): string {
+export function formatSignificance(
+  value: number | null | undefined,
+  sd: number | null | undefined,
+  unit: string,
+  span: string,
+): string {
   if (value === null || value === undefined || Number.isNaN(value)) return '—';
   if (isSignificant(value, sd)) return formatFigure(value, unit, { uncertainty: sd });
   return `not significant over ${span} (±${formatFigure(sd ?? NaN, unit, { digits: 2 })})`;

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { formatDuration, formatNumber, formatPlain, formatSi, formatSiWithUncertainty, siPrefixFor } from './format-si.ts';
+import {
+  formatDuration,
+  formatNumber,
+  formatPlain,
+  formatSi,
+  formatSiWithUncertainty,
+  siPrefixFor,
+} from './format-si.ts';
 
 // SI prefixes: BIPM SI Brochure (9th ed.), Table 7 — from memory.
 describe('formatSi', () => {

@@ -7,9 +7,10 @@
 import { SI_PREFIXES } from '../contract/si-prefixes.ts';
 
 // The one prefix table, with the unprefixed unit in its place (descending scale).
-const PREFIXES: readonly (readonly [number, string])[] = [...SI_PREFIXES.map((p): readonly [number, string] => [p.scale, p.symbol]), [1, ''] as const].sort(
-  (a, b) => b[0] - a[0],
-);
+const PREFIXES: readonly (readonly [number, string])[] = [
+  ...SI_PREFIXES.map((p): readonly [number, string] => [p.scale, p.symbol]),
+  [1, ''] as const,
+].sort((a, b) => b[0] - a[0]);
 
 /** The prefix scale and symbol for a value (engineering notation, 1 ≤ |x| < 1000). */
 export function siPrefixFor(value: number): { scale: number; symbol: string } {
@@ -51,7 +52,11 @@ export function formatSi(value: number | null | undefined, unit: string, signifi
  * "12.3456 ± 0.0021 MHz": the prefix follows the value, the decimals follow
  * the uncertainty shown to two significant digits (common practice, GUM §7.2.6).
  */
-export function formatSiWithUncertainty(value: number | null | undefined, uncertainty: number | null | undefined, unit: string): string {
+export function formatSiWithUncertainty(
+  value: number | null | undefined,
+  uncertainty: number | null | undefined,
+  unit: string,
+): string {
   if (value === null || value === undefined || Number.isNaN(value)) return '—';
   if (
     uncertainty === null ||

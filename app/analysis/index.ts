@@ -14,7 +14,15 @@ export {
   type StabilityKind,
   type StabilityPoint,
 } from './allan.ts';
-export { CsvError, detectCsvKind, driftInputFromTable, numericColumn, pushingInputFromTable, sweepInputFromTable, type CsvKind } from './csv-columns.ts';
+export {
+  CsvError,
+  detectCsvKind,
+  driftInputFromTable,
+  numericColumn,
+  pushingInputFromTable,
+  sweepInputFromTable,
+  type CsvKind,
+} from './csv-columns.ts';
 export {
   buildDatasheet,
   DatasheetInputError,
@@ -29,7 +37,14 @@ export {
 export { displayRow, renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from './datasheet-render.ts';
 export { analyzeDrift, type DriftAnalysis, type DriftInput, type DriftOptions } from './drift-analysis.ts';
 export { frequencyTemperatureLoop, type FtLoop } from './drift-loop.ts';
-export { formatDuration, formatNumber, formatPlain, formatSi, formatSiWithUncertainty, siPrefixFor } from './format-si.ts';
+export {
+  formatDuration,
+  formatNumber,
+  formatPlain,
+  formatSi,
+  formatSiWithUncertainty,
+  siPrefixFor,
+} from './format-si.ts';
 export { belowFloor, formatFigure, formatSignificance, isSignificant, type FigureOptions } from './format-figure.ts';
 export { loopOperatingPoint, type KvcoCorner, type OperatingPoint } from './loop-operating-point.ts';
 export { qualityWarnings, runQuality, type RunEventLike, type RunQuality } from './run-quality.ts';

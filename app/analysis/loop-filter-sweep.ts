@@ -20,7 +20,11 @@ export function loopFromSweep(sweep: SweepAnalysis, spec: Omit<LoopSpec, 'kvcoHz
   const ends = [Math.abs(sweep.kvco.minHzPerV), Math.abs(sweep.kvco.maxHzPerV)].sort((a, b) => a - b);
   const design = designLoopFilter({ ...spec, kvcoHzPerV: nominal });
   const labels = ['min', 'nominal', 'max'] as const;
-  const checks: (LoopCheck & { kvcoHzPerV: number })[] = loopAcrossKvco(design.filter, spec, [ends[0] as number, nominal, ends[1] as number]);
+  const checks: (LoopCheck & { kvcoHzPerV: number })[] = loopAcrossKvco(design.filter, spec, [
+    ends[0] as number,
+    nominal,
+    ends[1] as number,
+  ]);
   return {
     design,
     designKvcoHzPerV: nominal,

@@ -75,8 +75,17 @@ describe('loopFromSweep', () => {
   it('designs at the measured nominal Kvco and reports the spread at min/max', () => {
     // Varactor-like curve: f = 380 MHz + 20 MHz/V·V − 2 MHz/V²·V², Kvco 18 … 10 MHz/V over 0.5 … 2.5 V.
     const v = Float64Array.from({ length: 21 }, (_, i) => 0.5 + i / 10);
-    const sweep = analyzeSweep({ controlV: v, frequencyHz: v.map((x) => 380e6 + 20e6 * x - 2e6 * x * x) }, { nominalV: 1.5 });
-    const r = loopFromSweep(sweep, { referenceHz: 1e6, dividerN: 400, chargePumpA: 1e-3, loopBandwidthHz: 20e3, phaseMarginDeg: 50 });
+    const sweep = analyzeSweep(
+      { controlV: v, frequencyHz: v.map((x) => 380e6 + 20e6 * x - 2e6 * x * x) },
+      { nominalV: 1.5 },
+    );
+    const r = loopFromSweep(sweep, {
+      referenceHz: 1e6,
+      dividerN: 400,
+      chargePumpA: 1e-3,
+      loopBandwidthHz: 20e3,
+      phaseMarginDeg: 50,
+    });
     expect(r.designKvcoHzPerV).toBeCloseTo(14e6, 0);
     const [lo, nom, hi] = r.acrossKvco;
     expect(lo?.kvcoHzPerV).toBeCloseTo(10e6, 0);

@@ -57,7 +57,8 @@ function checkSpec(spec: LoopSpec): void {
   const positive: (keyof LoopSpec)[] = ['referenceHz', 'dividerN', 'chargePumpA', 'kvcoHzPerV', 'loopBandwidthHz'];
   for (const key of positive) {
     const v = spec[key];
-    if (typeof v !== 'number' || !(v > 0) || !Number.isFinite(v)) throw new RangeError(`${key} must be a positive number (got ${String(v)})`);
+    if (typeof v !== 'number' || !(v > 0) || !Number.isFinite(v))
+      throw new RangeError(`${key} must be a positive number (got ${String(v)})`);
   }
   if (!(spec.phaseMarginDeg > 0 && spec.phaseMarginDeg < 90)) {
     throw new RangeError(`phaseMarginDeg must lie between 0 and 90 (got ${spec.phaseMarginDeg})`);
@@ -71,7 +72,9 @@ export function designLoopFilter(spec: LoopSpec): LoopDesign {
   const warnings: string[] = [];
   if (spec.loopBandwidthHz > spec.referenceHz / 10) {
     // Continuous-time analysis holds only well below the comparison frequency (common practice: ≤ 1/10).
-    warnings.push('loop bandwidth is above 1/10 of the comparison frequency: the continuous-time design is unreliable there');
+    warnings.push(
+      'loop bandwidth is above 1/10 of the comparison frequency: the continuous-time design is unreliable there',
+    );
   }
   const wc = 2 * Math.PI * spec.loopBandwidthHz;
   const phi = (spec.phaseMarginDeg * Math.PI) / 180;
@@ -103,8 +106,7 @@ export function designLoopFilter(spec: LoopSpec): LoopDesign {
   const t1 = Math.sqrt(lo * hi);
   const t3 = ratio * t1;
   const t2 = gamma / (wc * wc * (t1 + t3));
-  const a0 =
-    (k / (wc * wc)) * Math.sqrt((1 + wc * wc * t2 * t2) / ((1 + wc * wc * t1 * t1) * (1 + wc * wc * t3 * t3)));
+  const a0 = (k / (wc * wc)) * Math.sqrt((1 + wc * wc * t2 * t2) / ((1 + wc * wc * t1 * t1) * (1 + wc * wc * t3 * t3)));
   const a1 = a0 * (t1 + t3);
   const a2 = a0 * t1 * t3;
   const c1 = (a2 / (t2 * t2)) * (1 + Math.sqrt(1 + (t2 / a2) * (t2 * a0 - a1)));

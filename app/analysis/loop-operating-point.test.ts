@@ -32,7 +32,10 @@ describe('loopOperatingPoint', () => {
   it('keeps a corner with Kvco ≤ 0 and gives its reason instead of dropping it', () => {
     // A curve that rises then falls back (peak at 2 V) with the window over all of it.
     const w = Float64Array.from({ length: 31 }, (_, i) => i / 10);
-    const folded = analyzeSweep({ controlV: w, frequencyHz: w.map((x) => 1e6 + 4e5 * x - 1e5 * x * x) }, { window: { fromV: 0, toV: 3, source: 'flag' } });
+    const folded = analyzeSweep(
+      { controlV: w, frequencyHz: w.map((x) => 1e6 + 4e5 * x - 1e5 * x * x) },
+      { window: { fromV: 0, toV: 3, source: 'flag' } },
+    );
     expect(folded.kvco.minHzPerV).toBeLessThan(0);
     expect(folded.kvco.signChangeAtV.length).toBeGreaterThan(0);
     const op = loopOperatingPoint(folded, 1.2e6, 1);

@@ -33,14 +33,20 @@ function interpolate(x: readonly number[], y: readonly number[], at: number): nu
   for (let i = 1; i < x.length; i++) {
     const x0 = x[i - 1] as number;
     const x1 = x[i] as number;
-    if (at >= x0 && at <= x1) return x1 > x0 ? (y[i - 1] as number) + ((at - x0) / (x1 - x0)) * ((y[i] as number) - (y[i - 1] as number)) : (y[i] as number);
+    if (at >= x0 && at <= x1)
+      return x1 > x0
+        ? (y[i - 1] as number) + ((at - x0) / (x1 - x0)) * ((y[i] as number) - (y[i - 1] as number))
+        : (y[i] as number);
   }
   return NaN;
 }
 
 function corner(label: KvcoCorner['label'], v: number, k: number, u: number, sense: number): KvcoCorner {
   // The loop uses |Kvco| of the curve's own sense; zero or the other sign means no (or inverted) loop gain.
-  const reason = !(sense * k > 0) || !Number.isFinite(k) ? `Kvco ${formatFigure(k, 'Hz/V', { uncertainty: u })} at ${formatFigure(v, 'V', { digits: 4 })}: no loop gain there (the curve is flat or folds over)` : null;
+  const reason =
+    !(sense * k > 0) || !Number.isFinite(k)
+      ? `Kvco ${formatFigure(k, 'Hz/V', { uncertainty: u })} at ${formatFigure(v, 'V', { digits: 4 })}: no loop gain there (the curve is flat or folds over)`
+      : null;
   return { label, v, kvcoHzPerV: k, uncertaintyHzPerV: u, usable: reason === null, reason };
 }
 
@@ -50,7 +56,9 @@ export function loopOperatingPoint(sweep: SweepAnalysis, referenceHz: number, di
   const sense = (curve.hz[curve.hz.length - 1] as number) >= (curve.hz[0] as number) ? 1 : -1;
   const lo = Math.min(curve.hz[0] as number, curve.hz[curve.hz.length - 1] as number);
   const hi = Math.max(curve.hz[0] as number, curve.hz[curve.hz.length - 1] as number);
-  const local = sweep.kvco.local.filter((e) => e.v >= sweep.fit.fromV - 1e-9 && e.v <= sweep.fit.toV + 1e-9).sort((a, b) => a.v - b.v);
+  const local = sweep.kvco.local
+    .filter((e) => e.v >= sweep.fit.fromV - 1e-9 && e.v <= sweep.fit.toV + 1e-9)
+    .sort((a, b) => a.v - b.v);
   const kv = local.map((e) => e.v);
   const corners: KvcoCorner[] = [];
   let lockV: number | null = null;
@@ -62,11 +70,22 @@ export function loopOperatingPoint(sweep: SweepAnalysis, referenceHz: number, di
     const xs = sense > 0 ? curve.hz : [...curve.hz].reverse();
     const vs = sense > 0 ? curve.v : [...curve.v].reverse();
     lockV = interpolate(xs, vs, targetHz);
-    const k = interpolate(kv, local.map((e) => e.hzPerV), lockV);
-    const ku = interpolate(kv, local.map((e) => e.uncertaintyHzPerV), lockV);
+    const k = interpolate(
+      kv,
+      local.map((e) => e.hzPerV),
+      lockV,
+    );
+    const ku = interpolate(
+      kv,
+      local.map((e) => e.uncertaintyHzPerV),
+      lockV,
+    );
     const fu = interpolate(curve.v, curve.sdHz, lockV);
     lockU = Math.abs(k) > 0 ? fu / Math.abs(k) : null;
-    const outside = lockV < sweep.window.fromV || lockV > sweep.window.toV ? `the lock point ${formatFigure(lockV, 'V', { digits: 4 })} lies outside the tuning window ${formatFigure(sweep.window.fromV, 'V', { digits: 4 })} … ${formatFigure(sweep.window.toV, 'V', { digits: 4 })}` : null;
+    const outside =
+      lockV < sweep.window.fromV || lockV > sweep.window.toV
+        ? `the lock point ${formatFigure(lockV, 'V', { digits: 4 })} lies outside the tuning window ${formatFigure(sweep.window.fromV, 'V', { digits: 4 })} … ${formatFigure(sweep.window.toV, 'V', { digits: 4 })}`
+        : null;
     corners.push(corner('lock', lockV, k, ku, sense));
     if (outside) message = outside;
   } else {

@@ -70,7 +70,8 @@ export function solveLineScaled(xs: Float64Array, ys: Float64Array, i0: number, 
   const maxNorm = Math.max(norm0, norm1);
   const coefficients = new Float64Array(2);
   const unscaledCovariance = new Float64Array(4);
-  if (norm1 === 0 || norm1 <= 1e-13 * maxNorm) return { centre, scale, coefficients, unscaledCovariance, fullRank: false };
+  if (norm1 === 0 || norm1 <= 1e-13 * maxNorm)
+    return { centre, scale, coefficients, unscaledCovariance, fullRank: false };
   const akk = ((xs[i0 + 1] as number) - centre) / scale - f;
   const alpha1 = akk > 0 ? -norm1 : norm1;
   const v1 = akk - alpha1;

@@ -30,7 +30,9 @@ describe.each([
   const fit = fitPolynomial(Float64Array.from(data.x), Float64Array.from(data.y), 0, data.x.length, data.degree);
 
   it('coefficients to ≥ 9 significant digits', () => {
-    data.certified.coefficients.forEach((want, i) => expect(lre(fit.coefficients[i] as number, want)).toBeGreaterThanOrEqual(9));
+    data.certified.coefficients.forEach((want, i) =>
+      expect(lre(fit.coefficients[i] as number, want)).toBeGreaterThanOrEqual(9),
+    );
   });
   it('coefficient standard deviations to ≥ 9 significant digits', () => {
     data.certified.coefficientStdDev.forEach((want, i) =>
@@ -131,4 +133,3 @@ describe('fitPolynomial: the matrix-free straight line', () => {
     expect(() => fitPolynomial(flat, f, 0, 5, 1)).toThrow('needs 2 distinct x values');
   });
 });
-

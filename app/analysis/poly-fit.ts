@@ -62,7 +62,13 @@ export function designMatrix(
 function solveScaled(xs: Float64Array, ys: Float64Array, i0: number, i1: number, p: number): ScaledSolution {
   const { a, rhs, centre, scale } = designMatrix(xs, ys, i0, i1, p);
   const sol = solveLeastSquaresInPlace(a, i1 - i0, p, rhs);
-  return { centre, scale, coefficients: sol.coefficients, unscaledCovariance: sol.unscaledCovariance, fullRank: sol.fullRank };
+  return {
+    centre,
+    scale,
+    coefficients: sol.coefficients,
+    unscaledCovariance: sol.unscaledCovariance,
+    fullRank: sol.fullRank,
+  };
 }
 
 /**

@@ -45,7 +45,10 @@ export function analyzePushing(input: PushingInput, nominalSupplyV?: number): Pu
   const fNom = evalPoly(line, nominal);
   const slope = line.coefficients[1] as number;
   const sd = v.length > 2 ? derivativeStdDev(line, nominal) : NaN;
-  const points: PushingAnalysis['points'] = pointSummaries(pts).map(({ v: supplyV, ...rest }) => ({ supplyV, ...rest }));
+  const points: PushingAnalysis['points'] = pointSummaries(pts).map(({ v: supplyV, ...rest }) => ({
+    supplyV,
+    ...rest,
+  }));
   return {
     kind: 'pushing',
     pushingHzPerV: slope,

@@ -32,7 +32,10 @@ function uniqueSorted(values: number[]): number[] {
   return [...new Set(values.map((v) => Number(v.toPrecision(12))))].sort((a, b) => a - b);
 }
 
-export function runQuality(table: ColumnTable, events: readonly RunEventLike[]): { quality: RunQuality; unsettledRows: Uint8Array } {
+export function runQuality(
+  table: ColumnTable,
+  events: readonly RunEventLike[],
+): { quality: RunQuality; unsettledRows: Uint8Array } {
   const n = table.rowCount;
   const controlV = numericColumn(table, 'control_v');
   const timeS = numericColumn(table, 'time_s');
@@ -94,10 +97,14 @@ function listV(values: number[], max = 8): string {
 export function qualityWarnings(q: RunQuality): string[] {
   const out: string[] = [];
   if (q.settleTimeouts.count > 0) {
-    out.push(`${q.settleTimeouts.count} point(s) hit the settle timeout${q.settleTimeouts.atV.length ? ` (at ${listV(q.settleTimeouts.atV)} V)` : ''}`);
+    out.push(
+      `${q.settleTimeouts.count} point(s) hit the settle timeout${q.settleTimeouts.atV.length ? ` (at ${listV(q.settleTimeouts.atV)} V)` : ''}`,
+    );
   }
   if (q.failedReadings.count > 0) {
-    out.push(`${q.failedReadings.count} reading(s) failed (counter timeout or error)${q.failedReadings.atV.length ? ` at ${listV(q.failedReadings.atV)} V` : ''}`);
+    out.push(
+      `${q.failedReadings.count} reading(s) failed (counter timeout or error)${q.failedReadings.atV.length ? ` at ${listV(q.failedReadings.atV)} V` : ''}`,
+    );
   }
   if (q.gaps > 0) out.push(`${q.gaps} gap(s) in the record`);
   if (q.linkRetries > 0) out.push(`${q.linkRetries} link loss/retry event(s)`);

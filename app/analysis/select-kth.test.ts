@@ -12,7 +12,14 @@ function lcg(seed: number): () => number {
 describe('kthSmallestInPlace', () => {
   it('matches the sorted array at every k, with and without repeated values', () => {
     const rnd = lcg(3);
-    for (const [n, distinct] of [[1, 1], [2, 2], [7, 3], [100, 100], [1001, 4], [5000, 5000]] as const) {
+    for (const [n, distinct] of [
+      [1, 1],
+      [2, 2],
+      [7, 3],
+      [100, 100],
+      [1001, 4],
+      [5000, 5000],
+    ] as const) {
       const values = Float64Array.from({ length: n }, () => Math.floor(rnd() * distinct) * 0.25 - 3);
       const sorted = values.slice().sort();
       for (const k of [0, n >> 1, (n - 1) >> 1, n - 1]) expect(kthSmallestInPlace(values.slice(), k)).toBe(sorted[k]);

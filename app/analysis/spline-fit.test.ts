@@ -34,7 +34,8 @@ function worstSlopeError(law: Law, fit: ReturnType<typeof fitSpline>, v: Float64
   for (let i = 0; i < v.length; i++) {
     const x = v[i] as number;
     const err = splineSlope(fit, x) - law.dfdv(x);
-    if (i === 0 || i === v.length - 1) expect(Math.abs(err)).toBeLessThanOrEqual(Math.max(2 * splineSlopeSd(fit, x), 0.02 * Math.abs(law.dfdv(x))));
+    if (i === 0 || i === v.length - 1)
+      expect(Math.abs(err)).toBeLessThanOrEqual(Math.max(2 * splineSlopeSd(fit, x), 0.02 * Math.abs(law.dfdv(x))));
     else worst = Math.max(worst, Math.abs(err / law.dfdv(x)));
   }
   return worst;

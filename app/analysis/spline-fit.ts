@@ -69,7 +69,16 @@ function basisAt(fromV: number, h: number, segments: number, x: number, derivati
   if (j > segments - 1) j = segments - 1;
   const t = u - j;
   const s = 1 - t;
-  if (!derivative) return { j, b: [(s * s * s) / 6, (3 * t * t * t - 6 * t * t + 4) / 6, (-3 * t * t * t + 3 * t * t + 3 * t + 1) / 6, (t * t * t) / 6] };
+  if (!derivative)
+    return {
+      j,
+      b: [
+        (s * s * s) / 6,
+        (3 * t * t * t - 6 * t * t + 4) / 6,
+        (-3 * t * t * t + 3 * t * t + 3 * t + 1) / 6,
+        (t * t * t) / 6,
+      ],
+    };
   return { j, b: [(-s * s) / 2 / h, (3 * t * t - 4 * t) / 2 / h, (-3 * t * t + 2 * t + 1) / 2 / h, (t * t) / 2 / h] };
 }
 
@@ -107,7 +116,8 @@ function solveBand(l: Float64Array, k: number, rhs: Float64Array, out: Float64Ar
 /** Band of A⁻¹ from A = L·Lᵀ (Hutchinson & de Hoog 1985): out[i·(BAND+1)+d] = (A⁻¹)[i][i+d]. */
 function inverseBand(l: Float64Array, k: number, out: Float64Array): void {
   const w = BAND + 1;
-  const at = (i: number, j: number): number => (i <= j ? (out[i * w + (j - i)] as number) : (out[j * w + (i - j)] as number));
+  const at = (i: number, j: number): number =>
+    i <= j ? (out[i * w + (j - i)] as number) : (out[j * w + (i - j)] as number);
   for (let i = k - 1; i >= 0; i--) {
     const lii = l[i * k + i] as number;
     for (let j = Math.min(k - 1, i + BAND); j >= i; j--) {
@@ -118,7 +128,14 @@ function inverseBand(l: Float64Array, k: number, out: Float64Array): void {
   }
 }
 
-export function fitUniformSpline(xs: Float64Array, ys: Float64Array, u: Float64Array, i0: number, i1: number, options: SplineOptions = {}): SplineFit {
+export function fitUniformSpline(
+  xs: Float64Array,
+  ys: Float64Array,
+  u: Float64Array,
+  i0: number,
+  i1: number,
+  options: SplineOptions = {},
+): SplineFit {
   const n = i1 - i0;
   if (n < 6) throw new RangeError(`a spline needs at least 6 points (got ${n})`);
   const fromV = xs[i0] as number;
@@ -146,14 +163,17 @@ export function fitUniformSpline(xs: Float64Array, ys: Float64Array, u: Float64A
     const { j, b } = basisAt(fromV, h, segments, x, false);
     for (let p = 0; p < 4; p++) {
       c[j + p] = (c[j + p] as number) + wi * (b[p] as number) * r;
-      for (let s = 0; s <= p; s++) g[(j + p) * k + j + s] = (g[(j + p) * k + j + s] as number) + wi * (b[p] as number) * (b[s] as number);
+      for (let s = 0; s <= p; s++)
+        g[(j + p) * k + j + s] = (g[(j + p) * k + j + s] as number) + wi * (b[p] as number) * (b[s] as number);
     }
   }
   // Third-difference penalty P = DᵀD, D rows (−1, 3, −3, 1); lower triangle.
   const pen = new Float64Array(k * k);
   const d3 = [-1, 3, -3, 1];
   for (let r = 0; r + 3 < k; r++) {
-    for (let p = 0; p < 4; p++) for (let s = 0; s <= p; s++) pen[(r + p) * k + r + s] = (pen[(r + p) * k + r + s] as number) + (d3[p] as number) * (d3[s] as number);
+    for (let p = 0; p < 4; p++)
+      for (let s = 0; s <= p; s++)
+        pen[(r + p) * k + r + s] = (pen[(r + p) * k + r + s] as number) + (d3[p] as number) * (d3[s] as number);
   }
   let trG = 0;
   let trP = 0;
@@ -167,7 +187,8 @@ export function fitUniformSpline(xs: Float64Array, ys: Float64Array, u: Float64A
   const inv = new Float64Array(k * (BAND + 1));
   const build = (lambda: number, extra: Uint8Array | null, kappa: number): boolean => {
     for (let i = 0; i < k; i++) {
-      for (let j = Math.max(0, i - BAND); j <= i; j++) a[i * k + j] = (g[i * k + j] as number) + lambda * (pen[i * k + j] as number);
+      for (let j = Math.max(0, i - BAND); j <= i; j++)
+        a[i * k + j] = (g[i * k + j] as number) + lambda * (pen[i * k + j] as number);
     }
     if (extra) {
       for (let j = 0; j + 1 < k; j++) {
@@ -333,7 +354,14 @@ function warpSlope(pilot: SplineFit, v: number): number {
  * low-bias end of a varactor), so the penalty stops fighting the curvature there.
  * The second fit is kept only if its GCV score is lower.
  */
-export function fitSpline(xs: Float64Array, ys: Float64Array, u: Float64Array, i0: number, i1: number, options: SplineOptions = {}): SplineFit {
+export function fitSpline(
+  xs: Float64Array,
+  ys: Float64Array,
+  u: Float64Array,
+  i0: number,
+  i1: number,
+  options: SplineOptions = {},
+): SplineFit {
   const pilot = fitUniformSpline(xs, ys, u, i0, i1, options);
   if (!pilot.monotone) return pilot;
   const n = i1 - i0;

@@ -19,7 +19,9 @@ function toInput(readings: Reading[], gateS?: number): SweepInput {
 }
 
 /** Exact straight line f = 100 kHz + 200 kHz/V, stalled at and below 0.5 V, 0..3 V in 0.1 V steps. */
-function lineSweep(opts: { scatterBelow?: number; dir?: 1 | -1; offsetHz?: number; stallAtOrBelow?: number } = {}): Reading[] {
+function lineSweep(
+  opts: { scatterBelow?: number; dir?: 1 | -1; offsetHz?: number; stallAtOrBelow?: number } = {},
+): Reading[] {
   const out: Reading[] = [];
   const stall = opts.stallAtOrBelow ?? 0.5;
   for (let k = 0; k <= 30; k++) {
@@ -77,7 +79,7 @@ describe('analyzeSweep on an exact straight line with a stall edge', () => {
   });
   it('carries ±1 count in 0.1 s into the uncertainties', () => {
     // Per point: scatter (sd 1.155 Hz over 4 readings) and 10 Hz/√3 rectangular.
-    const perPoint = Math.sqrt((4 / 3) / 4 + 100 / 3);
+    const perPoint = Math.sqrt(4 / 3 / 4 + 100 / 3);
     expect(result.tuningRange.fMinUncertaintyHz).toBeCloseTo(perPoint, 9);
     // Straight-line slope: σ/√Sxx with σ the per-point uncertainty (it exceeds the ±1 Hz residuals) and
     // Sxx = Σ(v − v̄)² = n(n² − 1)h²/12 = 13 V² for 25 points 0.1 V apart (least squares, common practice).
@@ -153,7 +155,8 @@ describe('analyzeSweep on a quadratic tuning curve', () => {
     const fs = readings.map((r) => r.f);
     const vm = vs.reduce((a, b) => a + b) / vs.length;
     const fm = fs.reduce((a, b) => a + b) / fs.length;
-    const slope = vs.reduce((s, v, i) => s + (v - vm) * ((fs[i] as number) - fm), 0) / vs.reduce((s, v) => s + (v - vm) ** 2, 0);
+    const slope =
+      vs.reduce((s, v, i) => s + (v - vm) * ((fs[i] as number) - fm), 0) / vs.reduce((s, v) => s + (v - vm) ** 2, 0);
     const worst = Math.max(...vs.map((v, i) => Math.abs((fs[i] as number) - (fm + slope * (v - vm)))));
     const span = Math.max(...fs) - Math.min(...fs);
     expect(result.kvco.linear.maxLinearityErrorPct).toBeCloseTo((100 * worst) / span, 9);

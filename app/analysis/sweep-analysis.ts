@@ -76,7 +76,9 @@ export function turningPoint(meanHz: Float64Array, u: Float64Array, i0: number, 
   let worstBack = 0;
   let iWorst = iExt;
   for (let i = iExt + 1; i < i1; i++) {
-    const back = rising ? (meanHz[iExt] as number) - (meanHz[i] as number) : (meanHz[i] as number) - (meanHz[iExt] as number);
+    const back = rising
+      ? (meanHz[iExt] as number) - (meanHz[i] as number)
+      : (meanHz[i] as number) - (meanHz[iExt] as number);
     if (back > worstBack) [worstBack, iWorst] = [back, i];
   }
   const noise = 3 * Math.hypot(u[iExt] as number, u[iWorst] as number);
@@ -90,13 +92,21 @@ export function turningPoint(meanHz: Float64Array, u: Float64Array, i0: number, 
  * there, and a loop's gain vanishes with it. The 10 % default is tunebench's
  * own rule, not a published one.
  */
-export function flatTopEnd(v: Float64Array, meanHz: Float64Array, u: Float64Array, i0: number, i1: number, fraction: number): number {
+export function flatTopEnd(
+  v: Float64Array,
+  meanHz: Float64Array,
+  u: Float64Array,
+  i0: number,
+  i1: number,
+  fraction: number,
+): number {
   const steps = i1 - i0 - 1;
   if (steps < 3 || !(fraction > 0)) return i1;
   const sense = (meanHz[i1 - 1] as number) >= (meanHz[i0] as number) ? 1 : -1;
   const slopes = new Float64Array(steps);
   for (let i = i0; i < i1 - 1; i++) {
-    slopes[i - i0] = (sense * ((meanHz[i + 1] as number) - (meanHz[i] as number))) / ((v[i + 1] as number) - (v[i] as number));
+    slopes[i - i0] =
+      (sense * ((meanHz[i + 1] as number) - (meanHz[i] as number))) / ((v[i + 1] as number) - (v[i] as number));
   }
   const sorted = Float64Array.from(slopes).sort();
   const median = sorted[steps >> 1] as number;
@@ -152,7 +162,9 @@ function fitModel(
         degree: 3,
         coefficients: [],
         coefficientStdDev: [],
-        selection: 'penalised cubic regression spline (P-spline), weights 1/u², smoothing by generalised cross-validation' + (monotone ? `, constrained ${monotone === 'rising' ? 'non-decreasing' : 'non-increasing'}` : ''),
+        selection:
+          'penalised cubic regression spline (P-spline), weights 1/u², smoothing by generalised cross-validation' +
+          (monotone ? `, constrained ${monotone === 'rising' ? 'non-decreasing' : 'non-increasing'}` : ''),
         residualStdDevHz: fit.residualStdDev,
         pointScatterHz: rmsU,
         effectiveDegreesOfFreedom: fit.edf,
@@ -167,14 +179,16 @@ function fitModel(
       },
     };
   }
-  if (spec === 'spline') warnings.push(`only ${n} points to fit: a spline needs 6, so the tuning curve is a polynomial (AICc)`);
+  if (spec === 'spline')
+    warnings.push(`only ${n} points to fit: a spline needs 6, so the tuning curve is a polynomial (AICc)`);
   let fit: PolyFit;
   let selection: string;
   if (spec === 'spline' || spec === 'auto') {
     fit = fitPolynomialAuto(v, f, 0, n, 6).fit;
     selection = 'auto: corrected Akaike information criterion (AICc) over degrees 1–6';
   } else {
-    if (!Number.isInteger(spec) || spec < 1 || spec > 6) throw new AnalysisError(`fit degree must be 1–6 (got ${spec})`);
+    if (!Number.isInteger(spec) || spec < 1 || spec > 6)
+      throw new AnalysisError(`fit degree must be 1–6 (got ${spec})`);
     const degree = Math.min(spec, n - 1);
     if (degree < spec) warnings.push(`fit degree lowered from ${spec} to ${degree}: only ${n} points to fit`);
     fit = fitPolynomial(v, f, 0, n, degree);
@@ -227,9 +241,15 @@ function curveSamples(model: TuningModel, fromV: number, toV: number): SweepAnal
  * the median step slope, the bend lies somewhere in it too, and the interval
  * starts one point lower (the edge is quoted with the interval it can be in).
  */
-function saturationEdge(v: Float64Array, f: Float64Array, i0: number, i1: number): { edgeV: number; uncertaintyV: number } {
+function saturationEdge(
+  v: Float64Array,
+  f: Float64Array,
+  i0: number,
+  i1: number,
+): { edgeV: number; uncertaintyV: number } {
   const slopes: number[] = [];
-  for (let i = i0; i < i1 - 1; i++) slopes.push(Math.abs(((f[i + 1] as number) - (f[i] as number)) / ((v[i + 1] as number) - (v[i] as number))));
+  for (let i = i0; i < i1 - 1; i++)
+    slopes.push(Math.abs(((f[i + 1] as number) - (f[i] as number)) / ((v[i + 1] as number) - (v[i] as number))));
   const sorted = [...slopes].sort((a, b) => a - b);
   const median = sorted[sorted.length >> 1] ?? 0;
   const last = slopes[slopes.length - 1] ?? Infinity;
@@ -296,9 +316,14 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     window = { fromV: usableFromV, toV: usableToV, source: 'auto' };
   }
   const [w0, w1] = indexRange(points.v, edges.blockI0, edges.blockI1, window.fromV, window.toV);
-  if (w1 - w0 < 2) throw new AnalysisError(`window ${window.fromV}–${window.toV} V holds ${w1 - w0} measured point(s); need at least 2`);
+  if (w1 - w0 < 2)
+    throw new AnalysisError(
+      `window ${window.fromV}–${window.toV} V holds ${w1 - w0} measured point(s); need at least 2`,
+    );
   if (window.source !== 'auto' && (window.fromV < usableFromV - 1e-9 || window.toV > usableToV + 1e-9)) {
-    warnings.push(`the tuning window ${window.fromV}–${window.toV} V reaches beyond the usable range ${usableFromV}–${usableToV} V`);
+    warnings.push(
+      `the tuning window ${window.fromV}–${window.toV} V reaches beyond the usable range ${usableFromV}–${usableToV} V`,
+    );
   }
 
   // The fit range: the user's choice, else the window when one was given, else the usable range.
@@ -316,7 +341,9 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     else keep.push(i);
   }
   if (leftOut.length > 0) {
-    warnings.push(`${leftOut.length} point(s) never settled and are left out of the fit (at ${leftOut.join(', ')} V); --keep-unsettled keeps them`);
+    warnings.push(
+      `${leftOut.length} point(s) never settled and are left out of the fit (at ${leftOut.join(', ')} V); --keep-unsettled keeps them`,
+    );
   }
   if (keep.length < 2) throw new AnalysisError(`the fit range holds ${keep.length} usable point(s); need at least 2`);
   let rmsU = 0;
@@ -372,10 +399,13 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     if (e.hzPerV > kMax) [kMax, kMaxU, kMaxV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
   }
   if (wrongWay.length > 0) {
-    warnings.push(`the measured curve falls back beyond its uncertainty at ${wrongWay.join(', ')} V inside the window: Kvco changes sign there`);
+    warnings.push(
+      `the measured curve falls back beyond its uncertainty at ${wrongWay.join(', ')} V inside the window: Kvco changes sign there`,
+    );
   }
   const nominalV = options.nominalV ?? (window.fromV + window.toV) / 2;
-  if (nominalV < fromV || nominalV > toV) warnings.push(`nominal point ${nominalV} V lies outside the fitted range ${fromV}–${toV} V`);
+  if (nominalV < fromV || nominalV > toV)
+    warnings.push(`nominal point ${nominalV} V lies outside the fitted range ${fromV}–${toV} V`);
   const nominal = fitKvco(model, Math.min(Math.max(nominalV, fromV), toV));
 
   let iMin = i0;
@@ -388,7 +418,9 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   if (belowFloor(linear.maxLinearityErrorPct, 100, 1e-12)) linear.maxLinearityErrorPct = 0;
   const limitPct = options.linearityLimitPct ?? 5;
   const other = primary === up ? down : null;
-  const hysteresis: Hysteresis | null = other ? compareDirections(primary.points, primary.edges, other.points, other.edges) : null;
+  const hysteresis: Hysteresis | null = other
+    ? compareDirections(primary.points, primary.edges, other.points, other.edges)
+    : null;
   if (edges.upperStallV !== null) warnings.push(`oscillation stops again above ${edges.upperStallV} V`);
 
   return {
@@ -423,7 +455,8 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
       typHzPerV: nominal.hzPerV,
       typUncertaintyHzPerV: nominal.sd,
       // Ratio of magnitudes, so a falling (negative-gain) curve reads the same; NaN if the sign changes.
-      maxToMinRatio: kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
+      maxToMinRatio:
+        kMin * kMax > 0 ? Math.max(Math.abs(kMin), Math.abs(kMax)) / Math.min(Math.abs(kMin), Math.abs(kMax)) : NaN,
       turnsBackAboveV: turn === null ? null : (points.v[turn] as number),
       flatAboveV: i1 < afterTurn ? (points.v[i1 - 1] as number) : null,
       saturation,
@@ -446,6 +479,10 @@ function pointsJson(points: PointSet, edges: Edges, model: TuningModel): SweepAn
   return pointSummaries(points).map((row, i) => {
     const inFit = row.v >= model.fromV - tol && row.v <= model.toV + tol;
     // The flags go onto each row in place: a million-point sweep makes no second copy of its rows.
-    return Object.assign(row, { unstable: edges.unstable[i] === 1, unsettled: points.unsettled[i] === 1, fitHz: inFit ? model.value(row.v) : null });
+    return Object.assign(row, {
+      unstable: edges.unstable[i] === 1,
+      unsettled: points.unsettled[i] === 1,
+      fitHz: inFit ? model.value(row.v) : null,
+    });
   });
 }

@@ -54,7 +54,7 @@ export function findEdges(points: PointSet, options: EdgeOptions = {}): Edges {
   // Longest contiguous run of points where most readings oscillate (lowest on ties).
   let bestI0 = 0;
   let bestI1 = 0;
-  for (let i = 0; i < n; ) {
+  for (let i = 0; i < n;) {
     if (oscillatingFraction(points, i) < 0.5) {
       i++;
       continue;
@@ -68,7 +68,8 @@ export function findEdges(points: PointSet, options: EdgeOptions = {}): Edges {
     i = j;
   }
   let anyStalled = false;
-  for (let i = 0; i < n; i++) if ((points.nNoOsc[i] as number) > 0 && (points.nOsc[i] as number) === 0) anyStalled = true;
+  for (let i = 0; i < n; i++)
+    if ((points.nNoOsc[i] as number) > 0 && (points.nOsc[i] as number) === 0) anyStalled = true;
   const unstable = new Uint8Array(n);
   const rel = new Float64Array(n);
   let nRel = 0;

@@ -111,7 +111,12 @@ const GRID = 257;
  * uniform grid by a two-pointer sweep (greedy: grows the right end while the
  * window passes, then moves the left end).
  */
-export function widestLinearRange(model: TuningModel, fromV: number, toV: number, limitPct: number): WidestRange | null {
+export function widestLinearRange(
+  model: TuningModel,
+  fromV: number,
+  toV: number,
+  limitPct: number,
+): WidestRange | null {
   if (!(toV > fromV)) return null;
   const gv = new Float64Array(GRID);
   const gf = new Float64Array(GRID);

@@ -120,7 +120,9 @@ export function oscillatingFraction(points: PointSet, i: number): number {
 }
 
 /** One plain row per point (for results and JSON): voltage, mean, SD, readings, of which no oscillation. */
-export function pointSummaries(points: PointSet): { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number }[] {
+export function pointSummaries(
+  points: PointSet,
+): { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number }[] {
   const rows = [];
   for (let i = 0; i < points.count; i++) {
     rows.push({

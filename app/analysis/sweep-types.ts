@@ -80,9 +80,17 @@ export interface SweepAnalysis {
   window: { fromV: number; toV: number; source: 'plan' | 'flag' | 'auto' };
   /** The automatic usable range (stable, before a turn or flat top). */
   usableRange: { fromV: number; toV: number };
-  points: { v: number; meanHz: number; sdHz: number; readings: number; noOscillation: number; unstable: boolean; unsettled: boolean;
+  points: {
+    v: number;
+    meanHz: number;
+    sdHz: number;
+    readings: number;
+    noOscillation: number;
+    unstable: boolean;
+    unsettled: boolean;
     /** The fitted curve at this point (null outside the fitted range): residual = meanHz − fitHz. */
-    fitHz: number | null }[];
+    fitHz: number | null;
+  }[];
   hysteresis: Hysteresis | null;
   counter: { gateS: number | null; resolutionHz: number | null };
   warnings: string[];

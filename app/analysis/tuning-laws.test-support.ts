@@ -18,7 +18,9 @@ export interface Law {
   dfdv(v: number): number;
 }
 
-export function rcSoftSaturatingLaw(p = { rc: 1e-4, v0: 1.1, v1: 2.0, td: 6e-6, a: 1, b: 0.45, vs: 4.7, s: 0.12 }): Law {
+export function rcSoftSaturatingLaw(
+  p = { rc: 1e-4, v0: 1.1, v1: 2.0, td: 6e-6, a: 1, b: 0.45, vs: 4.7, s: 0.12 },
+): Law {
   const vc = (v: number): number => -p.s * Math.log(Math.exp(-(p.a * v + p.b) / p.s) + Math.exp(-p.vs / p.s));
   const dvc = (v: number): number => {
     const x = p.a * v + p.b;

@@ -46,7 +46,9 @@ export function polyModel(fit: PolyFit, fromV: number, toV: number, sigmaHz: num
         pow *= u;
       }
       let s = 0;
-      for (let i = 0; i < p; i++) for (let j = 0; j < p; j++) s += (x[i] as number) * (x[j] as number) * (fit.scaledUnscaledCovariance[i * p + j] as number);
+      for (let i = 0; i < p; i++)
+        for (let j = 0; j < p; j++)
+          s += (x[i] as number) * (x[j] as number) * (fit.scaledUnscaledCovariance[i * p + j] as number);
       return sigmaHz * Math.sqrt(Math.max(s, 0));
     },
     slopeSd: (v) => derivativeStdDev(fit, v, sigmaHz),

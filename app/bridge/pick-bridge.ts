@@ -30,7 +30,9 @@ export function socketUrlFor(location: { protocol: string; host: string; search:
 }
 
 function isBenchApi(value: unknown): value is BenchApi {
-  return typeof value === 'object' && value !== null && typeof (value as { subscribe?: unknown }).subscribe === 'function';
+  return (
+    typeof value === 'object' && value !== null && typeof (value as { subscribe?: unknown }).subscribe === 'function'
+  );
 }
 
 export function pickBridge(win: Window): Bridge {

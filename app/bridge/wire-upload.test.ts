@@ -21,7 +21,9 @@ describe('streamed import parts (app/contract/wire.ts)', () => {
   });
 
   it('the page client sends a short import as one JSON call and a long one as binary parts', () => {
-    expect(wireMessages({ id: 1, method: 'importCsv', params: ['a.csv', 'x,y\n1,2\n', 'd'] })).toEqual([JSON.stringify({ id: 1, method: 'importCsv', params: ['a.csv', 'x,y\n1,2\n', 'd'] })]);
+    expect(wireMessages({ id: 1, method: 'importCsv', params: ['a.csv', 'x,y\n1,2\n', 'd'] })).toEqual([
+      JSON.stringify({ id: 1, method: 'importCsv', params: ['a.csv', 'x,y\n1,2\n', 'd'] }),
+    ]);
     const long = wireMessages({ id: 2, method: 'importCsv', params: ['b.csv', 'x'.repeat(600_000), 'd'] });
     expect(long).toHaveLength(3);
     expect(long.every((m) => m instanceof Uint8Array)).toBe(true);

@@ -86,7 +86,9 @@ const connectionState = { connected: true, simulated: true, roles: [], error: nu
 
 describe('WebSocket BenchApi client', () => {
   it('builds the socket URL from the page location and its token', () => {
-    expect(socketUrlFor({ protocol: 'http:', host: '127.0.0.1:7788', search: '?token=a%2Bb' })).toBe('ws://127.0.0.1:7788/api?token=a%2Bb');
+    expect(socketUrlFor({ protocol: 'http:', host: '127.0.0.1:7788', search: '?token=a%2Bb' })).toBe(
+      'ws://127.0.0.1:7788/api?token=a%2Bb',
+    );
     expect(socketUrlFor({ protocol: 'https:', host: 'lab.local', search: '' })).toBe('wss://lab.local/api?token=');
   });
 
@@ -171,7 +173,9 @@ describe('WebSocket BenchApi client', () => {
     const events: BenchEvent[] = [];
     bench.api.subscribe((e) => events.push(e));
     last().accept();
-    last().reply({ event: { type: 'samples', runId: 'r1', rows: [{ control_v: 1, frequency_hz: null, status: 'no-signal' }] } });
+    last().reply({
+      event: { type: 'samples', runId: 'r1', rows: [{ control_v: 1, frequency_hz: null, status: 'no-signal' }] },
+    });
     last().reply({ event: { type: 'live', readout: { controlSetV: 'x' } } });
     last().onmessage?.({ data: 'not json' });
     expect(events[0]?.type).toBe('samples');
@@ -205,14 +209,23 @@ describe('WebSocket BenchApi client', () => {
       text: { status: { levels: ['ok', 'no-signal'], codes: new Uint8Array([0, 1, 0, 0]) } },
       rowCount: 4,
     };
-    const frame = encodeBinaryReply({ id, ok: true, result: { meta: runMeta, samples, events: [{ time_s: 0, type: 'start' }] } });
+    const frame = encodeBinaryReply({
+      id,
+      ok: true,
+      result: { meta: runMeta, samples, events: [{ time_s: 0, type: 'start' }] },
+    });
     if (!frame) throw new Error('expected a binary frame');
     // As the server sends it: consecutive parts (small here so there are several).
     for (const part of frameParts(frame, 64)) last().replyBinary(part);
     const detail = await pending;
     const got = detail.samples.numeric.frequency_hz;
     expect(got).toBeInstanceOf(Float64Array);
-    expect(Array.from(got ?? []).map((v) => (Object.is(v, -0) ? '-0' : String(v)))).toEqual(['400000000', 'NaN', '400000000.1', '-0']);
+    expect(Array.from(got ?? []).map((v) => (Object.is(v, -0) ? '-0' : String(v)))).toEqual([
+      '400000000',
+      'NaN',
+      '400000000.1',
+      '-0',
+    ]);
     expect(detail.samples.text.status).toEqual({ levels: ['ok', 'no-signal'], codes: new Uint8Array([0, 1, 0, 0]) });
     expect(detail.events).toEqual([{ time_s: 0, type: 'start' }]);
   });
@@ -223,7 +236,9 @@ describe('WebSocket BenchApi client', () => {
     const pending = bench.api.openRun('r1');
     const id = last().calls()[0]?.id;
     const samples = { names: ['time_s'], numeric: { time_s: new Float64Array([0, 1, 3]) }, text: {}, rowCount: 4 };
-    last().replyBinary(encodeBinaryReply({ id, ok: true, result: { meta: runMeta, samples, events: [] } }) as Uint8Array);
+    last().replyBinary(
+      encodeBinaryReply({ id, ok: true, result: { meta: runMeta, samples, events: [] } }) as Uint8Array,
+    );
     const error = (await pending.catch((e: unknown) => e)) as BenchCallError;
     expect(error).toBeInstanceOf(BenchCallError);
     expect(error.field).toBe('result.samples.numeric.time_s');

@@ -71,7 +71,13 @@ const STREAM_IMPORT_ABOVE_CHARS = 64 * 1024;
  */
 export function wireMessages(call: WireCall): (string | Uint8Array)[] {
   const [fileName, text, dutId] = call.params;
-  if (call.method !== 'importCsv' || typeof text !== 'string' || typeof fileName !== 'string' || typeof dutId !== 'string' || text.length <= STREAM_IMPORT_ABOVE_CHARS) {
+  if (
+    call.method !== 'importCsv' ||
+    typeof text !== 'string' ||
+    typeof fileName !== 'string' ||
+    typeof dutId !== 'string' ||
+    text.length <= STREAM_IMPORT_ABOVE_CHARS
+  ) {
     return [JSON.stringify(call)];
   }
   return encodeImportParts({ id: call.id, fileName, dutId }, text);
@@ -108,12 +114,17 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     for (const listener of eventListeners) listener(event);
   }
 
-  function settle(id: number, outcome: { ok: true; result: unknown } | { ok: false; message: string; field?: string }): void {
+  function settle(
+    id: number,
+    outcome: { ok: true; result: unknown } | { ok: false; message: string; field?: string },
+  ): void {
     const pending = inFlight.get(id);
     if (!pending) return; // a reply to a call already failed by a dropped link
     inFlight.delete(id);
     if (!outcome.ok) {
-      pending.reject(new BenchCallError(pending.method, outcome.message, outcome.field ? { field: outcome.field } : {}));
+      pending.reject(
+        new BenchCallError(pending.method, outcome.message, outcome.field ? { field: outcome.field } : {}),
+      );
       return;
     }
     const checked = resultSchemas[pending.method].safeParse(outcome.result);
@@ -121,7 +132,11 @@ export function createWsBench(options: WsBenchOptions): WsBench {
     if (checked.success) pending.resolve(checked.data);
     else {
       const issue = firstIssue(checked.error);
-      pending.reject(new BenchCallError(pending.method, `unexpected reply from main: ${issue.message}`, { field: `result.${issue.field}` }));
+      pending.reject(
+        new BenchCallError(pending.method, `unexpected reply from main: ${issue.message}`, {
+          field: `result.${issue.field}`,
+        }),
+      );
     }
   }
 
@@ -178,7 +193,12 @@ export function createWsBench(options: WsBenchOptions): WsBench {
         emit({ type: 'error', message: `main sent an unreadable event (event.${issue.field}: ${issue.message})` });
       }
     } else if (value.ok) settle(value.id, { ok: true, result: value.result });
-    else settle(value.id, { ok: false, message: value.error.message, ...(value.error.field ? { field: value.error.field } : {}) });
+    else
+      settle(value.id, {
+        ok: false,
+        message: value.error.message,
+        ...(value.error.field ? { field: value.error.field } : {}),
+      });
   }
 
   function flushUnsent(): void {
@@ -193,7 +213,9 @@ export function createWsBench(options: WsBenchOptions): WsBench {
   function failInFlight(): void {
     for (const [id, pending] of inFlight) {
       inFlight.delete(id);
-      pending.reject(new BenchCallError(pending.method, 'link to the bench lost before the reply came', { linkLost: true }));
+      pending.reject(
+        new BenchCallError(pending.method, 'link to the bench lost before the reply came', { linkLost: true }),
+      );
     }
   }
 

@@ -39,10 +39,23 @@ describe('BenchApi parameter schemas', () => {
   });
 
   it('refuse run ids that could leave the runs folder', () => {
-    for (const id of ['..', '../x', 'a/b', 'a\\b', '.trash', 'a..b', '', 'x\u0000', '/etc/passwd', 'C:evil', 'a'.repeat(129)]) {
+    for (const id of [
+      '..',
+      '../x',
+      'a/b',
+      'a\\b',
+      '.trash',
+      'a..b',
+      '',
+      'x\u0000',
+      '/etc/passwd',
+      'C:evil',
+      'a'.repeat(129),
+    ]) {
       expect(runIdSchema.safeParse(id).success, id).toBe(false);
     }
-    for (const id of ['20261202-014512-sensor-osc-a', 'run_1.v2', 'A']) expect(runIdSchema.safeParse(id).success, id).toBe(true);
+    for (const id of ['20261202-014512-sensor-osc-a', 'run_1.v2', 'A'])
+      expect(runIdSchema.safeParse(id).success, id).toBe(true);
   });
 
   it('refuse import file names with folders and DUT ids with line breaks', () => {

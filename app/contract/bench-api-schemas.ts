@@ -11,7 +11,14 @@ import { z } from 'zod';
 import type { BenchMethod, DesktopMethod } from './bench-api.ts';
 import { hasUnsafeChars } from './excerpt.ts';
 import { MAX_IMPORT_BYTES, MAX_IMPORT_TEXT } from './wire.ts';
-import { benchConfigSchema, driftPlanSchema, limitsSchema, pushingPlanSchema, siNumber, sweepPlanSchema } from './plans.ts';
+import {
+  benchConfigSchema,
+  driftPlanSchema,
+  limitsSchema,
+  pushingPlanSchema,
+  siNumber,
+  sweepPlanSchema,
+} from './plans.ts';
 
 /** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
 export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
@@ -25,7 +32,10 @@ export const runIdSchema = z
   .string()
   .min(1, 'must not be empty')
   .max(128, 'must be at most 128 characters')
-  .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'may hold only letters, digits, "-", "_" and "." (no path separators), starting with a letter or digit')
+  .regex(
+    /^[A-Za-z0-9][A-Za-z0-9_.-]*$/,
+    'may hold only letters, digits, "-", "_" and "." (no path separators), starting with a letter or digit',
+  )
   .refine((id) => !id.includes('..'), 'must not contain ".."');
 
 /** DUT identifier typed by the operator; printable text: no line breaks, C0/C1 controls or bidi overrides (they rewrite terminal lines). */
@@ -33,14 +43,20 @@ export const dutIdSchema = z
   .string()
   .min(1, 'must not be empty')
   .max(100, 'must be at most 100 characters')
-  .refine((text) => !hasUnsafeChars(text), 'must not contain control characters, line breaks or bidi-override characters');
+  .refine(
+    (text) => !hasUnsafeChars(text),
+    'must not contain control characters, line breaks or bidi-override characters',
+  );
 
 /** Operator note: free text, line breaks allowed, other control characters not. */
 export const noteTextSchema = z
   .string()
   .min(1, 'must not be empty')
   .max(20_000, 'must be at most 20000 characters')
-  .refine((text) => !hasUnsafeChars(text, '\t\n\r'), 'must not contain control characters (other than tab and line breaks) or bidi-override characters');
+  .refine(
+    (text) => !hasUnsafeChars(text, '\t\n\r'),
+    'must not contain control characters (other than tab and line breaks) or bidi-override characters',
+  );
 
 /** A file name as picked in a file dialog: the base name only. */
 export const fileNameSchema = z
@@ -106,7 +122,11 @@ export type ParamsResult = { ok: true; args: unknown[] } | { ok: false; message:
 export function parseCallParams(method: BenchMethod | DesktopMethod, raw: unknown): ParamsResult {
   const spec = benchMethodParams[method];
   if (!Array.isArray(raw)) {
-    return { ok: false, message: `${method}: params must be an array of ${spec.names.length} value(s) [${spec.names.join(', ')}]`, field: 'params' };
+    return {
+      ok: false,
+      message: `${method}: params must be an array of ${spec.names.length} value(s) [${spec.names.join(', ')}]`,
+      field: 'params',
+    };
   }
   if (raw.length !== spec.names.length) {
     return {

@@ -77,7 +77,6 @@ export interface RunDetail {
   events: RunEvent[];
 }
 
-
 /** Whether main can talk to one instrument; `lost` after a read failed for want of a link (detail: why). */
 export type RoleLinkStatus = BenchStatus['links'][number];
 

@@ -29,7 +29,8 @@ function nestingBeyond(text: string, limit: number): number | null {
     const c = text.charCodeAt(i);
     if (c === 10) line++;
     if (inString) {
-      if (c === 92) i++; // backslash: skip the escaped character
+      if (c === 92)
+        i++; // backslash: skip the escaped character
       else if (c === 34) inString = false;
     } else if (c === 34) inString = true;
     else if (c === 123 || c === 91) {
@@ -48,7 +49,8 @@ function longArray(value: unknown, limit: number): { path: string; length: numbe
       if (item.value.length > limit) return { path: item.path || '(root)', length: item.value.length };
       item.value.forEach((child, i) => stack.push({ value: child, path: `${item.path}[${i}]` }));
     } else if (item.value !== null && typeof item.value === 'object') {
-      for (const [key, child] of Object.entries(item.value)) stack.push({ value: child, path: item.path ? `${item.path}.${key}` : key });
+      for (const [key, child] of Object.entries(item.value))
+        stack.push({ value: child, path: item.path ? `${item.path}.${key}` : key });
     }
   }
   return null;
@@ -56,7 +58,10 @@ function longArray(value: unknown, limit: number): { path: string; length: numbe
 
 /** Parses `text` as JSON within JSON_LIMITS; JsonShapeError names what is out of bounds. */
 export function parseBoundedJson(text: string, limits: typeof JSON_LIMITS = JSON_LIMITS): unknown {
-  if (text.length > limits.maxChars) throw new JsonShapeError(`${text.length} characters is larger than a configuration file can be (at most ${limits.maxChars})`);
+  if (text.length > limits.maxChars)
+    throw new JsonShapeError(
+      `${text.length} characters is larger than a configuration file can be (at most ${limits.maxChars})`,
+    );
   const deepLine = nestingBeyond(text, limits.maxDepth);
   if (deepLine !== null) throw new JsonShapeError(`nested more than ${limits.maxDepth} levels deep (line ${deepLine})`);
   let value: unknown;
@@ -66,6 +71,9 @@ export function parseBoundedJson(text: string, limits: typeof JSON_LIMITS = JSON
     throw new JsonShapeError(`not valid JSON (${(error as Error).message.slice(0, 200)})`);
   }
   const long = longArray(value, limits.maxArrayLength);
-  if (long !== null) throw new JsonShapeError(`${long.path}: an array of ${long.length} values is longer than any field takes (at most ${limits.maxArrayLength})`);
+  if (long !== null)
+    throw new JsonShapeError(
+      `${long.path}: an array of ${long.length} values is longer than any field takes (at most ${limits.maxArrayLength})`,
+    );
   return value;
 }

@@ -61,18 +61,39 @@ export const campaignPlanSchema = z
   })
   .superRefine((plan, ctx) => {
     const { minC, maxC, maxRateCPerMin } = plan.chamber;
-    if (!(minC < maxC)) ctx.addIssue({ code: 'custom', path: ['chamber', 'maxC'], message: `must be above chamber.minC (${minC} °C)` });
+    if (!(minC < maxC))
+      ctx.addIssue({ code: 'custom', path: ['chamber', 'maxC'], message: `must be above chamber.minC (${minC} °C)` });
     plan.temperaturesC.forEach((t, i) => {
-      if (t < minC || t > maxC) ctx.addIssue({ code: 'custom', path: ['temperaturesC', i], message: `${t} °C is outside chamber.minC … chamber.maxC (${minC} … ${maxC} °C)` });
+      if (t < minC || t > maxC)
+        ctx.addIssue({
+          code: 'custom',
+          path: ['temperaturesC', i],
+          message: `${t} °C is outside chamber.minC … chamber.maxC (${minC} … ${maxC} °C)`,
+        });
     });
-    if (plan.safeC < minC || plan.safeC > maxC) ctx.addIssue({ code: 'custom', path: ['safeC'], message: `${plan.safeC} °C is outside chamber.minC … chamber.maxC (${minC} … ${maxC} °C)` });
+    if (plan.safeC < minC || plan.safeC > maxC)
+      ctx.addIssue({
+        code: 'custom',
+        path: ['safeC'],
+        message: `${plan.safeC} °C is outside chamber.minC … chamber.maxC (${minC} … ${maxC} °C)`,
+      });
     if (plan.rampCPerMin !== undefined && plan.rampCPerMin > maxRateCPerMin) {
-      ctx.addIssue({ code: 'custom', path: ['rampCPerMin'], message: `${plan.rampCPerMin} °C/min exceeds chamber.maxRateCPerMin (${maxRateCPerMin} °C/min)` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['rampCPerMin'],
+        message: `${plan.rampCPerMin} °C/min exceeds chamber.maxRateCPerMin (${maxRateCPerMin} °C/min)`,
+      });
     }
     plan.supplyV.forEach((v, i) => {
-      if (!(v > 0) || v > plan.maxSupplyV) ctx.addIssue({ code: 'custom', path: ['supplyV', i], message: `${v} V is not in 0 … maxSupplyV (${plan.maxSupplyV} V]` });
+      if (!(v > 0) || v > plan.maxSupplyV)
+        ctx.addIssue({
+          code: 'custom',
+          path: ['supplyV', i],
+          message: `${v} V is not in 0 … maxSupplyV (${plan.maxSupplyV} V]`,
+        });
     });
-    if (new Set(plan.units).size !== plan.units.length) ctx.addIssue({ code: 'custom', path: ['units'], message: 'unit ids must be distinct' });
+    if (new Set(plan.units).size !== plan.units.length)
+      ctx.addIssue({ code: 'custom', path: ['units'], message: 'unit ids must be distinct' });
     if (plan.tuningWindowV && !(plan.tuningWindowV[0] < plan.tuningWindowV[1])) {
       ctx.addIssue({ code: 'custom', path: ['tuningWindowV', 1], message: 'must be above tuningWindowV[0]' });
     }

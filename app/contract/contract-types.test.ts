@@ -29,8 +29,29 @@ assertType<
     }
   >
 >();
-assertType<Equal<LiveReadout, { controlSetV: number | null; controlMeasV: number | null; frequencyHz: number | null; temperatureC: number | null; timeS: number }>>();
-assertType<Equal<ProgressInfo['latest'], { controlV: number; frequencyHz: number | null; status: 'ok' | 'no-signal' | 'timeout' | 'error'; supplyV?: number | undefined } | null>>();
+assertType<
+  Equal<
+    LiveReadout,
+    {
+      controlSetV: number | null;
+      controlMeasV: number | null;
+      frequencyHz: number | null;
+      temperatureC: number | null;
+      timeS: number;
+    }
+  >
+>();
+assertType<
+  Equal<
+    ProgressInfo['latest'],
+    {
+      controlV: number;
+      frequencyHz: number | null;
+      status: 'ok' | 'no-signal' | 'timeout' | 'error';
+      supplyV?: number | undefined;
+    } | null
+  >
+>();
 assertType<Equal<RunMeta['status'], 'running' | 'complete' | 'aborted' | 'interrupted' | 'failed'>>();
 assertType<Equal<RunMeta['kind'], 'sweep' | 'drift' | 'pushing'>>();
 assertType<
@@ -46,7 +67,12 @@ assertType<
       dut: { id: string; notes: string };
       instruments: { role: string; idn: string; address: string }[];
       software: { version: string };
-      conditions?: { dutSupplyV: { start: number | null; end: number | null }; temperatureC: { start: number | null; end: number | null } } | undefined;
+      conditions?:
+        | {
+            dutSupplyV: { start: number | null; end: number | null };
+            temperatureC: { start: number | null; end: number | null };
+          }
+        | undefined;
       failure?: string | undefined;
       simulated?: boolean | undefined;
     }
@@ -60,10 +86,24 @@ assertType<BenchEvent extends z.input<typeof benchEventSchema> ? true : false>()
 describe('contract types from schemas', () => {
   it('a parsed run.json and connection state are the contract types, with no cast', () => {
     const meta: RunMeta = runMetaSchema.parse({
-      schema: 'tunebench.run/1', id: 'r', kind: 'sweep', status: 'failed', startedAt: 't', endedAt: null,
-      dut: { id: 'd', notes: '' }, instruments: [], plan: {}, software: { version: '0' }, failure: 'cannot write samples.csv: ENOSPC',
+      schema: 'tunebench.run/1',
+      id: 'r',
+      kind: 'sweep',
+      status: 'failed',
+      startedAt: 't',
+      endedAt: null,
+      dut: { id: 'd', notes: '' },
+      instruments: [],
+      plan: {},
+      software: { version: '0' },
+      failure: 'cannot write samples.csv: ENOSPC',
     });
-    const state: ConnectionState = connectionStateSchema.parse({ connected: false, simulated: false, roles: [], error: null });
+    const state: ConnectionState = connectionStateSchema.parse({
+      connected: false,
+      simulated: false,
+      roles: [],
+      error: null,
+    });
     expect(meta.failure).toBe('cannot write samples.csv: ENOSPC');
     expect(state.error).toBeNull();
   });

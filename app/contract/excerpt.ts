@@ -36,7 +36,8 @@ export function hasUnsafeChars(text: string, allowed = ''): boolean {
  */
 export function excerptOf(value: unknown, max = 40): string {
   if (typeof value === 'string') return `"${sanitiseText(value, max)}"`;
-  if (typeof value === 'number' || typeof value === 'boolean' || typeof value === 'bigint') return sanitiseText(String(value), max);
+  if (typeof value === 'number' || typeof value === 'boolean' || typeof value === 'bigint')
+    return sanitiseText(String(value), max);
   if (value === null) return 'null';
   if (value === undefined) return 'nothing';
   if (Array.isArray(value)) return `an array of ${value.length}`;

@@ -24,24 +24,43 @@ export function checkPayloadBounds(value: unknown, root = 'params'): BoundsResul
   while (stack.length > 0) {
     const item = stack.pop() as { value: unknown; depth: number; path: string };
     count += 1;
-    if (count > MAX_PAYLOAD_VALUES) return { ok: false, field: root, message: `${root}: too many values (at most ${MAX_PAYLOAD_VALUES} in one call)` };
+    if (count > MAX_PAYLOAD_VALUES)
+      return {
+        ok: false,
+        field: root,
+        message: `${root}: too many values (at most ${MAX_PAYLOAD_VALUES} in one call)`,
+      };
     const current = item.value;
     if (current === null || typeof current !== 'object') continue;
     if (ArrayBuffer.isView(current)) continue;
     if (item.depth >= MAX_PAYLOAD_DEPTH) {
-      return { ok: false, field: item.path, message: `${item.path}: nested too deeply (at most ${MAX_PAYLOAD_DEPTH} levels)` };
+      return {
+        ok: false,
+        field: item.path,
+        message: `${item.path}: nested too deeply (at most ${MAX_PAYLOAD_DEPTH} levels)`,
+      };
     }
     if (Array.isArray(current)) {
       if (current.length > MAX_PAYLOAD_ARRAY) {
-        return { ok: false, field: item.path, message: `${item.path}: array too long (${current.length} items; at most ${MAX_PAYLOAD_ARRAY})` };
+        return {
+          ok: false,
+          field: item.path,
+          message: `${item.path}: array too long (${current.length} items; at most ${MAX_PAYLOAD_ARRAY})`,
+        };
       }
-      for (let i = 0; i < current.length; i += 1) stack.push({ value: current[i], depth: item.depth + 1, path: `${item.path}.${i}` });
+      for (let i = 0; i < current.length; i += 1)
+        stack.push({ value: current[i], depth: item.depth + 1, path: `${item.path}.${i}` });
       continue;
     }
     const keys = Object.keys(current);
-    if (keys.length > MAX_PAYLOAD_ARRAY) return { ok: false, field: item.path, message: `${item.path}: too many keys (at most ${MAX_PAYLOAD_ARRAY})` };
+    if (keys.length > MAX_PAYLOAD_ARRAY)
+      return { ok: false, field: item.path, message: `${item.path}: too many keys (at most ${MAX_PAYLOAD_ARRAY})` };
     for (const key of keys) {
-      stack.push({ value: (current as Record<string, unknown>)[key], depth: item.depth + 1, path: `${item.path}.${sanitiseText(key, 40)}` });
+      stack.push({
+        value: (current as Record<string, unknown>)[key],
+        depth: item.depth + 1,
+        path: `${item.path}.${sanitiseText(key, 40)}`,
+      });
     }
   }
   return { ok: true };

@@ -23,7 +23,10 @@ export const runMetaSchema = z.looseObject({
   plan: z.unknown(),
   software: z.looseObject({ version: z.string() }),
   /** Conditions read at the start and end of the run (sweeps; absent in older runs); a malformed record reads as absent. */
-  conditions: z.object({ dutSupplyV: conditionSpanSchema, temperatureC: conditionSpanSchema }).optional().catch(undefined),
+  conditions: z
+    .object({ dutSupplyV: conditionSpanSchema, temperatureC: conditionSpanSchema })
+    .optional()
+    .catch(undefined),
   /** Why a `failed` run failed (e.g. the disk refused its files), when the disk let us record it. */
   failure: z.string().optional(),
   /** True when the run was taken on the simulated bench (absent: real instruments, or an older run — see isSimulatedBench). */

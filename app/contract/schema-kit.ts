@@ -5,7 +5,16 @@
  * sweep with a default in its place.
  */
 import { z } from 'zod';
-import { excerpt, parseQuantity, parseSiNumber, parseTime, QUANTITY_FORMS, TIME_FORMS, type Parsed, type QuantityKind } from './si.ts';
+import {
+  excerpt,
+  parseQuantity,
+  parseSiNumber,
+  parseTime,
+  QUANTITY_FORMS,
+  TIME_FORMS,
+  type Parsed,
+  type QuantityKind,
+} from './si.ts';
 
 /** Edit distance (insert, delete, substitute, swap neighbours) — Damerau–Levenshtein, optimal string alignment. */
 export function editDistance(a: string, b: string): number {
@@ -17,8 +26,13 @@ export function editDistance(a: string, b: string): number {
   for (let i = 1; i < rows; i++) {
     for (let j = 1; j < cols; j++) {
       const cost = a[i - 1] === b[j - 1] ? 0 : 1;
-      let best = Math.min((d[(i - 1) * cols + j] as number) + 1, (d[i * cols + j - 1] as number) + 1, (d[(i - 1) * cols + j - 1] as number) + cost);
-      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) best = Math.min(best, (d[(i - 2) * cols + j - 2] as number) + 1);
+      let best = Math.min(
+        (d[(i - 1) * cols + j] as number) + 1,
+        (d[i * cols + j - 1] as number) + 1,
+        (d[(i - 1) * cols + j - 1] as number) + cost,
+      );
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1])
+        best = Math.min(best, (d[(i - 2) * cols + j - 2] as number) + 1);
       d[i * cols + j] = best;
     }
   }
@@ -59,11 +73,16 @@ export function strictObject<S extends z.core.$ZodLooseShape>(shape: S) {
 }
 
 /** Optional `"$schema"` key at the top of a file, so an editor can validate and complete it. */
-export const schemaRef = z.string().max(2000).optional().meta({ description: 'URL or path of this file\'s JSON Schema, for editors; ignored by tunebench' });
+export const schemaRef = z
+  .string()
+  .max(2000)
+  .optional()
+  .meta({ description: "URL or path of this file's JSON Schema, for editors; ignored by tunebench" });
 
 function textOrNumber(forms: string) {
   return z.union([z.number(), z.string()], {
-    error: (issue) => (issue.input === undefined ? `required: ${forms}` : `expected ${forms}, got ${excerpt(issue.input)}`),
+    error: (issue) =>
+      issue.input === undefined ? `required: ${forms}` : `expected ${forms}, got ${excerpt(issue.input)}`,
   });
 }
 
@@ -79,7 +98,6 @@ function fromParsed(parse: (text: string) => Parsed) {
   };
 }
 
-
 /** A finite number in volts, amps or hertz, or a string with an SI prefix and optionally its unit. */
 export function quantity(kind: QuantityKind, bound: (n: z.ZodNumber) => z.ZodNumber = (n) => n) {
   return textOrNumber(QUANTITY_FORMS[kind])
@@ -92,10 +110,12 @@ export function quantity(kind: QuantityKind, bound: (n: z.ZodNumber) => z.ZodNum
 export function anyQuantity() {
   const forms = 'a number, optionally with an SI prefix and unit (e.g. 0.25, "250m", "3.3V", "10MHz")';
   return textOrNumber(forms)
-    .transform(fromParsed((text) => {
-      const value = parseSiNumber(text);
-      return value === null ? { ok: false, error: `expected ${forms}, got ${excerpt(text)}` } : { ok: true, value };
-    }))
+    .transform(
+      fromParsed((text) => {
+        const value = parseSiNumber(text);
+        return value === null ? { ok: false, error: `expected ${forms}, got ${excerpt(text)}` } : { ok: true, value };
+      }),
+    )
     .pipe(z.number().finite());
 }
 

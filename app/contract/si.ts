@@ -34,11 +34,15 @@ export const EXCERPT_CHARS = 60;
 export function excerpt(value: unknown): string {
   let text: string;
   try {
-    text = typeof value === 'string' && value.length > EXCERPT_CHARS * 4 ? JSON.stringify(value.slice(0, EXCERPT_CHARS)) : (JSON.stringify(value) ?? String(value));
+    text =
+      typeof value === 'string' && value.length > EXCERPT_CHARS * 4
+        ? JSON.stringify(value.slice(0, EXCERPT_CHARS))
+        : (JSON.stringify(value) ?? String(value));
   } catch {
     text = String(value);
   }
-  if (Array.isArray(value) && value.length > 0 && text.length > EXCERPT_CHARS) return `an array of ${value.length} values`;
+  if (Array.isArray(value) && value.length > 0 && text.length > EXCERPT_CHARS)
+    return `an array of ${value.length} values`;
   return text.length > EXCERPT_CHARS ? `${text.slice(0, EXCERPT_CHARS)}…` : text;
 }
 
@@ -72,7 +76,16 @@ export function parseSiNumber(text: string): number | null {
 }
 
 const TIME_PATTERN = new RegExp(`^(${NUMBER})\\s*([A-Za-zµ]*)$`);
-const TIME_SCALE: Readonly<Record<string, number>> = { ns: 1e-9, us: 1e-6, 'µs': 1e-6, ms: 1e-3, s: 1, min: 60, h: 3600, d: 86400 };
+const TIME_SCALE: Readonly<Record<string, number>> = {
+  ns: 1e-9,
+  us: 1e-6,
+  µs: 1e-6,
+  ms: 1e-3,
+  s: 1,
+  min: 60,
+  h: 3600,
+  d: 86400,
+};
 export const TIME_FORMS = 'a time such as 0.5, "100ms", "90s", "15min" or "8h" (a bare number is seconds)';
 
 /** Parses a time in seconds: a bare number, or a number with ns, us/µs, ms, s, min, h or d. */

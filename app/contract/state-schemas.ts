@@ -40,7 +40,12 @@ export const progressSchema = z.looseObject({
   pointsTotal: z.number(),
   etaS: nullableNumber,
   latest: z
-    .looseObject({ controlV: z.number(), frequencyHz: nullableNumber, status: z.enum(READING_STATUSES), /** The stepped DUT supply of a pushing run. */ supplyV: z.number().optional() })
+    .looseObject({
+      controlV: z.number(),
+      frequencyHz: nullableNumber,
+      status: z.enum(READING_STATUSES),
+      /** The stepped DUT supply of a pushing run. */ supplyV: z.number().optional(),
+    })
     .nullable(),
 });
 
@@ -54,10 +59,21 @@ export const benchStatusSchema = z.looseObject({
   frequencyHz: nullableNumber,
   temperatureC: nullableNumber,
   updatedAt: isoTime.nullable(),
-  links: z.array(z.looseObject({ role: z.enum(['supply', 'counter', 'thermometer']), state: z.enum(['up', 'lost']), detail: z.string().nullable() })),
+  links: z.array(
+    z.looseObject({
+      role: z.enum(['supply', 'counter', 'thermometer']),
+      state: z.enum(['up', 'lost']),
+      detail: z.string().nullable(),
+    }),
+  ),
   paused: z.looseObject({ since: isoTime, controlV: nullableNumber }).nullable(),
   safeState: z
-    .looseObject({ runId: z.string(), reached: z.boolean(), at: isoTime, outputOff: z.boolean(), failures: z.array(z.string()) })
+    .looseObject({
+      runId: z.string(),
+      reached: z.boolean(),
+      at: isoTime,
+      outputOff: z.boolean(),
+      failures: z.array(z.string()),
+    })
     .nullable(),
 });
-

@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { decodeBinaryReply, encodeBinaryReply, TYPED_KEY, WireFrameError } from './wire-binary.ts';
 import { FrameAssembler, frameParts } from './wire-parts.ts';
 
-const asBuffer = (frame: Uint8Array): ArrayBuffer => frame.buffer.slice(frame.byteOffset, frame.byteOffset + frame.byteLength) as ArrayBuffer;
+const asBuffer = (frame: Uint8Array): ArrayBuffer =>
+  frame.buffer.slice(frame.byteOffset, frame.byteOffset + frame.byteLength) as ArrayBuffer;
 
 describe('binary reply frame', () => {
   it('is not used for replies without typed arrays', () => {
@@ -12,19 +13,28 @@ describe('binary reply frame', () => {
 
   it('round-trips every double bit for bit, and coded text, as aligned views on the frame', () => {
     fc.assert(
-      fc.property(fc.array(fc.double()), fc.array(fc.integer({ min: 0, max: 255 })), fc.string(), (values, codes, note) => {
-        const reply = { id: 7, ok: true, result: { note, f: new Float64Array(values), t: { levels: ['ok'], codes: new Uint8Array(codes) } } };
-        const frame = encodeBinaryReply(reply) as Uint8Array;
-        // Little-endian on the wire (app/contract/wire.ts); the header length leads.
-        expect(new DataView(frame.buffer).getUint32(0, true)).toBeGreaterThan(0);
-        const back = decodeBinaryReply(asBuffer(frame)) as typeof reply;
-        expect(back.id).toBe(7);
-        expect(back.result.note).toBe(note);
-        expect(back.result.f).toBeInstanceOf(Float64Array);
-        expect(back.result.f.byteOffset % 8).toBe(0);
-        values.forEach((v, i) => expect(Object.is(back.result.f[i], v)).toBe(true));
-        expect(back.result.t.codes).toEqual(new Uint8Array(codes));
-      }),
+      fc.property(
+        fc.array(fc.double()),
+        fc.array(fc.integer({ min: 0, max: 255 })),
+        fc.string(),
+        (values, codes, note) => {
+          const reply = {
+            id: 7,
+            ok: true,
+            result: { note, f: new Float64Array(values), t: { levels: ['ok'], codes: new Uint8Array(codes) } },
+          };
+          const frame = encodeBinaryReply(reply) as Uint8Array;
+          // Little-endian on the wire (app/contract/wire.ts); the header length leads.
+          expect(new DataView(frame.buffer).getUint32(0, true)).toBeGreaterThan(0);
+          const back = decodeBinaryReply(asBuffer(frame)) as typeof reply;
+          expect(back.id).toBe(7);
+          expect(back.result.note).toBe(note);
+          expect(back.result.f).toBeInstanceOf(Float64Array);
+          expect(back.result.f.byteOffset % 8).toBe(0);
+          values.forEach((v, i) => expect(Object.is(back.result.f[i], v)).toBe(true));
+          expect(back.result.t.codes).toEqual(new Uint8Array(codes));
+        },
+      ),
       { numRuns: 100 },
     );
   });
@@ -33,7 +43,9 @@ describe('binary reply frame', () => {
     const frame = encodeBinaryReply({ id: 3, ok: true, result: { xs: new Float64Array([1, 2, 4]) } }) as Uint8Array;
     const headerLength = new DataView(frame.buffer).getUint32(0, true);
     expect(new DataView(frame.buffer).getUint32(4, true)).toBe(frame.byteLength);
-    const header = JSON.parse(new TextDecoder().decode(frame.subarray(8, 8 + headerLength))) as { result: { xs: Record<string, unknown> } };
+    const header = JSON.parse(new TextDecoder().decode(frame.subarray(8, 8 + headerLength))) as {
+      result: { xs: Record<string, unknown> };
+    };
     expect(header.result.xs).toEqual({ [TYPED_KEY]: 'f64', byteOffset: 0, byteLength: 24 });
     const withHeader = (xs: Record<string, unknown>): ArrayBuffer => {
       const text = new TextEncoder().encode(JSON.stringify({ id: 3, ok: true, result: { xs } }));
@@ -57,7 +69,9 @@ describe('binary reply frame', () => {
     const refused = attempt({ [TYPED_KEY]: 'f32', byteOffset: 0, byteLength: 8 });
     expect(refused.field).toBe('result.xs');
     expect(refused.id).toBe(3);
-    const good = decodeBinaryReply(withHeader({ [TYPED_KEY]: 'f64', byteOffset: 0, byteLength: 16 })) as { result: { xs: Float64Array } };
+    const good = decodeBinaryReply(withHeader({ [TYPED_KEY]: 'f64', byteOffset: 0, byteLength: 16 })) as {
+      result: { xs: Float64Array };
+    };
     expect(good.result.xs).toEqual(new Float64Array([0, 0]));
   });
 

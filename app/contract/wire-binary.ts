@@ -50,7 +50,8 @@ function fromJsonNumber(x: unknown): number | null {
 }
 
 /** Value i of a ramp; the encoder checks with this and the decoder generates with it. */
-const rampValue = (start: number, step: number, i: number): number => (i === 0 || step === 0 ? start : start + i * step);
+const rampValue = (start: number, step: number, i: number): number =>
+  i === 0 || step === 0 ? start : start + i * step;
 
 function isRamp(array: WireTypedArray, start: number, step: number): boolean {
   for (let i = 0; i < array.length; i += 1) {
@@ -119,7 +120,12 @@ export function encodeBinaryReply(reply: unknown): Uint8Array | null {
     const array = value as WireTypedArray;
     const ramp = rampOf(array);
     if (ramp !== null) {
-      const rule: RampPlaceholder = { [TYPED_KEY]: kind, byteLength: array.byteLength, start: toJsonNumber(ramp.start), step: toJsonNumber(ramp.step) };
+      const rule: RampPlaceholder = {
+        [TYPED_KEY]: kind,
+        byteLength: array.byteLength,
+        start: toJsonNumber(ramp.start),
+        step: toJsonNumber(ramp.step),
+      };
       return rule;
     }
     const placeholder: TypedPlaceholder = { [TYPED_KEY]: kind, byteOffset: dataBytes, byteLength: array.byteLength };
@@ -189,8 +195,10 @@ export function decodeBinaryReply(frame: ArrayBuffer): unknown {
   if (frame.byteLength < PREFIX_BYTES) throw new WireFrameError('binary frame shorter than its header length', 'frame');
   const headerLength = new DataView(frame).getUint32(0, true);
   const total = new DataView(frame).getUint32(4, true);
-  if (total !== frame.byteLength) throw new WireFrameError(`frame says ${total} bytes but holds ${frame.byteLength}`, 'frame');
-  if (PREFIX_BYTES + headerLength > frame.byteLength) throw new WireFrameError(`header length ${headerLength} runs past the frame`, 'frame');
+  if (total !== frame.byteLength)
+    throw new WireFrameError(`frame says ${total} bytes but holds ${frame.byteLength}`, 'frame');
+  if (PREFIX_BYTES + headerLength > frame.byteLength)
+    throw new WireFrameError(`header length ${headerLength} runs past the frame`, 'frame');
   let header: unknown;
   try {
     header = JSON.parse(new TextDecoder().decode(new Uint8Array(frame, PREFIX_BYTES, headerLength)));
@@ -216,27 +224,57 @@ export function decodeBinaryReply(frame: ArrayBuffer): unknown {
   }
 }
 
-function typedFrom(frame: ArrayBuffer, record: Record<string, unknown>, path: string, dataStart: number): WireTypedArray {
+function typedFrom(
+  frame: ArrayBuffer,
+  record: Record<string, unknown>,
+  path: string,
+  dataStart: number,
+): WireTypedArray {
   const kind = record[TYPED_KEY];
   const { byteOffset, byteLength } = record;
-  if (kind !== 'f64' && kind !== 'u8' && kind !== 'u16' && kind !== 'u32') throw new WireFrameError(`unknown array kind ${String(kind)}`, path);
+  if (kind !== 'f64' && kind !== 'u8' && kind !== 'u16' && kind !== 'u32')
+    throw new WireFrameError(`unknown array kind ${String(kind)}`, path);
   if ('start' in record) {
     const start = fromJsonNumber(record.start);
     const step = fromJsonNumber(record.step);
-    if (typeof byteLength !== 'number' || !Number.isInteger(byteLength) || byteLength < 0 || byteLength % BYTES[kind] !== 0 || byteLength > MAX_GENERATED_BYTES) {
-      throw new WireFrameError(`byteLength must be a whole number of ${BYTES[kind]}-byte ${kind} values, got ${String(byteLength)}`, path);
+    if (
+      typeof byteLength !== 'number' ||
+      !Number.isInteger(byteLength) ||
+      byteLength < 0 ||
+      byteLength % BYTES[kind] !== 0 ||
+      byteLength > MAX_GENERATED_BYTES
+    ) {
+      throw new WireFrameError(
+        `byteLength must be a whole number of ${BYTES[kind]}-byte ${kind} values, got ${String(byteLength)}`,
+        path,
+      );
     }
     if (start === null || step === null || (kind !== 'f64' && (step !== 0 || !Number.isInteger(start) || start < 0))) {
-      throw new WireFrameError('start and step must be numbers (a whole, non-negative start and step 0 for codes)', path);
+      throw new WireFrameError(
+        'start and step must be numbers (a whole, non-negative start and step 0 for codes)',
+        path,
+      );
     }
     return generated(kind, byteLength / BYTES[kind], start, step);
   }
   if (typeof byteOffset !== 'number' || !Number.isInteger(byteOffset) || byteOffset < 0 || byteOffset % 8 !== 0) {
-    throw new WireFrameError(`byteOffset must be an 8-byte aligned offset into the data, got ${String(byteOffset)}`, path);
+    throw new WireFrameError(
+      `byteOffset must be an 8-byte aligned offset into the data, got ${String(byteOffset)}`,
+      path,
+    );
   }
-  if (typeof byteLength !== 'number' || !Number.isInteger(byteLength) || byteLength < 0 || byteLength % BYTES[kind] !== 0) {
-    throw new WireFrameError(`byteLength must be a whole number of ${BYTES[kind]}-byte ${kind} values, got ${String(byteLength)}`, path);
+  if (
+    typeof byteLength !== 'number' ||
+    !Number.isInteger(byteLength) ||
+    byteLength < 0 ||
+    byteLength % BYTES[kind] !== 0
+  ) {
+    throw new WireFrameError(
+      `byteLength must be a whole number of ${BYTES[kind]}-byte ${kind} values, got ${String(byteLength)}`,
+      path,
+    );
   }
-  if (dataStart + byteOffset + byteLength > frame.byteLength) throw new WireFrameError('array runs past the end of the frame', path);
+  if (dataStart + byteOffset + byteLength > frame.byteLength)
+    throw new WireFrameError('array runs past the end of the frame', path);
   return viewOf(frame, kind, dataStart + byteOffset, byteLength);
 }

@@ -15,7 +15,8 @@ export const PART_BYTES = 1 << 18;
 /** The frame cut into the consecutive binary messages that carry it (views, no copies). */
 export function frameParts(frame: Uint8Array, partBytes = PART_BYTES): Uint8Array[] {
   const parts: Uint8Array[] = [];
-  for (let at = 0; at < frame.byteLength; at += partBytes) parts.push(frame.subarray(at, Math.min(frame.byteLength, at + partBytes)));
+  for (let at = 0; at < frame.byteLength; at += partBytes)
+    parts.push(frame.subarray(at, Math.min(frame.byteLength, at + partBytes)));
   return parts;
 }
 
@@ -35,10 +36,12 @@ export class FrameAssembler {
   /** The finished frame, null while parts are still due; throws WireFrameError on a malformed start. */
   push(message: ArrayBuffer): ArrayBuffer | null {
     if (this.frame === null) {
-      if (message.byteLength < PREFIX_BYTES) throw new WireFrameError('binary message shorter than a frame prefix', 'frame');
+      if (message.byteLength < PREFIX_BYTES)
+        throw new WireFrameError('binary message shorter than a frame prefix', 'frame');
       const total = new DataView(message).getUint32(4, true);
       if (total === message.byteLength) return message;
-      if (total < message.byteLength) throw new WireFrameError(`frame length ${total} is shorter than its first part`, 'frame');
+      if (total < message.byteLength)
+        throw new WireFrameError(`frame length ${total} is shorter than its first part`, 'frame');
       this.frame = new Uint8Array(total);
       this.filled = 0;
     }

@@ -9,9 +9,6 @@ import type { BenchMethod, CodedTextColumn } from './bench-api.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
 import { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
-
-
-
 // NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
 // A hand-written loop rather than z.array(z.number()): stored runs reach a million cells per column.
 // A Float64Array (from a binary reply, app/contract/wire.ts) is already numbers: taken as it is, no per-cell work.
@@ -49,7 +46,10 @@ const textColumn = z.unknown().transform((value, ctx): string[] | CodedTextColum
     const codes = coded?.codes;
     const levels = coded?.levels;
     if (!(codes instanceof Uint8Array || codes instanceof Uint16Array || codes instanceof Uint32Array)) {
-      ctx.addIssue({ code: 'custom', message: 'expected an array of strings or { levels, codes: Uint8Array | Uint16Array | Uint32Array }' });
+      ctx.addIssue({
+        code: 'custom',
+        message: 'expected an array of strings or { levels, codes: Uint8Array | Uint16Array | Uint32Array }',
+      });
       return z.NEVER;
     }
     if (!Array.isArray(levels) || !levels.every((level) => typeof level === 'string')) {
@@ -86,13 +86,20 @@ export const sampleColumnsSchema = z
   .superRefine((samples, ctx) => {
     // Every column holds rowCount values (a Float64Array: byteLength = rowCount·8); without rowCount, all alike.
     const columns: [string, number][] = [
-      ...Object.entries(samples.numeric).map(([name, column]): [string, number] => [`numeric.${name}`, columnLength(column)]),
+      ...Object.entries(samples.numeric).map(([name, column]): [string, number] => [
+        `numeric.${name}`,
+        columnLength(column),
+      ]),
       ...Object.entries(samples.text).map(([name, column]): [string, number] => [`text.${name}`, columnLength(column)]),
     ];
     const expected = samples.rowCount ?? columns[0]?.[1];
     for (const [field, length] of columns) {
       if (length !== expected) {
-        ctx.addIssue({ code: 'custom', path: field.split('.'), message: `expected ${expected} rows (rowCount), got ${length}` });
+        ctx.addIssue({
+          code: 'custom',
+          path: field.split('.'),
+          message: `expected ${expected} rows (rowCount), got ${length}`,
+        });
         return;
       }
     }
@@ -113,11 +120,20 @@ export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({
     type: z.literal('samples'),
     runId: z.string(),
-    rows: z.array(z.record(z.string(), z.union([z.number(), z.string(), z.null()]).transform((cell) => cell ?? Number.NaN))),
+    rows: z.array(
+      z.record(
+        z.string(),
+        z.union([z.number(), z.string(), z.null()]).transform((cell) => cell ?? Number.NaN),
+      ),
+    ),
   }),
   z.object({ type: z.literal('progress'), progress: progressSchema }),
   z.object({ type: z.literal('run-ended'), meta: runMetaSchema }),
-  z.object({ type: z.literal('run-event'), runId: z.string(), event: z.looseObject({ time_s: z.number(), type: z.string() }) }),
+  z.object({
+    type: z.literal('run-event'),
+    runId: z.string(),
+    event: z.looseObject({ time_s: z.number(), type: z.string() }),
+  }),
   z.object({ type: z.literal('bench-status'), status: benchStatusSchema }),
   z.object({ type: z.literal('error'), message: z.string() }),
   z.object({ type: z.literal('peers'), others: z.number().int().nonnegative() }),
@@ -125,7 +141,11 @@ export const benchEventSchema = z.discriminatedUnion('type', [
 
 export const wireInboundSchema = z.union([
   z.object({ id: z.number().int(), ok: z.literal(true), result: z.unknown() }),
-  z.object({ id: z.number().int(), ok: z.literal(false), error: z.object({ message: z.string(), field: z.string().optional() }) }),
+  z.object({
+    id: z.number().int(),
+    ok: z.literal(false),
+    error: z.object({ message: z.string(), field: z.string().optional() }),
+  }),
   z.object({ event: z.unknown() }),
 ]);
 

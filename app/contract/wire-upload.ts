@@ -25,7 +25,16 @@ export function encodeImportParts(call: { id: number; fileName: string; dutId: s
   const messages: Uint8Array[] = [];
   for (let part = 0; part < parts; part += 1) {
     const slice = bytes.subarray(part * IMPORT_PART_BYTES, Math.min(bytes.byteLength, (part + 1) * IMPORT_PART_BYTES));
-    const header = new TextEncoder().encode(JSON.stringify({ id: call.id, method: 'importCsv', fileName: call.fileName, dutId: call.dutId, part, parts } satisfies ImportPartHeader));
+    const header = new TextEncoder().encode(
+      JSON.stringify({
+        id: call.id,
+        method: 'importCsv',
+        fileName: call.fileName,
+        dutId: call.dutId,
+        part,
+        parts,
+      } satisfies ImportPartHeader),
+    );
     const message = new Uint8Array(HEADER_PREFIX + header.byteLength + slice.byteLength);
     new DataView(message.buffer).setUint32(0, header.byteLength, true);
     message.set(header, HEADER_PREFIX);
@@ -41,7 +50,9 @@ export function splitImportPart(message: Uint8Array): { header: unknown; bytes: 
   const length = new DataView(message.buffer, message.byteOffset, message.byteLength).getUint32(0, true);
   if (length === 0 || length > MAX_PART_HEADER_BYTES || HEADER_PREFIX + length > message.byteLength) return null;
   try {
-    const header: unknown = JSON.parse(new TextDecoder('utf-8', { fatal: true }).decode(message.subarray(HEADER_PREFIX, HEADER_PREFIX + length)));
+    const header: unknown = JSON.parse(
+      new TextDecoder('utf-8', { fatal: true }).decode(message.subarray(HEADER_PREFIX, HEADER_PREFIX + length)),
+    );
     return { header, bytes: message.subarray(HEADER_PREFIX + length) };
   } catch {
     return null;

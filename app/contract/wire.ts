@@ -48,9 +48,7 @@ export interface WireError {
   field?: string;
 }
 
-export type WireReply =
-  | { id: number; ok: true; result: unknown }
-  | { id: number; ok: false; error: WireError };
+export type WireReply = { id: number; ok: true; result: unknown } | { id: number; ok: false; error: WireError };
 
 export interface WireEvent {
   event: BenchEvent;

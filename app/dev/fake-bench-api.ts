@@ -4,7 +4,15 @@
  * clock-multiplier VCO that stalls below 0.8 V and is unsteady up to 1.0 V,
  * and a drift log with a slow temperature swing. Timings are sped up.
  */
-import type { BenchApi, BenchEvent, ConnectionState, RunDetail, RunKind, RunMeta, SampleColumns } from '../contract/bench-api.ts';
+import type {
+  BenchApi,
+  BenchEvent,
+  ConnectionState,
+  RunDetail,
+  RunKind,
+  RunMeta,
+  SampleColumns,
+} from '../contract/bench-api.ts';
 import type { DriftPlan, SweepPlan } from '../contract/plans.ts';
 
 type Row = Record<string, number | string>;
@@ -71,7 +79,13 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
     emit({ type: 'run-ended', meta: run.meta });
   }
 
-  function runLoop(meta: RunMeta, total: number, rowAt: (k: number) => Row[], periodMs: number, cleanStop: RunMeta['status']): void {
+  function runLoop(
+    meta: RunMeta,
+    total: number,
+    rowAt: (k: number) => Row[],
+    periodMs: number,
+    cleanStop: RunMeta['status'],
+  ): void {
     const run = { meta, rows: [] as Row[], deleted: false };
     runs.set(meta.id, run);
     paused = false;
@@ -86,25 +100,58 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
       k += 1;
       emit({ type: 'samples', runId: meta.id, rows });
       const last = rows[rows.length - 1];
-      emit({ type: 'progress', progress: { runId: meta.id, kind: meta.kind, phase: 'reading', pointsDone: k, pointsTotal: total, etaS: ((total - k) * periodMs) / 1000, latest: null } });
-      if (typeof last?.control_v === 'number') emit({ type: 'live', readout: { controlSetV: last.control_v, controlMeasV: last.control_v - 0.0004, frequencyHz: typeof last.frequency_hz === 'number' ? last.frequency_hz : null, temperatureC: typeof last.temperature_c === 'number' ? last.temperature_c : 24.8, timeS: k } });
+      emit({
+        type: 'progress',
+        progress: {
+          runId: meta.id,
+          kind: meta.kind,
+          phase: 'reading',
+          pointsDone: k,
+          pointsTotal: total,
+          etaS: ((total - k) * periodMs) / 1000,
+          latest: null,
+        },
+      });
+      if (typeof last?.control_v === 'number')
+        emit({
+          type: 'live',
+          readout: {
+            controlSetV: last.control_v,
+            controlMeasV: last.control_v - 0.0004,
+            frequencyHz: typeof last.frequency_hz === 'number' ? last.frequency_hz : null,
+            temperatureC: typeof last.temperature_c === 'number' ? last.temperature_c : 24.8,
+            timeS: k,
+          },
+        });
       if (k >= total) finish(meta.id, 'complete');
     }, periodMs);
   }
 
   if (options.bigDriftRows) {
-    const meta = { ...newMeta('drift', 'sensor-osc-overnight', { controlV: 1.2, intervalS: 0.05 }, '2026-11-30T18:00:00.000Z'), status: 'complete' as const };
+    const meta = {
+      ...newMeta('drift', 'sensor-osc-overnight', { controlV: 1.2, intervalS: 0.05 }, '2026-11-30T18:00:00.000Z'),
+      status: 'complete' as const,
+    };
     const rows: Row[] = [];
     for (let i = 0; i < options.bigDriftRows; i += 1) {
       const t = i * 0.05;
       const temperatureC = 24 + 3 * Math.sin(t / 7000);
-      rows.push({ time_s: t, control_v: 1.2, frequency_hz: 1.2e6 - 36 * (temperatureC - 24) + (random() - 0.5) * 2, temperature_c: temperatureC, status: 'ok' });
+      rows.push({
+        time_s: t,
+        control_v: 1.2,
+        frequency_hz: 1.2e6 - 36 * (temperatureC - 24) + (random() - 0.5) * 2,
+        temperature_c: temperatureC,
+        status: 'ok',
+      });
     }
     runs.set(meta.id, { meta, rows, deleted: false });
   }
 
   const api: BenchApi = {
-    listSerialPorts: async () => [{ path: '/dev/ttyUSB0', manufacturer: 'FTDI' }, { path: '/dev/ttyACM0', manufacturer: null }],
+    listSerialPorts: async () => [
+      { path: '/dev/ttyUSB0', manufacturer: 'FTDI' },
+      { path: '/dev/ttyACM0', manufacturer: null },
+    ],
     listProfiles: async () => [
       { name: 'supply-scpi', role: 'supply' },
       { name: 'counter-scpi', role: 'counter' },
@@ -115,7 +162,12 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
       connection = {
         connected: true,
         simulated: sim,
-        roles: (['supply', 'counter', 'thermometer'] as const).map((role) => ({ role, address: sim ? 'sim' : 'tcp://127.0.0.1:5025', idn: `tunebench,sim-${role},0,dev`, simulated: sim })),
+        roles: (['supply', 'counter', 'thermometer'] as const).map((role) => ({
+          role,
+          address: sim ? 'sim' : 'tcp://127.0.0.1:5025',
+          idn: `tunebench,sim-${role},0,dev`,
+          simulated: sim,
+        })),
         error: null,
       };
       emit({ type: 'connection', state: connection });
@@ -156,23 +208,49 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
       const start = plan.start ?? 0;
       const step = plan.step ?? 0.1;
       const total = Math.floor(((plan.stop ?? 1) - start) / step + 1e-9) + 1;
-      runLoop(meta, total, (k) => {
-        const controlV = start + k * step;
-        return Array.from({ length: plan.readingsPerPoint }, (_, r) => {
-          const f = vcoHz(controlV, random);
-          return { time_s: k + r * 0.1, control_v: controlV, frequency_hz: f ?? '', direction: 'up', status: f === null ? 'no-signal' : 'ok' };
-        });
-      }, 60, 'aborted');
+      runLoop(
+        meta,
+        total,
+        (k) => {
+          const controlV = start + k * step;
+          return Array.from({ length: plan.readingsPerPoint }, (_, r) => {
+            const f = vcoHz(controlV, random);
+            return {
+              time_s: k + r * 0.1,
+              control_v: controlV,
+              frequency_hz: f ?? '',
+              direction: 'up',
+              status: f === null ? 'no-signal' : 'ok',
+            };
+          });
+        },
+        60,
+        'aborted',
+      );
       return meta;
     },
     async startDrift(plan: DriftPlan, dutId) {
       const meta = newMeta('drift', dutId, plan);
       const total = Math.floor(plan.durationS / plan.intervalS);
-      runLoop(meta, total, (k) => {
-        const t = k * plan.intervalS;
-        const temperatureC = 24 + 2.5 * Math.sin(t / 200);
-        return [{ time_s: t, control_v: plan.controlV, frequency_hz: 2.9e6 - 60 * (temperatureC - 24) + (random() - 0.5) * 3 + 0.5 * t / 60, temperature_c: temperatureC, status: 'ok' }];
-      }, 20, 'complete');
+      runLoop(
+        meta,
+        total,
+        (k) => {
+          const t = k * plan.intervalS;
+          const temperatureC = 24 + 2.5 * Math.sin(t / 200);
+          return [
+            {
+              time_s: t,
+              control_v: plan.controlV,
+              frequency_hz: 2.9e6 - 60 * (temperatureC - 24) + (random() - 0.5) * 3 + (0.5 * t) / 60,
+              temperature_c: temperatureC,
+              status: 'ok',
+            },
+          ];
+        },
+        20,
+        'complete',
+      );
       return meta;
     },
     async startPushing() {
@@ -195,7 +273,11 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
     },
     async addNote(id, text) {
       const run = runs.get(id);
-      if (run) run.meta = { ...run.meta, dut: { ...run.meta.dut, notes: run.meta.dut.notes ? `${run.meta.dut.notes}\n${text}` : text } };
+      if (run)
+        run.meta = {
+          ...run.meta,
+          dut: { ...run.meta.dut, notes: run.meta.dut.notes ? `${run.meta.dut.notes}\n${text}` : text },
+        };
     },
     async deleteRun(id) {
       const run = runs.get(id);
@@ -210,8 +292,13 @@ export function createFakeBench(options: { bigDriftRows?: number } = {}): BenchA
     async importCsv(fileName, csvText, dutId) {
       const [header = '', ...lines] = csvText.trim().split(/\r?\n/);
       const names = header.split(',').map((h) => h.trim());
-      const rows = lines.map((line) => Object.fromEntries(line.split(',').map((cell, i) => [names[i] ?? `c${i}`, Number(cell)])) as Row);
-      const meta = { ...newMeta(names.includes('control_v') ? 'sweep' : 'drift', dutId, { importedFrom: fileName }), status: 'complete' as const };
+      const rows = lines.map(
+        (line) => Object.fromEntries(line.split(',').map((cell, i) => [names[i] ?? `c${i}`, Number(cell)])) as Row,
+      );
+      const meta = {
+        ...newMeta(names.includes('control_v') ? 'sweep' : 'drift', dutId, { importedFrom: fileName }),
+        status: 'complete' as const,
+      };
       runs.set(meta.id, { meta, rows, deleted: false });
       return meta;
     },

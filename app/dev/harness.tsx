@@ -13,7 +13,12 @@ const api = createFakeBench(big > 0 ? { bigDriftRows: big } : {});
 const theme = query.get('theme');
 if (theme === 'dark' || theme === 'light') window.localStorage.setItem('tunebench.theme', theme);
 const root = document.getElementById('root');
-if (root) startApp(createRoot(root), { api, transport: 'ipc', link: { getState: () => 'open', subscribe: () => () => undefined } });
+if (root)
+  startApp(createRoot(root), {
+    api,
+    transport: 'ipc',
+    link: { getState: () => 'open', subscribe: () => () => undefined },
+  });
 
 // Drive the UI like a user would, through its buttons.
 const click = (testId: string) => {
@@ -38,9 +43,13 @@ setTimeout(() => {
       click('nav-drift');
       setTimeout(() => click('start-drift'), 100);
     }
-    if (screen) setTimeout(() => {
-      click(`nav-${screen}`);
-      setTimeout(() => clickInTurn(then), 300);
-    }, demo ? 4000 : 50);
+    if (screen)
+      setTimeout(
+        () => {
+          click(`nav-${screen}`);
+          setTimeout(() => clickInTurn(then), 300);
+        },
+        demo ? 4000 : 50,
+      );
   }, 200);
 }, 100);

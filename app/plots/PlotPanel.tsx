@@ -55,7 +55,17 @@ export interface PlotPanelProps {
 /** One cursor's value with a unit: SI prefixes, seconds as they are. */
 const withUnit = (value: number, unit: string, digits = 5): string => formatSi(value, unit, digits);
 
-function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[]; units: { x: string; y: string }; onClear: () => void; testId: string }) {
+function CursorReadout({
+  marks,
+  units,
+  onClear,
+  testId,
+}: {
+  marks: CursorMark[];
+  units: { x: string; y: string };
+  onClear: () => void;
+  testId: string;
+}) {
   const [a, b] = marks;
   const d = a && b ? cursorDeltas(a, b) : null;
   return (
@@ -73,7 +83,9 @@ function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[];
       ) : null}
       {d ? (
         <strong data-testid={`${testId}-deltas`}>
-          Δ{units.x === 'V' ? 'V' : 'x'} {withUnit(d.dx, units.x)} · Δ{units.y === 'Hz' ? 'f' : 'y'} {withUnit(d.dy, units.y)} · slope {d.slope === null ? '— (same x)' : withUnit(d.slope, `${units.y}/${units.x}`, 4)}
+          Δ{units.x === 'V' ? 'V' : 'x'} {withUnit(d.dx, units.x)} · Δ{units.y === 'Hz' ? 'f' : 'y'}{' '}
+          {withUnit(d.dy, units.y)} · slope{' '}
+          {d.slope === null ? '— (same x)' : withUnit(d.slope, `${units.y}/${units.x}`, 4)}
         </strong>
       ) : null}
       {marks.length > 0 ? (
@@ -85,7 +97,11 @@ function CursorReadout({ marks, units, onClear, testId }: { marks: CursorMark[];
   );
 }
 
-const ZOOM_LABEL: Record<ZoomMode, string> = { x: 'Drag zooms along x', y: 'Drag zooms along y', box: 'Drag zooms a box' };
+const ZOOM_LABEL: Record<ZoomMode, string> = {
+  x: 'Drag zooms along x',
+  y: 'Drag zooms along y',
+  box: 'Drag zooms a box',
+};
 
 export function PlotPanel(props: PlotPanelProps) {
   const hostRef = useRef<HTMLDivElement | null>(null);
@@ -146,13 +162,19 @@ export function PlotPanel(props: PlotPanelProps) {
     chartRef.current = chart;
     // A mark per drawn chart, so benchmarks can time "data in → first draw" from outside.
     performance.mark(`tunebench:plot-drawn:${latest.current.testId}`);
-    const gate = createFrameGate(() => {
-      const startMs = performance.now();
-      // While zoomed, new data must not throw the user's view away.
-      chart.setData(latest.current.data(view, chart.bbox.width / (window.devicePixelRatio || 1)), view === null && !markZoomed);
-      // uPlot redraws in a microtask it queued in setData; this one runs after it.
-      queueMicrotask(() => recordPlotWork(startMs, performance.now()));
-    }, (cb) => requestAnimationFrame(cb));
+    const gate = createFrameGate(
+      () => {
+        const startMs = performance.now();
+        // While zoomed, new data must not throw the user's view away.
+        chart.setData(
+          latest.current.data(view, chart.bbox.width / (window.devicePixelRatio || 1)),
+          view === null && !markZoomed,
+        );
+        // uPlot redraws in a microtask it queued in setData; this one runs after it.
+        queueMicrotask(() => recordPlotWork(startMs, performance.now()));
+      },
+      (cb) => requestAnimationFrame(cb),
+    );
     resetRef.current = () => {
       view = null;
       markZoomed = false;
@@ -229,8 +251,13 @@ export function PlotPanel(props: PlotPanelProps) {
     const chart = chartRef.current;
     if (!chart) return;
     if (format === 'png') downloadBlob(`${stem}.png`, await chartPng(chart, props.title, themeColors()));
-    else if (format === 'svg') downloadBlob(`${stem}.svg`, new Blob([chartSvg(chart, props.title, themeColors())], { type: 'image/svg+xml' }));
-    else downloadBlob(`${stem}.csv`, new Blob([latest.current.csv ? latest.current.csv() : chartCsv(chart)], { type: 'text/csv' }));
+    else if (format === 'svg')
+      downloadBlob(`${stem}.svg`, new Blob([chartSvg(chart, props.title, themeColors())], { type: 'image/svg+xml' }));
+    else
+      downloadBlob(
+        `${stem}.csv`,
+        new Blob([latest.current.csv ? latest.current.csv() : chartCsv(chart)], { type: 'text/csv' }),
+      );
   };
 
   return (
@@ -239,7 +266,13 @@ export function PlotPanel(props: PlotPanelProps) {
         <figcaption className="plot-title">{props.title}</figcaption>
         {props.isEmpty ? null : (
           <div className="plot-tools" role="toolbar" aria-label={`${props.title}: tools`}>
-            <select className="plot-tool" value={zoom} onChange={(e) => setZoom(e.target.value as ZoomMode)} aria-label="Zoom by dragging" data-testid={`${props.testId}-zoom-mode`}>
+            <select
+              className="plot-tool"
+              value={zoom}
+              onChange={(e) => setZoom(e.target.value as ZoomMode)}
+              aria-label="Zoom by dragging"
+              data-testid={`${props.testId}-zoom-mode`}
+            >
               {(Object.keys(ZOOM_LABEL) as ZoomMode[]).map((mode) => (
                 <option key={mode} value={mode}>
                   {ZOOM_LABEL[mode]}
@@ -247,25 +280,54 @@ export function PlotPanel(props: PlotPanelProps) {
               ))}
             </select>
             {zoomed ? (
-              <button type="button" className="plot-tool plot-reset" onClick={() => resetRef.current()} data-testid={`${props.testId}-reset`}>
+              <button
+                type="button"
+                className="plot-tool plot-reset"
+                onClick={() => resetRef.current()}
+                data-testid={`${props.testId}-reset`}
+              >
                 Whole range
               </button>
             ) : null}
-            <button type="button" className="plot-tool" onClick={() => void exportAs('png')} data-testid={`${props.testId}-png`} title="Save the chart as a PNG image">
+            <button
+              type="button"
+              className="plot-tool"
+              onClick={() => void exportAs('png')}
+              data-testid={`${props.testId}-png`}
+              title="Save the chart as a PNG image"
+            >
               PNG
             </button>
-            <button type="button" className="plot-tool" onClick={() => void exportAs('svg')} data-testid={`${props.testId}-svg`} title="Save the chart as an SVG drawing">
+            <button
+              type="button"
+              className="plot-tool"
+              onClick={() => void exportAs('svg')}
+              data-testid={`${props.testId}-svg`}
+              title="Save the chart as an SVG drawing"
+            >
               SVG
             </button>
-            <button type="button" className="plot-tool" onClick={() => void exportAs('csv')} data-testid={`${props.testId}-csv`} title="Save the chart's data as CSV">
+            <button
+              type="button"
+              className="plot-tool"
+              onClick={() => void exportAs('csv')}
+              data-testid={`${props.testId}-csv`}
+              title="Save the chart's data as CSV"
+            >
               CSV
             </button>
           </div>
         )}
       </div>
-      <div className={props.isEmpty ? 'plot-host plot-host-hidden' : 'plot-host'} ref={hostRef} onDoubleClick={() => resetRef.current()} />
+      <div
+        className={props.isEmpty ? 'plot-host plot-host-hidden' : 'plot-host'}
+        ref={hostRef}
+        onDoubleClick={() => resetRef.current()}
+      />
       {props.isEmpty ? <p className="plot-empty">{props.emptyText ?? 'No readings yet.'}</p> : null}
-      {cursorsOn && !props.isEmpty && props.cursorUnits ? <CursorReadout marks={marks} units={props.cursorUnits} onClear={() => setMarks([])} testId={props.testId} /> : null}
+      {cursorsOn && !props.isEmpty && props.cursorUnits ? (
+        <CursorReadout marks={marks} units={props.cursorUnits} onClear={() => setMarks([])} testId={props.testId} />
+      ) : null}
       {props.footer && !props.isEmpty ? <div className="plot-footer">{props.footer}</div> : null}
     </figure>
   );

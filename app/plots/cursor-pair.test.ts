@@ -18,7 +18,11 @@ describe('two cursors', () => {
   });
 
   it('a click takes the first series with a reading at that row', () => {
-    const data = [[1, 2, 3], [null, null, 5], [7, null, 8]];
+    const data = [
+      [1, 2, 3],
+      [null, null, 5],
+      [7, null, 8],
+    ];
     expect(markAt(data, 0)).toEqual({ x: 1, y: 7 });
     expect(markAt(data, 1)).toBeNull();
     expect(markAt(data, 2)).toEqual({ x: 3, y: 5 });

@@ -22,7 +22,10 @@ export function cursorDeltas(a: CursorMark, b: CursorMark): CursorDeltas {
 }
 
 /** The reading a click lands on: the x at `idx` and the first series with a value there. */
-export function markAt(data: readonly ArrayLike<number | null | undefined>[], idx: number | null | undefined): CursorMark | null {
+export function markAt(
+  data: readonly ArrayLike<number | null | undefined>[],
+  idx: number | null | undefined,
+): CursorMark | null {
   if (idx === null || idx === undefined) return null;
   const x = data[0]?.[idx];
   if (x === null || x === undefined || !Number.isFinite(x)) return null;

@@ -32,7 +32,8 @@ export function lowerBound(x: ArrayLike<number>, value: number, n = x.length): n
   return lo;
 }
 
-const cell = (value: number | null | undefined): number | null => (value === null || value === undefined || !Number.isFinite(value) ? null : value);
+const cell = (value: number | null | undefined): number | null =>
+  value === null || value === undefined || !Number.isFinite(value) ? null : value;
 
 /**
  * Points of rows [0, n) with x in [from, to]. Dense when more than `maxPoints`

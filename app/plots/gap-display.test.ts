@@ -46,7 +46,10 @@ describe('frame gate', () => {
   it('draws at most once per frame however many requests arrive', () => {
     const frames: (() => void)[] = [];
     let draws = 0;
-    const gate = createFrameGate(() => (draws += 1), (cb) => frames.push(cb));
+    const gate = createFrameGate(
+      () => (draws += 1),
+      (cb) => frames.push(cb),
+    );
     for (let i = 0; i < 50; i += 1) gate.request();
     expect(frames).toHaveLength(1);
     frames.shift()?.();

@@ -20,7 +20,9 @@ const FALLBACK: PlotColors = {
   unstable: 'rgba(230,160,40,0.22)',
 };
 
-export function readPlotColors(root: Element | null = typeof document === 'undefined' ? null : document.documentElement): PlotColors {
+export function readPlotColors(
+  root: Element | null = typeof document === 'undefined' ? null : document.documentElement,
+): PlotColors {
   if (!root) return FALLBACK;
   const style = getComputedStyle(root);
   const read = (name: string, fallback: string) => style.getPropertyValue(name).trim() || fallback;

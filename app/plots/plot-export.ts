@@ -61,11 +61,17 @@ export function chartSvg(u: uPlot, title: string, colors: { text: string; grid: 
   const W = u.width;
   const H = u.height + titleH;
   const parts: string[] = [];
-  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="11">`);
+  parts.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="11">`,
+  );
   parts.push(`<rect width="${W}" height="${H}" fill="${xmlText(colors.background)}"/>`);
-  parts.push(`<text x="8" y="16" font-size="13" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(title)}</text>`);
+  parts.push(
+    `<text x="8" y="16" font-size="13" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(title)}</text>`,
+  );
   parts.push(`<g transform="translate(0 ${titleH})">`);
-  parts.push(`<rect x="${fmt(left)}" y="${fmt(top)}" width="${fmt(width)}" height="${fmt(height)}" fill="none" stroke="${xmlText(colors.grid)}"/>`);
+  parts.push(
+    `<rect x="${fmt(left)}" y="${fmt(top)}" width="${fmt(width)}" height="${fmt(height)}" fill="none" stroke="${xmlText(colors.grid)}"/>`,
+  );
   const axes = u.axes as unknown as DrawnAxis[];
   axes.forEach((axis, index) => {
     if (axis.show === false) return;
@@ -80,26 +86,43 @@ export function chartSvg(u: uPlot, title: string, colors: { text: string; grid: 
       const label = values[k];
       if (horizontal) {
         const x = left + pos;
-        parts.push(`<line x1="${fmt(x)}" y1="${fmt(top)}" x2="${fmt(x)}" y2="${fmt(top + height)}" stroke="${xmlText(colors.grid)}"/>`);
-        if (label !== null && label !== undefined) parts.push(`<text x="${fmt(x)}" y="${fmt(top + height + 14)}" text-anchor="middle" fill="${xmlText(colors.text)}">${xmlText(String(label))}</text>`);
+        parts.push(
+          `<line x1="${fmt(x)}" y1="${fmt(top)}" x2="${fmt(x)}" y2="${fmt(top + height)}" stroke="${xmlText(colors.grid)}"/>`,
+        );
+        if (label !== null && label !== undefined)
+          parts.push(
+            `<text x="${fmt(x)}" y="${fmt(top + height + 14)}" text-anchor="middle" fill="${xmlText(colors.text)}">${xmlText(String(label))}</text>`,
+          );
       } else {
         const y = top + pos;
         const right = side === 1;
-        if (!right) parts.push(`<line x1="${fmt(left)}" y1="${fmt(y)}" x2="${fmt(left + width)}" y2="${fmt(y)}" stroke="${xmlText(colors.grid)}"/>`);
+        if (!right)
+          parts.push(
+            `<line x1="${fmt(left)}" y1="${fmt(y)}" x2="${fmt(left + width)}" y2="${fmt(y)}" stroke="${xmlText(colors.grid)}"/>`,
+          );
         if (label !== null && label !== undefined) {
-          parts.push(`<text x="${fmt(right ? left + width + 6 : left - 6)}" y="${fmt(y + 4)}" text-anchor="${right ? 'start' : 'end'}" fill="${xmlText(colors.text)}">${xmlText(String(label))}</text>`);
+          parts.push(
+            `<text x="${fmt(right ? left + width + 6 : left - 6)}" y="${fmt(y + 4)}" text-anchor="${right ? 'start' : 'end'}" fill="${xmlText(colors.text)}">${xmlText(String(label))}</text>`,
+          );
         }
       }
     });
     if (axis.label) {
-      if (horizontal) parts.push(`<text x="${fmt(left + width / 2)}" y="${fmt(top + height + 32)}" text-anchor="middle" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(axis.label)}</text>`);
+      if (horizontal)
+        parts.push(
+          `<text x="${fmt(left + width / 2)}" y="${fmt(top + height + 32)}" text-anchor="middle" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(axis.label)}</text>`,
+        );
       else {
         const x = side === 1 ? W - 8 : 12;
-        parts.push(`<text transform="translate(${fmt(x)} ${fmt(top + height / 2)}) rotate(${side === 1 ? 90 : -90})" text-anchor="middle" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(axis.label)}</text>`);
+        parts.push(
+          `<text transform="translate(${fmt(x)} ${fmt(top + height / 2)}) rotate(${side === 1 ? 90 : -90})" text-anchor="middle" font-weight="600" fill="${xmlText(colors.text)}">${xmlText(axis.label)}</text>`,
+        );
       }
     }
   });
-  parts.push(`<clipPath id="plot-area"><rect x="${fmt(left)}" y="${fmt(top)}" width="${fmt(width)}" height="${fmt(height)}"/></clipPath>`);
+  parts.push(
+    `<clipPath id="plot-area"><rect x="${fmt(left)}" y="${fmt(top)}" width="${fmt(width)}" height="${fmt(height)}"/></clipPath>`,
+  );
   parts.push('<g clip-path="url(#plot-area)">');
   const xs = u.data[0] as ArrayLike<number>;
   const pointAt = (seriesIndex: number, i: number): [number, number] | null => {
@@ -130,11 +153,16 @@ export function chartSvg(u: uPlot, title: string, colors: { text: string; grid: 
     const color = typeof stroke === 'string' ? stroke : colors.text;
     const drawsLine = s.paths === undefined || s.paths(u, index, 0, 0) !== null;
     const points = s.points as { show?: unknown; size?: number } | undefined;
-    const drawsPoints = points?.show === true || (typeof points?.show === 'function' && (points.show as (u: uPlot, i: number) => boolean)(u, index));
+    const drawsPoints =
+      points?.show === true ||
+      (typeof points?.show === 'function' && (points.show as (u: uPlot, i: number) => boolean)(u, index));
     if (drawsLine && (s.width ?? 1) > 0 && !(s.stroke === 'transparent')) {
       let run: string[] = [];
       const flush = () => {
-        if (run.length > 1) parts.push(`<polyline points="${run.join(' ')}" fill="none" stroke="${xmlText(color)}" stroke-width="${s.width ?? 1}"/>`);
+        if (run.length > 1)
+          parts.push(
+            `<polyline points="${run.join(' ')}" fill="none" stroke="${xmlText(color)}" stroke-width="${s.width ?? 1}"/>`,
+          );
         run = [];
       };
       for (let i = 0; i < xs.length; i += 1) {
@@ -158,8 +186,12 @@ export function chartSvg(u: uPlot, title: string, colors: { text: string; grid: 
   u.series.forEach((s, index) => {
     if (index === 0 || s.show === false || !s.label) return;
     const stroke = typeof s.stroke === 'function' ? s.stroke(u, index) : s.stroke;
-    parts.push(`<rect x="${fmt(lx)}" y="${fmt(top + height + 40)}" width="10" height="10" fill="${xmlText(typeof stroke === 'string' ? stroke : colors.text)}"/>`);
-    parts.push(`<text x="${fmt(lx + 14)}" y="${fmt(top + height + 49)}" fill="${xmlText(colors.text)}">${xmlText(labelText(s.label))}</text>`);
+    parts.push(
+      `<rect x="${fmt(lx)}" y="${fmt(top + height + 40)}" width="10" height="10" fill="${xmlText(typeof stroke === 'string' ? stroke : colors.text)}"/>`,
+    );
+    parts.push(
+      `<text x="${fmt(lx + 14)}" y="${fmt(top + height + 49)}" fill="${xmlText(colors.text)}">${xmlText(labelText(s.label))}</text>`,
+    );
     lx += 24 + labelText(s.label).length * 6.5;
   });
   parts.push('</g></svg>');
@@ -187,5 +219,7 @@ export function chartPng(u: uPlot, title: string, colors: { text: string; backgr
   ctx.font = `600 ${Math.round(13 * pr)}px sans-serif`;
   ctx.fillText(title, 8 * pr, 16 * pr);
   ctx.drawImage(source, 0, titleH);
-  return new Promise((resolve, reject) => canvas.toBlob((blob) => (blob ? resolve(blob) : reject(new Error('the PNG could not be encoded'))), 'image/png'));
+  return new Promise((resolve, reject) =>
+    canvas.toBlob((blob) => (blob ? resolve(blob) : reject(new Error('the PNG could not be encoded'))), 'image/png'),
+  );
 }

@@ -33,16 +33,24 @@ export function decimalsFor(step: number): number {
  */
 export function tickLabels(values: readonly (number | null)[], incr: number, unit: string): string[] {
   let largest = 0;
-  for (const value of values) if (value !== null && Number.isFinite(value)) largest = Math.max(largest, Math.abs(value));
+  for (const value of values)
+    if (value !== null && Number.isFinite(value)) largest = Math.max(largest, Math.abs(value));
   const { scale, symbol } = siPrefixFor(largest);
   const step = incr > 0 && Number.isFinite(incr) ? incr / scale : 1;
   const decimals = decimalsFor(step);
-  return values.map((value) => (value === null || !Number.isFinite(value) ? '' : `${(value / scale).toFixed(decimals).replace(/^-/, '−')} ${symbol}${unit}`.trimEnd()));
+  return values.map((value) =>
+    value === null || !Number.isFinite(value)
+      ? ''
+      : `${(value / scale).toFixed(decimals).replace(/^-/, '−')} ${symbol}${unit}`.trimEnd(),
+  );
 }
 
 /** Axis for log scales: each tick takes its own prefix (100 Hz, 1 kHz, 10 kHz …). */
 export function logSiAxis(colors: PlotColors, label: string, unit: string): uPlot.Axis {
-  return { ...siAxis(colors, label, unit), values: (_u, values) => values.map((value) => (value === null ? '' : si(value, unit, 2))) };
+  return {
+    ...siAxis(colors, label, unit),
+    values: (_u, values) => values.map((value) => (value === null ? '' : si(value, unit, 2))),
+  };
 }
 
 /**
@@ -55,7 +63,8 @@ export function timeAxis(colors: PlotColors, label = 'Time', startMs: number | n
     ...siAxis(colors, label, 's'),
     incrs: [...TIME_STEPS_S],
     space: 78,
-    values: (_u, values, _axis, _space, incr) => values.map((value) => (value === null ? '' : timeTickLabel(value, incr, startMs))),
+    values: (_u, values, _axis, _space, incr) =>
+      values.map((value) => (value === null ? '' : timeTickLabel(value, incr, startMs))),
   };
 }
 
@@ -63,7 +72,12 @@ export function xSeries(unit: string, label: string): uPlot.Series {
   return { label, value: (_u, value) => si(value, unit, 5) };
 }
 
-export function pointSeries(label: string, color: string, unit: string, extra: Partial<uPlot.Series> = {}): uPlot.Series {
+export function pointSeries(
+  label: string,
+  color: string,
+  unit: string,
+  extra: Partial<uPlot.Series> = {},
+): uPlot.Series {
   return {
     label,
     stroke: color,
@@ -75,11 +89,29 @@ export function pointSeries(label: string, color: string, unit: string, extra: P
   };
 }
 
-export function lineSeries(label: string, color: string, unit: string, extra: Partial<uPlot.Series> = {}): uPlot.Series {
-  return { label, stroke: color, width: 1.5, points: { show: false }, value: (_u, value) => si(value, unit, 6), ...extra };
+export function lineSeries(
+  label: string,
+  color: string,
+  unit: string,
+  extra: Partial<uPlot.Series> = {},
+): uPlot.Series {
+  return {
+    label,
+    stroke: color,
+    width: 1.5,
+    points: { show: false },
+    value: (_u, value) => si(value, unit, 6),
+    ...extra,
+  };
 }
 
-export function baseOptions(width: number, height: number, series: uPlot.Series[], axes: uPlot.Axis[], extra: Partial<uPlot.Options> = {}): uPlot.Options {
+export function baseOptions(
+  width: number,
+  height: number,
+  series: uPlot.Series[],
+  axes: uPlot.Axis[],
+  extra: Partial<uPlot.Options> = {},
+): uPlot.Options {
   return {
     width,
     height,
@@ -96,7 +128,8 @@ export function baseOptions(width: number, height: number, series: uPlot.Series[
 export function withAlpha(color: string, alpha: number): string {
   const hex = /^#([0-9a-f]{3}|[0-9a-f]{6})$/i.exec(color.trim());
   if (!hex) return color;
-  const digits = (hex[1] as string).length === 3 ? [...(hex[1] as string)].map((c) => c + c).join('') : (hex[1] as string);
+  const digits =
+    (hex[1] as string).length === 3 ? [...(hex[1] as string)].map((c) => c + c).join('') : (hex[1] as string);
   const [r, g, b] = [0, 2, 4].map((i) => parseInt(digits.slice(i, i + 2), 16));
   return `rgba(${r}, ${g}, ${b}, ${alpha})`;
 }

@@ -30,7 +30,8 @@ export function buildSweepDisplay(columns: ColumnSet, n: number): SweepDisplay {
   for (let k = 0; k < n; k += 1) {
     const i = order[k] ?? 0;
     const frequencyHz = columns.frequency_hz.at(i);
-    const shown = columns.status.at(i) === STATUS_CODE.ok && Number.isFinite(frequencyHz) && frequencyHz > 0 ? frequencyHz : null;
+    const shown =
+      columns.status.at(i) === STATUS_CODE.ok && Number.isFinite(frequencyHz) && frequencyHz > 0 ? frequencyHz : null;
     const isDown = columns.direction.at(i) === DIRECTION_CODE.down;
     x[k] = controlV[i] ?? 0;
     up[k] = isDown ? null : shown;

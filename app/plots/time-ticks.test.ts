@@ -5,13 +5,26 @@ describe('time axis ticks in clock units', () => {
   it('a 150 s log on a 380 px plot steps in 30 s and reads in minutes and seconds, not 0.333333 min', () => {
     const step = timeStepFor(150, 380, 70);
     expect(step).toBe(30);
-    expect(timeTicks(0, 150, step).map((t) => timeTickLabel(t, step))).toEqual(['0 s', '30 s', '1 min', '1 min 30 s', '2 min', '2 min 30 s']);
+    expect(timeTicks(0, 150, step).map((t) => timeTickLabel(t, step))).toEqual([
+      '0 s',
+      '30 s',
+      '1 min',
+      '1 min 30 s',
+      '2 min',
+      '2 min 30 s',
+    ]);
   });
 
   it('a 10 min log steps in whole minutes', () => {
     const step = timeStepFor(600, 380, 70);
     expect(step).toBe(120);
-    expect(timeTicks(3, 600, step).map((t) => timeTickLabel(t, step))).toEqual(['2 min', '4 min', '6 min', '8 min', '10 min']);
+    expect(timeTicks(3, 600, step).map((t) => timeTickLabel(t, step))).toEqual([
+      '2 min',
+      '4 min',
+      '6 min',
+      '8 min',
+      '10 min',
+    ]);
   });
 
   it('a 12 h overnight log steps in hours, minutes shown only when not whole', () => {
@@ -32,6 +45,14 @@ describe('time axis ticks in clock units', () => {
 
   it('sub-second zooms keep just the decimals of the step', () => {
     expect(timeStepFor(1.2, 600, 70)).toBe(0.2);
-    expect(timeTicks(10, 11.2, 0.2).map((t) => timeTickLabel(t, 0.2))).toEqual(['10.0 s', '10.2 s', '10.4 s', '10.6 s', '10.8 s', '11.0 s', '11.2 s']);
+    expect(timeTicks(10, 11.2, 0.2).map((t) => timeTickLabel(t, 0.2))).toEqual([
+      '10.0 s',
+      '10.2 s',
+      '10.4 s',
+      '10.6 s',
+      '10.8 s',
+      '11.0 s',
+      '11.2 s',
+    ]);
   });
 });

@@ -7,8 +7,8 @@
 
 /** Allowed tick steps, s (sub-second for short zooms). */
 export const TIME_STEPS_S: readonly number[] = [
-  0.001, 0.002, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10_800, 21_600, 43_200, 86_400,
-  172_800, 604_800,
+  0.001, 0.002, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200,
+  10_800, 21_600, 43_200, 86_400, 172_800, 604_800,
 ];
 
 /** Smallest allowed step that keeps ticks at least `minPx` apart over `spanS` drawn on `widthPx`. */

@@ -85,7 +85,9 @@ export async function restoreRunContext(bench: BenchApi, stores: AppStores): Pro
   if (stores.liveRun.getState().meta) return;
   const [status, runs] = await Promise.all([bench.getBenchStatus(), bench.listRuns()]);
   if (status.source !== 'run') return;
-  const running = runs.filter((run) => run.status === 'running').sort((a, b) => b.startedAt.localeCompare(a.startedAt))[0];
+  const running = runs
+    .filter((run) => run.status === 'running')
+    .sort((a, b) => b.startedAt.localeCompare(a.startedAt))[0];
   if (!running) return;
   const detail = await bench.openRun(running.id);
   if (stores.liveRun.getState().meta) return;

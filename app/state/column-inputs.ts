@@ -16,7 +16,11 @@ import { DIRECTION_CODE, STATUS_CODE, type ColumnSet } from './columns.ts';
 
 /** Status codes of the store's columns whose readings have `effect`. */
 function codesWith(effect: StatusEffect): ReadonlySet<number> {
-  return new Set(Object.entries(STATUS_CODE).filter(([name]) => STATUS_EFFECT[name as keyof typeof STATUS_CODE] === effect).map(([, code]) => code));
+  return new Set(
+    Object.entries(STATUS_CODE)
+      .filter(([name]) => STATUS_EFFECT[name as keyof typeof STATUS_CODE] === effect)
+      .map(([, code]) => code),
+  );
 }
 const MEASURED = codesWith('measured');
 const DROPPED = codesWith('dropped');
@@ -37,7 +41,11 @@ function withoutFailedRows(columns: ColumnSet, values: Float64Array): Float64Arr
   return out;
 }
 
-export function sweepInputFromColumns(columns: ColumnSet, n: number, gateS: number | undefined): SweepInput & { direction: Int8Array } {
+export function sweepInputFromColumns(
+  columns: ColumnSet,
+  n: number,
+  gateS: number | undefined,
+): SweepInput & { direction: Int8Array } {
   const controlV = withoutFailedRows(columns, columns.control_v.view().subarray(0, n));
   const direction = new Int8Array(n);
   for (let i = 0; i < n; i += 1) direction[i] = columns.direction.at(i) === DIRECTION_CODE.down ? -1 : 1;
@@ -59,5 +67,7 @@ export function driftInputFromColumns(columns: ColumnSet, n: number): DriftInput
 export function pushingInputFromColumns(columns: ColumnSet, n: number): PushingInput {
   const supplyV = withoutFailedRows(columns, columns.supply_v.view().subarray(0, n));
   const controlV = meanOfFinite(columns.control_v.view().subarray(0, n));
-  return controlV !== null ? { supplyV, frequencyHz: okFrequency(columns, n), controlV } : { supplyV, frequencyHz: okFrequency(columns, n) };
+  return controlV !== null
+    ? { supplyV, frequencyHz: okFrequency(columns, n), controlV }
+    : { supplyV, frequencyHz: okFrequency(columns, n) };
 }

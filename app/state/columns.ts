@@ -88,7 +88,16 @@ export function statusCode(text: unknown): number {
 export const DIRECTION_CODE = { up: 0, down: 1 } as const;
 
 /** The columns every run view draws from; absent columns stay NaN-filled. */
-export const RUN_COLUMNS = ['time_s', 'control_v', 'control_meas_v', 'frequency_hz', 'temperature_c', 'supply_v', 'status', 'direction'] as const;
+export const RUN_COLUMNS = [
+  'time_s',
+  'control_v',
+  'control_meas_v',
+  'frequency_hz',
+  'temperature_c',
+  'supply_v',
+  'status',
+  'direction',
+] as const;
 export type RunColumnName = (typeof RUN_COLUMNS)[number];
 
 export type ColumnSet = Record<RunColumnName, GrowableColumn>;
@@ -118,14 +127,20 @@ export function appendRows(set: ColumnSet, rows: readonly Record<string, number 
   for (const row of rows) {
     for (const name of RUN_COLUMNS) {
       if (name === 'status') set.status.push(statusCode(row.status ?? 'ok'));
-      else if (name === 'direction') set.direction.push(row.direction === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up);
+      else if (name === 'direction')
+        set.direction.push(row.direction === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up);
       else set[name].push(numericCell(row[name]));
     }
   }
 }
 
 /** Numeric codes of a text column through `codeOf` (per level for coded columns, so a million rows cost one table look-up each). */
-function codedColumn(source: TextColumn | undefined, n: number, codeOf: (text: string) => number, missing: number): Float64Array {
+function codedColumn(
+  source: TextColumn | undefined,
+  n: number,
+  codeOf: (text: string) => number,
+  missing: number,
+): Float64Array {
   const out = new Float64Array(n);
   if (!source) {
     if (missing !== 0) out.fill(missing);
@@ -150,17 +165,30 @@ function codedColumn(source: TextColumn | undefined, n: number, codeOf: (text: s
  * Absent columns share one NaN-filled buffer (adopted buffers are never
  * written in place).
  */
-export function columnSetFromStored(numeric: Record<string, NumericColumn>, text: Record<string, TextColumn>): ColumnSet {
+export function columnSetFromStored(
+  numeric: Record<string, NumericColumn>,
+  text: Record<string, TextColumn>,
+): ColumnSet {
   let n = 0;
   for (const column of Object.values(numeric)) n = Math.max(n, column.length);
-  for (const column of Object.values(text)) n = Math.max(n, Array.isArray(column) ? column.length : column.codes.length);
+  for (const column of Object.values(text))
+    n = Math.max(n, Array.isArray(column) ? column.length : column.codes.length);
   let nanRow: Float64Array | null = null;
   const set = {} as ColumnSet;
   for (const name of RUN_COLUMNS) {
     if (name === 'status') {
-      set.status = GrowableColumn.adopting(codedColumn(text.status, n, (t) => (t === 'ok' ? STATUS_CODE.ok : statusCode(t)), STATUS_CODE.ok));
+      set.status = GrowableColumn.adopting(
+        codedColumn(text.status, n, (t) => (t === 'ok' ? STATUS_CODE.ok : statusCode(t)), STATUS_CODE.ok),
+      );
     } else if (name === 'direction') {
-      set.direction = GrowableColumn.adopting(codedColumn(text.direction, n, (t) => (t === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up), DIRECTION_CODE.up));
+      set.direction = GrowableColumn.adopting(
+        codedColumn(
+          text.direction,
+          n,
+          (t) => (t === 'down' ? DIRECTION_CODE.down : DIRECTION_CODE.up),
+          DIRECTION_CODE.up,
+        ),
+      );
     } else {
       const source = numeric[name];
       if (source instanceof Float64Array && source.length === n) set[name] = GrowableColumn.adopting(source);
@@ -169,8 +197,7 @@ export function columnSetFromStored(numeric: Record<string, NumericColumn>, text
         const copy = new Float64Array(n).fill(Number.NaN);
         copy.set(source);
         set[name] = GrowableColumn.adopting(copy);
-      }
-      else set[name] = GrowableColumn.adopting((nanRow ??= new Float64Array(n).fill(Number.NaN)));
+      } else set[name] = GrowableColumn.adopting((nanRow ??= new Float64Array(n).fill(Number.NaN)));
     }
   }
   return set;

@@ -60,7 +60,12 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       peers: 0,
       async refresh() {
         await guarded(async () => {
-          const [connection, ports, profiles, status] = await Promise.all([bench.getConnection(), bench.listSerialPorts(), bench.listProfiles(), bench.getBenchStatus()]);
+          const [connection, ports, profiles, status] = await Promise.all([
+            bench.getConnection(),
+            bench.listSerialPorts(),
+            bench.listProfiles(),
+            bench.getBenchStatus(),
+          ]);
           set({ connection, ports, profiles, status });
         });
       },

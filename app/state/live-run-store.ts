@@ -45,12 +45,33 @@ export function createLiveRunStore(): LiveRunStore {
     paused: false,
     started(meta) {
       // A fresh column set: the previous run's columns may still be on screen elsewhere.
-      set({ meta, progress: null, columns: createColumnSet(), rows: 0, version: get().version + 1, events: [], active: true, paused: false });
+      set({
+        meta,
+        progress: null,
+        columns: createColumnSet(),
+        rows: 0,
+        version: get().version + 1,
+        events: [],
+        active: true,
+        paused: false,
+      });
     },
     resumed(meta, columns, rows, events) {
       if (get().meta?.id === meta.id && get().active) return;
-      const paused = events.reduce((p, e) => (e.type === 'pause' || e.type === 'paused' ? true : e.type === 'resume' ? false : p), false);
-      set({ meta, progress: null, columns, rows, version: get().version + 1, events, active: meta.status === 'running', paused });
+      const paused = events.reduce(
+        (p, e) => (e.type === 'pause' || e.type === 'paused' ? true : e.type === 'resume' ? false : p),
+        false,
+      );
+      set({
+        meta,
+        progress: null,
+        columns,
+        rows,
+        version: get().version + 1,
+        events,
+        active: meta.status === 'running',
+        paused,
+      });
     },
     samples(runId, rows) {
       const { meta, columns } = get();
@@ -76,7 +97,12 @@ export function createLiveRunStore(): LiveRunStore {
       const { meta, events } = get();
       if (!meta || meta.id !== runId) return;
       // Another window may pause or resume the same run; its events keep this one in step.
-      const pausedNow = event.type === 'pause' || event.type === 'paused' ? { paused: true } : event.type === 'resume' ? { paused: false } : {};
+      const pausedNow =
+        event.type === 'pause' || event.type === 'paused'
+          ? { paused: true }
+          : event.type === 'resume'
+            ? { paused: false }
+            : {};
       set({ events: [...events, event], ...pausedNow });
     },
   }));

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { checkDriftDraft, checkSweepDraft, DEFAULT_DRIFT, DEFAULT_LIMITS, DEFAULT_SWEEP, sweepPointCount } from './plan-drafts.ts';
+import {
+  checkDriftDraft,
+  checkSweepDraft,
+  DEFAULT_DRIFT,
+  DEFAULT_LIMITS,
+  DEFAULT_SWEEP,
+  sweepPointCount,
+} from './plan-drafts.ts';
 
 describe('plan drafts', () => {
   it('accepts the default sweep with SI-prefixed text and counts its points', () => {
@@ -12,15 +19,21 @@ describe('plan drafts', () => {
   });
 
   it('names the field while typing: a bad number, a missing stop, a zero step', () => {
-    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '0.2x' }, DEFAULT_LIMITS).errors.start).toMatch(/expected a voltage/);
+    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '0.2x' }, DEFAULT_LIMITS).errors.start).toMatch(
+      /expected a voltage/,
+    );
     expect(checkSweepDraft({ ...DEFAULT_SWEEP, stop: '' }, DEFAULT_LIMITS).errors.stop).toMatch(/required/);
     expect(checkSweepDraft({ ...DEFAULT_SWEEP, step: '0' }, DEFAULT_LIMITS).errors.step).toMatch(/greater than 0/);
-    expect(checkSweepDraft(DEFAULT_SWEEP, { ...DEFAULT_LIMITS, currentLimitA: '' }).errors['limits.currentLimitA']).toBeDefined();
+    expect(
+      checkSweepDraft(DEFAULT_SWEEP, { ...DEFAULT_LIMITS, currentLimitA: '' }).errors['limits.currentLimitA'],
+    ).toBeDefined();
   });
 
   it('refuses setpoints above the control-voltage limit and a reversed range', () => {
     expect(checkSweepDraft({ ...DEFAULT_SWEEP, stop: '6' }, DEFAULT_LIMITS).errors.stop).toMatch(/limit of 5 V/);
-    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '3', stop: '2' }, DEFAULT_LIMITS).errors.stop).toBe('must be above start');
+    expect(checkSweepDraft({ ...DEFAULT_SWEEP, start: '3', stop: '2' }, DEFAULT_LIMITS).errors.stop).toBe(
+      'must be above start',
+    );
     expect(checkDriftDraft({ ...DEFAULT_DRIFT, controlV: '7.5' }, DEFAULT_LIMITS).errors.controlV).toMatch(/limit/);
   });
 

@@ -74,11 +74,15 @@ function limitsInput(limits: LimitsDraft) {
 
 /** Limits the plan must respect before it goes to main (main checks again). */
 function checkAgainstLimits(errors: FieldErrors, field: string, valueV: number | undefined, maxV: number): void {
-  if (valueV !== undefined && valueV > maxV && !errors[field]) errors[field] = `above the control-voltage limit of ${maxV} V`;
+  if (valueV !== undefined && valueV > maxV && !errors[field])
+    errors[field] = `above the control-voltage limit of ${maxV} V`;
 }
 
 export function checkSweepDraft(draft: SweepDraft, limits: LimitsDraft): Checked<SweepPlan> {
-  const settle = draft.settleMode === 'auto' ? { mode: 'auto' as const, maxS: orUndefined(draft.settleS) } : { mode: 'fixed' as const, seconds: orUndefined(draft.settleS) };
+  const settle =
+    draft.settleMode === 'auto'
+      ? { mode: 'auto' as const, maxS: orUndefined(draft.settleS) }
+      : { mode: 'fixed' as const, seconds: orUndefined(draft.settleS) };
   const parsed = sweepPlanSchema.safeParse({
     start: orUndefined(draft.start),
     stop: orUndefined(draft.stop),
@@ -93,10 +97,16 @@ export function checkSweepDraft(draft: SweepDraft, limits: LimitsDraft): Checked
   if (!parsed.success) return { ok: false, errors: collect(parsed.error) };
   const plan = parsed.data;
   const errors: FieldErrors = {};
-  if (plan.start !== undefined && plan.stop !== undefined && plan.stop <= plan.start) errors.stop = 'must be above start';
+  if (plan.start !== undefined && plan.stop !== undefined && plan.stop <= plan.start)
+    errors.stop = 'must be above start';
   checkAgainstLimits(errors, 'start', plan.start, plan.limits.maxControlV);
   checkAgainstLimits(errors, 'stop', plan.stop, plan.limits.maxControlV);
-  if (plan.start !== undefined && plan.stop !== undefined && plan.step !== undefined && (plan.stop - plan.start) / plan.step > 100_000) {
+  if (
+    plan.start !== undefined &&
+    plan.stop !== undefined &&
+    plan.step !== undefined &&
+    (plan.stop - plan.start) / plan.step > 100_000
+  ) {
     errors.step = 'gives more than 100 000 points; use a larger step';
   }
   return Object.keys(errors).length > 0 ? { ok: false, errors } : { ok: true, plan, errors };

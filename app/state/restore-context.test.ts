@@ -18,7 +18,18 @@ const RUNNING: RunMeta = {
 };
 
 function status(source: BenchStatus['source']): BenchStatus {
-  return { source, output: source === 'run', controlSetV: 2.5, controlMeasV: null, frequencyHz: 13_780, temperatureC: 23.5, updatedAt: null, links: [], paused: null, safeState: null };
+  return {
+    source,
+    output: source === 'run',
+    controlSetV: 2.5,
+    controlMeasV: null,
+    frequencyHz: 13_780,
+    temperatureC: 23.5,
+    updatedAt: null,
+    links: [],
+    paused: null,
+    safeState: null,
+  };
 }
 
 function bench(source: BenchStatus['source']) {
@@ -32,7 +43,11 @@ function bench(source: BenchStatus['source']) {
     listRuns: vi.fn(async () => [RUNNING]),
     openRun: vi.fn(async () => ({
       meta: RUNNING,
-      samples: { names: ['time_s', 'control_v', 'frequency_hz', 'status'], numeric: { time_s: [0, 1, 2], control_v: [2.5, 2.5, 2.5], frequency_hz: [13_770, 13_780, 13_780] }, text: { status: ['ok', 'ok', 'ok'] } },
+      samples: {
+        names: ['time_s', 'control_v', 'frequency_hz', 'status'],
+        numeric: { time_s: [0, 1, 2], control_v: [2.5, 2.5, 2.5], frequency_hz: [13_770, 13_780, 13_780] },
+        text: { status: ['ok', 'ok', 'ok'] },
+      },
       events: [{ time_s: 1.5, type: 'pause' }],
     })),
   } as unknown as BenchApi;
@@ -48,7 +63,11 @@ describe('context after a reload', () => {
     const live = stores.liveRun.getState();
     expect(live).toMatchObject({ active: true, paused: true, rows: 3 });
     expect(live.meta?.id).toBe(RUNNING.id);
-    push({ type: 'samples', runId: RUNNING.id, rows: [{ time_s: 3, control_v: 2.5, frequency_hz: 13_770, status: 'ok' }] });
+    push({
+      type: 'samples',
+      runId: RUNNING.id,
+      rows: [{ time_s: 3, control_v: 2.5, frequency_hz: 13_770, status: 'ok' }],
+    });
     expect(stores.liveRun.getState().rows).toBe(4);
     expect(Array.from(stores.liveRun.getState().columns.frequency_hz.view())).toEqual([13_770, 13_780, 13_780, 13_770]);
   });

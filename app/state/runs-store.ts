@@ -61,7 +61,11 @@ export function createRunsStore(bench: BenchApi): RunsStore {
     function forget(id: string): Pick<RunsState, 'opened' | 'picked' | 'focusId'> {
       const opened = { ...get().opened };
       delete opened[id];
-      return { opened, picked: get().picked.filter((p) => p !== id), focusId: get().focusId === id ? null : get().focusId };
+      return {
+        opened,
+        picked: get().picked.filter((p) => p !== id),
+        focusId: get().focusId === id ? null : get().focusId,
+      };
     }
     return {
       runs: [],

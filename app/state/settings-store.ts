@@ -1,6 +1,13 @@
 /** View settings: theme, the screen on show, and drafts kept while moving between screens. */
 import { createStore, type StoreApi } from 'zustand/vanilla';
-import { DEFAULT_DRIFT, DEFAULT_LIMITS, DEFAULT_SWEEP, type DriftDraft, type LimitsDraft, type SweepDraft } from './plan-drafts.ts';
+import {
+  DEFAULT_DRIFT,
+  DEFAULT_LIMITS,
+  DEFAULT_SWEEP,
+  type DriftDraft,
+  type LimitsDraft,
+  type SweepDraft,
+} from './plan-drafts.ts';
 
 export type ThemeChoice = 'system' | 'dark' | 'light';
 export const SCREENS = ['bench', 'sweep', 'drift', 'runs', 'datasheet', 'loop'] as const;

@@ -24,7 +24,10 @@ function meta(id: string, startedAt: string, overrides: Partial<RunMeta> = {}): 
 function fakeBench() {
   let listener: ((event: BenchEvent) => void) | null = null;
   const deleted = new Set<string>();
-  const runs = [meta('a', '2026-01-01T00:00:00Z', { status: 'complete' }), meta('b', '2026-02-01T00:00:00Z', { status: 'complete' })];
+  const runs = [
+    meta('a', '2026-01-01T00:00:00Z', { status: 'complete' }),
+    meta('b', '2026-02-01T00:00:00Z', { status: 'complete' }),
+  ];
   const bench = {
     subscribe: (l: (event: BenchEvent) => void) => {
       listener = l;
@@ -40,10 +43,17 @@ function fakeBench() {
     }),
     openRun: vi.fn(async (id: string) => ({
       meta: runs.find((r) => r.id === id) ?? meta(id, 'x'),
-      samples: { names: ['time_s', 'frequency_hz', 'status'], numeric: { time_s: [0, 1, 2], frequency_hz: [1, 2, 3] }, text: { status: ['ok', 'ok', 'ok'] } },
+      samples: {
+        names: ['time_s', 'frequency_hz', 'status'],
+        numeric: { time_s: [0, 1, 2], frequency_hz: [1, 2, 3] },
+        text: { status: ['ok', 'ok', 'ok'] },
+      },
       events: [],
     })),
-    renameRun: vi.fn(async (id: string, dutId: string) => ({ ...meta(id, '2026-01-01T00:00:00Z'), dut: { id: dutId, notes: '' } })),
+    renameRun: vi.fn(async (id: string, dutId: string) => ({
+      ...meta(id, '2026-01-01T00:00:00Z'),
+      dut: { id: dutId, notes: '' },
+    })),
     connect: vi.fn(async () => {
       throw new Error('supply.address: cannot open /dev/ttyUSB9');
     }),
@@ -61,7 +71,14 @@ describe('app stores', () => {
     push({ type: 'run-started', meta: meta('r1', '2026-03-01T00:00:00Z') });
     const v0 = stores.liveRun.getState().version;
     const columnsRef = stores.liveRun.getState().columns;
-    push({ type: 'samples', runId: 'r1', rows: [{ time_s: 0, control_v: 0.5, frequency_hz: 1e6, status: 'ok' }, { time_s: 1, control_v: 0.6, frequency_hz: 1.1e6, status: 'ok' }] });
+    push({
+      type: 'samples',
+      runId: 'r1',
+      rows: [
+        { time_s: 0, control_v: 0.5, frequency_hz: 1e6, status: 'ok' },
+        { time_s: 1, control_v: 0.6, frequency_hz: 1.1e6, status: 'ok' },
+      ],
+    });
     push({ type: 'samples', runId: 'other', rows: [{ control_v: 9 }] });
     push({ type: 'samples', runId: 'r1', rows: [{ time_s: 2, control_v: 0.7, frequency_hz: 1.2e6, status: 'ok' }] });
     const state = stores.liveRun.getState();
@@ -69,10 +86,24 @@ describe('app stores', () => {
     expect(state.version).toBe(v0 + 2);
     expect(state.columns).toBe(columnsRef); // held by reference, not replaced
     expect(Array.from(state.columns.control_v.view())).toEqual([0.5, 0.6, 0.7]);
-    push({ type: 'progress', progress: { runId: 'r1', kind: 'sweep', phase: 'paused', pointsDone: 3, pointsTotal: 10, etaS: 7, latest: null } });
+    push({
+      type: 'progress',
+      progress: { runId: 'r1', kind: 'sweep', phase: 'paused', pointsDone: 3, pointsTotal: 10, etaS: 7, latest: null },
+    });
     expect(stores.liveRun.getState().paused).toBe(true);
     // A later non-paused phase does not unpause by itself; the resume call does.
-    push({ type: 'progress', progress: { runId: 'r1', kind: 'sweep', phase: 'settling', pointsDone: 3, pointsTotal: 10, etaS: 7, latest: null } });
+    push({
+      type: 'progress',
+      progress: {
+        runId: 'r1',
+        kind: 'sweep',
+        phase: 'settling',
+        pointsDone: 3,
+        pointsTotal: 10,
+        etaS: 7,
+        latest: null,
+      },
+    });
     expect(stores.liveRun.getState().paused).toBe(true);
     stores.liveRun.getState().setPaused(false);
     expect(stores.liveRun.getState().paused).toBe(false);
@@ -86,7 +117,10 @@ describe('app stores', () => {
     const stores = createAppStores(bench);
     connectStores(bench, stores);
     push({ type: 'connection', state: { connected: true, simulated: true, roles: [], error: null } });
-    push({ type: 'live', readout: { controlSetV: 1.5, controlMeasV: 1.499, frequencyHz: 4e8, temperatureC: 24.5, timeS: 3 } });
+    push({
+      type: 'live',
+      readout: { controlSetV: 1.5, controlMeasV: 1.499, frequencyHz: 4e8, temperatureC: 24.5, timeS: 3 },
+    });
     push({ type: 'error', message: 'counter timed out' });
     expect(stores.connection.getState().connection.simulated).toBe(true);
     expect(stores.connection.getState().readout?.frequencyHz).toBe(4e8);
@@ -139,7 +173,10 @@ describe('app stores', () => {
   it('remembers the theme choice and cycles system → dark → light', () => {
     const { bench } = fakeBench();
     const memory = new Map<string, string>();
-    const storage = { getItem: (k: string) => memory.get(k) ?? null, setItem: (k: string, v: string) => void memory.set(k, v) };
+    const storage = {
+      getItem: (k: string) => memory.get(k) ?? null,
+      setItem: (k: string, v: string) => void memory.set(k, v),
+    };
     const stores = createAppStores(bench, storage);
     expect(stores.settings.getState().theme).toBe('system');
     stores.settings.getState().cycleTheme();

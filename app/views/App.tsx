@@ -22,7 +22,11 @@ const SCREEN_LABEL: Record<ScreenName, string> = {
   loop: 'Loop filter',
 };
 
-const THEME_LABEL: Record<ThemeChoice, string> = { system: 'Theme: follow system', dark: 'Theme: dark', light: 'Theme: light' };
+const THEME_LABEL: Record<ThemeChoice, string> = {
+  system: 'Theme: follow system',
+  dark: 'Theme: dark',
+  light: 'Theme: light',
+};
 
 function LinkBanner() {
   const { bridge } = useApp();
@@ -30,7 +34,9 @@ function LinkBanner() {
   if (state === 'open') return null;
   return (
     <div className={`link-banner link-${state}`} role="status" data-testid="link-state">
-      {state === 'lost' ? 'Link to the bench lost — reconnecting. The bench process keeps control of any run in progress.' : 'Reaching the bench…'}
+      {state === 'lost'
+        ? 'Link to the bench lost — reconnecting. The bench process keeps control of any run in progress.'
+        : 'Reaching the bench…'}
     </div>
   );
 }
@@ -42,7 +48,8 @@ function PeerNotice() {
   if (others <= 0) return null;
   return (
     <div className="link-banner" role="status" data-testid="peer-count">
-      {others === 1 ? 'One other page' : `${others} other pages`} connected to this bench: whoever is there can stop, pause or rename a run too.
+      {others === 1 ? 'One other page' : `${others} other pages`} connected to this bench: whoever is there can stop,
+      pause or rename a run too.
     </div>
   );
 }
@@ -86,7 +93,13 @@ export function App() {
         </div>
         <ConnectionBadge />
         <div className="topbar-spacer" />
-        <button type="button" className="quiet" onClick={cycleTheme} data-testid="theme-toggle" aria-label={`${THEME_LABEL[themeChoice]}; activate to change`}>
+        <button
+          type="button"
+          className="quiet"
+          onClick={cycleTheme}
+          data-testid="theme-toggle"
+          aria-label={`${THEME_LABEL[themeChoice]}; activate to change`}
+        >
           {THEME_LABEL[themeChoice]}
         </button>
       </header>
@@ -96,7 +109,14 @@ export function App() {
       <Notice />
       <nav className="rail" aria-label="Screens">
         {SCREENS.map((name) => (
-          <button key={name} type="button" className={name === screen ? 'rail-item current' : 'rail-item'} aria-current={name === screen ? 'page' : undefined} onClick={() => show(name)} data-testid={`nav-${name}`}>
+          <button
+            key={name}
+            type="button"
+            className={name === screen ? 'rail-item current' : 'rail-item'}
+            aria-current={name === screen ? 'page' : undefined}
+            onClick={() => show(name)}
+            data-testid={`nav-${name}`}
+          >
             {SCREEN_LABEL[name]}
           </button>
         ))}

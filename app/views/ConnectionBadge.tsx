@@ -7,7 +7,12 @@ export function ConnectionBadge() {
   const connected = useStore(stores.connection, (s) => s.connection.connected);
   const simulated = useStore(stores.connection, (s) => s.connection.simulated);
   const kind = !connected ? 'none' : simulated ? 'sim' : 'real';
-  const text = kind === 'none' ? 'No bench connected' : kind === 'sim' ? 'SIMULATED BENCH — no instruments' : 'Instruments connected';
+  const text =
+    kind === 'none'
+      ? 'No bench connected'
+      : kind === 'sim'
+        ? 'SIMULATED BENCH — no instruments'
+        : 'Instruments connected';
   return (
     <span className={`badge badge-${kind}`} data-testid="connection-badge" data-kind={kind} role="status">
       {text}

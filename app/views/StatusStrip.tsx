@@ -15,7 +15,11 @@ import { celsius, hzAtResolution, volts } from './units.ts';
 function OutputCell({ output }: { output: boolean | null }) {
   const text = output === null ? 'Output unknown' : output ? 'Output on' : 'Output off';
   return (
-    <span className={`strip-cell strip-output output-${output === null ? 'unknown' : output ? 'on' : 'off'}`} data-testid="strip-output" data-output={output === null ? 'unknown' : output ? 'on' : 'off'}>
+    <span
+      className={`strip-cell strip-output output-${output === null ? 'unknown' : output ? 'on' : 'off'}`}
+      data-testid="strip-output"
+      data-output={output === null ? 'unknown' : output ? 'on' : 'off'}
+    >
       {text}
     </span>
   );
@@ -30,12 +34,24 @@ function LinksCell({ status }: { status: BenchStatus }) {
   return (
     <span className="strip-cell strip-links" data-testid="strip-links">
       {status.links.map((link) => (
-        <span key={link.role} className={`link-dot link-${link.state}`} data-testid={`strip-link-${link.role}`} data-state={link.state} title={link.detail ?? `${link.role}: answering`}>
+        <span
+          key={link.role}
+          className={`link-dot link-${link.state}`}
+          data-testid={`strip-link-${link.role}`}
+          data-state={link.state}
+          title={link.detail ?? `${link.role}: answering`}
+        >
           {link.role} {link.state === 'up' ? 'answers' : 'link lost'}
         </span>
       ))}
       {lost.length > 0 && !running ? (
-        <button type="button" className="quiet strip-button" onClick={() => void reconnect()} disabled={busy} data-testid="strip-reconnect">
+        <button
+          type="button"
+          className="quiet strip-button"
+          onClick={() => void reconnect()}
+          disabled={busy}
+          data-testid="strip-reconnect"
+        >
           Reconnect
         </button>
       ) : null}
@@ -52,7 +68,13 @@ function SafeCell({ status }: { status: BenchStatus }) {
       {safe.outputOff ? ' · output off' : ' · output left on by the plan'}
     </span>
   ) : (
-    <span className="strip-cell strip-safe safe-failed" data-testid="strip-safe" data-reached="no" role="alert" title={safe.failures.join('\n')}>
+    <span
+      className="strip-cell strip-safe safe-failed"
+      data-testid="strip-safe"
+      data-reached="no"
+      role="alert"
+      title={safe.failures.join('\n')}
+    >
       Safe state NOT confirmed ({clockTime(safe.at)}): {safe.failures[0] ?? 'no record'} — check the supply by hand
     </span>
   );
@@ -66,7 +88,9 @@ export function StatusStrip() {
   const kind = useStore(stores.liveRun, (s): RunKind | null => s.meta?.kind ?? null);
   const dut = useStore(stores.liveRun, (s) => s.meta?.dut.id ?? '');
   // Elapsed on the run's own clock: its latest reading's time since start.
-  const elapsedS = useStore(stores.liveRun, (s) => (s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? null) : null));
+  const elapsedS = useStore(stores.liveRun, (s) =>
+    s.rows > 0 ? (s.columns.time_s?.view()[s.rows - 1] ?? null) : null,
+  );
   const done = useStore(stores.liveRun, (s) => s.progress?.pointsDone ?? 0);
   const total = useStore(stores.liveRun, (s) => s.progress?.pointsTotal ?? 0);
   // The counter's resolution (1/gate) sets the digits of the frequency while the run's gate is known.
@@ -81,8 +105,18 @@ export function StatusStrip() {
   }
   const runText = active && kind ? stripRunText({ kind, dut, done, total, elapsedS }) : 'No run in progress';
   return (
-    <div className={`status-strip${active ? ' strip-running' : ''}`} role="status" aria-label="Bench status" data-testid="status-strip" data-source={status.source}>
-      <span className="strip-cell strip-run" data-testid="strip-run" title={active && kind ? runKindLabel(kind) : undefined}>
+    <div
+      className={`status-strip${active ? ' strip-running' : ''}`}
+      role="status"
+      aria-label="Bench status"
+      data-testid="status-strip"
+      data-source={status.source}
+    >
+      <span
+        className="strip-cell strip-run"
+        data-testid="strip-run"
+        title={active && kind ? runKindLabel(kind) : undefined}
+      >
         {runText}
       </span>
       {status.paused ? (
@@ -92,7 +126,8 @@ export function StatusStrip() {
       ) : null}
       <OutputCell output={status.output} />
       <span className="strip-cell" data-testid="strip-control">
-        Control {volts(status.controlSetV)} set{status.controlMeasV !== null ? ` · ${volts(status.controlMeasV)} measured` : ''}
+        Control {volts(status.controlSetV)} set
+        {status.controlMeasV !== null ? ` · ${volts(status.controlMeasV)} measured` : ''}
       </span>
       <span className="strip-cell" data-testid="strip-frequency">
         {hzAtResolution(status.frequencyHz, status.source === 'run' && gateS ? 1 / gateS : null)}

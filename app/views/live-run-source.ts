@@ -19,7 +19,10 @@ import { when } from './units.ts';
  */
 export function useLiveRunSource(kind: RunKind): SweepSource | null {
   const { stores } = useApp();
-  const latestStored = useStore(stores.runs, (s) => s.runs.find((run) => run.kind === kind && run.status !== 'running')?.id ?? null);
+  const latestStored = useStore(
+    stores.runs,
+    (s) => s.runs.find((run) => run.kind === kind && run.status !== 'running')?.id ?? null,
+  );
   const opened = useStore(stores.runs, (s) => (latestStored ? s.opened[latestStored] : undefined));
   const theme = useEffectiveTheme();
   const runId = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.id : null));

@@ -3,16 +3,24 @@ import { stripRunText } from './status-text.ts';
 
 describe('status strip words', () => {
   it('names the run, its DUT, its progress and the time since it started', () => {
-    expect(stripRunText({ kind: 'drift', dut: 'osc-7', done: 42, total: 120, elapsedS: 65.4 })).toBe('Drift log · osc-7 · 42 of 120 readings · running 1 min 05 s');
-    expect(stripRunText({ kind: 'sweep', dut: 'lo-2', done: 3, total: 0, elapsedS: null })).toBe('Gain sweep · lo-2 · 3 points · running —');
+    expect(stripRunText({ kind: 'drift', dut: 'osc-7', done: 42, total: 120, elapsedS: 65.4 })).toBe(
+      'Drift log · osc-7 · 42 of 120 readings · running 1 min 05 s',
+    );
+    expect(stripRunText({ kind: 'sweep', dut: 'lo-2', done: 3, total: 0, elapsedS: null })).toBe(
+      'Gain sweep · lo-2 · 3 points · running —',
+    );
   });
 });
 
 describe('safe-state words', () => {
   it('reads the safe level and the output rule from the plan', async () => {
     const { safeStateWords } = await import('./status-text.ts');
-    expect(safeStateWords({ safe: { controlV: 0.25, outputOff: true } })).toBe('the control voltage goes to 0.25 V (the safe level), then the supply output turns off');
-    expect(safeStateWords({ safe: { controlV: 1, outputOff: false } })).toBe('the control voltage goes to 1 V (the safe level); the plan keeps the output on');
+    expect(safeStateWords({ safe: { controlV: 0.25, outputOff: true } })).toBe(
+      'the control voltage goes to 0.25 V (the safe level), then the supply output turns off',
+    );
+    expect(safeStateWords({ safe: { controlV: 1, outputOff: false } })).toBe(
+      'the control voltage goes to 1 V (the safe level); the plan keeps the output on',
+    );
     // A plan without a safe block gets the schema's default: 0 V, output off.
     expect(safeStateWords({})).toMatch(/^the control voltage goes to 0 V .* turns off$/);
   });

@@ -34,9 +34,12 @@ export function stripRunText(run: StripRun): string {
 
 /** What the run's safe state will do, read from its plan ("control to 0 V, then output off"). */
 export function safeStateWords(plan: unknown): string {
-  const safe = (plan && typeof plan === 'object' ? (plan as { safe?: unknown }).safe : undefined) as { controlV?: unknown; outputOff?: unknown } | undefined;
+  const safe = (plan && typeof plan === 'object' ? (plan as { safe?: unknown }).safe : undefined) as
+    { controlV?: unknown; outputOff?: unknown } | undefined;
   const controlV = typeof safe?.controlV === 'number' && Number.isFinite(safe.controlV) ? safe.controlV : 0;
   const outputOff = safe?.outputOff !== false;
   const level = `${Number(controlV.toPrecision(6))} V`;
-  return outputOff ? `the control voltage goes to ${level} (the safe level), then the supply output turns off` : `the control voltage goes to ${level} (the safe level); the plan keeps the output on`;
+  return outputOff
+    ? `the control voltage goes to ${level} (the safe level), then the supply output turns off`
+    : `the control voltage goes to ${level} (the safe level); the plan keeps the output on`;
 }

@@ -14,7 +14,10 @@ const waiting = new Map<number, { job: AnalysisJob; resolve: (result: JobResult)
 function getWorker(): Worker | null {
   if (worker !== undefined) return worker;
   try {
-    worker = typeof Worker === 'undefined' ? null : new Worker(new URL('./analysis.worker.ts', import.meta.url), { type: 'module' });
+    worker =
+      typeof Worker === 'undefined'
+        ? null
+        : new Worker(new URL('./analysis.worker.ts', import.meta.url), { type: 'module' });
   } catch {
     worker = null;
   }

@@ -23,7 +23,8 @@ describe('analysis jobs', () => {
     const rows = [];
     for (let k = 0; k <= 40; k += 1) {
       const v = 0.5 + k * 0.1;
-      for (let r = 0; r < 3; r += 1) rows.push({ control_v: v, frequency_hz: 380e6 + 12e6 * v, status: 'ok', direction: 'up' });
+      for (let r = 0; r < 3; r += 1)
+        rows.push({ control_v: v, frequency_hz: 380e6 + 12e6 * v, status: 'ok', direction: 'up' });
     }
     appendRows(set, rows);
     const result = await analyzeInBackground(sweepJob(set, rows.length, 0.1));

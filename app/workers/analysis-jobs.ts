@@ -19,20 +19,38 @@ export type JobResult = AnalysisOutcome<SweepAnalysis> | AnalysisOutcome<DriftAn
 
 export function sweepJob(columns: ColumnSet, n: number, gateS: number | undefined): AnalysisJob {
   const input = sweepInputFromColumns(columns, n, gateS);
-  return { kind: 'sweep', controlV: input.controlV, frequencyHz: input.frequencyHz, direction: input.direction, gateS: gateS ?? null };
+  return {
+    kind: 'sweep',
+    controlV: input.controlV,
+    frequencyHz: input.frequencyHz,
+    direction: input.direction,
+    gateS: gateS ?? null,
+  };
 }
 
 export function driftJob(columns: ColumnSet, n: number): AnalysisJob {
   const input = driftInputFromColumns(columns, n);
-  return { kind: 'drift', timeS: input.timeS, frequencyHz: input.frequencyHz, temperatureC: input.temperatureC ?? null };
+  return {
+    kind: 'drift',
+    timeS: input.timeS,
+    frequencyHz: input.frequencyHz,
+    temperatureC: input.temperatureC ?? null,
+  };
 }
 
 export function runJob(job: AnalysisJob): JobResult {
   if (job.kind === 'sweep') {
-    const input = { controlV: job.controlV, frequencyHz: job.frequencyHz, direction: job.direction, ...(job.gateS !== null ? { gateS: job.gateS } : {}) };
+    const input = {
+      controlV: job.controlV,
+      frequencyHz: job.frequencyHz,
+      direction: job.direction,
+      ...(job.gateS !== null ? { gateS: job.gateS } : {}),
+    };
     return outcomeOf(() => analyzeSweep(input));
   }
   if (job.timeS.length < 3) return { ok: false, message: 'fewer than 3 readings' };
-  const input = job.temperatureC ? { timeS: job.timeS, frequencyHz: job.frequencyHz, temperatureC: job.temperatureC } : { timeS: job.timeS, frequencyHz: job.frequencyHz };
+  const input = job.temperatureC
+    ? { timeS: job.timeS, frequencyHz: job.frequencyHz, temperatureC: job.temperatureC }
+    : { timeS: job.timeS, frequencyHz: job.frequencyHz };
   return outcomeOf(() => analyzeDrift(input));
 }

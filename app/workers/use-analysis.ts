@@ -3,7 +3,10 @@ import { useEffect, useState } from 'react';
 import type { AnalysisJob, AnalysisOutcome } from './analysis-jobs.ts';
 import { analyzeInBackground } from './analysis-client.ts';
 
-export function useBackgroundAnalysis<T>(key: string | null, makeJob: () => AnalysisJob): { outcome: AnalysisOutcome<T> | null; running: boolean } {
+export function useBackgroundAnalysis<T>(
+  key: string | null,
+  makeJob: () => AnalysisJob,
+): { outcome: AnalysisOutcome<T> | null; running: boolean } {
   const [state, setState] = useState<{ key: string; outcome: AnalysisOutcome<T> } | null>(null);
   useEffect(() => {
     if (key === null) return;

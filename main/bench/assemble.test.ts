@@ -32,12 +32,18 @@ describe('assembleBench', () => {
       const counterPort = served.addresses.counter.split(':').pop();
       const clock = new RealClock();
       const bench = await assembleBench(
-        { supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: `TCPIP0::127.0.0.1::${counterPort}::SOCKET` } },
+        {
+          supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 },
+          counter: { address: `TCPIP0::127.0.0.1::${counterPort}::SOCKET` },
+        },
         { clock },
       );
       expect(bench.simulated).toBe(false);
       expect(bench.sim).toBeNull();
-      expect(bench.instruments.map((i) => i.idn)).toEqual([expect.stringMatching(/SIM-SUPPLY/), expect.stringMatching(/SIM-COUNTER/)]);
+      expect(bench.instruments.map((i) => i.idn)).toEqual([
+        expect.stringMatching(/SIM-SUPPLY/),
+        expect.stringMatching(/SIM-COUNTER/),
+      ]);
       await bench.supply.setVoltage(1, 3);
       await bench.supply.setOutput(1, true);
       await bench.counter.setGate(0.01);

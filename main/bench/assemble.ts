@@ -77,7 +77,10 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
   // Every profile is loaded and the bench checked against it before any instrument is touched.
   const profiles = new Map<RoleName, InstrumentProfile>();
   for (const [role, entry] of entries) {
-    profiles.set(role, await loadProfile(entry.profile ?? defaultProfileName(role), { role, userDir: options.userProfileDir }));
+    profiles.set(
+      role,
+      await loadProfile(entry.profile ?? defaultProfileName(role), { role, userDir: options.userProfileDir }),
+    );
   }
   const supplyProfile = profiles.get('supply') as SupplyProfile;
   checkBenchChannels(bench, { channels: supplyProfile.capabilities.channels, profile: supplyProfile.name });
@@ -87,18 +90,22 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
   const opened: { role: RoleName; driver: AnyDriver; address: string }[] = [];
   try {
     for (const [role, entry] of entries) {
-      const driver = await openInstrument(role, { address: entry.address, profile: entry.profile }, {
-        clock: options.clock,
-        sim: sim === null ? undefined : (simRole) => sim.transport(simRole),
-        connectTimeoutS: options.connectTimeoutS,
-        loadedProfile: profiles.get(role),
-        reconnect: options.reconnect,
-        userProfileDir: options.userProfileDir,
-        onEvent: (event) => {
-          options.onSessionEvent?.(role, event);
-          for (const listener of linkListeners) listener(role, event);
+      const driver = await openInstrument(
+        role,
+        { address: entry.address, profile: entry.profile },
+        {
+          clock: options.clock,
+          sim: sim === null ? undefined : (simRole) => sim.transport(simRole),
+          connectTimeoutS: options.connectTimeoutS,
+          loadedProfile: profiles.get(role),
+          reconnect: options.reconnect,
+          userProfileDir: options.userProfileDir,
+          onEvent: (event) => {
+            options.onSessionEvent?.(role, event);
+            for (const listener of linkListeners) listener(role, event);
+          },
         },
-      });
+      );
       opened.push({ role, driver, address: entry.address });
     }
     const instruments: AssembledBench['instruments'] = [];

@@ -8,13 +8,19 @@ import type { BenchConfig } from '../../app/contract/plans.ts';
 /** A bench that cannot be used as written; `fields` are the keys at fault. Exit 2 at the CLI. */
 export class BenchCheckError extends Error {
   override readonly name = 'BenchCheckError';
-  constructor(readonly fields: readonly string[], message: string) {
+  constructor(
+    readonly fields: readonly string[],
+    message: string,
+  ) {
     super(message);
   }
 }
 
 /** Problems with the bench's channel use, one line each ("supply.controlChannel: …"). */
-export function benchChannelProblems(bench: BenchConfig, supplyChannels?: { channels: number; profile: string }): string[] {
+export function benchChannelProblems(
+  bench: BenchConfig,
+  supplyChannels?: { channels: number; profile: string },
+): string[] {
   const { controlChannel, dutSupplyChannel } = bench.supply;
   const problems: string[] = [];
   if (controlChannel === dutSupplyChannel) {
@@ -23,9 +29,14 @@ export function benchChannelProblems(bench: BenchConfig, supplyChannels?: { chan
     );
   }
   if (supplyChannels !== undefined) {
-    for (const [field, channel] of [['controlChannel', controlChannel], ['dutSupplyChannel', dutSupplyChannel]] as const) {
+    for (const [field, channel] of [
+      ['controlChannel', controlChannel],
+      ['dutSupplyChannel', dutSupplyChannel],
+    ] as const) {
       if (channel > supplyChannels.channels) {
-        problems.push(`supply.${field}: channel ${channel}, but profile ${supplyChannels.profile} has ${supplyChannels.channels} channel(s) (1..${supplyChannels.channels})`);
+        problems.push(
+          `supply.${field}: channel ${channel}, but profile ${supplyChannels.profile} has ${supplyChannels.channels} channel(s) (1..${supplyChannels.channels})`,
+        );
       }
     }
   }
@@ -33,7 +44,11 @@ export function benchChannelProblems(bench: BenchConfig, supplyChannels?: { chan
 }
 
 /** Throws BenchCheckError listing every problem. */
-export function checkBenchChannels(bench: BenchConfig, supplyChannels?: { channels: number; profile: string }, label = 'bench'): void {
+export function checkBenchChannels(
+  bench: BenchConfig,
+  supplyChannels?: { channels: number; profile: string },
+  label = 'bench',
+): void {
   const problems = benchChannelProblems(bench, supplyChannels);
   if (problems.length === 0) return;
   const fields = problems.map((line) => line.slice(0, line.indexOf(':')));

@@ -42,7 +42,9 @@ async function errorQueue(driver: Driver): Promise<string> {
   const session = sessionOf(driver);
   if (session === null) return 'error queue not readable';
   const entries = await session.drainErrors();
-  return entries.length === 0 ? 'error queue empty' : `error queue held ${entries.map((e) => `${e.code} "${e.message}"`).join(', ')}`;
+  return entries.length === 0
+    ? 'error queue empty'
+    : `error queue held ${entries.map((e) => `${e.code} "${e.message}"`).join(', ')}`;
 }
 
 async function probe(role: RoleName, driver: Driver, bench: BenchConfig): Promise<string[]> {
@@ -51,7 +53,10 @@ async function probe(role: RoleName, driver: Driver, bench: BenchConfig): Promis
   if (role === 'supply') {
     const supply = driver as Supply;
     findings.push(`${supply.capabilities.channels} channel(s) in its profile`);
-    for (const [label, channel] of [['control', bench.supply.controlChannel], ['DUT supply', bench.supply.dutSupplyChannel]] as const) {
+    for (const [label, channel] of [
+      ['control', bench.supply.controlChannel],
+      ['DUT supply', bench.supply.dutSupplyChannel],
+    ] as const) {
       const on = await supply.getOutput(channel);
       const volts = await supply.getVoltageSetpoint(channel);
       findings.push(`${label} channel ${channel}: output ${on ? 'ON' : 'off'}, setpoint ${volts} V`);
@@ -59,22 +64,34 @@ async function probe(role: RoleName, driver: Driver, bench: BenchConfig): Promis
   } else if (role === 'counter') {
     const counter = driver as Counter;
     const reading = await counter.readFrequency();
-    findings.push(reading.status === 'ok' ? `reading ${reading.frequencyHz} Hz (gate ${counter.gateS} s)` : `reading: no signal (${reading.cause}) — the counter answers; is the DUT powered?`);
+    findings.push(
+      reading.status === 'ok'
+        ? `reading ${reading.frequencyHz} Hz (gate ${counter.gateS} s)`
+        : `reading: no signal (${reading.cause}) — the counter answers; is the DUT powered?`,
+    );
   } else if (role === 'thermometer') {
     findings.push(`reading ${(await (driver as Thermometer).readTemperature()).toFixed(2)} °C`);
   } else {
     const chamber = driver as Chamber;
-    findings.push(`air ${(await chamber.readAirTemperature()).toFixed(2)} °C, setpoint ${await chamber.getSetpoint()} °C`);
-    if (chamber.capabilities.runStop) findings.push(await chamber.getRunning() ? 'running' : 'stopped');
+    findings.push(
+      `air ${(await chamber.readAirTemperature()).toFixed(2)} °C, setpoint ${await chamber.getSetpoint()} °C`,
+    );
+    if (chamber.capabilities.runStop) findings.push((await chamber.getRunning()) ? 'running' : 'stopped');
   }
   return findings;
 }
 
 /** Checks every role of `config` ('sim': the built-in simulated bench). Never writes a supply setting. */
-export async function bringUpBench(config: BenchConfig | 'sim', options: { clock: Clock; userProfileDir?: string }): Promise<RoleCheck[]> {
+export async function bringUpBench(
+  config: BenchConfig | 'sim',
+  options: { clock: Clock; userProfileDir?: string },
+): Promise<RoleCheck[]> {
   const bench = config === 'sim' ? SIM_BENCH_CONFIG : config;
   checkBenchChannels(bench);
-  const entries: [RoleName, { address: string; profile?: string | undefined }][] = [['supply', bench.supply], ['counter', bench.counter]];
+  const entries: [RoleName, { address: string; profile?: string | undefined }][] = [
+    ['supply', bench.supply],
+    ['counter', bench.counter],
+  ];
   if (bench.thermometer) entries.push(['thermometer', bench.thermometer]);
   if (bench.chamber) entries.push(['chamber', bench.chamber]);
   let sim: SimBench | null = null;
@@ -87,12 +104,16 @@ export async function bringUpBench(config: BenchConfig | 'sim', options: { clock
       let driver: Driver | null = null;
       try {
         const isSim = parseAddress(entry.address).kind === 'sim';
-        driver = await openInstrument(role, { address: entry.address, profile: entry.profile }, {
-          clock: options.clock,
-          sim: isSim ? (simRole) => simFor().transport(simRole) : undefined,
-          userProfileDir: options.userProfileDir,
-          reconnect: { attempts: 0, delayS: 0.5 },
-        });
+        driver = await openInstrument(
+          role,
+          { address: entry.address, profile: entry.profile },
+          {
+            clock: options.clock,
+            sim: isSim ? (simRole) => simFor().transport(simRole) : undefined,
+            userProfileDir: options.userProfileDir,
+            reconnect: { attempts: 0, delayS: 0.5 },
+          },
+        );
         check.idn = (await driver.identify()).idn;
         // The identity first: a role's questions asked of another kind of instrument only time out.
         const suggested = rolesSuggestedBy(check.idn);
@@ -103,7 +124,7 @@ export async function bringUpBench(config: BenchConfig | 'sim', options: { clock
           check.pass = true;
         }
       } catch (error) {
-        const last = driver === null ? null : sessionOf(driver)?.lastCommand ?? null;
+        const last = driver === null ? null : (sessionOf(driver)?.lastCommand ?? null);
         check.problem = `${messageOf(error)}${last !== null && !messageOf(error).includes('last command') ? ` (last command sent: ${last})` : ''}`;
       } finally {
         await driver?.close().catch(() => undefined);

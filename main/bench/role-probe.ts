@@ -41,7 +41,11 @@ export async function probeRoles(
   let found: ControlFound | null = null;
   let probeError: string | null = null;
   try {
-    found = { channel: controlChannel, outputOn: await supply.getOutput(controlChannel), setpointV: await supply.getVoltageSetpoint(controlChannel) };
+    found = {
+      channel: controlChannel,
+      outputOn: await supply.getOutput(controlChannel),
+      setpointV: await supply.getVoltageSetpoint(controlChannel),
+    };
   } catch (error) {
     probeError = error instanceof Error ? error.message : String(error);
   }
@@ -60,10 +64,14 @@ function describeMisfit(
   const lines: string[] = [];
   const supply = instruments.find((i) => i.role === 'supply');
   if (probeError !== null && supply !== undefined) {
-    lines.push(`supply at ${supply.address} did not answer its output state and setpoint as a supply does (${probeError}); its *IDN? is "${supply.idn}"`);
+    lines.push(
+      `supply at ${supply.address} did not answer its output state and setpoint as a supply does (${probeError}); its *IDN? is "${supply.idn}"`,
+    );
   }
   for (const m of misfits) {
-    lines.push(`${m.role} at ${m.address} identifies as "${m.idn}", which reads like a ${rolesSuggestedBy(m.idn).join(' or ')}, not a ${m.role}`);
+    lines.push(
+      `${m.role} at ${m.address} identifies as "${m.idn}", which reads like a ${rolesSuggestedBy(m.idn).join(' or ')}, not a ${m.role}`,
+    );
   }
   // Suggest the swap when another role's instrument reads like this role (or the supply probe failed on a counter).
   const swaps = new Set<string>();
@@ -72,11 +80,19 @@ function describeMisfit(
       if (other === m) continue;
       const mLooksLikeOther = rolesSuggestedBy(m.idn).includes(other.role as RoleName);
       const otherLooksLikeM = rolesSuggestedBy(other.idn).includes(m.role as RoleName);
-      if (mLooksLikeOther || otherLooksLikeM) swaps.add([m.role, other.role].sort().map((r) => `${r}.address`).join(' and '));
+      if (mLooksLikeOther || otherLooksLikeM)
+        swaps.add(
+          [m.role, other.role]
+            .sort()
+            .map((r) => `${r}.address`)
+            .join(' and '),
+        );
     }
   }
   for (const pair of swaps) lines.push(`the addresses look swapped: exchange ${pair} in the bench file`);
-  if (swaps.size === 0) lines.push('check each role\'s address and profile in the bench file (`tunebench check --bench FILE` tests them without writing)');
+  if (swaps.size === 0)
+    lines.push(
+      "check each role's address and profile in the bench file (`tunebench check --bench FILE` tests them without writing)",
+    );
   return `bench refused before any write:\n${lines.map((line) => `  ${line}`).join('\n')}`;
 }
-

@@ -16,7 +16,17 @@ import { fileURLToPath } from 'node:url';
 import { BUNDLE_FILE, INPUTS_FILE, PROJECT_ROOT } from './cli-bundle.mjs';
 import { writeSourceManifest } from './source-manifest.mjs';
 
-const EXTERNAL = ['serialport', '@serialport/*', 'ws', 'bufferutil', 'utf-8-validate', 'tsx', 'vite', '@vitejs/*', 'electron'];
+const EXTERNAL = [
+  'serialport',
+  '@serialport/*',
+  'ws',
+  'bufferutil',
+  'utf-8-validate',
+  'tsx',
+  'vite',
+  '@vitejs/*',
+  'electron',
+];
 
 async function buildCli() {
   const { build } = await import('esbuild');
@@ -55,7 +65,9 @@ async function buildCli() {
     metafile: true,
     logLevel: 'warning',
     legalComments: 'none',
-    banner: { js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);" },
+    banner: {
+      js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);",
+    },
   });
   const inputs = [...new Set([...Object.keys(result.metafile.inputs), ...Object.keys(worker.metafile.inputs)])]
     .map((input) => relative(PROJECT_ROOT, `${PROJECT_ROOT}${input}`).split(sep).join('/'))
@@ -65,10 +77,13 @@ async function buildCli() {
   // The source list first, the bundle last: a launcher that sees the new
   // bundle also sees its list.
   writeSourceManifest(INPUTS_FILE, PROJECT_ROOT, inputs);
-  for (const name of await readdir(dirname(BUNDLE_FILE))) if (name.endsWith('.v8cache')) await rm(join(dirname(BUNDLE_FILE), name), { force: true });
+  for (const name of await readdir(dirname(BUNDLE_FILE)))
+    if (name.endsWith('.v8cache')) await rm(join(dirname(BUNDLE_FILE), name), { force: true });
   await rename(tempFile, BUNDLE_FILE);
   // One run through the launcher leaves V8's code cache beside the bundle.
-  execFileSync(process.execPath, [fileURLToPath(new URL('./tunebench.mjs', import.meta.url)), '--help'], { stdio: 'ignore' });
+  execFileSync(process.execPath, [fileURLToPath(new URL('./tunebench.mjs', import.meta.url)), '--help'], {
+    stdio: 'ignore',
+  });
   console.log(`build: CLI bundled from ${inputs.length} files into ${relative(PROJECT_ROOT, BUNDLE_FILE)}`);
 }
 
@@ -83,7 +98,9 @@ async function hasPackage(name) {
 
 async function buildRenderer() {
   if (!(await hasPackage('vite')) || !(await hasPackage('@vitejs/plugin-react'))) {
-    console.log('build: renderer skipped (vite is a devDependency and is not installed); `tunebench serve` needs out/renderer from a full install or a packed tarball');
+    console.log(
+      'build: renderer skipped (vite is a devDependency and is not installed); `tunebench serve` needs out/renderer from a full install or a packed tarball',
+    );
     return;
   }
   const { register } = await import('tsx/esm/api');
@@ -95,10 +112,11 @@ async function buildRenderer() {
 
 const steps = { cli: buildCli, renderer: buildRenderer };
 const wanted = process.argv.slice(2);
-for (const name of wanted) if (!(name in steps)) {
-  console.error(`build: unknown step "${name}"; known: ${Object.keys(steps).join(', ')}`);
-  process.exit(2);
-}
+for (const name of wanted)
+  if (!(name in steps)) {
+    console.error(`build: unknown step "${name}"; known: ${Object.keys(steps).join(', ')}`);
+    process.exit(2);
+  }
 for (const name of wanted.length > 0 ? wanted : Object.keys(steps)) {
   await steps[name]();
 }

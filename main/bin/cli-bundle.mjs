@@ -56,7 +56,9 @@ export function loadBundle() {
   }
   const script = new vm.Script(Module.wrap(source), { filename: BUNDLE_FILE, cachedData });
   const module = { exports: {} };
-  script.runInThisContext().call(module.exports, module.exports, createRequire(BUNDLE_FILE), module, BUNDLE_FILE, dirname(BUNDLE_FILE));
+  script
+    .runInThisContext()
+    .call(module.exports, module.exports, createRequire(BUNDLE_FILE), module, BUNDLE_FILE, dirname(BUNDLE_FILE));
   const saveCache = () => {
     if (cachedData !== undefined && !script.cachedDataRejected) return;
     try {

@@ -32,7 +32,9 @@ export function readSourceManifest(file) {
     return null;
   }
   if (data?.schema !== 'tunebench.build-sources/1' || !Array.isArray(data.entries)) return null;
-  const valid = data.entries.every((e) => typeof e?.path === 'string' && Number.isInteger(e.size) && typeof e.sha1 === 'string');
+  const valid = data.entries.every(
+    (e) => typeof e?.path === 'string' && Number.isInteger(e.size) && typeof e.sha1 === 'string',
+  );
   return valid ? new Map(data.entries.map((e) => [e.path, e])) : null;
 }
 

@@ -51,14 +51,19 @@ function plainTable(text: string, file: string): ColumnTable {
  * A path as given, or else a run id as `tunebench runs` prints it, looked up
  * in `runsDir`.
  */
-async function locate(path: string, runsDir: string | undefined): Promise<{ path: string; info: Awaited<ReturnType<typeof stat>> }> {
+async function locate(
+  path: string,
+  runsDir: string | undefined,
+): Promise<{ path: string; info: Awaited<ReturnType<typeof stat>> }> {
   const info = await stat(path).catch(() => null);
   if (info) return { path, info };
   if (runsDir !== undefined && runIdSchema.safeParse(path).success) {
     const folder = join(runsDir, path);
     const inRuns = await stat(folder).catch(() => null);
     if (inRuns?.isDirectory()) return { path: folder, info: inRuns };
-    throw new UsageError(`${path}: no such file, run folder or run id in ${runsDir} (expected RUN_DIR, RUN_ID or FILE.csv; --runs picks the runs folder)`);
+    throw new UsageError(
+      `${path}: no such file, run folder or run id in ${runsDir} (expected RUN_DIR, RUN_ID or FILE.csv; --runs picks the runs folder)`,
+    );
   }
   throw new UsageError(`${path}: no such file or run folder (expected RUN_DIR, RUN_ID or FILE.csv)`);
 }
@@ -101,7 +106,11 @@ export async function loadAnalysisSource(given: string, runsDir?: string): Promi
   }
   let conditions: AnalysisSource['conditions'];
   try {
-    conditions = runConditions(kind, { supplyV: numericColumn(table, 'supply_v'), temperatureC: numericColumn(table, 'temperature_c') }, hints);
+    conditions = runConditions(
+      kind,
+      { supplyV: numericColumn(table, 'supply_v'), temperatureC: numericColumn(table, 'temperature_c') },
+      hints,
+    );
   } catch (error) {
     if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
     throw error;

@@ -5,10 +5,19 @@
  */
 import { stat } from 'node:fs/promises';
 import { join } from 'node:path';
-import { analyzeCampaign, type CampaignAnalysis, type CampaignConditionInput } from '../../app/analysis/campaign-analysis.ts';
+import {
+  analyzeCampaign,
+  type CampaignAnalysis,
+  type CampaignConditionInput,
+} from '../../app/analysis/campaign-analysis.ts';
 import { analyzeTable } from '../../app/analysis/analyze-table.ts';
 import type { SweepAnalysis } from '../../app/analysis/sweep-types.ts';
-import { campaignPlanSchema, nominalControlOf, nominalSupplyOf, sweepRangeV } from '../../app/contract/campaign-plan.ts';
+import {
+  campaignPlanSchema,
+  nominalControlOf,
+  nominalSupplyOf,
+  sweepRangeV,
+} from '../../app/contract/campaign-plan.ts';
 import { CAMPAIGN_FILE, readCampaignFile, type CampaignFile } from '../procedures/campaign/campaign-file.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { UsageError } from './types.ts';
@@ -23,7 +32,8 @@ export async function loadCampaignAnalysis(dir: string): Promise<{ file: Campaig
     throw new UsageError(error.message);
   });
   const parsed = campaignPlanSchema.safeParse(file.plan);
-  if (!parsed.success) throw new UsageError(`${join(dir, CAMPAIGN_FILE)}: plan: ${parsed.error.issues[0]?.message ?? 'invalid'}`);
+  if (!parsed.success)
+    throw new UsageError(`${join(dir, CAMPAIGN_FILE)}: plan: ${parsed.error.issues[0]?.message ?? 'invalid'}`);
   const plan = parsed.data;
   const inputs: CampaignConditionInput[] = [];
   for (const entry of file.conditions) {
@@ -36,8 +46,15 @@ export async function loadCampaignAnalysis(dir: string): Promise<{ file: Campaig
     const t = entry.dutTemperatureC;
     const dutC = t && t.start !== null && t.end !== null ? (t.start + t.end) / 2 : (t?.start ?? t?.end ?? null);
     inputs.push({
-      index: entry.index, unit: entry.unit, temperatureC: entry.temperatureC, dutTemperatureC: dutC, supplyV: entry.supplyV,
-      runId: entry.runId, status: entry.state, points: sweep ? sweep.points : null, stallV: sweep?.stall.thresholdV ?? null,
+      index: entry.index,
+      unit: entry.unit,
+      temperatureC: entry.temperatureC,
+      dutTemperatureC: dutC,
+      supplyV: entry.supplyV,
+      runId: entry.runId,
+      status: entry.state,
+      points: sweep ? sweep.points : null,
+      stallV: sweep?.stall.thresholdV ?? null,
     });
   }
   const analysis = analyzeCampaign(inputs, {

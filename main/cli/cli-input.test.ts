@@ -32,7 +32,11 @@ const limits = { maxControlV: 5, currentLimitA: '20mA' };
 describe('unknown keys are refused with a did-you-mean (bench, plan, profile, DUT)', () => {
   it('a bench file with "controlChanel" and "thermometr" exits 2 before any instrument is touched', async () => {
     const dir = await tempDir();
-    const bench = await file(dir, 'bench.json', { supply: { address: 'sim', controlChanel: 2 }, counter: { address: 'sim' }, thermometr: { address: 'sim' } });
+    const bench = await file(dir, 'bench.json', {
+      supply: { address: 'sim', controlChanel: 2 },
+      counter: { address: 'sim' },
+      thermometr: { address: 'sim' },
+    });
     const r = await runCliCaptured('sweep', '--bench', bench, '--runs', dir);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/supply: unknown key "controlChanel" \(did you mean "controlChannel"\?\)/);
@@ -42,17 +46,33 @@ describe('unknown keys are refused with a did-you-mean (bench, plan, profile, DU
 
   it('a plan file with a misspelt key exits 2 naming the nearest key', async () => {
     const dir = await tempDir();
-    const plan = await file(dir, 'plan.json', { controlV: 2, intervalS: '1s', durationS: '10s', gateS: '100ms', limits, saef: {} });
+    const plan = await file(dir, 'plan.json', {
+      controlV: 2,
+      intervalS: '1s',
+      durationS: '10s',
+      gateS: '100ms',
+      limits,
+      saef: {},
+    });
     const r = await runCliCaptured('drift', '--plan', plan, '--runs', dir);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/unknown key "saef" \(did you mean "safe"\?\)/);
   });
 
   it('profiles and DUT models are strict too', () => {
-    const profile = { schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'FREQ:APER {gateS}', readFrequency: 'READ?' }, noSignal: { zeroo: true } };
-    expect(() => parseProfile(profile, 'counter-test')).toThrow(/noSignal: unknown key "zeroo" \(did you mean "zero"\?\)/);
+    const profile = {
+      schema: 'tunebench.profile/1',
+      role: 'counter',
+      commands: { setGate: 'FREQ:APER {gateS}', readFrequency: 'READ?' },
+      noSignal: { zeroo: true },
+    };
+    expect(() => parseProfile(profile, 'counter-test')).toThrow(
+      /noSignal: unknown key "zeroo" \(did you mean "zero"\?\)/,
+    );
     const dut = { ...builtinDut('relaxation'), tempcoPpmPerCC: 1 };
-    expect(() => parseDutParams(dut, 'dut.json')).toThrow(/unknown key "tempcoPpmPerCC" \(did you mean "tempcoPpmPerC"\?\)/);
+    expect(() => parseDutParams(dut, 'dut.json')).toThrow(
+      /unknown key "tempcoPpmPerCC" \(did you mean "tempcoPpmPerC"\?\)/,
+    );
   });
 });
 
@@ -86,7 +106,16 @@ describe('a refused plan leaves no run folder', () => {
   it('pushing that finds the DUT supply above maxSupplyV exits 2 and creates nothing', async () => {
     const dir = await tempDir();
     // The simulated relaxation DUT runs at 5 V; this plan allows at most 3.6 V.
-    const plan = await file(dir, 'plan.json', { controlV: 2.5, supplyStartV: 3, supplyStopV: 3.6, supplyStepV: '100mV', maxSupplyV: 3.6, gateS: '10ms', settleS: '10ms', limits });
+    const plan = await file(dir, 'plan.json', {
+      controlV: 2.5,
+      supplyStartV: 3,
+      supplyStopV: 3.6,
+      supplyStepV: '100mV',
+      maxSupplyV: 3.6,
+      gateS: '10ms',
+      settleS: '10ms',
+      limits,
+    });
     const runs = join(dir, 'runs');
     const r = await runCliCaptured('pushing', '--plan', plan, '--runs', runs);
     expect(r.code).toBe(2);
@@ -99,7 +128,14 @@ describe('a refused plan leaves no run folder', () => {
 describe('bounded work and bounded echoes', () => {
   it('a pushing step of 1e-9 V is refused at once (exit 2), not run', async () => {
     const dir = await tempDir();
-    const plan = await file(dir, 'plan.json', { controlV: 2.5, supplyStartV: 4.5, supplyStopV: 5.5, supplyStepV: '1e-9', maxSupplyV: 5.5, limits });
+    const plan = await file(dir, 'plan.json', {
+      controlV: 2.5,
+      supplyStartV: 4.5,
+      supplyStopV: 5.5,
+      supplyStepV: '1e-9',
+      maxSupplyV: 5.5,
+      limits,
+    });
     const r = await runCliCaptured('pushing', '--plan', plan, '--runs', dir);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/supplyStepV: 1e-9 V over 4\.5\.\.5\.5 V gives more than 100000 steps/);

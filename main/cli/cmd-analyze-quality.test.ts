@@ -25,8 +25,15 @@ beforeAll(async () => {
   const bench = await assembleBench('sim', { clock, sim: { dut: 'varactor', seed: 4 } });
   // A settle limit shorter than the tuning port needs after the larger steps: some points time out.
   const plan = sweepPlanSchema.parse({
-    start: 0.5, stop: 4.5, step: 0.1, direction: 'up-down', readingsPerPoint: 3, gateS: 0.1,
-    settle: { mode: 'auto', maxS: 0.12 }, limits: { maxControlV: 5, currentLimitA: 0.02 }, window: { fromV: 1, toV: 3.5 },
+    start: 0.5,
+    stop: 4.5,
+    step: 0.1,
+    direction: 'up-down',
+    readingsPerPoint: 3,
+    gateS: 0.1,
+    settle: { mode: 'auto', maxS: 0.12 },
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
+    window: { fromV: 1, toV: 3.5 },
   });
   try {
     runDir = (await recordSweep({ bench, clock, runsDir: dir, dutId: 'lo-7', plan })).dir;
@@ -56,7 +63,9 @@ describe('analyze on a run folder: quality, fit range, window', () => {
     expect(r.fit.unsettledLeftOutV.length).toBeGreaterThan(0);
     expect(r.quality.unsettledPointsLeftOut).toBe(r.fit.unsettledLeftOutV.length);
     expect(r.points.filter((p) => p.unsettled).length).toBeGreaterThan(0);
-    const kept = JSON.parse((await cli('analyze', runDir, '--json', '--fit-range', 'all', '--keep-unsettled')).out) as Result;
+    const kept = JSON.parse(
+      (await cli('analyze', runDir, '--json', '--fit-range', 'all', '--keep-unsettled')).out,
+    ) as Result;
     expect(kept.fit.unsettledLeftOutV).toEqual([]);
     expect(kept.fit.points).toBeGreaterThan(r.fit.points);
   });
@@ -85,9 +94,13 @@ describe('analyze on a run folder: quality, fit range, window', () => {
   });
 
   it('--fit-range all|usable|A:B says in fit.fromV/toV what was used', async () => {
-    const all = JSON.parse((await cli('analyze', runDir, '--json', '--fit-range', 'all', '--keep-unsettled')).out) as Result;
+    const all = JSON.parse(
+      (await cli('analyze', runDir, '--json', '--fit-range', 'all', '--keep-unsettled')).out,
+    ) as Result;
     expect([all.fit.fromV, all.fit.toV]).toEqual([0.5, 4.5]);
-    const ab = JSON.parse((await cli('analyze', runDir, '--json', '--fit-range', '1.2:3.8', '--keep-unsettled')).out) as Result;
+    const ab = JSON.parse(
+      (await cli('analyze', runDir, '--json', '--fit-range', '1.2:3.8', '--keep-unsettled')).out,
+    ) as Result;
     expect(ab.fit.fromV).toBeCloseTo(1.2, 9);
     expect(ab.fit.toV).toBeCloseTo(3.8, 9);
     expect((await cli('analyze', runDir, '--fit-range', 'most')).code).toBe(2);

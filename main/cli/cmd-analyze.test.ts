@@ -81,12 +81,19 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     await writeFile(file, rows.join('\n'));
     const { code, out } = await cli('analyze', file, '--json');
     expect(code).toBe(0);
-    const r = JSON.parse(out) as { kind: string; meanHz: number; tempcoPpmPerC: number; tempcoHzPerC: number; driftPpmPerHour: number; adev: { tauS: number; adev: number }[] };
+    const r = JSON.parse(out) as {
+      kind: string;
+      meanHz: number;
+      tempcoPpmPerC: number;
+      tempcoHzPerC: number;
+      driftPpmPerHour: number;
+      adev: { tauS: number; adev: number }[];
+    };
     expect(r.kind).toBe('drift');
     expect(r.tempcoHzPerC).toBeCloseTo(10, 3);
-    expect(r.tempcoPpmPerC).toBeCloseTo(10 / (1e6 + 25) * 1e6, 3);
+    expect(r.tempcoPpmPerC).toBeCloseTo((10 / (1e6 + 25)) * 1e6, 3);
     // The log rises 10 Hz/°C × 5 °C over 599 s, a straight ramp: the drift line's slope is exactly that, in ppm/h of the mean.
-    expect(r.driftPpmPerHour).toBeCloseTo(((10 * 5) / 599) * 3600 / r.meanHz * 1e6, 3);
+    expect(r.driftPpmPerHour).toBeCloseTo(((((10 * 5) / 599) * 3600) / r.meanHz) * 1e6, 3);
     expect(r.adev[0]?.tauS).toBe(1);
   });
   it('analyses a pushing run CSV (time_s, control_v, supply_v, frequency_hz, status)', async () => {
@@ -99,7 +106,13 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     await writeFile(file, rows.join('\n'));
     const { code, out } = await cli('analyze', file, '--json');
     expect(code).toBe(0);
-    const r = JSON.parse(out) as { kind: string; pushingHzPerV: number; pushingPpmPerV: number; points: unknown[]; controlV: number };
+    const r = JSON.parse(out) as {
+      kind: string;
+      pushingHzPerV: number;
+      pushingPpmPerV: number;
+      points: unknown[];
+      controlV: number;
+    };
     expect(r.kind).toBe('pushing');
     expect(r.pushingHzPerV).toBeCloseTo(3e3, 5);
     expect(r.pushingPpmPerV).toBeCloseTo(7.5, 9); // 3 kHz/V on 400 MHz
@@ -110,9 +123,16 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     const run = join(dir, 'run-1');
     await mkdir(run);
     const meta = {
-      schema: 'tunebench.run/1', id: 'run-1', kind: 'sweep', status: 'complete', startedAt: '2026-01-01T00:00:00Z',
-      endedAt: '2026-01-01T00:01:00Z', dut: { id: 'clock-mult-7', notes: '' }, instruments: [],
-      plan: { start: 1, stop: 2, step: 0.25, gateS: 0.01 }, software: { version: '0.1.0' },
+      schema: 'tunebench.run/1',
+      id: 'run-1',
+      kind: 'sweep',
+      status: 'complete',
+      startedAt: '2026-01-01T00:00:00Z',
+      endedAt: '2026-01-01T00:01:00Z',
+      dut: { id: 'clock-mult-7', notes: '' },
+      instruments: [],
+      plan: { start: 1, stop: 2, step: 0.25, gateS: 0.01 },
+      software: { version: '0.1.0' },
     };
     await writeFile(join(run, 'run.json'), JSON.stringify(meta));
     const rows = ['time_s,control_v,frequency_hz,direction,status'];
@@ -121,7 +141,11 @@ describe('tunebench analyze: drift CSV and run folders', () => {
     await writeFile(join(run, 'events.jsonl'), '{"time_s":1,"type":"retry"}\n{"time_s":2,"type":"retry"}\n');
     const { code, out } = await cli('analyze', run, '--json');
     expect(code).toBe(0);
-    const r = JSON.parse(out) as { counter: { resolutionHz: number }; kvco: { linear: { slopeHzPerV: number } }; run: { id: string; eventsByType: Record<string, number> } };
+    const r = JSON.parse(out) as {
+      counter: { resolutionHz: number };
+      kvco: { linear: { slopeHzPerV: number } };
+      run: { id: string; eventsByType: Record<string, number> };
+    };
     expect(r.run.eventsByType).toEqual({ retry: 2 });
     expect(r.counter.resolutionHz).toBeCloseTo(100, 9);
     expect(r.kvco.linear.slopeHzPerV).toBeCloseTo(5e5, 4);

@@ -64,7 +64,9 @@ function checkNominalInside(nominalV: number, table: ColumnTable): void {
     throw error;
   }
   if (lo <= hi && (nominalV < lo || nominalV > hi)) {
-    throw new UsageError(`--nominal: ${nominalV} V is outside the measured range ${lo}–${hi} V (where the DUT oscillated); Kvco there would be extrapolated`);
+    throw new UsageError(
+      `--nominal: ${nominalV} V is outside the measured range ${lo}–${hi} V (where the DUT oscillated); Kvco there would be extrapolated`,
+    );
   }
 }
 
@@ -73,7 +75,10 @@ export const analyzeCommand: CliCommand = {
   summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window', 'runs'], booleans: ['json', 'keep-unsettled'] });
+    const flags = parseFlags(argv, {
+      values: ['fit', 'linearity-limit', 'nominal', 'fit-range', 'window', 'runs'],
+      booleans: ['json', 'keep-unsettled'],
+    });
     if (flags.positionals.length !== 1) throw new UsageError('expected one RUN_DIR, RUN_ID or FILE.csv');
     const fitText = flags.values.get('fit') ?? 'spline';
     const fit = parseFitSpec(fitText);
@@ -83,7 +88,8 @@ export const analyzeCommand: CliCommand = {
     if (rangeText === 'all' || rangeText === 'usable') fitRange = rangeText;
     else if (rangeText !== undefined) {
       const r = parseVoltRange(rangeText, parseSiNumber);
-      if (!r) throw new UsageError(`--fit-range: "${rangeText}" is not all, usable or A:B volts with A < B (e.g. 1.2:3.8)`);
+      if (!r)
+        throw new UsageError(`--fit-range: "${rangeText}" is not all, usable or A:B volts with A < B (e.g. 1.2:3.8)`);
       fitRange = r;
     }
     const windowText = flags.values.get('window');
@@ -93,11 +99,18 @@ export const analyzeCommand: CliCommand = {
       if (!r) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
       flagWindow = r;
     }
-    const linearityLimitPct = positiveNumber(flags.values.get('linearity-limit'), 'linearity-limit', 'a percentage > 0 (e.g. 5)');
+    const linearityLimitPct = positiveNumber(
+      flags.values.get('linearity-limit'),
+      'linearity-limit',
+      'a percentage > 0 (e.g. 5)',
+    );
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
     if (await isCampaignDir(flags.positionals[0] as string)) {
       const { file, analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
-      if (flags.booleans.has('json')) io.stdout.write(`${JSON.stringify({ ...analysis, campaign: { id: file.id, status: file.status } }, null, 2)}\n`);
+      if (flags.booleans.has('json'))
+        io.stdout.write(
+          `${JSON.stringify({ ...analysis, campaign: { id: file.id, status: file.status } }, null, 2)}\n`,
+        );
       else io.stdout.write(`campaign ${file.id}, status ${file.status}\n${renderCampaignMarkdown(analysis)}`);
       return 0;
     }
@@ -113,7 +126,14 @@ export const analyzeCommand: CliCommand = {
       result = analyzeTable(source.kind, source.table, {
         gateS: source.gateS,
         events: source.events ?? undefined,
-        sweep: { fit, linearityLimitPct, nominalV, fitRange, window, keepUnsettled: flags.booleans.has('keep-unsettled') },
+        sweep: {
+          fit,
+          linearityLimitPct,
+          nominalV,
+          fitRange,
+          window,
+          keepUnsettled: flags.booleans.has('keep-unsettled'),
+        },
       });
     } catch (error) {
       if (error instanceof CsvError) throw new UsageError(`${source.path}: ${error.message}`);
@@ -125,12 +145,24 @@ export const analyzeCommand: CliCommand = {
     }
     if (flags.booleans.has('json')) {
       const out = source.meta
-        ? { ...result, run: { id: source.meta.id, status: source.meta.status, dutId: source.meta.dut.id, eventsByType: source.eventsByType, droppedLines: source.droppedLines } }
+        ? {
+            ...result,
+            run: {
+              id: source.meta.id,
+              status: source.meta.status,
+              dutId: source.meta.dut.id,
+              eventsByType: source.eventsByType,
+              droppedLines: source.droppedLines,
+            },
+          }
         : result;
       io.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
     } else {
       if (source.meta) io.stdout.write(`run ${source.label}, status ${source.meta.status}\n`);
-      if (source.droppedLines > 0) io.stdout.write(`samples.csv: ${source.droppedLines} damaged line(s) left out (a line a crash tore, or a broken one)\n`);
+      if (source.droppedLines > 0)
+        io.stdout.write(
+          `samples.csv: ${source.droppedLines} damaged line(s) left out (a line a crash tore, or a broken one)\n`,
+        );
       io.stdout.write(summarizeAnalysis(result));
     }
     return 0;

@@ -21,7 +21,10 @@ beforeAll(async () => {
   work = await mkdtemp(join(tmpdir(), 'tunebench-campaigncli-'));
   planPath = join(work, 'plan.json');
   // The built-in relaxation DUT; two temperatures keep it short.
-  await writeFile(planPath, JSON.stringify(campaignPlanInput({ temperaturesC: [0, 50], supplyV: [4.8, 5.2], nominalSupplyV: 4.8 })));
+  await writeFile(
+    planPath,
+    JSON.stringify(campaignPlanInput({ temperaturesC: [0, 50], supplyV: [4.8, 5.2], nominalSupplyV: 4.8 })),
+  );
 });
 afterAll(async () => {
   await rm(work, { recursive: true, force: true });
@@ -46,10 +49,27 @@ describe('tunebench campaign', () => {
     const dir = join(runs, (await readdir(runs))[0] as string);
     const a = await runCliCaptured('analyze', dir, '--json');
     expect(a.code).toBe(0);
-    const json = JSON.parse(a.out) as { kind: string; conditions: { temperatureC: number; supplyV: number; unit: string; runId: string; status: string; kvcoAtNominalHzPerV: number; frequencyAtNominalHz: number; dutTemperatureC: number }[]; frequencyTempcoPpmPerC: number; kvcoTempcoPpmPerC: number; headroom: unknown[] };
+    const json = JSON.parse(a.out) as {
+      kind: string;
+      conditions: {
+        temperatureC: number;
+        supplyV: number;
+        unit: string;
+        runId: string;
+        status: string;
+        kvcoAtNominalHzPerV: number;
+        frequencyAtNominalHz: number;
+        dutTemperatureC: number;
+      }[];
+      frequencyTempcoPpmPerC: number;
+      kvcoTempcoPpmPerC: number;
+      headroom: unknown[];
+    };
     expect(json.kind).toBe('campaign');
     expect(json.conditions).toHaveLength(4);
-    expect(json.conditions.every((c) => c.status === 'done' && c.kvcoAtNominalHzPerV > 0 && c.frequencyAtNominalHz > 0)).toBe(true);
+    expect(
+      json.conditions.every((c) => c.status === 'done' && c.kvcoAtNominalHzPerV > 0 && c.frequencyAtNominalHz > 0),
+    ).toBe(true);
     // The shipped relaxation DUT: −180 ppm/°C and no tuning tempco; a line through two temperatures.
     expect(json.frequencyTempcoPpmPerC).toBeGreaterThan(-190);
     expect(json.frequencyTempcoPpmPerC).toBeLessThan(-170);
@@ -61,29 +81,42 @@ describe('tunebench campaign', () => {
     expect(d.out).toMatch(/Tuning headroom over temperature/);
   }, 60_000);
 
-  it('Ctrl+C (SIGINT) ends aborted with the supply off and the chamber sent to safeC', { timeout: 60_000 }, async () => {
-    const runs = join(work, 'sigint');
-    const child = spawn(process.execPath, [BIN, 'campaign', '--plan', planPath, '--runs', runs], { stdio: ['ignore', 'pipe', 'pipe'] });
-    let err = '';
-    let sent = false;
-    child.stderr.on('data', (chunk: Buffer) => {
-      err += chunk.toString();
-      if (!sent && /soaking/.test(err)) {
-        sent = true;
-        child.kill('SIGINT');
-      }
-    });
-    const code = await new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
-    expect(code, err).toBe(1);
-    expect(err).toMatch(/campaign stopped \(signal\)/);
-    const dir = join(runs, (await readdir(runs))[0] as string);
-    const file = JSON.parse(await readFile(join(dir, 'campaign.json'), 'utf8')) as { status: string; reason: string };
-    expect(file).toMatchObject({ status: 'aborted', reason: 'signal' });
-    const events = (await readFile(join(dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as { type: string; step?: string; ok?: boolean });
-    const steps = events.filter((e) => e.type === 'safe-state');
-    expect(steps.map((e) => [e.step, e.ok])).toEqual(expect.arrayContaining([
-      ['output-off', true], ['dut-supply-off channel 2', true], ['chamber-setpoint 25 °C', true],
-    ]));
-    expect(events.at(-1)).toMatchObject({ type: 'campaign-end', status: 'aborted', safe_state_ok: true });
-  });
+  it(
+    'Ctrl+C (SIGINT) ends aborted with the supply off and the chamber sent to safeC',
+    { timeout: 60_000 },
+    async () => {
+      const runs = join(work, 'sigint');
+      const child = spawn(process.execPath, [BIN, 'campaign', '--plan', planPath, '--runs', runs], {
+        stdio: ['ignore', 'pipe', 'pipe'],
+      });
+      let err = '';
+      let sent = false;
+      child.stderr.on('data', (chunk: Buffer) => {
+        err += chunk.toString();
+        if (!sent && /soaking/.test(err)) {
+          sent = true;
+          child.kill('SIGINT');
+        }
+      });
+      const code = await new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
+      expect(code, err).toBe(1);
+      expect(err).toMatch(/campaign stopped \(signal\)/);
+      const dir = join(runs, (await readdir(runs))[0] as string);
+      const file = JSON.parse(await readFile(join(dir, 'campaign.json'), 'utf8')) as { status: string; reason: string };
+      expect(file).toMatchObject({ status: 'aborted', reason: 'signal' });
+      const events = (await readFile(join(dir, 'campaign-events.jsonl'), 'utf8'))
+        .split('\n')
+        .filter(Boolean)
+        .map((l) => JSON.parse(l) as { type: string; step?: string; ok?: boolean });
+      const steps = events.filter((e) => e.type === 'safe-state');
+      expect(steps.map((e) => [e.step, e.ok])).toEqual(
+        expect.arrayContaining([
+          ['output-off', true],
+          ['dut-supply-off channel 2', true],
+          ['chamber-setpoint 25 °C', true],
+        ]),
+      );
+      expect(events.at(-1)).toMatchObject({ type: 'campaign-end', status: 'aborted', safe_state_ok: true });
+    },
+  );
 });

@@ -13,7 +13,13 @@ import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { campaignSafeState } from '../procedures/campaign/campaign-safe.ts';
 import { CampaignBusyError } from '../procedures/campaign/campaign-folder.ts';
 import { readCampaignFile, CampaignFileError } from '../procedures/campaign/campaign-file.ts';
-import { resumeCampaign, startCampaign, validateCampaign, type CampaignHooks, type CampaignOutcome } from '../procedures/campaign/run-campaign.ts';
+import {
+  resumeCampaign,
+  startCampaign,
+  validateCampaign,
+  type CampaignHooks,
+  type CampaignOutcome,
+} from '../procedures/campaign/run-campaign.ts';
 import { stopOnSignals } from '../procedures/exit-guard.ts';
 import { LimitsError } from '../procedures/limits.ts';
 import { RunControl } from '../procedures/run-control.ts';
@@ -27,8 +33,8 @@ import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './type
 export const CHAMBER_CAUTIONS = [
   'Chamber cautions: an unattended chamber runs for hours. Cold setpoints bring condensation and frost — let the',
   'chamber come back above the dew point before the door opens, and keep water off powered boards. Hot setpoints',
-  'leave surfaces that burn. Keep door interlocks working and never bypass them. Your lab\'s rules and the chamber',
-  'maker\'s instructions come first.',
+  "leave surfaces that burn. Keep door interlocks working and never bypass them. Your lab's rules and the chamber",
+  "maker's instructions come first.",
 ].join('\n');
 
 const usage = `usage: tunebench campaign --plan CAMPAIGN.json [--bench BENCH.json] [--runs DIR] [--real-time]
@@ -64,8 +70,14 @@ async function loadPlan(path: string): Promise<unknown> {
   return json;
 }
 
-async function openBench(benchPath: string | undefined, dut: 'relaxation' | 'varactor', seed: number, clock: Clock): Promise<AssembledBench> {
-  const config = benchPath === undefined ? SIM_CAMPAIGN_BENCH_CONFIG : await loadBenchFile(benchPath).catch(asUsageError);
+async function openBench(
+  benchPath: string | undefined,
+  dut: 'relaxation' | 'varactor',
+  seed: number,
+  clock: Clock,
+): Promise<AssembledBench> {
+  const config =
+    benchPath === undefined ? SIM_CAMPAIGN_BENCH_CONFIG : await loadBenchFile(benchPath).catch(asUsageError);
   try {
     return await assembleBench(config, { clock, sim: { dut, seed } });
   } catch (error) {
@@ -77,12 +89,17 @@ async function openBench(benchPath: string | undefined, dut: 'relaxation' | 'var
 /** The operator swaps the unit: Enter on a terminal; the simulated bench needs no hands. */
 function unitChanger(io: CliIo, simulated: boolean): CampaignHooks['changeUnit'] {
   return async (from, next) => {
-    io.stderr.write(`\nUNIT CHANGE: take out ${from}, put in ${next}. The DUT supply is off and the chamber is at its safe temperature.\n`);
+    io.stderr.write(
+      `\nUNIT CHANGE: take out ${from}, put in ${next}. The DUT supply is off and the chamber is at its safe temperature.\n`,
+    );
     if (simulated) {
       io.stderr.write('(simulated bench: the unit change is simulated)\n');
       return;
     }
-    if (!process.stdin.isTTY) throw new WorkFailedError(`unit change ${from} → ${next} needs an operator at a terminal; resume with --resume when the unit is in`);
+    if (!process.stdin.isTTY)
+      throw new WorkFailedError(
+        `unit change ${from} → ${next} needs an operator at a terminal; resume with --resume when the unit is in`,
+      );
     const rl = createInterface({ input: process.stdin, output: process.stderr });
     try {
       await rl.question(`Press Enter when ${next} is mounted and the door is closed… `);
@@ -99,16 +116,26 @@ function parseSeed(text: string | undefined): number {
 }
 
 async function run(argv: string[], io: CliIo): Promise<number> {
-  const flags = parseFlags(argv, { values: ['plan', 'bench', 'runs', 'resume', 'dut', 'seed'], booleans: ['real-time'] });
+  const flags = parseFlags(argv, {
+    values: ['plan', 'bench', 'runs', 'resume', 'dut', 'seed'],
+    booleans: ['real-time'],
+  });
   if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
   const planPath = flags.values.get('plan');
   const resumeDir = flags.values.get('resume');
-  if ((planPath === undefined) === (resumeDir === undefined)) throw new UsageError('give --plan FILE for a new campaign or --resume DIR to carry one on');
+  if ((planPath === undefined) === (resumeDir === undefined))
+    throw new UsageError('give --plan FILE for a new campaign or --resume DIR to carry one on');
   const dut = parseDutName(flags.values.get('dut'));
   const seed = parseSeed(flags.values.get('seed'));
-  const planInput = planPath !== undefined ? await loadPlan(planPath) : await readCampaignFile(resumeDir as string).then((f) => f.plan, (error: unknown) => {
-    throw new UsageError(error instanceof CampaignFileError ? error.message : String(error));
-  });
+  const planInput =
+    planPath !== undefined
+      ? await loadPlan(planPath)
+      : await readCampaignFile(resumeDir as string).then(
+          (f) => f.plan,
+          (error: unknown) => {
+            throw new UsageError(error instanceof CampaignFileError ? error.message : String(error));
+          },
+        );
   const plan: CampaignPlan = campaignPlanSchema.parse(planInput);
   try {
     validateCampaign(plan);
@@ -117,10 +144,15 @@ async function run(argv: string[], io: CliIo): Promise<number> {
   }
   const benchPath = flags.values.get('bench');
   const virtual = benchPath === undefined && !flags.booleans.has('real-time');
-  const clock: Clock = virtual ? new VirtualClock({ autoAdvance: true, startWallIso: new Date().toISOString() }) : new RealClock();
+  const clock: Clock = virtual
+    ? new VirtualClock({ autoAdvance: true, startWallIso: new Date().toISOString() })
+    : new RealClock();
   io.stderr.write(`${CAUTIONS}\n${CHAMBER_CAUTIONS}\n`);
   const bench = await openBench(benchPath, dut, seed, clock);
-  if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}, chamber included)${virtual ? ', virtual time' : ''} — no instrument is touched\n`);
+  if (bench.simulated)
+    io.stderr.write(
+      `bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}, chamber included)${virtual ? ', virtual time' : ''} — no instrument is touched\n`,
+    );
   const control = new RunControl({ signal: io.signal });
   const disposers: (() => void)[] = [];
   if (io.signal === undefined) disposers.push(stopOnSignals(control, process));
@@ -131,28 +163,47 @@ async function run(argv: string[], io: CliIo): Promise<number> {
       if (handling) return;
       handling = true;
       io.stderr.write(`crash: ${error instanceof Error ? error.message : String(error)} — making the bench safe\n`);
-      void campaignSafeState(bench, plan, (e) => io.stderr.write(`${e.type}: ${JSON.stringify(e)}\n`)).finally(() => process.exit(1));
+      void campaignSafeState(bench, plan, (e) => io.stderr.write(`${e.type}: ${JSON.stringify(e)}\n`)).finally(() =>
+        process.exit(1),
+      );
     };
     process.on('uncaughtException', onCrash);
     process.on('unhandledRejection', onCrash);
-    disposers.push(() => { process.off('uncaughtException', onCrash); process.off('unhandledRejection', onCrash); });
+    disposers.push(() => {
+      process.off('uncaughtException', onCrash);
+      process.off('unhandledRejection', onCrash);
+    });
   }
   const hooks: CampaignHooks = {
     changeUnit: unitChanger(io, bench.simulated),
     onState: (entry, file) => {
       const done = file.conditions.filter((c) => c.state === 'done').length;
-      io.stderr.write(`[${done}/${file.conditions.length}] ${entry.unit} ${entry.temperatureC} °C ${entry.supplyV} V: ${entry.state}${entry.message ? ` — ${entry.message}` : ''}\n`);
+      io.stderr.write(
+        `[${done}/${file.conditions.length}] ${entry.unit} ${entry.temperatureC} °C ${entry.supplyV} V: ${entry.state}${entry.message ? ` — ${entry.message}` : ''}\n`,
+      );
     },
     onEvent: (event) => {
-      if (event.type === 'soak-timeout') io.stderr.write(`SOAK TIMEOUT at ${String(event.setpoint_c)} °C after ${Math.round(Number(event.waited_s))} s (DUT ${String(event.dut_c)} °C); plan says: ${plan.soak.onTimeout}\n`);
-      if (event.type === 'safe-state' && event.ok === false) io.stderr.write(`safe state step failed: ${String(event.step)} — ${String(event.error)}\n`);
+      if (event.type === 'soak-timeout')
+        io.stderr.write(
+          `SOAK TIMEOUT at ${String(event.setpoint_c)} °C after ${Math.round(Number(event.waited_s))} s (DUT ${String(event.dut_c)} °C); plan says: ${plan.soak.onTimeout}\n`,
+        );
+      if (event.type === 'safe-state' && event.ok === false)
+        io.stderr.write(`safe state step failed: ${String(event.step)} — ${String(event.error)}\n`);
     },
   };
   let outcome: CampaignOutcome;
   try {
-    const work = resumeDir !== undefined
-      ? resumeCampaign({ bench, clock, control, dir: resumeDir, ...hooks })
-      : startCampaign({ bench, clock, control, plan: planInput, runsDir: runsDirFrom(flags.values.get('runs'), io), ...hooks });
+    const work =
+      resumeDir !== undefined
+        ? resumeCampaign({ bench, clock, control, dir: resumeDir, ...hooks })
+        : startCampaign({
+            bench,
+            clock,
+            control,
+            plan: planInput,
+            runsDir: runsDirFrom(flags.values.get('runs'), io),
+            ...hooks,
+          });
     outcome = await work.catch((error: unknown) => {
       if (error instanceof LimitsError) asUsageError(error);
       if (error instanceof CampaignBusyError || error instanceof CampaignFileError) throw new UsageError(error.message);
@@ -163,8 +214,13 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     await bench.close();
   }
   io.stdout.write(`${outcome.dir}\n`);
-  io.stdout.write(`campaign ${outcome.file.status}${outcome.file.reason ? ` (${outcome.file.reason})` : ''}: ${outcome.file.conditions.filter((c) => c.state === 'done').length} of ${outcome.file.conditions.length} conditions done\n`);
-  if (!outcome.safeStateOk) io.stderr.write('WARNING: the safe state could not be confirmed on every step — check the supply and the chamber now (see campaign-events.jsonl).\n');
+  io.stdout.write(
+    `campaign ${outcome.file.status}${outcome.file.reason ? ` (${outcome.file.reason})` : ''}: ${outcome.file.conditions.filter((c) => c.state === 'done').length} of ${outcome.file.conditions.length} conditions done\n`,
+  );
+  if (!outcome.safeStateOk)
+    io.stderr.write(
+      'WARNING: the safe state could not be confirmed on every step — check the supply and the chamber now (see campaign-events.jsonl).\n',
+    );
   if (outcome.file.conditions.some((c) => c.state === 'done')) {
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
     io.stdout.write(`\n${renderCampaignMarkdown(analysis)}`);
@@ -174,7 +230,9 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     return 1;
   }
   if (outcome.file.status === 'aborted') {
-    io.stderr.write(`campaign stopped (${outcome.file.reason ?? 'stop'}); supply off, chamber to its safe state. Resume with: tunebench campaign --resume ${outcome.dir}\n`);
+    io.stderr.write(
+      `campaign stopped (${outcome.file.reason ?? 'stop'}); supply off, chamber to its safe state. Resume with: tunebench campaign --resume ${outcome.dir}\n`,
+    );
     return 1;
   }
   return outcome.safeStateOk ? 0 : 1;

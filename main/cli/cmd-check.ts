@@ -36,7 +36,11 @@ export const checkCommand: CliCommand = {
     });
     for (const check of results) io.stdout.write(`${formatRoleCheck(check)}\n`);
     const failed = results.filter((check) => !check.pass);
-    io.stdout.write(failed.length === 0 ? `check: all ${results.length} roles answer\n` : `check: ${failed.map((c) => c.role).join(', ')} failed\n`);
+    io.stdout.write(
+      failed.length === 0
+        ? `check: all ${results.length} roles answer\n`
+        : `check: ${failed.map((c) => c.role).join(', ')} failed\n`,
+    );
     return failed.length === 0 ? 0 : 1;
   },
 };

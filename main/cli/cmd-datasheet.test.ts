@@ -25,7 +25,17 @@ afterAll(async () => {
 describe('tunebench datasheet', () => {
   it('writes a self-contained HTML page with -o', async () => {
     const file = join(dir, 'sheet.html');
-    const r = await cli('datasheet', fixture, second, '--format', 'html', '-o', file, '--title', 'Sensor-interface oscillator');
+    const r = await cli(
+      'datasheet',
+      fixture,
+      second,
+      '--format',
+      'html',
+      '-o',
+      file,
+      '--title',
+      'Sensor-interface oscillator',
+    );
     expect(r.code).toBe(0);
     expect(r.err).toContain(`wrote ${file}`);
     const page = await readFile(file, 'utf8');
@@ -35,7 +45,11 @@ describe('tunebench datasheet', () => {
   it('CSV: min/typ/max of the line slope over the two units', async () => {
     const r = await cli('datasheet', fixture, second, '--format', 'csv');
     expect(r.code).toBe(0);
-    const row = r.out.trim().split('\n').map((line) => splitCsvLine(line) ?? []).find((x) => x[0] === 'kvcoLine');
+    const row = r.out
+      .trim()
+      .split('\n')
+      .map((line) => splitCsvLine(line) ?? [])
+      .find((x) => x[0] === 'kvcoLine');
     expect(Number(row?.[3])).toBeCloseTo(30.75e3, -2); // fixture's best line (see cmd-analyze test)
     expect(Number(row?.[5])).toBeCloseTo(33e3, 6);
     expect(row?.[7]).toBe('2');

@@ -8,7 +8,11 @@ import { runOrigin } from '../../app/analysis/datasheet-run.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { CsvError } from '../../app/analysis/csv-columns.ts';
 import { buildDatasheet, DatasheetInputError, type DatasheetRun } from '../../app/analysis/datasheet.ts';
-import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../app/analysis/datasheet-render.ts';
+import {
+  renderDatasheetCsv,
+  renderDatasheetHtml,
+  renderDatasheetMarkdown,
+} from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
@@ -47,27 +51,42 @@ export const datasheetCommand: CliCommand = {
   summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
   usage,
   async run(argv, io) {
-    const flags = parseFlags(argv, { values: ['format', 'output', 'title', 'window', 'runs'], booleans: ['include-incomplete', 'allow-mixed'], aliases: { o: 'output' } });
+    const flags = parseFlags(argv, {
+      values: ['format', 'output', 'title', 'window', 'runs'],
+      booleans: ['include-incomplete', 'allow-mixed'],
+      aliases: { o: 'output' },
+    });
     if (flags.positionals.length === 0) throw new UsageError('expected one or more RUN_DIR or RUN_ID (or FILE.csv)');
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
     if (flags.positionals.length === 1 && (await isCampaignDir(flags.positionals[0] as string))) {
       if (format === 'html') throw new UsageError('--format: a campaign datasheet is md or csv');
       const { analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
-      const text = format === 'csv' ? renderCampaignCsv(analysis) : renderCampaignMarkdown(analysis, flags.values.get('title'));
+      const text =
+        format === 'csv' ? renderCampaignCsv(analysis) : renderCampaignMarkdown(analysis, flags.values.get('title'));
       return writeOut(text, flags.values.get('output'), io);
     }
     const windowText = flags.values.get('window');
     const flagWindow = windowText === undefined ? undefined : parseVoltRange(windowText, parseSiNumber);
-    if (flagWindow === null) throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
+    if (flagWindow === null)
+      throw new UsageError(`--window: "${windowText}" is not A:B volts with A < B (e.g. 0.5:2.8)`);
     const runs: DatasheetRun[] = [];
     for (const path of flags.positionals) {
       const source = await loadAnalysisSource(path, runsDirFrom(flags.values.get('runs'), io));
       try {
-        const window = flagWindow ? { ...flagWindow, source: 'flag' as const } : source.window ? { ...source.window, source: 'plan' as const } : undefined;
+        const window = flagWindow
+          ? { ...flagWindow, source: 'flag' as const }
+          : source.window
+            ? { ...source.window, source: 'plan' as const }
+            : undefined;
         // No events here: the gain-table screen builds the same table from samples alone (parity test).
         const analysis = analyzeTable(source.kind, source.table, { gateS: source.gateS, sweep: { window } });
-        runs.push({ label: source.label, analysis, conditions: source.conditions, origin: source.meta ? runOrigin(source.meta) : undefined });
+        runs.push({
+          label: source.label,
+          analysis,
+          conditions: source.conditions,
+          origin: source.meta ? runOrigin(source.meta) : undefined,
+        });
       } catch (error) {
         if (error instanceof CsvError) throw new UsageError(`${path}: ${error.message}`);
         if (error instanceof AnalysisError) {

@@ -35,8 +35,10 @@ export const demoCommand: CliCommand = {
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, { values: ['runs', 'dut'] });
-    if (flags.positionals[0] === 'campaign' && flags.positionals.length === 1) return runCampaignDemo(flags.values.get('runs'), io);
-    if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}" (expected nothing or "campaign")`);
+    if (flags.positionals[0] === 'campaign' && flags.positionals.length === 1)
+      return runCampaignDemo(flags.values.get('runs'), io);
+    if (flags.positionals.length > 0)
+      throw new UsageError(`unexpected argument "${flags.positionals[0]}" (expected nothing or "campaign")`);
     const dut = parseDutName(flags.values.get('dut'));
     const runsDir = flags.values.get('runs') ?? (await mkdtemp(join(tmpdir(), 'tunebench-demo-')));
     const clock = new VirtualClock({ autoAdvance: true, startWallIso: new Date().toISOString() });

@@ -37,7 +37,9 @@ Every key of the plan file: docs/reference.md (or \`tunebench schema drift-plan\
 function timeFlag(name: string, text: string | undefined): number | undefined {
   return positiveFlag(name, text, parseDurationS, (got) => {
     const ambiguous = /^\s*([\d.]+)\s*m\s*$/.exec(got);
-    return ambiguous ? `"${got}" is ambiguous: write ${ambiguous[1]}ms or ${ambiguous[1]}min` : `expected ${TIME_FORMS}, got "${got}"`;
+    return ambiguous
+      ? `"${got}" is ambiguous: write ${ambiguous[1]}ms or ${ambiguous[1]}min`
+      : `expected ${TIME_FORMS}, got "${got}"`;
   });
 }
 
@@ -51,7 +53,11 @@ export const driftCommand = recordingCommand({
   applyFlags(plan: DriftPlan, flags) {
     const durationS = timeFlag('duration', flags.values.get('duration'));
     const intervalS = timeFlag('interval', flags.values.get('interval'));
-    return { ...plan, ...(durationS === undefined ? {} : { durationS }), ...(intervalS === undefined ? {} : { intervalS }) };
+    return {
+      ...plan,
+      ...(durationS === undefined ? {} : { durationS }),
+      ...(intervalS === undefined ? {} : { intervalS }),
+    };
   },
   validate: validateDriftPlan,
   notice(plan, flags) {
@@ -63,7 +69,8 @@ export const driftCommand = recordingCommand({
     const resumeId = flags.values.get('resume');
     if (resumeId === undefined) return recordDrift(options);
     return resumeDrift({ ...options, id: resumeId }).catch((error: unknown) => {
-      if (error instanceof StoreError || error instanceof RangeError) throw new UsageError(`--resume ${resumeId}: ${error.message}`);
+      if (error instanceof StoreError || error instanceof RangeError)
+        throw new UsageError(`--resume ${resumeId}: ${error.message}`);
       throw error;
     });
   },

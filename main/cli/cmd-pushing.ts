@@ -34,7 +34,8 @@ export const pushingCommand = recordingCommand({
   async report(recorded) {
     const o = recorded.outcome;
     const lines = [`status: ${recorded.meta.status}, ${o.steps} supply steps\n`];
-    if (o.hzPerV !== null && o.ppmPerV !== null) lines.push(`pushing: ${o.hzPerV.toPrecision(4)} Hz/V (${o.ppmPerV.toPrecision(4)} ppm/V)\n`);
+    if (o.hzPerV !== null && o.ppmPerV !== null)
+      lines.push(`pushing: ${o.hzPerV.toPrecision(4)} Hz/V (${o.ppmPerV.toPrecision(4)} ppm/V)\n`);
     lines.push((await summarizeRun(recorded.dir, undefined, o)).text);
     return lines.join('');
   },

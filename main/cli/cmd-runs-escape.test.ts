@@ -25,18 +25,37 @@ describe('control and bidi characters in DUT ids and notes (issue 14.7)', () => 
 
   it('are printed escaped by `tunebench runs` when a run.json written elsewhere holds them', async () => {
     await withTempDir(async (runsDir) => {
-      const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'plain' }, instruments: [], plan: {}, columns: ['time_s', 'control_v'], clock: new VirtualClock({ startWallIso: '2026-12-01T08:00:00.000Z' }) });
+      const writer = await createRun({
+        runsDir,
+        kind: 'sweep',
+        dut: { id: 'plain' },
+        instruments: [],
+        plan: {},
+        columns: ['time_s', 'control_v'],
+        clock: new VirtualClock({ startWallIso: '2026-12-01T08:00:00.000Z' }),
+      });
       await writer.finish('complete');
       const metaPath = join(runsDir, writer.id, 'run.json');
       const meta = JSON.parse(await readFile(metaPath, 'utf8')) as { dut: { id: string; notes: string } };
-      await writeFile(metaPath, JSON.stringify({ ...meta, dut: { id: `osc${RLO}gpj.exe${CSI}2J`, notes: `note${RLO}` } }));
-      for (const argv of [['--runs', runsDir], ['--runs', runsDir, '--json']]) {
+      await writeFile(
+        metaPath,
+        JSON.stringify({ ...meta, dut: { id: `osc${RLO}gpj.exe${CSI}2J`, notes: `note${RLO}` } }),
+      );
+      for (const argv of [
+        ['--runs', runsDir],
+        ['--runs', runsDir, '--json'],
+      ]) {
         let stdout = '';
-        const io = { stdout: { write: (text: string) => ((stdout += text), true) }, stderr: { write: () => true }, env: {} };
+        const io = {
+          stdout: { write: (text: string) => ((stdout += text), true) },
+          stderr: { write: () => true },
+          env: {},
+        };
         expect(await runsCommand.run(argv, io)).toBe(0);
         expect(stdout).not.toMatch(/[\u0080-\u009f\u202a-\u202e]/);
         expect(stdout).toContain('\\u202e');
-        if (argv.includes('--json')) expect((JSON.parse(stdout) as { dut: { notes: string } }[])[0]?.dut.notes).toBe(`note${RLO}`); // same JSON value
+        if (argv.includes('--json'))
+          expect((JSON.parse(stdout) as { dut: { notes: string } }[])[0]?.dut.notes).toBe(`note${RLO}`); // same JSON value
       }
     });
   });

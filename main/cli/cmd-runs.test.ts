@@ -41,7 +41,10 @@ async function makeRuns(runsDir: string) {
   });
   await drift.flush();
   // Its process "died": the lock names a pid that has exited.
-  await writeFile(join(drift.dir, 'writer.lock'), JSON.stringify({ pid: await deadPid(), host: hostname(), startedAt: 'x', heartbeatAt: '2026-12-02T01:00:09.000Z' }));
+  await writeFile(
+    join(drift.dir, 'writer.lock'),
+    JSON.stringify({ pid: await deadPid(), host: hostname(), startedAt: 'x', heartbeatAt: '2026-12-02T01:00:09.000Z' }),
+  );
 }
 
 describe('tunebench runs', () => {

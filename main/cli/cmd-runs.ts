@@ -22,7 +22,9 @@ Lists the saved runs, newest first: id, kind, status, DUT id, start time.
 
 function table(rows: string[][]): string {
   const widths = rows[0]?.map((_, c) => Math.max(...rows.map((row) => (row[c] ?? '').length))) ?? [];
-  return rows.map((row) => row.map((cell, c) => (c === row.length - 1 ? cell : cell.padEnd(widths[c] ?? 0))).join('  ')).join('\n');
+  return rows
+    .map((row) => row.map((cell, c) => (c === row.length - 1 ? cell : cell.padEnd(widths[c] ?? 0))).join('  '))
+    .join('\n');
 }
 
 async function run(argv: string[], io: CliIo): Promise<number> {
@@ -32,8 +34,14 @@ async function run(argv: string[], io: CliIo): Promise<number> {
   }
   const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
   const { runs, problems, campaigns } = await listRunsDetailed(runsDir);
-  for (const problem of problems) io.stderr.write(`tunebench runs: skipped ${sanitiseText(problem.name, 200)}: ${sanitiseText(problem.message, 400)}\n`);
-  for (const name of campaigns ?? []) io.stderr.write(`campaign folder: ${sanitiseText(name, 200)} (its runs: tunebench runs --runs ${sanitiseText(join(runsDir, name), 400)})\n`);
+  for (const problem of problems)
+    io.stderr.write(
+      `tunebench runs: skipped ${sanitiseText(problem.name, 200)}: ${sanitiseText(problem.message, 400)}\n`,
+    );
+  for (const name of campaigns ?? [])
+    io.stderr.write(
+      `campaign folder: ${sanitiseText(name, 200)} (its runs: tunebench runs --runs ${sanitiseText(join(runsDir, name), 400)})\n`,
+    );
   if (flags.booleans.has('json')) {
     // JSON.stringify leaves C1 controls and bidi overrides raw; as \uXXXX escapes the JSON means the same and the terminal stays intact.
     io.stdout.write(`${terminalSafeJson(JSON.stringify(runs, null, 2))}\n`);
@@ -44,7 +52,9 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     return 0;
   }
   // Ids and notes written by older versions or by hand may hold control or bidi characters: shown escaped.
-  const rows = runs.map((meta) => [meta.id, meta.kind, meta.status, meta.dut.id, meta.startedAt].map((cell) => sanitiseText(cell, 200)));
+  const rows = runs.map((meta) =>
+    [meta.id, meta.kind, meta.status, meta.dut.id, meta.startedAt].map((cell) => sanitiseText(cell, 200)),
+  );
   // No header row: CONTRACTS.md promises exactly one line per run.
   io.stdout.write(`${table(rows)}\n`);
   return 0;

@@ -20,8 +20,10 @@ export const schemaCommand: CliCommand = {
   run(argv, io) {
     const flags = parseFlags(argv, {});
     const [name, extra] = flags.positionals;
-    if (name === undefined || extra !== undefined) throw new UsageError(`expected one NAME: ${FILE_SCHEMA_NAMES.join(', ')}`);
-    if (!isFileSchemaName(name)) throw new UsageError(`"${name}" is not a file format; expected one of ${FILE_SCHEMA_NAMES.join(', ')}`);
+    if (name === undefined || extra !== undefined)
+      throw new UsageError(`expected one NAME: ${FILE_SCHEMA_NAMES.join(', ')}`);
+    if (!isFileSchemaName(name))
+      throw new UsageError(`"${name}" is not a file format; expected one of ${FILE_SCHEMA_NAMES.join(', ')}`);
     io.stdout.write(jsonSchemaText(name));
     return Promise.resolve(0);
   },

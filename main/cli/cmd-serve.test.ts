@@ -10,14 +10,21 @@ import { serveCommand } from './cmd-serve.ts';
 import { UsageError } from './types.ts';
 
 function statusOf(url: string): Promise<number> {
-  return new Promise((resolve, reject) => get(url, (res) => (res.resume(), resolve(res.statusCode ?? 0))).on('error', reject));
+  return new Promise((resolve, reject) =>
+    get(url, (res) => (res.resume(), resolve(res.statusCode ?? 0))).on('error', reject),
+  );
 }
 
 function io(signal: AbortSignal) {
   let stdout = '';
   let stderr = '';
   return {
-    io: { stdout: { write: (t: string) => ((stdout += t), true) }, stderr: { write: (t: string) => ((stderr += t), true) }, env: {}, signal },
+    io: {
+      stdout: { write: (t: string) => ((stdout += t), true) },
+      stderr: { write: (t: string) => ((stderr += t), true) },
+      env: {},
+      signal,
+    },
     out: () => stdout,
     err: () => stderr,
   };
@@ -49,19 +56,34 @@ describe('tunebench serve', () => {
   it('serves the built renderer without loading vite (a devDependency)', async () => {
     const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-serve-novite-'));
     // A resolve hook that refuses vite and its React plugin, as an install without devDependencies would.
-    const hook = 'export async function resolve(s, c, next) { if (/^(vite|@vitejs\\/)/.test(s)) throw new Error("no devDependency " + s); return next(s, c); }';
+    const hook =
+      'export async function resolve(s, c, next) { if (/^(vite|@vitejs\\/)/.test(s)) throw new Error("no devDependency " + s); return next(s, c); }';
     const register = `import { register } from 'node:module'; register(${JSON.stringify(`data:text/javascript,${encodeURIComponent(hook)}`)});`;
     const bin = fileURLToPath(new URL('../bin/tunebench.mjs', import.meta.url));
-    const child = spawn(process.execPath, ['--import', `data:text/javascript,${encodeURIComponent(register)}`, bin, 'serve', '--port', '0', '--runs', runsDir], {
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
+    const child = spawn(
+      process.execPath,
+      [
+        '--import',
+        `data:text/javascript,${encodeURIComponent(register)}`,
+        bin,
+        'serve',
+        '--port',
+        '0',
+        '--runs',
+        runsDir,
+      ],
+      {
+        stdio: ['ignore', 'pipe', 'pipe'],
+      },
+    );
     let out = '';
     let err = '';
     child.stdout.on('data', (chunk: Buffer) => (out += chunk.toString()));
     child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
     try {
       const deadline = Date.now() + 60_000;
-      while (!/token=/.test(out) && child.exitCode === null && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+      while (!/token=/.test(out) && child.exitCode === null && Date.now() < deadline)
+        await new Promise((r) => setTimeout(r, 50));
       const url = /http:\/\/127\.0\.0\.1:\d+\/\?token=[\w-]+/.exec(out)?.[0];
       expect(url, `serve printed no URL; stderr: ${err}`).toBeDefined();
       expect(await statusOf(url as string)).toBe(200);

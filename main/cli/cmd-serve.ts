@@ -41,7 +41,8 @@ do not share it, and keep --host on loopback unless you must.
 function parsePort(text: string | undefined): number {
   if (text === undefined) return 7788;
   const port = Number(text);
-  if (!/^\d+$/.test(text) || !Number.isInteger(port) || port > 65535) throw new UsageError(`--port: expected a TCP port 0–65535, got "${text}"`);
+  if (!/^\d+$/.test(text) || !Number.isInteger(port) || port > 65535)
+    throw new UsageError(`--port: expected a TCP port 0–65535, got "${text}"`);
   return port;
 }
 
@@ -62,7 +63,8 @@ export const serveCommand: CliCommand = {
     const flags = parseFlags(argv, { values: ['host', 'port', 'runs', 'allow-address'] });
     if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
     const host = flags.values.get('host') ?? '127.0.0.1';
-    if (!/^[A-Za-z0-9.:[\]-]+$/.test(host)) throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
+    if (!/^[A-Za-z0-9.:[\]-]+$/.test(host))
+      throw new UsageError(`--host: expected an address such as 127.0.0.1, got "${host}"`);
     const port = parsePort(flags.values.get('port'));
     const runsDir = resolveRunsDir(flags.values.get('runs'), io.env, process.platform, homedir());
     // TUNEBENCH_RENDERER_DIR serves a page built elsewhere (a packaged install, the tests) instead of out/renderer.
@@ -80,12 +82,15 @@ export const serveCommand: CliCommand = {
     } catch (error) {
       await service.close();
       const code = (error as { code?: string }).code;
-      if (code === 'EADDRINUSE') throw new WorkFailedError(`port ${port} on ${host} is in use; pick another with --port`);
+      if (code === 'EADDRINUSE')
+        throw new WorkFailedError(`port ${port} on ${host} is in use; pick another with --port`);
       if (code === 'EADDRNOTAVAIL') throw new UsageError(`--host: ${host} is not an address of this machine`);
       throw error;
     }
     if (host !== '127.0.0.1' && host !== 'localhost' && host !== '::1') {
-      io.stderr.write(`warning: listening on ${host}, not loopback only; anyone who can reach it and holds the token can drive the bench\n`);
+      io.stderr.write(
+        `warning: listening on ${host}, not loopback only; anyone who can reach it and holds the token can drive the bench\n`,
+      );
     }
     if (!io.signal) {
       // This process holds the bench: whatever ends it, the supply is left safe first.
@@ -97,7 +102,9 @@ export const serveCommand: CliCommand = {
       });
     }
     io.stderr.write(`runs folder: ${runsDir}\n`);
-    io.stdout.write(`tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl+C stops it\n`);
+    io.stdout.write(
+      `tunebench is serving the app at\n  ${server.url}\nopen it in a browser on this machine; Ctrl+C stops it\n`,
+    );
     await waitForStop(io);
     io.stderr.write('stopping: leaving the bench safe…\n');
     await service.close();

@@ -44,7 +44,8 @@ async function resolveFaults(value: string | undefined): Promise<FaultScript | u
 function parseInteger(value: string | undefined, flag: string, min: number, max: number, fallback: number): number {
   if (value === undefined) return fallback;
   const n = Number(value);
-  if (!/^\d+$/.test(value) || n < min || n > max) throw new UsageError(`--${flag} "${value}": expected an integer ${min}..${max}`);
+  if (!/^\d+$/.test(value) || n < min || n > max)
+    throw new UsageError(`--${flag} "${value}": expected an integer ${min}..${max}`);
   return n;
 }
 
@@ -78,11 +79,21 @@ async function run(argv: string[], io: CliIo): Promise<number> {
 
   let served;
   try {
-    served = await serveSimBench({ host, basePort, dut, seed, faults, counterNoSignal: noSignal, clock: new RealClock() });
+    served = await serveSimBench({
+      host,
+      basePort,
+      dut,
+      seed,
+      faults,
+      counterNoSignal: noSignal,
+      clock: new RealClock(),
+    });
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     if (code === 'EADDRINUSE' || code === 'EACCES' || code === 'EADDRNOTAVAIL') {
-      throw new UsageError(`--base-port ${basePort} / --host ${host}: cannot listen (${code}); choose other ports or host`);
+      throw new UsageError(
+        `--base-port ${basePort} / --host ${host}: cannot listen (${code}); choose other ports or host`,
+      );
     }
     throw error;
   }

@@ -33,7 +33,10 @@ describe('tunebench sweep / drift / pushing input checks', () => {
   it('a plan field of the wrong form exits 2 naming the field', async () => {
     const dir = await tempDir();
     const plan = join(dir, 'plan.json');
-    await writeFile(plan, JSON.stringify({ start: 1, stop: 2, step: 0.1, gateS: 'fast', limits: { maxControlV: 5, currentLimitA: 0.02 } }));
+    await writeFile(
+      plan,
+      JSON.stringify({ start: 1, stop: 2, step: 0.1, gateS: 'fast', limits: { maxControlV: 5, currentLimitA: 0.02 } }),
+    );
     const cli = io();
     expect(await runCli(['sweep', '--plan', plan, '--runs', dir], cli)).toBe(2);
     expect(cli.err()).toMatch(/gateS: expected a time such as/);
@@ -42,7 +45,10 @@ describe('tunebench sweep / drift / pushing input checks', () => {
   it('a plan beyond its limits is refused (exit 2) before any bench is opened', async () => {
     const dir = await tempDir();
     const plan = join(dir, 'plan.json');
-    await writeFile(plan, JSON.stringify({ start: 1, stop: 6, step: 0.5, limits: { maxControlV: 5, currentLimitA: 0.02 } }));
+    await writeFile(
+      plan,
+      JSON.stringify({ start: 1, stop: 6, step: 0.5, limits: { maxControlV: 5, currentLimitA: 0.02 } }),
+    );
     const cli = io();
     expect(await runCli(['sweep', '--plan', plan, '--runs', dir], cli)).toBe(2);
     expect(cli.err()).toMatch(/plan refused — stop: 6 V exceeds limits\.maxControlV \(5 V\)/);
@@ -71,19 +77,25 @@ describe('tunebench sweep / drift / pushing input checks', () => {
 });
 
 describe('tunebench demo', () => {
-  it('sweeps the simulated DUT, writes a complete run folder and prints the gain table with the cautions', { timeout: 120_000 }, async () => {
-    const dir = await tempDir();
-    const cli = io();
-    expect(await runCli(['demo', '--runs', dir], cli)).toBe(0);
-    expect(cli.err()).toMatch(/SIMULATED/);
-    const out = cli.out();
-    expect(out).toMatch(/\| Parameter \| Conditions \| Min \| Typ \| Max \| Unit \|/);
-    expect(out).toMatch(/Stall threshold/);
-    expect(out).toMatch(/Cautions: supply limits protect the DUT/);
-    const folder = /run folder: (.+)\n/.exec(out)?.[1] ?? '';
-    const run = await readRunFolder(folder);
-    expect(run.meta.status).toBe('complete');
-    expect(run.meta.kind).toBe('sweep');
-    expect(run.samplesCsv.split('\n')[0]).toBe('time_s,control_v,control_meas_v,frequency_hz,direction,status,refined,point_index,settle_s');
-  });
+  it(
+    'sweeps the simulated DUT, writes a complete run folder and prints the gain table with the cautions',
+    { timeout: 120_000 },
+    async () => {
+      const dir = await tempDir();
+      const cli = io();
+      expect(await runCli(['demo', '--runs', dir], cli)).toBe(0);
+      expect(cli.err()).toMatch(/SIMULATED/);
+      const out = cli.out();
+      expect(out).toMatch(/\| Parameter \| Conditions \| Min \| Typ \| Max \| Unit \|/);
+      expect(out).toMatch(/Stall threshold/);
+      expect(out).toMatch(/Cautions: supply limits protect the DUT/);
+      const folder = /run folder: (.+)\n/.exec(out)?.[1] ?? '';
+      const run = await readRunFolder(folder);
+      expect(run.meta.status).toBe('complete');
+      expect(run.meta.kind).toBe('sweep');
+      expect(run.samplesCsv.split('\n')[0]).toBe(
+        'time_s,control_v,control_meas_v,frequency_hz,direction,status,refined,point_index,settle_s',
+      );
+    },
+  );
 });

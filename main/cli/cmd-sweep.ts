@@ -13,7 +13,10 @@ const mV = (volts: number): string => `${Number((volts * 1000).toPrecision(6))} 
 
 /** The default plan in words, made from the plan itself so the help cannot drift from it. */
 export function describeDefaultSweep(plan: SweepPlan): string {
-  const settle = plan.settle.mode === 'auto' ? `automatic settling (at most ${plan.settle.maxS} s)` : `${plan.settle.seconds} s fixed settling`;
+  const settle =
+    plan.settle.mode === 'auto'
+      ? `automatic settling (at most ${plan.settle.maxS} s)`
+      : `${plan.settle.seconds} s fixed settling`;
   return [
     `${plan.start}–${plan.stop} V in ${mV(plan.step ?? 0)} steps (${plan.direction}), ${plan.readingsPerPoint} readings per point,`,
     `${plan.gateS * 1000} ms gate, ${settle}, stall edge refined to ${mV(plan.refineEdgeV)},`,

@@ -31,7 +31,9 @@ async function readJson(path: string, what: string): Promise<unknown> {
   try {
     text = await readFile(path, 'utf8');
   } catch (error) {
-    throw new ConfigFileError(`${what} ${path}: cannot read (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
+    throw new ConfigFileError(
+      `${what} ${path}: cannot read (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`,
+    );
   }
   try {
     return parseBoundedJson(text);
@@ -44,7 +46,9 @@ async function readJson(path: string, what: string): Promise<unknown> {
 export function parseWith<S extends z.ZodType>(schema: S, value: unknown, label: string): z.output<S> {
   const result = schema.safeParse(value);
   if (!result.success) {
-    const lines = describeIssues(result.error).split('\n').map((line) => `  ${line}`);
+    const lines = describeIssues(result.error)
+      .split('\n')
+      .map((line) => `  ${line}`);
     throw new ConfigFileError(`${label} is not valid:\n${lines.join('\n')}`);
   }
   return result.data;

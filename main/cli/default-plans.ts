@@ -4,7 +4,14 @@
  * near 4.3 V, so its default sweep stops at 4.25 V; the varactor one spans about 0.5–4.5 V), with limits that
  * keep a real 5 V tuning port safe too.
  */
-import { driftPlanSchema, pushingPlanSchema, sweepPlanSchema, type DriftPlan, type PushingPlan, type SweepPlan } from '../../app/contract/plans.ts';
+import {
+  driftPlanSchema,
+  pushingPlanSchema,
+  sweepPlanSchema,
+  type DriftPlan,
+  type PushingPlan,
+  type SweepPlan,
+} from '../../app/contract/plans.ts';
 
 export type DefaultDut = 'relaxation' | 'varactor';
 
@@ -27,7 +34,14 @@ export function defaultSweepPlan(dut: DefaultDut = 'relaxation'): SweepPlan {
 }
 
 export function defaultDriftPlan(dut: DefaultDut = 'relaxation'): DriftPlan {
-  return driftPlanSchema.parse({ controlV: dut === 'relaxation' ? 3 : 2.5, intervalS: 1, durationS: 8 * 3600, gateS: 0.1, limits: LIMITS, safe: SAFE });
+  return driftPlanSchema.parse({
+    controlV: dut === 'relaxation' ? 3 : 2.5,
+    intervalS: 1,
+    durationS: 8 * 3600,
+    gateS: 0.1,
+    limits: LIMITS,
+    safe: SAFE,
+  });
 }
 
 /** DUT supply stepped ±10 % around nominal (5 V relaxation, 3.3 V varactor). */

@@ -23,12 +23,22 @@ export async function runCampaignDemo(runsFlag: string | undefined, io: CliIo): 
   const dut = campaignDut();
   const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { dut, seed: 7 } });
   io.stderr.write(`${CAUTIONS}\n${CHAMBER_CAUTIONS}\n`);
-  io.stderr.write(`demo campaign: SIMULATED chamber, bench and DUT (${dut.id}, tempco ${dut.tempcoPpmPerC} ppm/°C, tuning tempco ${dut.tuningTempcoPpmPerC} ppm/°C); virtual time\n`);
+  io.stderr.write(
+    `demo campaign: SIMULATED chamber, bench and DUT (${dut.id}, tempco ${dut.tempcoPpmPerC} ppm/°C, tuning tempco ${dut.tuningTempcoPpmPerC} ppm/°C); virtual time\n`,
+  );
   const startedMs = Date.now();
   try {
-    const outcome = await startCampaign({ bench, clock, control: new RunControl({ signal: io.signal }), plan: campaignPlanInput(), runsDir });
+    const outcome = await startCampaign({
+      bench,
+      clock,
+      control: new RunControl({ signal: io.signal }),
+      plan: campaignPlanInput(),
+      runsDir,
+    });
     io.stdout.write(`campaign folder: ${outcome.dir}\n`);
-    io.stdout.write(`${outcome.file.conditions.length} conditions, status ${outcome.file.status}: ${(clock.now() / 3600).toFixed(2)} h of chamber time in ${((Date.now() - startedMs) / 1000).toFixed(1)} s\n\n`);
+    io.stdout.write(
+      `${outcome.file.conditions.length} conditions, status ${outcome.file.status}: ${(clock.now() / 3600).toFixed(2)} h of chamber time in ${((Date.now() - startedMs) / 1000).toFixed(1)} s\n\n`,
+    );
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
     io.stdout.write(renderCampaignMarkdown(analysis, `Campaign datasheet — ${dut.id} (simulated)`));
     return outcome.file.status === 'complete' && outcome.safeStateOk ? 0 : 1;

@@ -32,7 +32,8 @@ const NOTES: Readonly<Record<string, string>> = {
   'commands.setVoltage': 'Placeholders: {channel} {volts}.',
   'commands.getVoltageSetpoint': 'Placeholders: {channel}.',
   'commands.setCurrentLimit': 'Placeholders: {channel} {amps}.',
-  'commands.setOverVoltageProtection': 'Placeholders: {channel} {volts}. Required when capabilities.overVoltageProtection is true.',
+  'commands.setOverVoltageProtection':
+    'Placeholders: {channel} {volts}. Required when capabilities.overVoltageProtection is true.',
   'commands.setOutput': 'Placeholders: {channel} {state} (ON/OFF).',
   'commands.getOutput': 'Placeholders: {channel}.',
   'commands.measureVoltage': 'Placeholders: {channel}. Required when capabilities.measureVoltage is true.',
@@ -59,13 +60,14 @@ const NOTES: Readonly<Record<string, string>> = {
   'commands.setRampRate': 'Placeholders: {ratePerMin}. Required when capabilities.rampRate is true.',
   'commands.setRunning': 'Placeholders: {state} (ON/OFF). Required when capabilities.runStop is true.',
   'commands.getRunning': 'Placeholders: none. Required when capabilities.runStop is true.',
-  tuningTempcoPpmPerC: 'Fractional change per °C of the tuning sensitivity, ppm/°C: Kvco and the stall edge move with temperature.',
+  tuningTempcoPpmPerC:
+    'Fractional change per °C of the tuning sensitivity, ppm/°C: Kvco and the stall edge move with temperature.',
   thermalTauS: 'Thermal time constant of the DUT (board and package) to the air around it, s.',
   kind: 'Which physical model.',
   mode: 'Which settling rule.',
   id: 'Name of the DUT, recorded with every run.',
-  supply: 'The DUT\'s own supply.',
-  'supply.nominalV': 'Nominal supply, V; the simulated supply\'s channel 2 starts here.',
+  supply: "The DUT's own supply.",
+  'supply.nominalV': "Nominal supply, V; the simulated supply's channel 2 starts here.",
   'supply.minV': 'Below this supply the oscillator does not start, V.',
   'supply.currentA': 'Current drawn at nominal supply, A (modelled as a resistor).',
   tuning: 'The tuning port.',
@@ -103,7 +105,12 @@ const NOTES: Readonly<Record<string, string>> = {
   'varactor.minReverseV': 'Below this reverse bias the diode conducts and the oscillation stops, V.',
 };
 
-const QUANTITY_TYPES: Readonly<Record<string, string>> = { voltage: 'voltage (V)', current: 'current (A)', frequency: 'frequency (Hz)', time: 'time (s)' };
+const QUANTITY_TYPES: Readonly<Record<string, string>> = {
+  voltage: 'voltage (V)',
+  current: 'current (A)',
+  frequency: 'frequency (Hz)',
+  time: 'time (s)',
+};
 
 function typeOf(node: Json): string {
   if ('const' in node) return `\`${JSON.stringify(node.const)}\``;
@@ -133,16 +140,26 @@ function cell(text: string): string {
 
 function rows(node: Json, prefix: string, required: boolean, out: string[]): void {
   const key = prefix;
-  const meaning = typeof node.description === 'string' ? node.description : (NOTES[key.replace(/^[^.]*\(.*?\)\./, '')] ?? NOTES[key] ?? '');
+  const meaning =
+    typeof node.description === 'string'
+      ? node.description
+      : (NOTES[key.replace(/^[^.]*\(.*?\)\./, '')] ?? NOTES[key] ?? '');
   const dflt = 'default' in node ? `\`${JSON.stringify(node.default).replace(/\|/g, '\\|')}\`` : '';
-  if (key !== '' && key !== '$schema') out.push(`| \`${key}\` | ${typeOf(node)} | ${required ? 'yes' : ''} | ${dflt} | ${limitsOf(node)} | ${cell(meaning)} |`);
+  if (key !== '' && key !== '$schema')
+    out.push(
+      `| \`${key}\` | ${typeOf(node)} | ${required ? 'yes' : ''} | ${dflt} | ${limitsOf(node)} | ${cell(meaning)} |`,
+    );
   const props = node.properties as Record<string, Json> | undefined;
   const needed = new Set((node.required as string[] | undefined) ?? []);
-  if (props) for (const [name, child] of Object.entries(props)) rows(child, key === '' ? name : `${key}.${name}`, needed.has(name), out);
+  if (props)
+    for (const [name, child] of Object.entries(props))
+      rows(child, key === '' ? name : `${key}.${name}`, needed.has(name), out);
   const forms = (node.oneOf ?? node.anyOf) as Json[] | undefined;
   if (forms && key !== '') {
     for (const form of forms) {
-      const tag = Object.entries((form.properties as Record<string, Json> | undefined) ?? {}).find(([, p]) => 'const' in p);
+      const tag = Object.entries((form.properties as Record<string, Json> | undefined) ?? {}).find(
+        ([, p]) => 'const' in p,
+      );
       const label = tag ? `${key} (${tag[0]} ${JSON.stringify(tag[1].const)})` : key;
       const formProps = (form.properties as Record<string, Json> | undefined) ?? {};
       const formNeeded = new Set((form.required as string[] | undefined) ?? []);
@@ -160,7 +177,9 @@ export function keyTables(name: FileSchemaName): string {
   if (forms) {
     return forms
       .map((form) => {
-        const tag = Object.entries((form.properties as Record<string, Json> | undefined) ?? {}).find(([k, p]) => (k === 'role' || k === 'kind') && 'const' in p);
+        const tag = Object.entries((form.properties as Record<string, Json> | undefined) ?? {}).find(
+          ([k, p]) => (k === 'role' || k === 'kind') && 'const' in p,
+        );
         const out: string[] = [];
         rows(form, '', true, out);
         return [`**${tag ? `${tag[0]} ${JSON.stringify(tag[1].const)}` : 'form'}**`, '', ...HEADER, ...out].join('\n');

@@ -11,7 +11,10 @@ import { profileSchema } from '../instruments/profile-schema.ts';
 import { dutParamsSchema } from '../sim/dut-params.ts';
 
 export const FILE_SCHEMAS = {
-  bench: { schema: benchConfigSchema, title: 'tunebench bench file: addresses and profiles of the supply, counter and thermometer' },
+  bench: {
+    schema: benchConfigSchema,
+    title: 'tunebench bench file: addresses and profiles of the supply, counter and thermometer',
+  },
   'sweep-plan': { schema: sweepPlanSchema, title: 'tunebench sweep plan' },
   'drift-plan': { schema: driftPlanSchema, title: 'tunebench drift plan' },
   'pushing-plan': { schema: pushingPlanSchema, title: 'tunebench pushing plan' },

@@ -13,7 +13,9 @@ describe('positiveFlag', () => {
   });
   it.each(['soon', '0s', '-5s'])('refuses "%s" with a UsageError naming the flag', (text) => {
     expect(() => positiveFlag('duration', text, parseDurationS, refusal)).toThrow(UsageError);
-    expect(() => positiveFlag('duration', text, parseDurationS, refusal)).toThrow(`--duration: expected a duration, got "${text}"`);
+    expect(() => positiveFlag('duration', text, parseDurationS, refusal)).toThrow(
+      `--duration: expected a duration, got "${text}"`,
+    );
   });
 });
 
@@ -21,7 +23,10 @@ describe('parseFlags (util.parseArgs)', () => {
   const spec = { values: ['output', 'fit'], booleans: ['json'], repeatable: ['window'], aliases: { o: 'output' } };
 
   it('reads values, booleans, aliases, repeats and positionals; after -- everything is positional', () => {
-    const flags = parseFlags(['run1', '-o', 'out.md', '--fit=poly:2', '--json', '--window', '1..2', '--window', '3..4', '--', '--json', '-o'], spec);
+    const flags = parseFlags(
+      ['run1', '-o', 'out.md', '--fit=poly:2', '--json', '--window', '1..2', '--window', '3..4', '--', '--json', '-o'],
+      spec,
+    );
     expect(flags.values.get('output')).toBe('out.md');
     expect(flags.values.get('fit')).toBe('poly:2');
     expect(flags.booleans.has('json')).toBe(true);
@@ -40,7 +45,10 @@ describe('parseFlags (util.parseArgs)', () => {
   });
 
   it('withFlags extends a shared spec', () => {
-    const flags = parseFlags(['--bench', 'b.json', '--window', 'w'], withFlags({ values: ['bench'] }, { repeatable: ['window'] }));
+    const flags = parseFlags(
+      ['--bench', 'b.json', '--window', 'w'],
+      withFlags({ values: ['bench'] }, { repeatable: ['window'] }),
+    );
     expect(flags.values.get('bench')).toBe('b.json');
     expect(flags.lists.get('window')).toEqual(['w']);
   });

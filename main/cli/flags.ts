@@ -66,7 +66,9 @@ function usageErrorOf(error: unknown, spec: FlagSpec, argv: readonly string[]): 
     if ((spec.booleans ?? []).includes(name)) return new UsageError(`--${name} takes no value`);
     const i = argv.findIndex((arg) => arg === `--${name}`);
     const next = i >= 0 ? argv[i + 1] : undefined;
-    return new UsageError(`--${name} needs a value${next === undefined ? '' : ` (got the option "${next}"; write --${name}=${next} if that is the value)`}`);
+    return new UsageError(
+      `--${name} needs a value${next === undefined ? '' : ` (got the option "${next}"; write --${name}=${next} if that is the value)`}`,
+    );
   }
   return new UsageError(message);
 }
@@ -78,7 +80,12 @@ export function parseFlags(argv: readonly string[], spec: FlagSpec): ParsedFlags
   } catch (error) {
     throw usageErrorOf(error, spec, argv);
   }
-  const result: ParsedFlags = { values: new Map(), lists: new Map(), booleans: new Set(), positionals: [...parsed.positionals] };
+  const result: ParsedFlags = {
+    values: new Map(),
+    lists: new Map(),
+    booleans: new Set(),
+    positionals: [...parsed.positionals],
+  };
   for (const [name, value] of Object.entries(parsed.values)) {
     if (value === undefined) continue;
     if (Array.isArray(value)) result.lists.set(name, value.map(String));
@@ -100,7 +107,12 @@ export function argsBeforeSeparator(argv: readonly string[]): readonly string[] 
  * absent, else `parse(text)`; null, NaN or ≤ 0 is a UsageError
  * `--name: <refusal(text)>`.
  */
-export function positiveFlag(name: string, text: string | undefined, parse: (text: string) => number | null, refusal: (text: string) => string): number | undefined {
+export function positiveFlag(
+  name: string,
+  text: string | undefined,
+  parse: (text: string) => number | null,
+  refusal: (text: string) => string,
+): number | undefined {
   if (text === undefined) return undefined;
   const value = parse(text);
   if (value === null || !(value > 0)) throw new UsageError(`--${name}: ${refusal(text)}`);

@@ -20,19 +20,30 @@ function formatHz(hz: number | null): string {
 }
 
 /** What a run counts: a sweep visits points, a drift log takes readings, pushing steps the DUT supply. */
-const COUNTED: Readonly<Record<ProgressInfo['kind'], string>> = { sweep: 'points', drift: 'readings', pushing: 'supply steps' };
+const COUNTED: Readonly<Record<ProgressInfo['kind'], string>> = {
+  sweep: 'points',
+  drift: 'readings',
+  pushing: 'supply steps',
+};
 
 export function describeProgress(p: ProgressInfo): string {
   let latest = '';
   if (p.latest !== null) {
     const reading = p.latest.status === 'ok' ? formatHz(p.latest.frequencyHz) : p.latest.status;
     // Pushing holds the control voltage; what moves is the DUT supply.
-    latest = p.latest.supplyV !== undefined ? `  supply ${p.latest.supplyV.toFixed(4)} V → ${reading}` : `  ${p.latest.controlV.toFixed(4)} V → ${reading}`;
+    latest =
+      p.latest.supplyV !== undefined
+        ? `  supply ${p.latest.supplyV.toFixed(4)} V → ${reading}`
+        : `  ${p.latest.controlV.toFixed(4)} V → ${reading}`;
   }
   return `${p.phase} ${p.pointsDone}/${p.pointsTotal} ${COUNTED[p.kind] ?? 'points'}  ETA ${formatClockDuration(p.etaS)}${latest}`;
 }
 
-export function createProgressDisplay(out: ProgressOutput, nowMs: () => number = Date.now, plainEveryMs = 5000): { update: (p: ProgressInfo) => void; done: () => void } {
+export function createProgressDisplay(
+  out: ProgressOutput,
+  nowMs: () => number = Date.now,
+  plainEveryMs = 5000,
+): { update: (p: ProgressInfo) => void; done: () => void } {
   const tty = out.isTTY === true;
   let lastPlainMs = -Infinity;
   let drawn = false;

@@ -38,12 +38,17 @@ export interface RecordingCommandSpec<P extends { safe: SafeState }, O extends P
   report(recorded: RecordedRun<O>): Promise<string>;
 }
 
-async function runRecording<P extends { safe: SafeState }, O extends ProcedureOutcome>(spec: RecordingCommandSpec<P, O>, argv: string[], io: CliIo): Promise<number> {
+async function runRecording<P extends { safe: SafeState }, O extends ProcedureOutcome>(
+  spec: RecordingCommandSpec<P, O>,
+  argv: string[],
+  io: CliIo,
+): Promise<number> {
   const flags = parseFlags(argv, withFlags(RECORDING_FLAGS, spec.flags ?? {}));
   if (flags.positionals.length > 0) throw new UsageError(`unexpected argument "${flags.positionals[0]}"`);
   const dut = await resolveSimDut(flags.values.get('dut'));
   const planPath = flags.values.get('plan');
-  let plan = planPath === undefined ? spec.defaultPlan(defaultsFor(dut)) : await spec.loadPlan(planPath).catch(asUsageError);
+  let plan =
+    planPath === undefined ? spec.defaultPlan(defaultsFor(dut)) : await spec.loadPlan(planPath).catch(asUsageError);
   if (spec.applyFlags) plan = spec.applyFlags(plan, flags);
   validatedCliPlan(plan, (p) => spec.validate(p));
   const notice = spec.notice?.(plan, flags);
@@ -57,7 +62,8 @@ async function runRecording<P extends { safe: SafeState }, O extends ProcedureOu
           plan,
           runsDir: runsDirFrom(flags.values.get('runs'), io),
           dutId,
-          onRunStarted: (_meta, dir) => io.stderr.write(`run folder: ${dir}${spec.folderNote ? ` ${spec.folderNote}` : ''}\n`),
+          onRunStarted: (_meta, dir) =>
+            io.stderr.write(`run folder: ${dir}${spec.folderNote ? ` ${spec.folderNote}` : ''}\n`),
         },
         flags,
       )
@@ -75,6 +81,8 @@ async function runRecording<P extends { safe: SafeState }, O extends ProcedureOu
 }
 
 /** A CliCommand that records one procedure into a new run folder. */
-export function recordingCommand<P extends { safe: SafeState }, O extends ProcedureOutcome>(spec: RecordingCommandSpec<P, O>): CliCommand {
+export function recordingCommand<P extends { safe: SafeState }, O extends ProcedureOutcome>(
+  spec: RecordingCommandSpec<P, O>,
+): CliCommand {
   return { name: spec.name, summary: spec.summary, usage: spec.usage, run: (argv, io) => runRecording(spec, argv, io) };
 }

@@ -43,18 +43,29 @@ export function runsDirFrom(flag: string | undefined, io: CliIo): string {
 
 /** Turns a bad file, plan or address into a UsageError (exit 2) that names the field. */
 export function asUsageError(error: unknown): never {
-  if (error instanceof ConfigFileError || error instanceof LimitsError || error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) {
+  if (
+    error instanceof ConfigFileError ||
+    error instanceof LimitsError ||
+    error instanceof AddressError ||
+    error instanceof ProfileError ||
+    error instanceof BenchCheckError
+  ) {
     throw new UsageError(error instanceof LimitsError ? `plan refused — ${error.message}` : error.message);
   }
   throw error;
 }
 
-export async function openCliBench(benchPath: string | undefined, dut: DefaultDut | DutParams, clock: Clock): Promise<AssembledBench> {
+export async function openCliBench(
+  benchPath: string | undefined,
+  dut: DefaultDut | DutParams,
+  clock: Clock,
+): Promise<AssembledBench> {
   const config = benchPath === undefined ? 'sim' : await loadBenchFile(benchPath).catch(asUsageError);
   try {
     return await assembleBench(config, { clock, sim: { dut } });
   } catch (error) {
-    if (error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError) asUsageError(error);
+    if (error instanceof AddressError || error instanceof ProfileError || error instanceof BenchCheckError)
+      asUsageError(error);
     throw new WorkFailedError(`cannot open the bench: ${error instanceof Error ? error.message : String(error)}`);
   }
 }
@@ -68,7 +79,11 @@ export async function openCliBench(benchPath: string | undefined, dut: DefaultDu
  * limit stops it too, and if the procedure has not ended within 8 s the
  * guard drives the safe state itself; then the process exits with code 1.
  */
-export function cliControl(io: CliIo, bench: AssembledBench, safe: SafeState): { control: RunControl; dispose: () => void } {
+export function cliControl(
+  io: CliIo,
+  bench: AssembledBench,
+  safe: SafeState,
+): { control: RunControl; dispose: () => void } {
   const control = new RunControl({ signal: io.signal });
   const disposers: (() => void)[] = [];
   let ended: () => void = () => undefined;
@@ -116,7 +131,9 @@ export function cliProgress(io: CliIo): ReturnType<typeof createProgressDisplay>
 /** Exit code for an outcome; failures and aborts are explained on stderr. */
 export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
   if (!outcome.safeStateOk) {
-    io.stderr.write('WARNING: the safe state could not be confirmed by readback — check the supply now (see events.jsonl):\n');
+    io.stderr.write(
+      'WARNING: the safe state could not be confirmed by readback — check the supply now (see events.jsonl):\n',
+    );
     for (const line of outcome.safeStateFailures ?? []) io.stderr.write(`  ${line}\n`);
   }
   if (outcome.failure !== null) {
@@ -124,7 +141,9 @@ export function exitCodeFor(outcome: ProcedureOutcome, io: CliIo): number {
     return 1;
   }
   if (outcome.status === 'aborted') {
-    io.stderr.write(`${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); ${outcome.safeStateOk ? 'the supply was put in its safe state' : 'the safe state was NOT confirmed'}.\n`);
+    io.stderr.write(
+      `${outcome.kind} stopped early (${outcome.reason ?? 'stop'}); ${outcome.safeStateOk ? 'the supply was put in its safe state' : 'the safe state was NOT confirmed'}.\n`,
+    );
     return 1;
   }
   // An unconfirmed safe state is a failure even when the work itself completed.
@@ -160,15 +179,23 @@ export interface CliRun {
  * run's control and progress. Call after the plan has been validated, so a
  * refused plan never touches an instrument.
  */
-export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut | DutParams, safe: SafeState): Promise<CliRun> {
+export async function openCliRun(
+  io: CliIo,
+  flags: ParsedFlags,
+  dut: DefaultDut | DutParams,
+  safe: SafeState,
+): Promise<CliRun> {
   const clock = new RealClock();
   io.stderr.write(`${CAUTIONS}\n`);
   const bench = await openCliBench(flags.values.get('bench'), dut, clock);
-  if (bench.simulated) io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
+  if (bench.simulated)
+    io.stderr.write(`bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}) — no instrument is touched\n`);
   else for (const line of identityLines(bench)) io.stderr.write(`${line}\n`);
   const found = bench.controlFound;
   if (found.outputOn) {
-    io.stderr.write(`NOTE: control channel ${found.channel} was found ON at ${found.setpointV} V (left by an earlier run or by hand); it goes to the safe state before the limits are applied.\n`);
+    io.stderr.write(
+      `NOTE: control channel ${found.channel} was found ON at ${found.setpointV} V (left by an earlier run or by hand); it goes to the safe state before the limits are applied.\n`,
+    );
   }
   const { control, dispose } = cliControl(io, bench, safe);
   const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
@@ -177,5 +204,13 @@ export async function openCliRun(io: CliIo, flags: ParsedFlags, dut: DefaultDut 
     await bench.close();
   };
   const progress = cliProgress(io);
-  return { clock, bench, control, progress, dutId, recording: { bench, clock, control, onProgress: progress.update }, close };
+  return {
+    clock,
+    bench,
+    control,
+    progress,
+    dutId,
+    recording: { bench, clock, control, onProgress: progress.update },
+    close,
+  };
 }

@@ -24,8 +24,13 @@ export interface RunSummary {
  * replaces the analysis, since rows that are all errors say nothing about
  * the DUT (they are not a stall).
  */
-export async function summarizeRun(dir: string, title?: string, outcome?: Pick<ProcedureOutcome, 'failure'>): Promise<RunSummary> {
-  if (outcome?.failure?.kind === 'counter-fault') return { text: `no analysis: ${outcome.failure.message}\n`, tableMarkdown: null };
+export async function summarizeRun(
+  dir: string,
+  title?: string,
+  outcome?: Pick<ProcedureOutcome, 'failure'>,
+): Promise<RunSummary> {
+  if (outcome?.failure?.kind === 'counter-fault')
+    return { text: `no analysis: ${outcome.failure.message}\n`, tableMarkdown: null };
   try {
     const source = await loadAnalysisSource(dir);
     const analysis = analyzeTable(source.kind, source.table, {
@@ -34,9 +39,23 @@ export async function summarizeRun(dir: string, title?: string, outcome?: Pick<P
       sweep: source.window ? { window: { ...source.window, source: 'plan' } } : undefined,
     });
     const text = summarizeAnalysis(analysis);
-    const tableMarkdown = source.kind === 'drift' ? null : renderDatasheetMarkdown(
+    const tableMarkdown =
+      source.kind === 'drift'
+        ? null
+        : renderDatasheetMarkdown(
             // The run's own origin, as `tunebench datasheet` gives it: a simulated run says so; a stopped run still shows its own figures.
-            buildDatasheet([{ label: source.label, analysis, conditions: source.conditions, origin: source.meta ? runOrigin(source.meta) : undefined }], title, { includeIncomplete: true }),
+            buildDatasheet(
+              [
+                {
+                  label: source.label,
+                  analysis,
+                  conditions: source.conditions,
+                  origin: source.meta ? runOrigin(source.meta) : undefined,
+                },
+              ],
+              title,
+              { includeIncomplete: true },
+            ),
           );
     return { text, tableMarkdown };
   } catch (error) {

@@ -9,7 +9,8 @@ import { UsageError } from './types.ts';
 export async function resolveSimDut(value: string | undefined): Promise<BuiltinDutName | DutParams> {
   if (value === undefined) return 'relaxation';
   if (isBuiltinDutName(value)) return value;
-  if (!value.toLowerCase().endsWith('.json')) throw new UsageError(`--dut "${value}": expected relaxation, varactor or a FILE.json`);
+  if (!value.toLowerCase().endsWith('.json'))
+    throw new UsageError(`--dut "${value}": expected relaxation, varactor or a FILE.json`);
   try {
     return await loadDutParamsFile(value);
   } catch (error) {

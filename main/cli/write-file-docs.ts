@@ -10,7 +10,10 @@ import { regenerateReference } from './file-reference.ts';
 
 const root = join(import.meta.dirname, '..', '..');
 await mkdir(join(root, 'resources', 'schemas'), { recursive: true });
-for (const name of FILE_SCHEMA_NAMES) await writeFile(join(root, 'resources', 'schemas', `${name}.schema.json`), jsonSchemaText(name));
+for (const name of FILE_SCHEMA_NAMES)
+  await writeFile(join(root, 'resources', 'schemas', `${name}.schema.json`), jsonSchemaText(name));
 const docPath = join(root, 'docs', 'reference.md');
 await writeFile(docPath, regenerateReference(await readFile(docPath, 'utf8')));
-process.stdout.write(`wrote resources/schemas/ (${FILE_SCHEMA_NAMES.length} files) and the key tables of docs/reference.md\n`);
+process.stdout.write(
+  `wrote resources/schemas/ (${FILE_SCHEMA_NAMES.length} files) and the key tables of docs/reference.md\n`,
+);

@@ -12,7 +12,9 @@ import { APP_SCHEME, contentSecurityPolicy } from '../window-options.ts';
 export function registerAppScheme(): void {
   // standard + secure: a real origin (tunebench://app) with the rights of https,
   // so module scripts and workers load from it; nothing else is granted.
-  protocol.registerSchemesAsPrivileged([{ scheme: APP_SCHEME, privileges: { standard: true, secure: true, supportFetchAPI: true, corsEnabled: true } }]);
+  protocol.registerSchemesAsPrivileged([
+    { scheme: APP_SCHEME, privileges: { standard: true, secure: true, supportFetchAPI: true, corsEnabled: true } },
+  ]);
 }
 
 export const DESKTOP_HEADERS: Readonly<Record<string, string>> = {
@@ -25,8 +27,13 @@ export const DESKTOP_HEADERS: Readonly<Record<string, string>> = {
 export function serveRendererOnAppScheme(rendererDir: string): void {
   protocol.handle(APP_SCHEME, async (request) => {
     const url = new URL(request.url);
-    const file = url.host === 'app' && request.method === 'GET' ? await readStaticFile(rendererDir, url.pathname) : null;
-    if (!file) return new Response('Not found', { status: 404, headers: { ...DESKTOP_HEADERS, 'Content-Type': 'text/plain' } });
-    return new Response(new Uint8Array(file.body), { status: 200, headers: { ...DESKTOP_HEADERS, 'Content-Type': file.contentType } });
+    const file =
+      url.host === 'app' && request.method === 'GET' ? await readStaticFile(rendererDir, url.pathname) : null;
+    if (!file)
+      return new Response('Not found', { status: 404, headers: { ...DESKTOP_HEADERS, 'Content-Type': 'text/plain' } });
+    return new Response(new Uint8Array(file.body), {
+      status: 200,
+      headers: { ...DESKTOP_HEADERS, 'Content-Type': file.contentType },
+    });
   });
 }

@@ -21,9 +21,23 @@ describe('parseAddress', () => {
 
   it('reads serial addresses with every option and applies 9600 8N1 defaults', () => {
     expect(parseAddress('serial:/dev/ttyUSB0?baud=115200')).toEqual({
-      kind: 'serial', path: '/dev/ttyUSB0', baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, flow: 'none' });
+      kind: 'serial',
+      path: '/dev/ttyUSB0',
+      baudRate: 115200,
+      dataBits: 8,
+      parity: 'none',
+      stopBits: 1,
+      flow: 'none',
+    });
     expect(parseAddress('serial:COM3?baud=19200&parity=even&stopbits=2&flow=rtscts&databits=7')).toEqual({
-      kind: 'serial', path: 'COM3', baudRate: 19200, dataBits: 7, parity: 'even', stopBits: 2, flow: 'rtscts' });
+      kind: 'serial',
+      path: 'COM3',
+      baudRate: 19200,
+      dataBits: 7,
+      parity: 'even',
+      stopBits: 2,
+      flow: 'rtscts',
+    });
     expect(parseAddress('serial:/dev/ttyS1?flow=xon')).toMatchObject({ baudRate: 9600, flow: 'xon' });
   });
 
@@ -33,9 +47,17 @@ describe('parseAddress', () => {
   });
 
   it('reads the open VISA resource forms', () => {
-    expect(parseAddress('TCPIP0::192.168.0.20::5025::SOCKET')).toEqual({ kind: 'tcp', host: '192.168.0.20', port: 5025 });
+    expect(parseAddress('TCPIP0::192.168.0.20::5025::SOCKET')).toEqual({
+      kind: 'tcp',
+      host: '192.168.0.20',
+      port: 5025,
+    });
     expect(parseAddress('tcpip::localhost::5555::socket')).toEqual({ kind: 'tcp', host: 'localhost', port: 5555 });
-    expect(parseAddress('ASRL/dev/ttyUSB0::INSTR')).toMatchObject({ kind: 'serial', path: '/dev/ttyUSB0', baudRate: 9600 });
+    expect(parseAddress('ASRL/dev/ttyUSB0::INSTR')).toMatchObject({
+      kind: 'serial',
+      path: '/dev/ttyUSB0',
+      baudRate: 9600,
+    });
   });
 
   it.each([
@@ -62,7 +84,13 @@ describe('parseAddress', () => {
   });
 
   it('formats descriptors back to strings that parse to the same descriptor', () => {
-    for (const text of ['tcp://127.0.0.1:5025', 'tcp://[::1]:6000', 'sim', 'sim:supply', 'serial:/dev/ttyUSB0?baud=115200&parity=odd&flow=rtscts']) {
+    for (const text of [
+      'tcp://127.0.0.1:5025',
+      'tcp://[::1]:6000',
+      'sim',
+      'sim:supply',
+      'serial:/dev/ttyUSB0?baud=115200&parity=odd&flow=rtscts',
+    ]) {
       const parsed = parseAddress(text);
       expect(parseAddress(formatAddress(parsed))).toEqual(parsed);
     }

@@ -49,7 +49,8 @@ const VISA_ASRL = /^ASRL(.+)::INSTR$/i;
 
 export function parseAddress(text: string): InstrumentAddress {
   const address = text.trim();
-  if (address === '') throw new AddressError('address', 'is empty; expected tcp://HOST:PORT, serial:PATH?baud=N, sim or a VISA resource');
+  if (address === '')
+    throw new AddressError('address', 'is empty; expected tcp://HOST:PORT, serial:PATH?baud=N, sim or a VISA resource');
   const lower = address.toLowerCase();
   if (lower === 'sim' || lower.startsWith('sim:')) return parseSim(address.slice(4));
   if (lower.startsWith('tcp://')) return parseTcp(address.slice(6));
@@ -57,15 +58,25 @@ export function parseAddress(text: string): InstrumentAddress {
   const tcpip = VISA_TCPIP.exec(address);
   if (tcpip !== null) return { kind: 'tcp', host: unbracket(tcpip[2] ?? ''), port: parsePort(tcpip[3] ?? '') };
   if (/^TCPIP\d*::/i.test(address)) {
-    throw new AddressError('resource', `"${address}" is not a raw-socket resource; expected TCPIP[n]::HOST::PORT::SOCKET`);
+    throw new AddressError(
+      'resource',
+      `"${address}" is not a raw-socket resource; expected TCPIP[n]::HOST::PORT::SOCKET`,
+    );
   }
   const asrl = VISA_ASRL.exec(address);
   if (asrl !== null) {
     const path = asrl[1] ?? '';
-    if (/^\d+$/.test(path)) throw new AddressError('resource', `numbered serial board ASRL${path} is not mapped; give the device path, e.g. ASRL/dev/ttyUSB0::INSTR`);
+    if (/^\d+$/.test(path))
+      throw new AddressError(
+        'resource',
+        `numbered serial board ASRL${path} is not mapped; give the device path, e.g. ASRL/dev/ttyUSB0::INSTR`,
+      );
     return { kind: 'serial', path, ...SERIAL_DEFAULTS };
   }
-  throw new AddressError('address', `"${address}" has no known form; expected tcp://HOST:PORT, serial:PATH?baud=N, sim, TCPIP::HOST::PORT::SOCKET or ASRL<PATH>::INSTR`);
+  throw new AddressError(
+    'address',
+    `"${address}" has no known form; expected tcp://HOST:PORT, serial:PATH?baud=N, sim, TCPIP::HOST::PORT::SOCKET or ASRL<PATH>::INSTR`,
+  );
 }
 
 /** The canonical string for a descriptor (what run.json records). */
@@ -89,7 +100,8 @@ function parseSim(rest: string): SimAddress {
 
 function parseTcp(rest: string): TcpAddress {
   const match = /^(\[[^\]]+\]|[^:/[\]]+)(?::(\d*))?\/?$/.exec(rest);
-  if (match === null) throw new AddressError('host', `"${rest}" is not HOST or HOST:PORT (IPv6 in brackets: [::1]:5025)`);
+  if (match === null)
+    throw new AddressError('host', `"${rest}" is not HOST or HOST:PORT (IPv6 in brackets: [::1]:5025)`);
   const host = unbracket(match[1] ?? '');
   const port = match[2] === undefined ? DEFAULT_SCPI_PORT : parsePort(match[2]);
   return { kind: 'tcp', host, port };
@@ -121,7 +133,8 @@ function parseSerial(rest: string): SerialAddress {
     switch (key) {
       case 'baud': {
         const baud = Number(value);
-        if (!/^\d+$/.test(value) || baud < 50 || baud > 4_000_000) throw new AddressError('baud', `"${value}" is not a baud rate 50-4000000`);
+        if (!/^\d+$/.test(value) || baud < 50 || baud > 4_000_000)
+          throw new AddressError('baud', `"${value}" is not a baud rate 50-4000000`);
         result.baudRate = baud;
         break;
       }
@@ -138,7 +151,10 @@ function parseSerial(rest: string): SerialAddress {
         result.flow = oneOf('flow', value, ['none', 'rtscts', 'xon'] as const);
         break;
       default:
-        throw new AddressError(key === '' ? 'option' : key, 'is not a serial option; expected baud, parity, stopbits, databits or flow');
+        throw new AddressError(
+          key === '' ? 'option' : key,
+          'is not a serial option; expected baud, parity, stopbits, databits or flow',
+        );
     }
   }
   return result;

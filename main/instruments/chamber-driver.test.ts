@@ -20,7 +20,11 @@ async function openChamber() {
   const clock = new VirtualClock();
   sim = createSimBench({ clock });
   const bench = sim;
-  const chamber = await openInstrument('chamber', { address: 'sim' }, { clock, sim: (role: RoleName) => bench.transport(role) });
+  const chamber = await openInstrument(
+    'chamber',
+    { address: 'sim' },
+    { clock, sim: (role: RoleName) => bench.transport(role) },
+  );
   return { chamber, bench, clock };
 }
 
@@ -31,7 +35,9 @@ describe('chamber driver', () => {
     await expect(chamber.setSetpoint(40)).rejects.toThrow(/no limits set on the chamber \(sim\)/);
     chamber.setLimits({ minC: -20, maxC: 70, maxRateCPerMin: 2 });
     await expect(chamber.setSetpoint(85)).rejects.toThrow(ChamberLimitError);
-    await expect(chamber.setSetpoint(85)).rejects.toThrow(/85 °C refused by the chamber \(sim, profile chamber-scpi\); valid: -20 … 70 °C/);
+    await expect(chamber.setSetpoint(85)).rejects.toThrow(
+      /85 °C refused by the chamber \(sim, profile chamber-scpi\); valid: -20 … 70 °C/,
+    );
     await expect(chamber.setRampRate(5)).rejects.toThrow(/5 °C\/min refused.*valid: > 0 … 2 °C\/min/);
     expect(bench.snapshot().chamber.setpointC).toBe(before);
     expect(bench.snapshot().chamber.rampCPerMin).toBe(5); // the simulator's own default, untouched

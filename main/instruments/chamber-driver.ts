@@ -15,7 +15,10 @@ import type { ScpiSession } from './scpi-session.ts';
 /** A chamber write refused before it was sent; names the field, the instrument and what would be valid. */
 export class ChamberLimitError extends Error {
   override readonly name = 'ChamberLimitError';
-  constructor(readonly field: string, message: string) {
+  constructor(
+    readonly field: string,
+    message: string,
+  ) {
     super(`${field}: ${message}`);
   }
 }
@@ -23,10 +26,16 @@ export class ChamberLimitError extends Error {
 /** Checks the limits themselves (finite, min < max, rate > 0). */
 export function checkChamberLimits(limits: ChamberLimits, field = 'chamber'): void {
   if (!Number.isFinite(limits.minC) || !Number.isFinite(limits.maxC) || !(limits.minC < limits.maxC)) {
-    throw new ChamberLimitError(`${field}.minC`, `must be finite and below ${field}.maxC, got ${limits.minC} … ${limits.maxC} °C`);
+    throw new ChamberLimitError(
+      `${field}.minC`,
+      `must be finite and below ${field}.maxC, got ${limits.minC} … ${limits.maxC} °C`,
+    );
   }
   if (!(limits.maxRateCPerMin > 0) || !Number.isFinite(limits.maxRateCPerMin)) {
-    throw new ChamberLimitError(`${field}.maxRateCPerMin`, `must be a finite rate > 0 °C/min, got ${limits.maxRateCPerMin}`);
+    throw new ChamberLimitError(
+      `${field}.maxRateCPerMin`,
+      `must be a finite rate > 0 °C/min, got ${limits.maxRateCPerMin}`,
+    );
   }
 }
 
@@ -42,7 +51,11 @@ export class ChamberDriver implements Chamber {
   #limits: ChamberLimits | null = null;
   private readonly writeOptions: { checkErrors: boolean };
 
-  constructor(readonly session: ScpiSession, readonly profile: ChamberProfile, readonly address = 'chamber') {
+  constructor(
+    readonly session: ScpiSession,
+    readonly profile: ChamberProfile,
+    readonly address = 'chamber',
+  ) {
     this.capabilities = { ...profile.capabilities };
     this.endAction = profile.endAction;
     this.writeOptions = { checkErrors: profile.checkErrorsAfterWrite };
@@ -60,12 +73,17 @@ export class ChamberDriver implements Chamber {
   async setSetpoint(celsius: number): Promise<void> {
     const limits = this.#limitsFor('setpoint');
     if (!Number.isFinite(celsius) || celsius < limits.minC || celsius > limits.maxC) {
-      throw new ChamberLimitError('setpoint', `${celsius} °C refused by the chamber (${this.address}, profile ${this.profile.name}); valid: ${limits.minC} … ${limits.maxC} °C (chamber.minC … chamber.maxC)`);
+      throw new ChamberLimitError(
+        'setpoint',
+        `${celsius} °C refused by the chamber (${this.address}, profile ${this.profile.name}); valid: ${limits.minC} … ${limits.maxC} °C (chamber.minC … chamber.maxC)`,
+      );
     }
     await this.write(this.profile.commands.setSetpoint, { celsius: formatScpiNumber(celsius) });
     const readBack = await this.getSetpoint();
     if (Math.abs(readBack - celsius) > this.profile.setpointToleranceC) {
-      throw new ChamberReadbackError(`chamber (${this.address}) reads its setpoint back as ${readBack} °C after ${celsius} °C was written`);
+      throw new ChamberReadbackError(
+        `chamber (${this.address}) reads its setpoint back as ${readBack} °C after ${celsius} °C was written`,
+      );
     }
   }
 
@@ -82,7 +100,10 @@ export class ChamberDriver implements Chamber {
     if (template === undefined) throw new UnsupportedOperationError('setRampRate', this.profile.name);
     const limits = this.#limitsFor('ramp rate');
     if (!(cPerMin > 0) || cPerMin > limits.maxRateCPerMin) {
-      throw new ChamberLimitError('rampRate', `${cPerMin} °C/min refused by the chamber (${this.address}); valid: > 0 … ${limits.maxRateCPerMin} °C/min (chamber.maxRateCPerMin)`);
+      throw new ChamberLimitError(
+        'rampRate',
+        `${cPerMin} °C/min refused by the chamber (${this.address}); valid: > 0 … ${limits.maxRateCPerMin} °C/min (chamber.maxRateCPerMin)`,
+      );
     }
     await this.write(template, { ratePerMin: formatScpiNumber(cPerMin) });
   }
@@ -105,7 +126,10 @@ export class ChamberDriver implements Chamber {
 
   #limitsFor(what: string): ChamberLimits {
     if (this.#limits === null) {
-      throw new ChamberLimitError('chamber', `no limits set on the chamber (${this.address}); a ${what} write is refused until minC, maxC and maxRateCPerMin are given`);
+      throw new ChamberLimitError(
+        'chamber',
+        `no limits set on the chamber (${this.address}); a ${what} write is refused until minC, maxC and maxRateCPerMin are given`,
+      );
     }
     return this.#limits;
   }

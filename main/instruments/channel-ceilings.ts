@@ -18,7 +18,8 @@ export class ChannelCeilings {
 
   /** Declares (or replaces) `purpose`'s ceiling on `channel`, V. */
   set(channel: number, purpose: ChannelPurpose, maxV: number): void {
-    if (!Number.isFinite(maxV)) throw new RangeError(`channel ${channel} ceiling: expected a finite voltage, got ${maxV}`);
+    if (!Number.isFinite(maxV))
+      throw new RangeError(`channel ${channel} ceiling: expected a finite voltage, got ${maxV}`);
     const purposes = this.byChannel.get(channel) ?? new Map<ChannelPurpose, number>();
     purposes.set(purpose, maxV);
     this.byChannel.set(channel, purposes);

@@ -32,7 +32,9 @@ export function compileTemplate(source: string, allowed: readonly string[]): Com
       if (close === -1) throw new Error(`unclosed "{" at character ${i + 1}`);
       const name = source.slice(i + 1, close).trim();
       if (!allowed.includes(name)) {
-        throw new Error(`unknown placeholder {${name}}; allowed here: ${allowed.length === 0 ? 'none' : allowed.map((a) => `{${a}}`).join(', ')}`);
+        throw new Error(
+          `unknown placeholder {${name}}; allowed here: ${allowed.length === 0 ? 'none' : allowed.map((a) => `{${a}}`).join(', ')}`,
+        );
       }
       literals.push(literal);
       names.push(name);

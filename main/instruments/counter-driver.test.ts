@@ -10,7 +10,7 @@ import { ScriptedTransport, type Responder } from './testing/scripted-transport.
 async function setup(responder: Responder, profile?: CounterProfile) {
   const clock = new FakeClock();
   const link = new ScriptedTransport(responder);
-  const p = profile ?? await loadProfile('counter-scpi', { role: 'counter' });
+  const p = profile ?? (await loadProfile('counter-scpi', { role: 'counter' }));
   const session = new ScpiSession({ transport: link, clock, checkErrorsAfterWrite: p.checkErrorsAfterWrite });
   await session.open();
   return { clock, link, session, counter: createCounter(session, p) };
@@ -51,7 +51,9 @@ describe('CounterDriver', () => {
     const pending = counter.readFrequency();
     await clock.advance(1.99); // gate 1 s + margin 1 s: not yet
     let settled = false;
-    void pending.then(() => { settled = true; });
+    void pending.then(() => {
+      settled = true;
+    });
     await flushMicrotasks();
     expect(settled).toBe(false);
     await clock.advance(0.02);
@@ -73,7 +75,8 @@ describe('CounterDriver', () => {
       if (okQueue(cmd, l)) return;
       if (cmd === 'READ?') {
         reads += 1;
-        if (reads === 1) late = '+8.620000E+03'; // slips past gate + margin
+        if (reads === 1)
+          late = '+8.620000E+03'; // slips past gate + margin
         else l.feed('+7.250000E+03\n');
       }
     });
@@ -85,8 +88,16 @@ describe('CounterDriver', () => {
 
   it('refuses a bare "1" from an NR3 counter and readings outside 0 < f ≤ maxInputHz (issue 15 items 3 and 4)', async () => {
     const replies = ['1', '1e308', '+4.1E+09', '+1.00000000E+04'];
-    const nr3 = parseProfile({ schema: 'tunebench.profile/1', role: 'counter', replyFormat: 'nr3', maxInputHz: 4e9,
-      commands: { setGate: 'G {gateS}', readFrequency: 'READ?' } }, 'nr3') as CounterProfile;
+    const nr3 = parseProfile(
+      {
+        schema: 'tunebench.profile/1',
+        role: 'counter',
+        replyFormat: 'nr3',
+        maxInputHz: 4e9,
+        commands: { setGate: 'G {gateS}', readFrequency: 'READ?' },
+      },
+      'nr3',
+    ) as CounterProfile;
     const { counter } = await setup((cmd, l) => {
       if (okQueue(cmd, l)) return;
       if (cmd === 'READ?') l.feed(`${replies.shift()}\n`);
@@ -116,8 +127,16 @@ describe('CounterDriver', () => {
   });
 
   it('honours a profile that does not treat NaN or zero as no-signal, and a belowHz floor', async () => {
-    const strict = parseProfile({ schema: 'tunebench.profile/1', role: 'counter', checkErrorsAfterWrite: false,
-      noSignal: { notANumber: false, zero: false, timeout: false }, commands: { setGate: 'GATE {gateS}', readFrequency: 'MEAS:FREQ? {gateS}' } }, 'strict');
+    const strict = parseProfile(
+      {
+        schema: 'tunebench.profile/1',
+        role: 'counter',
+        checkErrorsAfterWrite: false,
+        noSignal: { notANumber: false, zero: false, timeout: false },
+        commands: { setGate: 'GATE {gateS}', readFrequency: 'MEAS:FREQ? {gateS}' },
+      },
+      'strict',
+    );
     const replies = ['9.91E37', '0'];
     const { counter, clock } = await setup((cmd, l) => {
       if (okQueue(cmd, l)) return;
@@ -128,16 +147,28 @@ describe('CounterDriver', () => {
     await expect(counter.readFrequency()).rejects.toBeInstanceOf(ReplyFormatError);
     const silent = counter.readFrequency().catch((e: unknown) => e);
     await clock.advance(2);
-    expect((await silent as Error).name).toBe('TimeoutError');
-    const floor = parseProfile({ schema: 'tunebench.profile/1', role: 'counter', noSignal: { belowHz: 5 },
-      commands: { setGate: 'G {gateS}', readFrequency: 'READ?' } }, 'floor') as CounterProfile;
-    const low = await setup((cmd, l) => { if (cmd === 'READ?') l.feed('4.9\n'); }, floor);
+    expect(((await silent) as Error).name).toBe('TimeoutError');
+    const floor = parseProfile(
+      {
+        schema: 'tunebench.profile/1',
+        role: 'counter',
+        noSignal: { belowHz: 5 },
+        commands: { setGate: 'G {gateS}', readFrequency: 'READ?' },
+      },
+      'floor',
+    ) as CounterProfile;
+    const low = await setup((cmd, l) => {
+      if (cmd === 'READ?') l.feed('4.9\n');
+    }, floor);
     expect(await low.counter.readFrequency()).toEqual({ status: 'no-signal', cause: 'zero' });
   });
 
   it('refuses a bad gate before sending anything and reports an instrument error on setGate', async () => {
     const { counter, link } = await setup((cmd, l) => {
-      if (cmd === 'SYST:ERR?') l.feed(link.written.filter((w) => w === 'SYST:ERR?').length === 1 ? '-222,"Data out of range"\n' : '+0,"No error"\n');
+      if (cmd === 'SYST:ERR?')
+        l.feed(
+          link.written.filter((w) => w === 'SYST:ERR?').length === 1 ? '-222,"Data out of range"\n' : '+0,"No error"\n',
+        );
     });
     await expect(counter.setGate(0)).rejects.toThrow(/gateS/);
     await expect(counter.setGate(Number.NaN)).rejects.toThrow(/gateS/);
@@ -157,6 +188,8 @@ describe('CounterDriver', () => {
     await clock.advance(2.5); // the resync's own timeout
     const error = await first;
     expect(error).toBeInstanceOf(AlignmentError);
-    expect((error as AlignmentError).message).toMatch(/READ\? not proven in step: no answer to the resync \*ESE \d+;\*ESE\?/);
+    expect((error as AlignmentError).message).toMatch(
+      /READ\? not proven in step: no answer to the resync \*ESE \d+;\*ESE\?/,
+    );
   });
 });

@@ -22,7 +22,10 @@ export class CounterDriver implements Counter {
   private gate: number;
   private readCommand: string;
 
-  constructor(readonly session: ScpiSession, readonly profile: CounterProfile) {
+  constructor(
+    readonly session: ScpiSession,
+    readonly profile: CounterProfile,
+  ) {
     this.gate = profile.defaultGateS;
     this.readCommand = this.renderRead();
   }
@@ -45,10 +48,13 @@ export class CounterDriver implements Counter {
   }
 
   async setGate(seconds: number): Promise<void> {
-    if (!(seconds > 0) || !Number.isFinite(seconds)) throw new RangeError(`gateS: must be a positive number of seconds, got ${seconds}`);
+    if (!(seconds > 0) || !Number.isFinite(seconds))
+      throw new RangeError(`gateS: must be a positive number of seconds, got ${seconds}`);
     // Refused here too, below every plan check, so no caller can send a gate the profile rules out.
     if (seconds < this.profile.minGateS || seconds > this.profile.maxGateS) {
-      throw new RangeError(`gateS: ${seconds} s is outside the counter's gate range ${this.profile.minGateS}–${this.profile.maxGateS} s (profile minGateS/maxGateS)`);
+      throw new RangeError(
+        `gateS: ${seconds} s is outside the counter's gate range ${this.profile.minGateS}–${this.profile.maxGateS} s (profile minGateS/maxGateS)`,
+      );
     }
     await this.session.write(this.profile.commands.setGate.render({ gateS: formatScpiNumber(seconds) }), {
       checkErrors: this.profile.checkErrorsAfterWrite,
@@ -71,12 +77,14 @@ export class CounterDriver implements Counter {
       } catch (error) {
         if (!(error instanceof TimeoutError)) throw error;
         // A counter that does not even answer the session's own resync is out of step.
-        if (error.command !== command) throw new AlignmentError(command, `no answer to the resync ${error.command}`, { cause: error });
+        if (error.command !== command)
+          throw new AlignmentError(command, `no answer to the resync ${error.command}`, { cause: error });
         let late: number;
         try {
           late = await this.session.resync();
         } catch (syncError) {
-          if (syncError instanceof TimeoutError) throw new AlignmentError(command, `no answer to the resync ${syncError.command}`, { cause: syncError });
+          if (syncError instanceof TimeoutError)
+            throw new AlignmentError(command, `no answer to the resync ${syncError.command}`, { cause: syncError });
           throw syncError;
         }
         if (late === 0) {
@@ -84,7 +92,11 @@ export class CounterDriver implements Counter {
           if (this.profile.noSignal.timeout) return null;
           throw error;
         }
-        if (attempt >= 2) throw new AlignmentError(command, `the reading came later than gate + margin (${this.measureTimeoutS} s) twice`);
+        if (attempt >= 2)
+          throw new AlignmentError(
+            command,
+            `the reading came later than gate + margin (${this.measureTimeoutS} s) twice`,
+          );
       }
     }
   }
@@ -99,7 +111,10 @@ export class CounterDriver implements Counter {
     if (value.kind === 'infinity' || value.value < 0) throw new ReplyFormatError('a frequency of 0 Hz or more', reply);
     if (noSignal.zero && value.value <= noSignal.belowHz) return { status: 'no-signal', cause: 'zero' };
     if (!REPLY_SHAPE[this.profile.replyFormat].test(reply)) {
-      throw new ReplyFormatError(`a frequency in ${this.profile.replyFormat === 'nr3' ? 'NR3 form (+1.0E+04)' : 'NR2 or NR3 form'} (profile replyFormat)`, reply);
+      throw new ReplyFormatError(
+        `a frequency in ${this.profile.replyFormat === 'nr3' ? 'NR3 form (+1.0E+04)' : 'NR2 or NR3 form'} (profile replyFormat)`,
+        reply,
+      );
     }
     if (!(value.value > 0) || value.value > this.profile.maxInputHz) {
       throw new ReplyFormatError(`a frequency in 0 < f ≤ ${this.profile.maxInputHz} Hz (profile maxInputHz)`, reply);

@@ -24,12 +24,21 @@ export function createTransport(address: InstrumentAddress | string, options: Cr
   const descriptor = typeof address === 'string' ? parseAddress(address) : address;
   switch (descriptor.kind) {
     case 'tcp':
-      return new TcpTransport({ host: descriptor.host, port: descriptor.port, connectTimeoutS: options.connectTimeoutS, clock: options.clock });
+      return new TcpTransport({
+        host: descriptor.host,
+        port: descriptor.port,
+        connectTimeoutS: options.connectTimeoutS,
+        clock: options.clock,
+      });
     case 'serial':
       return new SerialTransport({ ...descriptor, clock: options.clock });
     case 'sim': {
       const role = descriptor.role ?? options.role;
-      if (role === undefined) throw new AddressError('sim role', 'bare "sim" needs the role it stands for; write sim:supply, sim:counter or sim:thermometer');
+      if (role === undefined)
+        throw new AddressError(
+          'sim role',
+          'bare "sim" needs the role it stands for; write sim:supply, sim:counter or sim:thermometer',
+        );
       if (options.sim === undefined) throw new AddressError('sim', 'no simulated bench is available here');
       return options.sim(role);
     }

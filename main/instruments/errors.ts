@@ -16,7 +16,9 @@ export class InstrumentError extends Error {
   constructor(entries: readonly ScpiErrorEntry[], command?: string) {
     const first = entries[0] ?? { code: 0, message: 'No error' };
     const more = entries.length > 1 ? ` (+${entries.length - 1} more)` : '';
-    super(`instrument error ${first.code}, "${first.message}"${command === undefined ? '' : ` after ${command}`}${more}`);
+    super(
+      `instrument error ${first.code}, "${first.message}"${command === undefined ? '' : ` after ${command}`}${more}`,
+    );
     this.code = first.code;
     this.entries = entries;
     this.command = command;
@@ -52,7 +54,10 @@ export class DisconnectedError extends Error {
   readonly opening: boolean;
   constructor(address: string, detail?: string, options?: { cause?: unknown; opening?: boolean }) {
     const opening = options?.opening === true;
-    super(`${opening ? `cannot open ${address}` : `link to ${address} lost`}${detail === undefined ? '' : `: ${detail}`}`, options);
+    super(
+      `${opening ? `cannot open ${address}` : `link to ${address} lost`}${detail === undefined ? '' : `: ${detail}`}`,
+      options,
+    );
     this.address = address;
     this.opening = opening;
   }
@@ -65,7 +70,11 @@ export class DisconnectedError extends Error {
  */
 export class AlignmentError extends Error {
   override readonly name = 'AlignmentError';
-  constructor(readonly command: string, detail: string, options?: { cause?: unknown }) {
+  constructor(
+    readonly command: string,
+    detail: string,
+    options?: { cause?: unknown },
+  ) {
     super(`reply to ${command} not proven in step: ${detail}`, options);
   }
 }
@@ -73,7 +82,12 @@ export class AlignmentError extends Error {
 /** A supply write refused because it would put a channel above its ceiling (channel-ceilings.ts). Nothing was sent. */
 export class ChannelLimitError extends Error {
   override readonly name = 'ChannelLimitError';
-  constructor(readonly channel: number, readonly volts: number, readonly maxV: number, message: string) {
+  constructor(
+    readonly channel: number,
+    readonly volts: number,
+    readonly maxV: number,
+    message: string,
+  ) {
     super(message);
   }
 }
@@ -128,9 +142,16 @@ export class ProfileError extends Error {
  */
 export class RoleConnectError extends Error {
   override readonly name = 'RoleConnectError';
-  constructor(readonly role: string, readonly address: string, readonly lastCommand: string | null, cause: unknown) {
+  constructor(
+    readonly role: string,
+    readonly address: string,
+    readonly lastCommand: string | null,
+    cause: unknown,
+  ) {
     const detail = cause instanceof Error ? cause.message : String(cause);
     const where = detail.includes(address) ? `${role}: ` : `${role} at ${address}: `;
-    super(`${where}${detail}${lastCommand === null ? ' (nothing was sent)' : ` (last command sent: ${lastCommand})`}`, { cause });
+    super(`${where}${detail}${lastCommand === null ? ' (nothing was sent)' : ` (last command sent: ${lastCommand})`}`, {
+      cause,
+    });
   }
 }

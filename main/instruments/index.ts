@@ -18,18 +18,41 @@ export { ScpiLink } from './scpi-link.ts';
 export type { ScpiLinkOptions } from './scpi-link.ts';
 export type { ReconnectPolicy } from './session-reopen.ts';
 export {
-  parseNumeric, parseFinite, parseInteger, parseBoolean, parseQuotedString, splitList, parseNumericList,
-  parseBlock, parseErrorEntry, parseIdentity, formatScpiNumber, SCPI_NAN, SCPI_INFINITY,
+  parseNumeric,
+  parseFinite,
+  parseInteger,
+  parseBoolean,
+  parseQuotedString,
+  splitList,
+  parseNumericList,
+  parseBlock,
+  parseErrorEntry,
+  parseIdentity,
+  formatScpiNumber,
+  SCPI_NAN,
+  SCPI_INFINITY,
 } from './scpi-reply.ts';
 export type { ScpiNumeric } from './scpi-reply.ts';
 export {
-  InstrumentError, TimeoutError, DisconnectedError, ReplyFormatError, UnsupportedOperationError, AddressError, ProfileError,
+  InstrumentError,
+  TimeoutError,
+  DisconnectedError,
+  ReplyFormatError,
+  UnsupportedOperationError,
+  AddressError,
+  ProfileError,
 } from './errors.ts';
 export type { ScpiErrorEntry } from './errors.ts';
 export { loadProfile, parseProfile, listProfiles, defaultProfileName, SHIPPED_PROFILE_DIR } from './profile-loader.ts';
 export type { LoadProfileOptions } from './profile-loader.ts';
 export { profileSchema, PROFILE_SCHEMA_ID } from './profile-schema.ts';
-export type { InstrumentProfile, SupplyProfile, CounterProfile, ThermometerProfile, ProfileInput } from './profile-schema.ts';
+export type {
+  InstrumentProfile,
+  SupplyProfile,
+  CounterProfile,
+  ThermometerProfile,
+  ProfileInput,
+} from './profile-schema.ts';
 export { createSupply, SupplyDriver } from './supply-driver.ts';
 export { createCounter, CounterDriver } from './counter-driver.ts';
 export { createThermometer, ThermometerDriver } from './thermometer-driver.ts';

@@ -46,11 +46,15 @@ describe('LineFramer against @serialport/parser-readline', () => {
   it('agrees on ordinary SCPI replies however the stream is cut', async () => {
     const reply = fc.stringMatching(/^[+\-0-9.E,A-Za-z"; ]{0,24}$/);
     await fc.assert(
-      fc.asyncProperty(fc.array(reply, { minLength: 1, maxLength: 8 }), fc.array(fc.nat(), { maxLength: 6 }), async (replies, at) => {
-        const bytes = new TextEncoder().encode(replies.map((r) => `${r}\r\n`).join(''));
-        const chunks = cut(bytes, at);
-        expect(withFramer(chunks)).toEqual(await withReadline(chunks));
-      }),
+      fc.asyncProperty(
+        fc.array(reply, { minLength: 1, maxLength: 8 }),
+        fc.array(fc.nat(), { maxLength: 6 }),
+        async (replies, at) => {
+          const bytes = new TextEncoder().encode(replies.map((r) => `${r}\r\n`).join(''));
+          const chunks = cut(bytes, at);
+          expect(withFramer(chunks)).toEqual(await withReadline(chunks));
+        },
+      ),
       { numRuns: 100 },
     );
   });

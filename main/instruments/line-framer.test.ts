@@ -26,9 +26,11 @@ describe('LineFramer', () => {
     const bytes = encoder.encode(lines.map((l) => `${l}\n`).join(''));
     // Every single cut point, then random multi-cuts.
     for (let cut = 0; cut <= bytes.length; cut += 1) expect(frame(bytes, [cut])).toEqual(lines);
-    fc.assert(fc.property(fc.array(fc.nat(), { maxLength: 20 }), (cuts) => {
-      expect(frame(bytes, cuts)).toEqual(lines);
-    }));
+    fc.assert(
+      fc.property(fc.array(fc.nat(), { maxLength: 20 }), (cuts) => {
+        expect(frame(bytes, cuts)).toEqual(lines);
+      }),
+    );
   });
 
   it('drops CR before LF by default and honours a CR LF terminator', () => {
@@ -62,7 +64,10 @@ describe('LineFramer', () => {
       const framer = new LineFramer((line) => got.push(Buffer.from(line)));
       framer.push(bytes.subarray(0, cut));
       framer.push(bytes.subarray(cut));
-      expect(got.map((b) => Array.from(b))).toEqual([[...encoder.encode('#17'), ...payload], Array.from(encoder.encode('next'))]);
+      expect(got.map((b) => Array.from(b))).toEqual([
+        [...encoder.encode('#17'), ...payload],
+        Array.from(encoder.encode('next')),
+      ]);
     }
     // #0 is indefinite: the terminator ends it.
     expect(frame(encoder.encode('#0abc\n'), [])).toEqual(['#0abc']);
@@ -72,7 +77,12 @@ describe('LineFramer', () => {
   it('drops an over-long partial line and reports it', () => {
     let dropped = 0;
     const lines: string[] = [];
-    const framer = new LineFramer((line) => lines.push(line.toString()), { maxLineBytes: 8, onOverflow: (n) => { dropped = n; } });
+    const framer = new LineFramer((line) => lines.push(line.toString()), {
+      maxLineBytes: 8,
+      onOverflow: (n) => {
+        dropped = n;
+      },
+    });
     framer.push(encoder.encode('0123456789'));
     expect(dropped).toBe(10);
     framer.push(encoder.encode('ok\n'));

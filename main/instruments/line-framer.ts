@@ -38,7 +38,10 @@ export class LineFramer {
   private readonly onOverflow: ((droppedBytes: number) => void) | undefined;
 
   /** `onLine` receives a view that is valid only during the call (copy it to keep it). */
-  constructor(private readonly onLine: (line: Buffer) => void, options: LineFramerOptions = {}) {
+  constructor(
+    private readonly onLine: (line: Buffer) => void,
+    options: LineFramerOptions = {},
+  ) {
     const terminator = options.terminator ?? '\n';
     if (terminator.length === 0) throw new TypeError('terminator: must not be empty');
     this.terminator = Buffer.from(terminator, 'utf8');

@@ -25,14 +25,23 @@ export class LineWaiter {
   private armedDue = Number.POSITIVE_INFINITY;
   private cancelArmed: (() => void) | null = null;
 
-  constructor(private readonly clock: Clock, private readonly onLate: (timeoutS: number) => void) {}
+  constructor(
+    private readonly clock: Clock,
+    private readonly onLate: (timeoutS: number) => void,
+  ) {}
 
   get waiting(): boolean {
     return this.pending !== null;
   }
 
   /** Starts waiting for one line; resolves with it (a copy of the bytes when `raw`, else UTF-8 text). */
-  expect(command: string, timeoutS: number, raw: boolean, countLate: boolean, onSettle: (() => void) | null): Promise<Buffer | string> {
+  expect(
+    command: string,
+    timeoutS: number,
+    raw: boolean,
+    countLate: boolean,
+    onSettle: (() => void) | null,
+  ): Promise<Buffer | string> {
     return new Promise((resolve, reject) => {
       const deadline = this.clock.now() + timeoutS;
       this.pending = { resolve, reject, command, timeoutS, deadline, raw, onSettle, countLate };

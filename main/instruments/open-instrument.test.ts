@@ -17,7 +17,11 @@ describe('openInstrument', () => {
   it('opens a supply from a bench-file entry over TCP with the standard profile, init and error check', async () => {
     server = await startTcpResponder();
     server.responder.errors.push('-113,"Undefined header"'); // left over from before we connected
-    const supply = await openInstrument('supply', { address: `tcp://127.0.0.1:${server.port}` }, { clock: new RealClock() });
+    const supply = await openInstrument(
+      'supply',
+      { address: `tcp://127.0.0.1:${server.port}` },
+      { clock: new RealClock() },
+    );
     expect(server.responder.errors).toEqual([]); // *CLS at init
     expect((await supply.identify()).idn).toBe(RESPONDER_IDN);
     await supply.setVoltage(1, 1.8);
@@ -29,25 +33,36 @@ describe('openInstrument', () => {
 
   it('opens a counter on an injected sim transport by role', async () => {
     const roles: string[] = [];
-    const counter = await openInstrument('counter', { address: 'sim' }, {
-      clock: new FakeClock(),
-      sim: (role) => {
-        roles.push(role);
-        return new ScriptedTransport((cmd, l) => {
-          if (cmd === 'READ?') l.feed('+1.0000015E+07\n');
-          if (cmd === 'SYST:ERR?') l.feed('+0,"No error"\n');
-        }, `sim:${role}`);
+    const counter = await openInstrument(
+      'counter',
+      { address: 'sim' },
+      {
+        clock: new FakeClock(),
+        sim: (role) => {
+          roles.push(role);
+          return new ScriptedTransport((cmd, l) => {
+            if (cmd === 'READ?') l.feed('+1.0000015E+07\n');
+            if (cmd === 'SYST:ERR?') l.feed('+0,"No error"\n');
+          }, `sim:${role}`);
+        },
       },
-    });
+    );
     expect(roles).toEqual(['counter']);
     expect(await counter.readFrequency()).toEqual({ status: 'ok', frequencyHz: 10000015 });
     await counter.close();
   });
 
   it('fails with a typed error for a bad address or profile before touching a link', async () => {
-    await expect(openInstrument('counter', { address: 'sim' }, { clock: new FakeClock() })).rejects.toBeInstanceOf(AddressError);
-    await expect(openInstrument('counter', { address: 'tcp://127.0.0.1:5025', profile: 'supply-scpi' }, { clock: new FakeClock() }))
-      .rejects.toBeInstanceOf(ProfileError);
+    await expect(openInstrument('counter', { address: 'sim' }, { clock: new FakeClock() })).rejects.toBeInstanceOf(
+      AddressError,
+    );
+    await expect(
+      openInstrument(
+        'counter',
+        { address: 'tcp://127.0.0.1:5025', profile: 'supply-scpi' },
+        { clock: new FakeClock() },
+      ),
+    ).rejects.toBeInstanceOf(ProfileError);
   });
 
   it('a session reopen does not report its own close as a lost link', async () => {

@@ -35,15 +35,32 @@ export interface OpenInstrumentOptions {
   onEvent?: (event: SessionEvent) => void;
 }
 
-type RoleDriver<R extends RoleName> = R extends 'supply' ? Supply : R extends 'counter' ? Counter : R extends 'chamber' ? Chamber : Thermometer;
+type RoleDriver<R extends RoleName> = R extends 'supply'
+  ? Supply
+  : R extends 'counter'
+    ? Counter
+    : R extends 'chamber'
+      ? Chamber
+      : Thermometer;
 
-export async function openInstrument<R extends RoleName>(role: R, config: InstrumentConfig, options: OpenInstrumentOptions): Promise<RoleDriver<R>> {
-  const profile: InstrumentProfile = options.loadedProfile ?? await loadProfile(config.profile ?? defaultProfileName(role), {
+export async function openInstrument<R extends RoleName>(
+  role: R,
+  config: InstrumentConfig,
+  options: OpenInstrumentOptions,
+): Promise<RoleDriver<R>> {
+  const profile: InstrumentProfile =
+    options.loadedProfile ??
+    (await loadProfile(config.profile ?? defaultProfileName(role), {
+      role,
+      userDir: options.userProfileDir,
+      shippedDir: options.shippedProfileDir,
+    }));
+  const transport = createTransport(config.address, {
+    sim: options.sim,
     role,
-    userDir: options.userProfileDir,
-    shippedDir: options.shippedProfileDir,
+    connectTimeoutS: options.connectTimeoutS,
+    clock: options.clock,
   });
-  const transport = createTransport(config.address, { sim: options.sim, role, connectTimeoutS: options.connectTimeoutS, clock: options.clock });
   const session = new ScpiSession({
     transport,
     clock: options.clock,
@@ -65,11 +82,19 @@ export async function openInstrument<R extends RoleName>(role: R, config: Instru
   return driverFor(session, profile, config.address) as RoleDriver<R>;
 }
 
-function driverFor(session: ScpiSession, profile: InstrumentProfile, address: string): Supply | Counter | Thermometer | Chamber {
+function driverFor(
+  session: ScpiSession,
+  profile: InstrumentProfile,
+  address: string,
+): Supply | Counter | Thermometer | Chamber {
   switch (profile.role) {
-    case 'supply': return createSupply(session, profile);
-    case 'counter': return createCounter(session, profile);
-    case 'thermometer': return createThermometer(session, profile);
-    case 'chamber': return createChamber(session, profile, address);
+    case 'supply':
+      return createSupply(session, profile);
+    case 'counter':
+      return createCounter(session, profile);
+    case 'thermometer':
+      return createThermometer(session, profile);
+    case 'chamber':
+      return createChamber(session, profile, address);
   }
 }

@@ -14,8 +14,13 @@ const goodSupply = {
   schema: 'tunebench.profile/1',
   role: 'supply',
   capabilities: { channels: 2, measureVoltage: false, measureCurrent: false, overVoltageProtection: false },
-  commands: { setVoltage: 'SOUR{channel}:VOLT {volts}', getVoltageSetpoint: 'SOUR{channel}:VOLT?', setCurrentLimit: 'SOUR{channel}:CURR {amps}',
-    setOutput: 'OUTP{channel} {state}', getOutput: 'OUTP{channel}?' },
+  commands: {
+    setVoltage: 'SOUR{channel}:VOLT {volts}',
+    getVoltageSetpoint: 'SOUR{channel}:VOLT?',
+    setCurrentLimit: 'SOUR{channel}:CURR {amps}',
+    setOutput: 'OUTP{channel} {state}',
+    getOutput: 'OUTP{channel}?',
+  },
 };
 
 function problem(json: unknown): string {
@@ -43,10 +48,21 @@ describe('shipped profiles', () => {
   });
 
   it('are listed, and the user folder overrides a shipped name', async () => {
-    writeFileSync(path.join(userDir, 'counter-scpi.json'), JSON.stringify({
-      schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'GATE {gateS}', readFrequency: 'MEAS:FREQ?' } }));
+    writeFileSync(
+      path.join(userDir, 'counter-scpi.json'),
+      JSON.stringify({
+        schema: 'tunebench.profile/1',
+        role: 'counter',
+        commands: { setGate: 'GATE {gateS}', readFrequency: 'MEAS:FREQ?' },
+      }),
+    );
     const names = await listProfiles({ userDir });
-    expect(names).toEqual(expect.arrayContaining([{ name: 'counter-scpi', source: 'user' }, { name: 'supply-scpi', source: 'shipped' }]));
+    expect(names).toEqual(
+      expect.arrayContaining([
+        { name: 'counter-scpi', source: 'user' },
+        { name: 'supply-scpi', source: 'shipped' },
+      ]),
+    );
     const counter = await loadProfile('counter-scpi', { userDir, role: 'counter' });
     expect(counter.commands.readFrequency.source).toBe('MEAS:FREQ?');
     expect(counter.timeouts).toEqual({ defaultS: 2, measureMarginS: 1 }); // defaults filled in
@@ -74,16 +90,39 @@ describe('profile validation names the field', () => {
     [{ ...goodSupply, role: 'scope' }, 'role'],
     [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: undefined } }, 'commands.setVoltage'],
     [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: '   ' } }, 'commands.setVoltage'],
-    [{ ...goodSupply, commands: { ...goodSupply.commands, setVoltage: 'VOLT {volt}' } }, 'commands.setVoltage: unknown placeholder {volt}'],
-    [{ ...goodSupply, commands: { ...goodSupply.commands, getOutput: 'OUTP{channel?' } }, 'commands.getOutput: unclosed'],
+    [
+      { ...goodSupply, commands: { ...goodSupply.commands, setVoltage: 'VOLT {volt}' } },
+      'commands.setVoltage: unknown placeholder {volt}',
+    ],
+    [
+      { ...goodSupply, commands: { ...goodSupply.commands, getOutput: 'OUTP{channel?' } },
+      'commands.getOutput: unclosed',
+    ],
     [{ ...goodSupply, capabilities: { ...goodSupply.capabilities, channels: 0 } }, 'capabilities.channels'],
-    [{ ...goodSupply, capabilities: { ...goodSupply.capabilities, measureVoltage: true } }, 'commands.measureVoltage: required because capabilities.measureVoltage'],
+    [
+      { ...goodSupply, capabilities: { ...goodSupply.capabilities, measureVoltage: true } },
+      'commands.measureVoltage: required because capabilities.measureVoltage',
+    ],
     [{ ...goodSupply, lineTerminator: ';' }, 'lineTerminator'],
     [{ ...goodSupply, timeouts: { defaultS: -1 } }, 'timeouts.defaultS'],
     [{ ...goodSupply, init: ['*CLS', 'SYST:{x}'] }, 'init.1'],
-    [{ schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'APER {volts}', readFrequency: 'READ?' } }, 'commands.setGate'],
-    [{ schema: 'tunebench.profile/1', role: 'counter', noSignal: { belowHz: -1 }, commands: { setGate: 'A', readFrequency: 'R' } }, 'noSignal.belowHz'],
-    [{ schema: 'tunebench.profile/1', role: 'thermometer', unit: 'R', commands: { readTemperature: 'MEAS:TEMP?' } }, 'unit'],
+    [
+      { schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'APER {volts}', readFrequency: 'READ?' } },
+      'commands.setGate',
+    ],
+    [
+      {
+        schema: 'tunebench.profile/1',
+        role: 'counter',
+        noSignal: { belowHz: -1 },
+        commands: { setGate: 'A', readFrequency: 'R' },
+      },
+      'noSignal.belowHz',
+    ],
+    [
+      { schema: 'tunebench.profile/1', role: 'thermometer', unit: 'R', commands: { readTemperature: 'MEAS:TEMP?' } },
+      'unit',
+    ],
   ])('%#: %s', (json, field) => {
     expect(problem(json)).toContain(field);
   });
@@ -92,7 +131,8 @@ describe('profile validation names the field', () => {
     const profile = parseProfile(goodSupply, 'ok');
     expect(profile.role).toBe('supply');
     expect(profile.checkErrorsAfterWrite).toBe(true);
-    if (profile.role === 'supply') expect(profile.commands.setVoltage.render({ channel: '2', volts: '1E-3' })).toBe('SOUR2:VOLT 1E-3');
+    if (profile.role === 'supply')
+      expect(profile.commands.setVoltage.render({ channel: '2', volts: '1E-3' })).toBe('SOUR2:VOLT 1E-3');
   });
 });
 
@@ -108,9 +148,17 @@ describe('compileTemplate', () => {
 
 describe('query operations must be queries (issue 15 item 5)', () => {
   it('refuses a readFrequency without "?" (silence would pass for no signal), naming the field', () => {
-    expect(() => parseProfile({ schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'G {gateS}', readFrequency: 'READ' } }, 'mute'))
-      .toThrow(/commands\.readFrequency: must be a query/);
-    expect(() => parseProfile({ schema: 'tunebench.profile/1', role: 'thermometer', commands: { readTemperature: 'MEAS:TEMP' } }, 'mute'))
-      .toThrow(/commands\.readTemperature: must be a query/);
+    expect(() =>
+      parseProfile(
+        { schema: 'tunebench.profile/1', role: 'counter', commands: { setGate: 'G {gateS}', readFrequency: 'READ' } },
+        'mute',
+      ),
+    ).toThrow(/commands\.readFrequency: must be a query/);
+    expect(() =>
+      parseProfile(
+        { schema: 'tunebench.profile/1', role: 'thermometer', commands: { readTemperature: 'MEAS:TEMP' } },
+        'mute',
+      ),
+    ).toThrow(/commands\.readTemperature: must be a query/);
   });
 });

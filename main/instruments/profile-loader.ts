@@ -33,7 +33,13 @@ export interface LoadProfileOptions {
   role?: RoleName;
 }
 
-type ProfileFor<R extends RoleName> = R extends 'supply' ? SupplyProfile : R extends 'counter' ? CounterProfile : R extends 'chamber' ? ChamberProfile : ThermometerProfile;
+type ProfileFor<R extends RoleName> = R extends 'supply'
+  ? SupplyProfile
+  : R extends 'counter'
+    ? CounterProfile
+    : R extends 'chamber'
+      ? ChamberProfile
+      : ThermometerProfile;
 
 /** The standard-SCPI profile name for a role. */
 export function defaultProfileName(role: RoleName): string {
@@ -42,7 +48,10 @@ export function defaultProfileName(role: RoleName): string {
 
 const NAME_RE = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
-export async function loadProfile<R extends RoleName>(name: string, options: LoadProfileOptions & { role: R }): Promise<ProfileFor<R>>;
+export async function loadProfile<R extends RoleName>(
+  name: string,
+  options: LoadProfileOptions & { role: R },
+): Promise<ProfileFor<R>>;
 export async function loadProfile(name: string, options?: LoadProfileOptions): Promise<InstrumentProfile>;
 export async function loadProfile(name: string, options: LoadProfileOptions = {}): Promise<InstrumentProfile> {
   const candidates = candidatePaths(name, options);
@@ -62,7 +71,10 @@ export async function loadProfile(name: string, options: LoadProfileOptions = {}
     }
     const profile = parseProfile(json, profileNameOf(name));
     if (options.role !== undefined && profile.role !== options.role) {
-      throw new ProfileError(name, `role: is "${profile.role}", but this instrument is configured as the ${options.role}`);
+      throw new ProfileError(
+        name,
+        `role: is "${profile.role}", but this instrument is configured as the ${options.role}`,
+      );
     }
     return profile;
   }
@@ -99,9 +111,14 @@ export function parseProfile(json: unknown, name: string): InstrumentProfile {
 }
 
 /** Profile names available: user profiles first, then shipped ones not overridden. */
-export async function listProfiles(options: Omit<LoadProfileOptions, 'role'> = {}): Promise<{ name: string; source: 'user' | 'shipped' }[]> {
+export async function listProfiles(
+  options: Omit<LoadProfileOptions, 'role'> = {},
+): Promise<{ name: string; source: 'user' | 'shipped' }[]> {
   const found = new Map<string, 'user' | 'shipped'>();
-  for (const [dir, source] of [[options.userDir, 'user'], [options.shippedDir ?? SHIPPED_PROFILE_DIR, 'shipped']] as const) {
+  for (const [dir, source] of [
+    [options.userDir, 'user'],
+    [options.shippedDir ?? SHIPPED_PROFILE_DIR, 'shipped'],
+  ] as const) {
     if (dir === undefined) continue;
     const entries = await readdir(dir).catch(() => [] as string[]);
     for (const entry of entries.sort()) {
@@ -113,7 +130,8 @@ export async function listProfiles(options: Omit<LoadProfileOptions, 'role'> = {
 
 function candidatePaths(name: string, options: LoadProfileOptions): string[] {
   if (name.includes('/') || name.includes('\\') || name.endsWith('.json')) return [path.resolve(name)];
-  if (!NAME_RE.test(name)) throw new ProfileError(name, 'name: use letters, digits, ".", "_" and "-" (or give a path to a .json file)');
+  if (!NAME_RE.test(name))
+    throw new ProfileError(name, 'name: use letters, digits, ".", "_" and "-" (or give a path to a .json file)');
   const dirs = [options.userDir, options.shippedDir ?? SHIPPED_PROFILE_DIR].filter((d): d is string => d !== undefined);
   return dirs.map((dir) => path.join(dir, `${name}.json`));
 }

@@ -11,7 +11,10 @@ export const PROFILE_SCHEMA_ID = 'tunebench.profile/1';
 
 const command = z.string().trim().min(1, 'must be a non-empty command string');
 /** An operation that reads a reply must be a SCPI query: without "?" the instrument never answers, and silence would pass for "no signal". */
-const query = command.refine((text) => text.includes('?'), 'must be a query (a SCPI query header ends in "?", e.g. "READ?")');
+const query = command.refine(
+  (text) => text.includes('?'),
+  'must be a query (a SCPI query header ends in "?", e.g. "READ?")',
+);
 const positiveS = z.number().positive().finite();
 
 const common = {
@@ -42,9 +45,15 @@ export const supplyProfileSchema = strictObject({
    * but a fault.
    */
   ratings: strictObject({
-    maxVoltageV: z.number().positive().max(1e4).default(100).meta({ description: 'Rated voltage, V: a voltage read back beyond ± this is a fault, not a value. Default 100.' }),
-    maxCurrentA: z.number().positive().max(1e3).default(20).meta({ description: 'Rated current, A: a current read back beyond ± this is a fault, not a value. Default 20.' }),
-  }).default({ maxVoltageV: 100, maxCurrentA: 20 }).meta({ description: 'The supply\'s ratings; readbacks beyond them are faults.' }),
+    maxVoltageV: z.number().positive().max(1e4).default(100).meta({
+      description: 'Rated voltage, V: a voltage read back beyond ± this is a fault, not a value. Default 100.',
+    }),
+    maxCurrentA: z.number().positive().max(1e3).default(20).meta({
+      description: 'Rated current, A: a current read back beyond ± this is a fault, not a value. Default 20.',
+    }),
+  })
+    .default({ maxVoltageV: 100, maxCurrentA: 20 })
+    .meta({ description: "The supply's ratings; readbacks beyond them are faults." }),
   commands: strictObject({
     identify: query.default('*IDN?'),
     setVoltage: command,
@@ -64,7 +73,11 @@ export const supplyProfileSchema = strictObject({
   ];
   for (const [capability, op] of needs) {
     if (profile.capabilities[capability] === true && profile.commands[op] === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['commands', op], message: `required because capabilities.${capability} is true` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['commands', op],
+        message: `required because capabilities.${capability} is true`,
+      });
     }
   }
 });
@@ -80,13 +93,19 @@ export const counterProfileSchema = strictObject({
   /** Gate assumed until setGate is called, s. */
   defaultGateS: positiveS.default(0.1),
   /** Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. */
-  maxInputHz: z.number().positive().max(1e12).default(3e9).meta({ description: 'Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. Default 3 GHz.' }),
+  maxInputHz: z.number().positive().max(1e12).default(3e9).meta({
+    description:
+      'Highest frequency the counter can measure, Hz: a reading above it is a fault, not a measurement. Default 3 GHz.',
+  }),
   /**
    * Shape of a reading reply: `nr3` needs an exponent (+1.0E+04), `decimal`
    * a point or an exponent (NR2 or NR3), `any` also takes integers (NR1).
    * A reply of another shape (a stray "1") is a fault, never a frequency.
    */
-  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal').meta({ description: 'Shape of a reading reply: nr3 needs an exponent, decimal a point or an exponent, any also takes integers. Another shape is a fault. Default decimal.' }),
+  replyFormat: z.enum(['nr3', 'decimal', 'any']).default('decimal').meta({
+    description:
+      'Shape of a reading reply: nr3 needs an exponent, decimal a point or an exponent, any also takes integers. Another shape is a fault. Default decimal.',
+  }),
   /** Shortest and longest gate the counter takes, s; plans outside are refused before a run starts. */
   minGateS: positiveS.default(1e-6),
   maxGateS: positiveS.max(1000).default(10),
@@ -115,7 +134,12 @@ export const thermometerProfileSchema = strictObject({
   plausibleC: strictObject({
     min: z.number().min(-273.15).default(-200).meta({ description: 'Lowest plausible reading, °C. Default −200.' }),
     max: z.number().max(5000).default(1000).meta({ description: 'Highest plausible reading, °C. Default 1000.' }),
-  }).default({ min: -200, max: 1000 }).meta({ description: 'Plausible readings after conversion to °C: outside them a reading is a fault (an open or shorted probe).' }),
+  })
+    .default({ min: -200, max: 1000 })
+    .meta({
+      description:
+        'Plausible readings after conversion to °C: outside them a reading is a fault (an open or shorted probe).',
+    }),
   commands: strictObject({
     identify: query.default('*IDN?'),
     readTemperature: query,
@@ -148,7 +172,11 @@ export const chamberProfileSchema = strictObject({
   ];
   for (const [capability, op] of needs) {
     if (profile.capabilities[capability] && profile.commands[op] === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['commands', op], message: `required because capabilities.${capability} is true` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['commands', op],
+        message: `required because capabilities.${capability} is true`,
+      });
     }
   }
   if (profile.endAction === 'stop' && !profile.capabilities.runStop) {
@@ -156,28 +184,56 @@ export const chamberProfileSchema = strictObject({
   }
 });
 
-export const profileSchema = z.discriminatedUnion('role', [supplyProfileSchema, counterProfileSchema, thermometerProfileSchema, chamberProfileSchema]);
+export const profileSchema = z.discriminatedUnion('role', [
+  supplyProfileSchema,
+  counterProfileSchema,
+  thermometerProfileSchema,
+  chamberProfileSchema,
+]);
 
 /** Placeholders each operation may use. */
 export const PLACEHOLDERS = {
   supply: {
-    identify: [], setVoltage: ['channel', 'volts'], getVoltageSetpoint: ['channel'], setCurrentLimit: ['channel', 'amps'],
-    setOverVoltageProtection: ['channel', 'volts'], setOutput: ['channel', 'state'], getOutput: ['channel'],
-    measureVoltage: ['channel'], measureCurrent: ['channel'],
+    identify: [],
+    setVoltage: ['channel', 'volts'],
+    getVoltageSetpoint: ['channel'],
+    setCurrentLimit: ['channel', 'amps'],
+    setOverVoltageProtection: ['channel', 'volts'],
+    setOutput: ['channel', 'state'],
+    getOutput: ['channel'],
+    measureVoltage: ['channel'],
+    measureCurrent: ['channel'],
   },
   counter: { identify: [], setGate: ['gateS'], readFrequency: ['gateS'] },
   thermometer: { identify: [], readTemperature: [] },
   chamber: {
-    identify: [], setSetpoint: ['celsius'], getSetpoint: [], readAirTemperature: [], setRampRate: ['ratePerMin'],
-    setRunning: ['state'], getRunning: [],
+    identify: [],
+    setSetpoint: ['celsius'],
+    getSetpoint: [],
+    readAirTemperature: [],
+    setRampRate: ['ratePerMin'],
+    setRunning: ['state'],
+    getRunning: [],
   },
 } as const satisfies Record<string, Record<string, readonly string[]>>;
 
 type Compiled<C> = { [K in keyof C]-?: undefined extends C[K] ? CommandTemplate | undefined : CommandTemplate };
 
-export type SupplyProfile = Omit<z.output<typeof supplyProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof supplyProfileSchema>['commands']> };
-export type CounterProfile = Omit<z.output<typeof counterProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof counterProfileSchema>['commands']> };
-export type ThermometerProfile = Omit<z.output<typeof thermometerProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof thermometerProfileSchema>['commands']> };
-export type ChamberProfile = Omit<z.output<typeof chamberProfileSchema>, 'commands'> & { name: string; commands: Compiled<z.output<typeof chamberProfileSchema>['commands']> };
+export type SupplyProfile = Omit<z.output<typeof supplyProfileSchema>, 'commands'> & {
+  name: string;
+  commands: Compiled<z.output<typeof supplyProfileSchema>['commands']>;
+};
+export type CounterProfile = Omit<z.output<typeof counterProfileSchema>, 'commands'> & {
+  name: string;
+  commands: Compiled<z.output<typeof counterProfileSchema>['commands']>;
+};
+export type ThermometerProfile = Omit<z.output<typeof thermometerProfileSchema>, 'commands'> & {
+  name: string;
+  commands: Compiled<z.output<typeof thermometerProfileSchema>['commands']>;
+};
+export type ChamberProfile = Omit<z.output<typeof chamberProfileSchema>, 'commands'> & {
+  name: string;
+  commands: Compiled<z.output<typeof chamberProfileSchema>['commands']>;
+};
 export type InstrumentProfile = SupplyProfile | CounterProfile | ThermometerProfile | ChamberProfile;
 export type ProfileInput = z.input<typeof profileSchema>;

@@ -63,8 +63,7 @@ export interface Supply {
  * the measurement timeout. All three map to `no-signal`.
  */
 export type FrequencyReading =
-  | { status: 'ok'; frequencyHz: number }
-  | { status: 'no-signal'; cause: 'not-a-number' | 'zero' | 'timeout' };
+  { status: 'ok'; frequencyHz: number } | { status: 'no-signal'; cause: 'not-a-number' | 'zero' | 'timeout' };
 
 export interface Counter {
   readonly role: 'counter';

@@ -81,7 +81,8 @@ export class ScpiLink {
   private readonly onEvent: ((event: SessionEvent) => void) | undefined;
   private readonly io: LinkIo = {
     send: (command) => this.send(command),
-    ask: async (command, timeoutS) => (await this.exchange(command, timeoutS ?? this.defaultTimeoutS, false, null)) as string,
+    ask: async (command, timeoutS) =>
+      (await this.exchange(command, timeoutS ?? this.defaultTimeoutS, false, null)) as string,
   };
   private lineHook: ((line: Buffer) => void) | null = null;
   /** stats.staleLines when the last timeout happened (resync() reports the difference). */
@@ -220,7 +221,8 @@ export class ScpiLink {
   }
 
   private async prepare(): Promise<void> {
-    if (this.state !== 'open') throw new DisconnectedError(this.address, this.state === 'new' ? 'session not opened' : 'session closed');
+    if (this.state !== 'open')
+      throw new DisconnectedError(this.address, this.state === 'new' ? 'session not opened' : 'session closed');
     if (!this.transport.isOpen) {
       if (this.reconnectPolicy.attempts === 0) throw new DisconnectedError(this.address, 'link is down');
       await this.reopen();
@@ -248,7 +250,8 @@ export class ScpiLink {
   }
 
   private async runResync(): Promise<void> {
-    const sync: SyncExchange = this.syncQuery !== null ? oneSync(this.syncQuery, this.syncQuietS) : this.nextTokenSync();
+    const sync: SyncExchange =
+      this.syncQuery !== null ? oneSync(this.syncQuery, this.syncQuietS) : this.nextTokenSync();
     const run = resync({
       clock: this.clock,
       sync,
@@ -288,11 +291,18 @@ export class ScpiLink {
   }
 
   /** Writes `command` and waits for its one reply line. `onSettle` frees a hot-path slot. */
-  private exchange(command: string, timeoutS: number, raw: boolean, onSettle: (() => void) | null): Promise<Buffer | string> {
+  private exchange(
+    command: string,
+    timeoutS: number,
+    raw: boolean,
+    onSettle: (() => void) | null,
+  ): Promise<Buffer | string> {
     // Wait first, then write: a fast (in-process) link may answer before write() returns.
     const reply = this.waiter.expect(command, timeoutS, raw, true, onSettle);
     this.lastSent = command;
-    this.transport.write(command + this.terminator).then(undefined, (error: unknown) => this.waiter.fail(asDisconnected(this.address, error)));
+    this.transport
+      .write(command + this.terminator)
+      .then(undefined, (error: unknown) => this.waiter.fail(asDisconnected(this.address, error)));
     return reply;
   }
 

@@ -10,9 +10,7 @@ import { ReplyFormatError, type ScpiErrorEntry } from './errors.ts';
 import type { InstrumentIdentity } from './roles.ts';
 
 export type ScpiNumeric =
-  | { kind: 'finite'; value: number }
-  | { kind: 'not-a-number' }
-  | { kind: 'infinity'; sign: 1 | -1 };
+  { kind: 'finite'; value: number } | { kind: 'not-a-number' } | { kind: 'infinity'; sign: 1 | -1 };
 
 export const SCPI_NAN = 9.91e37;
 export const SCPI_INFINITY = 9.9e37;

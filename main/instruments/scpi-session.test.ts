@@ -17,7 +17,10 @@ function setup(responder: Responder, options: Partial<ScpiSessionOptions> = {}) 
 
 /** Settles a promise into a value-or-error record so a test can inspect a rejection later. */
 function settle<T>(promise: Promise<T>): Promise<{ value?: T; error?: unknown }> {
-  return promise.then((value) => ({ value }), (error: unknown) => ({ error }));
+  return promise.then(
+    (value) => ({ value }),
+    (error: unknown) => ({ error }),
+  );
 }
 
 describe('ScpiSession', () => {
@@ -27,7 +30,13 @@ describe('ScpiSession', () => {
       if (cmd === 'SYST:UNIT?') link.feed('"°C µV"\n', [2, 3, 5]); // splits inside ° and µ
     });
     await session.open();
-    expect(await session.identify()).toEqual({ idn: IDN, manufacturer: 'Bench Works', model: 'PS-3', serial: 'SN0042', firmware: '1.2.3' });
+    expect(await session.identify()).toEqual({
+      idn: IDN,
+      manufacturer: 'Bench Works',
+      model: 'PS-3',
+      serial: 'SN0042',
+      firmware: '1.2.3',
+    });
     expect(await session.query('SYST:UNIT?')).toBe('"°C µV"');
   });
 
@@ -141,15 +150,21 @@ describe('ScpiSession', () => {
 
   it('drains SYST:ERR? after writes into a typed InstrumentError (SCPI-99: -222 Data out of range, -113 Undefined header)', async () => {
     const queue = ['-222,"Data out of range"', '-113,"Undefined header"'];
-    const { session, link } = setup((cmd, l) => {
-      if (cmd === 'SYST:ERR?') l.feed(`${queue.shift() ?? '+0,"No error"'}\n`);
-    }, { checkErrorsAfterWrite: true });
+    const { session, link } = setup(
+      (cmd, l) => {
+        if (cmd === 'SYST:ERR?') l.feed(`${queue.shift() ?? '+0,"No error"'}\n`);
+      },
+      { checkErrorsAfterWrite: true },
+    );
     await session.open();
     const outcome = await settle(session.write('SOUR:VOLT 99'));
     expect(outcome.error).toBeInstanceOf(InstrumentError);
     const error = outcome.error as InstrumentError;
     expect(error.code).toBe(-222);
-    expect(error.entries).toEqual([{ code: -222, message: 'Data out of range' }, { code: -113, message: 'Undefined header' }]);
+    expect(error.entries).toEqual([
+      { code: -222, message: 'Data out of range' },
+      { code: -113, message: 'Undefined header' },
+    ]);
     expect(error.command).toBe('SOUR:VOLT 99');
     expect(link.written).toEqual(['SOUR:VOLT 99', 'SYST:ERR?', 'SYST:ERR?', 'SYST:ERR?']);
     await session.write('SOUR:VOLT 1'); // queue now empty: no error
@@ -159,9 +174,12 @@ describe('ScpiSession', () => {
   });
 
   it('stops draining an error queue that never reports 0', async () => {
-    const { session, link } = setup((cmd, l) => {
-      if (cmd === 'SYST:ERR?') l.feed('-350,"Queue overflow"\n');
-    }, { maxErrorEntries: 4 });
+    const { session, link } = setup(
+      (cmd, l) => {
+        if (cmd === 'SYST:ERR?') l.feed('-350,"Queue overflow"\n');
+      },
+      { maxErrorEntries: 4 },
+    );
     await session.open();
     const entries = await session.drainErrors();
     expect(entries.filter((e) => e.code === -350)).toHaveLength(4);
@@ -180,9 +198,12 @@ describe('ScpiSession', () => {
 
   it('reports a dropped link as DisconnectedError and reopens on the next call', async () => {
     const events: string[] = [];
-    const { session, link } = setup((cmd, l) => {
-      if (cmd === 'MEAS:VOLT?') l.feed('3.3\n');
-    }, { onEvent: (event) => events.push(event.type) });
+    const { session, link } = setup(
+      (cmd, l) => {
+        if (cmd === 'MEAS:VOLT?') l.feed('3.3\n');
+      },
+      { onEvent: (event) => events.push(event.type) },
+    );
     await session.open();
     const pending = settle(session.query('READ?'));
     await flushMicrotasks();
@@ -253,7 +274,9 @@ describe('ScpiSession', () => {
 
   it('names the bad option', () => {
     const link = new ScriptedTransport();
-    expect(() => new ScpiSession({ transport: link, clock: new FakeClock(), defaultTimeoutS: 0 })).toThrow(/defaultTimeoutS/);
+    expect(() => new ScpiSession({ transport: link, clock: new FakeClock(), defaultTimeoutS: 0 })).toThrow(
+      /defaultTimeoutS/,
+    );
   });
 
   it('applies a short timeout on time even right after a long one (one lazily re-armed timer)', async () => {
@@ -275,14 +298,21 @@ describe('ScpiSession', () => {
       fc.double({ noNaN: true, noDefaultInfinity: true }).map((x) => x.toExponential().toUpperCase()),
       fc.string({ unit: fc.constantFrom(...'abcXYZ019,."°µ✓ '.split('')), maxLength: 20 }),
     );
-    await fc.assert(fc.asyncProperty(fc.array(reply, { minLength: 1, maxLength: 6 }), fc.array(fc.nat(200), { maxLength: 6 }), fc.boolean(),
-      async (replies, cuts, crlf) => {
-        const queue = [...replies];
-        const { session } = setup((_cmd, l) => l.feed(`${queue.shift() ?? ''}${crlf ? '\r\n' : '\n'}`, cuts));
-        await session.open();
-        const got = await Promise.all(replies.map((_, i) => session.query(`Q${i}?`)));
-        expect(got).toEqual(replies);
-      }), { numRuns: 150 });
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(reply, { minLength: 1, maxLength: 6 }),
+        fc.array(fc.nat(200), { maxLength: 6 }),
+        fc.boolean(),
+        async (replies, cuts, crlf) => {
+          const queue = [...replies];
+          const { session } = setup((_cmd, l) => l.feed(`${queue.shift() ?? ''}${crlf ? '\r\n' : '\n'}`, cuts));
+          await session.open();
+          const got = await Promise.all(replies.map((_, i) => session.query(`Q${i}?`)));
+          expect(got).toEqual(replies);
+        },
+      ),
+      { numRuns: 150 },
+    );
   });
 
   it('runs an exclusive sequence without other callers slipping in between', async () => {
@@ -311,14 +341,17 @@ describe('ScpiSession resync with a fresh *ESE token (issue 15 item 3)', () => {
 
   it('drops late replies — "1" included, which fooled *OPC? — until the token comes back, with no quiet window', async () => {
     let owed: string[] = ['1', '+8.620000E+03']; // a late *OPC? answer and a late reading, both still in the pipe
-    const { session, clock, link } = tokenSetup((cmd, l) => {
-      const m = /^\*ESE (\d+);\*ESE\?$/.exec(cmd);
-      if (m) {
-        l.feed(`${owed.join('\n')}\n${m[1]}\n`);
-        owed = [];
-      }
-      if (cmd === 'READ?') l.feed('+7.250000E+03\n');
-    }, () => 0.5);
+    const { session, clock, link } = tokenSetup(
+      (cmd, l) => {
+        const m = /^\*ESE (\d+);\*ESE\?$/.exec(cmd);
+        if (m) {
+          l.feed(`${owed.join('\n')}\n${m[1]}\n`);
+          owed = [];
+        }
+        if (cmd === 'READ?') l.feed('+7.250000E+03\n');
+      },
+      () => 0.5,
+    );
     await session.open();
     const first = settle(session.query('OUTP?', { timeoutS: 0.2 }));
     await clock.advance(0.3);
@@ -330,7 +363,10 @@ describe('ScpiSession resync with a fresh *ESE token (issue 15 item 3)', () => {
   });
 
   it('never reuses the previous token, and fails with TimeoutError naming the sync when nothing answers', async () => {
-    const { session, clock, link } = tokenSetup(() => undefined, () => 0.2);
+    const { session, clock, link } = tokenSetup(
+      () => undefined,
+      () => 0.2,
+    );
     await session.open();
     const first = settle(session.query('READ?', { timeoutS: 0.5 }));
     await clock.advance(0.6);
@@ -345,7 +381,10 @@ describe('ScpiSession resync with a fresh *ESE token (issue 15 item 3)', () => {
   });
 
   it('sendUrgent writes at once while a query still waits for its reply', async () => {
-    const { session, clock, link } = tokenSetup(() => undefined, () => 0.5);
+    const { session, clock, link } = tokenSetup(
+      () => undefined,
+      () => 0.5,
+    );
     await session.open();
     const pending = settle(session.query('MEAS:VOLT?', { timeoutS: 1 }));
     await session.sendUrgent('OUTP OFF');

@@ -110,7 +110,11 @@ describe.skipIf(!haveSocat)('SerialTransport over a socat pty pair', () => {
   it('opens with the VISA ASRL form and reports a vanished port as DisconnectedError', async () => {
     const pair = await ptyPair();
     await serveResponder(pair.a);
-    const session = new ScpiSession({ transport: createTransport(`ASRL${pair.b}::INSTR`), clock: new RealClock(), reconnect: { attempts: 1, delayS: 0.05 } });
+    const session = new ScpiSession({
+      transport: createTransport(`ASRL${pair.b}::INSTR`),
+      clock: new RealClock(),
+      reconnect: { attempts: 1, delayS: 0.05 },
+    });
     cleanups.push(() => session.close());
     await session.open();
     expect((await session.identify()).serial).toBe('T0001');
@@ -123,7 +127,10 @@ describe.skipIf(!haveSocat)('SerialTransport over a socat pty pair', () => {
     const pair = await ptyPair();
     await serveResponder(pair.a);
     for (const options of ['flow=xon&parity=even&databits=7&stopbits=2', 'flow=rtscts']) {
-      const session = new ScpiSession({ transport: createTransport(`serial:${pair.b}?baud=19200&${options}`), clock: new RealClock() });
+      const session = new ScpiSession({
+        transport: createTransport(`serial:${pair.b}?baud=19200&${options}`),
+        clock: new RealClock(),
+      });
       await session.open();
       expect((await session.identify()).idn).toBe(RESPONDER_IDN);
       await session.close();
@@ -142,8 +149,22 @@ describe('SerialTransport without a port', () => {
   it('lists ports, and gives the reason instead of throwing when the system cannot enumerate', async () => {
     const list = vi.spyOn(SerialPort, 'list');
     try {
-      list.mockResolvedValueOnce([{ path: '/dev/ttyUSB0', manufacturer: 'acme', serialNumber: 'S1', pnpId: undefined, locationId: undefined, vendorId: '0403', productId: '6001' }]);
-      expect(await listSerialPorts()).toEqual({ ports: [{ path: '/dev/ttyUSB0', manufacturer: 'acme', serialNumber: 'S1', vendorId: '0403', productId: '6001' }] });
+      list.mockResolvedValueOnce([
+        {
+          path: '/dev/ttyUSB0',
+          manufacturer: 'acme',
+          serialNumber: 'S1',
+          pnpId: undefined,
+          locationId: undefined,
+          vendorId: '0403',
+          productId: '6001',
+        },
+      ]);
+      expect(await listSerialPorts()).toEqual({
+        ports: [
+          { path: '/dev/ttyUSB0', manufacturer: 'acme', serialNumber: 'S1', vendorId: '0403', productId: '6001' },
+        ],
+      });
       list.mockRejectedValueOnce(new Error('udevadm: not found'));
       expect(await listSerialPorts()).toEqual({ ports: [], error: 'udevadm: not found' });
     } finally {

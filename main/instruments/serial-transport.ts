@@ -63,7 +63,11 @@ export class SerialTransport implements Transport {
     if (this.port !== null) return;
     const { path, baudRate, dataBits, parity, stopBits, flow } = this.options;
     const port = new SerialPort({
-      path, baudRate, dataBits, parity, stopBits,
+      path,
+      baudRate,
+      dataBits,
+      parity,
+      stopBits,
       rtscts: flow === 'rtscts',
       xon: flow === 'xon',
       xoff: flow === 'xon',
@@ -144,7 +148,13 @@ export class SerialTransport implements Transport {
 
 const optionalText = z.string().optional().catch(undefined);
 const portListSchema = z.array(
-  z.looseObject({ path: z.string(), manufacturer: optionalText, serialNumber: optionalText, vendorId: optionalText, productId: optionalText }),
+  z.looseObject({
+    path: z.string(),
+    manufacturer: optionalText,
+    serialNumber: optionalText,
+    vendorId: optionalText,
+    productId: optionalText,
+  }),
 );
 
 export interface SerialPortListing {
@@ -160,7 +170,13 @@ export async function listSerialPorts(): Promise<SerialPortListing> {
     // What the OS reports is checked like any other input (and typed by the check).
     const ports = portListSchema.parse(await SerialPort.list());
     return {
-      ports: ports.map((p) => ({ path: p.path, manufacturer: p.manufacturer, serialNumber: p.serialNumber, vendorId: p.vendorId, productId: p.productId })),
+      ports: ports.map((p) => ({
+        path: p.path,
+        manufacturer: p.manufacturer,
+        serialNumber: p.serialNumber,
+        vendorId: p.vendorId,
+        productId: p.productId,
+      })),
     };
   } catch (error) {
     return { ports: [], error: error instanceof Error ? error.message : String(error) };

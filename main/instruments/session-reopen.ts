@@ -24,5 +24,7 @@ export async function reopenWithRetry(transport: Transport, clock: Clock, policy
     }
   }
   const detail = lastError instanceof Error ? lastError.message : String(lastError);
-  throw new DisconnectedError(transport.address, `reopen failed after ${attempts} attempt(s): ${detail}`, { cause: lastError });
+  throw new DisconnectedError(transport.address, `reopen failed after ${attempts} attempt(s): ${detail}`, {
+    cause: lastError,
+  });
 }

@@ -24,7 +24,12 @@ export interface SyncExchange {
 export function tokenSync(random: () => number, previous: number | null): SyncExchange & { token: number } {
   let token = 1 + Math.floor(random() * 255);
   if (token === previous) token = (token % 255) + 1;
-  return { token, command: `*ESE ${token};*ESE?`, isAnswer: (line) => /^\+?\d+$/.test(line.trim()) && Number(line.trim()) === token, quietS: 0 };
+  return {
+    token,
+    command: `*ESE ${token};*ESE?`,
+    isAnswer: (line) => /^\+?\d+$/.test(line.trim()) && Number(line.trim()) === token,
+    quietS: 0,
+  };
 }
 
 /** The legacy sync: a query that answers "1" (normally `*OPC?`). */

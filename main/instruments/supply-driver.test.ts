@@ -38,8 +38,15 @@ describe('SupplyDriver (supply-scpi)', () => {
     expect(await supply.measureVoltage(1)).toBe(2.4997);
     expect(await supply.measureCurrent(1)).toBe(0.0125);
     expect(transport.written.filter((w) => w !== 'SYST:ERR?')).toEqual([
-      'INST:NSEL 1;:SOUR:VOLT 2.5', 'INST:NSEL 1;:SOUR:CURR 0.05', 'INST:NSEL 1;:SOUR:VOLT:PROT 5.5', 'INST:NSEL 2;:OUTP ON',
-      'INST:NSEL 1;:SOUR:VOLT?', 'INST:NSEL 1;:OUTP?', 'INST:NSEL 1;:MEAS:VOLT?', 'INST:NSEL 1;:MEAS:CURR?']);
+      'INST:NSEL 1;:SOUR:VOLT 2.5',
+      'INST:NSEL 1;:SOUR:CURR 0.05',
+      'INST:NSEL 1;:SOUR:VOLT:PROT 5.5',
+      'INST:NSEL 2;:OUTP ON',
+      'INST:NSEL 1;:SOUR:VOLT?',
+      'INST:NSEL 1;:OUTP?',
+      'INST:NSEL 1;:MEAS:VOLT?',
+      'INST:NSEL 1;:MEAS:CURR?',
+    ]);
     expect(transport.written.filter((w) => w === 'SYST:ERR?')).toHaveLength(4); // one per write
     errors.push('-222,"Data out of range"');
     const error = await supply.setVoltage(1, 40).catch((e: unknown) => e);
@@ -87,10 +94,16 @@ describe('ThermometerDriver', () => {
     expect(await thermometer.readTemperature()).toBe(23.45);
     await expect(thermometer.readTemperature()).rejects.toBeInstanceOf(ReplyFormatError);
     expect((await thermometer.identify()).model).toBe('Probe Reader');
-    const kelvin = parseProfile({ schema: 'tunebench.profile/1', role: 'thermometer', unit: 'K', commands: { readTemperature: 'MEAS:TEMP?' } }, 'k');
+    const kelvin = parseProfile(
+      { schema: 'tunebench.profile/1', role: 'thermometer', unit: 'K', commands: { readTemperature: 'MEAS:TEMP?' } },
+      'k',
+    );
     expect(await createThermometer(session, kelvin as ThermometerProfile).readTemperature()).toBeCloseTo(25, 10);
     replies.push('77');
-    const fahrenheit = parseProfile({ schema: 'tunebench.profile/1', role: 'thermometer', unit: 'F', commands: { readTemperature: 'MEAS:TEMP?' } }, 'f');
+    const fahrenheit = parseProfile(
+      { schema: 'tunebench.profile/1', role: 'thermometer', unit: 'F', commands: { readTemperature: 'MEAS:TEMP?' } },
+      'f',
+    );
     expect(await createThermometer(session, fahrenheit as ThermometerProfile).readTemperature()).toBeCloseTo(25, 10);
   });
 });
@@ -104,7 +117,7 @@ describe('SupplyDriver channel ceilings and readback ranges (issue 8 item 1, iss
     return { transport, session };
   }
 
-  it('refuses a write above a channel\'s ceiling before sending anything; the lower of two purposes holds', async () => {
+  it("refuses a write above a channel's ceiling before sending anything; the lower of two purposes holds", async () => {
     const { transport, session } = okSupply();
     await session.open();
     const supply = createSupply(session, await loadProfile('supply-scpi', { role: 'supply' }));
@@ -115,7 +128,9 @@ describe('SupplyDriver channel ceilings and readback ranges (issue 8 item 1, iss
     const before = transport.written.length;
     const error = await supply.setVoltage(1, 5.5).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ChannelLimitError);
-    expect((error as Error).message).toMatch(/refused to set channel 1 to 5\.5 V, above its ceiling 5 V \(limits\.maxControlV\); nothing was written/);
+    expect((error as Error).message).toMatch(
+      /refused to set channel 1 to 5\.5 V, above its ceiling 5 V \(limits\.maxControlV\); nothing was written/,
+    );
     expect(transport.written.length).toBe(before);
     supply.limitChannel(2, 'dut-supply', 3.78);
     await expect(supply.setVoltage(2, 3.8)).rejects.toThrow(/ceiling 3\.78 V \(DUT supply OVP level\)/);
@@ -131,7 +146,7 @@ describe('SupplyDriver channel ceilings and readback ranges (issue 8 item 1, iss
     expect(transport.written).toEqual(['INST:NSEL 1;:OUTP OFF', 'INST:NSEL 1;:SOUR:VOLT 0']);
   });
 
-  it('a readback beyond the profile\'s ratings is a fault, not a value', async () => {
+  it("a readback beyond the profile's ratings is a fault, not a value", async () => {
     const { session } = okSupply({ 'SOUR:VOLT?': '1e308', 'MEAS:VOLT?': '-150', 'MEAS:CURR?': '+2.5E+01' });
     await session.open();
     const supply = createSupply(session, await loadProfile('supply-scpi', { role: 'supply' }));
@@ -144,6 +159,8 @@ describe('SupplyDriver channel ceilings and readback ranges (issue 8 item 1, iss
     const { session } = okSupply({ 'MEAS:TEMP?': '+1.0E+06' });
     await session.open();
     const thermometer = createThermometer(session, await loadProfile('thermometer-scpi', { role: 'thermometer' }));
-    await expect(thermometer.readTemperature()).rejects.toThrow(/a temperature in -200\.\.1000 °C \(profile plausibleC\)/);
+    await expect(thermometer.readTemperature()).rejects.toThrow(
+      /a temperature in -200\.\.1000 °C \(profile plausibleC\)/,
+    );
   });
 });

@@ -17,7 +17,10 @@ export class SupplyDriver implements Supply {
   private readonly writeOptions: { checkErrors: boolean };
   private readonly ceilings = new ChannelCeilings();
 
-  constructor(readonly session: ScpiSession, readonly profile: SupplyProfile) {
+  constructor(
+    readonly session: ScpiSession,
+    readonly profile: SupplyProfile,
+  ) {
     this.capabilities = { ...profile.capabilities };
     this.writeOptions = { checkErrors: profile.checkErrorsAfterWrite };
   }
@@ -41,17 +44,26 @@ export class SupplyDriver implements Supply {
   }
 
   async setCurrentLimit(channel: number, amps: number): Promise<void> {
-    return this.write(this.profile.commands.setCurrentLimit, { channel: this.channel(channel), amps: formatScpiNumber(amps) });
+    return this.write(this.profile.commands.setCurrentLimit, {
+      channel: this.channel(channel),
+      amps: formatScpiNumber(amps),
+    });
   }
 
   async setOverVoltageProtection(channel: number, volts: number): Promise<void> {
-    const template = this.capabilities.overVoltageProtection ? this.profile.commands.setOverVoltageProtection : undefined;
+    const template = this.capabilities.overVoltageProtection
+      ? this.profile.commands.setOverVoltageProtection
+      : undefined;
     if (template === undefined) throw new UnsupportedOperationError('setOverVoltageProtection', this.profile.name);
     return this.write(template, { channel: this.channel(channel), volts: formatScpiNumber(volts) });
   }
 
   async setOutput(channel: number, on: boolean, options?: SupplyWriteOptions): Promise<void> {
-    return this.write(this.profile.commands.setOutput, { channel: this.channel(channel), state: on ? 'ON' : 'OFF' }, options);
+    return this.write(
+      this.profile.commands.setOutput,
+      { channel: this.channel(channel), state: on ? 'ON' : 'OFF' },
+      options,
+    );
   }
 
   async getOutput(channel: number): Promise<boolean> {
@@ -74,7 +86,11 @@ export class SupplyDriver implements Supply {
     return this.session.close();
   }
 
-  private write(template: CommandTemplate, values: Record<string, string>, options?: SupplyWriteOptions): Promise<void> {
+  private write(
+    template: CommandTemplate,
+    values: Record<string, string>,
+    options?: SupplyWriteOptions,
+  ): Promise<void> {
     const command = template.render(values);
     if (options?.urgent === true) return this.session.sendUrgent(command);
     return this.session.write(command, this.writeOptions);
@@ -85,7 +101,10 @@ export class SupplyDriver implements Supply {
     const value = parseFinite(reply);
     const limit = unit === 'V' ? this.profile.ratings.maxVoltageV : this.profile.ratings.maxCurrentA;
     if (Math.abs(value) > limit) {
-      throw new ReplyFormatError(`a reading within ±${limit} ${unit} (profile ratings.${unit === 'V' ? 'maxVoltageV' : 'maxCurrentA'})`, reply);
+      throw new ReplyFormatError(
+        `a reading within ±${limit} ${unit} (profile ratings.${unit === 'V' ? 'maxVoltageV' : 'maxCurrentA'})`,
+        reply,
+      );
     }
     return value;
   }
@@ -98,7 +117,9 @@ export class SupplyDriver implements Supply {
   /** Channels are 1-based and limited to what the profile addresses. */
   private channel(channel: number): string {
     if (!Number.isInteger(channel) || channel < 1 || channel > this.capabilities.channels) {
-      throw new RangeError(`channel: ${channel} is not 1..${this.capabilities.channels} for profile ${this.profile.name}`);
+      throw new RangeError(
+        `channel: ${channel} is not 1..${this.capabilities.channels} for profile ${this.profile.name}`,
+      );
     }
     return String(channel);
   }

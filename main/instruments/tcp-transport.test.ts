@@ -41,7 +41,10 @@ describe('TcpTransport on loopback', () => {
 
   it('times out a late reply and does not hand it to the next query', async () => {
     server = await startTcpResponder();
-    const session = new ScpiSession({ transport: new TcpTransport({ host: '127.0.0.1', port: server.port }), clock: new RealClock() });
+    const session = new ScpiSession({
+      transport: new TcpTransport({ host: '127.0.0.1', port: server.port }),
+      clock: new RealClock(),
+    });
     await session.open();
     await expect(session.query('TEST:DELAY? 0.2', { timeoutS: 0.05 })).rejects.toBeInstanceOf(TimeoutError);
     // Sent while the late "+4.2E+00" is still on its way: the resync must eat it.
@@ -52,7 +55,10 @@ describe('TcpTransport on loopback', () => {
 
   it('reports a refused connection as DisconnectedError', async () => {
     const port = await freePort();
-    const session = new ScpiSession({ transport: createTransport(`TCPIP0::127.0.0.1::${port}::SOCKET`), clock: new RealClock() });
+    const session = new ScpiSession({
+      transport: createTransport(`TCPIP0::127.0.0.1::${port}::SOCKET`),
+      clock: new RealClock(),
+    });
     const error = await session.open().catch((e: unknown) => e);
     expect(error).toBeInstanceOf(DisconnectedError);
     expect((error as DisconnectedError).disconnected).toBe(true);
@@ -60,7 +66,10 @@ describe('TcpTransport on loopback', () => {
 
   it('turns a hang-up into DisconnectedError and reconnects on the next call', async () => {
     server = await startTcpResponder();
-    const session = new ScpiSession({ transport: createTransport(`tcp://127.0.0.1:${server.port}`), clock: new RealClock() });
+    const session = new ScpiSession({
+      transport: createTransport(`tcp://127.0.0.1:${server.port}`),
+      clock: new RealClock(),
+    });
     await session.open();
     const error = await session.query('TEST:DROP').catch((e: unknown) => e);
     expect(error).toBeInstanceOf(DisconnectedError);

@@ -36,7 +36,8 @@ export class TcpTransport implements Transport {
     if (options.host === '') throw new TypeError('host: must not be empty');
     this.host = options.host;
     this.port = options.port ?? DEFAULT_SCPI_PORT;
-    if (!Number.isInteger(this.port) || this.port < 1 || this.port > 65535) throw new TypeError(`port: ${this.port} is not 1-65535`);
+    if (!Number.isInteger(this.port) || this.port < 1 || this.port > 65535)
+      throw new TypeError(`port: ${this.port} is not 1-65535`);
     this.connectTimeoutS = options.connectTimeoutS ?? 5;
     if (!(this.connectTimeoutS > 0)) throw new TypeError('connectTimeoutS: must be positive');
     this.setTimer = options.clock?.setTimer.bind(options.clock) ?? nodeTimer;
@@ -56,7 +57,9 @@ export class TcpTransport implements Transport {
         socket.destroy();
         reject(error);
       };
-      const cancelTimer = this.setTimer(this.connectTimeoutS, () => fail(new TimeoutError(`connect to ${this.address}`, this.connectTimeoutS)));
+      const cancelTimer = this.setTimer(this.connectTimeoutS, () =>
+        fail(new TimeoutError(`connect to ${this.address}`, this.connectTimeoutS)),
+      );
       socket.once('error', fail);
       socket.once('connect', () => {
         cancelTimer();

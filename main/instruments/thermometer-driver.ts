@@ -16,7 +16,10 @@ export class ThermometerDriver implements Thermometer {
   readonly role = 'thermometer' as const;
   private readonly command: string;
 
-  constructor(readonly session: ScpiSession, readonly profile: ThermometerProfile) {
+  constructor(
+    readonly session: ScpiSession,
+    readonly profile: ThermometerProfile,
+  ) {
     this.command = profile.commands.readTemperature.render({});
   }
 
@@ -29,7 +32,8 @@ export class ThermometerDriver implements Thermometer {
     const reply = await this.session.query(this.command);
     const celsius = TO_CELSIUS[this.profile.unit](parseFinite(reply));
     const { min, max } = this.profile.plausibleC;
-    if (!(celsius >= min && celsius <= max)) throw new ReplyFormatError(`a temperature in ${min}..${max} °C (profile plausibleC)`, reply);
+    if (!(celsius >= min && celsius <= max))
+      throw new ReplyFormatError(`a temperature in ${min}..${max} °C (profile plausibleC)`, reply);
     return celsius;
   }
 

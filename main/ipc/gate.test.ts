@@ -16,7 +16,10 @@ function fakeIpcMain() {
 }
 
 const APP = 'tunebench://app/index.html';
-const fromWindow = (id: number, url = APP, parent: unknown = null): IpcCallEvent => ({ sender: { id }, senderFrame: { url, parent } });
+const fromWindow = (id: number, url = APP, parent: unknown = null): IpcCallEvent => ({
+  sender: { id },
+  senderFrame: { url, parent },
+});
 
 function setup() {
   const { ipcMain, handlers } = fakeIpcMain();
@@ -33,20 +36,29 @@ function setup() {
     subscribe: (listener: (event: BenchEvent) => void) => hub.subscribe(listener),
   } as unknown as BenchApi;
   setupBenchIpc(gate, api, ['renameRun']);
-  const call = (event: IpcCallEvent, ...args: unknown[]) => (handlers.get(callChannel('renameRun')) as Handler)(event, ...args);
+  const call = (event: IpcCallEvent, ...args: unknown[]) =>
+    (handlers.get(callChannel('renameRun')) as Handler)(event, ...args);
   return { gate, handlers, call, renamed, received, hub };
 }
 
 describe('IPC gate', () => {
   it('answers a valid call from the app window', async () => {
     const { call, renamed } = setup();
-    await expect(call(fromWindow(7), '20261202-010000-osc', 'osc-b')).resolves.toEqual({ ok: true, result: { id: '20261202-010000-osc' } });
+    await expect(call(fromWindow(7), '20261202-010000-osc', 'osc-b')).resolves.toEqual({
+      ok: true,
+      result: { id: '20261202-010000-osc' },
+    });
     expect(renamed).toEqual([['20261202-010000-osc', 'osc-b']]);
   });
 
   it('drops calls from other web contents, subframes, foreign pages and destroyed frames', async () => {
     const { call, renamed } = setup();
-    for (const event of [fromWindow(8), fromWindow(7, APP, {}), fromWindow(7, 'https://example.com/'), { sender: { id: 7 }, senderFrame: null }]) {
+    for (const event of [
+      fromWindow(8),
+      fromWindow(7, APP, {}),
+      fromWindow(7, 'https://example.com/'),
+      { sender: { id: 7 }, senderFrame: null },
+    ]) {
       const outcome = await call(event, '20261202-010000-osc', 'osc-b');
       expect(outcome).toMatchObject({ ok: false, error: { message: expect.stringMatching(/not a tunebench window/) } });
     }
@@ -55,10 +67,19 @@ describe('IPC gate', () => {
 
   it('validates every argument and names the field', async () => {
     const { call, renamed } = setup();
-    await expect(call(fromWindow(7), '../../etc', 'osc-b')).resolves.toMatchObject({ ok: false, error: { field: 'id' } });
+    await expect(call(fromWindow(7), '../../etc', 'osc-b')).resolves.toMatchObject({
+      ok: false,
+      error: { field: 'id' },
+    });
     await expect(call(fromWindow(7), 'a/b', 'osc-b')).resolves.toMatchObject({ ok: false, error: { field: 'id' } });
-    await expect(call(fromWindow(7), '20261202-010000-osc', 42)).resolves.toMatchObject({ ok: false, error: { field: 'dutId' } });
-    await expect(call(fromWindow(7), '20261202-010000-osc')).resolves.toMatchObject({ ok: false, error: { field: 'params' } });
+    await expect(call(fromWindow(7), '20261202-010000-osc', 42)).resolves.toMatchObject({
+      ok: false,
+      error: { field: 'dutId' },
+    });
+    await expect(call(fromWindow(7), '20261202-010000-osc')).resolves.toMatchObject({
+      ok: false,
+      error: { field: 'params' },
+    });
     expect(renamed).toHaveLength(0);
   });
 
@@ -77,7 +98,10 @@ describe('IPC gate against hostile payloads (issue 14.1)', () => {
     let nested: unknown = 'x';
     for (let i = 0; i < 6000; i += 1) nested = [nested];
     const deep = await call(fromWindow(7), nested, 'osc-b');
-    expect(deep).toMatchObject({ ok: false, error: { message: expect.stringMatching(/nested too deeply \(at most 16 levels\)/) } });
+    expect(deep).toMatchObject({
+      ok: false,
+      error: { message: expect.stringMatching(/nested too deeply \(at most 16 levels\)/) },
+    });
     const long = await call(fromWindow(7), `run${'\u202e'.repeat(100_000)}`, 'osc-b');
     expect(long.ok).toBe(false);
     expect(JSON.stringify(long).length).toBeLessThan(1200);

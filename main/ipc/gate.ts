@@ -60,7 +60,8 @@ export function createIpcGate(ipcMain: IpcMainLike, isAppUrl: (url: string) => b
       ipcMain.handle(channel, async (event, ...args): Promise<IpcOutcome> => {
         try {
           const caller = callerOf(event);
-          if (!caller) return { ok: false, error: { message: `${method}: refused, the caller is not a tunebench window` } };
+          if (!caller)
+            return { ok: false, error: { message: `${method}: refused, the caller is not a tunebench window` } };
           const checked = checkCall(method, args);
           if (!checked.ok) return checked;
           const result = await handler(checked.args, caller);

@@ -7,7 +7,10 @@ type Handler = (event: IpcCallEvent, ...args: unknown[]) => Promise<IpcOutcome>;
 
 function setup(choice: string | null) {
   const handlers = new Map<string, Handler>();
-  const ipcMain: IpcMainLike = { handle: (c, l) => void handlers.set(c, l), removeHandler: (c) => void handlers.delete(c) };
+  const ipcMain: IpcMainLike = {
+    handle: (c, l) => void handlers.set(c, l),
+    removeHandler: (c) => void handlers.delete(c),
+  };
   const gate = createIpcGate(ipcMain, (url) => url.startsWith('tunebench://app/'));
   gate.trust({ webContentsId: 3, send: () => undefined });
   const written: { path: string; bytes: number }[] = [];
@@ -17,7 +20,11 @@ function setup(choice: string | null) {
     chooseSavePath: async (_id, name) => (asked.push(name), choice),
     writeFile: async (path, data) => void written.push({ path, bytes: data.length }),
   });
-  const call = (...args: unknown[]) => (handlers.get(callChannel('printDatasheetPdf')) as Handler)({ sender: { id: 3 }, senderFrame: { url: 'tunebench://app/index.html', parent: null } }, ...args);
+  const call = (...args: unknown[]) =>
+    (handlers.get(callChannel('printDatasheetPdf')) as Handler)(
+      { sender: { id: 3 }, senderFrame: { url: 'tunebench://app/index.html', parent: null } },
+      ...args,
+    );
   return { call, written, asked };
 }
 

@@ -5,7 +5,14 @@
  */
 import type { Clock } from '../time/clock.ts';
 import type { RoleName } from '../instruments/roles.ts';
-import { AlignmentError, ChannelLimitError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import {
+  AlignmentError,
+  ChannelLimitError,
+  DisconnectedError,
+  InstrumentError,
+  ReplyFormatError,
+  TimeoutError,
+} from '../instruments/errors.ts';
 import { RunStoppedError } from './run-control.ts';
 import { isLinkLoss, readCounter, type CounterReading } from './read-counter.ts';
 import type { BenchRoles, FailureKind, EventBody, RunSink, SampleRow } from './types.ts';
@@ -49,10 +56,23 @@ export class ProcedureContext {
     if (!this.bench.drainErrors) return 0;
     try {
       const entries = await this.bench.drainErrors(role);
-      for (const entry of entries) this.event({ type: 'fault', role, status: 'error', errorName: 'InstrumentError', code: entry.code, error: entry.message });
+      for (const entry of entries)
+        this.event({
+          type: 'fault',
+          role,
+          status: 'error',
+          errorName: 'InstrumentError',
+          code: entry.code,
+          error: entry.message,
+        });
       return entries.length;
     } catch (error) {
-      this.event({ type: 'fault', role, operation: 'error-queue', error: error instanceof Error ? error.message : String(error) });
+      this.event({
+        type: 'fault',
+        role,
+        operation: 'error-queue',
+        error: error instanceof Error ? error.message : String(error),
+      });
       return 0;
     }
   }
@@ -87,10 +107,19 @@ export class ProcedureContext {
     }
     this.count(reading);
     if (reading.status === 'timeout' || reading.status === 'error') {
-      this.event({ type: 'fault', role: 'counter', status: reading.status, error: reading.detail, errorName: reading.errorName });
+      this.event({
+        type: 'fault',
+        role: 'counter',
+        status: reading.status,
+        error: reading.detail,
+        errorName: reading.errorName,
+      });
       this.#consecutiveFailures++;
       if (this.#consecutiveFailures >= MAX_CONSECUTIVE_FAILURES) {
-        throw new ProcedureFailure('counter-fault', `${MAX_CONSECUTIVE_FAILURES} readings in a row failed on ${this.describe('counter')}; last: ${reading.detail ?? reading.status}`);
+        throw new ProcedureFailure(
+          'counter-fault',
+          `${MAX_CONSECUTIVE_FAILURES} readings in a row failed on ${this.describe('counter')}; last: ${reading.detail ?? reading.status}`,
+        );
       }
     } else {
       this.#consecutiveFailures = 0;
@@ -116,7 +145,10 @@ export class ProcedureContext {
   counterFault(): { kind: 'counter-fault'; message: string } | null {
     const { ok, noSignal, failed, lastFailure } = this.tally;
     if (failed === 0 || ok + noSignal > 0) return null;
-    return { kind: 'counter-fault', message: `all ${failed} readings failed on ${this.describe('counter')} (last: ${lastFailure ?? 'unknown'}); this is a counter fault, not a stalled DUT` };
+    return {
+      kind: 'counter-fault',
+      message: `all ${failed} readings failed on ${this.describe('counter')} (last: ${lastFailure ?? 'unknown'}); this is a counter fault, not a stalled DUT`,
+    };
   }
 
   /** "the counter at tcp://…" when the bench says where, else "the counter". */
@@ -133,7 +165,9 @@ export class ProcedureContext {
     } catch (error) {
       const message = error instanceof Error ? error.message : String(error);
       this.event({ type: 'reconnect-failed', role, error: message });
-      throw new ProcedureFailure('disconnected', `link to the ${role} lost and not reopened: ${message}`, { cause: error });
+      throw new ProcedureFailure('disconnected', `link to the ${role} lost and not reopened: ${message}`, {
+        cause: error,
+      });
     }
   }
 }
@@ -149,7 +183,10 @@ export class ProcedureFailure extends Error {
 }
 
 /** Sorts whatever ended a run into a stop reason and, for failures, a kind. */
-export function classifyEnd(error: unknown): { reason: string; failure: { kind: FailureKind; message: string } | null } {
+export function classifyEnd(error: unknown): {
+  reason: string;
+  failure: { kind: FailureKind; message: string } | null;
+} {
   if (error instanceof RunStoppedError) return { reason: error.reason, failure: null };
   if (error instanceof Error && error.name === 'AbortError') {
     // The clock's AbortError carries the signal's reason (RunControl.stop's argument) as cause.
@@ -158,9 +195,11 @@ export function classifyEnd(error: unknown): { reason: string; failure: { kind: 
   const message = error instanceof Error ? error.message : String(error);
   if (error instanceof ProcedureFailure) return { reason: error.kind, failure: { kind: error.kind, message } };
   if (error instanceof DisconnectedError) return { reason: 'disconnected', failure: { kind: 'disconnected', message } };
-  if (error instanceof InstrumentError) return { reason: 'instrument-error', failure: { kind: 'instrument-error', message } };
+  if (error instanceof InstrumentError)
+    return { reason: 'instrument-error', failure: { kind: 'instrument-error', message } };
   if (error instanceof TimeoutError) return { reason: 'timeout', failure: { kind: 'timeout', message } };
-  if (error instanceof ReplyFormatError || error instanceof AlignmentError) return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
+  if (error instanceof ReplyFormatError || error instanceof AlignmentError)
+    return { reason: 'reply-format', failure: { kind: 'reply-format', message } };
   if (error instanceof ChannelLimitError) return { reason: 'limits', failure: { kind: 'limits', message } };
   const name = error instanceof Error ? `${error.name}: ` : '';
   return { reason: 'internal-error', failure: { kind: 'internal', message: `${name}${message}` } };

@@ -32,16 +32,30 @@ function faultScript(): FaultSpec[] {
     const kind = KINDS[i % KINDS.length] as (typeof KINDS)[number];
     const atS = 300 + i * spacingS + rng.uniform() * 10;
     switch (kind) {
-      case 'drop': faults.push({ type: 'drop', device: 'counter', atS }); break;
-      case 'delay': faults.push({ type: 'delay', device: 'counter', atS, delayS: 3, count: 1 }); break;
-      case 'garbage': faults.push({ type: 'garbage', device: 'counter', atS, count: 1 }); break;
-      case 'error': faults.push({ type: 'error', device: 'counter', atS, code: -300, message: `Device-specific error ${i}` }); break;
-      case 'silence': faults.push({ type: 'silence', device: 'counter', atS, durationS: 8 }); break;
+      case 'drop':
+        faults.push({ type: 'drop', device: 'counter', atS });
+        break;
+      case 'delay':
+        faults.push({ type: 'delay', device: 'counter', atS, delayS: 3, count: 1 });
+        break;
+      case 'garbage':
+        faults.push({ type: 'garbage', device: 'counter', atS, count: 1 });
+        break;
+      case 'error':
+        faults.push({ type: 'error', device: 'counter', atS, code: -300, message: `Device-specific error ${i}` });
+        break;
+      case 'silence':
+        faults.push({ type: 'silence', device: 'counter', atS, durationS: 8 });
+        break;
     }
   }
   for (let i = 0; i < 12; i++) {
     const atS = 1000 + i * 3500;
-    faults.push(i % 2 === 0 ? { type: 'drop', device: 'thermometer', atS } : { type: 'garbage', device: 'thermometer', atS, count: 1 });
+    faults.push(
+      i % 2 === 0
+        ? { type: 'drop', device: 'thermometer', atS }
+        : { type: 'garbage', device: 'thermometer', atS, count: 1 },
+    );
   }
   return faults;
 }
@@ -72,10 +86,20 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
       return reading;
     };
 
-    const plan = driftPlanSchema.parse({ controlV: 3, intervalS: 1, durationS: DURATION_S, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.02 } });
+    const plan = driftPlanSchema.parse({
+      controlV: 3,
+      intervalS: 1,
+      durationS: DURATION_S,
+      gateS: 0.1,
+      limits: { maxControlV: 5, currentLimitA: 0.02 },
+    });
     let runStartS = 0;
     const recorded = await recordDrift({
-      bench, plan, clock, runsDir, dutId: 'sensor-osc-12h',
+      bench,
+      plan,
+      clock,
+      runsDir,
+      dutId: 'sensor-osc-12h',
       onRunStarted: () => (runStartS = clock.now()),
       onEvent: (event) => {
         if (event.type === 'settled') logging = true;
@@ -89,7 +113,12 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
     // Every fault went off, at least PER_KIND of each kind.
     const fired = sim.faults.counter.fired;
     const firedByKind = Object.fromEntries(KINDS.map((k) => [k, fired.filter((f) => f.type === k).length]));
-    console.log('faults fired on the counter by kind:', firedByKind, 'thermometer:', sim.faults.thermometer.fired.length);
+    console.log(
+      'faults fired on the counter by kind:',
+      firedByKind,
+      'thermometer:',
+      sim.faults.thermometer.fired.length,
+    );
     for (const kind of KINDS) expect(firedByKind[kind]).toBeGreaterThanOrEqual(100);
 
     const run = await readRunFolder(recorded.dir);
@@ -124,7 +153,14 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
     expect(gapStarts).toBeGreaterThanOrEqual(100);
     expect(gapEnds.length).toBe(gapStarts);
     expect(gapEnds.every((e) => typeof e.duration_s === 'number' && e.duration_s >= 0)).toBe(true);
-    console.log('events by type:', countBy(events.map((e) => e.type)), 'rows:', samples.rowCount, 'ok:', okFrequencies.length);
+    console.log(
+      'events by type:',
+      countBy(events.map((e) => e.type)),
+      'rows:',
+      samples.rowCount,
+      'ok:',
+      okFrequencies.length,
+    );
 
     // The supply ended in its safe state (noise-free truth from the simulator).
     const control = sim.supply.state(1);
@@ -136,13 +172,22 @@ describe('12-hour drift log with injected faults (virtual time)', () => {
 function matches(type: string, e: { type: string; [key: string]: unknown }): boolean {
   const text = JSON.stringify([e.errorName ?? '', e.error ?? '', e.event ?? '']);
   switch (type) {
-    case 'drop': return e.type === 'link-lost' || (e.type === 'link' && (e.event === 'disconnected' || e.event === 'reconnected'));
-    case 'delay': return (e.type === 'fault' && /timeout|TimeoutError/.test(text)) || (e.type === 'link' && (e.event === 'resync' || e.event === 'stale-line'));
-    case 'garbage': return e.type === 'fault' && /ReplyFormatError|expected/.test(text);
-    case 'error': return e.type === 'fault' && e.code === -300;
+    case 'drop':
+      return e.type === 'link-lost' || (e.type === 'link' && (e.event === 'disconnected' || e.event === 'reconnected'));
+    case 'delay':
+      return (
+        (e.type === 'fault' && /timeout|TimeoutError/.test(text)) ||
+        (e.type === 'link' && (e.event === 'resync' || e.event === 'stale-line'))
+      );
+    case 'garbage':
+      return e.type === 'fault' && /ReplyFormatError|expected/.test(text);
+    case 'error':
+      return e.type === 'fault' && e.code === -300;
     // A counter silent even to the resync is out of step (AlignmentError), not just late.
-    case 'silence': return e.type === 'gap-start' || (e.type === 'fault' && /timeout|TimeoutError|AlignmentError/.test(text));
-    default: return false;
+    case 'silence':
+      return e.type === 'gap-start' || (e.type === 'fault' && /timeout|TimeoutError|AlignmentError/.test(text));
+    default:
+      return false;
   }
 }
 

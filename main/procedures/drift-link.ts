@@ -55,7 +55,13 @@ export class DriftLink {
     // At a fixed, oscillating setpoint a counter that times out is more likely silent than the DUT stalled.
     const silentNoSignal = reading.status === 'no-signal' && reading.detail === 'timeout';
     if (reading.status === 'timeout' || reading.status === 'error' || silentNoSignal) {
-      ctx.event({ type: 'fault', role: 'counter', status: reading.status, error: reading.detail, errorName: reading.errorName });
+      ctx.event({
+        type: 'fault',
+        role: 'counter',
+        status: reading.status,
+        error: reading.detail,
+        errorName: reading.errorName,
+      });
       this.#failuresInRow++;
       if (this.#failuresInRow >= SILENT_AFTER_FAILURES) {
         // Reopening the link is the usual cure for an instrument that has stopped answering.
@@ -107,7 +113,12 @@ export class DriftLink {
   closeGap(): void {
     if (this.#gapStartS === null) return;
     const nowS = this.#ctx.timeS();
-    this.#ctx.event({ type: 'gap-end', gap_start_s: this.#gapStartS, duration_s: nowS - this.#gapStartS, missed_slots: this.#gapMissed });
+    this.#ctx.event({
+      type: 'gap-end',
+      gap_start_s: this.#gapStartS,
+      duration_s: nowS - this.#gapStartS,
+      missed_slots: this.#gapMissed,
+    });
     this.#gapStartS = null;
     this.#gapMissed = 0;
   }

@@ -20,9 +20,19 @@ const DUT = builtinDut('relaxation');
 
 async function driftOnSim(extra: Partial<DriftPlan> = {}, tauS = DUT.tuning.settleTauS) {
   const clock = new VirtualClock({ autoAdvance: true });
-  const bench = await assembleBench('sim', { clock, sim: { dut: { ...DUT, tuning: { ...DUT.tuning, settleTauS: tauS } }, seed: 3 } });
+  const bench = await assembleBench('sim', {
+    clock,
+    sim: { dut: { ...DUT, tuning: { ...DUT.tuning, settleTauS: tauS } }, seed: 3 },
+  });
   const sink = new MemorySink();
-  const plan = driftPlanSchema.parse({ controlV: 3, intervalS: 1, durationS: 120, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.02 }, ...extra });
+  const plan = driftPlanSchema.parse({
+    controlV: 3,
+    intervalS: 1,
+    durationS: 120,
+    gateS: 0.1,
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
+    ...extra,
+  });
   const outcome = await runDrift({ bench, plan, clock, sink });
   await bench.close();
   return { outcome, sink, plan };
@@ -50,19 +60,23 @@ function checkFirstReadings(sink: MemorySink, gateS: number): void {
 }
 
 describe('drift log settling before the first reading (simulated bench)', () => {
-  it('settles automatically, records how long it took, and the first readings agree with the next', { timeout: 60_000 }, async () => {
-    const { outcome, sink, plan } = await driftOnSim();
-    expect(outcome.status).toBe('complete');
-    const settled = sink.eventsOfType('settled');
-    expect(settled).toHaveLength(1);
-    expect(settled[0]).toMatchObject({ mode: 'auto', settled: true });
-    expect(settled[0]?.waited_s as number).toBeGreaterThan(0);
-    expect(settled[0]?.waited_s as number).toBeLessThan(2);
-    // The event comes before the first row: the first row is timed after it.
-    expect(sink.rows[0]?.time_s as number).toBeGreaterThan(settled[0]?.time_s as number);
-    expect(sink.rows).toHaveLength(120);
-    checkFirstReadings(sink, plan.gateS);
-  });
+  it(
+    'settles automatically, records how long it took, and the first readings agree with the next',
+    { timeout: 60_000 },
+    async () => {
+      const { outcome, sink, plan } = await driftOnSim();
+      expect(outcome.status).toBe('complete');
+      const settled = sink.eventsOfType('settled');
+      expect(settled).toHaveLength(1);
+      expect(settled[0]).toMatchObject({ mode: 'auto', settled: true });
+      expect(settled[0]?.waited_s as number).toBeGreaterThan(0);
+      expect(settled[0]?.waited_s as number).toBeLessThan(2);
+      // The event comes before the first row: the first row is timed after it.
+      expect(sink.rows[0]?.time_s as number).toBeGreaterThan(settled[0]?.time_s as number);
+      expect(sink.rows).toHaveLength(120);
+      checkFirstReadings(sink, plan.gateS);
+    },
+  );
 
   it('waits out a slow tuning port (τ = 0.5 s) before logging', { timeout: 60_000 }, async () => {
     const { sink, plan } = await driftOnSim({}, 0.5);

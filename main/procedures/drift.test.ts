@@ -10,7 +10,13 @@ function setup(durationS: number) {
   const clock = new VirtualClock();
   const bench = fakeBench(clock);
   const sink = new MemorySink();
-  const plan = driftPlanSchema.parse({ controlV: 1.5, intervalS: 1, durationS, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.05 } });
+  const plan = driftPlanSchema.parse({
+    controlV: 1.5,
+    intervalS: 1,
+    durationS,
+    gateS: 0.1,
+    limits: { maxControlV: 5, currentLimitA: 0.05 },
+  });
   return { clock, bench, sink, plan };
 }
 

@@ -51,15 +51,33 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
   const link = new DriftLink(ctx, plan.gateS);
   const slotsTotal = Math.max(1, Math.floor(plan.durationS / plan.intervalS));
   const progress = new ProgressReporter(clock, 'drift', options.runId ?? '', slotsTotal, options.onProgress);
-  const outcome: DriftOutcome = { kind: 'drift', status: 'complete', reason: null, failure: null, rowsWritten: 0, safeStateOk: true, readings: 0, gaps: 0 };
+  const outcome: DriftOutcome = {
+    kind: 'drift',
+    status: 'complete',
+    reason: null,
+    failure: null,
+    rowsWritten: 0,
+    safeStateOk: true,
+    readings: 0,
+    gaps: 0,
+  };
   const channel = bench.controlChannel;
   control.onPauseChange((paused) => ctx.event({ type: paused ? 'pause' : 'resume' }));
-  ctx.event(options.timeOffsetS ? { type: 'resumed', at_s: options.timeOffsetS } : { type: 'start', channel, controlV: plan.controlV });
+  ctx.event(
+    options.timeOffsetS
+      ? { type: 'resumed', at_s: options.timeOffsetS }
+      : { type: 'start', channel, controlV: plan.controlV },
+  );
   try {
     await control.checkpoint(clock);
     await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
-    ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
+    ctx.event({
+      type: 'limits',
+      currentLimitA: plan.limits.currentLimitA,
+      ovpV: ovpApplied ? ovpLevelV(plan.limits) : null,
+      maxControlV: plan.limits.maxControlV,
+    });
     await bench.counter.setGate(plan.gateS);
     await bench.supply.setVoltage(channel, plan.controlV);
     const stepAtS = clock.now();
@@ -67,7 +85,9 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
     ctx.event({ type: 'output-on', channel, controlV: plan.controlV });
     // The tuning port starts from 0 V: a reading before it has settled would sit off the rest of the log.
     progress.report('settling', 0, null);
-    await progress.excluding(() => settleAtSetpoint(ctx, plan.settle ?? DEFAULT_DRIFT_SETTLE, plan.gateS, stepAtS, plan.controlV, control.signal));
+    await progress.excluding(() =>
+      settleAtSetpoint(ctx, plan.settle ?? DEFAULT_DRIFT_SETTLE, plan.gateS, stepAtS, plan.controlV, control.signal),
+    );
 
     const firstSlotS = ctx.timeS();
     for (let slot = 0; ; slot++) {
@@ -80,17 +100,31 @@ export async function runDrift(options: DriftOptions): Promise<DriftOutcome> {
       const reading = await link.readCounter(slotS);
       if (reading === null) continue; // link down: the gap is open, nothing to record this slot
       const temperatureC = await link.readTemperature();
-      ctx.row({ time_s: ctx.timeS(), control_v: plan.controlV, frequency_hz: reading.frequencyHz, temperature_c: temperatureC, status: reading.status });
+      ctx.row({
+        time_s: ctx.timeS(),
+        control_v: plan.controlV,
+        frequency_hz: reading.frequencyHz,
+        temperature_c: temperatureC,
+        status: reading.status,
+      });
       outcome.readings++;
       await link.checkErrorQueues();
-      progress.report('logging', Math.min(slotsTotal, slot + 1), { controlV: plan.controlV, frequencyHz: reading.frequencyHz, status: reading.status });
+      progress.report('logging', Math.min(slotsTotal, slot + 1), {
+        controlV: plan.controlV,
+        frequencyHz: reading.frequencyHz,
+        status: reading.status,
+      });
     }
   } catch (error) {
     // An operator's stop (or SIGINT) ends a drift log cleanly; anything else is an abort.
     recordRunEnd(outcome, ctx, error, true);
   } finally {
     await finishRun(outcome, {
-      ctx, control, progress, channel, safe: plan.safe,
+      ctx,
+      control,
+      progress,
+      channel,
+      safe: plan.safe,
       beforeSafe: async () => {
         await link.checkErrorQueues(true);
         link.closeGap();

@@ -13,7 +13,11 @@ export interface SignalSource {
 }
 
 /** Stops `control` on SIGINT/SIGTERM; a second signal is left to the default handler's job by the caller. Returns a disposer. */
-export function stopOnSignals(control: RunControl, source: SignalSource, signals: readonly string[] = ['SIGINT', 'SIGTERM']): () => void {
+export function stopOnSignals(
+  control: RunControl,
+  source: SignalSource,
+  signals: readonly string[] = ['SIGINT', 'SIGTERM'],
+): () => void {
   const listeners = signals.map((name) => {
     const listener = (): void => control.stop('signal');
     source.on(name, listener);

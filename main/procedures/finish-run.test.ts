@@ -19,7 +19,14 @@ function setup(sink = new MemorySink()) {
   const ctx = new ProcedureContext(clock, bench, sink);
   const seen: ProgressInfo[] = [];
   const progress = new ProgressReporter(clock, 'sweep', 'run-1', 10, (info) => seen.push(info));
-  const outcome: ProcedureOutcome = { kind: 'sweep', status: 'complete', reason: null, failure: null, rowsWritten: 0, safeStateOk: false };
+  const outcome: ProcedureOutcome = {
+    kind: 'sweep',
+    status: 'complete',
+    reason: null,
+    failure: null,
+    rowsWritten: 0,
+    safeStateOk: false,
+  };
   const parts = { ctx, control: new RunControl(), progress, channel: 1, safe: { controlV: 0.25, outputOff: true } };
   return { clock, bench, ctx, sink, seen, outcome, parts };
 }
@@ -30,7 +37,10 @@ describe('finishRun', () => {
     ctx.row({ time_s: 0, control_v: 1, frequency_hz: 1e5, status: 'ok' });
     ctx.row({ time_s: 1, control_v: 2, frequency_hz: 3e5, status: 'ok' });
     const order: string[] = [];
-    await finishRun(outcome, { ...parts, beforeSafe: () => Promise.resolve(void order.push(`before ${bench.supply.log.length}`)) });
+    await finishRun(outcome, {
+      ...parts,
+      beforeSafe: () => Promise.resolve(void order.push(`before ${bench.supply.log.length}`)),
+    });
     expect(order).toEqual(['before 0']);
     expect(bench.supply.log).toEqual(['setVoltage 1 0.25', 'setOutput 1 false']);
     expect(sink.events.map((e) => e.type)).toEqual(['safe-state', 'safe-state', 'end']);
@@ -43,7 +53,10 @@ describe('finishRun', () => {
 
   it('counts a failed extra step against safeStateOk', async () => {
     const { sink, outcome, parts } = setup();
-    await finishRun(outcome, { ...parts, afterSafe: () => Promise.resolve(['channel 2 dut-supply-restore not confirmed']) });
+    await finishRun(outcome, {
+      ...parts,
+      afterSafe: () => Promise.resolve(['channel 2 dut-supply-restore not confirmed']),
+    });
     expect(outcome.safeStateOk).toBe(false);
     expect(sink.eventsOfType('end')).toHaveLength(1);
   });
@@ -91,7 +104,13 @@ describe('recordRunEnd', () => {
     expect(timedOut.outcome.status).toBe('aborted');
     const failed = setup();
     recordRunEnd(failed.outcome, failed.ctx, new ProcedureFailure('stall', 'no oscillation at 3 V'), true);
-    expect(failed.outcome).toMatchObject({ status: 'aborted', reason: 'stall', failure: { kind: 'stall', message: 'no oscillation at 3 V' } });
-    expect(failed.sink.events).toEqual([{ time_s: 0, type: 'abort', reason: 'stall', error: 'no oscillation at 3 V', failure: 'stall' }]);
+    expect(failed.outcome).toMatchObject({
+      status: 'aborted',
+      reason: 'stall',
+      failure: { kind: 'stall', message: 'no oscillation at 3 V' },
+    });
+    expect(failed.sink.events).toEqual([
+      { time_s: 0, type: 'abort', reason: 'stall', error: 'no oscillation at 3 V', failure: 'stall' },
+    ]);
   });
 });

@@ -16,13 +16,22 @@ import type { ProcedureOutcome } from './types.ts';
  * and an `abort` event. With `stopIsClean` an operator's stop (or a signal)
  * ends the run as `complete` with a `stopped` event instead.
  */
-export function recordRunEnd(outcome: ProcedureOutcome, ctx: ProcedureContext, error: unknown, stopIsClean = false): void {
+export function recordRunEnd(
+  outcome: ProcedureOutcome,
+  ctx: ProcedureContext,
+  error: unknown,
+  stopIsClean = false,
+): void {
   const { reason, failure } = classifyEnd(error);
   const clean = stopIsClean && failure === null && (reason === 'stop' || reason === 'signal');
   outcome.status = clean ? 'complete' : 'aborted';
   outcome.reason = reason;
   outcome.failure = failure;
-  ctx.event(failure === null ? { type: clean ? 'stopped' : 'abort', reason } : { type: 'abort', reason, error: failure.message, failure: failure.kind });
+  ctx.event(
+    failure === null
+      ? { type: clean ? 'stopped' : 'abort', reason }
+      : { type: 'abort', reason, error: failure.message, failure: failure.kind },
+  );
 }
 
 export interface FinishRunParts {
@@ -62,6 +71,9 @@ export async function finishRun(outcome: ProcedureOutcome, parts: FinishRunParts
     await ctx.sink.flush();
   } catch (error) {
     // The data already flushed stays; a failing disk must not skip the safe state (done above).
-    outcome.failure ??= { kind: 'internal', message: `flush failed: ${error instanceof Error ? error.message : String(error)}` };
+    outcome.failure ??= {
+      kind: 'internal',
+      message: `flush failed: ${error instanceof Error ? error.message : String(error)}`,
+    };
   }
 }

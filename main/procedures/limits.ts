@@ -24,13 +24,21 @@ export function ovpLevelV(limits: Limits): number {
 
 /** Checks the limits themselves and the safe state against them. */
 export function checkLimits(limits: Limits, safe: SafeState): void {
-  if (!(limits.maxControlV > 0)) throw new LimitsError('limits.maxControlV', `must be greater than 0 V, got ${limits.maxControlV}`);
-  if (!(limits.currentLimitA > 0)) throw new LimitsError('limits.currentLimitA', `must be greater than 0 A, got ${limits.currentLimitA}`);
+  if (!(limits.maxControlV > 0))
+    throw new LimitsError('limits.maxControlV', `must be greater than 0 V, got ${limits.maxControlV}`);
+  if (!(limits.currentLimitA > 0))
+    throw new LimitsError('limits.currentLimitA', `must be greater than 0 A, got ${limits.currentLimitA}`);
   if (limits.currentLimitA > HIGH_CURRENT_LIMIT_A && limits.acknowledgeHighCurrent !== true) {
-    throw new LimitsError('limits.currentLimitA', `${limits.currentLimitA} A is above ${HIGH_CURRENT_LIMIT_A * 1000} mA, far more than a tuning port draws; add "acknowledgeHighCurrent": true to limits if it is meant`);
+    throw new LimitsError(
+      'limits.currentLimitA',
+      `${limits.currentLimitA} A is above ${HIGH_CURRENT_LIMIT_A * 1000} mA, far more than a tuning port draws; add "acknowledgeHighCurrent": true to limits if it is meant`,
+    );
   }
   if (limits.ovpV !== undefined && !(limits.ovpV >= limits.maxControlV)) {
-    throw new LimitsError('limits.ovpV', `${limits.ovpV} V is below limits.maxControlV (${limits.maxControlV} V); protection would trip inside the plan`);
+    throw new LimitsError(
+      'limits.ovpV',
+      `${limits.ovpV} V is below limits.maxControlV (${limits.maxControlV} V); protection would trip inside the plan`,
+    );
   }
   checkControlV('safe.controlV', safe.controlV, limits);
 }
@@ -40,7 +48,10 @@ export function checkControlV(field: string, volts: number, limits: Limits): voi
   if (!Number.isFinite(volts)) throw new LimitsError(field, `expected a finite voltage, got ${volts}`);
   if (volts < 0) throw new LimitsError(field, `${volts} V is negative; control voltages must be ≥ 0 V`);
   if (volts > limits.maxControlV) {
-    throw new LimitsError(field, `${volts} V exceeds limits.maxControlV (${limits.maxControlV} V); the plan is refused`);
+    throw new LimitsError(
+      field,
+      `${volts} V exceeds limits.maxControlV (${limits.maxControlV} V); the plan is refused`,
+    );
   }
 }
 
@@ -53,11 +64,7 @@ export type LimitStep = 'current-limit' | 'over-voltage-protection';
  * A supply without OVP is allowed (the driver's ceiling still holds) but the
  * caller is told, so it can record it.
  */
-export async function applyLimits(
-  supply: Supply,
-  channel: number,
-  limits: Limits,
-): Promise<{ ovpApplied: boolean }> {
+export async function applyLimits(supply: Supply, channel: number, limits: Limits): Promise<{ ovpApplied: boolean }> {
   supply.limitChannel(channel, 'control', limits.maxControlV);
   await supply.setCurrentLimit(channel, limits.currentLimitA);
   if (!supply.capabilities.overVoltageProtection) return { ovpApplied: false };

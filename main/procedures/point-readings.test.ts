@@ -13,7 +13,10 @@ describe('adaptive readings per point', () => {
     const values = new Float64Array([10, 12, 14, 16, Number.NaN]);
     expect(standardErrorHz(values, 5, 0.001)).toBeCloseTo(Math.sqrt(20 / 3) / 2, 12);
     // Identical counts: the ±½-count error stays, SD resolution/√12.
-    expect(standardErrorHz(new Float64Array([100, 100, 100]), 3, 10)).toBeCloseTo(10 / Math.sqrt(12) / Math.sqrt(3), 12);
+    expect(standardErrorHz(new Float64Array([100, 100, 100]), 3, 10)).toBeCloseTo(
+      10 / Math.sqrt(12) / Math.sqrt(3),
+      12,
+    );
     expect(standardErrorHz(new Float64Array([100]), 1, 10)).toBe(Number.POSITIVE_INFINITY);
   });
 
@@ -29,10 +32,24 @@ describe('adaptive readings per point', () => {
   });
 
   it('refuses a plan whose min exceeds its max, naming the field', () => {
-    const result = sweepPlanSchema.safeParse({ start: 1, stop: 2, step: 0.1, readings: { min: 5, max: 3, targetHz: 1 }, limits: { maxControlV: 5, currentLimitA: 0.02 } });
+    const result = sweepPlanSchema.safeParse({
+      start: 1,
+      stop: 2,
+      step: 0.1,
+      readings: { min: 5, max: 3, targetHz: 1 },
+      limits: { maxControlV: 5, currentLimitA: 0.02 },
+    });
     expect(result.success).toBe(false);
     expect(result.error?.issues[0]?.path).toEqual(['readings', 'min']);
-    expect(sweepPlanSchema.safeParse({ start: 1, stop: 2, step: 0.1, readings: { min: 2, max: 3, targetHz: 1, n: 4 }, limits: { maxControlV: 5, currentLimitA: 0.02 } }).success).toBe(false);
+    expect(
+      sweepPlanSchema.safeParse({
+        start: 1,
+        stop: 2,
+        step: 0.1,
+        readings: { min: 2, max: 3, targetHz: 1, n: 4 },
+        limits: { maxControlV: 5, currentLimitA: 0.02 },
+      }).success,
+    ).toBe(false);
   });
 
   it('on the simulated relaxation DUT reads the noisy points near the stall edge longer, each to its target or max', async () => {
@@ -40,8 +57,14 @@ describe('adaptive readings per point', () => {
     const bench = await assembleBench('sim', { clock, sim: { dut: builtinDut('relaxation'), seed: 3 } });
     const sink = new MemorySink();
     const plan = sweepPlanSchema.parse({
-      start: 1.56, stop: 3, step: 0.08, gateS: 0.01, readings: { min: 3, max: 40, targetHz: 30 }, refineEdgeV: 0,
-      settle: { mode: 'fixed', seconds: 0.05 }, limits: { maxControlV: 5, currentLimitA: 0.02 },
+      start: 1.56,
+      stop: 3,
+      step: 0.08,
+      gateS: 0.01,
+      readings: { min: 3, max: 40, targetHz: 30 },
+      refineEdgeV: 0,
+      settle: { mode: 'fixed', seconds: 0.05 },
+      limits: { maxControlV: 5, currentLimitA: 0.02 },
     });
     await runSweep({ bench, plan, clock, sink });
     await bench.close();

@@ -11,17 +11,38 @@ import { MemorySink, TOY_DUT, fakeBench } from './testing/fake-bench.ts';
 
 /** Toy DUT stalls below 1 V: 0.5..2.0 V by 0.1 V is 16 points; the edge bracket 0.9..1.0 V needs 7 bisections to 1 mV. */
 const PLAN: SweepPlanInput = {
-  start: 0.5, stop: 2, step: 0.1, readingsPerPoint: 2, gateS: 0.01, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0.001,
+  start: 0.5,
+  stop: 2,
+  step: 0.1,
+  readingsPerPoint: 2,
+  gateS: 0.01,
+  settle: { mode: 'fixed', seconds: 0.05 },
+  refineEdgeV: 0.001,
   limits: { maxControlV: 5, currentLimitA: 0.05 },
 };
 
-async function sweepProgress(overrides: Partial<SweepPlanInput> = {}, failFromRead: number | null = null, tauS = 0.005) {
+async function sweepProgress(
+  overrides: Partial<SweepPlanInput> = {},
+  failFromRead: number | null = null,
+  tauS = 0.005,
+) {
   const clock = new VirtualClock();
   const bench = fakeBench(clock, { ...TOY_DUT, tauS });
-  if (failFromRead !== null) bench.counter.override = (i) => (i >= failFromRead ? new InstrumentError([{ code: -230, message: 'Data corrupt or stale' }]) : null);
+  if (failFromRead !== null)
+    bench.counter.override = (i) =>
+      i >= failFromRead ? new InstrumentError([{ code: -230, message: 'Data corrupt or stale' }]) : null;
   const reports: (ProgressInfo & { atS: number })[] = [];
   const plan = sweepPlanSchema.parse({ ...PLAN, ...overrides });
-  const outcome = await clock.runUntil(runSweep({ bench, plan, clock, sink: new MemorySink(), onProgress: (p) => reports.push({ ...p, atS: clock.now() }) }), { limitS: 1e5 });
+  const outcome = await clock.runUntil(
+    runSweep({
+      bench,
+      plan,
+      clock,
+      sink: new MemorySink(),
+      onProgress: (p) => reports.push({ ...p, atS: clock.now() }),
+    }),
+    { limitS: 1e5 },
+  );
   return { outcome, reports, endS: clock.now() };
 }
 
@@ -78,7 +99,11 @@ describe('progress of a sweep', () => {
 
   it('with automatic settling the τ probe and the first point are left out of the time per point', async () => {
     // τ = 50 ms: the probe (a quarter-range step, waited out) takes longer than a point; point 0 (no step) far less.
-    const { outcome, reports } = await sweepProgress({ settle: { mode: 'auto', maxS: 2 }, refineEdgeV: 0, start: 1.5, stop: 2, step: 0.05 }, null, 0.05);
+    const { outcome, reports } = await sweepProgress(
+      { settle: { mode: 'auto', maxS: 2 }, refineEdgeV: 0, start: 1.5, stop: 2, step: 0.05 },
+      null,
+      0.05,
+    );
     expect(outcome.status).toBe('complete');
     const coarse = reports.filter((p) => p.phase === 'reading');
     expect(reports.at(-1)).toMatchObject({ pointsDone: 11, pointsTotal: 11, etaS: 0 });
@@ -116,8 +141,16 @@ describe('progress of a drift log and a pushing run', () => {
     const clock = new VirtualClock();
     const bench = fakeBench(clock);
     const seen: ProgressInfo[] = [];
-    const plan = driftPlanSchema.parse({ controlV: 1.5, intervalS: 1, durationS: 60, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.05 } });
-    const outcome = await clock.runUntil(runDrift({ bench, plan, clock, sink: new MemorySink(), onProgress: (p) => seen.push(p) }));
+    const plan = driftPlanSchema.parse({
+      controlV: 1.5,
+      intervalS: 1,
+      durationS: 60,
+      gateS: 0.1,
+      limits: { maxControlV: 5, currentLimitA: 0.05 },
+    });
+    const outcome = await clock.runUntil(
+      runDrift({ bench, plan, clock, sink: new MemorySink(), onProgress: (p) => seen.push(p) }),
+    );
     expect(outcome.status).toBe('complete');
     expect(seen[0]?.phase).toBe('settling');
     expect(seen.at(-1)).toMatchObject({ phase: 'finishing', pointsDone: 60, pointsTotal: 60, etaS: 0 });
@@ -129,7 +162,16 @@ describe('progress of a drift log and a pushing run', () => {
     bench.supply.channel(2).voltageV = 3.3;
     bench.supply.channel(2).output = true;
     const seen: ProgressInfo[] = [];
-    const plan = pushingPlanSchema.parse({ controlV: 1.5, supplyStartV: 3, supplyStopV: 3.6, supplyStepV: 0.1, gateS: 0.1, settleS: 0.2, maxSupplyV: 3.6, limits: { maxControlV: 5, currentLimitA: 0.05 } });
+    const plan = pushingPlanSchema.parse({
+      controlV: 1.5,
+      supplyStartV: 3,
+      supplyStopV: 3.6,
+      supplyStepV: 0.1,
+      gateS: 0.1,
+      settleS: 0.2,
+      maxSupplyV: 3.6,
+      limits: { maxControlV: 5, currentLimitA: 0.05 },
+    });
     await clock.runUntil(runPushing({ bench, plan, clock, sink: new MemorySink(), onProgress: (p) => seen.push(p) }));
     expect(seen.at(-1)).toMatchObject({ phase: 'finishing', pointsDone: 7, pointsTotal: 7, etaS: 0 });
   });

@@ -70,7 +70,8 @@ export class ProgressReporter {
   report(phase: ProgressInfo['phase'], done: number, latest: Latest): void {
     this.#done = done;
     const nowS = this.#clock.now();
-    if (this.#baseline === null && done > 0) this.#baseline = { atS: nowS, done, excludedS: this.#excludedS, excludedPoints: this.#excludedPoints };
+    if (this.#baseline === null && done > 0)
+      this.#baseline = { atS: nowS, done, excludedS: this.#excludedS, excludedPoints: this.#excludedPoints };
     if (!this.#listener) return;
     const perPointS = this.#perPointS(nowS, done);
     const etaS = done > 0 && this.total >= done && Number.isFinite(perPointS) ? perPointS * (this.total - done) : null;
@@ -84,7 +85,12 @@ export class ProgressReporter {
       latest:
         latest === null
           ? null
-          : { controlV: latest.controlV, frequencyHz: Number.isNaN(latest.frequencyHz) ? null : latest.frequencyHz, status: latest.status, ...(latest.supplyV === undefined ? {} : { supplyV: latest.supplyV }) },
+          : {
+              controlV: latest.controlV,
+              frequencyHz: Number.isNaN(latest.frequencyHz) ? null : latest.frequencyHz,
+              status: latest.status,
+              ...(latest.supplyV === undefined ? {} : { supplyV: latest.supplyV }),
+            },
     });
   }
 

@@ -14,7 +14,14 @@ import { RunControl } from './run-control.ts';
 import { MemorySink, TOY_DUT, fakeBench } from './testing/fake-bench.ts';
 
 const PLAN = {
-  controlV: 1.5, supplyStartV: 3.0, supplyStopV: 3.6, supplyStepV: 0.1, readingsPerPoint: 2, gateS: 0.1, settleS: 0.2, maxSupplyV: 3.6,
+  controlV: 1.5,
+  supplyStartV: 3.0,
+  supplyStopV: 3.6,
+  supplyStepV: 0.1,
+  readingsPerPoint: 2,
+  gateS: 0.1,
+  settleS: 0.2,
+  maxSupplyV: 3.6,
   limits: { maxControlV: 5, currentLimitA: 0.05 },
 };
 
@@ -60,14 +67,20 @@ describe('pushing: over-voltage protection on the DUT supply', () => {
     expect(outcome.failure?.kind).toBe('limits');
     expect(outcome.failure?.message).toMatch(/maxSupplyV: .*4\.2 V, above maxSupplyV \(3\.6 V\)/);
     expect(bench.supply.log.some((line) => line.startsWith('setOverVoltageProtection 2'))).toBe(false);
-    expect(bench.supply.log.filter((line) => line.startsWith('setVoltage 2 ')).every((line) => line === 'setVoltage 2 4.2')).toBe(true);
+    expect(
+      bench.supply.log.filter((line) => line.startsWith('setVoltage 2 ')).every((line) => line === 'setVoltage 2 4.2'),
+    ).toBe(true);
     expect(bench.supply.channel(2)).toMatchObject({ voltageV: 4.2, output: true });
     expect(bench.supply.channel(1).output).toBe(false);
   });
 });
 
 describe('pushing: the DUT supply is put back on every way out', () => {
-  type Way = { name: string; arrange: (ctx: ReturnType<typeof setup>) => RunControl | undefined; status: 'complete' | 'aborted' };
+  type Way = {
+    name: string;
+    arrange: (ctx: ReturnType<typeof setup>) => RunControl | undefined;
+    status: 'complete' | 'aborted';
+  };
   const ways: Way[] = [
     { name: 'completion', arrange: () => undefined, status: 'complete' },
     {
@@ -91,7 +104,10 @@ describe('pushing: the DUT supply is put back on every way out', () => {
     {
       name: 'instrument error on a step',
       arrange: ({ bench }) => {
-        bench.supply.failWith = (op, ch, value) => (op === 'setVoltage' && ch === 2 && Math.abs((value as number) - 3.2) < 1e-9 ? new InstrumentError([{ code: -222, message: 'Data out of range' }]) : null);
+        bench.supply.failWith = (op, ch, value) =>
+          op === 'setVoltage' && ch === 2 && Math.abs((value as number) - 3.2) < 1e-9
+            ? new InstrumentError([{ code: -222, message: 'Data out of range' }])
+            : null;
         return undefined;
       },
       status: 'aborted',
@@ -114,7 +130,10 @@ describe('pushing: the DUT supply is put back on every way out', () => {
     },
   ];
 
-  for (const found of [{ volts: 3.3, on: true }, { volts: 3.45, on: false }]) {
+  for (const found of [
+    { volts: 3.3, on: true },
+    { volts: 3.45, on: false },
+  ]) {
     for (const way of ways) {
       it(`${way.name}: DUT supply back to ${found.volts} V, output ${found.on ? 'on' : 'off'}; control channel safe`, async () => {
         const ctx = setup(found);
@@ -124,7 +143,9 @@ describe('pushing: the DUT supply is put back on every way out', () => {
         expect(outcome.status).toBe(way.status);
         expect(bench.supply.channel(2)).toMatchObject({ voltageV: found.volts, output: found.on });
         expect(bench.supply.channel(1)).toMatchObject({ voltageV: 0, output: false });
-        expect(sink.events.some((e) => e.type === 'safe-state' && e.step === 'dut-supply-restore' && e.ok === true)).toBe(true);
+        expect(
+          sink.events.some((e) => e.type === 'safe-state' && e.step === 'dut-supply-restore' && e.ok === true),
+        ).toBe(true);
         expect(outcome.safeStateOk).toBe(true);
       });
     }
@@ -132,23 +153,35 @@ describe('pushing: the DUT supply is put back on every way out', () => {
 });
 
 describe('pushing on the simulated bench', () => {
-  it('sets OVP on the DUT supply, steps it, and leaves it where it was found (simulator state)', { timeout: 60_000 }, async () => {
-    const clock = new VirtualClock({ autoAdvance: true });
-    const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation', seed: 4 } });
-    const sim = bench.sim;
-    if (sim === null) throw new Error('expected the simulated bench');
-    const before = sim.supply.state(2); // the relaxation DUT runs from 5 V, on since power-up
-    const plan = pushingPlanSchema.parse({ ...PLAN, controlV: 3, supplyStartV: 4.5, supplyStopV: 5.5, supplyStepV: 0.25, maxSupplyV: 5.5, limits: { maxControlV: 5, currentLimitA: 0.02 } });
-    const sink = new MemorySink();
-    const outcome = await runPushing({ bench, plan, clock, sink });
-    await bench.close();
-    expect(outcome.status).toBe('complete');
-    expect(outcome.steps).toBe(5);
-    const after = sim.supply.state(2);
-    expect(after.ovpV).toBeCloseTo(dutSupplyOvpLevelV(5.5), 6);
-    expect(after.ovpTripped).toBe(false);
-    expect(after.setpointV).toBe(before.setpointV);
-    expect(after.outputOn).toBe(before.outputOn);
-    expect(sim.supply.state(1)).toMatchObject({ outputOn: false, setpointV: 0 });
-  });
+  it(
+    'sets OVP on the DUT supply, steps it, and leaves it where it was found (simulator state)',
+    { timeout: 60_000 },
+    async () => {
+      const clock = new VirtualClock({ autoAdvance: true });
+      const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation', seed: 4 } });
+      const sim = bench.sim;
+      if (sim === null) throw new Error('expected the simulated bench');
+      const before = sim.supply.state(2); // the relaxation DUT runs from 5 V, on since power-up
+      const plan = pushingPlanSchema.parse({
+        ...PLAN,
+        controlV: 3,
+        supplyStartV: 4.5,
+        supplyStopV: 5.5,
+        supplyStepV: 0.25,
+        maxSupplyV: 5.5,
+        limits: { maxControlV: 5, currentLimitA: 0.02 },
+      });
+      const sink = new MemorySink();
+      const outcome = await runPushing({ bench, plan, clock, sink });
+      await bench.close();
+      expect(outcome.status).toBe('complete');
+      expect(outcome.steps).toBe(5);
+      const after = sim.supply.state(2);
+      expect(after.ovpV).toBeCloseTo(dutSupplyOvpLevelV(5.5), 6);
+      expect(after.ovpTripped).toBe(false);
+      expect(after.setpointV).toBe(before.setpointV);
+      expect(after.outputOn).toBe(before.outputOn);
+      expect(sim.supply.state(1)).toMatchObject({ outputOn: false, setpointV: 0 });
+    },
+  );
 });

@@ -14,8 +14,16 @@ function setup(overrides: Record<string, unknown> = {}) {
   bench.supply.channel(2).output = true;
   const sink = new MemorySink();
   const plan = pushingPlanSchema.parse({
-    controlV: 1.5, supplyStartV: 3.0, supplyStopV: 3.6, supplyStepV: 0.1, readingsPerPoint: 3, gateS: 0.1, settleS: 0.2, maxSupplyV: 3.6,
-    limits: { maxControlV: 5, currentLimitA: 0.05 }, ...overrides,
+    controlV: 1.5,
+    supplyStartV: 3.0,
+    supplyStopV: 3.6,
+    supplyStepV: 0.1,
+    readingsPerPoint: 3,
+    gateS: 0.1,
+    settleS: 0.2,
+    maxSupplyV: 3.6,
+    limits: { maxControlV: 5, currentLimitA: 0.05 },
+    ...overrides,
   });
   return { clock, bench, sink, plan };
 }
@@ -37,13 +45,18 @@ describe('runPushing', () => {
   it('refuses a supply range above maxSupplyV before any write', async () => {
     const { clock, bench, sink, plan } = setup({ supplyStopV: 4 });
     await expect(runPushing({ bench, plan, clock, sink })).rejects.toThrow(LimitsError);
-    await expect(runPushing({ bench, plan, clock, sink })).rejects.toThrow(/supplyStopV: 4 V exceeds maxSupplyV \(3.6 V\)/);
+    await expect(runPushing({ bench, plan, clock, sink })).rejects.toThrow(
+      /supplyStopV: 4 V exceeds maxSupplyV \(3.6 V\)/,
+    );
     expect(bench.supply.log).toEqual([]);
   });
 
   it('an instrument error mid-way aborts with both channels made safe', async () => {
     const { clock, bench, sink, plan } = setup();
-    bench.supply.failWith = (op, ch, value) => (op === 'setVoltage' && ch === 2 && Math.abs((value as number) - 3.4) < 1e-9 ? new InstrumentError([{ code: -222, message: 'Data out of range' }]) : null);
+    bench.supply.failWith = (op, ch, value) =>
+      op === 'setVoltage' && ch === 2 && Math.abs((value as number) - 3.4) < 1e-9
+        ? new InstrumentError([{ code: -222, message: 'Data out of range' }])
+        : null;
     const outcome = await clock.runUntil(runPushing({ bench, plan, clock, sink }));
     expect(outcome.status).toBe('aborted');
     expect(outcome.failure?.kind).toBe('instrument-error');

@@ -45,12 +45,17 @@ export function checkPushingLimits(plan: PushingPlan): Float64Array {
   for (const key of ['supplyStartV', 'supplyStopV'] as const) {
     const volts = plan[key];
     if (!(volts >= 0)) throw new LimitsError(key, `${volts} V is negative`);
-    if (volts > plan.maxSupplyV) throw new LimitsError(key, `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V); the plan is refused`);
+    if (volts > plan.maxSupplyV)
+      throw new LimitsError(key, `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V); the plan is refused`);
   }
-  if (!(plan.supplyStepV > 0)) throw new LimitsError('supplyStepV', `must be greater than 0 V, got ${plan.supplyStepV}`);
+  if (!(plan.supplyStepV > 0))
+    throw new LimitsError('supplyStepV', `must be greater than 0 V, got ${plan.supplyStepV}`);
   const steps = Math.abs(plan.supplyStopV - plan.supplyStartV) / plan.supplyStepV;
   if (!(steps + 2 <= MAX_PLAN_POINTS)) {
-    throw new LimitsError('supplyStepV', `${plan.supplyStepV} V over ${plan.supplyStartV}..${plan.supplyStopV} V gives more than ${MAX_PLAN_POINTS} steps; use a larger step`);
+    throw new LimitsError(
+      'supplyStepV',
+      `${plan.supplyStepV} V over ${plan.supplyStartV}..${plan.supplyStopV} V gives more than ${MAX_PLAN_POINTS} steps; use a larger step`,
+    );
   }
   return supplyLevels(plan.supplyStartV, plan.supplyStopV, plan.supplyStepV);
 }
@@ -61,7 +66,18 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
   const control = options.control ?? new RunControl();
   const ctx = new ProcedureContext(clock, bench, sink);
   const progress = new ProgressReporter(clock, 'pushing', options.runId ?? '', levels.length, options.onProgress);
-  const outcome: PushingOutcome = { kind: 'pushing', status: 'complete', reason: null, failure: null, rowsWritten: 0, safeStateOk: true, hzPerV: null, ppmPerV: null, meanHz: null, steps: 0 };
+  const outcome: PushingOutcome = {
+    kind: 'pushing',
+    status: 'complete',
+    reason: null,
+    failure: null,
+    rowsWritten: 0,
+    safeStateOk: true,
+    hzPerV: null,
+    ppmPerV: null,
+    meanHz: null,
+    steps: 0,
+  };
   const channel = bench.controlChannel;
   const dutChannel = bench.dutSupplyChannel;
   const meanHz = new Float64Array(levels.length).fill(Number.NaN);
@@ -70,12 +86,18 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
   ctx.event({ type: 'start', channel, dutChannel, steps: levels.length });
   try {
     await control.checkpoint(clock);
-    restoreDut = { volts: await bench.supply.getVoltageSetpoint(dutChannel), on: await bench.supply.getOutput(dutChannel) };
+    restoreDut = {
+      volts: await bench.supply.getVoltageSetpoint(dutChannel),
+      on: await bench.supply.getOutput(dutChannel),
+    };
     ctx.event({ type: 'dut-supply-found', volts: restoreDut.volts, on: restoreDut.on });
     const dutOvpV = dutSupplyOvpLevelV(plan.maxSupplyV);
     if (restoreDut.volts > dutOvpV) {
       // Protection set below the voltage found would trip (or refuse) the way back: change nothing.
-      throw new ProcedureFailure('limits', `maxSupplyV: the DUT supply (channel ${dutChannel}) is at ${restoreDut.volts} V, above maxSupplyV (${plan.maxSupplyV} V) plus its protection margin; the plan is refused`);
+      throw new ProcedureFailure(
+        'limits',
+        `maxSupplyV: the DUT supply (channel ${dutChannel}) is at ${restoreDut.volts} V, above maxSupplyV (${plan.maxSupplyV} V) plus its protection margin; the plan is refused`,
+      );
     }
     await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
@@ -107,7 +129,13 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       let last: { frequencyHz: number; status: SampleStatus } = { frequencyHz: Number.NaN, status: 'error' };
       for (let r = 0; r < plan.readingsPerPoint; r++) {
         const reading = await ctx.readFrequency();
-        ctx.row({ time_s: ctx.timeS(), control_v: plan.controlV, supply_v: supplyV, frequency_hz: reading.frequencyHz, status: reading.status });
+        ctx.row({
+          time_s: ctx.timeS(),
+          control_v: plan.controlV,
+          supply_v: supplyV,
+          frequency_hz: reading.frequencyHz,
+          status: reading.status,
+        });
         if (reading.status === 'ok') {
           sum += reading.frequencyHz;
           ok++;
@@ -117,7 +145,12 @@ export async function runPushing(options: PushingOptions): Promise<PushingOutcom
       await sink.flush();
       if (ok > 0) meanHz[i] = sum / ok;
       outcome.steps = i + 1;
-      progress.report('reading', i + 1, { controlV: plan.controlV, supplyV, frequencyHz: last.frequencyHz, status: last.status });
+      progress.report('reading', i + 1, {
+        controlV: plan.controlV,
+        supplyV,
+        frequencyHz: last.frequencyHz,
+        status: last.status,
+      });
     }
     const fit = linearSlope(levels, meanHz);
     if (fit !== null) {

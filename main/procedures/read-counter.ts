@@ -4,7 +4,13 @@
  * `error`) that the run records and survives. A dropped link is not a
  * reading at all: it is thrown so the procedure can reconnect or stop.
  */
-import { AlignmentError, DisconnectedError, InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
+import {
+  AlignmentError,
+  DisconnectedError,
+  InstrumentError,
+  ReplyFormatError,
+  TimeoutError,
+} from '../instruments/errors.ts';
 import type { Counter } from '../instruments/roles.ts';
 import type { SampleStatus } from './types.ts';
 
@@ -23,8 +29,15 @@ export function isLinkLoss(error: unknown): error is DisconnectedError {
 }
 
 /** A failure the run can record and carry on from (the link is still there). */
-export function isRecoverableInstrumentFault(error: unknown): error is TimeoutError | InstrumentError | ReplyFormatError | AlignmentError {
-  return error instanceof TimeoutError || error instanceof InstrumentError || error instanceof ReplyFormatError || error instanceof AlignmentError;
+export function isRecoverableInstrumentFault(
+  error: unknown,
+): error is TimeoutError | InstrumentError | ReplyFormatError | AlignmentError {
+  return (
+    error instanceof TimeoutError ||
+    error instanceof InstrumentError ||
+    error instanceof ReplyFormatError ||
+    error instanceof AlignmentError
+  );
 }
 
 export async function readCounter(counter: Counter): Promise<CounterReading> {

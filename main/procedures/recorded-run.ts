@@ -7,7 +7,13 @@
  */
 import { rm } from 'node:fs/promises';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { driftPlanSchema, driftTimingProblems, type DriftPlan, type PushingPlan, type SweepPlan } from '../../app/contract/plans.ts';
+import {
+  driftPlanSchema,
+  driftTimingProblems,
+  type DriftPlan,
+  type PushingPlan,
+  type SweepPlan,
+} from '../../app/contract/plans.ts';
 import { createRun, reopenRun, type RunWriter } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
@@ -68,7 +74,11 @@ function teeSink(writer: RunWriter, options: RecordOptions): RunSink {
  * failure before any output turned on and before any reading) leaves no run
  * folder: the folder is removed and the refusal thrown as a LimitsError.
  */
-async function refusedBeforeOutput(writer: RunWriter, outcome: ProcedureOutcome, outputTouched: boolean): Promise<void> {
+async function refusedBeforeOutput(
+  writer: RunWriter,
+  outcome: ProcedureOutcome,
+  outputTouched: boolean,
+): Promise<void> {
   if (outcome.failure?.kind !== 'limits' || outputTouched || outcome.rowsWritten > 0) return;
   await writer.finish('aborted');
   await rm(writer.dir, { recursive: true, force: true });
@@ -114,7 +124,11 @@ async function record<O extends ProcedureOutcome>(
     announce();
     // Procedures resolve on every way out after touching instruments; a throw here
     // is a bug before the first write. Close the run as aborted, then report it.
-    writer.appendEvent({ type: 'abort', reason: 'internal-error', error: error instanceof Error ? error.message : String(error) });
+    writer.appendEvent({
+      type: 'abort',
+      reason: 'internal-error',
+      error: error instanceof Error ? error.message : String(error),
+    });
     await writer.finish('aborted');
     throw error;
   }
@@ -145,7 +159,10 @@ export function validateDriftPlan(plan: DriftPlan): void {
 export function checkPlanAgainstBench(plan: { gateS: number }, bench: BenchRoles): void {
   const range = bench.counter.gateRangeS ?? DEFAULT_GATE_RANGE_S;
   if (plan.gateS < range.minS || plan.gateS > range.maxS) {
-    throw new LimitsError('gateS', `${plan.gateS} s is outside the counter's gate range ${range.minS}–${range.maxS} s (a profile may declare minGateS/maxGateS)`);
+    throw new LimitsError(
+      'gateS',
+      `${plan.gateS} s is outside the counter's gate range ${range.minS}–${range.maxS} s (a profile may declare minGateS/maxGateS)`,
+    );
   }
 }
 
@@ -154,7 +171,12 @@ export function validatePushingPlan(plan: PushingPlan): void {
 }
 
 /** The run folder of a new run of `kind`, described from the options and the plan. */
-function createRunFor(options: RecordOptions, kind: RunMeta['kind'], plan: SweepPlan | DriftPlan | PushingPlan, columns: readonly string[]): Promise<RunWriter> {
+function createRunFor(
+  options: RecordOptions,
+  kind: RunMeta['kind'],
+  plan: SweepPlan | DriftPlan | PushingPlan,
+  columns: readonly string[],
+): Promise<RunWriter> {
   return createRun({
     runsDir: options.runsDir,
     clock: options.clock,
@@ -168,28 +190,42 @@ function createRunFor(options: RecordOptions, kind: RunMeta['kind'], plan: Sweep
 
 /** What every procedure takes from the options besides its plan and sink. */
 function procedureContext(options: RecordOptions, writer: RunWriter) {
-  return { bench: options.bench, clock: options.clock, control: options.control, onProgress: options.onProgress, runId: writer.id };
+  return {
+    bench: options.bench,
+    clock: options.clock,
+    control: options.control,
+    onProgress: options.onProgress,
+    runId: writer.id,
+  };
 }
 
 export async function recordSweep(options: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
   validateSweepPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'sweep', options.plan, SWEEP_COLUMNS);
-  return record(writer, options, (sink) => runSweep({ ...procedureContext(options, writer), plan: options.plan, sink }));
+  return record(writer, options, (sink) =>
+    runSweep({ ...procedureContext(options, writer), plan: options.plan, sink }),
+  );
 }
 
 export async function recordDrift(options: RecordOptions & { plan: DriftPlan }): Promise<RecordedRun<DriftOutcome>> {
   validateDriftPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'drift', options.plan, DRIFT_COLUMNS);
-  return record(writer, options, (sink) => runDrift({ ...procedureContext(options, writer), plan: options.plan, sink }));
+  return record(writer, options, (sink) =>
+    runDrift({ ...procedureContext(options, writer), plan: options.plan, sink }),
+  );
 }
 
-export async function recordPushing(options: RecordOptions & { plan: PushingPlan }): Promise<RecordedRun<PushingOutcome>> {
+export async function recordPushing(
+  options: RecordOptions & { plan: PushingPlan },
+): Promise<RecordedRun<PushingOutcome>> {
   validatePushingPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'pushing', options.plan, PUSHING_COLUMNS);
-  return record(writer, options, (sink) => runPushing({ ...procedureContext(options, writer), plan: options.plan, sink }));
+  return record(writer, options, (sink) =>
+    runPushing({ ...procedureContext(options, writer), plan: options.plan, sink }),
+  );
 }
 
 /**
@@ -197,7 +233,9 @@ export async function recordPushing(options: RecordOptions & { plan: PushingPlan
  * the gap, time_s carries on from the run's start, and the log runs until
  * its planned duration (counted from the original start) or a stop.
  */
-export async function resumeDrift(options: Omit<RecordOptions, 'dutId' | 'dutNotes'> & { id: string }): Promise<RecordedRun<DriftOutcome>> {
+export async function resumeDrift(
+  options: Omit<RecordOptions, 'dutId' | 'dutNotes'> & { id: string },
+): Promise<RecordedRun<DriftOutcome>> {
   const writer = await reopenRun({ runsDir: options.runsDir, id: options.id, clock: options.clock });
   const meta = writer.meta();
   const parsed = driftPlanSchema.safeParse(meta.plan);
@@ -207,5 +245,10 @@ export async function resumeDrift(options: Omit<RecordOptions, 'dutId' | 'dutNot
   }
   const plan = parsed.data;
   const resumed = { ...options, dutId: meta.dut.id };
-  return record(writer, resumed, (sink) => runDrift({ ...procedureContext(resumed, writer), plan, sink, timeOffsetS: writer.elapsedS() }), false);
+  return record(
+    writer,
+    resumed,
+    (sink) => runDrift({ ...procedureContext(resumed, writer), plan, sink, timeOffsetS: writer.elapsedS() }),
+    false,
+  );
 }

@@ -17,7 +17,12 @@ export interface EdgeBracket {
  * ascending level order. Returns null when there is no stalled→oscillating
  * step (it never stalls, or never starts).
  */
-export function findEdge(levels: Float64Array, stalled: Uint8Array, oscillating: Uint8Array, direction: Direction): EdgeBracket | null {
+export function findEdge(
+  levels: Float64Array,
+  stalled: Uint8Array,
+  oscillating: Uint8Array,
+  direction: Direction,
+): EdgeBracket | null {
   for (let i = levels.length - 2; i >= 0; i--) {
     if (stalled[i] === 1 && oscillating[i + 1] === 1) {
       return { stalledV: levels[i] as number, oscillatingV: levels[i + 1] as number, direction };

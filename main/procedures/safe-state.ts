@@ -50,7 +50,6 @@ interface Check {
   linkTrouble: boolean;
 }
 
-
 export function voltageStep(bench: BenchRoles, channel: number, volts: number, name: string): VerifiedStep {
   return {
     name,
@@ -119,7 +118,11 @@ async function writeUrgently(steps: readonly VerifiedStep[], errors: Map<Verifie
 }
 
 /** Writes `steps`, then proves each by readback (see the module comment). Never throws. */
-export async function driveVerified(bench: BenchRoles, steps: readonly VerifiedStep[], record: (event: EventBody) => void): Promise<SafeStateResult> {
+export async function driveVerified(
+  bench: BenchRoles,
+  steps: readonly VerifiedStep[],
+  record: (event: EventBody) => void,
+): Promise<SafeStateResult> {
   const writeErrors = new Map<VerifiedStep, string>();
   await writeUrgently(steps, writeErrors);
   const checks = new Map<VerifiedStep, Check>();
@@ -139,7 +142,10 @@ export async function driveVerified(bench: BenchRoles, steps: readonly VerifiedS
       record({ type: 'safe-state-reconnect', role: 'supply', ok: false, error: messageOf(error) });
       break;
     }
-    await writeUrgently(steps.filter((step) => checks.get(step)?.ok !== true), writeErrors);
+    await writeUrgently(
+      steps.filter((step) => checks.get(step)?.ok !== true),
+      writeErrors,
+    );
   }
   const failures: string[] = [];
   for (const step of steps) {
@@ -147,15 +153,31 @@ export async function driveVerified(bench: BenchRoles, steps: readonly VerifiedS
     const firstError = writeErrors.get(step);
     const afterReconnect = reconnected && check.ok ? { afterReconnect: true } : {};
     if (check.ok) {
-      record({ type: 'safe-state', step: step.name, channel: step.channel, ok: true, read: check.read, attempts: check.attempts, ...afterReconnect });
+      record({
+        type: 'safe-state',
+        step: step.name,
+        channel: step.channel,
+        ok: true,
+        read: check.read,
+        attempts: check.attempts,
+        ...afterReconnect,
+      });
       continue;
     }
     const read = check.read ?? 'nothing';
     const why = check.error ?? `read back ${read}`;
-    failures.push(`channel ${step.channel} ${step.name} not confirmed after ${check.attempts} readback(s): ${why}${check.read !== null && check.error !== null ? ` (last read ${read})` : ''}`);
+    failures.push(
+      `channel ${step.channel} ${step.name} not confirmed after ${check.attempts} readback(s): ${why}${check.read !== null && check.error !== null ? ` (last read ${read})` : ''}`,
+    );
     record({
-      type: 'safe-state', step: step.name, channel: step.channel, ok: false, read: check.read, attempts: check.attempts,
-      error: why, ...(firstError === undefined ? {} : { firstError }),
+      type: 'safe-state',
+      step: step.name,
+      channel: step.channel,
+      ok: false,
+      read: check.read,
+      attempts: check.attempts,
+      error: why,
+      ...(firstError === undefined ? {} : { firstError }),
     });
   }
   return { ok: failures.length === 0, failures };
@@ -216,11 +238,20 @@ export async function goSafe(
  * drives it to the safe state before any limit is applied; a safe state that
  * cannot be confirmed stops the run before it writes anything else.
  */
-export async function leaveFoundOutput(bench: BenchRoles, channel: number, safe: SafeState, record: (event: EventBody) => void): Promise<void> {
+export async function leaveFoundOutput(
+  bench: BenchRoles,
+  channel: number,
+  safe: SafeState,
+  record: (event: EventBody) => void,
+): Promise<void> {
   const outputOn = await bench.supply.getOutput(channel);
   if (!outputOn) return;
   const setpointV = await bench.supply.getVoltageSetpoint(channel);
   record({ type: 'found-output-on', channel, setpointV });
   const result = await goSafe(bench, channel, safe, record);
-  if (!result.ok) throw new ProcedureFailure('limits', `channel ${channel} was found on at ${setpointV} V and could not be put in the safe state: ${result.failures.join('; ')}`);
+  if (!result.ok)
+    throw new ProcedureFailure(
+      'limits',
+      `channel ${channel} was found on at ${setpointV} V and could not be put in the safe state: ${result.failures.join('; ')}`,
+    );
 }

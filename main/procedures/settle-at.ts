@@ -50,6 +50,13 @@ export async function settleAtSetpoint(
     result = { settled: outcome.settled, waitedS: outcome.elapsedS, readings: outcome.readings };
     if (!outcome.settled) ctx.event({ type: 'settle-timeout', control_v: controlV, waited_s: outcome.elapsedS });
   }
-  ctx.event({ type: 'settled', mode: settle.mode, control_v: controlV, waited_s: result.waitedS, settled: result.settled, readings: result.readings });
+  ctx.event({
+    type: 'settled',
+    mode: settle.mode,
+    control_v: controlV,
+    waited_s: result.waitedS,
+    settled: result.settled,
+    readings: result.readings,
+  });
   return result;
 }

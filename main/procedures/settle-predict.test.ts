@@ -15,7 +15,12 @@ function numericFactor(tauS: number, gateS: number): number {
 
 describe('settling by prediction (first-order lag, common practice)', () => {
   it('averages the remaining error over the gate as the integral of e^(−s/τ) does', () => {
-    for (const [tau, gate] of [[0.05, 0.1], [0.05, 0.01], [0.004, 1], [1, 1e-6]] as const) {
+    for (const [tau, gate] of [
+      [0.05, 0.1],
+      [0.05, 0.01],
+      [0.004, 1],
+      [1, 1e-6],
+    ] as const) {
       expect(gateAverageFactor(tau, gate)).toBeCloseTo(numericFactor(tau, gate), 6);
     }
     // A gate of 2τ keeps 0.432 of the error at its start: (1 − e^−2)/2.
@@ -29,7 +34,10 @@ describe('settling by prediction (first-order lag, common practice)', () => {
     const tolHz = 10;
     const startS = predictedStartS(tau, gate, stepHz, tolHz);
     // The reading's mean error with the predicted step (margin included) is exactly target × tolerance there.
-    expect(STEP_MARGIN * stepHz * gateAverageFactor(tau, gate) * Math.exp(-startS / tau)).toBeCloseTo(TARGET_FRACTION * tolHz, 9);
+    expect(STEP_MARGIN * stepHz * gateAverageFactor(tau, gate) * Math.exp(-startS / tau)).toBeCloseTo(
+      TARGET_FRACTION * tolHz,
+      9,
+    );
     // Shorter than the settle-to-the-gate-start rule τ·ln(step/tol), since the gate averages the tail.
     expect(startS).toBeLessThan(tau * Math.log(stepHz / tolHz));
     expect(predictedStartS(tau, gate, 1, tolHz)).toBe(0);
@@ -54,7 +62,13 @@ describe('settling by prediction (first-order lag, common practice)', () => {
     const bench = fakeBench(clock, { ...TOY_DUT, tauS: 0.05 });
     const sink = new MemorySink();
     const plan = sweepPlanSchema.parse({
-      start: 1.5, stop: 2, step: 0.01, readingsPerPoint: 3, gateS: 0.01, settle: { mode: 'auto', maxS: 2 }, refineEdgeV: 0,
+      start: 1.5,
+      stop: 2,
+      step: 0.01,
+      readingsPerPoint: 3,
+      gateS: 0.01,
+      settle: { mode: 'auto', maxS: 2 },
+      refineEdgeV: 0,
       limits: { maxControlV: 5, currentLimitA: 0.05 },
     });
     const outcome = await clock.runUntil(runSweep({ bench, plan, clock, sink }));
@@ -63,7 +77,11 @@ describe('settling by prediction (first-order lag, common practice)', () => {
     // Reads beyond the recorded ones: the τ probe and the first points only (watching would cost ≥ 1 per point).
     expect(bench.counter.reads - sink.rows.length).toBeLessThanOrEqual(20);
     let worstHz = 0;
-    for (const row of sink.rows) worstHz = Math.max(worstHz, Math.abs((row.frequency_hz as number) - TOY_DUT.frequencyAtV(row.control_v as number)));
+    for (const row of sink.rows)
+      worstHz = Math.max(
+        worstHz,
+        Math.abs((row.frequency_hz as number) - TOY_DUT.frequencyAtV(row.control_v as number)),
+      );
     expect(worstHz).toBeLessThanOrEqual(200 + 100); // tolerance plus the ±1-count quantisation
   });
 });

@@ -40,7 +40,13 @@ export function predictedStartS(tauS: number, gateS: number, expectedStepHz: num
  * from what it shows of the step (`frequencyHz − beforeHz`). Nothing is
  * taken off for noise: it may only err towards reading again.
  */
-export function readingErrorHz(tauS: number, gateS: number, startS: number, frequencyHz: number, beforeHz: number): number {
+export function readingErrorHz(
+  tauS: number,
+  gateS: number,
+  startS: number,
+  frequencyHz: number,
+  beforeHz: number,
+): number {
   const left = gateAverageFactor(tauS, gateS) * Math.exp(-Math.max(0, startS) / tauS);
   if (!(left < 1)) return Number.POSITIVE_INFINITY;
   const stepHz = Math.abs(frequencyHz - beforeHz) / (1 - left);

@@ -38,7 +38,13 @@ export async function probeTimeConstant(
   if (plan.settle.mode !== 'auto') return { tauS: null, endHz: Number.NaN };
   const stepAtS = ctx.clock.now();
   await ctx.bench.supply.setVoltage(ctx.bench.controlChannel, toV);
-  const options = { gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, trace: state.trace };
+  const options = {
+    gateS: plan.gateS,
+    maxS: plan.settle.maxS,
+    toleranceCounts: plan.settle.toleranceCounts,
+    scatterHz: state.scatterHz,
+    trace: state.trace,
+  };
   const settled = await settleAuto(ctx.clock, stepAtS, () => ctx.readFrequency(), options, state.tau, signal);
   const trace = state.trace;
   let sum = 0;

@@ -19,7 +19,16 @@ async function sweep(settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; s
   const clock = new VirtualClock({ autoAdvance: true });
   const bench = await assembleBench('sim', { clock, sim: { dut: slow, seed: 5 } });
   const sink = new MemorySink();
-  const plan = sweepPlanSchema.parse({ start: 2, stop: 3.5, step: 0.05, readingsPerPoint: 3, gateS: 0.01, settle, refineEdgeV: 0, limits: { maxControlV: 5, currentLimitA: 0.02 } });
+  const plan = sweepPlanSchema.parse({
+    start: 2,
+    stop: 3.5,
+    step: 0.05,
+    readingsPerPoint: 3,
+    gateS: 0.01,
+    settle,
+    refineEdgeV: 0,
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
+  });
   await runSweep({ bench, plan, clock, sink });
   await bench.close();
   const means = new Map<number, number>();
@@ -35,16 +44,21 @@ async function sweep(settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; s
 }
 
 describe('automatic settling on the simulated bench (τ = 50 ms, gate 10 ms)', () => {
-  it('learns τ, agrees with a fixed 0.5 s settle within 2 counts, and takes well under half the time', { timeout: 60_000 }, async () => {
-    const auto = await sweep({ mode: 'auto', maxS: 2 });
-    const fixed = await sweep({ mode: 'fixed', seconds: 0.5 });
-    // τ is learned from the probe or, when the sweep starts below the stall edge, from the first step that shows it.
-    const learned = auto.sink.events.find((e) => e.type === 'settle-probe' || e.type === 'settle-tau');
-    expect(learned?.tauS as number).toBeGreaterThan(0.035);
-    expect(learned?.tauS as number).toBeLessThan(0.065);
-    let worstHz = 0;
-    for (const [v, fAuto] of auto.means) worstHz = Math.max(worstHz, Math.abs(fAuto - (fixed.means.get(v) as number)));
-    expect(worstHz).toBeLessThanOrEqual(200);
-    expect(auto.durationS / fixed.durationS).toBeLessThan(0.5);
-  });
+  it(
+    'learns τ, agrees with a fixed 0.5 s settle within 2 counts, and takes well under half the time',
+    { timeout: 60_000 },
+    async () => {
+      const auto = await sweep({ mode: 'auto', maxS: 2 });
+      const fixed = await sweep({ mode: 'fixed', seconds: 0.5 });
+      // τ is learned from the probe or, when the sweep starts below the stall edge, from the first step that shows it.
+      const learned = auto.sink.events.find((e) => e.type === 'settle-probe' || e.type === 'settle-tau');
+      expect(learned?.tauS as number).toBeGreaterThan(0.035);
+      expect(learned?.tauS as number).toBeLessThan(0.065);
+      let worstHz = 0;
+      for (const [v, fAuto] of auto.means)
+        worstHz = Math.max(worstHz, Math.abs(fAuto - (fixed.means.get(v) as number)));
+      expect(worstHz).toBeLessThanOrEqual(200);
+      expect(auto.durationS / fixed.durationS).toBeLessThan(0.5);
+    },
+  );
 });

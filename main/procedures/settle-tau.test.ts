@@ -61,7 +61,15 @@ describe('settleAuto rule 1 (τ and the value before the step known)', () => {
       return { status: 'ok', frequencyHz: counts / GATE_S, detail: null, errorName: null };
     };
     const outcome = await clock.runUntil(
-      settleAuto(clock, stepAtS, read, { gateS: GATE_S, maxS: 2, toleranceCounts: 2, scatterHz: 0, expectedStepHz }, tau, undefined, beforeHz),
+      settleAuto(
+        clock,
+        stepAtS,
+        read,
+        { gateS: GATE_S, maxS: 2, toleranceCounts: 2, scatterHz: 0, expectedStepHz },
+        tau,
+        undefined,
+        beforeHz,
+      ),
     );
     return { outcome, remainingHz: stepHz * Math.exp(-(outcome.elapsedS - GATE_S / 2) / 0.05) };
   }

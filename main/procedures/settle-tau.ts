@@ -74,7 +74,8 @@ export class TimeConstantEstimate {
     let latest = 0;
     for (let i = 1; i < n; i++) if ((times[i] as number) > (times[latest] as number)) latest = i;
     let moving = 0;
-    for (let i = 0; i < n; i++) if (Math.abs((values[i] as number) - (values[latest] as number)) > minStepHz / 10) moving++;
+    for (let i = 0; i < n; i++)
+      if (Math.abs((values[i] as number) - (values[latest] as number)) > minStepHz / 10) moving++;
     if (moving < 3) return null;
     // τ between a hundredth and the whole of the time covered, searched on a log scale.
     let lo = Math.log(tMax / 100);

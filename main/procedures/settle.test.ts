@@ -9,12 +9,22 @@ import { MemorySink, TOY_DUT, fakeBench } from './testing/fake-bench.ts';
  * known time constant; counter gate 10 ms, so one count is 100 Hz. A first-
  * order lag leaves e^(−t/τ) of a step (common practice).
  */
-async function sweepWith(tauS: number, settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number }, step = 0.01) {
+async function sweepWith(
+  tauS: number,
+  settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number },
+  step = 0.01,
+) {
   const clock = new VirtualClock();
   const bench = fakeBench(clock, { ...TOY_DUT, tauS });
   const sink = new MemorySink();
   const plan = sweepPlanSchema.parse({
-    start: 1.5, stop: 2, step, readingsPerPoint: 3, gateS: 0.01, settle, refineEdgeV: 0,
+    start: 1.5,
+    stop: 2,
+    step,
+    readingsPerPoint: 3,
+    gateS: 0.01,
+    settle,
+    refineEdgeV: 0,
     limits: { maxControlV: 5, currentLimitA: 0.05 },
   });
   const outcome = await clock.runUntil(runSweep({ bench, plan, clock, sink }));
@@ -23,7 +33,8 @@ async function sweepWith(tauS: number, settle: { mode: 'auto'; maxS: number } | 
 
 function worstErrorHz(rows: Record<string, number | string>[]): number {
   let worst = 0;
-  for (const row of rows) worst = Math.max(worst, Math.abs((row.frequency_hz as number) - TOY_DUT.frequencyAtV(row.control_v as number)));
+  for (const row of rows)
+    worst = Math.max(worst, Math.abs((row.frequency_hz as number) - TOY_DUT.frequencyAtV(row.control_v as number)));
   return worst;
 }
 

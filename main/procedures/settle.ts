@@ -156,8 +156,13 @@ export async function settleAuto(
   const done = (settled: boolean, reading: CounterReading, atS: number, readings: number): SettleOutcome => {
     const believedNoSignal = settled && reading.status === 'no-signal';
     return {
-      settled, elapsedS: atS - stepAtS, readings, toleranceHz: tolHz, last: settled ? { reading, atS } : null,
-      held: believedNoSignal ? noSignalRun.slice(0, -1) : [], provisional: believedNoSignal && provisional,
+      settled,
+      elapsedS: atS - stepAtS,
+      readings,
+      toleranceHz: tolHz,
+      last: settled ? { reading, atS } : null,
+      held: believedNoSignal ? noSignalRun.slice(0, -1) : [],
+      provisional: believedNoSignal && provisional,
     };
   };
   const remember = (reading: CounterReading, atS: number): void => {
@@ -184,7 +189,10 @@ export async function settleAuto(
     // Read next where the rest should be within tolerance by a margin: one jump instead of creeping up.
     // Only the time of that reading rests on this estimate, not the decision, so early in the step
     // (a small done fraction magnifies the ±1-count quantisation) the noise is taken off here.
-    const plannedStepHz = Math.max(Math.max(0, Math.abs(reading.frequencyHz - beforeStepHz) - noiseHz) / doneFraction, options.expectedStepHz ?? 0);
+    const plannedStepHz = Math.max(
+      Math.max(0, Math.abs(reading.frequencyHz - beforeStepHz) - noiseHz) / doneFraction,
+      options.expectedStepHz ?? 0,
+    );
     const targetCentreS = tauEffS * Math.log(Math.max(1, Math.min(stepHz, plannedStepHz) / (tolHz * TARGET_FRACTION)));
     return Math.max(gateS, targetCentreS + half + stepAtS - atS);
   };

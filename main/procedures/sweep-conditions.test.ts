@@ -20,8 +20,15 @@ import { MemorySink } from './testing/fake-bench.ts';
 import type { BenchRoles } from './types.ts';
 
 const plan = sweepPlanSchema.parse({
-  start: 1.6, stop: 3, step: 0.1, readingsPerPoint: 2, gateS: 0.05, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0,
-  limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0.5, outputOff: true },
+  start: 1.6,
+  stop: 3,
+  step: 0.1,
+  readingsPerPoint: 2,
+  gateS: 0.05,
+  settle: { mode: 'fixed', seconds: 0.05 },
+  refineEdgeV: 0,
+  limits: { maxControlV: 5, currentLimitA: 0.02 },
+  safe: { controlV: 0.5, outputOff: true },
 });
 
 /** A sweep on the simulated relaxation DUT into a memory sink, with the bench's roles changed by `tweak`. */
@@ -78,7 +85,20 @@ describe('sweep conditions', () => {
       expect(stored?.temperatureC.end).toBe(conditions[1]?.temperature_c);
       expect(recorded.meta.conditions).toEqual(stored);
       // Additive: the contract's keys are all still there.
-      expect(Object.keys(run.meta)).toEqual(expect.arrayContaining(['schema', 'id', 'kind', 'status', 'startedAt', 'endedAt', 'dut', 'instruments', 'plan', 'software']));
+      expect(Object.keys(run.meta)).toEqual(
+        expect.arrayContaining([
+          'schema',
+          'id',
+          'kind',
+          'status',
+          'startedAt',
+          'endedAt',
+          'dut',
+          'instruments',
+          'plan',
+          'software',
+        ]),
+      );
     });
   });
 

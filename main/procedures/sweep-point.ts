@@ -62,14 +62,31 @@ export interface PointState {
 }
 
 export function newPointState(plan: SweepPlan): PointState {
-  return { scatterHz: 0, readingsHz: new Float64Array(readingsRule(plan).max), tau: new TimeConstantEstimate(), lastMeanHz: Number.NaN, lastStepHz: 0, trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 }, fromElsewhere: false, provisionalChain: false, pathMeanHz: Number.NaN };
+  return {
+    scatterHz: 0,
+    readingsHz: new Float64Array(readingsRule(plan).max),
+    tau: new TimeConstantEstimate(),
+    lastMeanHz: Number.NaN,
+    lastStepHz: 0,
+    trace: { timesS: new Float64Array(64), valuesHz: new Float64Array(64), n: 0 },
+    fromElsewhere: false,
+    provisionalChain: false,
+    pathMeanHz: Number.NaN,
+  };
 }
 
 export async function measurePoint(
   ctx: ProcedureContext,
   plan: SweepPlan,
   state: PointState,
-  point: { controlV: number; direction: Direction; refined: boolean; index: number; afterOutputOn?: boolean; previouslyProvisional?: boolean },
+  point: {
+    controlV: number;
+    direction: Direction;
+    refined: boolean;
+    index: number;
+    afterOutputOn?: boolean;
+    previouslyProvisional?: boolean;
+  },
   signal: AbortSignal,
   /** Where the point's rows go instead of the run, when the caller may hold them back (a provisional "no signal"). */
   held?: SampleRow[],
@@ -91,23 +108,39 @@ export async function measurePoint(
       stepAtS,
       () => ctx.readFrequency(),
       {
-        gateS: plan.gateS, maxS: plan.settle.maxS, toleranceCounts: plan.settle.toleranceCounts, scatterHz: state.scatterHz, afterOutputOn: point.afterOutputOn,
-        trace: state.trace, expectedStepHz: state.lastStepHz,
+        gateS: plan.gateS,
+        maxS: plan.settle.maxS,
+        toleranceCounts: plan.settle.toleranceCounts,
+        scatterHz: state.scatterHz,
+        afterOutputOn: point.afterOutputOn,
+        trace: state.trace,
+        expectedStepHz: state.lastStepHz,
         // From switch-on until something oscillates, with τ unknown: the point's own readings decide
         // (the last of them ends by then), checked against τ once learned (sweep.ts).
-        provisionalAfterS: point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain) ? (readingsRule(plan).min - 0.5) * plan.gateS : undefined,
+        provisionalAfterS:
+          point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain)
+            ? (readingsRule(plan).min - 0.5) * plan.gateS
+            : undefined,
       },
       state.tau,
       signal,
       state.lastMeanHz,
     );
     settled = outcome.settled;
-    if (outcome.last !== null && (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')) {
+    if (
+      outcome.last !== null &&
+      (outcome.last.reading.status === 'ok' || outcome.last.reading.status === 'no-signal')
+    ) {
       settledReadings = [...outcome.held, outcome.last].slice(-readingsRule(plan).max);
     }
     if (outcome.provisional && outcome.last !== null) provisionalAtS = outcome.last.atS;
     if (!settled) {
-      ctx.event({ type: 'settle-timeout', point_index: point.index, control_v: point.controlV, waited_s: outcome.elapsedS });
+      ctx.event({
+        type: 'settle-timeout',
+        point_index: point.index,
+        control_v: point.controlV,
+        waited_s: outcome.elapsedS,
+      });
     }
   }
   const settleS = ctx.clock.now() - stepAtS;
@@ -158,7 +191,8 @@ export async function measurePoint(
   // The step between neighbours on the sweep's path predicts the next one — also right after a
   // detour (the probe voltage); a bisection or a point measured again says nothing about it.
   if (!point.refined && point.previouslyProvisional !== true) {
-    state.lastStepHz = Number.isFinite(meanHz) && Number.isFinite(state.pathMeanHz) ? Math.abs(meanHz - state.pathMeanHz) : 0;
+    state.lastStepHz =
+      Number.isFinite(meanHz) && Number.isFinite(state.pathMeanHz) ? Math.abs(meanHz - state.pathMeanHz) : 0;
     state.pathMeanHz = meanHz;
   } else if (point.refined) {
     state.lastStepHz = 0;
@@ -169,11 +203,25 @@ export async function measurePoint(
   // Learn the port's time constant from this point's settling, now that its end value is known —
   // only from a step between two oscillating levels (not from switch-on or out of the stalled
   // region: such a step crosses the stall edge, where f(V) is far from a straight line).
-  if (plan.settle.mode === 'auto' && point.afterOutputOn !== true && Number.isFinite(beforeHz) && Number.isFinite(meanHz)) {
+  if (
+    plan.settle.mode === 'auto' &&
+    point.afterOutputOn !== true &&
+    Number.isFinite(beforeHz) &&
+    Number.isFinite(meanHz)
+  ) {
     state.tau.fitStep(trace.timesS, trace.valuesHz, trace.n, minFitStepHz(plan.gateS));
   }
   state.provisionalChain = provisionalAtS !== null && !oscillating;
-  return { oscillating, stalled: noSignal === taken, readingsTaken: taken, settled, settleS, lastFrequencyHz, lastStatus, provisionalAtS };
+  return {
+    oscillating,
+    stalled: noSignal === taken,
+    readingsTaken: taken,
+    settled,
+    settleS,
+    lastFrequencyHz,
+    lastStatus,
+    provisionalAtS,
+  };
 }
 
 /**
@@ -193,7 +241,13 @@ async function measureControlV(ctx: ProcedureContext, channel: number): Promise<
   } catch (error) {
     // A failed read-back loses one column of one point, not the run.
     if (error instanceof TimeoutError || error instanceof InstrumentError || error instanceof ReplyFormatError) {
-      ctx.event({ type: 'fault', role: 'supply', operation: 'measure-voltage', error: error.message, errorName: error.name });
+      ctx.event({
+        type: 'fault',
+        role: 'supply',
+        operation: 'measure-voltage',
+        error: error.message,
+        errorName: error.name,
+      });
       return Number.NaN;
     }
     throw error;

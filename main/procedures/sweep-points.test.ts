@@ -30,8 +30,12 @@ describe('sweepSchedule', () => {
   });
 
   it('refuses negative voltages and oversize plans, naming the field', () => {
-    expect(() => sweepSchedule(sweepPlanSchema.parse({ start: -1, stop: 2, step: 0.5, limits }))).toThrow(/start: -1 V is negative/);
-    expect(() => sweepSchedule(sweepPlanSchema.parse({ start: 0, stop: 5, step: 1e-6, limits }))).toThrow(/step: .* more than 100000 points/);
+    expect(() => sweepSchedule(sweepPlanSchema.parse({ start: -1, stop: 2, step: 0.5, limits }))).toThrow(
+      /start: -1 V is negative/,
+    );
+    expect(() => sweepSchedule(sweepPlanSchema.parse({ start: 0, stop: 5, step: 1e-6, limits }))).toThrow(
+      /step: .* more than 100000 points/,
+    );
   });
 });
 
@@ -68,11 +72,27 @@ describe('pushing arithmetic and progress text', () => {
   it('prints plain lines off a terminal and a bar on one', () => {
     let text = '';
     const plain = createProgressDisplay({ write: (t: string) => (text += t), isTTY: false }, () => 0);
-    plain.update({ runId: 'r', kind: 'sweep', phase: 'reading', pointsDone: 5, pointsTotal: 10, etaS: 75, latest: { controlV: 1.5, frequencyHz: 12_345, status: 'ok' } });
+    plain.update({
+      runId: 'r',
+      kind: 'sweep',
+      phase: 'reading',
+      pointsDone: 5,
+      pointsTotal: 10,
+      etaS: 75,
+      latest: { controlV: 1.5, frequencyHz: 12_345, status: 'ok' },
+    });
     expect(text).toBe('reading 5/10 points  ETA 1 min 15 s  1.5000 V → 12.3450 kHz\n');
     text = '';
     const tty = createProgressDisplay({ write: (t: string) => (text += t), isTTY: true });
-    tty.update({ runId: 'r', kind: 'sweep', phase: 'reading', pointsDone: 5, pointsTotal: 10, etaS: null, latest: null });
+    tty.update({
+      runId: 'r',
+      kind: 'sweep',
+      phase: 'reading',
+      pointsDone: 5,
+      pointsTotal: 10,
+      etaS: null,
+      latest: null,
+    });
     expect(text).toMatch(/^\r\x1b\[2K\[#{12}\.{12}\] reading 5\/10 points {2}ETA —$/);
     expect(formatClockDuration(3 * 3600 + 125)).toBe('3 h 02 min');
   });

@@ -16,11 +16,22 @@ import { runSweep, type SweepOptions } from './sweep.ts';
 import { MemorySink } from './testing/fake-bench.ts';
 
 const plan = sweepPlanSchema.parse({
-  start: 1.6, stop: 3, step: 0.1, readingsPerPoint: 2, gateS: 0.05, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0,
-  limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0.5, outputOff: true },
+  start: 1.6,
+  stop: 3,
+  step: 0.1,
+  readingsPerPoint: 2,
+  gateS: 0.05,
+  settle: { mode: 'fixed', seconds: 0.05 },
+  refineEdgeV: 0,
+  limits: { maxControlV: 5, currentLimitA: 0.02 },
+  safe: { controlV: 0.5, outputOff: true },
 });
 
-async function simSweep(faults: FaultSpec[] = [], tweak?: (bench: AssembledBench) => void, extra: Partial<SweepOptions> = {}) {
+async function simSweep(
+  faults: FaultSpec[] = [],
+  tweak?: (bench: AssembledBench) => void,
+  extra: Partial<SweepOptions> = {},
+) {
   const clock = new VirtualClock({ autoAdvance: true });
   const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation', faults } });
   tweak?.(bench);
@@ -47,7 +58,10 @@ describe('sweep ways out on the simulated bench', () => {
 
   it('operator stop', async () => {
     const control = new RunControl();
-    const { outcome, control: state } = await simSweep([], undefined, { control, onProgress: (p) => p.pointsDone === 4 && control.stop() });
+    const { outcome, control: state } = await simSweep([], undefined, {
+      control,
+      onProgress: (p) => p.pointsDone === 4 && control.stop(),
+    });
     expect(outcome.status).toBe('aborted');
     expect(outcome.reason).toBe('stop');
     expectSafe(state);
@@ -55,13 +69,18 @@ describe('sweep ways out on the simulated bench', () => {
 
   it('pause timeout', async () => {
     const control = new RunControl({ pauseTimeoutS: 30 });
-    const { outcome, control: state } = await simSweep([], undefined, { control, onProgress: (p) => p.pointsDone === 2 && control.pause() });
+    const { outcome, control: state } = await simSweep([], undefined, {
+      control,
+      onProgress: (p) => p.pointsDone === 2 && control.pause(),
+    });
     expect(outcome.reason).toBe('pause-timeout');
     expectSafe(state);
   });
 
   it('instrument error (an entry in the supply error queue)', async () => {
-    const { outcome, control } = await simSweep([{ type: 'error', device: 'supply', atS: 1, code: -222, message: 'Data out of range' }]);
+    const { outcome, control } = await simSweep([
+      { type: 'error', device: 'supply', atS: 1, code: -222, message: 'Data out of range' },
+    ]);
     expect(outcome.status).toBe('aborted');
     expect(outcome.failure?.kind).toBe('instrument-error');
     expect(outcome.failure?.message).toMatch(/-222/);
@@ -87,7 +106,10 @@ describe('sweep ways out on the simulated bench', () => {
     const control = new RunControl();
     const fakeProcess = new EventEmitter();
     const dispose = stopOnSignals(control, fakeProcess);
-    const { outcome, control: state } = await simSweep([], undefined, { control, onProgress: (p) => p.pointsDone === 3 && fakeProcess.emit('SIGINT') });
+    const { outcome, control: state } = await simSweep([], undefined, {
+      control,
+      onProgress: (p) => p.pointsDone === 3 && fakeProcess.emit('SIGINT'),
+    });
     dispose();
     expect(outcome.reason).toBe('signal');
     expectSafe(state);
@@ -97,7 +119,8 @@ describe('sweep ways out on the simulated bench', () => {
     let calls = 0;
     const { outcome, control } = await simSweep([], (bench) => {
       const read = bench.counter.readFrequency.bind(bench.counter);
-      bench.counter.readFrequency = () => (++calls === 5 ? Promise.reject(new TypeError('x is not a function')) : read());
+      bench.counter.readFrequency = () =>
+        ++calls === 5 ? Promise.reject(new TypeError('x is not a function')) : read();
     });
     expect(outcome.failure?.kind).toBe('internal');
     expectSafe(control);

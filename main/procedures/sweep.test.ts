@@ -26,7 +26,8 @@ function setup(overrides: Partial<SweepPlanInput> = {}) {
   const bench = fakeBench(clock);
   const sink = new MemorySink();
   const plan = sweepPlanSchema.parse({ ...BASE, ...overrides });
-  const run = (extra: Partial<SweepOptions> = {}) => clock.runUntil(runSweep({ bench, plan, clock, sink, ...extra }), { limitS: 1e5 });
+  const run = (extra: Partial<SweepOptions> = {}) =>
+    clock.runUntil(runSweep({ bench, plan, clock, sink, ...extra }), { limitS: 1e5 });
   return { clock, bench, sink, plan, run };
 }
 
@@ -70,7 +71,9 @@ describe('runSweep', () => {
     const bench = fakeBench(clock);
     const plan = sweepPlanSchema.parse({ ...BASE, stop: 6 });
     await expect(runSweep({ bench, plan, clock, sink: new MemorySink() })).rejects.toThrow(LimitsError);
-    await expect(runSweep({ bench, plan, clock, sink: new MemorySink() })).rejects.toThrow(/stop: 6 V exceeds limits.maxControlV \(5 V\)/);
+    await expect(runSweep({ bench, plan, clock, sink: new MemorySink() })).rejects.toThrow(
+      /stop: 6 V exceeds limits.maxControlV \(5 V\)/,
+    );
     const listed = sweepPlanSchema.parse({ ...BASE, points: [1, 2, 5.01] });
     await expect(runSweep({ bench, plan: listed, clock, sink: new MemorySink() })).rejects.toThrow(/points\[2\]/);
     const badSafe = sweepPlanSchema.parse({ ...BASE, safe: { controlV: 7 } });
@@ -135,7 +138,9 @@ describe('runSweep', () => {
   it('way out: instrument error on the supply → aborted with failure, safe', async () => {
     const { bench, run } = setup();
     bench.supply.failWith = (op, _ch, value) =>
-      op === 'setVoltage' && Math.abs((value as number) - 1.2) < 1e-9 ? new InstrumentError([{ code: -222, message: 'Data out of range' }], 'VOLT 1.2') : null;
+      op === 'setVoltage' && Math.abs((value as number) - 1.2) < 1e-9
+        ? new InstrumentError([{ code: -222, message: 'Data out of range' }], 'VOLT 1.2')
+        : null;
     const outcome = await run();
     expect(outcome.status).toBe('aborted');
     expect(outcome.failure?.kind).toBe('instrument-error');
@@ -184,7 +189,8 @@ describe('runSweep', () => {
 
   it('way out: a bug (uncaught TypeError) in a driver → aborted as internal, safe', async () => {
     const { bench, run } = setup();
-    bench.counter.override = (i) => (i === 3 ? new TypeError("Cannot read properties of undefined (reading 'x')") : null);
+    bench.counter.override = (i) =>
+      i === 3 ? new TypeError("Cannot read properties of undefined (reading 'x')") : null;
     const outcome = await run();
     expect(outcome.failure?.kind).toBe('internal');
     expect(outcome.failure?.message).toMatch(/TypeError/);
@@ -194,7 +200,10 @@ describe('runSweep', () => {
   it('a failing safe-state step does not stop the next one', async () => {
     const { bench, sink, run } = setup();
     const control = new RunControl();
-    bench.supply.failWith = (op, _ch, value) => (control.signal.aborted && op === 'setVoltage' && value === 0.25 ? new InstrumentError([{ code: -300, message: 'Device-specific error' }]) : null);
+    bench.supply.failWith = (op, _ch, value) =>
+      control.signal.aborted && op === 'setVoltage' && value === 0.25
+        ? new InstrumentError([{ code: -300, message: 'Device-specific error' }])
+        : null;
     const outcome = await run({ control, onProgress: (p) => p.pointsDone === 2 && control.stop() });
     expect(outcome.safeStateOk).toBe(false);
     expect(bench.supply.channel(1).output).toBe(false);

@@ -55,7 +55,13 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
   const levels = schedule.levels;
   const stalled = [new Uint8Array(levels.length), new Uint8Array(levels.length)];
   const oscillating = [new Uint8Array(levels.length), new Uint8Array(levels.length)];
-  const progress = new ProgressReporter(clock, 'sweep', options.runId ?? '', schedule.controlV.length, options.onProgress);
+  const progress = new ProgressReporter(
+    clock,
+    'sweep',
+    options.runId ?? '',
+    schedule.controlV.length,
+    options.onProgress,
+  );
   const outcome: SweepOutcome = {
     kind: 'sweep',
     status: 'complete',
@@ -75,7 +81,12 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     await control.checkpoint(clock);
     await leaveFoundOutput(bench, channel, plan.safe, (event) => ctx.event(event));
     const { ovpApplied } = await applyLimits(bench.supply, channel, plan.limits);
-    ctx.event({ type: 'limits', currentLimitA: plan.limits.currentLimitA, ovpV: ovpApplied ? ovpLevelV(plan.limits) : null, maxControlV: plan.limits.maxControlV });
+    ctx.event({
+      type: 'limits',
+      currentLimitA: plan.limits.currentLimitA,
+      ovpV: ovpApplied ? ovpLevelV(plan.limits) : null,
+      maxControlV: plan.limits.maxControlV,
+    });
     await bench.counter.setGate(plan.gateS);
     await bench.supply.setVoltage(channel, schedule.controlV[0] as number);
     await bench.supply.setOutput(channel, true);
@@ -109,11 +120,32 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
         await control.checkpoint(clock);
         const controlV = schedule.controlV[p.i] as number;
         const pass = schedule.pass[p.i] as number;
-        ctx.event({ type: 'remeasure', point_index: p.i, control_v: controlV, reason: tauS === null ? 'no time constant learned' : `no signal read ${sinceOnS.toFixed(3)} s after switch-on, under 3τ` });
+        ctx.event({
+          type: 'remeasure',
+          point_index: p.i,
+          control_v: controlV,
+          reason:
+            tauS === null
+              ? 'no time constant learned'
+              : `no signal read ${sinceOnS.toFixed(3)} s after switch-on, under 3τ`,
+        });
         // The step is from wherever the sweep is now: its size is no guide (lastMeanHz, where the port is, still is).
         state.lastStepHz = 0;
         state.fromElsewhere = true;
-        const result = await measurePoint(ctx, plan, state, { controlV, direction: pass === 0 ? 'up' : 'down', refined: false, index: p.i, afterOutputOn: tauS === null, previouslyProvisional: true }, control.signal);
+        const result = await measurePoint(
+          ctx,
+          plan,
+          state,
+          {
+            controlV,
+            direction: pass === 0 ? 'up' : 'down',
+            refined: false,
+            index: p.i,
+            afterOutputOn: tauS === null,
+            previouslyProvisional: true,
+          },
+          control.signal,
+        );
         const level = pass === 0 ? p.i : schedule.controlV.length - 1 - p.i;
         (stalled[pass] as Uint8Array)[level] = result.stalled ? 1 : 0;
         (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
@@ -128,7 +160,15 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       const direction = pass === 0 ? 'up' : 'down';
       const mayHold = plan.settle.mode === 'auto' && state.tau.tauS === null && (i === 0 || state.provisionalChain);
       const held: SampleRow[] | undefined = mayHold ? [] : undefined;
-      const measure = () => measurePoint(ctx, plan, state, { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 }, control.signal, held);
+      const measure = () =>
+        measurePoint(
+          ctx,
+          plan,
+          state,
+          { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 },
+          control.signal,
+          held,
+        );
       // The step back from the probe voltage is the probe's cost, not a point's: it stays out of the ETA too.
       const result = await (state.fromElsewhere ? progress.excludingPoint(measure) : measure());
       if (held && result.provisionalAtS !== null) provisional.push({ i, atS: result.provisionalAtS, rows: held });
@@ -143,11 +183,20 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
       outcome.pointsDone = i + 1;
       progress.report('reading', i + 1, { controlV, frequencyHz: result.lastFrequencyHz, status: result.lastStatus });
-      if (plan.settle.mode === 'auto' && !probed && result.oscillating && i + 1 < schedule.controlV.length && state.tau.tauS === null) {
+      if (
+        plan.settle.mode === 'auto' &&
+        !probed &&
+        result.oscillating &&
+        i + 1 < schedule.controlV.length &&
+        state.tau.tauS === null
+      ) {
         probed = true;
         const target = probeTarget(levels, controlV, pass === 0);
         // The probe is no point of the plan: its time stays out of the ETA's time per point.
-        const probe = target === null ? null : await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
+        const probe =
+          target === null
+            ? null
+            : await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
         tauNoted = state.tau.tauS !== null;
         // The next point starts from the probe voltage, settled there: that is its "before" value
         // (NaN if the probe saw no oscillation); its step is not like the last one.
@@ -160,9 +209,10 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     // Points still provisional (τ never learned): measured again, waiting maxS for a "no signal".
     await resolveProvisional();
 
-    const bracket = plan.direction === 'down'
-      ? findEdge(levels, stalled[1] as Uint8Array, oscillating[1] as Uint8Array, 'down')
-      : findEdge(levels, stalled[0] as Uint8Array, oscillating[0] as Uint8Array, 'up');
+    const bracket =
+      plan.direction === 'down'
+        ? findEdge(levels, stalled[1] as Uint8Array, oscillating[1] as Uint8Array, 'down')
+        : findEdge(levels, stalled[0] as Uint8Array, oscillating[0] as Uint8Array, 'up');
     outcome.edge = bracket;
     if (bracket !== null && plan.refineEdgeV > 0) {
       const steps = bisectionSteps(bracket.oscillatingV - bracket.stalledV, plan.refineEdgeV);
@@ -171,22 +221,42 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       ctx.event({ type: 'refine-start', stalledV: bracket.stalledV, oscillatingV: bracket.oscillatingV, steps });
       outcome.edge = await bisectEdge(bracket, plan.refineEdgeV, async (controlV) => {
         await control.checkpoint(clock);
-        const result = await measurePoint(ctx, plan, state, { controlV, direction: bracket.direction, refined: true, index }, control.signal);
+        const result = await measurePoint(
+          ctx,
+          plan,
+          state,
+          { controlV, direction: bracket.direction, refined: true, index },
+          control.signal,
+        );
         index++;
         outcome.refinedPoints++;
-        progress.report('refining', index, { controlV, frequencyHz: result.lastFrequencyHz, status: result.lastStatus });
+        progress.report('refining', index, {
+          controlV,
+          frequencyHz: result.lastFrequencyHz,
+          status: result.lastStatus,
+        });
         if (result.oscillating) return true;
         return result.stalled ? false : null;
       });
       progress.total = index;
-      ctx.event({ type: 'refine-end', stalledV: outcome.edge.stalledV, oscillatingV: outcome.edge.oscillatingV, points: outcome.refinedPoints });
+      ctx.event({
+        type: 'refine-end',
+        stalledV: outcome.edge.stalledV,
+        oscillatingV: outcome.edge.oscillatingV,
+        points: outcome.refinedPoints,
+      });
     }
   } catch (error) {
     recordRunEnd(outcome, ctx, error);
   } finally {
     // End conditions after the safe state, so a slow or failing read cannot hold it up.
     const conditions = outcome.conditions;
-    const afterSafe = conditions ? async () => { await recordConditions(ctx, 'end', conditions); return []; } : undefined;
+    const afterSafe = conditions
+      ? async () => {
+          await recordConditions(ctx, 'end', conditions);
+          return [];
+        }
+      : undefined;
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;

@@ -5,7 +5,13 @@
  * 12-hour drift log runs on a virtual clock in seconds.
  */
 import type { Counter, RoleName, Supply, Thermometer } from '../instruments/roles.ts';
-import type { ProgressInfo, RecordedConditions, RunKind, RunStatus, SampleStatus } from '../../app/contract/bench-api.ts';
+import type {
+  ProgressInfo,
+  RecordedConditions,
+  RunKind,
+  RunStatus,
+  SampleStatus,
+} from '../../app/contract/bench-api.ts';
 
 /** The role drivers of one bench, plus which supply channel does what. */
 export interface BenchRoles {
@@ -30,7 +36,8 @@ export interface BenchRoles {
   /** Where each role is (for messages that name the instrument). Optional. */
   instruments?: readonly { role: string; idn: string; address: string }[] | undefined;
   /** Link diagnostics (drops, reopens, resyncs) of every role; returns an unsubscribe. Optional. */
-  subscribeLinkEvents?: ((listener: (role: RoleName, event: { type: string; [key: string]: unknown }) => void) => () => void) | undefined;
+  subscribeLinkEvents?:
+    ((listener: (role: RoleName, event: { type: string; [key: string]: unknown }) => void) => () => void) | undefined;
 }
 
 /** One samples.csv row: column name → number (NaN = empty) or text. */
@@ -79,6 +86,7 @@ export interface ProcedureOutcome {
   conditions?: RecordedConditions;
 }
 
-export type FailureKind = 'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits' | 'counter-fault';
+export type FailureKind =
+  'instrument-error' | 'disconnected' | 'timeout' | 'reply-format' | 'internal' | 'stall' | 'limits' | 'counter-fault';
 
 export type { SampleStatus };

@@ -16,10 +16,19 @@ function fakeApi(hub: EventHub, calls: unknown[][]): BenchApi {
     calls.push(args);
     return { connected: false, simulated: false, roles: [], error: null };
   };
-  const api: Record<string, unknown> = { subscribe: (listener: (event: BenchEvent) => void) => hub.subscribe(listener) };
+  const api: Record<string, unknown> = {
+    subscribe: (listener: (event: BenchEvent) => void) => hub.subscribe(listener),
+  };
   for (const name of ['getConnection', 'startSweep', 'listRuns']) api[name] = answer;
   // A stored run with columns as the store gives them: Float64Array and coded text.
-  api.openRun = async () => ({ samples: { names: ['frequency_hz', 'status'], numeric: { frequency_hz: BIG_COLUMN }, text: { status: { levels: ['ok'], codes: new Uint8Array(BIG_COLUMN.length) } }, rowCount: BIG_COLUMN.length } });
+  api.openRun = async () => ({
+    samples: {
+      names: ['frequency_hz', 'status'],
+      numeric: { frequency_hz: BIG_COLUMN },
+      text: { status: { levels: ['ok'], codes: new Uint8Array(BIG_COLUMN.length) } },
+      rowCount: BIG_COLUMN.length,
+    },
+  });
   return api as unknown as BenchApi;
 }
 
@@ -46,7 +55,11 @@ function get(server: BrowserServer, path: string, headers: Record<string, string
 }
 
 /** Opens a socket; resolves with it when open, or with the refusing HTTP status. */
-function openSocket(url: string, origin: string | undefined, headers: Record<string, string> = {}): Promise<{ socket: WebSocket } | { status: number }> {
+function openSocket(
+  url: string,
+  origin: string | undefined,
+  headers: Record<string, string> = {},
+): Promise<{ socket: WebSocket } | { status: number }> {
   return new Promise((resolve) => {
     const socket = new WebSocket(url, origin === undefined ? { headers } : { origin, headers });
     socket.once('open', () => resolve({ socket }));
@@ -59,7 +72,9 @@ function openSocket(url: string, origin: string | undefined, headers: Record<str
 }
 
 function nextMessage(socket: WebSocket): Promise<Record<string, unknown>> {
-  return new Promise((resolve) => socket.once('message', (data: Buffer) => resolve(JSON.parse(data.toString()) as Record<string, unknown>)));
+  return new Promise((resolve) =>
+    socket.once('message', (data: Buffer) => resolve(JSON.parse(data.toString()) as Record<string, unknown>)),
+  );
 }
 
 describe('browser-mode server', () => {
@@ -129,7 +144,9 @@ describe('browser-mode server', () => {
     expect(await openSocket(base, server.origin)).toEqual({ status: 401 });
     expect(await openSocket(`${base}?token=wrong`, server.origin)).toEqual({ status: 401 });
     // The asset cookie alone never opens the API.
-    expect(await openSocket(base, server.origin, { cookie: `tunebench_token_${server.port}=${server.token}` })).toEqual({ status: 401 });
+    expect(await openSocket(base, server.origin, { cookie: `tunebench_token_${server.port}=${server.token}` })).toEqual(
+      { status: 401 },
+    );
     expect(await openSocket(`${base}?token=${server.token}`, 'http://evil.example')).toEqual({ status: 403 });
     expect(await openSocket(`${base}?token=${server.token}`, undefined)).toEqual({ status: 403 });
   });
@@ -144,12 +161,22 @@ describe('browser-mode server', () => {
     expect(await nextMessage(socket)).toMatchObject({ ok: false, error: { field: 'id' } });
     socket.send(JSON.stringify({ id: 2, method: 'formatDisk', params: [] }));
     expect(await nextMessage(socket)).toMatchObject({ id: 2, ok: false, error: { field: 'method' } });
-    socket.send(JSON.stringify({ id: 3, method: 'startSweep', params: [{ start: 0, stop: 1, step: 0.1, limits: { maxControlV: 'lots', currentLimitA: 0.05 } }, 'dut-1'] }));
+    socket.send(
+      JSON.stringify({
+        id: 3,
+        method: 'startSweep',
+        params: [{ start: 0, stop: 1, step: 0.1, limits: { maxControlV: 'lots', currentLimitA: 0.05 } }, 'dut-1'],
+      }),
+    );
     const bad = await nextMessage(socket);
     expect(bad).toMatchObject({ id: 3, ok: false, error: { field: 'plan.limits.maxControlV' } });
     expect(calls).toHaveLength(0);
     socket.send(JSON.stringify({ id: 4, method: 'getConnection', params: [] }));
-    expect(await nextMessage(socket)).toEqual({ id: 4, ok: true, result: { connected: false, simulated: false, roles: [], error: null } });
+    expect(await nextMessage(socket)).toEqual({
+      id: 4,
+      ok: true,
+      result: { connected: false, simulated: false, roles: [], error: null },
+    });
     hub.emit({ type: 'error', message: 'pushed' });
     expect(await nextMessage(socket)).toEqual({ event: { type: 'error', message: 'pushed' } });
     socket.close();
@@ -171,9 +198,14 @@ describe('browser-mode server', () => {
     expect(messages[messages.length - 1]?.data.toString()).toContain('"after"'); // the event came after every part
     const assembler = new FrameAssembler();
     let frame: ArrayBuffer | null = null;
-    for (const { data } of parts) frame = assembler.push(data.buffer.slice(data.byteOffset, data.byteOffset + data.byteLength) as ArrayBuffer);
+    for (const { data } of parts)
+      frame = assembler.push(data.buffer.slice(data.byteOffset, data.byteOffset + data.byteLength) as ArrayBuffer);
     if (frame === null) throw new Error('frame incomplete');
-    const reply = decodeBinaryReply(frame) as { id: number; ok: boolean; result: { samples: { numeric: { frequency_hz: Float64Array }; rowCount: number } } };
+    const reply = decodeBinaryReply(frame) as {
+      id: number;
+      ok: boolean;
+      result: { samples: { numeric: { frequency_hz: Float64Array }; rowCount: number } };
+    };
     expect(reply).toMatchObject({ id: 5, ok: true });
     expect(reply.result.samples.rowCount).toBe(BIG_COLUMN.length);
     expect(reply.result.samples.numeric.frequency_hz).toEqual(BIG_COLUMN);

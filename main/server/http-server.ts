@@ -68,7 +68,8 @@ function hostPort(host: string, port: number): string {
 /** This machine's interface addresses and host name: what a Host header may name when listening on every interface. */
 function ownHostNames(): string[] {
   const names = [hostname().toLowerCase()];
-  for (const entries of Object.values(networkInterfaces())) for (const entry of entries ?? []) names.push(entry.address.toLowerCase());
+  for (const entries of Object.values(networkInterfaces()))
+    for (const entry of entries ?? []) names.push(entry.address.toLowerCase());
   return names;
 }
 
@@ -80,7 +81,8 @@ function ownHostNames(): string[] {
 export function allowedHostHeaders(listenHost: string, port: number, ownNames: readonly string[]): Set<string> {
   const wildcard = listenHost === '0.0.0.0' || listenHost === '::';
   const allowed = new Set([hostPort(listenHost, port)]);
-  if (isLoopbackName(listenHost) || wildcard) for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowed.add(`${name}:${port}`);
+  if (isLoopbackName(listenHost) || wildcard)
+    for (const name of ['127.0.0.1', 'localhost', '[::1]']) allowed.add(`${name}:${port}`);
   if (wildcard) for (const name of ownNames) allowed.add(hostPort(name.toLowerCase(), port));
   return allowed;
 }
@@ -137,7 +139,11 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
       if (request.method !== 'GET' && request.method !== 'HEAD') return refuse(response, 405, 'Only GET is served.');
       const access = tokenOf(request);
       if (!access.query && !access.cookie) {
-        return refuse(response, 401, 'Access token missing or wrong: open the URL that `tunebench serve` printed (it ends in ?token=…).');
+        return refuse(
+          response,
+          401,
+          'Access token missing or wrong: open the URL that `tunebench serve` printed (it ends in ?token=…).',
+        );
       }
       const pathname = new URL(request.url ?? '/', 'http://placeholder').pathname;
       const file = await readStaticFile(options.rendererDir, pathname);
@@ -149,7 +155,9 @@ export async function startBrowserServer(options: BrowserServerOptions): Promise
       response.writeHead(200, headers);
       response.end(request.method === 'HEAD' ? undefined : file.body);
     })().catch((error: unknown) => {
-      (options.logError ?? console.error)(`tunebench serve: ${request.method ?? '?'} ${request.url ?? '?'} failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
+      (options.logError ?? console.error)(
+        `tunebench serve: ${request.method ?? '?'} ${request.url ?? '?'} failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`,
+      );
       if (!response.headersSent) refuse(response, 500, 'Internal error.');
       else response.destroy();
     });

@@ -51,7 +51,13 @@ export class ImportUploads {
   /** Takes one binary message; never throws. */
   accept(message: Uint8Array): UploadStep {
     const split = splitImportPart(message);
-    if (split === null) return { kind: 'refused', id: -1, field: 'message', message: 'message: a binary message must be an import part (see app/contract/wire.ts)' };
+    if (split === null)
+      return {
+        kind: 'refused',
+        id: -1,
+        field: 'message',
+        message: 'message: a binary message must be an import part (see app/contract/wire.ts)',
+      };
     const parsed = headerSchema.safeParse(split.header);
     const rawId = (split.header as { id?: unknown } | null)?.id;
     const headerId = typeof rawId === 'number' && Number.isSafeInteger(rawId) && rawId >= 0 ? rawId : -1;
@@ -66,19 +72,26 @@ export class ImportUploads {
       this.#drop(header.id);
       return { kind: 'refused', id: header.id, field, message: `importCsv: ${text}` };
     };
-    if (header.parts > MAX_PARTS) return refuse(`csvText: is too large (at most ${MAX_IMPORT_TEXT}; ${header.parts} parts announced, at most ${MAX_PARTS})`, 'csvText');
+    if (header.parts > MAX_PARTS)
+      return refuse(
+        `csvText: is too large (at most ${MAX_IMPORT_TEXT}; ${header.parts} parts announced, at most ${MAX_PARTS})`,
+        'csvText',
+      );
     let upload = this.#open.get(header.id);
     if (!upload) {
       if (header.part !== 0) return refuse(`part ${header.part} arrived before part 0`);
       if (!this.#start) return refuse('imports are not available here', 'method');
-      if (this.#open.size >= MAX_OPEN_UPLOADS) return refuse(`at most ${MAX_OPEN_UPLOADS} imports may stream at once on one connection`);
+      if (this.#open.size >= MAX_OPEN_UPLOADS)
+        return refuse(`at most ${MAX_OPEN_UPLOADS} imports may stream at once on one connection`);
       upload = { stream: this.#start(header.fileName, header.dutId), parts: header.parts, next: 0, bytes: 0 };
       this.#open.set(header.id, upload);
     }
-    if (header.part !== upload.next || header.parts !== upload.parts) return refuse(`expected part ${upload.next} of ${upload.parts}, got ${header.part} of ${header.parts}`);
+    if (header.part !== upload.next || header.parts !== upload.parts)
+      return refuse(`expected part ${upload.next} of ${upload.parts}, got ${header.part} of ${header.parts}`);
     const last = header.part === header.parts - 1;
     const size = split.bytes.byteLength;
-    if (size > IMPORT_PART_BYTES || (!last && size !== IMPORT_PART_BYTES)) return refuse(`part ${header.part} holds ${size} bytes; every part but the last holds ${IMPORT_PART_BYTES}`);
+    if (size > IMPORT_PART_BYTES || (!last && size !== IMPORT_PART_BYTES))
+      return refuse(`part ${header.part} holds ${size} bytes; every part but the last holds ${IMPORT_PART_BYTES}`);
     upload.bytes += size;
     if (upload.bytes > MAX_IMPORT_BYTES) return refuse(`csvText: is too large (at most ${MAX_IMPORT_TEXT})`, 'csvText');
     upload.stream.push(split.bytes);

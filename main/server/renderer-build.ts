@@ -44,10 +44,14 @@ async function withBuildLock<T>(lockPath: string, work: () => Promise<T>): Promi
       break;
     } catch (error) {
       if ((error as { code?: string }).code !== 'EEXIST') throw error;
-      const age = await stat(lockPath).then((info) => Date.now() - info.mtimeMs, () => 0);
+      const age = await stat(lockPath).then(
+        (info) => Date.now() - info.mtimeMs,
+        () => 0,
+      );
       const holder = Number(await readFile(lockPath, 'utf8').catch(() => ''));
       // A lock whose process is gone (killed mid-build) or that is very old is left over.
-      if (age > STALE_LOCK_MS || (Number.isInteger(holder) && holder > 0 && !processAlive(holder))) await rm(lockPath, { force: true });
+      if (age > STALE_LOCK_MS || (Number.isInteger(holder) && holder > 0 && !processAlive(holder)))
+        await rm(lockPath, { force: true });
       else await new Promise((resolve) => setTimeout(resolve, 250));
     }
   }
@@ -85,7 +89,8 @@ async function buildRenderer(appDir: string, outDir: string, log: ((line: string
   const parent = dirname(outDir);
   await mkdir(parent, { recursive: true });
   // We hold the lock, so any earlier temporary build folder is a leftover of a killed build.
-  for (const name of await readdir(parent)) if (name.startsWith('.renderer-')) await rm(join(parent, name), { recursive: true, force: true });
+  for (const name of await readdir(parent))
+    if (name.startsWith('.renderer-')) await rm(join(parent, name), { recursive: true, force: true });
   const tempDir = await mkdtemp(join(parent, '.renderer-'));
   // Listed before the build: a source edited during it then reads as changed.
   const sources = await listAppSources(appDir);

@@ -3,7 +3,13 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { writeSourceManifest } from '../bin/source-manifest.mjs';
-import { builtRendererDir, listAppSources, RendererMissingError, rendererIsStale, rendererSourcesFile } from './renderer-dir.ts';
+import {
+  builtRendererDir,
+  listAppSources,
+  RendererMissingError,
+  rendererIsStale,
+  rendererSourcesFile,
+} from './renderer-dir.ts';
 
 let root: string;
 let appDir: string;

@@ -37,7 +37,11 @@ export async function listAppSources(dir: string, prefix = ''): Promise<string[]
  * where times disagree, since an installed package's file times are only
  * the time it was unpacked.
  */
-export async function rendererIsStale(appDir = APP_DIR, outDir = RENDERER_OUT_DIR, sourcesFile = rendererSourcesFile(outDir)): Promise<boolean> {
+export async function rendererIsStale(
+  appDir = APP_DIR,
+  outDir = RENDERER_OUT_DIR,
+  sourcesFile = rendererSourcesFile(outDir),
+): Promise<boolean> {
   let builtMs: number;
   try {
     builtMs = (await stat(join(outDir, 'index.html'))).mtimeMs;
@@ -63,7 +67,11 @@ export class RendererMissingError extends Error {
  * The folder to serve. Refuses when there is no build; a build older than
  * the app/ sources (a checkout being edited) is served with a warning.
  */
-export async function builtRendererDir(log: (line: string) => void, appDir = APP_DIR, outDir = RENDERER_OUT_DIR): Promise<string> {
+export async function builtRendererDir(
+  log: (line: string) => void,
+  appDir = APP_DIR,
+  outDir = RENDERER_OUT_DIR,
+): Promise<string> {
   try {
     await stat(join(outDir, 'index.html'));
   } catch {
@@ -72,7 +80,9 @@ export async function builtRendererDir(log: (line: string) => void, appDir = APP
     );
   }
   if (await rendererIsStale(appDir, outDir)) {
-    log(`warning: ${outDir} is older than the sources in ${appDir}; serving it anyway — run \`npm run build:renderer\` to rebuild`);
+    log(
+      `warning: ${outDir} is older than the sources in ${appDir}; serving it anyway — run \`npm run build:renderer\` to rebuild`,
+    );
   }
   return outDir;
 }

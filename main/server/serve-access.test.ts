@@ -13,14 +13,27 @@ import { WebSocket } from 'ws';
 import { wireMessages } from '../../app/bridge/ws-client.ts';
 import { MAX_IMPORT_BYTES } from '../../app/contract/wire.ts';
 import { encodeImportParts } from '../../app/contract/wire-upload.ts';
-import { openApi, readControlChannel, type ApiClient, startServe, startSim, stubRendererDir, type ServeChild, type SimChild } from '../../test/testing/serve-process.ts';
+import {
+  openApi,
+  readControlChannel,
+  type ApiClient,
+  startServe,
+  startSim,
+  stubRendererDir,
+  type ServeChild,
+  type SimChild,
+} from '../../test/testing/serve-process.ts';
 
 let sim: SimChild;
 let serve: ServeChild;
 const cleanup: string[] = [];
 
 beforeAll(async () => {
-  const [simChild, rendererDir, runsDir] = await Promise.all([startSim(), stubRendererDir(), mkdtemp(join(tmpdir(), 'tunebench-serve-access-'))]);
+  const [simChild, rendererDir, runsDir] = await Promise.all([
+    startSim(),
+    stubRendererDir(),
+    mkdtemp(join(tmpdir(), 'tunebench-serve-access-')),
+  ]);
   sim = simChild;
   cleanup.push(rendererDir, runsDir);
   serve = await startServe({ runsDir, rendererDir });
@@ -33,12 +46,17 @@ afterAll(async () => {
   await Promise.all(cleanup.map((dir) => rm(dir, { recursive: true, force: true })));
 });
 
-function httpGet(url: string, headers: Record<string, string> = {}): Promise<{ status: number; cookie: string | null; body: string }> {
+function httpGet(
+  url: string,
+  headers: Record<string, string> = {},
+): Promise<{ status: number; cookie: string | null; body: string }> {
   return new Promise((resolve, reject) => {
     get(url, { headers }, (res) => {
       let body = '';
       res.on('data', (chunk: Buffer) => (body += chunk.toString()));
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, cookie: res.headers['set-cookie']?.[0]?.split(';')[0] ?? null, body }));
+      res.on('end', () =>
+        resolve({ status: res.statusCode ?? 0, cookie: res.headers['set-cookie']?.[0]?.split(';')[0] ?? null, body }),
+      );
     }).on('error', reject);
   });
 }
@@ -77,9 +95,11 @@ describe('browser mode against a real serve process', () => {
     expect(await upgradeStatus(`${api}?token=${serve.token}`, serve.origin)).toBe(101);
   });
 
-  it('14.3: a profile path reads no file; a peer\'s reply comes back only as a short, escaped excerpt', async () => {
+  it("14.3: a profile path reads no file; a peer's reply comes back only as a short, escaped excerpt", async () => {
     const api = await openApi(serve.origin, serve.token);
-    const byPath = await api.call('connect', [{ ...SIM_BENCH(), supply: { address: sim.supply, profile: '/etc/passwd' } }]);
+    const byPath = await api.call('connect', [
+      { ...SIM_BENCH(), supply: { address: sim.supply, profile: '/etc/passwd' } },
+    ]);
     expect(byPath.ok).toBe(false);
     expect(byPath.error?.field).toBe('config.supply.profile');
     expect(byPath.error?.message).not.toMatch(/root:/);
@@ -92,7 +112,9 @@ describe('browser mode against a real serve process', () => {
     });
     await new Promise<void>((resolve) => listener.listen(0, '127.0.0.1', () => resolve()));
     const port = (listener.address() as { port: number }).port;
-    const reply = await api.call('connect', [{ ...SIM_BENCH(), counter: { address: `tcp://127.0.0.1:${port}`, profile: 'counter-scpi' } }]);
+    const reply = await api.call('connect', [
+      { ...SIM_BENCH(), counter: { address: `tcp://127.0.0.1:${port}`, profile: 'counter-scpi' } },
+    ]);
     listener.close();
     const text = JSON.stringify(reply);
     expect(text.length).toBeLessThan(1200);
@@ -104,7 +126,14 @@ describe('browser mode against a real serve process', () => {
   it('14.4: Stop during a large import answers within 200 ms, leaves the supply safe, and the import still lands', async () => {
     const operator = await openApi(serve.origin, serve.token);
     expect((await operator.call('connect', [SIM_BENCH()])).ok).toBe(true);
-    const plan = { controlV: 2, intervalS: 0.2, durationS: 3600, gateS: 0.05, settle: { mode: 'fixed', seconds: 0 }, limits: { maxControlV: 5, currentLimitA: 0.05 } };
+    const plan = {
+      controlV: 2,
+      intervalS: 0.2,
+      durationS: 3600,
+      gateS: 0.05,
+      settle: { mode: 'fixed', seconds: 0 },
+      limits: { maxControlV: 5, currentLimitA: 0.05 },
+    };
     const started = await operator.call('startDrift', [plan, 'stop-vs-import']);
     expect(started.ok, JSON.stringify(started.error)).toBe(true);
     await expect.poll(() => operator.events.some((event) => event.type === 'samples'), { timeout: 30_000 }).toBe(true);
@@ -115,7 +144,7 @@ describe('browser mode against a real serve process', () => {
     for (let i = 0; rows.length < 1_000_000; i += 1) rows.push(`${(i % 5000) / 1000},${1_000_000 + i * 0.37}`);
     const csv = `${rows.join('\n')}\n`;
     const importer = await openApi(serve.origin, serve.token);
-    const messages = wireMessages({ id: 77, method: "importCsv", params: ["night.csv", csv, "imported"] });
+    const messages = wireMessages({ id: 77, method: 'importCsv', params: ['night.csv', csv, 'imported'] });
     expect(messages.length).toBeGreaterThan(50);
     const imported = importer.reply(77);
     let importDone = false;
@@ -132,7 +161,9 @@ describe('browser mode against a real serve process', () => {
     console.log(`Stop answered in ${answeredMs.toFixed(0)} ms during a ${(csv.length / 1e6).toFixed(0)} MB import`);
     expect(answeredMs).toBeLessThan(200);
     // The safe state follows the answer; run-ended says when it is done.
-    await expect.poll(() => operator.events.some((event) => event.type === 'run-ended'), { timeout: 30_000 }).toBe(true);
+    await expect
+      .poll(() => operator.events.some((event) => event.type === 'run-ended'), { timeout: 30_000 })
+      .toBe(true);
     expect(await readControlChannel(sim.supply)).toEqual({ output: false, volts: 0 });
     const result = await imported;
     expect(result.ok, JSON.stringify(result.error)).toBe(true);
@@ -167,7 +198,15 @@ describe('browser mode against a real serve process', () => {
     expect(pages.length).toBeGreaterThan(0);
     expect(pages.length).toBeLessThanOrEqual(8);
     expect(await upgradeStatus(api, serve.origin)).toBe(503);
-    await expect.poll(() => pages.at(-1)?.events.filter((event) => event.type === 'peers').at(-1)?.others).toBeGreaterThanOrEqual(pages.length - 1);
+    await expect
+      .poll(
+        () =>
+          pages
+            .at(-1)
+            ?.events.filter((event) => event.type === 'peers')
+            .at(-1)?.others,
+      )
+      .toBeGreaterThanOrEqual(pages.length - 1);
     for (const page of pages) page.close();
   });
 });

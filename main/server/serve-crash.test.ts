@@ -9,7 +9,18 @@ import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CRASH_TRIGGER, spawnCli, openApi, readControlChannel, startServe, startSim, stubRendererDir, type ApiClient, type ServeChild, type SimChild } from '../../test/testing/serve-process.ts';
+import {
+  CRASH_TRIGGER,
+  spawnCli,
+  openApi,
+  readControlChannel,
+  startServe,
+  startSim,
+  stubRendererDir,
+  type ApiClient,
+  type ServeChild,
+  type SimChild,
+} from '../../test/testing/serve-process.ts';
 
 let sim: SimChild;
 let rendererDir: string;
@@ -25,9 +36,19 @@ afterAll(async () => {
   await Promise.all(cleanup.map((dir) => rm(dir, { recursive: true, force: true })));
 });
 
-const DRIFT_PLAN = { controlV: 2.5, intervalS: 0.2, durationS: 3600, gateS: 0.05, settle: { mode: 'fixed', seconds: 0 }, limits: { maxControlV: 5, currentLimitA: 0.05 } };
+const DRIFT_PLAN = {
+  controlV: 2.5,
+  intervalS: 0.2,
+  durationS: 3600,
+  gateS: 0.05,
+  settle: { mode: 'fixed', seconds: 0 },
+  limits: { maxControlV: 5, currentLimitA: 0.05 },
+};
 
-async function serveWithDriftRunning(env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []): Promise<{ serve: ServeChild; api: ApiClient; runsDir: string; runId: string }> {
+async function serveWithDriftRunning(
+  env: NodeJS.ProcessEnv = {},
+  nodeArgs: string[] = [],
+): Promise<{ serve: ServeChild; api: ApiClient; runsDir: string; runId: string }> {
   const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-serve-crash-'));
   cleanup.push(runsDir);
   const serve = await startServe({ runsDir, rendererDir, env, nodeArgs });
@@ -44,7 +65,8 @@ async function serveWithDriftRunning(env: NodeJS.ProcessEnv = {}, nodeArgs: stri
   const runId = (started.result as { id: string }).id;
   // Wait for logged readings: the output is on at the plan's voltage.
   const deadline = Date.now() + 30_000;
-  while (!api.events.some((event) => event.type === 'samples') && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+  while (!api.events.some((event) => event.type === 'samples') && Date.now() < deadline)
+    await new Promise((r) => setTimeout(r, 50));
   expect(await readControlChannel(sim.supply)).toEqual({ output: true, volts: 2.5 });
   return { serve, api, runsDir, runId };
 }
@@ -71,13 +93,18 @@ describe('a real serve process leaves the simulated supply safe whatever ends it
     const { serve, api, runsDir, runId } = await serveWithDriftRunning();
     // Written as text: the message of the report (12 KB), which the server once died parsing.
     const nested = `${'['.repeat(6000)}1${']'.repeat(6000)}`;
-    api.sendRaw(`{"id":900,"method":"startSweep","params":[{"start":${nested},"stop":1,"step":0.1,"limits":{"maxControlV":5,"currentLimitA":0.05}},"x"]}`);
+    api.sendRaw(
+      `{"id":900,"method":"startSweep","params":[{"start":${nested},"stop":1,"step":0.1,"limits":{"maxControlV":5,"currentLimitA":0.05}},"x"]}`,
+    );
     const reply = await api.reply(900);
     expect(reply.ok).toBe(false);
     expect(reply.error?.message).toMatch(/nested too deeply \(at most 16 levels\)/);
     expect(reply.error?.message.length).toBeLessThan(400);
     // A long string in a number field is echoed only as a short excerpt.
-    const long = await api.call('startSweep', [{ start: 'x'.repeat(100_000), stop: 1, step: 0.1, limits: { maxControlV: 5, currentLimitA: 0.05 } }, 'x']);
+    const long = await api.call('startSweep', [
+      { start: 'x'.repeat(100_000), stop: 1, step: 0.1, limits: { maxControlV: 5, currentLimitA: 0.05 } },
+      'x',
+    ]);
     expect(long.ok).toBe(false);
     expect(long.error?.field).toBe('plan.start');
     expect(long.error?.message.length).toBeLessThan(300);
@@ -104,7 +131,10 @@ describe('a real serve process leaves the simulated supply safe whatever ends it
     ['reject', 'unhandledRejection'],
   ] as const) {
     it(`on an ${what}: safe state recorded in the run, run aborted, exit 1`, async () => {
-      const { serve, runsDir, runId } = await serveWithDriftRunning({ TUNEBENCH_TEST_TRIGGER: mode }, ['--import', CRASH_TRIGGER]);
+      const { serve, runsDir, runId } = await serveWithDriftRunning({ TUNEBENCH_TEST_TRIGGER: mode }, [
+        '--import',
+        CRASH_TRIGGER,
+      ]);
       serve.process.kill('SIGUSR2');
       expect(await serve.exited).toBe(1);
       expect(serve.err()).toContain(what);
@@ -114,7 +144,11 @@ describe('a real serve process leaves the simulated supply safe whatever ends it
   }
 
   it('on memory pressure: acts before the heap runs out, safe state recorded, exit 1', async () => {
-    const { serve, runsDir, runId } = await serveWithDriftRunning({ TUNEBENCH_TEST_TRIGGER: 'memory' }, ['--max-old-space-size=256', '--import', CRASH_TRIGGER]);
+    const { serve, runsDir, runId } = await serveWithDriftRunning({ TUNEBENCH_TEST_TRIGGER: 'memory' }, [
+      '--max-old-space-size=256',
+      '--import',
+      CRASH_TRIGGER,
+    ]);
     serve.process.kill('SIGUSR2');
     const code = await serve.exited;
     expect(code, serve.err()).toBe(1);
@@ -136,7 +170,21 @@ describe('a real CLI drift process takes the same last-resort path', () => {
     };
     await writeFile(join(dir, 'bench.json'), JSON.stringify(bench));
     await writeFile(join(dir, 'plan.json'), JSON.stringify(DRIFT_PLAN));
-    const child = spawnCli(['drift', '--bench', join(dir, 'bench.json'), '--plan', join(dir, 'plan.json'), '--runs', runsDir, '--dut-id', 'cli-guard'], env, nodeArgs);
+    const child = spawnCli(
+      [
+        'drift',
+        '--bench',
+        join(dir, 'bench.json'),
+        '--plan',
+        join(dir, 'plan.json'),
+        '--runs',
+        runsDir,
+        '--dut-id',
+        'cli-guard',
+      ],
+      env,
+      nodeArgs,
+    );
     const deadline = Date.now() + 60_000;
     let runId: string | undefined;
     while (Date.now() < deadline && child.process.exitCode === null) {
@@ -151,7 +199,10 @@ describe('a real CLI drift process takes the same last-resort path', () => {
   }
 
   it('on an uncaught exception in `tunebench drift`: the run is stopped, the safe state recorded in it, exit 1', async () => {
-    const { child, runsDir, runId } = await cliDriftRunning({ TUNEBENCH_TEST_TRIGGER: 'throw' }, ['--import', CRASH_TRIGGER]);
+    const { child, runsDir, runId } = await cliDriftRunning({ TUNEBENCH_TEST_TRIGGER: 'throw' }, [
+      '--import',
+      CRASH_TRIGGER,
+    ]);
     child.process.kill('SIGUSR2');
     expect(await child.exited).toBe(1);
     expect(await readControlChannel(sim.supply)).toEqual({ output: false, volts: 0 });

@@ -21,7 +21,9 @@ const hub = new EventHub();
 const stops: number[] = [];
 const api = {
   subscribe: (listener: never) => hub.subscribe(listener),
-  openRun: async () => ({ samples: { names: ['frequency_hz'], numeric: { frequency_hz: BIG }, text: {}, rowCount: BIG.length } }),
+  openRun: async () => ({
+    samples: { names: ['frequency_hz'], numeric: { frequency_hz: BIG }, text: {}, rowCount: BIG.length },
+  }),
   listProfiles: () => new Promise((resolve) => releases.push(() => resolve([]))), // answers when released: holds its slot
   stopRun: async () => void stops.push(Date.now()),
 } as unknown as BenchApi;
@@ -48,7 +50,9 @@ afterAll(async () => {
 
 function status(path: string): Promise<number> {
   return new Promise((resolve, reject) => {
-    request({ host: '127.0.0.1', port: server.port, path }, (res) => (res.resume(), resolve(res.statusCode ?? 0))).on('error', reject).end();
+    request({ host: '127.0.0.1', port: server.port, path }, (res) => (res.resume(), resolve(res.statusCode ?? 0)))
+      .on('error', reject)
+      .end();
   });
 }
 
@@ -68,9 +72,15 @@ describe('server limits', () => {
 
   it('14.8: on every interface the Host must still name this machine, never another domain', () => {
     const allowed = allowedHostHeaders('0.0.0.0', 7788, ['192.168.4.20', 'labpc', 'fe80::1']);
-    for (const host of ['127.0.0.1:7788', 'localhost:7788', '192.168.4.20:7788', 'labpc:7788', '[fe80::1]:7788']) expect(allowed.has(host), host).toBe(true);
-    for (const host of ['attacker.example:7788', 'labpc.attacker.example:7788', '192.168.4.20:80']) expect(allowed.has(host), host).toBe(false);
-    expect([...allowedHostHeaders('127.0.0.1', 7788, ['192.168.4.20'])].sort()).toEqual(['127.0.0.1:7788', '[::1]:7788', 'localhost:7788']);
+    for (const host of ['127.0.0.1:7788', 'localhost:7788', '192.168.4.20:7788', 'labpc:7788', '[fe80::1]:7788'])
+      expect(allowed.has(host), host).toBe(true);
+    for (const host of ['attacker.example:7788', 'labpc.attacker.example:7788', '192.168.4.20:80'])
+      expect(allowed.has(host), host).toBe(false);
+    expect([...allowedHostHeaders('127.0.0.1', 7788, ['192.168.4.20'])].sort()).toEqual([
+      '127.0.0.1:7788',
+      '[::1]:7788',
+      'localhost:7788',
+    ]);
   });
 
   it('14.4: caps calls in flight per page, but Stop is always served', async () => {
@@ -80,9 +90,15 @@ describe('server limits', () => {
       const message = binary ? null : (JSON.parse(wsText(data)) as { id?: number });
       if (message && typeof message.id === 'number') replies.push(message as never);
     });
-    for (let id = 1; id <= MAX_IN_FLIGHT; id += 1) socket.send(JSON.stringify({ id, method: 'listProfiles', params: [] }));
+    for (let id = 1; id <= MAX_IN_FLIGHT; id += 1)
+      socket.send(JSON.stringify({ id, method: 'listProfiles', params: [] }));
     socket.send(JSON.stringify({ id: 99, method: 'listProfiles', params: [] }));
-    await expect.poll(() => replies.find((r) => r.id === 99)).toMatchObject({ ok: false, error: { message: expect.stringMatching(/8 calls from this page are still running/) } });
+    await expect
+      .poll(() => replies.find((r) => r.id === 99))
+      .toMatchObject({
+        ok: false,
+        error: { message: expect.stringMatching(/8 calls from this page are still running/) },
+      });
     socket.send(JSON.stringify({ id: 100, method: 'stopRun', params: [] }));
     await expect.poll(() => replies.find((r) => r.id === 100)).toMatchObject({ ok: true });
     expect(stops).toHaveLength(1);
@@ -104,7 +120,9 @@ describe('server limits', () => {
     await closed; // the server dropped it…
     expect(binaryBytes).toBeLessThan(MAX_IN_FLIGHT * BIG.byteLength); // …before sending every reply
     const other = await open();
-    const answered = new Promise<Record<string, unknown>>((resolve) => other.on('message', (data, binary) => !binary && resolve(JSON.parse(wsText(data)) as Record<string, unknown>)));
+    const answered = new Promise<Record<string, unknown>>((resolve) =>
+      other.on('message', (data, binary) => !binary && resolve(JSON.parse(wsText(data)) as Record<string, unknown>)),
+    );
     other.send(JSON.stringify({ id: 1, method: 'stopRun', params: [] }));
     expect(await answered).toMatchObject({ id: 1, ok: true });
     other.terminate();

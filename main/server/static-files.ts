@@ -52,7 +52,10 @@ export async function readStaticFile(root: string, urlPath: string): Promise<Sta
     if (!realFile.startsWith(rootWithSep)) return null;
     const info = await stat(realFile);
     if (!info.isFile()) return null;
-    return { body: await readFile(realFile), contentType: CONTENT_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream' };
+    return {
+      body: await readFile(realFile),
+      contentType: CONTENT_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream',
+    };
   } catch (error) {
     // Missing is a 404; any other failure (ELOOP, EIO, EMFILE) is the server's own and must be seen.
     const code = (error as { code?: unknown }).code;

@@ -51,7 +51,11 @@ export function parseWireCall(text: string): ParsedCall | WireReply {
   try {
     message = JSON.parse(text);
   } catch {
-    return { id: NO_ID, ok: false, error: { message: 'message: not valid JSON (expected {"id", "method", "params"})', field: 'message' } };
+    return {
+      id: NO_ID,
+      ok: false,
+      error: { message: 'message: not valid JSON (expected {"id", "method", "params"})', field: 'message' },
+    };
   }
   const rawId = (message as { id?: unknown } | null)?.id;
   const id = typeof rawId === 'number' && Number.isSafeInteger(rawId) && rawId >= 0 ? rawId : NO_ID;
@@ -62,7 +66,11 @@ export function parseWireCall(text: string): ParsedCall | WireReply {
     const issue = parsed.error.issues[0];
     const field = issue && issue.path.length > 0 ? issue.path.map(String).join('.') : 'message';
     const detail = issue ? issue.message : 'invalid';
-    return { id, ok: false, error: { message: `${field}: ${detail} (expected {"id": integer, "method": string, "params": array})`, field } };
+    return {
+      id,
+      ok: false,
+      error: { message: `${field}: ${detail} (expected {"id": integer, "method": string, "params": array})`, field },
+    };
   }
   return { ok: true, ...parsed.data };
 }
@@ -120,7 +128,14 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
   const run = (id: number, method: string, call: () => Promise<CallOutcome>): void => {
     const priority = PRIORITY_METHODS.has(method);
     if (!priority && inFlight >= MAX_IN_FLIGHT) {
-      sendText({ id, ok: false, error: { message: `${method}: refused, ${MAX_IN_FLIGHT} calls from this page are still running; wait for their answers`, field: 'method' } });
+      sendText({
+        id,
+        ok: false,
+        error: {
+          message: `${method}: refused, ${MAX_IN_FLIGHT} calls from this page are still running; wait for their answers`,
+          field: 'method',
+        },
+      });
       return;
     }
     if (!priority) inFlight += 1;
@@ -145,7 +160,8 @@ export function attachBenchSocket(socket: WebSocket, api: BenchApi, options: Ben
 
   const onImportPart = (message: Uint8Array): void => {
     const step = uploads.accept(message);
-    if (step.kind === 'refused') sendText({ id: step.id, ok: false, error: { message: step.message, field: step.field } });
+    if (step.kind === 'refused')
+      sendText({ id: step.id, ok: false, error: { message: step.message, field: step.field } });
     else if (step.kind === 'done') {
       run(step.id, 'importCsv', () =>
         step.result.then(

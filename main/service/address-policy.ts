@@ -29,7 +29,12 @@ export function parseAllowedHosts(text: string | undefined): Set<string> {
   return new Set(
     (text ?? '')
       .split(',')
-      .map((host) => host.trim().toLowerCase().replace(/^\[|\]$/g, ''))
+      .map((host) =>
+        host
+          .trim()
+          .toLowerCase()
+          .replace(/^\[|\]$/g, ''),
+      )
       .filter((host) => host !== ''),
   );
 }
@@ -44,7 +49,9 @@ export function isBenchIp(ip: string): boolean {
   if (mapped) return isBenchIp(mapped[1] as string);
   if (isIP(ip) === 4) {
     const [a = -1, b = -1] = ipv4Parts(ip);
-    return a === 127 || a === 10 || (a === 172 && b >= 16 && b <= 31) || (a === 192 && b === 168) || (a === 169 && b === 254);
+    return (
+      a === 127 || a === 10 || (a === 172 && b >= 16 && b <= 31) || (a === 192 && b === 168) || (a === 169 && b === 254)
+    );
   }
   if (isIP(ip) === 6) {
     const lower = ip.toLowerCase();
@@ -57,8 +64,9 @@ export function isBenchIp(ip: string): boolean {
 export function isSerialDevicePath(path: string): boolean {
   if (path.includes('..')) return false;
   return (
-    /^\/dev\/(tty[A-Za-z0-9._-]*|cu\.[A-Za-z0-9._-]+|pts\/\d+|serial\/by-(id|path)\/[A-Za-z0-9:._+-]+|rfcomm\d+)$/.test(path) ||
-    /^(\\\\\.\\)?COM\d{1,3}$/i.test(path)
+    /^\/dev\/(tty[A-Za-z0-9._-]*|cu\.[A-Za-z0-9._-]+|pts\/\d+|serial\/by-(id|path)\/[A-Za-z0-9:._+-]+|rfcomm\d+)$/.test(
+      path,
+    ) || /^(\\\\\.\\)?COM\d{1,3}$/i.test(path)
   );
 }
 
@@ -66,27 +74,40 @@ async function defaultResolve(host: string): Promise<string[]> {
   return (await lookup(host, { all: true })).map((entry) => entry.address);
 }
 
-const HOW_TO_ALLOW = 'an instrument elsewhere needs `tunebench serve --allow-address HOST` (or TUNEBENCH_ALLOW_ADDRESS=HOST)';
+const HOW_TO_ALLOW =
+  'an instrument elsewhere needs `tunebench serve --allow-address HOST` (or TUNEBENCH_ALLOW_ADDRESS=HOST)';
 
 async function checkOne(role: string, text: string, profile: string | undefined, policy: AddressPolicy): Promise<void> {
   if (profile !== undefined && !PROFILE_NAME.test(profile)) {
-    throw new BenchApiError(`connect: config.${role}.profile: choose a profile by its name (letters, digits, "-", "_"); paths to profile files are taken only from a bench file on the command line`, `config.${role}.profile`);
+    throw new BenchApiError(
+      `connect: config.${role}.profile: choose a profile by its name (letters, digits, "-", "_"); paths to profile files are taken only from a bench file on the command line`,
+      `config.${role}.profile`,
+    );
   }
   let address: InstrumentAddress;
   try {
     address = parseAddress(text);
   } catch (error) {
-    throw new BenchApiError(`connect: config.${role}.address: ${error instanceof AddressError ? error.message : 'not an instrument address'}`, `config.${role}.address`);
+    throw new BenchApiError(
+      `connect: config.${role}.address: ${error instanceof AddressError ? error.message : 'not an instrument address'}`,
+      `config.${role}.address`,
+    );
   }
   if (address.kind === 'sim' || policy.extraHosts.has('*')) return;
   if (address.kind === 'serial') {
     if (isSerialDevicePath(address.path)) return;
-    throw new BenchApiError(`connect: config.${role}.address: ${address.path} is not a serial device path (expected /dev/tty…, /dev/cu.…, /dev/serial/by-id/… or COMn)`, `config.${role}.address`);
+    throw new BenchApiError(
+      `connect: config.${role}.address: ${address.path} is not a serial device path (expected /dev/tty…, /dev/cu.…, /dev/serial/by-id/… or COMn)`,
+      `config.${role}.address`,
+    );
   }
   const host = address.host.toLowerCase();
   if (policy.extraHosts.has(host)) return;
   const refuse = (why: string): never => {
-    throw new BenchApiError(`connect: config.${role}.address: ${host} ${why}; a bench is on loopback or a private LAN (10.x, 172.16–31.x, 192.168.x, link-local); ${HOW_TO_ALLOW}`, `config.${role}.address`);
+    throw new BenchApiError(
+      `connect: config.${role}.address: ${host} ${why}; a bench is on loopback or a private LAN (10.x, 172.16–31.x, 192.168.x, link-local); ${HOW_TO_ALLOW}`,
+      `config.${role}.address`,
+    );
   };
   if (isIP(host) !== 0) {
     if (!isBenchIp(host)) refuse('is not a loopback or private-LAN address');
@@ -105,7 +126,11 @@ async function checkOne(role: string, text: string, profile: string | undefined,
 /** Refuses, naming the field, any role whose address or profile a bench reached over the API may not have. */
 export async function checkApiBench(config: BenchConfig | 'sim', policy: AddressPolicy): Promise<void> {
   if (config === 'sim') return;
-  for (const [role, entry] of [['supply', config.supply], ['counter', config.counter], ['thermometer', config.thermometer]] as const) {
+  for (const [role, entry] of [
+    ['supply', config.supply],
+    ['counter', config.counter],
+    ['thermometer', config.thermometer],
+  ] as const) {
     if (entry) await checkOne(role, entry.address, entry.profile, policy);
   }
 }

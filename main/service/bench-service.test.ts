@@ -26,7 +26,16 @@ function validated(method: 'startSweep' | 'startDrift', plan: unknown): [never, 
 }
 
 // A 1 V…3 V sweep over the toy DUT (stalls below 1 V): 11 points, fixed settle.
-const SWEEP = { start: 0.6, stop: 2.6, step: 0.2, readingsPerPoint: 2, gateS: 0.1, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0, limits: { maxControlV: 5, currentLimitA: 0.05 } };
+const SWEEP = {
+  start: 0.6,
+  stop: 2.6,
+  step: 0.2,
+  readingsPerPoint: 2,
+  gateS: 0.1,
+  settle: { mode: 'fixed', seconds: 0.05 },
+  refineEdgeV: 0,
+  limits: { maxControlV: 5, currentLimitA: 0.05 },
+};
 
 describe('BenchApi service', () => {
   let runsDir: string;
@@ -83,10 +92,14 @@ describe('BenchApi service', () => {
     expect(events.at(-1)).toMatchObject({ type: 'connection', state: { connected: false } });
   });
 
-  it('a plan refused by its limits or the counter\'s gate range leaves no run folder', async () => {
+  it("a plan refused by its limits or the counter's gate range leaves no run folder", async () => {
     await service.connect('sim');
-    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, stop: 6 }))).rejects.toThrow(/stop: 6 V exceeds limits\.maxControlV/);
-    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, gateS: '20s' }))).rejects.toThrow(/gateS: 20 s is outside the counter's gate range/);
+    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, stop: 6 }))).rejects.toThrow(
+      /stop: 6 V exceeds limits\.maxControlV/,
+    );
+    await expect(service.startSweep(...validated('startSweep', { ...SWEEP, gateS: '20s' }))).rejects.toThrow(
+      /gateS: 20 s is outside the counter's gate range/,
+    );
     expect(await readdir(runsDir)).toEqual([]);
     expect(events.some((e) => e.type === 'run-started')).toBe(false);
   });
@@ -120,7 +133,10 @@ describe('BenchApi service', () => {
 
   it('starts only one of two runs requested at the same moment', async () => {
     await service.connect('sim');
-    const outcomes = await Promise.allSettled([service.startSweep(...validated('startSweep', SWEEP)), service.startSweep(...validated('startSweep', SWEEP))]);
+    const outcomes = await Promise.allSettled([
+      service.startSweep(...validated('startSweep', SWEEP)),
+      service.startSweep(...validated('startSweep', SWEEP)),
+    ]);
     expect(outcomes.map((o) => o.status).sort()).toEqual(['fulfilled', 'rejected']);
     await waitFor(() => events.find((e) => e.type === 'run-ended'));
     expect(events.filter((e) => e.type === 'run-started')).toHaveLength(1);
@@ -128,7 +144,14 @@ describe('BenchApi service', () => {
 
   it('stops a drift log cleanly: it ends complete, and live readouts resume', async () => {
     await service.connect('sim');
-    const meta = await service.startDrift(...validated('startDrift', { controlV: 2, intervalS: 1, durationS: '8h', limits: { maxControlV: 5, currentLimitA: 0.05 } }));
+    const meta = await service.startDrift(
+      ...validated('startDrift', {
+        controlV: 2,
+        intervalS: 1,
+        durationS: '8h',
+        limits: { maxControlV: 5, currentLimitA: 0.05 },
+      }),
+    );
     await waitFor(() => events.find((e) => e.type === 'samples'));
     await service.pauseRun();
     await service.resumeRun();
@@ -142,8 +165,17 @@ describe('BenchApi service', () => {
 
   it('publishes the bench status from the run itself: output on and its frequency, then the safe state', async () => {
     await service.connect('sim');
-    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.output === false));
-    await service.startDrift(...validated('startDrift', { controlV: 2, intervalS: 1, durationS: '8h', limits: { maxControlV: 5, currentLimitA: 0.05 } }));
+    await waitFor(() =>
+      events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.output === false),
+    );
+    await service.startDrift(
+      ...validated('startDrift', {
+        controlV: 2,
+        intervalS: 1,
+        durationS: '8h',
+        limits: { maxControlV: 5, currentLimitA: 0.05 },
+      }),
+    );
     const samples = await waitFor(() => events.find((e) => e.type === 'samples'));
     const during = await service.getBenchStatus();
     expect(during).toMatchObject({ source: 'run', output: true, controlSetV: 2 });
@@ -157,9 +189,17 @@ describe('BenchApi service', () => {
     expect((await service.getBenchStatus()).paused).toMatchObject({ controlV: 2 });
     await service.stopRun();
     // The run's end is recorded, then the status goes back to the idle poll.
-    await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.safeState !== null));
+    await waitFor(() =>
+      events.find((e) => e.type === 'bench-status' && e.status.source === 'idle' && e.status.safeState !== null),
+    );
     const after = await service.getBenchStatus();
-    expect(after).toMatchObject({ source: 'idle', output: false, controlSetV: 0, paused: null, safeState: { reached: true, outputOff: true, failures: [] } });
+    expect(after).toMatchObject({
+      source: 'idle',
+      output: false,
+      controlSetV: 0,
+      paused: null,
+      safeState: { reached: true, outputOff: true, failures: [] },
+    });
     expect(Date.parse(after.safeState?.at ?? '')).toBeGreaterThan(0);
   });
 });

@@ -97,9 +97,14 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     if (bench && manualOutputOn) {
       const failures: string[] = [];
       let outputOff = false;
-      const result = await goSafe(bench.roles, bench.roles.controlChannel, { controlV: 0, outputOff: true }, (event) => {
-        if (event.step === 'output-off' && event.ok === true) outputOff = true;
-      });
+      const result = await goSafe(
+        bench.roles,
+        bench.roles.controlChannel,
+        { controlV: 0, outputOff: true },
+        (event) => {
+          if (event.step === 'output-off' && event.ok === true) outputOff = true;
+        },
+      );
       failures.push(...result.failures);
       status.manualSafe({ ok: result.ok, failures, outputOff });
       manualOutputOn = false;
@@ -110,20 +115,32 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   };
 
   const requireIdleBench = (): OpenedBench => {
-    if (!bench) throw new BenchApiError('no bench connected: connect to your instruments or to the simulated bench first');
+    if (!bench)
+      throw new BenchApiError('no bench connected: connect to your instruments or to the simulated bench first');
     if (run) throw new BenchApiError(`a run is already in progress (${run.meta.id}); stop it before starting another`);
     return bench;
   };
 
   const startRun = async (kind: RunKind, plan: unknown, dutId: string): Promise<RunMeta> => {
     const opened = requireIdleBench();
-    if (starting || connecting) throw new BenchApiError('another run or connection is being started; try again in a moment');
+    if (starting || connecting)
+      throw new BenchApiError('another run or connection is being started; try again in a moment');
     const procedure = options.procedures[kind];
     if (!procedure) throw new BenchApiError(`${kind} runs are not available in this build`);
     starting = true;
     await stopLive();
     try {
-      const session = await startRunSession({ runsDir: options.runsDir, kind, plan, dutId, bench: opened, procedure, emit, batchMs: options.batchMs, status });
+      const session = await startRunSession({
+        runsDir: options.runsDir,
+        kind,
+        plan,
+        dutId,
+        bench: opened,
+        procedure,
+        emit,
+        batchMs: options.batchMs,
+        status,
+      });
       run = session;
       // The procedure owns the supply now; its own safe state ends the run.
       manualOutputOn = false;
@@ -162,12 +179,16 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
           new Promise<boolean>((resolve) => setTimeout(() => resolve(false), options.lastResortWaitMs ?? 8000).unref()),
         ]);
         if (!ended && opened) {
-          const result = await goSafe(opened.roles, opened.roles.controlChannel, current.safe, (event) => current.note(event));
+          const result = await goSafe(opened.roles, opened.roles.controlChannel, current.safe, (event) =>
+            current.note(event),
+          );
           ok = result.ok;
           await current.abandon().catch(() => undefined);
         }
       } else if (opened) {
-        ok = (await goSafe(opened.roles, opened.roles.controlChannel, { controlV: 0, outputOff: true }, () => undefined)).ok;
+        ok = (
+          await goSafe(opened.roles, opened.roles.controlChannel, { controlV: 0, outputOff: true }, () => undefined)
+        ).ok;
       }
     } catch {
       ok = false;
@@ -204,7 +225,9 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
               bench = await options.openBench(previous);
               setConnection(bench.connection);
               startLive();
-              throw new BenchApiError(`could not connect to these instruments: ${message}. The previous bench is connected again.`);
+              throw new BenchApiError(
+                `could not connect to these instruments: ${message}. The previous bench is connected again.`,
+              );
             } catch (reopenError) {
               if (reopenError instanceof BenchApiError) throw reopenError;
               bench = null;
@@ -214,7 +237,10 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
           throw new BenchApiError(`could not connect to these instruments: ${message}`);
         }
         // An identity is whatever the peer answered: keep it short and printable.
-        bench.connection = { ...bench.connection, roles: bench.connection.roles.map((role) => ({ ...role, idn: sanitiseText(role.idn, 100) })) };
+        bench.connection = {
+          ...bench.connection,
+          roles: bench.connection.roles.map((role) => ({ ...role, idn: sanitiseText(role.idn, 100) })),
+        };
         setConnection(bench.connection);
         startLive();
         return connection;
@@ -230,7 +256,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     getBenchStatus: async () => status.status,
     async manualControl(request) {
       const opened = requireIdleBench();
-      if (starting || connecting) throw new BenchApiError('a run or a connection is being started; try again in a moment');
+      if (starting || connecting)
+        throw new BenchApiError('a run or a connection is being started; try again in a moment');
       starting = true;
       await stopLive();
       // Until read back, assume the output may be on: a failure half-way must still end in the safe state.

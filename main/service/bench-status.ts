@@ -33,7 +33,8 @@ const EMPTY: BenchStatus = {
   safeState: null,
 };
 
-const finiteOrNull = (value: unknown): number | null => (typeof value === 'number' && Number.isFinite(value) ? value : null);
+const finiteOrNull = (value: unknown): number | null =>
+  typeof value === 'number' && Number.isFinite(value) ? value : null;
 
 export class BenchStatusTracker {
   #status: BenchStatus = EMPTY;
@@ -85,7 +86,13 @@ export class BenchStatusTracker {
   runStarted(runId: string): void {
     this.#run = { id: runId, steps: 0, failures: [], outputOff: false };
     // Figures from before the run say nothing about it; the run's rows fill them in.
-    this.#set({ source: 'run', paused: null, frequencyHz: null, controlMeasV: null, updatedAt: this.#now().toISOString() });
+    this.#set({
+      source: 'run',
+      paused: null,
+      frequencyHz: null,
+      controlMeasV: null,
+      updatedAt: this.#now().toISOString(),
+    });
   }
 
   /** The newest row of a batch the run recorded. */
@@ -120,7 +127,9 @@ export class BenchStatusTracker {
         break;
       case 'link-lost':
       case 'reconnect-failed':
-        this.#set({ links: this.#link(String(event.role), 'lost', typeof event.error === 'string' ? event.error : null) });
+        this.#set({
+          links: this.#link(String(event.role), 'lost', typeof event.error === 'string' ? event.error : null),
+        });
         break;
       case 'reconnected':
         this.#set({ links: this.#link(String(event.role), 'up', null) });
@@ -128,7 +137,8 @@ export class BenchStatusTracker {
       case 'safe-state': {
         run.steps += 1;
         const step = typeof event.step === 'string' ? event.step : 'step';
-        if (event.ok !== true) run.failures.push(`${step}: ${typeof event.error === 'string' ? event.error : 'failed'}`);
+        if (event.ok !== true)
+          run.failures.push(`${step}: ${typeof event.error === 'string' ? event.error : 'failed'}`);
         const patch: Partial<BenchStatus> = { paused: null };
         const volts = /^control-voltage (\S+) V$/.exec(step);
         if (event.ok === true && volts) patch.controlSetV = finiteOrNull(Number(volts[1]));
@@ -142,7 +152,13 @@ export class BenchStatusTracker {
       case 'end':
         this.#set({
           paused: null,
-          safeState: { runId: run.id, reached: run.steps > 0 && run.failures.length === 0, at, outputOff: run.outputOff, failures: run.failures },
+          safeState: {
+            runId: run.id,
+            reached: run.steps > 0 && run.failures.length === 0,
+            at,
+            outputOff: run.outputOff,
+            failures: run.failures,
+          },
         });
         break;
       default:
@@ -160,7 +176,13 @@ export class BenchStatusTracker {
   manualSafe(result: { ok: boolean; failures: string[]; outputOff: boolean }): void {
     this.#set({
       ...(result.outputOff ? { output: false } : {}),
-      safeState: { runId: 'manual', reached: result.ok, at: this.#now().toISOString(), outputOff: result.outputOff, failures: result.failures },
+      safeState: {
+        runId: 'manual',
+        reached: result.ok,
+        at: this.#now().toISOString(),
+        outputOff: result.outputOff,
+        failures: result.failures,
+      },
     });
   }
 
@@ -174,7 +196,15 @@ export class BenchStatusTracker {
       paused: null,
       // A run that never reached its end event leaves the supply in a state nobody confirmed.
       ...(run && unrecorded
-        ? { safeState: { runId: run.id, reached: false, at: this.#now().toISOString(), outputOff: run.outputOff, failures: [...run.failures, 'the run recorded no end of its safe state'] } }
+        ? {
+            safeState: {
+              runId: run.id,
+              reached: false,
+              at: this.#now().toISOString(),
+              outputOff: run.outputOff,
+              failures: [...run.failures, 'the run recorded no end of its safe state'],
+            },
+          }
         : {}),
     });
   }

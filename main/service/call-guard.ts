@@ -33,7 +33,8 @@ export function describeError(error: unknown): WireError {
   return { message };
 }
 
-export type CheckedCall = { ok: true; method: BenchMethod | DesktopMethod; args: unknown[] } | { ok: false; error: WireError };
+export type CheckedCall =
+  { ok: true; method: BenchMethod | DesktopMethod; args: unknown[] } | { ok: false; error: WireError };
 
 /**
  * Checks one call from outside: a known method, a payload inside the shape
@@ -55,12 +56,19 @@ export function checkCall(method: unknown, params: unknown): CheckedCall {
     }
     return { ok: true, method, args: checked.args };
   } catch (error) {
-    return { ok: false, error: { message: `params: could not be checked (${describeError(error).message})`, field: 'params' } };
+    return {
+      ok: false,
+      error: { message: `params: could not be checked (${describeError(error).message})`, field: 'params' },
+    };
   }
 }
 
 /** Calls a method whose arguments have already passed `parseCallParams`. Throws what the method throws. */
-export async function invokeValidated(api: BenchApi, method: BenchMethod | DesktopMethod, args: unknown[]): Promise<unknown> {
+export async function invokeValidated(
+  api: BenchApi,
+  method: BenchMethod | DesktopMethod,
+  args: unknown[],
+): Promise<unknown> {
   const fn = (api as unknown as MethodTable)[method];
   if (typeof fn !== 'function') throw new BenchApiError(`${method}: not available here`, 'method');
   const result = await fn.apply(api, args);

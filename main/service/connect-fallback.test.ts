@@ -25,7 +25,12 @@ describe('a refused connection', () => {
       openBench: async (config) => {
         if (config !== 'sim') throw new Error('tcp://127.0.0.1:1: connection refused');
         opened.push('sim');
-        return { roles: fakeBench(clock), connection: { connected: true, simulated: true, roles: [], error: null }, clock, close: async () => undefined };
+        return {
+          roles: fakeBench(clock),
+          connection: { connected: true, simulated: true, roles: [], error: null },
+          clock,
+          close: async () => undefined,
+        };
       },
       listSerialPorts: async () => [],
       listProfiles: async () => [],
@@ -35,7 +40,9 @@ describe('a refused connection', () => {
     });
     await service.connect('sim');
     const real = { supply: { address: 'tcp://127.0.0.1:1' } } as unknown as BenchConfig;
-    await expect(service.connect(real)).rejects.toThrow('could not connect to these instruments: tcp://127.0.0.1:1: connection refused. The previous bench is connected again.');
+    await expect(service.connect(real)).rejects.toThrow(
+      'could not connect to these instruments: tcp://127.0.0.1:1: connection refused. The previous bench is connected again.',
+    );
     expect(opened).toEqual(['sim', 'sim']);
     await expect(service.getConnection()).resolves.toMatchObject({ connected: true, simulated: true });
   });

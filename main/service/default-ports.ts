@@ -9,7 +9,12 @@ import { listProfiles, loadProfile } from '../instruments/profile-loader.ts';
 import { listSerialPorts } from '../instruments/serial-transport.ts';
 import { DRIFT_COLUMNS, runDrift } from '../procedures/drift.ts';
 import { PUSHING_COLUMNS, runPushing } from '../procedures/pushing.ts';
-import { checkPlanAgainstBench, validateDriftPlan, validatePushingPlan, validateSweepPlan } from '../procedures/recorded-run.ts';
+import {
+  checkPlanAgainstBench,
+  validateDriftPlan,
+  validatePushingPlan,
+  validateSweepPlan,
+} from '../procedures/recorded-run.ts';
 import { runSweep, SWEEP_COLUMNS } from '../procedures/sweep.ts';
 import { addNote, deleteRun, listRuns, openRun, renameDut, restoreRun } from '../store/run-store.ts';
 import type { Clock } from '../time/clock.ts';
@@ -30,7 +35,8 @@ export function storePort(runsDir: string): RunStorePort {
     delete: (id) => deleteRun(runsDir, id),
     restore: (id) => restoreRun(runsDir, id),
     // Parsed in a worker thread: the main thread stays free to serve Stop (issue: a 10 MB import held calls 5.5 s).
-    importCsv: (fileName, csvText, dutId): Promise<RunMeta> => importCsvOffThread({ runsDir, fileName, csvText, dutId }),
+    importCsv: (fileName, csvText, dutId): Promise<RunMeta> =>
+      importCsvOffThread({ runsDir, fileName, csvText, dutId }),
     openImport: (fileName, dutId) => openImportStream({ runsDir, fileName, dutId }),
   };
 }
@@ -86,7 +92,8 @@ export function defaultPorts(options: DefaultServiceOptions): ServicePorts {
   return {
     runsDir: options.runsDir,
     openBench: (config) => openBench(config, { clock: realClock, simClock: options.simClock ?? (() => realClock) }),
-    listSerialPorts: async () => (await listSerialPorts()).ports.map((port) => ({ path: port.path, manufacturer: port.manufacturer ?? null })),
+    listSerialPorts: async () =>
+      (await listSerialPorts()).ports.map((port) => ({ path: port.path, manufacturer: port.manufacturer ?? null })),
     listProfiles: profilesWithRoles,
     store: storePort(options.runsDir),
     procedures: { sweep: sweepPort, drift: driftPort, pushing: pushingPort },

@@ -9,7 +9,9 @@ import type { BenchEvent } from '../../app/contract/bench-api.ts';
 export type ListenerErrorReporter = (error: unknown, event: BenchEvent) => void;
 
 const reportToStderr: ListenerErrorReporter = (error, event) => {
-  console.error(`tunebench: a subscriber to "${event.type}" events failed: ${error instanceof Error ? error.message : String(error)}`);
+  console.error(
+    `tunebench: a subscriber to "${event.type}" events failed: ${error instanceof Error ? error.message : String(error)}`,
+  );
 };
 
 export class EventHub {

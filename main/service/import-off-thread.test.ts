@@ -22,6 +22,8 @@ describe('CSV import off the main thread', () => {
 
   it('reports a refused file as an error naming the problem, not a crash', async () => {
     dir = await mkdtemp(join(tmpdir(), 'tunebench-import-worker-'));
-    await expect(importCsvOffThread({ runsDir: dir, fileName: 'x.csv', csvText: 'no,numbers\nhere,either\n', dutId: 'w1' })).rejects.toThrow(/x\.csv|column|frequency/i);
+    await expect(
+      importCsvOffThread({ runsDir: dir, fileName: 'x.csv', csvText: 'no,numbers\nhere,either\n', dutId: 'w1' }),
+    ).rejects.toThrow(/x\.csv|column|frequency/i);
   }, 30_000);
 });

@@ -49,7 +49,10 @@ interface StartedWorker {
 
 function startWorker(target: ImportTarget): StartedWorker {
   const data: ImportTarget = { runsDir: target.runsDir, fileName: target.fileName, dutId: target.dutId };
-  const worker = new Worker(workerEntry(), { workerData: data, resourceLimits: { maxOldGenerationSizeMb: IMPORT_WORKER_HEAP_MB } });
+  const worker = new Worker(workerEntry(), {
+    workerData: data,
+    resourceLimits: { maxOldGenerationSizeMb: IMPORT_WORKER_HEAP_MB },
+  });
   let settle: ((outcome: ImportJobResult) => void) | null = null;
   const outcome = new Promise<ImportJobResult>((resolve) => (settle = resolve));
   const finishWith = (result: ImportJobResult): void => {
@@ -67,7 +70,9 @@ function startWorker(target: ImportTarget): StartedWorker {
           : `importing ${target.fileName} failed: ${error.message}`,
     }),
   );
-  worker.once('exit', (code) => finishWith({ ok: false, message: `importing ${target.fileName} stopped unexpectedly (worker exit ${code})` }));
+  worker.once('exit', (code) =>
+    finishWith({ ok: false, message: `importing ${target.fileName} stopped unexpectedly (worker exit ${code})` }),
+  );
   return {
     post(message, transfer = []) {
       if (settle) worker.postMessage(message, transfer);
@@ -86,7 +91,8 @@ export function openImportStream(target: ImportTarget): ImportStream {
   return {
     push(bytes) {
       // Its own buffer, moved to the worker: nothing of the file stays on this thread.
-      const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
+      const whole =
+        bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
       const owned = whole ? bytes : bytes.slice();
       worker.post({ kind: 'slice', bytes: owned }, [owned.buffer as ArrayBuffer]);
     },

@@ -4,7 +4,13 @@ import { installLastResortGuard, type GuardCause } from './last-resort-guard.ts'
 
 afterEach(() => vi.useRealTimers());
 
-function setup(options: { onSignal?: (signal: string) => void; hang?: boolean; heap?: { usedBytes: number; limitBytes: number } } = {}) {
+function setup(
+  options: {
+    onSignal?: (signal: string) => void;
+    hang?: boolean;
+    heap?: { usedBytes: number; limitBytes: number };
+  } = {},
+) {
   const source = new EventEmitter();
   const causes: GuardCause[] = [];
   const exits: number[] = [];
@@ -35,7 +41,9 @@ describe('last-resort guard', () => {
     g.source.emit('uncaughtException', new RangeError('Maximum call stack size exceeded'));
     g.source.emit('unhandledRejection', new Error('second'));
     await settle();
-    expect(g.causes).toEqual([{ kind: 'crash', what: 'uncaughtException', error: 'RangeError: Maximum call stack size exceeded' }]);
+    expect(g.causes).toEqual([
+      { kind: 'crash', what: 'uncaughtException', error: 'RangeError: Maximum call stack size exceeded' },
+    ]);
     expect(g.exits).toEqual([1]);
     g.remove();
   });
@@ -70,7 +78,11 @@ describe('last-resort guard', () => {
     expect(g.causes).toEqual([]); // 700 MB left of 4 GB: more than 15 %
     g.heap.usedBytes = 3.5e9;
     await new Promise((resolve) => setTimeout(resolve, 40));
-    expect(g.causes[0]).toEqual({ kind: 'memory', usedMb: Math.round(3.5e9 / 2 ** 20), limitMb: Math.round(4e9 / 2 ** 20) });
+    expect(g.causes[0]).toEqual({
+      kind: 'memory',
+      usedMb: Math.round(3.5e9 / 2 ** 20),
+      limitMb: Math.round(4e9 / 2 ** 20),
+    });
     expect(g.exits).toEqual([1]);
     g.remove();
   });
@@ -87,6 +99,7 @@ describe('last-resort guard', () => {
   it('removes every listener it added', () => {
     const g = setup();
     g.remove();
-    for (const event of ['uncaughtException', 'unhandledRejection', 'SIGTERM', 'SIGINT', 'SIGHUP']) expect(g.source.listenerCount(event)).toBe(0);
+    for (const event of ['uncaughtException', 'unhandledRejection', 'SIGTERM', 'SIGINT', 'SIGHUP'])
+      expect(g.source.listenerCount(event)).toBe(0);
   });
 });

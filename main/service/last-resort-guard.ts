@@ -78,7 +78,9 @@ export function installLastResortGuard(options: LastResortGuardOptions): () => v
     handling = true;
     options.log(`tunebench: ${describeCause(cause)} — leaving the bench safe before exiting`);
     const deadline = setTimeout(() => {
-      options.log(`tunebench: the safe state did not finish within ${deadlineMs / 1000} s; exiting — check the supply now`);
+      options.log(
+        `tunebench: the safe state did not finish within ${deadlineMs / 1000} s; exiting — check the supply now`,
+      );
       options.exit(code || 1);
     }, deadlineMs);
     void options.holder
@@ -86,7 +88,8 @@ export function installLastResortGuard(options: LastResortGuardOptions): () => v
       .catch(() => ({ ok: false }))
       .then((result) => {
         clearTimeout(deadline);
-        if (!result.ok) options.log('tunebench: the safe state could not be confirmed on every step — check the supply now');
+        if (!result.ok)
+          options.log('tunebench: the safe state could not be confirmed on every step — check the supply now');
         options.exit(result.ok ? code : code || 1);
       });
   };
@@ -123,7 +126,14 @@ export function installLastResortGuard(options: LastResortGuardOptions): () => v
       const heap = read();
       const headroom = Math.max(headroomFraction * heap.limitBytes, 96 * 2 ** 20);
       if (heap.limitBytes > 0 && heap.usedBytes > heap.limitBytes - headroom) {
-        act({ kind: 'memory', usedMb: Math.round(heap.usedBytes / 2 ** 20), limitMb: Math.round(heap.limitBytes / 2 ** 20) }, 1);
+        act(
+          {
+            kind: 'memory',
+            usedMb: Math.round(heap.usedBytes / 2 ** 20),
+            limitMb: Math.round(heap.limitBytes / 2 ** 20),
+          },
+          1,
+        );
       }
     }, options.memory?.periodMs ?? 250);
     watch.unref();

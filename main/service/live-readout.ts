@@ -27,13 +27,17 @@ function isLinkFailure(error: unknown): boolean {
 }
 
 /** One idle poll: the readout plus the output state and each role whose link failed. */
-export async function readLiveStatus(roles: BenchRoles, clock: Clock): Promise<{ readout: LiveReadout; idle: IdleReading }> {
+export async function readLiveStatus(
+  roles: BenchRoles,
+  clock: Clock,
+): Promise<{ readout: LiveReadout; idle: IdleReading }> {
   const lost: IdleReading['lost'] = {};
   const read = async <T>(role: 'supply' | 'counter' | 'thermometer', work: () => Promise<T>): Promise<T | null> => {
     try {
       return await work();
     } catch (error) {
-      if (isLinkFailure(error) && lost[role] === undefined) lost[role] = error instanceof Error ? error.message : String(error);
+      if (isLinkFailure(error) && lost[role] === undefined)
+        lost[role] = error instanceof Error ? error.message : String(error);
       return null;
     }
   };
@@ -41,7 +45,10 @@ export async function readLiveStatus(roles: BenchRoles, clock: Clock): Promise<{
   const controlSetV = await read('supply', () => roles.supply.getVoltageSetpoint(channel));
   // A supply that has just failed is not asked again in the same poll.
   const supplyUp = () => lost.supply === undefined;
-  const controlMeasV = roles.supply.capabilities.measureVoltage && supplyUp() ? await read('supply', () => roles.supply.measureVoltage(channel)) : null;
+  const controlMeasV =
+    roles.supply.capabilities.measureVoltage && supplyUp()
+      ? await read('supply', () => roles.supply.measureVoltage(channel))
+      : null;
   const output = supplyUp() ? await read('supply', () => roles.supply.getOutput(channel)) : null;
   const reading = await read('counter', () => roles.counter.readFrequency());
   const thermometer = roles.thermometer;

@@ -28,7 +28,17 @@ describe('manual bring-up control', () => {
       openBench: async () => {
         const roles = fakeBench(clock);
         supply = roles.supply;
-        return { roles, connection: { connected: true, simulated: true, roles: [{ role: 'supply', address: 'sim', idn: 'T,F,0,1', simulated: true }], error: null }, clock, close: async () => undefined };
+        return {
+          roles,
+          connection: {
+            connected: true,
+            simulated: true,
+            roles: [{ role: 'supply', address: 'sim', idn: 'T,F,0,1', simulated: true }],
+            error: null,
+          },
+          clock,
+          close: async () => undefined,
+        };
       },
       listSerialPorts: async () => [],
       listProfiles: async () => [],
@@ -45,27 +55,37 @@ describe('manual bring-up control', () => {
   });
 
   it('applies the limits before the output turns on, reads the setting back, and reports it', async () => {
-    const status = await service.manualControl(request({ controlV: '1.5', output: true, limits: { maxControlV: 3, currentLimitA: '20m' } }));
+    const status = await service.manualControl(
+      request({ controlV: '1.5', output: true, limits: { maxControlV: 3, currentLimitA: '20m' } }),
+    );
     expect(status).toMatchObject({ output: true, controlSetV: 1.5 });
     const order = supply.log.filter((line) => line.startsWith('set'));
     expect(order.indexOf('setCurrentLimit 1 0.02')).toBeLessThan(order.indexOf('setOutput 1 true'));
-    expect(order.findIndex((line) => line.startsWith('setOverVoltageProtection 1'))).toBeLessThan(order.indexOf('setOutput 1 true'));
+    expect(order.findIndex((line) => line.startsWith('setOverVoltageProtection 1'))).toBeLessThan(
+      order.indexOf('setOutput 1 true'),
+    );
     expect(supply.channels.get(1)).toMatchObject({ voltageV: 1.5, output: true, currentLimitA: 0.02 });
   });
 
   it('refuses a voltage above the limit before writing anything, naming the field', async () => {
-    await expect(service.manualControl(request({ controlV: 3.2, output: true, limits: { maxControlV: 3, currentLimitA: 0.02 } }))).rejects.toThrow(
-      /request\.controlV: 3\.2 V exceeds limits\.maxControlV \(3 V\)/,
-    );
+    await expect(
+      service.manualControl(request({ controlV: 3.2, output: true, limits: { maxControlV: 3, currentLimitA: 0.02 } })),
+    ).rejects.toThrow(/request\.controlV: 3\.2 V exceeds limits\.maxControlV \(3 V\)/);
     expect(supply.log.filter((line) => line.startsWith('set'))).toEqual([]);
   });
 
   it('leaves the supply safe on disconnect when bring-up left the output on', async () => {
-    await service.manualControl(request({ controlV: 2, output: true, limits: { maxControlV: 3, currentLimitA: 0.02 } }));
+    await service.manualControl(
+      request({ controlV: 2, output: true, limits: { maxControlV: 3, currentLimitA: 0.02 } }),
+    );
     const bySupply = supply;
     await service.disconnect();
     expect(bySupply.channels.get(1)).toMatchObject({ voltageV: 0, output: false });
     // The strip still says how the supply was left, after the links closed.
-    expect((await service.getBenchStatus()).safeState).toMatchObject({ runId: 'manual', reached: true, outputOff: true });
+    expect((await service.getBenchStatus()).safeState).toMatchObject({
+      runId: 'manual',
+      reached: true,
+      outputOff: true,
+    });
   });
 });

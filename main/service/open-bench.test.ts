@@ -32,7 +32,10 @@ describe('openBench (the service over assembleBench)', () => {
     try {
       const realClock = new RealClock();
       const bench = await openBench(
-        { supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: served.addresses.counter } },
+        {
+          supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 },
+          counter: { address: served.addresses.counter },
+        },
         { clock: realClock, simClock: () => new VirtualClock() },
       );
       expect(bench.clock).toBe(realClock);

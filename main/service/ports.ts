@@ -3,13 +3,7 @@
  * main/service/default-ports.ts fills them with the real modules (store,
  * procedures, bench assembly, simulator); tests fill them with fakes.
  */
-import type {
-  ConnectionState,
-  RunDetail,
-  RunKind,
-  RunMeta,
-  SerialPortInfo,
-} from '../../app/contract/bench-api.ts';
+import type { ConnectionState, RunDetail, RunKind, RunMeta, SerialPortInfo } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import type { RunControl } from '../procedures/run-control.ts';
 import type { BenchRoles, ProcedureOutcome, ProcedureProgress, RunSink } from '../procedures/types.ts';

@@ -40,7 +40,11 @@ export interface RunSession {
   abandon(): Promise<void>;
 }
 
-function teeSink(writer: RunWriter, batcher: SampleBatcher<SampleRow>, onEvent: (event: ProcedureEvent) => void): RunSink {
+function teeSink(
+  writer: RunWriter,
+  batcher: SampleBatcher<SampleRow>,
+  onEvent: (event: ProcedureEvent) => void,
+): RunSink {
   return {
     appendSample(row) {
       writer.appendSample(row);

@@ -27,14 +27,23 @@ export const ambientProfileSchema = z.discriminatedUnion('kind', [
     points: z
       .array(z.tuple([z.number().nonnegative(), z.number()]))
       .min(1)
-      .refine((pts) => pts.every((p, i) => i === 0 || p[0] > (pts[i - 1] as [number, number])[0]), 'points must ascend in time'),
+      .refine(
+        (pts) => pts.every((p, i) => i === 0 || p[0] > (pts[i - 1] as [number, number])[0]),
+        'points must ascend in time',
+      ),
   }),
 ]);
 
 export type AmbientProfile = z.infer<typeof ambientProfileSchema>;
 
 /** A lab's air conditioning: 23 °C ± 1.5 °C over 6 hours. */
-export const DEFAULT_AMBIENT: AmbientProfile = { kind: 'sinusoid', meanC: 23, amplitudeC: 1.5, periodS: 6 * 3600, phaseRad: 0 };
+export const DEFAULT_AMBIENT: AmbientProfile = {
+  kind: 'sinusoid',
+  meanC: 23,
+  amplitudeC: 1.5,
+  periodS: 6 * 3600,
+  phaseRad: 0,
+};
 
 /** Temperature at `elapsedS` seconds after the bench started. */
 export function ambientAt(profile: AmbientProfile, elapsedS: number): number {
@@ -42,7 +51,9 @@ export function ambientAt(profile: AmbientProfile, elapsedS: number): number {
     case 'constant':
       return profile.temperatureC;
     case 'sinusoid':
-      return profile.meanC + profile.amplitudeC * Math.sin((2 * Math.PI * elapsedS) / profile.periodS + profile.phaseRad);
+      return (
+        profile.meanC + profile.amplitudeC * Math.sin((2 * Math.PI * elapsedS) / profile.periodS + profile.phaseRad)
+      );
     case 'ramp':
       return Math.min(profile.maxC, Math.max(profile.minC, profile.startC + (profile.ratePerHourC * elapsedS) / 3600));
     case 'points': {

@@ -13,7 +13,10 @@ const flat = (c: number) => () => c;
 
 describe('ChamberThermal', () => {
   it('ramps at the set rate, then approaches first-order; the DUT lags', () => {
-    const th = new ChamberThermal({ ambientCAt: flat(20), airTauS: 60, dutTauS: 300, overshootFraction: 0, hardwareRampCPerMin: 10 }, 0);
+    const th = new ChamberThermal(
+      { ambientCAt: flat(20), airTauS: 60, dutTauS: 300, overshootFraction: 0, hardwareRampCPerMin: 10 },
+      0,
+    );
     th.setRamp(0, 2);
     th.setSetpoint(0, 60);
     th.setRunning(0, true);
@@ -25,7 +28,10 @@ describe('ChamberThermal', () => {
   });
 
   it('a step (fast ramp) reaches 63.2 % after one air time constant', () => {
-    const th = new ChamberThermal({ ambientCAt: flat(20), airTauS: 100, dutTauS: 1e6, overshootFraction: 0, hardwareRampCPerMin: 1e6 }, 0);
+    const th = new ChamberThermal(
+      { ambientCAt: flat(20), airTauS: 100, dutTauS: 1e6, overshootFraction: 0, hardwareRampCPerMin: 1e6 },
+      0,
+    );
     th.setRamp(0, 1e6);
     th.setSetpoint(0, 30);
     th.setRunning(0, true);
@@ -34,7 +40,10 @@ describe('ChamberThermal', () => {
 
   it('overshoots by the requested fraction', () => {
     expect(dampingFromOvershoot(0.1)).toBeCloseTo(0.5912, 3);
-    const th = new ChamberThermal({ ambientCAt: flat(20), airTauS: 50, dutTauS: 1e6, overshootFraction: 0.1, hardwareRampCPerMin: 1e6 }, 0);
+    const th = new ChamberThermal(
+      { ambientCAt: flat(20), airTauS: 50, dutTauS: 1e6, overshootFraction: 0.1, hardwareRampCPerMin: 1e6 },
+      0,
+    );
     th.setRamp(0, 1e6);
     th.setSetpoint(0, 30);
     th.setRunning(0, true);
@@ -46,7 +55,10 @@ describe('ChamberThermal', () => {
 
   it('leaves the DUT in lab air until first run', () => {
     let c = 21;
-    const th = new ChamberThermal({ ambientCAt: () => c, airTauS: 60, dutTauS: 300, overshootFraction: 0, hardwareRampCPerMin: 5 }, 0);
+    const th = new ChamberThermal(
+      { ambientCAt: () => c, airTauS: 60, dutTauS: 300, overshootFraction: 0, hardwareRampCPerMin: 5 },
+      0,
+    );
     c = 24;
     expect(th.dutCAt(10)).toBe(24);
   });

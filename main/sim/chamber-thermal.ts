@@ -132,6 +132,13 @@ export class ChamberThermal {
 
   state(tS: number): ChamberThermalState {
     this.advanceTo(tS);
-    return { running: this.#running, setpointC: this.#setpointC, rampCPerMin: this.#rampCPerMin, rampTargetC: this.#target, airC: this.#air, dutC: this.#dut };
+    return {
+      running: this.#running,
+      setpointC: this.#setpointC,
+      rampCPerMin: this.#rampCPerMin,
+      rampTargetC: this.#target,
+      airC: this.#air,
+      dutC: this.#dut,
+    };
   }
 }

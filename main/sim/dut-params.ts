@@ -14,11 +14,20 @@ import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
  * `max` is the largest magnitude accepted.
  */
 const positive = (what: string, max: number) =>
-  z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`).max(max, `${what} must be ≤ ${max}`);
+  z
+    .number({ error: `${what} must be a number` })
+    .positive(`${what} must be > 0`)
+    .max(max, `${what} must be ≤ ${max}`);
 const finite = (what: string, max: number) =>
-  z.number({ error: `${what} must be a number` }).min(-max, `${what} must be ≥ ${-max}`).max(max, `${what} must be ≤ ${max}`);
+  z
+    .number({ error: `${what} must be a number` })
+    .min(-max, `${what} must be ≥ ${-max}`)
+    .max(max, `${what} must be ≤ ${max}`);
 const nonNegative = (what: string, max: number) =>
-  z.number({ error: `${what} must be a number` }).nonnegative(`${what} must be ≥ 0`).max(max, `${what} must be ≤ ${max}`);
+  z
+    .number({ error: `${what} must be a number` })
+    .nonnegative(`${what} must be ≥ 0`)
+    .max(max, `${what} must be ≤ ${max}`);
 
 const commonFields = {
   $schema: schemaRef,
@@ -112,10 +121,18 @@ export const dutParamsSchema = z
   .discriminatedUnion('kind', [relaxationDutSchema, varactorDutSchema])
   .superRefine((dut, ctx) => {
     if (dut.supply.minV > dut.supply.nominalV) {
-      ctx.addIssue({ code: 'custom', path: ['supply', 'minV'], message: 'supply.minV must not exceed supply.nominalV' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['supply', 'minV'],
+        message: 'supply.minV must not exceed supply.nominalV',
+      });
     }
     if (dut.kind === 'relaxation' && dut.thresholds.lowerV >= dut.thresholds.upperV) {
-      ctx.addIssue({ code: 'custom', path: ['thresholds', 'upperV'], message: 'thresholds.upperV must exceed thresholds.lowerV' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['thresholds', 'upperV'],
+        message: 'thresholds.upperV must exceed thresholds.lowerV',
+      });
     }
   });
 

@@ -42,7 +42,12 @@ export function chargeVoltage(p: RelaxationDutParams, tuneV: number, supplyV: nu
  * can never make the oscillator faster than the charging law allows, so near
  * the stall edge the frequency still falls toward zero.
  */
-export function relaxationCore(p: RelaxationDutParams, tuneV: number, supplyV: number, upperShiftV = 0): OscillatorCore {
+export function relaxationCore(
+  p: RelaxationDutParams,
+  tuneV: number,
+  supplyV: number,
+  upperShiftV = 0,
+): OscillatorCore {
   const { lowerV, noiseV } = p.thresholds;
   const upperV = p.thresholds.upperV + upperShiftV;
   const chargeRcS = p.timing.chargeResistanceOhm * p.timing.capacitanceF;

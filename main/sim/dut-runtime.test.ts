@@ -155,9 +155,15 @@ describe('near the stall edge the model is physics (issue 15 item 8)', () => {
   it('DUT files with values outside physical ranges are refused, naming the field', () => {
     const base = builtinDut('relaxation');
     if (base.kind !== 'relaxation') throw new Error('expected the relaxation DUT');
-    expect(() => parseDutParams({ ...base, noise: { ...base.noise, whiteFmAt1s: 1e308 } })).toThrow(/noise\.whiteFmAt1s: noise\.whiteFmAt1s must be ≤ 0\.001/);
-    expect(() => parseDutParams({ ...base, tuning: { ...base.tuning, settleTauS: 1e308 } })).toThrow(/tuning\.settleTauS: .*≤ 1000/);
-    expect(() => parseDutParams({ ...base, timing: { ...base.timing, capacitanceF: Infinity } })).toThrow(/timing\.capacitanceF/);
+    expect(() => parseDutParams({ ...base, noise: { ...base.noise, whiteFmAt1s: 1e308 } })).toThrow(
+      /noise\.whiteFmAt1s: noise\.whiteFmAt1s must be ≤ 0\.001/,
+    );
+    expect(() => parseDutParams({ ...base, tuning: { ...base.tuning, settleTauS: 1e308 } })).toThrow(
+      /tuning\.settleTauS: .*≤ 1000/,
+    );
+    expect(() => parseDutParams({ ...base, timing: { ...base.timing, capacitanceF: Infinity } })).toThrow(
+      /timing\.capacitanceF/,
+    );
     expect(parseDutParams(base)).toEqual(base);
   });
 });

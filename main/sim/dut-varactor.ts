@@ -8,7 +8,12 @@
 import type { VaractorDutParams } from './dut-params.ts';
 import type { OscillatorCore } from './dut-relaxation.ts';
 
-export function junctionCapacitanceF(reverseV: number, cj0F: number, builtInV: number, gradingExponent: number): number {
+export function junctionCapacitanceF(
+  reverseV: number,
+  cj0F: number,
+  builtInV: number,
+  gradingExponent: number,
+): number {
   return cj0F / Math.pow(1 + reverseV / builtInV, gradingExponent);
 }
 

@@ -20,11 +20,17 @@ async function setup(faults: FaultInput[]) {
 
 describe('fault script schema', () => {
   it('names the missing or conflicting field', async () => {
-    expect(() => parseFaultScript({ faults: [{ device: 'counter', type: 'delay', atS: 1 }] }, 'f.json')).toThrow(/f\.json.*faults\.0\.delayS/);
-    expect(() => parseFaultScript({ faults: [{ device: 'counter', type: 'drop', atS: 1, atReading: 2 }] })).toThrow(/exactly one of atS or atReading/);
+    expect(() => parseFaultScript({ faults: [{ device: 'counter', type: 'delay', atS: 1 }] }, 'f.json')).toThrow(
+      /f\.json.*faults\.0\.delayS/,
+    );
+    expect(() => parseFaultScript({ faults: [{ device: 'counter', type: 'drop', atS: 1, atReading: 2 }] })).toThrow(
+      /exactly one of atS or atReading/,
+    );
     expect(() => parseFaultScript({ faults: [{ device: 'oven', type: 'drop', atS: 1 }] })).toThrow(/faults\.0\.device/);
     const example = loadFaultScriptFile(fileURLToPath(new URL('./fault-script.example.json', import.meta.url)));
-    await expect(example).resolves.toMatchObject({ faults: expect.arrayContaining([expect.objectContaining({ type: 'silence', durationS: 10 })]) });
+    await expect(example).resolves.toMatchObject({
+      faults: expect.arrayContaining([expect.objectContaining({ type: 'silence', durationS: 10 })]),
+    });
     const ok = parseFaultScript({ faults: [{ device: 'counter', type: 'garbage', atReading: 3 }] });
     expect((ok.faults[0] as Extract<FaultSpec, { type: 'garbage' }>).count).toBe(1);
   });
@@ -70,7 +76,9 @@ describe('faults on the in-process transport', () => {
   });
 
   it('pushes an error onto the queue at a time', async () => {
-    const { clock, q } = await setup([{ device: 'counter', type: 'error', atS: 3, code: -350, message: 'Queue overflow' }]);
+    const { clock, q } = await setup([
+      { device: 'counter', type: 'error', atS: 3, code: -350, message: 'Queue overflow' },
+    ]);
     expect(await q('SYST:ERR?')).toBe('0,"No error"');
     await clock.advance(3);
     expect(await q('SYST:ERR?')).toBe('-350,"Queue overflow"');

@@ -21,12 +21,20 @@ const trigger = {
 export const faultSchema = z
   .discriminatedUnion('type', [
     z.object({ type: z.literal('drop'), ...trigger }),
-    z.object({ type: z.literal('delay'), ...trigger, delayS: z.number().positive(), count: z.number().int().positive().default(1) }),
+    z.object({
+      type: z.literal('delay'),
+      ...trigger,
+      delayS: z.number().positive(),
+      count: z.number().int().positive().default(1),
+    }),
     z.object({ type: z.literal('garbage'), ...trigger, count: z.number().int().positive().default(1) }),
     z.object({
       type: z.literal('error'),
       ...trigger,
-      code: z.number().int().refine((c) => c !== 0, 'code must not be 0'),
+      code: z
+        .number()
+        .int()
+        .refine((c) => c !== 0, 'code must not be 0'),
       message: z.string().min(1),
     }),
     z.object({ type: z.literal('silence'), ...trigger, durationS: z.number().positive().optional() }),
@@ -118,7 +126,8 @@ export class DeviceFaults implements DeviceFaultHooks {
         this.#device.pushError(spec.code, spec.message);
         return;
       case 'silence':
-        this.#silentUntilS = spec.durationS === undefined ? Number.POSITIVE_INFINITY : this.#clock.now() + spec.durationS;
+        this.#silentUntilS =
+          spec.durationS === undefined ? Number.POSITIVE_INFINITY : this.#clock.now() + spec.durationS;
         return;
     }
   }
@@ -147,7 +156,8 @@ export class DeviceFaults implements DeviceFaultHooks {
             this.#device.pushError(spec.code, spec.message);
             break;
           case 'silence':
-            this.#silentUntilS = spec.durationS === undefined ? Number.POSITIVE_INFINITY : this.#clock.now() + spec.durationS;
+            this.#silentUntilS =
+              spec.durationS === undefined ? Number.POSITIVE_INFINITY : this.#clock.now() + spec.durationS;
             return { kind: 'silent' };
         }
       }

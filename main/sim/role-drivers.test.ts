@@ -43,7 +43,8 @@ describe('role drivers on the simulated bench (virtual time)', () => {
       })(),
     );
     const ok = readings.filter((r) => r.status === 'ok');
-    for (let i = 1; i < ok.length; i++) expect((ok[i] as { hz: number }).hz).toBeLessThan((ok[i - 1] as { hz: number }).hz);
+    for (let i = 1; i < ok.length; i++)
+      expect((ok[i] as { hz: number }).hz).toBeLessThan((ok[i - 1] as { hz: number }).hz);
     // Stall edge at 1.55 V (Vc = V1): points at 1.6 V and above oscillate, 1.2 V does not.
     expect(readings.filter((r) => r.v > 1.55).every((r) => r.status === 'ok')).toBe(true);
     expect(readings.filter((r) => r.v < 1.5).every((r) => r.status === 'no-signal')).toBe(true);

@@ -8,7 +8,14 @@
 import type { Clock } from '../time/clock.ts';
 import { DeviceLink, type ReplyAction } from './device-link.ts';
 import { ScpiError, SCPI_ERRORS, esrBitFor } from './scpi-errors.ts';
-import { compilePattern, matchPattern, splitProgramMessage, type CompiledPattern, type ProgramUnit, type Suffixes } from './scpi-parser.ts';
+import {
+  compilePattern,
+  matchPattern,
+  splitProgramMessage,
+  type CompiledPattern,
+  type ProgramUnit,
+  type Suffixes,
+} from './scpi-parser.ts';
 import { parseBoolean, parseNumber, type NumberSpec } from './scpi-params.ts';
 import { commonCommands } from './scpi-common-commands.ts';
 
@@ -75,12 +82,18 @@ export class ScpiDevice {
     this.identity = options.identity;
     this.clock = options.clock;
     this.#onReset = options.onReset;
-    this.#commands = [...commonCommands(this), ...options.commands].map((c) => ({ ...c, compiled: compilePattern(c.pattern) }));
+    this.#commands = [...commonCommands(this), ...options.commands].map((c) => ({
+      ...c,
+      compiled: compilePattern(c.pattern),
+    }));
   }
 
   /** Opens a new connection to the device. */
   connect(): DeviceLink {
-    const link = new DeviceLink((line) => this.#receive(link, line), () => this.#links.delete(link));
+    const link = new DeviceLink(
+      (line) => this.#receive(link, line),
+      () => this.#links.delete(link),
+    );
     this.#links.add(link);
     return link;
   }

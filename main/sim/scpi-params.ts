@@ -20,7 +20,17 @@ const NUMBER = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([A-Za-z]*)$/;
 function multiplierFor(prefix: string, unit: string): number | null {
   if (prefix === '') return 1;
   if (prefix === 'M') return unit === 'HZ' || unit === 'OHM' ? 1e6 : 1e-3;
-  const table: Record<string, number> = { EX: 1e18, PE: 1e15, T: 1e12, G: 1e9, MA: 1e6, K: 1e3, U: 1e-6, N: 1e-9, P: 1e-12 };
+  const table: Record<string, number> = {
+    EX: 1e18,
+    PE: 1e15,
+    T: 1e12,
+    G: 1e9,
+    MA: 1e6,
+    K: 1e3,
+    U: 1e-6,
+    N: 1e-9,
+    P: 1e-12,
+  };
   return table[prefix] ?? null;
 }
 

@@ -57,7 +57,14 @@ export interface SimBenchSnapshot {
   counter: SimCounterState;
   thermometer: { temperatureC: number; readings: number };
   chamber: ChamberThermalState;
-  dut: { id: string; tuneNodeV: number; supplyV: number; temperatureC: number; frequencyHz: number; oscillating: boolean };
+  dut: {
+    id: string;
+    tuneNodeV: number;
+    supplyV: number;
+    temperatureC: number;
+    frequencyHz: number;
+    oscillating: boolean;
+  };
 }
 
 export interface SimBench {
@@ -90,7 +97,13 @@ export function createSimBench(options: SimBenchOptions): SimBench {
   const ambientCAt = (tS: number): number => ambientAt(ambient, tS - startS);
   const hardwareRampCPerMin = options.chamber?.hardwareRampCPerMin ?? 5;
   const thermal = new ChamberThermal(
-    { ambientCAt, airTauS: options.chamber?.airTauS ?? 180, dutTauS: dutParams.thermalTauS, overshootFraction: options.chamber?.overshootFraction ?? 0, hardwareRampCPerMin },
+    {
+      ambientCAt,
+      airTauS: options.chamber?.airTauS ?? 180,
+      dutTauS: dutParams.thermalTauS,
+      overshootFraction: options.chamber?.overshootFraction ?? 0,
+      hardwareRampCPerMin,
+    },
     startS,
   );
   // The DUT (and the thermometer on it) follow the chamber; an idle chamber leaves them in lab air.
@@ -121,16 +134,41 @@ export function createSimBench(options: SimBenchOptions): SimBench {
     startS,
   );
   dut = runtime;
-  const counter = new SimCounter({ clock, gate: (t0, gateS) => runtime.gate(t0, gateS), noSignal: options.counterNoSignal });
+  const counter = new SimCounter({
+    clock,
+    gate: (t0, gateS) => runtime.gate(t0, gateS),
+    noSignal: options.counterNoSignal,
+  });
   const thermometer = new SimThermometer({ clock, rng: rng.fork('thermometer'), ambientCAt: dutCAt });
   const chamber = new SimChamber({ clock, rng: rng.fork('chamber'), thermal, hardwareRampCPerMin });
-  const devices = { supply: supply.device, counter: counter.device, thermometer: thermometer.device, chamber: chamber.device };
+  const devices = {
+    supply: supply.device,
+    counter: counter.device,
+    thermometer: thermometer.device,
+    chamber: chamber.device,
+  };
 
-  const script = options.faults === undefined ? { faults: [] } : Array.isArray(options.faults) ? { faults: options.faults } : options.faults;
+  const script =
+    options.faults === undefined
+      ? { faults: [] }
+      : Array.isArray(options.faults)
+        ? { faults: options.faults }
+        : options.faults;
   const specs: readonly FaultSpec[] = parseFaultScript(script, 'faults').faults;
   const faultsFor = (role: RoleName): DeviceFaults =>
-    new DeviceFaults(devices[role], specs.filter((f) => f.device === role), clock, rng.fork(`faults:${role}`), startS);
-  const faults = { supply: faultsFor('supply'), counter: faultsFor('counter'), thermometer: faultsFor('thermometer'), chamber: faultsFor('chamber') };
+    new DeviceFaults(
+      devices[role],
+      specs.filter((f) => f.device === role),
+      clock,
+      rng.fork(`faults:${role}`),
+      startS,
+    );
+  const faults = {
+    supply: faultsFor('supply'),
+    counter: faultsFor('counter'),
+    thermometer: faultsFor('thermometer'),
+    chamber: faultsFor('chamber'),
+  };
 
   return {
     clock,
@@ -153,7 +191,14 @@ export function createSimBench(options: SimBenchOptions): SimBench {
         counter: counter.state(),
         thermometer: thermometer.state(),
         chamber: thermal.state(now),
-        dut: { id: dutParams.id, tuneNodeV: c.tuneNodeV, supplyV: c.supplyV, temperatureC: c.temperatureC, frequencyHz, oscillating: frequencyHz > 0 },
+        dut: {
+          id: dutParams.id,
+          tuneNodeV: c.tuneNodeV,
+          supplyV: c.supplyV,
+          temperatureC: c.temperatureC,
+          frequencyHz,
+          oscillating: frequencyHz > 0,
+        },
       };
     },
     close() {

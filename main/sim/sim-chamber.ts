@@ -42,12 +42,14 @@ export class SimChamber {
       commands: [
         {
           pattern: 'TEMPerature:SETPoint',
-          set: (ctx) => this.thermal.setSetpoint(now(), ctx.number(0, { unit: 'CEL', ...SIM_CHAMBER_RANGE_C }, 'TEMP:SETP')),
+          set: (ctx) =>
+            this.thermal.setSetpoint(now(), ctx.number(0, { unit: 'CEL', ...SIM_CHAMBER_RANGE_C }, 'TEMP:SETP')),
           query: () => formatNr3(this.thermal.state(now()).setpointC, 6),
         },
         {
           pattern: 'TEMPerature:RAMP',
-          set: (ctx) => this.thermal.setRamp(now(), ctx.number(0, { min: 0.1, max: options.hardwareRampCPerMin }, 'TEMP:RAMP')),
+          set: (ctx) =>
+            this.thermal.setRamp(now(), ctx.number(0, { min: 0.1, max: options.hardwareRampCPerMin }, 'TEMP:RAMP')),
           query: () => formatNr3(this.thermal.state(now()).rampCPerMin, 6),
         },
         { pattern: 'MEASure[:SCALar]:TEMPerature[:DC]', query: air },

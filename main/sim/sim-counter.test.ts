@@ -6,7 +6,13 @@ import { SCPI_NAN_TEXT } from './sim-counter.ts';
 
 async function setup(extra: Partial<SimBenchOptions> = {}) {
   const clock = new VirtualClock();
-  const bench = createSimBench({ clock, dut: 'relaxation', seed: 11, ambient: { kind: 'constant', temperatureC: 25 }, ...extra });
+  const bench = createSimBench({
+    clock,
+    dut: 'relaxation',
+    seed: 11,
+    ambient: { kind: 'constant', temperatureC: 25 },
+    ...extra,
+  });
   const open = async (role: 'supply' | 'counter' | 'thermometer') => {
     const client = new LineClient(bench.transport(role));
     await client.transport.open();

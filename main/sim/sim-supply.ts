@@ -60,7 +60,9 @@ export class SimSupply {
   #powerOnChannels(): SupplyChannel[] {
     const now = this.#options.clock.now();
     const slew = this.#options.slewVPerS ?? 1000;
-    return this.#options.powerOn.map((s, i) => new SupplyChannel(i + 1, this.#options.loadsOhm[i] as number, slew, s, now));
+    return this.#options.powerOn.map(
+      (s, i) => new SupplyChannel(i + 1, this.#options.loadsOhm[i] as number, slew, s, now),
+    );
   }
 
   #reset(): void {
@@ -149,7 +151,10 @@ export class SimSupply {
         },
         query: (ctx) => formatNr3(this.#pick(ctx, 'SOUR').settings.ovpV, 6),
       },
-      { pattern: '[SOURce#]:VOLTage:PROTection:TRIPped', query: (ctx) => (this.#pick(ctx, 'SOUR').ovpTripped ? '1' : '0') },
+      {
+        pattern: '[SOURce#]:VOLTage:PROTection:TRIPped',
+        query: (ctx) => (this.#pick(ctx, 'SOUR').ovpTripped ? '1' : '0'),
+      },
       {
         pattern: 'OUTPut#:PROTection:CLEar',
         set: (ctx) => {

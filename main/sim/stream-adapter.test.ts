@@ -57,8 +57,11 @@ describe('device on a serial pty pair (socat)', () => {
     dir = await mkdtemp(join(tmpdir(), 'tunebench-pty-'));
     const devicePath = join(dir, 'device');
     const hostPath = join(dir, 'host');
-    socat = spawn('/usr/bin/socat', [`pty,raw,echo=0,link=${devicePath}`, `pty,raw,echo=0,link=${hostPath}`], { stdio: 'ignore' });
-    for (let i = 0; i < 100 && !(existsSync(devicePath) && existsSync(hostPath)); i++) await new Promise((r) => setTimeout(r, 20));
+    socat = spawn('/usr/bin/socat', [`pty,raw,echo=0,link=${devicePath}`, `pty,raw,echo=0,link=${hostPath}`], {
+      stdio: 'ignore',
+    });
+    for (let i = 0; i < 100 && !(existsSync(devicePath) && existsSync(hostPath)); i++)
+      await new Promise((r) => setTimeout(r, 20));
     const bench = createSimBench({ clock: new RealClock(), seed: 8 });
     const served = await serveDeviceOnSerial(bench.counter.device, { path: devicePath, baudRate: 115200 });
     const { SerialPort } = await import('serialport');

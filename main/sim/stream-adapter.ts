@@ -9,7 +9,8 @@ import type { ScpiDevice } from './scpi-device.ts';
 /** Attaches `device` to `stream`; returns a function that detaches (without ending the stream). */
 export function attachDeviceToStream(device: ScpiDevice, stream: Duplex): () => void {
   const link = device.connect();
-  const onData = (chunk: Buffer | string): void => link.write(typeof chunk === 'string' ? chunk : new Uint8Array(chunk));
+  const onData = (chunk: Buffer | string): void =>
+    link.write(typeof chunk === 'string' ? chunk : new Uint8Array(chunk));
   const onEnd = (): void => link.close();
   // Half-close from the host (e.g. `socat -` at end of input): answer what was asked, then end.
   const onInputEnd = (): void =>

@@ -55,7 +55,13 @@ afterEach(async () => {
 
 describe('simulated bench over TCP loopback', () => {
   it('answers *IDN?, SYST:ERR?, -113, and the counter follows the control voltage down to the stall edge', async () => {
-    served = await serveSimBench({ host: '127.0.0.1', basePort: 0, dut: 'relaxation', seed: 9, clock: new RealClock() });
+    served = await serveSimBench({
+      host: '127.0.0.1',
+      basePort: 0,
+      dut: 'relaxation',
+      seed: 9,
+      clock: new RealClock(),
+    });
     expect(served.addresses.supply).toMatch(/^tcp:\/\/127\.0\.0\.1:\d+$/);
     const supply = await client(served.addresses.supply);
     const counter = await client(served.addresses.counter);

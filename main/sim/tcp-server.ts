@@ -18,7 +18,10 @@ export interface ServedDevice {
   close(): Promise<void>;
 }
 
-export async function serveDevice(device: ScpiDevice, options: { host?: string; port?: number } = {}): Promise<ServedDevice> {
+export async function serveDevice(
+  device: ScpiDevice,
+  options: { host?: string; port?: number } = {},
+): Promise<ServedDevice> {
   const host = options.host ?? '127.0.0.1';
   const sockets = new Set<Socket>();
   const server: Server = createServer({ allowHalfOpen: true }, (socket) => {
@@ -71,7 +74,9 @@ export async function serveSimBench(options: ServeSimBenchOptions = {}): Promise
   const served: ServedDevice[] = [];
   try {
     for (const [i, role] of roles.entries()) {
-      served.push(await serveDevice(bench.devices[role], { host: options.host, port: basePort === 0 ? 0 : basePort + i }));
+      served.push(
+        await serveDevice(bench.devices[role], { host: options.host, port: basePort === 0 ? 0 : basePort + i }),
+      );
     }
   } catch (error) {
     await Promise.all(served.map((s) => s.close()));
@@ -81,7 +86,12 @@ export async function serveSimBench(options: ServeSimBenchOptions = {}): Promise
   const [supply, counter, thermometer, chamber] = served as [ServedDevice, ServedDevice, ServedDevice, ServedDevice];
   return {
     bench,
-    addresses: { supply: supply.address, counter: counter.address, thermometer: thermometer.address, chamber: chamber.address },
+    addresses: {
+      supply: supply.address,
+      counter: counter.address,
+      thermometer: thermometer.address,
+      chamber: chamber.address,
+    },
     async close() {
       bench.close();
       await Promise.all(served.map((s) => s.close()));

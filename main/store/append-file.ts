@@ -61,7 +61,8 @@ export class AppendFile {
       while (done < buffer.length) {
         const { bytesWritten } = await this.handle.write(done === 0 ? text : buffer.subarray(done));
         // No progress and no error: report it rather than spin.
-        if (bytesWritten <= 0) throw new DiskError(this.path, undefined, `short write: ${done} of ${buffer.length} bytes, then nothing`);
+        if (bytesWritten <= 0)
+          throw new DiskError(this.path, undefined, `short write: ${done} of ${buffer.length} bytes, then nothing`);
         done += bytesWritten;
       }
       this.committedBytes += buffer.length;

@@ -16,7 +16,11 @@ export interface OpenedSamples {
   source: 'cache' | 'csv';
 }
 
-export async function openSamples(csvPath: string, options: ReadOptions, readFolder: (withoutSamples: boolean) => Promise<RunFolderContents>): Promise<OpenedSamples> {
+export async function openSamples(
+  csvPath: string,
+  options: ReadOptions,
+  readFolder: (withoutSamples: boolean) => Promise<RunFolderContents>,
+): Promise<OpenedSamples> {
   const cacheable = options.fs === undefined;
   // The CSV's state before it is read: the cache may only describe exactly that file.
   const key = cacheable ? await csvKey(csvPath) : null;

@@ -24,8 +24,13 @@ const KEY = { csvSize: 123, csvMtimeMs: 1_700_000_000_123.25 };
 
 async function finishedRun(runsDir: string, rows: number, status: 'complete' | null = 'complete') {
   const writer = await createRun({
-    runsDir, kind: 'drift', dut: { id: 'cache-test-osc' }, instruments: [], plan: {},
-    columns: ['time_s', 'frequency_hz', 'status'], clock: new VirtualClock({ startWallIso: '2026-12-01T08:00:00Z' }),
+    runsDir,
+    kind: 'drift',
+    dut: { id: 'cache-test-osc' },
+    instruments: [],
+    plan: {},
+    columns: ['time_s', 'frequency_hz', 'status'],
+    clock: new VirtualClock({ startWallIso: '2026-12-01T08:00:00Z' }),
   });
   for (let i = 0; i < rows; i++) writer.appendSample([i, 10e6 + (i % 7), i % 11 === 0 ? 'no-signal' : 'ok']);
   if (status) await writer.finish(status);
@@ -46,7 +51,8 @@ describe('binary column cache', () => {
     const bytes = encodeColumnCache(readSampleTable(CSV), KEY);
     expect(decodeColumnCache(bytes, { ...KEY, csvSize: 124 })).toBeNull();
     expect(decodeColumnCache(bytes, { ...KEY, csvMtimeMs: KEY.csvMtimeMs + 1 })).toBeNull();
-    for (const cut of [0, 7, 12, 40, bytes.length - 1]) expect(decodeColumnCache(bytes.subarray(0, cut), KEY)).toBeNull();
+    for (const cut of [0, 7, 12, 40, bytes.length - 1])
+      expect(decodeColumnCache(bytes.subarray(0, cut), KEY)).toBeNull();
     expect(decodeColumnCache(Buffer.concat([bytes, Buffer.alloc(8)]), KEY)).toBeNull();
     const foreign = Buffer.from(bytes);
     foreign.write('XXCOLS1\n', 0, 'latin1');
@@ -78,7 +84,9 @@ describe('binary column cache', () => {
       // Same size, other time (a rewrite in place): not used either.
       const info = await stat(csvPath);
       await utimes(csvPath, info.atime, new Date(info.mtimeMs + 5000));
-      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
+      expect(
+        (await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source,
+      ).toBe('csv');
       // A torn cache file (cut in half) is ignored and replaced.
       const cachePath = join(dir, COLUMN_CACHE_FILE);
       const whole = await readFile(cachePath);
@@ -86,7 +94,9 @@ describe('binary column cache', () => {
       const fourth = await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }));
       expect(fourth.source).toBe('csv');
       expect(fourth.table.rowCount).toBe(501);
-      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('cache');
+      expect(
+        (await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source,
+      ).toBe('cache');
     });
   });
 
@@ -94,8 +104,12 @@ describe('binary column cache', () => {
     await withTempDir(async (runsDir) => {
       const { dir } = await finishedRun(runsDir, 50, null);
       const csvPath = join(dir, 'samples.csv');
-      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
-      expect((await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source).toBe('csv');
+      expect(
+        (await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source,
+      ).toBe('csv');
+      expect(
+        (await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source,
+      ).toBe('csv');
       await expect(stat(join(dir, COLUMN_CACHE_FILE))).rejects.toThrow();
     });
   });

@@ -66,7 +66,15 @@ export function encodeColumnCache(table: SampleTable, key: CsvKey): Buffer {
     offset += align8(column.codes.byteLength);
     return entry;
   });
-  const header: CacheHeader = { ...key, rowCount: table.rowCount, names: table.names, numeric, text, dropped: table.dropped, dataBytes: offset };
+  const header: CacheHeader = {
+    ...key,
+    rowCount: table.rowCount,
+    names: table.names,
+    numeric,
+    text,
+    dropped: table.dropped,
+    dataBytes: offset,
+  };
   const headerJson = Buffer.from(JSON.stringify(header), 'utf8');
   const dataStart = align8(MAGIC.length + 4 + headerJson.length);
   const out = Buffer.alloc(dataStart + offset);
@@ -87,12 +95,28 @@ export function encodeColumnCache(table: SampleTable, key: CsvKey): Buffer {
 function isHeader(value: unknown): value is CacheHeader {
   const h = value as CacheHeader;
   return (
-    typeof h === 'object' && h !== null &&
-    Number.isFinite(h.csvSize) && Number.isFinite(h.csvMtimeMs) && Number.isInteger(h.rowCount) && h.rowCount >= 0 &&
-    Array.isArray(h.names) && h.names.every((n) => typeof n === 'string') &&
-    Array.isArray(h.numeric) && h.numeric.every((c) => typeof c?.name === 'string' && Number.isInteger(c.offset) && c.offset % 8 === 0) &&
-    Array.isArray(h.text) && h.text.every((c) => typeof c?.name === 'string' && [1, 2, 4].includes(c.width) && Number.isInteger(c.offset) && c.offset % 8 === 0 && Array.isArray(c.levels) && c.levels.every((l) => typeof l === 'string')) &&
-    Array.isArray(h.dropped) && Number.isInteger(h.dataBytes)
+    typeof h === 'object' &&
+    h !== null &&
+    Number.isFinite(h.csvSize) &&
+    Number.isFinite(h.csvMtimeMs) &&
+    Number.isInteger(h.rowCount) &&
+    h.rowCount >= 0 &&
+    Array.isArray(h.names) &&
+    h.names.every((n) => typeof n === 'string') &&
+    Array.isArray(h.numeric) &&
+    h.numeric.every((c) => typeof c?.name === 'string' && Number.isInteger(c.offset) && c.offset % 8 === 0) &&
+    Array.isArray(h.text) &&
+    h.text.every(
+      (c) =>
+        typeof c?.name === 'string' &&
+        [1, 2, 4].includes(c.width) &&
+        Number.isInteger(c.offset) &&
+        c.offset % 8 === 0 &&
+        Array.isArray(c.levels) &&
+        c.levels.every((l) => typeof l === 'string'),
+    ) &&
+    Array.isArray(h.dropped) &&
+    Number.isInteger(h.dataBytes)
   );
 }
 
@@ -129,7 +153,12 @@ export function decodeColumnCache(bytes: Buffer, key: CsvKey): SampleTable | nul
   for (const c of header.text) {
     const at = view(c.offset, n * c.width);
     if (at === null) return null;
-    const codes = c.width === 1 ? new Uint8Array(at[0], at[1], n) : c.width === 2 ? new Uint16Array(at[0], at[1], n) : new Uint32Array(at[0], at[1], n);
+    const codes =
+      c.width === 1
+        ? new Uint8Array(at[0], at[1], n)
+        : c.width === 2
+          ? new Uint16Array(at[0], at[1], n)
+          : new Uint32Array(at[0], at[1], n);
     for (let i = 0; i < n; i++) if ((codes[i] as number) >= c.levels.length && c.levels.length > 0) return null;
     text[c.name] = { levels: c.levels, codes };
   }

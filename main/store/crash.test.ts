@@ -28,7 +28,10 @@ interface Killed {
 function runAndKill(runsDir: string, readings: number, resumeId?: string, firstIndex = 0): Promise<Killed> {
   return new Promise((resolve, reject) => {
     const args = ['--import', 'tsx', CHILD, runsDir, ...(resumeId ? [resumeId] : [])];
-    const child: ChildProcess = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, CRASH_FIRST_INDEX: String(firstIndex) } });
+    const child: ChildProcess = spawn(process.execPath, args, {
+      stdio: ['ignore', 'pipe', 'pipe'],
+      env: { ...process.env, CRASH_FIRST_INDEX: String(firstIndex) },
+    });
     let dir = '';
     let stderr = '';
     let buffered = '';
@@ -70,7 +73,9 @@ describe('crash safety (SIGKILL of a real-time writer)', () => {
       const dueBefore = killed.killedAtMs - 1000;
       const mustHave = killed.seen.filter((s) => s.atMs <= dueBefore).length;
       const missing = killed.seen.length - onDisk.length;
-      console.log(`crash test: ${killed.seen.length} readings appended, ${onDisk.length} on disk, ${missing} missing (${(missing * READING_INTERVAL_S).toFixed(2)} s at 20 ms), ${samples.dropped.length} torn line(s) dropped`);
+      console.log(
+        `crash test: ${killed.seen.length} readings appended, ${onDisk.length} on disk, ${missing} missing (${(missing * READING_INTERVAL_S).toFixed(2)} s at 20 ms), ${samples.dropped.length} torn line(s) dropped`,
+      );
       expect(onDisk.length).toBeGreaterThanOrEqual(mustHave);
       expect(missing * READING_INTERVAL_S).toBeLessThanOrEqual(1.1);
       expect(run.events.filter((e) => e.type === 'interrupted')).toHaveLength(1);

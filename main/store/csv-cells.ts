@@ -90,6 +90,7 @@ export function parseLooseNumberCell(cell: string): number | null {
   if (strict !== null) return strict;
   const text = cell.trim().toLowerCase();
   if (/^[+-]?nan$/.test(text)) return Number.NaN;
-  if (/^[+-]?inf(inity)?$/.test(text)) return text.startsWith('-') ? Number.NEGATIVE_INFINITY : Number.POSITIVE_INFINITY;
+  if (/^[+-]?inf(inity)?$/.test(text))
+    return text.startsWith('-') ? Number.NEGATIVE_INFINITY : Number.POSITIVE_INFINITY;
   return null;
 }

@@ -14,7 +14,12 @@ describe('importCsvRun', () => {
         dutId: '400 MHz varactor VCO',
         nowIso: '2026-12-02T01:00:00.000Z',
       });
-      expect(meta).toMatchObject({ id: '20261202-010000-400-mhz-varactor-vco', kind: 'sweep', status: 'complete', plan: { importedFrom: 'varactor-400m.csv' } });
+      expect(meta).toMatchObject({
+        id: '20261202-010000-400-mhz-varactor-vco',
+        kind: 'sweep',
+        status: 'complete',
+        plan: { importedFrom: 'varactor-400m.csv' },
+      });
       const run = await openRun(runsDir, meta.id);
       expect(run.samples.numeric.frequency_hz).toEqual(new Float64Array([3.8e8, 4.0e8, 4.15e8]));
       expect(run.events).toEqual([{ time_s: 0, type: 'imported', fileName: 'varactor-400m.csv', rows: 3 }]);
@@ -23,9 +28,9 @@ describe('importCsvRun', () => {
 
   it('writes nothing when the CSV is bad', async () => {
     await withTempDir(async (runsDir) => {
-      await expect(importCsvRun({ runsDir, fileName: 'x.csv', csvText: 'control_v,frequency_hz\n1,abc\n', dutId: 'osc' })).rejects.toThrow(
-        /x\.csv: line 2, column frequency_hz: "abc" is not a number/,
-      );
+      await expect(
+        importCsvRun({ runsDir, fileName: 'x.csv', csvText: 'control_v,frequency_hz\n1,abc\n', dutId: 'osc' }),
+      ).rejects.toThrow(/x\.csv: line 2, column frequency_hz: "abc" is not a number/);
       await expect(readdir(runsDir)).resolves.toEqual([]);
     });
   });

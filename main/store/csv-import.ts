@@ -5,7 +5,13 @@
 import { join, resolve } from 'node:path';
 import type { RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
-import { CsvError, detectCsvKind, driftInputFromTable, pushingInputFromTable, sweepInputFromTable } from '../../app/analysis/csv-columns.ts';
+import {
+  CsvError,
+  detectCsvKind,
+  driftInputFromTable,
+  pushingInputFromTable,
+  sweepInputFromTable,
+} from '../../app/analysis/csv-columns.ts';
 import { isNoOscillation } from '../../app/analysis/sweep-points.ts';
 import { type CellValue, formatCell } from './csv-cells.ts';
 import { dutIdSchema, makeRunId } from './run-id.ts';
@@ -47,10 +53,15 @@ export interface ImportedSamples {
 export function importedSamples(csvText: string, fileName: string, forceKind?: RunKind): ImportedSamples {
   const table = readPlainCsv(csvText, fileName);
   const asImportError = (error: unknown): never => {
-    if (error instanceof CsvError) throw new CsvImportError([{ line: error.line ?? table.headerLine, message: error.message.replace(/^line \d+: /, '') }], fileName);
+    if (error instanceof CsvError)
+      throw new CsvImportError(
+        [{ line: error.line ?? table.headerLine, message: error.message.replace(/^line \d+: /, '') }],
+        fileName,
+      );
     throw error;
   };
-  if (table.rowCount === 0) throw new CsvImportError([{ line: table.headerLine + 1, message: 'no data rows after the header' }], fileName);
+  if (table.rowCount === 0)
+    throw new CsvImportError([{ line: table.headerLine + 1, message: 'no data rows after the header' }], fileName);
   let kind: RunKind;
   try {
     kind = forceKind ?? detectCsvKind(table);

@@ -10,7 +10,15 @@ describe('deleteRun moves the folder by its own name (issue 14.5)', () => {
   it('refuses a folder whose run.json carries another id, such as a path out of the runs folder', async () => {
     await withTempDir(async (root) => {
       const runsDir = join(root, 'runs');
-      const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'planted' }, instruments: [], plan: {}, columns: ['time_s', 'control_v'], clock: new VirtualClock({ startWallIso: '2026-12-01T09:00:00Z' }) });
+      const writer = await createRun({
+        runsDir,
+        kind: 'sweep',
+        dut: { id: 'planted' },
+        instruments: [],
+        plan: {},
+        columns: ['time_s', 'control_v'],
+        clock: new VirtualClock({ startWallIso: '2026-12-01T09:00:00Z' }),
+      });
       writer.appendSample([0, 1]);
       await writer.finish('complete');
       // A planted run.json: the id inside points outside the runs folder.
@@ -26,7 +34,15 @@ describe('deleteRun moves the folder by its own name (issue 14.5)', () => {
 
   it('still moves an ordinary run to the trash under its folder name', async () => {
     await withTempDir(async (runsDir) => {
-      const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'plain' }, instruments: [], plan: {}, columns: ['time_s', 'control_v'], clock: new VirtualClock({ startWallIso: '2026-12-01T09:00:00Z' }) });
+      const writer = await createRun({
+        runsDir,
+        kind: 'sweep',
+        dut: { id: 'plain' },
+        instruments: [],
+        plan: {},
+        columns: ['time_s', 'control_v'],
+        clock: new VirtualClock({ startWallIso: '2026-12-01T09:00:00Z' }),
+      });
       await writer.finish('complete');
       await deleteRun(runsDir, writer.id);
       expect((await listTrash(runsDir)).map((run) => run.id)).toEqual([writer.id]);

@@ -33,7 +33,10 @@ function fillingDisk(): { fs: StoreFs; full: { on: boolean } } {
             const bytes = typeof data === 'string' ? Buffer.from(data) : data;
             return handle.write(bytes.subarray(0, Math.floor(bytes.length / 3)));
           }
-          throw Object.assign(new Error('ENOSPC: no space left on device, write'), { code: 'ENOSPC', syscall: 'write' });
+          throw Object.assign(new Error('ENOSPC: no space left on device, write'), {
+            code: 'ENOSPC',
+            syscall: 'write',
+          });
         },
       };
     },
@@ -45,7 +48,16 @@ describe('disk faults while recording', () => {
   it('a full disk names samples.csv and ENOSPC, and run.json ends failed with the reason', async () => {
     await withTempDir(async (runsDir) => {
       const { fs, full } = fillingDisk();
-      const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'disk-probe' }, instruments: [], plan: {}, columns: ['control_v', 'frequency_hz', 'status'], clock: new VirtualClock(), fs });
+      const writer = await createRun({
+        runsDir,
+        kind: 'sweep',
+        dut: { id: 'disk-probe' },
+        instruments: [],
+        plan: {},
+        columns: ['control_v', 'frequency_hz', 'status'],
+        clock: new VirtualClock(),
+        fs,
+      });
       writer.appendSample([1, 1000, 'ok']);
       await writer.flush();
       full.on = true;
@@ -53,21 +65,35 @@ describe('disk faults while recording', () => {
       const error = await writer.flush().catch((e: unknown) => e);
       expect(error).toBeInstanceOf(DiskError);
       expect((error as DiskError).osCode).toBe('ENOSPC');
-      expect((error as Error).message).toBe(`cannot write ${join(writer.dir, 'samples.csv')}: ENOSPC: no space left on device, write`);
+      expect((error as Error).message).toBe(
+        `cannot write ${join(writer.dir, 'samples.csv')}: ENOSPC: no space left on device, write`,
+      );
       await expect(writer.finish('complete')).rejects.toThrow(/samples\.csv: ENOSPC/);
-      const meta = JSON.parse(await readFile(join(writer.dir, 'run.json'), 'utf8')) as { status: string; failure: string };
+      const meta = JSON.parse(await readFile(join(writer.dir, 'run.json'), 'utf8')) as {
+        status: string;
+        failure: string;
+      };
       expect(meta.status).toBe('failed');
       expect(meta.failure).toMatch(/samples\.csv: ENOSPC/);
       // The partial write was cut back: the file holds whole rows only.
-      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe('control_v,frequency_hz,status\n1,1000,ok\n');
+      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe(
+        'control_v,frequency_hz,status\n1,1000,ok\n',
+      );
     });
   });
 
   it('a run folder deleted mid-sweep is noticed at the next flush; the sweep stops there and leaves the supply safe', async () => {
     await withTempDir(async (runsDir) => {
       const plan = sweepPlanSchema.parse({
-        start: 1.6, stop: 3, step: 0.1, readingsPerPoint: 2, gateS: 0.05, settle: { mode: 'fixed', seconds: 0.05 }, refineEdgeV: 0,
-        limits: { maxControlV: 5, currentLimitA: 0.02 }, safe: { controlV: 0.5, outputOff: true },
+        start: 1.6,
+        stop: 3,
+        step: 0.1,
+        readingsPerPoint: 2,
+        gateS: 0.05,
+        settle: { mode: 'fixed', seconds: 0.05 },
+        refineEdgeV: 0,
+        limits: { maxControlV: 5, currentLimitA: 0.02 },
+        safe: { controlV: 0.5, outputOff: true },
       });
       const clock = new VirtualClock({ autoAdvance: true });
       const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
@@ -76,7 +102,11 @@ describe('disk faults while recording', () => {
       let rowsAtDelete = -1;
       const deletions: Promise<void>[] = [];
       const error = await recordSweep({
-        bench, plan, clock, runsDir, dutId: 'vanishing-folder',
+        bench,
+        plan,
+        clock,
+        runsDir,
+        dutId: 'vanishing-folder',
         onRunStarted: (_meta, runDir) => (dir = runDir),
         onSample: () => {
           rows++;

@@ -1,5 +1,12 @@
 /** The run store's public surface (run folders per CONTRACTS.md). */
-export { createRun, type CreateRunOptions, type RunEventInput, type RunWriter, type SampleRow, type WriterOptions } from './run-writer.ts';
+export {
+  createRun,
+  type CreateRunOptions,
+  type RunEventInput,
+  type RunWriter,
+  type SampleRow,
+  type WriterOptions,
+} from './run-writer.ts';
 export { readRunFolder, readRunStatus, type ReadOptions, type RunFolderContents } from './run-reader.ts';
 export { parseSamplesCsv, type DroppedLine, type ParsedSamples } from './samples-csv.ts';
 export { readSampleTable, type SampleTable } from './sample-table.ts';
@@ -8,7 +15,19 @@ export { assertRunId, dutIdSchema, makeRunId, runFolder, runIdSchema } from './r
 export { RunFormatError, RUN_SCHEMA } from './run-meta.ts';
 export { defaultRunsDir, resolveRunsDir } from './runs-dir.ts';
 export { nodeStoreFs, type StoreFileHandle, type StoreFs } from './store-fs.ts';
-export { addNote, deleteRun, listRuns, listRunsDetailed, listTrash, openRun, renameDut, restoreRun, TRASH, type ListResult, type OpenedRun } from './run-store.ts';
+export {
+  addNote,
+  deleteRun,
+  listRuns,
+  listRunsDetailed,
+  listTrash,
+  openRun,
+  renameDut,
+  restoreRun,
+  TRASH,
+  type ListResult,
+  type OpenedRun,
+} from './run-store.ts';
 export { reopenRun, type ReopenRunOptions } from './reopen-run.ts';
 export { importCsvRun, type ImportCsvOptions } from './csv-import.ts';
 export { CsvImportError, readPlainCsv, type CsvProblem, type PlainCsvTable } from './plain-csv.ts';

@@ -18,7 +18,10 @@ export const PLAIN_INEXACT = 2;
 /** Result of the last successful scanNumber (no allocation per cell). */
 export const scan = { value: 0, end: 0 };
 
-const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+const POW10 = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20,
+  1e21, 1e22,
+];
 /** Below this, m·10 + 9 stays under 2^53 (every integer there is exact). */
 const SAFE_ACCUMULATE = 900_719_925_474_099;
 

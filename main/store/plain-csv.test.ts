@@ -7,7 +7,8 @@ function problemsOf(text: string): string[] {
   try {
     importedSamples(text, 'bench.csv');
   } catch (error) {
-    if (error instanceof CsvImportError) return error.problems.map((p) => `${p.line}${p.column ? `:${p.column}` : ''} ${p.message}`);
+    if (error instanceof CsvImportError)
+      return error.problems.map((p) => `${p.line}${p.column ? `:${p.column}` : ''} ${p.message}`);
     throw error;
   }
   return [];
@@ -47,7 +48,10 @@ describe('readPlainCsv (CONTRACTS.md plain CSV input), the one reader for usersâ
   });
 
   it('keeps the status words the file gives; empty, NaN, 0 and 9.91E37 frequencies are no-signal', () => {
-    const data = importedSamples('frequency_hz,comment,control_v,status\r\n,stalled,0.2,\nNaN,,0.3,ok\n0,,0.4,OK\n9.91E37,,0.5,\n1.5e6,,0.6,timeout\n1.52e6,x,0.6,ok', 'a.csv');
+    const data = importedSamples(
+      'frequency_hz,comment,control_v,status\r\n,stalled,0.2,\nNaN,,0.3,ok\n0,,0.4,OK\n9.91E37,,0.5,\n1.5e6,,0.6,timeout\n1.52e6,x,0.6,ok',
+      'a.csv',
+    );
     expect(data.columns).toEqual(['control_v', 'frequency_hz', 'status']);
     expect(data.rows.map((r) => r[2])).toEqual(['no-signal', 'no-signal', 'no-signal', 'no-signal', 'timeout', 'ok']);
   });
@@ -66,7 +70,9 @@ describe('readPlainCsv (CONTRACTS.md plain CSV input), the one reader for usersâ
       '4:status "sideways" is not one of ok, no-signal, timeout or error',
     ]);
     expect(problemsOf('v,f\n1,2\n')[0]).toMatch(/^1 missing column "frequency_hz"; header has: v, f/);
-    expect(problemsOf('control_v,frequency_hz\n,1e6\n')).toEqual(['2 column control_v: a sweep reading needs a control voltage']);
+    expect(problemsOf('control_v,frequency_hz\n,1e6\n')).toEqual([
+      '2 column control_v: a sweep reading needs a control voltage',
+    ]);
     expect(problemsOf('a,a\n1,2\n')).toEqual(['1 the header names column "a" twice']);
     const many = `control_v,frequency_hz\n${'x,1\n'.repeat(50)}`;
     expect(problemsOf(many)).toHaveLength(MAX_PROBLEMS + 1);
@@ -81,15 +87,22 @@ describe('readPlainCsv fast and full paths', () => {
   it('give the same table for the same numbers whatever the delimiter (commas take the fast path)', async () => {
     const fc = await import('fast-check');
     fc.assert(
-      fc.property(fc.array(fc.tuple(number(fc), number(fc), fc.constantFrom('ok', 'no-signal', 'Timeout', '')), { minLength: 1, maxLength: 40 }), (rows) => {
-        const text = (sep: string) => `control_v${sep}frequency_hz${sep}status\n${rows.map((r) => r.map(String).join(sep)).join('\n')}\n`;
-        const comma = readPlainCsv(text(','), 'a.csv');
-        const tab = readPlainCsv(text('\t'), 'b.csv');
-        expect(Array.from(comma.numeric.control_v ?? [])).toEqual(rows.map((r) => r[0]));
-        expect(Array.from(comma.numeric.frequency_hz ?? [])).toEqual(Array.from(tab.numeric.frequency_hz ?? []));
-        expect(comma.text.status).toEqual(tab.text.status);
-        expect(Array.from(comma.lineOf)).toEqual(Array.from(tab.lineOf));
-      }),
+      fc.property(
+        fc.array(fc.tuple(number(fc), number(fc), fc.constantFrom('ok', 'no-signal', 'Timeout', '')), {
+          minLength: 1,
+          maxLength: 40,
+        }),
+        (rows) => {
+          const text = (sep: string) =>
+            `control_v${sep}frequency_hz${sep}status\n${rows.map((r) => r.map(String).join(sep)).join('\n')}\n`;
+          const comma = readPlainCsv(text(','), 'a.csv');
+          const tab = readPlainCsv(text('\t'), 'b.csv');
+          expect(Array.from(comma.numeric.control_v ?? [])).toEqual(rows.map((r) => r[0]));
+          expect(Array.from(comma.numeric.frequency_hz ?? [])).toEqual(Array.from(tab.numeric.frequency_hz ?? []));
+          expect(comma.text.status).toEqual(tab.text.status);
+          expect(Array.from(comma.lineOf)).toEqual(Array.from(tab.lineOf));
+        },
+      ),
       { numRuns: 100 },
     );
   });

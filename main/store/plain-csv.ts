@@ -30,12 +30,20 @@ export class CsvImportError extends Error {
     readonly problems: CsvProblem[],
     source: string,
   ) {
-    super(`${source}: ${problems.map((p) => `line ${p.line}${p.column ? `, column ${p.column}` : ''}: ${p.message}`).join('; ')}`);
+    super(
+      `${source}: ${problems.map((p) => `line ${p.line}${p.column ? `, column ${p.column}` : ''}: ${p.message}`).join('; ')}`,
+    );
   }
 }
 
 /** Columns read as numbers; every other column but the words below is ignored. */
-export const PLAIN_NUMERIC_COLUMNS: readonly string[] = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'supply_v'];
+export const PLAIN_NUMERIC_COLUMNS: readonly string[] = [
+  'time_s',
+  'control_v',
+  'frequency_hz',
+  'temperature_c',
+  'supply_v',
+];
 /** Columns read as words, checked against the reading-status and direction rules. */
 const WORD_COLUMNS: Readonly<Record<string, (cell: string) => string | null>> = {
   status: (cell) => readingStatus(cell),
@@ -44,7 +52,10 @@ const WORD_COLUMNS: Readonly<Record<string, (cell: string) => string | null>> = 
     return d === null ? null : d === 1 ? 'up' : 'down';
   },
 };
-const WORD_EXPECTED: Readonly<Record<string, string>> = { status: 'ok, no-signal, timeout or error', direction: 'up or down' };
+const WORD_EXPECTED: Readonly<Record<string, string>> = {
+  status: 'ok, no-signal, timeout or error',
+  direction: 'up or down',
+};
 
 export interface PlainCsvTable extends ColumnTable {
   lineOf: Uint32Array;
@@ -101,7 +112,13 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   }
   const headerEnd = body.indexOf('\n', headerStart);
   const headerText = body.slice(headerStart, headerEnd < 0 ? body.length : headerEnd).replace(/\r$/, '');
-  const delimiter = headerText.includes(',') ? ',' : headerText.includes('\t') ? '\t' : headerText.includes(';') ? ';' : ',';
+  const delimiter = headerText.includes(',')
+    ? ','
+    : headerText.includes('\t')
+      ? '\t'
+      : headerText.includes(';')
+        ? ';'
+        : ',';
   const header = (splitCsvLine(headerText, delimiter) ?? []).map((name) => name.trim().toLowerCase());
   const seen = new Set<string>();
   header.forEach((name, c) => {
@@ -115,8 +132,10 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   let capacity = guess;
   const readings: Reading[] = [];
   header.forEach((name, column) => {
-    if (PLAIN_NUMERIC_COLUMNS.includes(name)) readings.push({ column, name, values: new Float64Array(capacity), words: null });
-    else if (name in WORD_COLUMNS) readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(capacity) } });
+    if (PLAIN_NUMERIC_COLUMNS.includes(name))
+      readings.push({ column, name, values: new Float64Array(capacity), words: null });
+    else if (name in WORD_COLUMNS)
+      readings.push({ column, name, values: null, words: { levels: [], codes: new Uint32Array(capacity) } });
   });
   const readingOf: (Reading | null)[] = header.map((_, c) => readings.find((r) => r.column === c) ?? null);
   let lineOf = new Uint32Array(capacity);
@@ -146,7 +165,11 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
       } else if (reading.words) {
         const word = (WORD_COLUMNS[reading.name] as (cell: string) => string | null)(cell);
         if (word === null) {
-          problem({ line: lineNo, column: reading.name, message: `"${cell}" is not one of ${WORD_EXPECTED[reading.name] ?? ''}` });
+          problem({
+            line: lineNo,
+            column: reading.name,
+            message: `"${cell}" is not one of ${WORD_EXPECTED[reading.name] ?? ''}`,
+          });
           ok = false;
         } else reading.words.codes[rows] = codeOf(reading.words.levels, word);
       }
@@ -186,7 +209,7 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   };
 
   let lineNo = headerLine;
-  for (let ls = body.indexOf('\n', headerStart) + 1; ls > 0 && ls < body.length; ) {
+  for (let ls = body.indexOf('\n', headerStart) + 1; ls > 0 && ls < body.length;) {
     let le = body.indexOf('\n', ls);
     if (le < 0) le = body.length;
     lineNo += 1;
@@ -217,7 +240,11 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const textColumns: Record<string, CodedTextColumn> = {};
   for (const reading of readings) {
     if (reading.values) numeric[reading.name] = reading.values.slice(0, rows);
-    else if (reading.words) textColumns[reading.name] = { levels: reading.words.levels, codes: Uint8Array.from(reading.words.codes.subarray(0, rows)) };
+    else if (reading.words)
+      textColumns[reading.name] = {
+        levels: reading.words.levels,
+        codes: Uint8Array.from(reading.words.codes.subarray(0, rows)),
+      };
   }
   return { names: header, numeric, text: textColumns, rowCount: rows, lineOf: lineOf.slice(0, rows), headerLine };
 }

@@ -68,7 +68,9 @@ describe('store reads that fail for a reason other than ENOENT', () => {
       writer.appendEvent({ type: 'retry', time_s: 0 });
       await writer.finish('complete');
       const before = await readFile(join(writer.dir, 'events.jsonl'), 'utf8');
-      await expect(addNote(runsDir, writer.id, 'checked', { fs: failingReads('events.jsonl', 'EIO') })).rejects.toThrow(/EIO/);
+      await expect(addNote(runsDir, writer.id, 'checked', { fs: failingReads('events.jsonl', 'EIO') })).rejects.toThrow(
+        /EIO/,
+      );
       expect(await readFile(join(writer.dir, 'events.jsonl'), 'utf8')).toBe(before);
     });
   });
@@ -89,7 +91,10 @@ describe('concurrent edits of one run (issue 10 item 3)', () => {
           return nodeStoreFs.stat(path);
         },
       };
-      await Promise.all([addNote(runsDir, writer.id, 'first', { fs: slowFirstStat }), addNote(runsDir, writer.id, 'second', { fs: slowFirstStat })]);
+      await Promise.all([
+        addNote(runsDir, writer.id, 'first', { fs: slowFirstStat }),
+        addNote(runsDir, writer.id, 'second', { fs: slowFirstStat }),
+      ]);
       const meta = JSON.parse(await readFile(join(writer.dir, 'run.json'), 'utf8')) as { dut: { notes: string } };
       expect(meta.dut.notes).toBe('first\nsecond');
     });

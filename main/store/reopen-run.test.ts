@@ -26,7 +26,15 @@ describe('reopenRun', () => {
       for (let i = 0; i < 3; i++) writer.appendSample([i, 1e6 + i, 'ok']);
       await writer.flush();
       // Crash: the writer's process is gone and both files end in a torn line.
-      await writeFile(join(writer.dir, 'writer.lock'), JSON.stringify({ pid: await deadPid(), host: hostname(), startedAt: 'x', heartbeatAt: '2026-12-02T00:00:02.000Z' }));
+      await writeFile(
+        join(writer.dir, 'writer.lock'),
+        JSON.stringify({
+          pid: await deadPid(),
+          host: hostname(),
+          startedAt: 'x',
+          heartbeatAt: '2026-12-02T00:00:02.000Z',
+        }),
+      );
       await appendFile(join(writer.dir, 'samples.csv'), '3,1000');
       await appendFile(join(writer.dir, 'events.jsonl'), '{"time_s":3,');
 
@@ -49,17 +57,29 @@ describe('reopenRun', () => {
       expect(run.droppedEventLines).toEqual([1]);
       expect(run.events.map((e) => e.type)).toEqual(['interrupted', 'gap']);
       expect(run.events[1]).toMatchObject({ time_s: 3600, fromS: 2, toS: 3600 });
-      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe('time_s,frequency_hz,status\n0,1000000,ok\n1,1000001,ok\n2,1000002,ok\n3600,1500000,ok\n3601,1600000,ok\n');
+      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe(
+        'time_s,frequency_hz,status\n0,1000000,ok\n1,1000001,ok\n2,1000002,ok\n3600,1500000,ok\n3601,1600000,ok\n',
+      );
     });
   });
 
   it('refuses complete runs, live runs and hostile ids', async () => {
     await withTempDir(async (runsDir) => {
       const clock = new VirtualClock();
-      const writer = await createRun({ runsDir, kind: 'drift', dut: { id: 'osc' }, instruments: [], plan: {}, columns: ['time_s'], clock });
+      const writer = await createRun({
+        runsDir,
+        kind: 'drift',
+        dut: { id: 'osc' },
+        instruments: [],
+        plan: {},
+        columns: ['time_s'],
+        clock,
+      });
       await expect(reopenRun({ runsDir, id: writer.id, clock })).rejects.toMatchObject({ reason: 'busy' });
       await writer.finish('complete');
-      await expect(reopenRun({ runsDir, id: writer.id, clock })).rejects.toThrow(/is complete; only an interrupted run can be resumed/);
+      await expect(reopenRun({ runsDir, id: writer.id, clock })).rejects.toThrow(
+        /is complete; only an interrupted run can be resumed/,
+      );
       await expect(reopenRun({ runsDir, id: '../../tmp', clock })).rejects.toMatchObject({ reason: 'bad-input' });
     });
   });

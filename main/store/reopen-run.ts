@@ -45,7 +45,8 @@ export async function reopenRun(options: ReopenRunOptions): Promise<RunWriter> {
   const before = await readRunStatus(dir, { fs }).catch((error: Error) => {
     throw new StoreError(error.message, 'not-found');
   });
-  if (before.status === 'running') throw new StoreError(`run ${before.id} is still being recorded by a live process`, 'busy');
+  if (before.status === 'running')
+    throw new StoreError(`run ${before.id} is still being recorded by a live process`, 'busy');
   if (before.status !== 'interrupted') {
     throw new StoreError(`run ${before.id} is ${before.status}; only an interrupted run can be resumed`, 'bad-state');
   }
@@ -76,7 +77,13 @@ export async function reopenRun(options: ReopenRunOptions): Promise<RunWriter> {
     events: new AppendFile(events.handle, events.bytes, join(dir, EVENTS_JSONL)),
     startOffsetS: resumeS,
   });
-  writer.appendEvent({ type: 'gap', time_s: resumeS, fromS: lastS, toS: resumeS, reason: 'resumed after the writer stopped' });
+  writer.appendEvent({
+    type: 'gap',
+    time_s: resumeS,
+    fromS: lastS,
+    toS: resumeS,
+    reason: 'resumed after the writer stopped',
+  });
   await writer.flush();
   return writer;
 }

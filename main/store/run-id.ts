@@ -14,13 +14,15 @@ const RUN_ID_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,127}$/;
 export const runIdSchema = z
   .string({ error: 'run id: expected a string' })
   .refine((id) => RUN_ID_PATTERN.test(id) && !id.includes('..'), {
-    message: 'run id: expected letters, digits, "-", "_" or "." (1–128 characters, starting with a letter or digit, no "..")',
+    message:
+      'run id: expected letters, digits, "-", "_" or "." (1–128 characters, starting with a letter or digit, no "..")',
   });
 
 /** Throws a RangeError naming the problem when `id` is not a safe run id. */
 export function assertRunId(id: unknown): string {
   const result = runIdSchema.safeParse(id);
-  if (!result.success) throw new RangeError(`${result.error.issues[0]?.message ?? 'bad run id'}, got ${JSON.stringify(id)}`);
+  if (!result.success)
+    throw new RangeError(`${result.error.issues[0]?.message ?? 'bad run id'}, got ${JSON.stringify(id)}`);
   return result.data;
 }
 
@@ -52,7 +54,8 @@ export function dutSlug(dutId: string): string {
 /** `YYYYMMDD-HHMMSS-slug` from an ISO-8601 time (UTC digits, so ids do not depend on the time zone). */
 export function makeRunId(startedAtIso: string, dutId: string): string {
   const ms = Date.parse(startedAtIso);
-  if (!Number.isFinite(ms)) throw new RangeError(`startedAt: expected an ISO-8601 time, got ${JSON.stringify(startedAtIso)}`);
+  if (!Number.isFinite(ms))
+    throw new RangeError(`startedAt: expected an ISO-8601 time, got ${JSON.stringify(startedAtIso)}`);
   const iso = new Date(ms).toISOString(); // 2026-12-02T01:45:12.000Z
   const stamp = `${iso.slice(0, 4)}${iso.slice(5, 7)}${iso.slice(8, 10)}-${iso.slice(11, 13)}${iso.slice(14, 16)}${iso.slice(17, 19)}`;
   return `${stamp}-${dutSlug(dutId)}`;

@@ -26,7 +26,12 @@ function sweepRun(runsDir: string, clock: VirtualClock, fs?: ReturnType<typeof f
 /** Points a running run's writer.lock at a process that no longer exists. */
 async function killWriter(dir: string): Promise<number> {
   const pid = await deadPid();
-  const lock = { pid, host: hostname(), startedAt: '2026-01-01T00:00:00.000Z', heartbeatAt: '2026-01-01T00:00:05.000Z' };
+  const lock = {
+    pid,
+    host: hostname(),
+    startedAt: '2026-01-01T00:00:00.000Z',
+    heartbeatAt: '2026-01-01T00:00:05.000Z',
+  };
   await writeFile(join(dir, 'writer.lock'), JSON.stringify(lock));
   return pid;
 }
@@ -98,8 +103,15 @@ describe('readRunFolder', () => {
     await withTempDir(async (runsDir) => {
       const clock = new VirtualClock();
       const writer = await sweepRun(runsDir, clock);
-      const lock = (heartbeatAt: string) => JSON.stringify({ pid: 1, host: 'other-bench-pc', startedAt: heartbeatAt, heartbeatAt });
-      const probe = { host: hostname(), pid: process.pid, nowMs: Date.parse('2026-01-01T00:10:00Z'), isPidAlive: () => true, procStartOf: () => null };
+      const lock = (heartbeatAt: string) =>
+        JSON.stringify({ pid: 1, host: 'other-bench-pc', startedAt: heartbeatAt, heartbeatAt });
+      const probe = {
+        host: hostname(),
+        pid: process.pid,
+        nowMs: Date.parse('2026-01-01T00:10:00Z'),
+        isPidAlive: () => true,
+        procStartOf: () => null,
+      };
       await writeFile(join(writer.dir, 'writer.lock'), lock('2026-01-01T00:09:30Z'));
       expect((await readRunStatus(writer.dir, { probe })).status).toBe('running');
       await writeFile(join(writer.dir, 'writer.lock'), lock('2026-01-01T00:08:00Z'));

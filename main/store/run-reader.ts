@@ -31,7 +31,10 @@ export interface RunFolderContents {
 }
 
 /** `withoutSamples`: leave samples.csv unread (samplesCsv ''), when its table comes from the column cache. */
-export async function readRunFolder(dir: string, options: ReadOptions & { withoutSamples?: boolean } = {}): Promise<RunFolderContents> {
+export async function readRunFolder(
+  dir: string,
+  options: ReadOptions & { withoutSamples?: boolean } = {},
+): Promise<RunFolderContents> {
   const fs = options.fs ?? nodeStoreFs;
   const absDir = resolve(dir);
   let meta = await readRunMeta(fs, absDir);

@@ -2,7 +2,16 @@ import { mkdir, readFile, readdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
-import { addNote, deleteRun, listRuns, listRunsDetailed, listTrash, openRun, renameDut, restoreRun } from './run-store.ts';
+import {
+  addNote,
+  deleteRun,
+  listRuns,
+  listRunsDetailed,
+  listTrash,
+  openRun,
+  renameDut,
+  restoreRun,
+} from './run-store.ts';
 import { createRun } from './run-writer.ts';
 import { withTempDir } from './testing/temp-dir.ts';
 

@@ -89,7 +89,9 @@ export async function listRunsDetailed(runsDir: string, options: ReadOptions = {
       result.problems.push({ name, message: (error as Error).message });
     }
   }
-  result.runs.sort((a, b) => (a.startedAt === b.startedAt ? b.id.localeCompare(a.id) : a.startedAt < b.startedAt ? 1 : -1));
+  result.runs.sort((a, b) =>
+    a.startedAt === b.startedAt ? b.id.localeCompare(a.id) : a.startedAt < b.startedAt ? 1 : -1,
+  );
   return result;
 }
 
@@ -99,14 +101,22 @@ export async function listRuns(runsDir: string, options: ReadOptions = {}): Prom
 
 async function runDir(fs: StoreFs, runsDir: string, id: unknown): Promise<string> {
   const dir = join(runsDir, checkedId(id));
-  if (!(await exists(fs, join(dir, 'run.json')))) throw new StoreError(`no run "${String(id)}" in ${runsDir}`, 'not-found');
+  if (!(await exists(fs, join(dir, 'run.json'))))
+    throw new StoreError(`no run "${String(id)}" in ${runsDir}`, 'not-found');
   return dir;
 }
 
 export async function openRun(runsDir: string, id: string, options: ReadOptions = {}): Promise<OpenedRun> {
   const dir = await runDir(fsOf(options), runsDir, id);
-  const samples = await openSamples(join(dir, SAMPLES_CSV), options, (withoutSamples) => readRunFolder(dir, { ...options, withoutSamples }));
-  return { meta: samples.run.meta, samples: samples.table, events: samples.run.events, droppedEventLines: samples.run.droppedEventLines };
+  const samples = await openSamples(join(dir, SAMPLES_CSV), options, (withoutSamples) =>
+    readRunFolder(dir, { ...options, withoutSamples }),
+  );
+  return {
+    meta: samples.run.meta,
+    samples: samples.table,
+    events: samples.run.events,
+    droppedEventLines: samples.run.droppedEventLines,
+  };
 }
 
 const editQueues = new Map<string, Promise<unknown>>();
@@ -123,7 +133,12 @@ function serialised<T>(dir: string, edit: () => Promise<T>): Promise<T> {
   return next;
 }
 
-export async function renameDut(runsDir: string, id: string, dutId: string, options: ReadOptions = {}): Promise<RunMeta> {
+export async function renameDut(
+  runsDir: string,
+  id: string,
+  dutId: string,
+  options: ReadOptions = {},
+): Promise<RunMeta> {
   const fs = fsOf(options);
   const parsed = dutIdSchema.safeParse(dutId);
   if (!parsed.success) throw new StoreError(parsed.error.issues[0]?.message ?? 'dut id: invalid', 'bad-input');
@@ -149,7 +164,12 @@ export async function addNote(runsDir: string, id: string, text: string, options
     await runDir(fs, runsDir, id);
     const eventsPath = join(dir, EVENTS_JSONL);
     const eventsText = await readFileIfExists(fs, eventsPath);
-    const event = { time_s: await lastTimeS(fs, dir, eventsText), type: 'note', text: note, at: new Date().toISOString() };
+    const event = {
+      time_s: await lastTimeS(fs, dir, eventsText),
+      type: 'note',
+      text: note,
+      at: new Date().toISOString(),
+    };
     await fs.appendFile(eventsPath, eventLineAfter(eventsText, event));
     const meta = await readRunStatus(dir, options);
     const notes = meta.dut.notes === '' ? note : `${meta.dut.notes}\n${note}`;
@@ -167,11 +187,13 @@ export async function deleteRun(runsDir: string, id: string, options: ReadOption
   const meta = await readRunStatus(dir, options);
   if (meta.status === 'running') throw new StoreError(`run ${id} is still being recorded; stop it first`, 'busy');
   // The folder moves under its own validated name, never under the id written inside run.json.
-  if (meta.id !== safeId) throw new StoreError(`run folder ${safeId} holds a run.json whose id differs; it was not moved`, 'bad-input');
+  if (meta.id !== safeId)
+    throw new StoreError(`run folder ${safeId} holds a run.json whose id differs; it was not moved`, 'bad-input');
   const trashDir = join(runsDir, TRASH);
   await fs.mkdir(trashDir, { recursive: true });
   const target = join(trashDir, safeId);
-  if (await exists(fs, target)) throw new StoreError(`the trash already holds a run ${id}; restore or empty it first`, 'exists');
+  if (await exists(fs, target))
+    throw new StoreError(`the trash already holds a run ${id}; restore or empty it first`, 'exists');
   await fs.rename(dir, target);
 }
 
@@ -182,7 +204,8 @@ export async function restoreRun(runsDir: string, id: string, options: ReadOptio
   const source = join(runsDir, TRASH, safeId);
   if (!(await exists(fs, source))) throw new StoreError(`no run "${safeId}" in the trash`, 'not-found');
   const target = join(runsDir, safeId);
-  if (await exists(fs, target)) throw new StoreError(`a run ${safeId} already exists; it was not overwritten`, 'exists');
+  if (await exists(fs, target))
+    throw new StoreError(`a run ${safeId} already exists; it was not overwritten`, 'exists');
   await fs.rename(source, target);
   return readRunMeta(fs, target);
 }

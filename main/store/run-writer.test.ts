@@ -47,7 +47,9 @@ describe('createRun', () => {
         dut: { id: 'Sensor osc A', notes: '' },
         software: { version: '0.1.0' },
       });
-      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe('time_s,control_v,frequency_hz,temperature_c,status\n');
+      expect(await readFile(join(writer.dir, 'samples.csv'), 'utf8')).toBe(
+        'time_s,control_v,frequency_hz,temperature_c,status\n',
+      );
       // A second run in the same second gets a suffix rather than sharing the folder.
       const second = await driftRun(runsDir, clock);
       expect(second.id).toBe('20261202-014512-sensor-osc-a-2');
@@ -87,7 +89,10 @@ describe('createRun', () => {
         await clock.advance(0.125);
         // Every row appended at least 1 s ago must be on disk now.
         const due = appendedAt.filter((t) => t <= clock.now() - 1).length;
-        await vi.waitFor(async () => expect(await rowsOnDisk(writer.dir)).toBeGreaterThanOrEqual(due), { timeout: 2000, interval: 5 });
+        await vi.waitFor(async () => expect(await rowsOnDisk(writer.dir)).toBeGreaterThanOrEqual(due), {
+          timeout: 2000,
+          interval: 5,
+        });
       }
       // And flush() is there for the end of each point.
       await writer.flush();
@@ -165,7 +170,8 @@ describe('createRun', () => {
         },
       };
       const writer = await driftRun(runsDir, clock, { fs, wallNowMs: () => wallMs });
-      const heartbeat = async () => (JSON.parse(await readFile(join(writer.dir, 'writer.lock'), 'utf8')) as { heartbeatAt: string }).heartbeatAt;
+      const heartbeat = async () =>
+        (JSON.parse(await readFile(join(writer.dir, 'writer.lock'), 'utf8')) as { heartbeatAt: string }).heartbeatAt;
       // 20 flushes 0.25 s apart in both clocks: 5 s of data → 5 syncs, not 20.
       for (let i = 0; i < 20; i++) {
         writer.appendSample([i * 0.25, 2.5, 1e6, 25, 'ok']);
@@ -189,10 +195,20 @@ describe('createRun', () => {
       const rowArb = fc.tuple(fc.double(), fc.double(), fc.string({ unit: 'binary-ascii', maxLength: 12 }));
       await fc.assert(
         fc.asyncProperty(fc.array(rowArb, { maxLength: 30 }), async (rows) => {
-          const writer = await createRun({ runsDir, kind: 'sweep', dut: { id: 'prop' }, instruments: [], plan: {}, columns: ['time_s', 'frequency_hz', 'note'], clock });
+          const writer = await createRun({
+            runsDir,
+            kind: 'sweep',
+            dut: { id: 'prop' },
+            instruments: [],
+            plan: {},
+            columns: ['time_s', 'frequency_hz', 'note'],
+            clock,
+          });
           for (const row of rows) writer.appendSample(row);
           await writer.finish('complete');
-          const parsed = parseSamplesCsv(await readFile(join(writer.dir, 'samples.csv'), 'utf8'), { textColumns: ['note'] });
+          const parsed = parseSamplesCsv(await readFile(join(writer.dir, 'samples.csv'), 'utf8'), {
+            textColumns: ['note'],
+          });
           expect(parsed.dropped).toEqual([]);
           expect(parsed.rowCount).toBe(rows.length);
           rows.forEach(([a, b, text], i) => {
@@ -210,7 +226,9 @@ describe('createRun', () => {
   it('validates columns and DUT id, naming the field', async () => {
     await withTempDir(async (runsDir) => {
       const clock = new VirtualClock();
-      await expect(driftRun(runsDir, clock, { columns: ['time_s', 'time_s'] })).rejects.toThrow(/columns: "time_s" appears twice/);
+      await expect(driftRun(runsDir, clock, { columns: ['time_s', 'time_s'] })).rejects.toThrow(
+        /columns: "time_s" appears twice/,
+      );
       await expect(driftRun(runsDir, clock, { columns: ['bad,name'] })).rejects.toThrow(/columns:/);
       await expect(driftRun(runsDir, clock, { dut: { id: '  ' } })).rejects.toThrow(/dut id: must not be empty/);
       expect(await readdir(runsDir)).toEqual([]);

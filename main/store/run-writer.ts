@@ -29,7 +29,8 @@ export function validateColumns(columns: readonly string[]): void {
   if (columns.length === 0) throw new RangeError('columns: expected at least one column name');
   const seen = new Set<string>();
   for (const name of columns) {
-    if (!COLUMN_NAME.test(name)) throw new RangeError(`columns: expected names like "frequency_hz", got ${JSON.stringify(name)}`);
+    if (!COLUMN_NAME.test(name))
+      throw new RangeError(`columns: expected names like "frequency_hz", got ${JSON.stringify(name)}`);
     if (seen.has(name)) throw new RangeError(`columns: "${name}" appears twice`);
     seen.add(name);
   }
@@ -41,7 +42,10 @@ export async function makeRunDir(fs: StoreFs, runsDir: string, baseId: string): 
   for (let n = 1; n < 1000; n++) {
     const id = n === 1 ? baseId : `${baseId}-${n}`;
     const dir = join(runsDir, id);
-    const inTrash = await fs.stat(join(runsDir, '.trash', id)).then(() => true, () => false);
+    const inTrash = await fs.stat(join(runsDir, '.trash', id)).then(
+      () => true,
+      () => false,
+    );
     if (inTrash) continue;
     try {
       await fs.mkdir(dir);
@@ -101,4 +105,3 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
     throw error;
   }
 }
-

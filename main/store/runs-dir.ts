@@ -10,7 +10,11 @@ import { posix, win32 } from 'node:path';
 
 export const APP_FOLDER = 'tunebench';
 
-export function defaultRunsDir(env: Readonly<Record<string, string | undefined>>, platform: NodeJS.Platform, homedir: string): string {
+export function defaultRunsDir(
+  env: Readonly<Record<string, string | undefined>>,
+  platform: NodeJS.Platform,
+  homedir: string,
+): string {
   if (platform === 'win32') {
     const appData = nonEmpty(env.APPDATA) ?? win32.join(homedir, 'AppData', 'Roaming');
     return win32.join(appData, APP_FOLDER, 'runs');

@@ -35,9 +35,44 @@ const NAMES = ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'status',
 const WORDS = ['ok', 'no-signal', 'timeout', 'error', 'up', 'down', 'warm', ''];
 /** Cells that a careless scanner would misread (each must be accepted or refused exactly as the reference does). */
 const AWKWARD = [
-  ' ', ' 1', '1 ', '+1', '1.', '.5', '-.5', '-', '.', '1e5', '1E-3', '1e', '1e+', '-1e-7', 'Infinity', '-Infinity', '+Infinity', 'NaN',
-  '0x1f', '1.2.3', '-0', '0.0', '-0.0', '00012', '12345678901234567890', '9007199254740993', '1e400', '1e-400', '4.9e-324',
-  '1.7976931348623157e308', '123456789012345.6', '0.1234567890123456789', '"quoted, x"', '"1"', '"bad', 'a"b', '""', 'x',
+  ' ',
+  ' 1',
+  '1 ',
+  '+1',
+  '1.',
+  '.5',
+  '-.5',
+  '-',
+  '.',
+  '1e5',
+  '1E-3',
+  '1e',
+  '1e+',
+  '-1e-7',
+  'Infinity',
+  '-Infinity',
+  '+Infinity',
+  'NaN',
+  '0x1f',
+  '1.2.3',
+  '-0',
+  '0.0',
+  '-0.0',
+  '00012',
+  '12345678901234567890',
+  '9007199254740993',
+  '1e400',
+  '1e-400',
+  '4.9e-324',
+  '1.7976931348623157e308',
+  '123456789012345.6',
+  '0.1234567890123456789',
+  '"quoted, x"',
+  '"1"',
+  '"bad',
+  'a"b',
+  '""',
+  'x',
 ];
 
 const cellArb = fc.oneof(
@@ -67,7 +102,9 @@ const fileArb = fc
 
 describe('readSampleTable (fast columnar reader)', () => {
   it('reads the writer’s plain rows into Float64Array and coded text columns', () => {
-    const table = expectSameAsReference('time_s,control_v,frequency_hz,status\n0,0.5,,no-signal\n0.1,0.55,1234567.25,ok\n0.2,0.6,1234568.5,ok\n');
+    const table = expectSameAsReference(
+      'time_s,control_v,frequency_hz,status\n0,0.5,,no-signal\n0.1,0.55,1234567.25,ok\n0.2,0.6,1234568.5,ok\n',
+    );
     expect(Array.from(table.numeric.control_v ?? [])).toEqual([0.5, 0.55, 0.6]);
     expect(table.numeric.frequency_hz?.[0]).toBeNaN();
     expect(table.text.status?.levels).toEqual(['no-signal', 'ok']);
@@ -105,14 +142,21 @@ describe('readSampleTable (fast columnar reader)', () => {
 
   it('agrees with the reference when random characters are written over a file', () => {
     fc.assert(
-      fc.property(fileArb, fc.array(fc.tuple(fc.nat(), fc.constantFrom('"', ',', '\n', '\r', ' ', 'e', '.', '-', '+', '9', 'x', '\u00a0')), { maxLength: 4 }), (text, hits) => {
-        let damaged = text;
-        for (const [at, ch] of hits) {
-          const i = at % (damaged.length + 1);
-          damaged = damaged.slice(0, i) + ch + damaged.slice(i + 1);
-        }
-        expectSameAsReference(damaged);
-      }),
+      fc.property(
+        fileArb,
+        fc.array(
+          fc.tuple(fc.nat(), fc.constantFrom('"', ',', '\n', '\r', ' ', 'e', '.', '-', '+', '9', 'x', '\u00a0')),
+          { maxLength: 4 },
+        ),
+        (text, hits) => {
+          let damaged = text;
+          for (const [at, ch] of hits) {
+            const i = at % (damaged.length + 1);
+            damaged = damaged.slice(0, i) + ch + damaged.slice(i + 1);
+          }
+          expectSameAsReference(damaged);
+        },
+      ),
       { numRuns: 300 },
     );
   });

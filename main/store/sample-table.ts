@@ -77,7 +77,7 @@ export function readSampleTable(text: string, options: ParseSamplesOptions = {})
 
   // Column types, decided exactly as the reference does: known text names, or mostly words in the first valid rows.
   const sampleLines: string[] = [header];
-  for (let ls = firstNl + 1; hasLines && ls <= lastNl && sampleLines.length <= TYPE_SAMPLE_ROWS; ) {
+  for (let ls = firstNl + 1; hasLines && ls <= lastNl && sampleLines.length <= TYPE_SAMPLE_ROWS;) {
     const le = text.indexOf('\n', ls);
     const line = dataLine(text.slice(ls, le));
     const cells = line === null ? null : splitCsvLine(line);
@@ -93,7 +93,9 @@ export function readSampleTable(text: string, options: ParseSamplesOptions = {})
   const meanLine = sampleLines.length > 1 ? sampledChars / (sampleLines.length - 1) : 8;
   const guess = Math.max(16, Math.ceil(((text.length - firstNl) / Math.max(2, meanLine)) * 1.02));
   let numericCols: Float64Array[] = names.map((_, c) => new Float64Array(isText[c] ? 0 : guess));
-  const textCols: (TextBuilder | null)[] = names.map((_, c) => (isText[c] ? { levels: [], codes: new Uint32Array(guess) } : null));
+  const textCols: (TextBuilder | null)[] = names.map((_, c) =>
+    isText[c] ? { levels: [], codes: new Uint32Array(guess) } : null,
+  );
   let capacity = guess;
   const numberScratch = new Float64Array(width);
   const codeScratch = new Uint32Array(width);
@@ -128,7 +130,7 @@ export function readSampleTable(text: string, options: ParseSamplesOptions = {})
     return true;
   };
 
-  for (let ls = firstNl + 1; hasLines && ls <= lastNl; ) {
+  for (let ls = firstNl + 1; hasLines && ls <= lastNl;) {
     const le = text.indexOf('\n', ls);
     lineNumber += 1;
     const end = le > ls && text.charCodeAt(le - 1) === 13 ? le - 1 : le;
@@ -185,7 +187,8 @@ export function readSampleTable(text: string, options: ParseSamplesOptions = {})
     rows += 1;
     ls = next;
   }
-  if (hasLines && lastNl + 1 < text.length) dropped.push({ lineNumber: lineNumber + 1, reason: 'no-newline', text: text.slice(lastNl + 1) });
+  if (hasLines && lastNl + 1 < text.length)
+    dropped.push({ lineNumber: lineNumber + 1, reason: 'no-newline', text: text.slice(lastNl + 1) });
 
   const numeric: Record<string, Float64Array> = {};
   const textOut: Record<string, CodedTextColumn> = {};

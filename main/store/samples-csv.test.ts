@@ -41,15 +41,18 @@ describe('parseSamplesCsv', () => {
   it('round-trips every double written with formatCell (shortest round-trip form)', () => {
     // ECMA-262 Number::toString gives the shortest digits that parse back to the same double.
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.double(), fc.double({ noNaN: true })), { minLength: 1, maxLength: 20 }), (rows) => {
-        const text = `a_v,b_hz\n${rows.map(([a, b]) => `${formatCell(a)},${formatCell(b)}\n`).join('')}`;
-        const parsed = parseSamplesCsv(text);
-        expect(parsed.rowCount).toBe(rows.length);
-        rows.forEach(([a, b], i) => {
-          expect(Object.is(parsed.numeric.a_v?.[i], Number.isNaN(a) ? Number.NaN : a)).toBe(true);
-          expect(Object.is(parsed.numeric.b_hz?.[i], b)).toBe(true);
-        });
-      }),
+      fc.property(
+        fc.array(fc.tuple(fc.double(), fc.double({ noNaN: true })), { minLength: 1, maxLength: 20 }),
+        (rows) => {
+          const text = `a_v,b_hz\n${rows.map(([a, b]) => `${formatCell(a)},${formatCell(b)}\n`).join('')}`;
+          const parsed = parseSamplesCsv(text);
+          expect(parsed.rowCount).toBe(rows.length);
+          rows.forEach(([a, b], i) => {
+            expect(Object.is(parsed.numeric.a_v?.[i], Number.isNaN(a) ? Number.NaN : a)).toBe(true);
+            expect(Object.is(parsed.numeric.b_hz?.[i], b)).toBe(true);
+          });
+        },
+      ),
     );
   });
 

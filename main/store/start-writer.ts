@@ -35,7 +35,8 @@ export interface WriterState extends WriterOptions {
 export function startWriter(state: WriterState): RunWriter {
   const { fs, dir, clock, columns, samples, events } = state;
   const flushEveryS = state.flushEveryS ?? 1;
-  if (!(flushEveryS > 0 && flushEveryS <= 1)) throw new RangeError(`flushEveryS: expected a number in (0, 1], got ${flushEveryS}`);
+  if (!(flushEveryS > 0 && flushEveryS <= 1))
+    throw new RangeError(`flushEveryS: expected a number in (0, 1], got ${flushEveryS}`);
   const wallNowMs = state.wallNowMs ?? Date.now;
   const t0 = clock.now() - state.startOffsetS;
   let meta = state.meta;
@@ -154,7 +155,11 @@ export function startWriter(state: WriterState): RunWriter {
       const byIndex = Array.isArray(row);
       for (let c = 0; c < columns.length; c++) {
         if (c > 0) line += ',';
-        line += formatCell(byIndex ? (row as readonly CellValue[])[c] : (row as Readonly<Record<string, CellValue>>)[columns[c] as string]);
+        line += formatCell(
+          byIndex
+            ? (row as readonly CellValue[])[c]
+            : (row as Readonly<Record<string, CellValue>>)[columns[c] as string],
+        );
       }
       samples.push(`${line}\n`);
       arm();

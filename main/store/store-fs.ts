@@ -52,7 +52,7 @@ export const nodeStoreFs: StoreFs = {
 /** Error code of a Node system error, or undefined. */
 export function errorCode(error: unknown): string | undefined {
   if (typeof error === 'object' && error !== null && 'code' in error) {
-    const code = (error).code;
+    const code = error.code;
     return typeof code === 'string' ? code : undefined;
   }
   return undefined;

@@ -56,7 +56,12 @@ export function procStartOf(pid: number): string | null {
 const ownProcStart = procStartOf(process.pid);
 
 export function makeLock(startedAtIso: string, nowMs: number): WriterLock {
-  const lock: WriterLock = { pid: process.pid, host: hostname(), startedAt: startedAtIso, heartbeatAt: new Date(nowMs).toISOString() };
+  const lock: WriterLock = {
+    pid: process.pid,
+    host: hostname(),
+    startedAt: startedAtIso,
+    heartbeatAt: new Date(nowMs).toISOString(),
+  };
   if (ownProcStart !== null) lock.procStart = ownProcStart;
   return lock;
 }
@@ -111,7 +116,13 @@ export interface LivenessProbe {
   procStartOf(pid: number): string | null;
 }
 
-export const realProbe = (): LivenessProbe => ({ host: hostname(), pid: process.pid, nowMs: Date.now(), isPidAlive, procStartOf });
+export const realProbe = (): LivenessProbe => ({
+  host: hostname(),
+  pid: process.pid,
+  nowMs: Date.now(),
+  isPidAlive,
+  procStartOf,
+});
 
 /** True when the lock proves a writer is still at work on `dir`. */
 export function writerAlive(lock: WriterLock | null, dir: string, probe: LivenessProbe = realProbe()): boolean {

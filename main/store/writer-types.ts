@@ -57,4 +57,3 @@ export interface RunWriter {
   /** Rows written to samples.csv by this writer. */
   rowsWritten(): number;
 }
-

@@ -15,7 +15,8 @@ export class ScaledClock implements Clock {
   readonly #wallStartMs = Date.now();
 
   constructor(scale: number) {
-    if (!(scale > 0) || !Number.isFinite(scale)) throw new RangeError(`ScaledClock: scale must be a positive number, got ${scale}`);
+    if (!(scale > 0) || !Number.isFinite(scale))
+      throw new RangeError(`ScaledClock: scale must be a positive number, got ${scale}`);
     this.#scale = scale;
   }
 
@@ -28,7 +29,8 @@ export class ScaledClock implements Clock {
   }
 
   setTimer(seconds: number, callback: () => void): () => void {
-    if (typeof seconds !== 'number' || Number.isNaN(seconds)) throw new TypeError(`ScaledClock.setTimer: seconds must be a number, got ${String(seconds)}`);
+    if (typeof seconds !== 'number' || Number.isNaN(seconds))
+      throw new TypeError(`ScaledClock.setTimer: seconds must be a number, got ${String(seconds)}`);
     const handle = setTimeout(callback, (Math.max(0, seconds) * 1000) / this.#scale);
     return () => clearTimeout(handle);
   }

@@ -46,7 +46,8 @@ export class VirtualClock implements Clock {
     this.#nowS = options.startS ?? 0;
     this.#startS = this.#nowS;
     const wallMs = Date.parse(options.startWallIso ?? '2026-01-01T00:00:00.000Z');
-    if (Number.isNaN(wallMs)) throw new TypeError(`VirtualClock: startWallIso is not an ISO date: ${options.startWallIso}`);
+    if (Number.isNaN(wallMs))
+      throw new TypeError(`VirtualClock: startWallIso is not an ISO date: ${options.startWallIso}`);
     this.#startWallMs = wallMs;
     this.#autoAdvance = options.autoAdvance ?? false;
   }

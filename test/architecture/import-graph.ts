@@ -14,7 +14,8 @@ export interface ImportEdge {
 }
 
 const ROOTS = ['app', 'main'];
-const IMPORT = /(?:^|\n)\s*(import|export)\s+(type\s+)?(?:[^'";]*?\s+from\s+)?['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)/g;
+const IMPORT =
+  /(?:^|\n)\s*(import|export)\s+(type\s+)?(?:[^'";]*?\s+from\s+)?['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)/g;
 
 function sourceFiles(dir: string, out: string[] = []): string[] {
   for (const name of readdirSync(dir)) {
@@ -27,8 +28,14 @@ function sourceFiles(dir: string, out: string[] = []): string[] {
 }
 
 /** Every source file (repo-relative, forward slashes) and its imports of other project files or of node: built-ins. */
-export function importGraph(repo: string): { files: string[]; edges: ImportEdge[]; builtins: { from: string; module: string }[] } {
-  const files = ROOTS.flatMap((root) => sourceFiles(join(repo, root))).map((f) => relative(repo, f).split('\\').join('/'));
+export function importGraph(repo: string): {
+  files: string[];
+  edges: ImportEdge[];
+  builtins: { from: string; module: string }[];
+} {
+  const files = ROOTS.flatMap((root) => sourceFiles(join(repo, root))).map((f) =>
+    relative(repo, f).split('\\').join('/'),
+  );
   const edges: ImportEdge[] = [];
   const builtins: { from: string; module: string }[] = [];
   for (const file of files) {
@@ -37,7 +44,9 @@ export function importGraph(repo: string): { files: string[]; edges: ImportEdge[
       const spec = m[3] ?? m[4] ?? '';
       if (spec.startsWith('node:')) builtins.push({ from: file, module: spec });
       if (!spec.startsWith('.')) continue;
-      const to = relative(repo, resolve(join(repo, dirname(file)), spec)).split('\\').join('/');
+      const to = relative(repo, resolve(join(repo, dirname(file)), spec))
+        .split('\\')
+        .join('/');
       edges.push({ from: file, to, typeOnly: m[2] !== undefined });
     }
   }

@@ -60,7 +60,12 @@ export function layerViolation(edge: ImportEdge): string | null {
   const { from, to } = edge;
   if (!to.startsWith('app/') && !to.startsWith('main/')) return null; // resources, package.json
   if (from.startsWith('app/') && to.startsWith('main/')) return 'the renderer side (app/) imports main/';
-  if (from.startsWith('main/') && to.startsWith('app/') && !to.startsWith('app/contract/') && !to.startsWith('app/analysis/')) {
+  if (
+    from.startsWith('main/') &&
+    to.startsWith('app/') &&
+    !to.startsWith('app/contract/') &&
+    !to.startsWith('app/analysis/')
+  ) {
     return 'main/ may use only app/contract and app/analysis of app/';
   }
   const a = place(from);
@@ -77,15 +82,19 @@ describe('import layers (ARCHITECTURE.md)', () => {
   });
 
   it('no import points up the layers or across from app/ into main/', () => {
-    const bad = graph.edges.filter((e) => !isTest(e.from)).flatMap((e) => {
-      const why = layerViolation(e);
-      return why ? [`${e.from} → ${e.to}: ${why}`] : [];
-    });
+    const bad = graph.edges
+      .filter((e) => !isTest(e.from))
+      .flatMap((e) => {
+        const why = layerViolation(e);
+        return why ? [`${e.from} → ${e.to}: ${why}`] : [];
+      });
     expect(bad).toEqual([]);
   });
 
   it('the renderer side imports no Node built-ins (tests and build configs aside)', () => {
-    const bad = graph.builtins.filter((b) => b.from.startsWith('app/') && !isTest(b.from) && !b.from.endsWith('.config.ts'));
+    const bad = graph.builtins.filter(
+      (b) => b.from.startsWith('app/') && !isTest(b.from) && !b.from.endsWith('.config.ts'),
+    );
     expect(bad).toEqual([]);
   });
 
@@ -96,9 +105,21 @@ describe('import layers (ARCHITECTURE.md)', () => {
   it('catches what it claims to (the check itself can fail)', () => {
     expect(layerViolation({ from: 'main/bench/x.ts', to: 'main/cli/flags.ts', typeOnly: false })).toMatch(/points up/);
     expect(layerViolation({ from: 'app/plots/p.ts', to: 'app/views/units.ts', typeOnly: false })).toMatch(/points up/);
-    expect(layerViolation({ from: 'main/server/h.ts', to: 'main/window-options.ts', typeOnly: false })).toMatch(/points up/);
-    expect(layerViolation({ from: 'app/state/s.ts', to: 'main/store/run-id.ts', typeOnly: true })).toMatch(/app\/\) imports main/);
+    expect(layerViolation({ from: 'main/server/h.ts', to: 'main/window-options.ts', typeOnly: false })).toMatch(
+      /points up/,
+    );
+    expect(layerViolation({ from: 'app/state/s.ts', to: 'main/store/run-id.ts', typeOnly: true })).toMatch(
+      /app\/\) imports main/,
+    );
     expect(layerViolation({ from: 'main/cli/c.ts', to: 'main/bench/assemble.ts', typeOnly: false })).toBeNull();
-    expect(cycles(['a.ts', 'b.ts', 'c.ts'], [{ from: 'a.ts', to: 'b.ts', typeOnly: true }, { from: 'b.ts', to: 'a.ts', typeOnly: false }])).toEqual([['a.ts', 'b.ts']]);
+    expect(
+      cycles(
+        ['a.ts', 'b.ts', 'c.ts'],
+        [
+          { from: 'a.ts', to: 'b.ts', typeOnly: true },
+          { from: 'b.ts', to: 'a.ts', typeOnly: false },
+        ],
+      ),
+    ).toEqual([['a.ts', 'b.ts']]);
   });
 });

@@ -16,13 +16,21 @@ import { VirtualClock } from '../../main/time/virtual-clock.ts';
 const GATE_S = 0.01;
 const TARGET_HZ = 20;
 
-async function sweep(readings: { readings: { min: number; max: number; targetHz: number } } | { readingsPerPoint: number }) {
+async function sweep(
+  readings: { readings: { min: number; max: number; targetHz: number } } | { readingsPerPoint: number },
+) {
   const clock = new VirtualClock({ autoAdvance: true });
   const bench = await assembleBench('sim', { clock, sim: { dut: builtinDut('relaxation'), seed: 21 } });
   const sink = new MemorySink();
   const plan = sweepPlanSchema.parse({
-    start: 1.56, stop: 4, step: 0.04, gateS: GATE_S, ...readings, refineEdgeV: 0,
-    settle: { mode: 'fixed', seconds: 0.02 }, limits: { maxControlV: 5, currentLimitA: 0.02 },
+    start: 1.56,
+    stop: 4,
+    step: 0.04,
+    gateS: GATE_S,
+    ...readings,
+    refineEdgeV: 0,
+    settle: { mode: 'fixed', seconds: 0.02 },
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
   });
   const t0 = clock.now();
   await runSweep({ bench, plan, clock, sink });
@@ -49,8 +57,16 @@ export async function runAdaptiveReadingsBench(): Promise<void> {
   // Fixed N at equal curve uncertainty: the count the noisiest point needed, for every point.
   const fixed = await sweep({ readingsPerPoint: adaptive.mostReadings });
   const saved = 1 - adaptive.durationS / fixed.durationS;
-  console.log(`  relaxation DUT 1.56–4 V by 40 mV, gate ${GATE_S * 1000} ms, target standard error of each point's mean ${TARGET_HZ} Hz (virtual clock)`);
-  console.log(`  adaptive {min 3, max 200}: ${adaptive.rows} readings over ${adaptive.points} points (most at one point ${adaptive.mostReadings}), ${adaptive.durationS.toFixed(2)} s, worst point SE ${adaptive.worstSeHz.toFixed(1)} Hz`);
-  console.log(`  fixed ${adaptive.mostReadings} per point (equal worst-point uncertainty): ${fixed.rows} readings, ${fixed.durationS.toFixed(2)} s, worst point SE ${fixed.worstSeHz.toFixed(1)} Hz`);
-  console.log(`  time saved by adaptive readings: ${(saved * 100).toFixed(0)} % (${(fixed.durationS - adaptive.durationS).toFixed(2)} s; no target given in the issue, printed for the record)`);
+  console.log(
+    `  relaxation DUT 1.56–4 V by 40 mV, gate ${GATE_S * 1000} ms, target standard error of each point's mean ${TARGET_HZ} Hz (virtual clock)`,
+  );
+  console.log(
+    `  adaptive {min 3, max 200}: ${adaptive.rows} readings over ${adaptive.points} points (most at one point ${adaptive.mostReadings}), ${adaptive.durationS.toFixed(2)} s, worst point SE ${adaptive.worstSeHz.toFixed(1)} Hz`,
+  );
+  console.log(
+    `  fixed ${adaptive.mostReadings} per point (equal worst-point uncertainty): ${fixed.rows} readings, ${fixed.durationS.toFixed(2)} s, worst point SE ${fixed.worstSeHz.toFixed(1)} Hz`,
+  );
+  console.log(
+    `  time saved by adaptive readings: ${(saved * 100).toFixed(0)} % (${(fixed.durationS - adaptive.durationS).toFixed(2)} s; no target given in the issue, printed for the record)`,
+  );
 }

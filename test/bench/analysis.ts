@@ -55,7 +55,11 @@ function timeMedian(fn: () => unknown, runs: number): { medianMs: number; median
 }
 
 /** Readings of a sweep: `points` control voltages × `perPoint` readings × up and down. */
-function sweepReadings(points: number, perPoint: number, rnd: () => number): { controlV: Float64Array; frequencyHz: Float64Array; direction: Int8Array; gateS: number } {
+function sweepReadings(
+  points: number,
+  perPoint: number,
+  rnd: () => number,
+): { controlV: Float64Array; frequencyHz: Float64Array; direction: Int8Array; gateS: number } {
   const total = points * perPoint * 2;
   const controlV = new Float64Array(total);
   const frequencyHz = new Float64Array(total);
@@ -90,19 +94,39 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
     xs[i] = v;
     ys[i] = 1e6 + 2e5 * v - 8e3 * v * v + 300 * v * v * v + 20 * (rnd() - 0.5);
   }
-  figures.push({ name: 'poly fit, 10,000 points, degree 3', ...timeMedian(() => fitPolynomial(xs, ys, 0, n, 3), 21), targetMs: 10 });
-  figures.push({ name: 'poly fit, 10,000 points, auto (AICc over degrees 1–6)', ...timeMedian(() => fitPolynomialAuto(xs, ys, 0, n, 6), 11), targetMs: 10 });
+  figures.push({
+    name: 'poly fit, 10,000 points, degree 3',
+    ...timeMedian(() => fitPolynomial(xs, ys, 0, n, 3), 21),
+    targetMs: 10,
+  });
+  figures.push({
+    name: 'poly fit, 10,000 points, auto (AICc over degrees 1–6)',
+    ...timeMedian(() => fitPolynomialAuto(xs, ys, 0, n, 6), 11),
+    targetMs: 10,
+  });
   // The default tuning-curve model: P-spline with GCV, weights 1/u², monotone, knots warped (two fits).
   const us = new Float64Array(n).fill(20 / Math.sqrt(12));
-  figures.push({ name: 'spline fit, 10,000 points (GCV, weighted, monotone, warped knots)', ...timeMedian(() => fitSpline(xs, ys, us, 0, n, { monotone: 'rising' }), 21), targetMs: 10 });
+  figures.push({
+    name: 'spline fit, 10,000 points (GCV, weighted, monotone, warped knots)',
+    ...timeMedian(() => fitSpline(xs, ys, us, 0, n, { monotone: 'rising' }), 21),
+    targetMs: 10,
+  });
 
   // 2. Sweep analysis of 10,000 readings: 500 points × 10 readings × up and down,
   //    stalled below 0.8 V, jittery just above, counter quantisation at 0.1 s gate;
   //    then 100,000 readings (2,000 points × 25 × up/down).
   const sweep = sweepReadings(500, 10, rnd);
-  figures.push({ name: 'sweep analysis, 10,000 readings (500 points × 10 × up/down)', ...timeMedian(() => analyzeSweep(sweep), 11), targetMs: 50 });
+  figures.push({
+    name: 'sweep analysis, 10,000 readings (500 points × 10 × up/down)',
+    ...timeMedian(() => analyzeSweep(sweep), 11),
+    targetMs: 50,
+  });
   const bigSweep = sweepReadings(2000, 25, rnd);
-  figures.push({ name: 'sweep analysis, 100,000 readings (2,000 points × 25 × up/down)', ...timeMedian(() => analyzeSweep(bigSweep), 5), targetMs: 250 });
+  figures.push({
+    name: 'sweep analysis, 100,000 readings (2,000 points × 25 × up/down)',
+    ...timeMedian(() => analyzeSweep(bigSweep), 5),
+    targetMs: 250,
+  });
 
   // 3. Overlapping ADEV of 1,000,000 samples at all octave taus, vs the direct sum.
   const m = 1_000_000;
@@ -111,13 +135,20 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
   const all = octaveFactors(m, 'oadev');
   const scratch = new Float64Array(m + 1);
   const fastAll = timeMedian(() => stability('oadev', y, 0, m, 1, all), 7);
-  figures.push({ name: `overlapping ADEV, 1,000,000 samples, all ${all.length} octave taus (m = 1 … ${all[all.length - 1]}), fresh phase array`, ...fastAll, targetMs: 250 });
+  figures.push({
+    name: `overlapping ADEV, 1,000,000 samples, all ${all.length} octave taus (m = 1 … ${all[all.length - 1]}), fresh phase array`,
+    ...fastAll,
+    targetMs: 250,
+  });
   const fastAllScratch = timeMedian(() => stability('oadev', y, 0, m, 1, all, scratch), 7);
   figures.push({ name: `overlapping ADEV, same, phase in a reused scratch buffer`, ...fastAllScratch, targetMs: 250 });
   const subset = all.filter((f) => f <= 64);
   const fastSubset = timeMedian(() => stability('oadev', y, 0, m, 1, subset, scratch), 7);
   const directSubset = timeMedian(() => subset.map((f) => oadevDirect(y, f)), 3);
-  figures.push({ name: `overlapping ADEV via phase (scratch buffer), same data, m = ${subset.join(', ')}`, ...fastSubset });
+  figures.push({
+    name: `overlapping ADEV via phase (scratch buffer), same data, m = ${subset.join(', ')}`,
+    ...fastSubset,
+  });
   figures.push({
     name: `overlapping ADEV direct O(N·m), same data, m = ${subset.join(', ')}`,
     ...directSubset,
@@ -138,10 +169,15 @@ export function runAnalysisBench(log: (line: string) => void = console.log): Ben
     note: `first call in this process: ${firstMs.toFixed(0)} ms wall`,
   });
 
-  log(`analysis benchmarks (median of timed runs after one warm-up; load average ${loadavg()[0]?.toFixed(1)} on ${cpus().length} CPUs)`);
+  log(
+    `analysis benchmarks (median of timed runs after one warm-up; load average ${loadavg()[0]?.toFixed(1)} on ${cpus().length} CPUs)`,
+  );
   log('     wall ms     CPU ms');
   for (const f of figures) {
-    const target = f.targetMs !== undefined ? `  target ≤ ${f.targetMs} ms (CPU ${f.medianCpuMs <= f.targetMs ? 'met' : 'MISSED'})` : '';
+    const target =
+      f.targetMs !== undefined
+        ? `  target ≤ ${f.targetMs} ms (CPU ${f.medianCpuMs <= f.targetMs ? 'met' : 'MISSED'})`
+        : '';
     log(`  ${f.medianMs.toFixed(2).padStart(9)}  ${f.medianCpuMs.toFixed(2).padStart(9)}  ${f.name}${target}`);
     if (f.note) log(`               ${f.note}`);
   }

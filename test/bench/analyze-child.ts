@@ -13,4 +13,6 @@ const io = {
 };
 const code = await runCli(['analyze', ...process.argv.slice(2)], io);
 const usage = process.resourceUsage();
-process.stderr.write(`${JSON.stringify({ code, outBytes, cpuMs: (usage.userCPUTime + usage.systemCPUTime) / 1000, maxRssMB: usage.maxRSS / 1024 })}\n`);
+process.stderr.write(
+  `${JSON.stringify({ code, outBytes, cpuMs: (usage.userCPUTime + usage.systemCPUTime) / 1000, maxRssMB: usage.maxRSS / 1024 })}\n`,
+);

@@ -38,7 +38,9 @@ function caseText(kind: 'sweep' | 'distinct' | 'drift'): string {
       const v = 0.5 + i * 4e-6; // every reading its own point
       lines.push(`${v.toFixed(6)},${(8000 + 2000 * v + noise).toFixed(1)}`);
     } else {
-      lines.push(`${i},${(10e6 + 3 * Math.sin(i * 1e-3) + noise * 0.01).toFixed(3)},${(25 + Math.sin(i * 1e-4)).toFixed(2)}`);
+      lines.push(
+        `${i},${(10e6 + 3 * Math.sin(i * 1e-3) + noise * 0.01).toFixed(3)},${(25 + Math.sin(i * 1e-4)).toFixed(2)}`,
+      );
     }
   }
   return `${lines.join('\n')}\n`;
@@ -64,7 +66,9 @@ function runChild(args: string[]): Promise<{ wallS: number; report: ChildReport 
 }
 
 export async function runBigInputsBench(): Promise<void> {
-  console.log(`big inputs to analyze: ${ROWS.toExponential(0)} rows each; target ≤ ${TARGET_S} s and ≤ ${TARGET_MB} MB (machine: ${cpus().length} cores, load ${loadavg()[0]?.toFixed(1)})`);
+  console.log(
+    `big inputs to analyze: ${ROWS.toExponential(0)} rows each; target ≤ ${TARGET_S} s and ≤ ${TARGET_MB} MB (machine: ${cpus().length} cores, load ${loadavg()[0]?.toFixed(1)})`,
+  );
   const dir = await mkdtemp(join(tmpdir(), 'tunebench-big-'));
   try {
     for (const [kind, label] of [

@@ -39,7 +39,13 @@ async function writeBigDriftRun(runsDir: string): Promise<string> {
     kind: 'drift',
     dut: { id: 'radio-lo-400m-b' },
     instruments: [{ role: 'counter', idn: 'tunebench,SIM-COUNTER,0,0.1', address: 'sim' }],
-    plan: { controlV: 2.5, intervalS: 1, durationS: SAMPLES, gateS: 0.1, limits: { maxControlV: 5, currentLimitA: 0.02 } },
+    plan: {
+      controlV: 2.5,
+      intervalS: 1,
+      durationS: SAMPLES,
+      gateS: 0.1,
+      limits: { maxControlV: 5, currentLimitA: 0.02 },
+    },
     columns: DRIFT_COLUMNS,
     clock,
   });
@@ -54,7 +60,13 @@ async function writeBigDriftRun(runsDir: string): Promise<string> {
     const temperatureC = 23 + 1.5 * Math.sin((2 * Math.PI * i) / 86_400);
     const warmUp = -2e3 * Math.exp(-i / 3600);
     const frequencyHz = 400e6 * (1 - 30e-6 * (temperatureC - 23)) + warmUp + 5 * noise();
-    writer.appendSample({ time_s: i, control_v: 2.5, frequency_hz: frequencyHz, temperature_c: temperatureC, status: 'ok' });
+    writer.appendSample({
+      time_s: i,
+      control_v: 2.5,
+      frequency_hz: frequencyHz,
+      temperature_c: temperatureC,
+      status: 'ok',
+    });
     if (i % 50_000 === 49_999) await writer.flush();
   }
   await writer.finish('complete');
@@ -86,7 +98,9 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
   const runsDir = join(scratch, 'runs');
   const writeStart = performance.now();
   const bigId = await writeBigDriftRun(runsDir);
-  console.log(`wrote a ${SAMPLES.toLocaleString('en')}-reading drift run in ${((performance.now() - writeStart) / 1000).toFixed(1)} s`);
+  console.log(
+    `wrote a ${SAMPLES.toLocaleString('en')}-reading drift run in ${((performance.now() - writeStart) / 1000).toFixed(1)} s`,
+  );
   const app = await serveApp({ runsDir, simSpeed: 20 });
   // The main-process share of opening it: the store reads and parses the
   // folder, then the reply is encoded for the WebSocket exactly as
@@ -126,7 +140,9 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
               if (entry.startTime >= start && !(entry.name in marks)) marks[entry.name] = entry.startTime - start;
             }
             // Two frames: the one that draws, and the one after it has been painted.
-            requestAnimationFrame(() => requestAnimationFrame(() => resolve({ firstDrawMs: performance.now() - start, marks })));
+            requestAnimationFrame(() =>
+              requestAnimationFrame(() => resolve({ firstDrawMs: performance.now() - start, marks })),
+            );
           });
           observer.observe({ type: 'mark', buffered: false });
           document.querySelector(`[data-testid="run-open-${id}"]`)?.click();
@@ -161,9 +177,11 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
       requestAnimationFrame(tick);
     })`);
     // The plots' own work per update (setData + redraw), from app/plots/frame-work.ts.
-    const plotWork = (await page.evaluate<number[]>(`window.tunebenchPlotWorkSince ? window.tunebenchPlotWorkSince(${windowStartMs}) : []`)).sort(
-      (a, b) => a - b,
-    );
+    const plotWork = (
+      await page.evaluate<number[]>(
+        `window.tunebenchPlotWorkSince ? window.tunebenchPlotWorkSince(${windowStartMs}) : []`,
+      )
+    ).sort((a, b) => a - b);
     const readingsDuringWindow = (await countRows(app.service, bigId)) - liveStart;
     await page.click('[data-testid="stop-run"]');
     await page.click('[data-testid="stop-run-yes"]');
@@ -178,8 +196,12 @@ export async function runBrowserBench(): Promise<BrowserBenchFigures | null> {
       frames: deltas.length,
       readingsDuringWindow,
     };
-    console.log(`first draw of a ${SAMPLES.toLocaleString('en')}-sample drift run: ${firstDrawMs.toFixed(0)} ms (target ≤ 1000 ms) ${firstDrawMs <= 1000 ? 'meets' : 'MISSES'} [load ${loadavg()[0]?.toFixed(2)}]`);
-    const pageHeap = await page.evaluate<number | null>('performance.memory ? performance.memory.usedJSHeapSize : null');
+    console.log(
+      `first draw of a ${SAMPLES.toLocaleString('en')}-sample drift run: ${firstDrawMs.toFixed(0)} ms (target ≤ 1000 ms) ${firstDrawMs <= 1000 ? 'meets' : 'MISSES'} [load ${loadavg()[0]?.toFixed(2)}]`,
+    );
+    const pageHeap = await page.evaluate<number | null>(
+      'performance.memory ? performance.memory.usedJSHeapSize : null',
+    );
     console.log(
       `  store: first open (CSV parse + column cache written) ${firstOpenMs.toFixed(0)} ms, later opens from the cache ${storeReadMs.toFixed(0)} ms; ` +
         `peak RSS of main ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB, page JS heap ${pageHeap === null ? 'n/a' : `${(pageHeap / 2 ** 20).toFixed(0)} MiB`}`,

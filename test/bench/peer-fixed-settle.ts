@@ -57,7 +57,13 @@ export interface PeerResult {
 }
 
 /** Steps through `pointsV`, sleeping `settleS` after each `VOLT`, then `readings` × `READ?`. */
-export async function runPeerScript(addresses: { supply: string; counter: string }, pointsV: number[], readings: number, settleS: number, gateS: number): Promise<PeerResult> {
+export async function runPeerScript(
+  addresses: { supply: string; counter: string },
+  pointsV: number[],
+  readings: number,
+  settleS: number,
+  gateS: number,
+): Promise<PeerResult> {
   const supply = new LineSocket();
   const counter = new LineSocket();
   await supply.connect(addresses.supply);

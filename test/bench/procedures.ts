@@ -68,11 +68,21 @@ function timed<T extends object>(target: T, sink: { ms: number }): T {
 }
 
 const OVERHEAD_PLAN: SweepPlanInput = {
-  start: 1.6, stop: 4.2, readingsPerPoint: 1, gateS: 0.001, settle: { mode: 'fixed', seconds: 0 }, refineEdgeV: 0,
+  start: 1.6,
+  stop: 4.2,
+  readingsPerPoint: 1,
+  gateS: 0.001,
+  settle: { mode: 'fixed', seconds: 0 },
+  refineEdgeV: 0,
   limits: { maxControlV: 5, currentLimitA: 0.02 },
 };
 
-async function measureOverhead(label: string, bench: BenchRoles, clock: Clock, points: number): Promise<OverheadFigure> {
+async function measureOverhead(
+  label: string,
+  bench: BenchRoles,
+  clock: Clock,
+  points: number,
+): Promise<OverheadFigure> {
   const driver = { ms: 0 };
   const roles: BenchRoles = { ...bench, supply: timed(bench.supply, driver), counter: timed(bench.counter, driver) };
   const plan = sweepPlanSchema.parse({ ...OVERHEAD_PLAN, step: (4.2 - 1.6) / (points - 1) });
@@ -83,7 +93,13 @@ async function measureOverhead(label: string, bench: BenchRoles, clock: Clock, p
   const outcome = (await run()) as { pointsDone: number };
   const totalMs = performance.now() - t0;
   const n = outcome.pointsDone;
-  return { label, points: n, totalMsPerPoint: totalMs / n, driverMsPerPoint: driver.ms / n, engineMsPerPoint: (totalMs - driver.ms) / n };
+  return {
+    label,
+    points: n,
+    totalMsPerPoint: totalMs / n,
+    driverMsPerPoint: driver.ms / n,
+    engineMsPerPoint: (totalMs - driver.ms) / n,
+  };
 }
 
 /** Role fakes that answer at once: what is left is the engine. */
@@ -94,7 +110,8 @@ function zeroDelayBench(clock: Clock): BenchRoles {
     gateS: 0.001,
     identify: () => Promise.resolve({ idn: 'ZERO', manufacturer: '', model: '', serial: '', firmware: '' }),
     setGate: () => Promise.resolve(),
-    readFrequency: (): Promise<FrequencyReading> => Promise.resolve({ status: 'ok', frequencyHz: 10e3 + 1e3 * supply.channel(1).voltageV }),
+    readFrequency: (): Promise<FrequencyReading> =>
+      Promise.resolve({ status: 'ok', frequencyHz: 10e3 + 1e3 * supply.channel(1).voltageV }),
     close: () => Promise.resolve(),
   };
   return { supply, counter, controlChannel: 1, dutSupplyChannel: 2 };
@@ -105,11 +122,23 @@ async function settlingFigure(stepV: number): Promise<SettlingFigure> {
   const slowDut = { ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: 0.05 } };
   const curves: Map<number, number>[] = [];
   const durations: number[] = [];
-  for (const settle of [{ mode: 'auto', maxS: 2 }, { mode: 'fixed', seconds: 0.5 }] as const) {
+  for (const settle of [
+    { mode: 'auto', maxS: 2 },
+    { mode: 'fixed', seconds: 0.5 },
+  ] as const) {
     const clock = new VirtualClock({ autoAdvance: true });
     const bench = await assembleBench('sim', { clock, sim: { dut: slowDut, seed: 11 } });
     const sink = new MemorySink();
-    const plan = sweepPlanSchema.parse({ start: 1.6, stop: 4.2, step: stepV, readingsPerPoint: 3, gateS: 0.01, settle, refineEdgeV: 0, limits: { maxControlV: 5, currentLimitA: 0.02 } });
+    const plan = sweepPlanSchema.parse({
+      start: 1.6,
+      stop: 4.2,
+      step: stepV,
+      readingsPerPoint: 3,
+      gateS: 0.01,
+      settle,
+      refineEdgeV: 0,
+      limits: { maxControlV: 5, currentLimitA: 0.02 },
+    });
     const t0 = clock.now();
     await runSweep({ bench, plan, clock, sink });
     durations.push(clock.now() - t0);
@@ -150,7 +179,14 @@ export async function runProceduresBench(options: { print?: boolean } = {}): Pro
   const overhead: OverheadFigure[] = [];
 
   const fakeClock = new VirtualClock({ autoAdvance: true });
-  overhead.push(await measureOverhead('engine alone (zero-delay role fakes, virtual clock)', zeroDelayBench(fakeClock), fakeClock, 1000));
+  overhead.push(
+    await measureOverhead(
+      'engine alone (zero-delay role fakes, virtual clock)',
+      zeroDelayBench(fakeClock),
+      fakeClock,
+      1000,
+    ),
+  );
 
   const simClock = new VirtualClock({ autoAdvance: true });
   const simBench: AssembledBench = await assembleBench('sim', { clock: simClock });
@@ -160,10 +196,15 @@ export async function runProceduresBench(options: { print?: boolean } = {}): Pro
   const served = await serveSimBench({ basePort: 0, host: '127.0.0.1', dut: 'relaxation' });
   const realClock = new RealClock();
   const tcpBench = await assembleBench(
-    { supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: served.addresses.counter } },
+    {
+      supply: { address: served.addresses.supply, controlChannel: 1, dutSupplyChannel: 2 },
+      counter: { address: served.addresses.counter },
+    },
     { clock: realClock },
   );
-  overhead.push(await measureOverhead('TCP simulated bench on 127.0.0.1 (real clock, 1 ms gate)', tcpBench, realClock, 100));
+  overhead.push(
+    await measureOverhead('TCP simulated bench on 127.0.0.1 (real clock, 1 ms gate)', tcpBench, realClock, 100),
+  );
   await tcpBench.close();
   await served.close();
 
@@ -172,9 +213,13 @@ export async function runProceduresBench(options: { print?: boolean } = {}): Pro
   if (print) {
     console.log('sweep engine overhead per point (target ≤ 0.5 ms; engine = total − time inside role-driver calls)');
     for (const f of overhead) {
-      console.log(`  ${f.label.padEnd(60)} ${f.points} points: total ${f.totalMsPerPoint.toFixed(3)} ms, in drivers ${f.driverMsPerPoint.toFixed(3)} ms, engine ${f.engineMsPerPoint.toFixed(3)} ms`);
+      console.log(
+        `  ${f.label.padEnd(60)} ${f.points} points: total ${f.totalMsPerPoint.toFixed(3)} ms, in drivers ${f.driverMsPerPoint.toFixed(3)} ms, engine ${f.engineMsPerPoint.toFixed(3)} ms`,
+      );
     }
-    console.log('automatic vs fixed 0.5 s settling, τ = 50 ms tuning port, gate 10 ms, 3 readings/point, 1.6–4.2 V (relaxation DUT, ~8 kHz/V)');
+    console.log(
+      'automatic vs fixed 0.5 s settling, τ = 50 ms tuning port, gate 10 ms, 3 readings/point, 1.6–4.2 V (relaxation DUT, ~8 kHz/V)',
+    );
     console.log('  (targets: time ratio ≤ 0.333; largest curve difference ≤ max(2 counts = 200 Hz, 10 ppm))');
     for (const s of settling) {
       console.log(

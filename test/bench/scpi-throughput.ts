@@ -141,10 +141,16 @@ export async function runScpiThroughputBench(options: ScpiThroughputOptions = {}
 }
 
 function printResult(result: ScpiThroughputResult): void {
-  console.log(`SCPI throughput over TCP loopback (${COMMAND}, one query in flight, best of ${result.rounds} x ${result.roundS} s)`);
+  console.log(
+    `SCPI throughput over TCP loopback (${COMMAND}, one query in flight, best of ${result.rounds} x ${result.roundS} s)`,
+  );
   const us = (qps: number): string => (1e6 / qps).toFixed(1);
-  console.log(`  bare socket ping-pong : ${result.bareQueriesPerS.toFixed(0)} queries/s (${us(result.bareQueriesPerS)} us each)`);
-  console.log(`  ScpiSession stack     : ${result.sessionQueriesPerS.toFixed(0)} queries/s (${us(result.sessionQueriesPerS)} us each)`);
+  console.log(
+    `  bare socket ping-pong : ${result.bareQueriesPerS.toFixed(0)} queries/s (${us(result.bareQueriesPerS)} us each)`,
+  );
+  console.log(
+    `  ScpiSession stack     : ${result.sessionQueriesPerS.toFixed(0)} queries/s (${us(result.sessionQueriesPerS)} us each)`,
+  );
   console.log(`  ratio                 : ${result.ratio.toFixed(3)} (target >= 0.8)`);
 }
 

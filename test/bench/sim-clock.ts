@@ -22,7 +22,9 @@ export async function runSimClockBench(): Promise<void> {
         }
       })(),
     );
-    console.log(`virtual clock: 12 h at 1 s (86,400 timers)            ${((performance.now() - t0) / 1000).toFixed(2)} s real`);
+    console.log(
+      `virtual clock: 12 h at 1 s (86,400 timers)            ${((performance.now() - t0) / 1000).toFixed(2)} s real`,
+    );
   }
   // Whole simulated bench over SCPI.
   {
@@ -48,7 +50,9 @@ export async function runSimClockBench(): Promise<void> {
       })(),
     );
     const realS = (performance.now() - t0) / 1000;
-    console.log(`sim bench: 12 h drift log, 43,200 × (MEAS:FREQ? + MEAS:TEMP?)  ${realS.toFixed(2)} s real, ${ok} readings ok`);
+    console.log(
+      `sim bench: 12 h drift log, 43,200 × (MEAS:FREQ? + MEAS:TEMP?)  ${realS.toFixed(2)} s real, ${ok} readings ok`,
+    );
     bench.close();
   }
 }

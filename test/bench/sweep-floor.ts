@@ -44,7 +44,9 @@ interface SimProcess {
 }
 
 async function startSim(dutFile: string): Promise<SimProcess> {
-  const child = spawn(process.execPath, [BIN, 'sim', '--base-port', '0', '--dut', dutFile, '--seed', '7'], { stdio: ['ignore', 'pipe', 'inherit'] });
+  const child = spawn(process.execPath, [BIN, 'sim', '--base-port', '0', '--dut', dutFile, '--seed', '7'], {
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
   let out = '';
   const deadline = Date.now() + 60_000;
   child.stdout?.on('data', (chunk: Buffer) => (out += chunk.toString()));
@@ -74,7 +76,9 @@ function pointsOf(rows: Record<string, number | string>[]): PointMean[] {
     }
     byIndex.set(index, p);
   }
-  return [...byIndex.entries()].sort((a, b) => a[0] - b[0]).map(([, p]) => ({ controlV: p.controlV, meanHz: p.n > 0 ? p.sum / p.n : Number.NaN }));
+  return [...byIndex.entries()]
+    .sort((a, b) => a[0] - b[0])
+    .map(([, p]) => ({ controlV: p.controlV, meanHz: p.n > 0 ? p.sum / p.n : Number.NaN }));
 }
 
 /** Local slope |df/dV| at a point, from its nearest oscillating neighbour on the curve. */
@@ -95,9 +99,10 @@ export function floorSeconds(points: PointMean[], tauS: number, gateS: number, r
     total += readings * gateS;
     if (!Number.isFinite(p.meanHz)) continue;
     const prev = points[i - 1];
-    const stepHz = prev !== undefined && Number.isFinite(prev.meanHz)
-      ? Math.abs(p.meanHz - prev.meanHz)
-      : Math.abs(p.controlV - (prev?.controlV ?? 0)) * localSlope(points, p.controlV, p.meanHz);
+    const stepHz =
+      prev !== undefined && Number.isFinite(prev.meanHz)
+        ? Math.abs(p.meanHz - prev.meanHz)
+        : Math.abs(p.controlV - (prev?.controlV ?? 0)) * localSlope(points, p.controlV, p.meanHz);
     if (stepHz > resolutionHz) total += tauS * Math.log(stepHz / resolutionHz);
   }
   return total;
@@ -105,8 +110,13 @@ export function floorSeconds(points: PointMean[], tauS: number, gateS: number, r
 
 function plan(stepV: number): SweepPlan {
   return sweepPlanSchema.parse({
-    start: 1.0, stop: 4.25, step: stepV, readingsPerPoint: READINGS, gateS: GATE_S,
-    settle: { mode: 'auto', maxS: 2, toleranceCounts: 1 }, refineEdgeV: 0.001,
+    start: 1.0,
+    stop: 4.25,
+    step: stepV,
+    readingsPerPoint: READINGS,
+    gateS: GATE_S,
+    settle: { mode: 'auto', maxS: 2, toleranceCounts: 1 },
+    refineEdgeV: 0.001,
     limits: { maxControlV: 5, currentLimitA: 0.02 },
   });
 }
@@ -120,7 +130,10 @@ interface AutoRun {
 
 async function autoSweep(sim: SimProcess, stepV: number): Promise<AutoRun> {
   const clock = new RealClock();
-  const bench = await assembleBench({ supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: sim.counter } }, { clock });
+  const bench = await assembleBench(
+    { supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: sim.counter } },
+    { clock },
+  );
   const sink = new MemorySink();
   const t0 = performance.now();
   const outcome = await runSweep({ bench, plan: plan(stepV), clock, sink });
@@ -128,17 +141,27 @@ async function autoSweep(sim: SimProcess, stepV: number): Promise<AutoRun> {
   await bench.close();
   if (outcome.status !== 'complete') throw new Error(`sweep ${outcome.status}: ${outcome.reason ?? ''}`);
   const probe = sink.eventsOfType('settle-probe')[0];
-  return { wallS, points: pointsOf(sink.rows), probeTauS: (probe?.tauS as number | null | undefined) ?? null, timeouts: sink.eventsOfType('settle-timeout').length };
+  return {
+    wallS,
+    points: pointsOf(sink.rows),
+    probeTauS: (probe?.tauS as number | null | undefined) ?? null,
+    timeouts: sink.eventsOfType('settle-timeout').length,
+  };
 }
 
 export async function runSweepFloorBench(): Promise<void> {
   const dir = await mkdtemp(join(tmpdir(), 'tunebench-floor-'));
   const dut = builtinDut('relaxation');
   const dutFile = join(dir, 'relaxation-tau50ms.json');
-  await writeFile(dutFile, JSON.stringify({ ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } }));
+  await writeFile(
+    dutFile,
+    JSON.stringify({ ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } }),
+  );
   const sim = await startSim(dutFile);
   try {
-    console.log(`  relaxation DUT with τ = ${TAU_S * 1000} ms, 1.0–4.25 V, ${READINGS} readings at ${GATE_S * 1000} ms gate, edge refined to 1 mV, auto settle to 1 count; tunebench sim over TCP on 127.0.0.1`);
+    console.log(
+      `  relaxation DUT with τ = ${TAU_S * 1000} ms, 1.0–4.25 V, ${READINGS} readings at ${GATE_S * 1000} ms gate, edge refined to 1 mV, auto settle to 1 count; tunebench sim over TCP on 127.0.0.1`,
+    );
     let peerDone = false;
     for (const stepV of [0.05, 0.2]) {
       const load = loadavg()[0] as number;
@@ -155,7 +178,12 @@ export async function runSweepFloorBench(): Promise<void> {
       const pointsV = Array.from(sweepSchedule(plan(stepV)).controlV);
       const peerLoad = loadavg()[0] as number;
       const peer = await runPeerScript({ supply: sim.supply, counter: sim.counter }, pointsV, READINGS, 0.5, GATE_S);
-      const peerFloorS = floorSeconds(pointsV.map((v) => ({ controlV: v, meanHz: peer.curve.get(Math.round(v * 1e6) / 1e6) ?? Number.NaN })), TAU_S, GATE_S, READINGS);
+      const peerFloorS = floorSeconds(
+        pointsV.map((v) => ({ controlV: v, meanHz: peer.curve.get(Math.round(v * 1e6) / 1e6) ?? Number.NaN })),
+        TAU_S,
+        GATE_S,
+        READINGS,
+      );
       let maxDiffHz = 0;
       let compared = 0;
       for (const p of auto.points) {
@@ -165,8 +193,12 @@ export async function runSweepFloorBench(): Promise<void> {
         maxDiffHz = Math.max(maxDiffHz, Math.abs(f - p.meanHz));
       }
       const limitHz = 2 / GATE_S;
-      console.log(`  peer (hand-written script: VOLT, sleep 0.5 s, ${READINGS} × READ?, same ${pointsV.length} points, no edge search): ${peer.wallS.toFixed(2)} s [load ${peerLoad.toFixed(2)}]; its own points' floor ${peerFloorS.toFixed(2)} s`);
-      console.log(`  tunebench / peer wall time: ${(auto.wallS / peer.wallS).toFixed(3)} (tunebench also refines the edge); largest curve difference ${maxDiffHz.toFixed(1)} Hz over ${compared} points (limit 2 counts = ${limitHz} Hz) ${maxDiffHz <= limitHz ? 'meets' : 'MISSES'}`);
+      console.log(
+        `  peer (hand-written script: VOLT, sleep 0.5 s, ${READINGS} × READ?, same ${pointsV.length} points, no edge search): ${peer.wallS.toFixed(2)} s [load ${peerLoad.toFixed(2)}]; its own points' floor ${peerFloorS.toFixed(2)} s`,
+      );
+      console.log(
+        `  tunebench / peer wall time: ${(auto.wallS / peer.wallS).toFixed(3)} (tunebench also refines the edge); largest curve difference ${maxDiffHz.toFixed(1)} Hz over ${compared} points (limit 2 counts = ${limitHz} Hz) ${maxDiffHz <= limitHz ? 'meets' : 'MISSES'}`,
+      );
     }
   } finally {
     sim.child.kill('SIGINT');

@@ -19,7 +19,12 @@ const byId = (id: string): string => `[data-testid="${id}"]`;
 /** Waits until the text of a test id matches. */
 async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 30_000): Promise<string> {
   const locator = page.locator(byId(testId)).first();
-  await expect.poll(async () => ((await locator.count()) > 0 ? ((await locator.textContent()) ?? '') : ''), { timeout: timeoutMs, interval: 100 }).toMatch(pattern);
+  await expect
+    .poll(async () => ((await locator.count()) > 0 ? ((await locator.textContent()) ?? '') : ''), {
+      timeout: timeoutMs,
+      interval: 100,
+    })
+    .toMatch(pattern);
   return (await locator.textContent()) ?? '';
 }
 
@@ -49,7 +54,11 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await mkdir(SCREENS_DIR, { recursive: true });
     app = await serveApp({ simSpeed: 25 });
     browser = await launchChromium();
-    context = await browser.newContext({ acceptDownloads: true, viewport: { width: 1280, height: 860 }, colorScheme: 'dark' });
+    context = await browser.newContext({
+      acceptDownloads: true,
+      viewport: { width: 1280, height: 860 },
+      colorScheme: 'dark',
+    });
     page = await context.newPage();
     page.on('console', (message) => {
       if (message.type() === 'error') consoleErrors.push(message.text());
@@ -59,7 +68,8 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
 
   afterEach(async (context) => {
     // A failing step leaves a picture of what the user would have seen.
-    if (context.task.result?.state === 'fail') await shot(page, `failed-${context.task.name.slice(0, 40).replace(/\W+/g, '-')}`);
+    if (context.task.result?.state === 'fail')
+      await shot(page, `failed-${context.task.name.slice(0, 40).replace(/\W+/g, '-')}`);
   });
 
   afterAll(async () => {
@@ -93,7 +103,9 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await page.click(byId('start-sweep'));
     // Points arriving: the progress count moves while the run is still going.
     const progress = page.locator(byId('progress')).first();
-    await expect.poll(async () => Number((await progress.getAttribute('data-done')) ?? 0), { timeout: 20_000, interval: 50 }).toBeGreaterThanOrEqual(20);
+    await expect
+      .poll(async () => Number((await progress.getAttribute('data-done')) ?? 0), { timeout: 20_000, interval: 50 })
+      .toBeGreaterThanOrEqual(20);
     await shot(page, '03-sweep-running');
     await page.waitForSelector(byId('stall-region'), { timeout: 60_000 });
     const runs = await app.service.listRuns();
@@ -133,7 +145,10 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await shot(page, '06-datasheet');
     const saved: Record<string, string> = {};
     for (const format of ['csv', 'md', 'html']) {
-      const [download] = await Promise.all([page.waitForEvent('download'), page.click(byId(`datasheet-export-${format}`))]);
+      const [download] = await Promise.all([
+        page.waitForEvent('download'),
+        page.click(byId(`datasheet-export-${format}`)),
+      ]);
       const path = join(app.downloadsDir, `sheet.${format}`);
       await download.saveAs(path);
       expect(download.suggestedFilename()).toMatch(new RegExp(`\\.${format}$`));
@@ -266,7 +281,9 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
       saved[format] = await readFile(path);
     }
     // PNG signature (ISO/IEC 15948 §5.2) and a real image, not an empty canvas.
-    expect([...(saved.png ?? Buffer.alloc(0)).subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    expect([...(saved.png ?? Buffer.alloc(0)).subarray(0, 8)]).toEqual([
+      0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a,
+    ]);
     expect(saved.png?.length ?? 0).toBeGreaterThan(10_000);
     const svg = saved.svg?.toString('utf8') ?? '';
     expect(svg).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);

@@ -77,7 +77,9 @@ describe.skipIf(!hasChromium)('browser mode refusals (Chromium)', () => {
     const second = await browser.newPage();
     await second.goto(app.server.url);
     await first.waitForSelector('[data-testid="peer-count"]', { timeout: 15_000 });
-    expect(await first.textContent('[data-testid="peer-count"]')).toMatch(/One other page connected to this bench: whoever is there can stop, pause or rename a run too/);
+    expect(await first.textContent('[data-testid="peer-count"]')).toMatch(
+      /One other page connected to this bench: whoever is there can stop, pause or rename a run too/,
+    );
     await mkdir(SCREENS_DIR, { recursive: true });
     await first.screenshot({ path: join(SCREENS_DIR, 'peer-notice.png') });
     await second.close();
@@ -97,7 +99,9 @@ describe.skipIf(!hasChromium)('browser mode refusals (Chromium)', () => {
     const page = await browser.newPage();
     await page.goto(app.server.url);
     expect(await page.evaluate(tryOpenSocket, `ws://127.0.0.1:${app.server.port}/api`)).toBe('refused');
-    expect(await page.evaluate(tryOpenSocket, `ws://127.0.0.1:${app.server.port}/api?token=${app.server.token}`)).toBe('open');
+    expect(await page.evaluate(tryOpenSocket, `ws://127.0.0.1:${app.server.port}/api?token=${app.server.token}`)).toBe(
+      'open',
+    );
     await page.close();
   });
 
@@ -130,7 +134,10 @@ describe.skipIf(!hasChromium)('browser mode refusals (Chromium)', () => {
       url,
     );
     const byId = new Map((replies as { id: number }[]).map((r) => [r.id, r]));
-    expect(byId.get(-1)).toMatchObject({ ok: false, error: { field: 'message', message: expect.stringContaining('not valid JSON') } });
+    expect(byId.get(-1)).toMatchObject({
+      ok: false,
+      error: { field: 'message', message: expect.stringContaining('not valid JSON') },
+    });
     expect(byId.get(2)).toMatchObject({ ok: false, error: { field: 'id' } });
     expect(byId.get(3)).toMatchObject({ ok: false, error: { field: 'plan.controlV' } });
     expect(byId.get(4)).toMatchObject({ ok: true, result: { connected: false } });

@@ -31,7 +31,10 @@ function hostPort(address: string): { host: string; port: number } {
 
 /** A shipped profile with short timeouts, so a wedged or silent instrument costs tenths of a second. */
 async function fastProfile(dir: string, role: 'supply' | 'counter'): Promise<string> {
-  const profile = JSON.parse(await readFile(join(SHIPPED_PROFILE_DIR, `${role}-scpi.json`), 'utf8')) as Record<string, unknown>;
+  const profile = JSON.parse(await readFile(join(SHIPPED_PROFILE_DIR, `${role}-scpi.json`), 'utf8')) as Record<
+    string,
+    unknown
+  >;
   profile.timeouts = role === 'counter' ? { defaultS: 0.4, measureMarginS: 0.3 } : { defaultS: 0.4 };
   const path = join(dir, `${role}-fast.json`);
   await writeFile(path, JSON.stringify(profile));
@@ -44,10 +47,18 @@ export async function hostileBench(rules: { supply?: ProxyRules; counter?: Proxy
   const supplyProxy = await startScpiProxy(hostPort(served.addresses.supply), rules.supply);
   const counterProxy = await startScpiProxy(hostPort(served.addresses.counter), rules.counter);
   const benchFile = join(dir, 'bench.json');
-  await writeFile(benchFile, JSON.stringify({
-    supply: { address: supplyProxy.address, profile: await fastProfile(dir, 'supply'), controlChannel: 1, dutSupplyChannel: 2 },
-    counter: { address: counterProxy.address, profile: await fastProfile(dir, 'counter') },
-  }));
+  await writeFile(
+    benchFile,
+    JSON.stringify({
+      supply: {
+        address: supplyProxy.address,
+        profile: await fastProfile(dir, 'supply'),
+        controlChannel: 1,
+        dutSupplyChannel: 2,
+      },
+      counter: { address: counterProxy.address, profile: await fastProfile(dir, 'counter') },
+    }),
+  );
   return {
     served,
     supplyProxy,
@@ -83,5 +94,8 @@ export const SHORT_SWEEP = {
 /** Lines of a run's events.jsonl, parsed. */
 export async function runEvents(runDir: string): Promise<{ type: string; [key: string]: unknown }[]> {
   const text = await readFile(join(runDir, 'events.jsonl'), 'utf8');
-  return text.split('\n').filter((line) => line.trim() !== '').map((line) => JSON.parse(line) as { type: string });
+  return text
+    .split('\n')
+    .filter((line) => line.trim() !== '')
+    .map((line) => JSON.parse(line) as { type: string });
 }

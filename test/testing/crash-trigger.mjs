@@ -9,7 +9,10 @@ import { isMainThread } from 'node:worker_threads';
 if (isMainThread) {
   const mode = process.env.TUNEBENCH_TEST_TRIGGER;
   process.on('SIGUSR2', () => {
-    if (mode === 'throw') setTimeout(() => { throw new Error('test crash: thrown on purpose'); }, 0);
+    if (mode === 'throw')
+      setTimeout(() => {
+        throw new Error('test crash: thrown on purpose');
+      }, 0);
     else if (mode === 'reject') void Promise.reject(new Error('test crash: rejected on purpose'));
     else if (mode === 'memory') {
       const hoard = [];

@@ -61,7 +61,9 @@ export const misbehave = {
   },
   /** Replies stop ending: bytes keep coming but the terminator never does; the link stays up. */
   unterminatedReplies(onlyConnection?: number): Pick<ProxyRules, 'reply'> {
-    return { reply: (line, ctx) => (onlyConnection === undefined || ctx.connection === onlyConnection ? line : `${line}\n`) };
+    return {
+      reply: (line, ctx) => (onlyConnection === undefined || ctx.connection === onlyConnection ? line : `${line}\n`),
+    };
   },
   /** Every reply matching `pattern` replaced by `text`. */
   replaceReplies(pattern: RegExp, text: string): Pick<ProxyRules, 'reply'> {
@@ -69,7 +71,9 @@ export const misbehave = {
   },
   /** The reply to every command matching `commandPattern` replaced by `text`. */
   answer(commandPattern: RegExp, text: string): Pick<ProxyRules, 'reply'> {
-    return { reply: (line, ctx) => `${ctx.lastCommand !== null && commandPattern.test(ctx.lastCommand) ? text : line}\n` };
+    return {
+      reply: (line, ctx) => `${ctx.lastCommand !== null && commandPattern.test(ctx.lastCommand) ? text : line}\n`,
+    };
   },
   /**
    * From the first command matching `from` on, every reply slips one query
@@ -99,7 +103,10 @@ export const misbehave = {
   },
 };
 
-export async function startScpiProxy(target: { host: string; port: number }, rules: ProxyRules = {}): Promise<ScpiProxy> {
+export async function startScpiProxy(
+  target: { host: string; port: number },
+  rules: ProxyRules = {},
+): Promise<ScpiProxy> {
   const log: ProxyLogEntry[] = [];
   const sockets = new Set<net.Socket>();
   let connections = 0;

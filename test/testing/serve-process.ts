@@ -25,11 +25,17 @@ export interface Child {
 
 /** The text of a WebSocket message, whatever form `ws` hands it in (one buffer, fragments, an ArrayBuffer). */
 export function wsText(data: RawData): string {
-  return (Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data)).toString('utf8');
+  return (Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data)).toString(
+    'utf8',
+  );
 }
 
 export function spawnCli(args: string[], env: NodeJS.ProcessEnv = {}, nodeArgs: string[] = []): Child {
-  const child = spawn(process.execPath, [...nodeArgs, BIN, ...args], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...nodeArgs, BIN, ...args], {
+    cwd: ROOT,
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let out = '';
   let err = '';
   child.stdout?.on('data', (chunk: Buffer) => (out += chunk.toString()));
@@ -43,8 +49,10 @@ async function waitFor<T>(what: string, probe: () => T | null, child: Child, tim
   for (;;) {
     const found = probe();
     if (found !== null) return found;
-    if (child.process.exitCode !== null) throw new Error(`${what}: the child exited (${child.process.exitCode}); stderr:\n${child.err()}`);
-    if (Date.now() > deadline) throw new Error(`${what}: not seen within ${timeoutMs} ms; stdout:\n${child.out()}\nstderr:\n${child.err()}`);
+    if (child.process.exitCode !== null)
+      throw new Error(`${what}: the child exited (${child.process.exitCode}); stderr:\n${child.err()}`);
+    if (Date.now() > deadline)
+      throw new Error(`${what}: not seen within ${timeoutMs} ms; stdout:\n${child.out()}\nstderr:\n${child.err()}`);
     await new Promise((r) => setTimeout(r, 50));
   }
 }
@@ -60,12 +68,19 @@ export async function startSim(): Promise<SimChild> {
   const addresses = await waitFor(
     'tunebench sim addresses',
     () => {
-      const found = ['supply', 'counter', 'thermometer'].map((role) => new RegExp(`${role}\\s+(tcp://127\\.0\\.0\\.1:\\d+)`).exec(child.out())?.[1]);
+      const found = ['supply', 'counter', 'thermometer'].map(
+        (role) => new RegExp(`${role}\\s+(tcp://127\\.0\\.0\\.1:\\d+)`).exec(child.out())?.[1],
+      );
       return found.every((a) => a !== undefined) ? found : null;
     },
     child,
   );
-  return { ...child, supply: addresses[0] as string, counter: addresses[1] as string, thermometer: addresses[2] as string };
+  return {
+    ...child,
+    supply: addresses[0] as string,
+    counter: addresses[1] as string,
+    thermometer: addresses[2] as string,
+  };
 }
 
 /** A folder with a stand-in page, so `serve` needs no renderer build in these tests. */
@@ -83,16 +98,33 @@ export interface ServeChild extends Child {
   token: string;
 }
 
-export async function startServe(options: { runsDir: string; rendererDir: string; env?: NodeJS.ProcessEnv; nodeArgs?: string[]; args?: string[] }): Promise<ServeChild> {
-  const child = spawnCli(['serve', '--port', '0', '--runs', options.runsDir, ...(options.args ?? [])], { TUNEBENCH_RENDERER_DIR: options.rendererDir, ...options.env }, options.nodeArgs);
-  const url = await waitFor('serve URL', () => /http:\/\/127\.0\.0\.1:\d+\/\?token=[\w-]+/.exec(child.out())?.[0] ?? null, child);
+export async function startServe(options: {
+  runsDir: string;
+  rendererDir: string;
+  env?: NodeJS.ProcessEnv;
+  nodeArgs?: string[];
+  args?: string[];
+}): Promise<ServeChild> {
+  const child = spawnCli(
+    ['serve', '--port', '0', '--runs', options.runsDir, ...(options.args ?? [])],
+    { TUNEBENCH_RENDERER_DIR: options.rendererDir, ...options.env },
+    options.nodeArgs,
+  );
+  const url = await waitFor(
+    'serve URL',
+    () => /http:\/\/127\.0\.0\.1:\d+\/\?token=[\w-]+/.exec(child.out())?.[0] ?? null,
+    child,
+  );
   const parsed = new URL(url);
   return { ...child, url, origin: parsed.origin, token: parsed.searchParams.get('token') as string };
 }
 
 export interface ApiClient {
   socket: WebSocket;
-  call(method: string, params: unknown[]): Promise<{ ok: boolean; result?: unknown; error?: { message: string; field?: string } }>;
+  call(
+    method: string,
+    params: unknown[],
+  ): Promise<{ ok: boolean; result?: unknown; error?: { message: string; field?: string } }>;
   sendRaw(data: string | Uint8Array): void;
   /** The reply to a message sent with sendRaw under `id`. */
   reply(id: number): Promise<{ ok: boolean; result?: unknown; error?: { message: string; field?: string } }>;
@@ -102,7 +134,10 @@ export interface ApiClient {
 
 export async function openApi(origin: string, token: string): Promise<ApiClient> {
   const socket = new WebSocket(`${origin.replace('http', 'ws')}/api?token=${token}`, { origin });
-  const waiting = new Map<number, (reply: { ok: boolean; result?: unknown; error?: { message: string; field?: string } }) => void>();
+  const waiting = new Map<
+    number,
+    (reply: { ok: boolean; result?: unknown; error?: { message: string; field?: string } }) => void
+  >();
   const events: { type: string; [key: string]: unknown }[] = [];
   let nextId = 1;
   socket.on('message', (data, binary) => {

@@ -24,13 +24,21 @@ function LiveReadouts() {
   return (
     <Panel title="Live readings" testId="live-readouts">
       <p className="muted" data-testid="readout-source">
-        {running ? "From the run in progress (its own readings; nothing else queries the instruments)." : status?.source === 'idle' ? 'Polled a few times a second while no run holds the bench.' : 'No bench connected.'}
+        {running
+          ? 'From the run in progress (its own readings; nothing else queries the instruments).'
+          : status?.source === 'idle'
+            ? 'Polled a few times a second while no run holds the bench.'
+            : 'No bench connected.'}
       </p>
       <dl className="figures figures-wide" aria-live="polite">
         <Figure label="Control, set" value={volts(status?.controlSetV)} testId="readout-control-set" />
         <Figure label="Control, measured" value={volts(status?.controlMeasV)} testId="readout-control-meas" />
         <Figure label="Supply output" value={output === null ? '—' : output ? 'on' : 'off'} testId="readout-output" />
-        <Figure label="Frequency" value={hzAtResolution(status?.frequencyHz, running && gateS ? 1 / gateS : null)} testId="readout-frequency" />
+        <Figure
+          label="Frequency"
+          value={hzAtResolution(status?.frequencyHz, running && gateS ? 1 / gateS : null)}
+          testId="readout-frequency"
+        />
         <Figure label="Temperature" value={celsius(status?.temperatureC)} testId="readout-temperature" />
       </dl>
     </Panel>
@@ -46,11 +54,33 @@ function LimitsPanel() {
   const errors = checkSweepDraft(sweepDraft, limits).errors;
   return (
     <Panel title="Safety limits" testId="limits">
-      <p className="muted">Applied to every sweep, drift log and bring-up setting; the bench process checks them again before each write to the supply.</p>
-      {running ? <p className="busy-reason">Locked while a run is in progress: the run keeps the limits it started with.</p> : null}
+      <p className="muted">
+        Applied to every sweep, drift log and bring-up setting; the bench process checks them again before each write to
+        the supply.
+      </p>
+      {running ? (
+        <p className="busy-reason">Locked while a run is in progress: the run keeps the limits it started with.</p>
+      ) : null}
       <div className="row">
-        <Field label="Highest control voltage" unit="V" value={limits.maxControlV} onChange={(maxControlV) => edit({ maxControlV })} error={errors['limits.maxControlV']} disabled={running} testId="limit-max-control" />
-        <Field label="Current limit, control port" unit="A" value={limits.currentLimitA} onChange={(currentLimitA) => edit({ currentLimitA })} error={errors['limits.currentLimitA']} hint="SI prefixes welcome: 20m = 20 mA" disabled={running} testId="limit-current" />
+        <Field
+          label="Highest control voltage"
+          unit="V"
+          value={limits.maxControlV}
+          onChange={(maxControlV) => edit({ maxControlV })}
+          error={errors['limits.maxControlV']}
+          disabled={running}
+          testId="limit-max-control"
+        />
+        <Field
+          label="Current limit, control port"
+          unit="A"
+          value={limits.currentLimitA}
+          onChange={(currentLimitA) => edit({ currentLimitA })}
+          error={errors['limits.currentLimitA']}
+          hint="SI prefixes welcome: 20m = 20 mA"
+          disabled={running}
+          testId="limit-current"
+        />
       </div>
       <SafetyNotes />
     </Panel>
@@ -91,16 +121,29 @@ export function BenchScreen() {
       <section className="hero" aria-label="Quick start">
         <div>
           <h1>Set up the bench</h1>
-          <p>No instruments at hand? The simulated bench drives a model oscillator through the same commands, so you can run a gain sweep right away.</p>
+          <p>
+            No instruments at hand? The simulated bench drives a model oscillator through the same commands, so you can
+            run a gain sweep right away.
+          </p>
         </div>
         <div className="hero-actions">
-          <button type="button" className="primary big" onClick={() => void useSimulator()} disabled={locked} data-testid="use-sim">
+          <button
+            type="button"
+            className="primary big"
+            onClick={() => void useSimulator()}
+            disabled={locked}
+            data-testid="use-sim"
+          >
             Use the simulated bench
           </button>
           {connected ? (
             <ConfirmAction
               label="Disconnect"
-              question={running ? `Disconnect now? This ends the ${runKind ?? 'run'} in progress: ${safeStateWords(runPlan)}; then the links close. Readings so far stay in the run archive.` : null}
+              question={
+                running
+                  ? `Disconnect now? This ends the ${runKind ?? 'run'} in progress: ${safeStateWords(runPlan)}; then the links close. Readings so far stay in the run archive.`
+                  : null
+              }
               confirmLabel="End the run and disconnect"
               onConfirm={() => void disconnect()}
               disabled={busy}
@@ -111,7 +154,8 @@ export function BenchScreen() {
       </section>
       {running ? (
         <p className="busy-reason" data-testid="bench-locked">
-          A {runKind ?? ''} run is in progress: changing instruments or limits now would disturb it, so they are locked until it ends.
+          A {runKind ?? ''} run is in progress: changing instruments or limits now would disturb it, so they are locked
+          until it ends.
         </p>
       ) : null}
       {simulated && connected ? (
@@ -128,7 +172,13 @@ export function BenchScreen() {
         title="Instruments"
         testId="instruments"
         actions={
-          <button type="button" className="quiet" onClick={() => void refresh()} disabled={locked} data-testid="refresh-ports">
+          <button
+            type="button"
+            className="quiet"
+            onClick={() => void refresh()}
+            disabled={locked}
+            data-testid="refresh-ports"
+          >
             Look for ports again
           </button>
         }
@@ -149,7 +199,13 @@ export function BenchScreen() {
           ))}
         </div>
         <div className="actions">
-          <button type="button" className="primary" onClick={() => void connectInstruments()} disabled={locked} data-testid="connect-bench">
+          <button
+            type="button"
+            className="primary"
+            onClick={() => void connectInstruments()}
+            disabled={locked}
+            data-testid="connect-bench"
+          >
             Connect these instruments
           </button>
         </div>

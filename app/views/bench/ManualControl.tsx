@@ -25,15 +25,31 @@ export function ManualControl() {
   const maxV = parseSiNumber(limits.maxControlV);
   const currentA = parseSiNumber(limits.currentLimitA);
   const levelError =
-    controlV === null ? 'a voltage, e.g. 1.25 or 750m' : maxV !== null && controlV > maxV ? `above the highest control voltage (${limits.maxControlV} V)` : controlV < 0 ? 'must be 0 V or more' : undefined;
-  const blocked = !connected ? 'Connect a bench first.' : running ? 'A run holds the bench; its own plan drives the supply until it ends.' : null;
+    controlV === null
+      ? 'a voltage, e.g. 1.25 or 750m'
+      : maxV !== null && controlV > maxV
+        ? `above the highest control voltage (${limits.maxControlV} V)`
+        : controlV < 0
+          ? 'must be 0 V or more'
+          : undefined;
+  const blocked = !connected
+    ? 'Connect a bench first.'
+    : running
+      ? 'A run holds the bench; its own plan drives the supply until it ends.'
+      : null;
 
   const send = async (on: boolean) => {
     if (controlV === null || maxV === null || currentA === null) return;
     setPending(true);
     setError(null);
     try {
-      setStatus(await bridge.api.manualControl({ controlV, output: on, limits: { maxControlV: maxV, currentLimitA: currentA } }));
+      setStatus(
+        await bridge.api.manualControl({
+          controlV,
+          output: on,
+          limits: { maxControlV: maxV, currentLimitA: currentA },
+        }),
+      );
     } catch (e) {
       setError(errorText(e));
     } finally {
@@ -43,16 +59,42 @@ export function ManualControl() {
 
   return (
     <Panel title="Bring-up by hand" className="bring-up" testId="manual-control">
-      <p className="muted">Sets the control channel outside any run, within the safety limits beside this panel. Disconnecting returns it to 0 V with the output off.</p>
-      {blocked ? <p className="busy-reason" data-testid="manual-blocked">{blocked}</p> : null}
+      <p className="muted">
+        Sets the control channel outside any run, within the safety limits beside this panel. Disconnecting returns it
+        to 0 V with the output off.
+      </p>
+      {blocked ? (
+        <p className="busy-reason" data-testid="manual-blocked">
+          {blocked}
+        </p>
+      ) : null}
       <div className="row">
-        <Field label="Control voltage" unit="V" value={level} onChange={setLevel} error={levelError} disabled={blocked !== null || pending} testId="manual-level" />
+        <Field
+          label="Control voltage"
+          unit="V"
+          value={level}
+          onChange={setLevel}
+          error={levelError}
+          disabled={blocked !== null || pending}
+          testId="manual-level"
+        />
       </div>
       <div className="actions">
-        <button type="button" className="primary" disabled={blocked !== null || pending || levelError !== undefined || maxV === null || currentA === null} onClick={() => void send(true)} data-testid="manual-on">
+        <button
+          type="button"
+          className="primary"
+          disabled={blocked !== null || pending || levelError !== undefined || maxV === null || currentA === null}
+          onClick={() => void send(true)}
+          data-testid="manual-on"
+        >
           {output ? 'Apply this voltage' : 'Output on at this voltage'}
         </button>
-        <button type="button" disabled={blocked !== null || pending || levelError !== undefined} onClick={() => void send(false)} data-testid="manual-off">
+        <button
+          type="button"
+          disabled={blocked !== null || pending || levelError !== undefined}
+          onClick={() => void send(false)}
+          data-testid="manual-off"
+        >
           Output off
         </button>
       </div>

@@ -9,7 +9,12 @@ describe('bench config from role choices', () => {
       thermometer: { ...DEFAULT_ROLE_DRAFTS.thermometer, mode: 'none' },
     });
     expect(errors).toEqual({});
-    expect(config?.supply).toMatchObject({ address: 'tcp://127.0.0.1:5025', profile: 'supply-scpi', controlChannel: 1, dutSupplyChannel: 2 });
+    expect(config?.supply).toMatchObject({
+      address: 'tcp://127.0.0.1:5025',
+      profile: 'supply-scpi',
+      controlChannel: 1,
+      dutSupplyChannel: 2,
+    });
     expect(config?.counter).toEqual({ address: 'serial:/dev/ttyUSB0?baud=115200' });
     expect(config?.thermometer).toBeUndefined();
   });

@@ -31,12 +31,16 @@ function address(role: RoleName, draft: RoleDraft, errors: RoleErrors): string |
       if (!/^\d+$/.test(draft.baud.trim())) errors[`${role}.baud`] = 'baud rate must be a whole number, e.g. 9600';
       return `serial:${draft.serialPath.trim()}?baud=${draft.baud.trim()}`;
     case 'tcp':
-      if (!/^[A-Za-z0-9.\-[\]:]+:\d{1,5}$/.test(draft.tcpAddress.trim())) errors[`${role}.address`] = 'expected HOST:PORT, e.g. 127.0.0.1:5025';
+      if (!/^[A-Za-z0-9.\-[\]:]+:\d{1,5}$/.test(draft.tcpAddress.trim()))
+        errors[`${role}.address`] = 'expected HOST:PORT, e.g. 127.0.0.1:5025';
       return `tcp://${draft.tcpAddress.trim()}`;
   }
 }
 
-export function buildBenchConfig(drafts: Record<RoleName, RoleDraft>): { config: BenchConfig | null; errors: RoleErrors } {
+export function buildBenchConfig(drafts: Record<RoleName, RoleDraft>): {
+  config: BenchConfig | null;
+  errors: RoleErrors;
+} {
   const errors: RoleErrors = {};
   const entry = (role: RoleName) => {
     const draft = drafts[role];

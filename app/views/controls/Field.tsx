@@ -36,7 +36,12 @@ export function Field(props: FieldProps) {
         {props.unit ? <span className="field-unit">{props.unit}</span> : null}
       </div>
       {props.error ? (
-        <p id={messageId} className="field-error" role="alert" data-testid={props.testId ? `${props.testId}-error` : undefined}>
+        <p
+          id={messageId}
+          className="field-error"
+          role="alert"
+          data-testid={props.testId ? `${props.testId}-error` : undefined}
+        >
           {props.error}
         </p>
       ) : props.hint ? (
@@ -62,7 +67,13 @@ export function Choice<T extends string>(props: ChoiceProps<T>) {
   return (
     <div className="field">
       <label htmlFor={id}>{props.label}</label>
-      <select id={id} value={props.value} disabled={props.disabled} data-testid={props.testId} onChange={(event) => props.onChange(event.target.value as T)}>
+      <select
+        id={id}
+        value={props.value}
+        disabled={props.disabled}
+        data-testid={props.testId}
+        onChange={(event) => props.onChange(event.target.value as T)}
+      >
         {props.options.map((option) => (
           <option key={option.value} value={option.value}>
             {option.label}
@@ -73,7 +84,13 @@ export function Choice<T extends string>(props: ChoiceProps<T>) {
   );
 }
 
-export function Panel(props: { title: string; children: ReactNode; className?: string; testId?: string; actions?: ReactNode }) {
+export function Panel(props: {
+  title: string;
+  children: ReactNode;
+  className?: string;
+  testId?: string;
+  actions?: ReactNode;
+}) {
   return (
     <section className={`panel ${props.className ?? ''}`} data-testid={props.testId} aria-label={props.title}>
       <header className="panel-head">

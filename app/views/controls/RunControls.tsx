@@ -41,7 +41,8 @@ export function RunControls(props: RunControlsProps) {
   // After Start the keyboard lands on Pause, the next thing one may need (Start itself is now disabled).
   useEffect(() => {
     const at = document.activeElement;
-    if (mineNow && (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled))) pauseRef.current?.focus();
+    if (mineNow && (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled)))
+      pauseRef.current?.focus();
   }, [mineNow]);
 
   const act = async (work: () => Promise<unknown>) => {
@@ -60,21 +61,42 @@ export function RunControls(props: RunControlsProps) {
   return (
     <div className="run-controls">
       <div className="actions">
-        <button type="button" className="primary big" disabled={!start || active || pending || !connected} onClick={() => start && void act(start)} data-testid={props.startTestId}>
+        <button
+          type="button"
+          className="primary big"
+          disabled={!start || active || pending || !connected}
+          onClick={() => start && void act(start)}
+          data-testid={props.startTestId}
+        >
           {props.startLabel}
         </button>
         {paused ? (
-          <button type="button" disabled={!mine || pending} onClick={() => void act(async () => {
-              await bridge.api.resumeRun();
-              setPaused(false);
-            })} data-testid="resume-run">
+          <button
+            type="button"
+            disabled={!mine || pending}
+            onClick={() =>
+              void act(async () => {
+                await bridge.api.resumeRun();
+                setPaused(false);
+              })
+            }
+            data-testid="resume-run"
+          >
             Resume
           </button>
         ) : (
-          <button type="button" ref={pauseRef} disabled={!mine || pending} onClick={() => void act(async () => {
-              await bridge.api.pauseRun();
-              setPaused(true);
-            })} data-testid="pause-run">
+          <button
+            type="button"
+            ref={pauseRef}
+            disabled={!mine || pending}
+            onClick={() =>
+              void act(async () => {
+                await bridge.api.pauseRun();
+                setPaused(true);
+              })
+            }
+            data-testid="pause-run"
+          >
             Pause
           </button>
         )}
@@ -131,12 +153,25 @@ function ProgressLine({ kind }: { kind: RunKind }) {
   if (progressKind !== kind && status === null) return null;
   const fraction = total > 0 ? Math.min(1, done / total) : 0;
   return (
-    <div className={paused ? 'progress progress-paused' : 'progress'} data-testid="progress" data-paused={paused ? 'yes' : 'no'} data-done={done} data-total={total} data-status={status ?? ''}>
-      <progress max={total > 0 ? total : 1} value={status === 'complete' ? (total > 0 ? total : 1) : total > 0 ? done : 0} aria-label="Run progress" />
+    <div
+      className={paused ? 'progress progress-paused' : 'progress'}
+      data-testid="progress"
+      data-paused={paused ? 'yes' : 'no'}
+      data-done={done}
+      data-total={total}
+      data-status={status ?? ''}
+    >
+      <progress
+        max={total > 0 ? total : 1}
+        value={status === 'complete' ? (total > 0 ? total : 1) : total > 0 ? done : 0}
+        aria-label="Run progress"
+      />
       <span>
         {paused && (status === 'running' || status === null)
           ? `Paused${pausedAt ? ` since ${clockTime(pausedAt.since)}, control held at ${volts(pausedAt.controlV)}` : ''} · ${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · output stays as it is; the run stops safely if the pause outlasts its limit`
-          : status === 'running' || status === null ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left` : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
+          : status === 'running' || status === null
+            ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left`
+            : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
       </span>
     </div>
   );

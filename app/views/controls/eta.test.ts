@@ -9,7 +9,10 @@ describe('time left from the plan, kept steady', () => {
     expect(estimateS(47, 0, null, planPointS(plan, 0.02))).toBeCloseTo(47 * (0.45 + Math.log(50) * 0.02), 9);
     // Before τ is known: half the longest wait.
     expect(planPointS(plan, null)).toBeCloseTo(1.45, 12);
-    expect(planPointS({ readingsPerPoint: 2, gateS: 1, settle: { mode: 'fixed', seconds: 0.5 } }, null)).toBeCloseTo(2.6, 12);
+    expect(planPointS({ readingsPerPoint: 2, gateS: 1, settle: { mode: 'fixed', seconds: 0.5 } }, null)).toBeCloseTo(
+      2.6,
+      12,
+    );
     expect(planPointS({ intervalS: 1, gateS: 0.1 }, null)).toBe(1);
   });
 

@@ -15,7 +15,12 @@ const OVERHEAD_S = 0.05;
 
 export function planPointS(plan: unknown, tauS: number | null): number | null {
   if (!plan || typeof plan !== 'object') return null;
-  const p = plan as { readingsPerPoint?: unknown; gateS?: unknown; intervalS?: unknown; settle?: { mode?: unknown; maxS?: unknown; seconds?: unknown } };
+  const p = plan as {
+    readingsPerPoint?: unknown;
+    gateS?: unknown;
+    intervalS?: unknown;
+    settle?: { mode?: unknown; maxS?: unknown; seconds?: unknown };
+  };
   if (typeof p.intervalS === 'number') return p.intervalS;
   const readings = typeof p.readingsPerPoint === 'number' ? p.readingsPerPoint : 3;
   const gateS = typeof p.gateS === 'number' ? p.gateS : 0.1;
@@ -38,7 +43,12 @@ export interface ShownEta {
 /** Main's measured ETA once this many points are done; before that the plan's. */
 export const MEASURED_AFTER_POINTS = 3;
 
-export function estimateS(remaining: number, done: number, measuredEtaS: number | null, perPointS: number | null): number | null {
+export function estimateS(
+  remaining: number,
+  done: number,
+  measuredEtaS: number | null,
+  perPointS: number | null,
+): number | null {
   if (remaining <= 0) return 0;
   if (measuredEtaS !== null && done >= MEASURED_AFTER_POINTS) return measuredEtaS;
   return perPointS === null ? measuredEtaS : remaining * perPointS;

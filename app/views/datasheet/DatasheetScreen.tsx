@@ -1,7 +1,12 @@
 /** Gain table: pick runs, see min/typ/max with conditions and units, export or print. */
 import { useEffect, useMemo, useState } from 'react';
 import { buildDatasheet, type DatasheetRun } from '../../analysis/datasheet.ts';
-import { displayRow, renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../analysis/datasheet-render.ts';
+import {
+  displayRow,
+  renderDatasheetCsv,
+  renderDatasheetHtml,
+  renderDatasheetMarkdown,
+} from '../../analysis/datasheet-render.ts';
 import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
@@ -11,7 +16,12 @@ import { downloadText } from './download.ts';
 import { datasheetRun } from './run-analysis.ts';
 
 function fileStem(title: string): string {
-  return title.trim().replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'gain-table';
+  return (
+    title
+      .trim()
+      .replace(/[^A-Za-z0-9._-]+/g, '-')
+      .replace(/^-+|-+$/g, '') || 'gain-table'
+  );
 }
 
 export function DatasheetScreen() {
@@ -43,10 +53,21 @@ export function DatasheetScreen() {
     }
     if (sheetRuns.length === 0) return { sheet: null, problems: messages };
     try {
-      return { sheet: buildDatasheet(sheetRuns, title.trim() || 'VCO gain table', { includeIncomplete, allowMixed }), problems: messages };
+      return {
+        sheet: buildDatasheet(sheetRuns, title.trim() || 'VCO gain table', { includeIncomplete, allowMixed }),
+        problems: messages,
+      };
     } catch (error) {
       // A table over runs of different DUTs is refused unless allowed: say why instead of a table.
-      return { sheet: null, problems: [...messages, error instanceof Error ? error.message.replace('(--allow-mixed)', '(tick "Allow mixed DUTs")') : String(error)] };
+      return {
+        sheet: null,
+        problems: [
+          ...messages,
+          error instanceof Error
+            ? error.message.replace('(--allow-mixed)', '(tick "Allow mixed DUTs")')
+            : String(error),
+        ],
+      };
     }
   }, [picked, opened, title, includeIncomplete, allowMixed]);
 
@@ -74,7 +95,12 @@ export function DatasheetScreen() {
           {usable.map((run) => (
             <li key={run.id}>
               <label>
-                <input type="checkbox" checked={picked.includes(run.id)} onChange={() => togglePick(run.id)} data-testid={`datasheet-pick-${run.id}`} />
+                <input
+                  type="checkbox"
+                  checked={picked.includes(run.id)}
+                  onChange={() => togglePick(run.id)}
+                  data-testid={`datasheet-pick-${run.id}`}
+                />
                 {run.dut.id} · {run.kind} · {when(run.startedAt)} · {run.status}
               </label>
             </li>
@@ -85,11 +111,21 @@ export function DatasheetScreen() {
         <div className="no-print">
           <Field label="Title" value={title} onChange={setTitle} inputMode="text" testId="datasheet-title" />
           <label className="toggle">
-            <input type="checkbox" checked={includeIncomplete} onChange={(e) => setIncludeIncomplete(e.target.checked)} data-testid="datasheet-include-incomplete" />
+            <input
+              type="checkbox"
+              checked={includeIncomplete}
+              onChange={(e) => setIncludeIncomplete(e.target.checked)}
+              data-testid="datasheet-include-incomplete"
+            />
             Include incomplete runs (aborted, interrupted)
           </label>
           <label className="toggle">
-            <input type="checkbox" checked={allowMixed} onChange={(e) => setAllowMixed(e.target.checked)} data-testid="datasheet-allow-mixed" />
+            <input
+              type="checkbox"
+              checked={allowMixed}
+              onChange={(e) => setAllowMixed(e.target.checked)}
+              data-testid="datasheet-allow-mixed"
+            />
             Allow mixed DUTs
           </label>
         </div>
@@ -111,9 +147,15 @@ export function DatasheetScreen() {
                 <tr>
                   <th scope="col">Parameter</th>
                   <th scope="col">Conditions</th>
-                  <th scope="col" className="num">Min</th>
-                  <th scope="col" className="num">Typ</th>
-                  <th scope="col" className="num">Max</th>
+                  <th scope="col" className="num">
+                    Min
+                  </th>
+                  <th scope="col" className="num">
+                    Typ
+                  </th>
+                  <th scope="col" className="num">
+                    Max
+                  </th>
                   <th scope="col">Unit</th>
                 </tr>
               </thead>
@@ -140,23 +182,41 @@ export function DatasheetScreen() {
               ))}
             </ul>
             <div className="actions no-print">
-              <button type="button" onClick={() => downloadText(`${stem}.csv`, renderDatasheetCsv(sheet), 'text/csv')} data-testid="datasheet-export-csv">
+              <button
+                type="button"
+                onClick={() => downloadText(`${stem}.csv`, renderDatasheetCsv(sheet), 'text/csv')}
+                data-testid="datasheet-export-csv"
+              >
                 Save CSV
               </button>
-              <button type="button" onClick={() => downloadText(`${stem}.md`, renderDatasheetMarkdown(sheet), 'text/markdown')} data-testid="datasheet-export-md">
+              <button
+                type="button"
+                onClick={() => downloadText(`${stem}.md`, renderDatasheetMarkdown(sheet), 'text/markdown')}
+                data-testid="datasheet-export-md"
+              >
                 Save Markdown
               </button>
-              <button type="button" onClick={() => downloadText(`${stem}.html`, renderDatasheetHtml(sheet), 'text/html')} data-testid="datasheet-export-html">
+              <button
+                type="button"
+                onClick={() => downloadText(`${stem}.html`, renderDatasheetHtml(sheet), 'text/html')}
+                data-testid="datasheet-export-html"
+              >
                 Save HTML
               </button>
               <button type="button" onClick={() => void printPdf()} data-testid="datasheet-print-pdf">
                 {bridge.api.printDatasheetPdf ? 'Save as PDF…' : 'Print (or save as PDF)…'}
               </button>
             </div>
-            {printMessage ? <p className="muted" role="status">{printMessage}</p> : null}
+            {printMessage ? (
+              <p className="muted" role="status">
+                {printMessage}
+              </p>
+            ) : null}
           </>
         ) : (
-          <p className="muted">{picked.length > 0 ? 'Reading the picked runs…' : 'Pick one or more runs to build the table.'}</p>
+          <p className="muted">
+            {picked.length > 0 ? 'Reading the picked runs…' : 'Pick one or more runs to build the table.'}
+          </p>
         )}
       </section>
     </div>

@@ -20,22 +20,39 @@ export type RunAnalysisOutcome = AnalysisOutcome<AnyAnalysis>;
 export function analyzeRun(meta: RunMeta, columns: ColumnSet, rows: number): RunAnalysisOutcome {
   if (meta.kind === 'sweep') {
     const hints = planHints(meta.plan);
-    return analyzeColumns(columns, rows, hints.gateS, hints.window ? { window: { ...hints.window, source: 'plan' } } : undefined);
+    return analyzeColumns(
+      columns,
+      rows,
+      hints.gateS,
+      hints.window ? { window: { ...hints.window, source: 'plan' } } : undefined,
+    );
   }
   if (meta.kind === 'drift') return analyzeDriftColumns(columns, rows);
   return analyzePushingColumns(columns, rows);
 }
 
 export function conditionsOf(meta: RunMeta, columns: ColumnSet, rows: number): RunConditions {
-  const logged = { temperatureC: columns.temperature_c.view().subarray(0, rows), supplyV: columns.supply_v.view().subarray(0, rows) };
+  const logged = {
+    temperatureC: columns.temperature_c.view().subarray(0, rows),
+    supplyV: columns.supply_v.view().subarray(0, rows),
+  };
   return runConditions(meta.kind, logged, runHints(meta));
 }
 
-export function datasheetRun(meta: RunMeta, columns: ColumnSet, rows: number): { run: DatasheetRun | null; message: string | null } {
+export function datasheetRun(
+  meta: RunMeta,
+  columns: ColumnSet,
+  rows: number,
+): { run: DatasheetRun | null; message: string | null } {
   const outcome = analyzeRun(meta, columns, rows);
   if (!outcome.ok) return { run: null, message: `${meta.dut.id} (${meta.id}): ${outcome.message}` };
   return {
-    run: { label: datasheetRunLabel(meta.id, meta.dut.id), analysis: outcome.analysis, conditions: conditionsOf(meta, columns, rows), origin: runOrigin(meta) },
+    run: {
+      label: datasheetRunLabel(meta.id, meta.dut.id),
+      analysis: outcome.analysis,
+      conditions: conditionsOf(meta, columns, rows),
+      origin: runOrigin(meta),
+    },
     message: null,
   };
 }

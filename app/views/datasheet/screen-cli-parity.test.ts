@@ -26,8 +26,13 @@ async function cli(...argv: string[]): Promise<string> {
 async function makeRuns(runsDir: string): Promise<string[]> {
   const clock = new VirtualClock({ startWallIso: '2026-12-01T08:00:00.000Z' });
   const sweep = await createRun({
-    runsDir, kind: 'sweep', dut: { id: 'varactor-vco-7' }, instruments: [], plan: { gateS: 0.1, supplyV: 5 },
-    columns: ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'direction', 'status'], clock,
+    runsDir,
+    kind: 'sweep',
+    dut: { id: 'varactor-vco-7' },
+    instruments: [],
+    plan: { gateS: 0.1, supplyV: 5 },
+    columns: ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'direction', 'status'],
+    clock,
   });
   let t = 0;
   for (const direction of ['up', 'down']) {
@@ -37,30 +42,59 @@ async function makeRuns(runsDir: string): Promise<string[]> {
         // Stalled below 0.6 V; one timeout at 2.25 V that must not count as "no oscillation".
         const status = v < 0.6 ? 'no-signal' : k === 15 && r === 0 ? 'timeout' : 'ok';
         const f = status === 'ok' ? 380e6 + 12e6 * v - 4e5 * v * v + ((r * 37 + k * 11) % 7) * 10 : '';
-        sweep.appendSample({ time_s: t++, control_v: v, frequency_hz: f, temperature_c: 24.5 + 0.01 * (k % 5), direction, status });
+        sweep.appendSample({
+          time_s: t++,
+          control_v: v,
+          frequency_hz: f,
+          temperature_c: 24.5 + 0.01 * (k % 5),
+          direction,
+          status,
+        });
       }
     }
   }
   await sweep.finish('complete');
   const drift = await createRun({
-    runsDir, kind: 'drift', dut: { id: 'varactor-vco-7' }, instruments: [], plan: { gateS: 1, controlV: 2 },
-    columns: ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'status'], clock,
+    runsDir,
+    kind: 'drift',
+    dut: { id: 'varactor-vco-7' },
+    instruments: [],
+    plan: { gateS: 1, controlV: 2 },
+    columns: ['time_s', 'control_v', 'frequency_hz', 'temperature_c', 'status'],
+    clock,
   });
   for (let i = 0; i < 3600; i++) {
     const c = 25 + 2 * Math.sin((Math.PI * i) / 3600);
     const status = i % 500 === 7 ? 'error' : 'ok';
-    drift.appendSample({ time_s: i, control_v: 2, frequency_hz: status === 'ok' ? 4.0e8 - 800 * (c - 25) + (i % 3) : '', temperature_c: c, status });
+    drift.appendSample({
+      time_s: i,
+      control_v: 2,
+      frequency_hz: status === 'ok' ? 4.0e8 - 800 * (c - 25) + (i % 3) : '',
+      temperature_c: c,
+      status,
+    });
   }
   await drift.finish('complete');
   const pushing = await createRun({
-    runsDir, kind: 'pushing', dut: { id: 'varactor-vco-7' }, instruments: [], plan: { gateS: 0.1, controlV: 2 },
-    columns: ['time_s', 'control_v', 'supply_v', 'frequency_hz', 'status'], clock,
+    runsDir,
+    kind: 'pushing',
+    dut: { id: 'varactor-vco-7' },
+    instruments: [],
+    plan: { gateS: 0.1, controlV: 2 },
+    columns: ['time_s', 'control_v', 'supply_v', 'frequency_hz', 'status'],
+    clock,
   });
   t = 0;
   for (const supplyV of [4.5, 4.75, 5, 5.25, 5.5]) {
     for (let r = 0; r < 4; r++) {
       const status = supplyV === 4.75 && r === 1 ? 'timeout' : 'ok';
-      pushing.appendSample({ time_s: t++, control_v: 2, supply_v: supplyV, frequency_hz: status === 'ok' ? 4.0e8 + 2e3 * (supplyV - 5) + r : '', status });
+      pushing.appendSample({
+        time_s: t++,
+        control_v: 2,
+        supply_v: supplyV,
+        frequency_hz: status === 'ok' ? 4.0e8 + 2e3 * (supplyV - 5) + r : '',
+        status,
+      });
     }
   }
   await pushing.finish('complete');
@@ -71,14 +105,27 @@ async function makeRuns(runsDir: string): Promise<string[]> {
 async function makeSweepWithConditions(runsDir: string): Promise<string> {
   const clock = new VirtualClock({ startWallIso: '2026-12-02T08:00:00.000Z' });
   const sweep = await createRun({
-    runsDir, kind: 'sweep', dut: { id: 'sensor-osc-4' }, instruments: [], plan: { gateS: 0.1 },
-    columns: ['time_s', 'control_v', 'frequency_hz', 'direction', 'status'], clock,
+    runsDir,
+    kind: 'sweep',
+    dut: { id: 'sensor-osc-4' },
+    instruments: [],
+    plan: { gateS: 0.1 },
+    columns: ['time_s', 'control_v', 'frequency_hz', 'direction', 'status'],
+    clock,
   });
   for (let k = 0; k <= 20; k++) {
     const v = 1 + k * 0.1;
-    sweep.appendSample({ time_s: k, control_v: v, frequency_hz: 1e5 + 2e4 * v + (k % 3), direction: 'up', status: 'ok' });
+    sweep.appendSample({
+      time_s: k,
+      control_v: v,
+      frequency_hz: 1e5 + 2e4 * v + (k % 3),
+      direction: 'up',
+      status: 'ok',
+    });
   }
-  await sweep.finish('complete', { conditions: { dutSupplyV: { start: 4.999, end: 5.001 }, temperatureC: { start: 23.05, end: 23.15 } } });
+  await sweep.finish('complete', {
+    conditions: { dutSupplyV: { start: 4.999, end: 5.001 }, temperatureC: { start: 23.05, end: 23.15 } },
+  });
   return sweep.dir;
 }
 
@@ -102,8 +149,12 @@ describe('gain table: screen and command agree', () => {
       const sheet = await screenSheet(runsDir, [dir], 'Sensor oscillator');
       const md = await cli('datasheet', dir, '--format', 'md', '--title', 'Sensor oscillator');
       expect(renderDatasheetMarkdown(sheet)).toBe(md);
-      expect(renderDatasheetCsv(sheet)).toBe(await cli('datasheet', dir, '--format', 'csv', '--title', 'Sensor oscillator'));
-      expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe('T 23.1 °C; supply 5.00 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)');
+      expect(renderDatasheetCsv(sheet)).toBe(
+        await cli('datasheet', dir, '--format', 'csv', '--title', 'Sensor oscillator'),
+      );
+      expect(sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions).toBe(
+        'T 23.1 °C; supply 5.00 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)',
+      );
       expect(md).toContain('T 23.1 °C; supply 5.00 V; gate 100 ms');
     });
   });
@@ -121,9 +172,15 @@ describe('gain table: screen and command agree', () => {
       }
       const sheet = buildDatasheet(runs, 'Varactor VCO');
       expect(sheet.rows.map((r) => r.key)).toEqual(expect.arrayContaining(['kvcoLine', 'stall', 'tempco', 'pushing']));
-      expect(renderDatasheetCsv(sheet)).toBe(await cli('datasheet', ...dirs, '--format', 'csv', '--title', 'Varactor VCO'));
-      expect(renderDatasheetMarkdown(sheet)).toBe(await cli('datasheet', ...dirs, '--format', 'md', '--title', 'Varactor VCO'));
-      expect(renderDatasheetHtml(sheet)).toBe(await cli('datasheet', ...dirs, '--format', 'html', '--title', 'Varactor VCO'));
+      expect(renderDatasheetCsv(sheet)).toBe(
+        await cli('datasheet', ...dirs, '--format', 'csv', '--title', 'Varactor VCO'),
+      );
+      expect(renderDatasheetMarkdown(sheet)).toBe(
+        await cli('datasheet', ...dirs, '--format', 'md', '--title', 'Varactor VCO'),
+      );
+      expect(renderDatasheetHtml(sheet)).toBe(
+        await cli('datasheet', ...dirs, '--format', 'html', '--title', 'Varactor VCO'),
+      );
     });
   });
 });

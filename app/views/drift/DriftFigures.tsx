@@ -14,7 +14,16 @@ import { GapDisplay } from '../../plots/gap-display.ts';
 import { envelope, type EnvelopeSeries } from '../../plots/envelope.ts';
 import { columnsCsv } from '../../plots/plot-export.ts';
 import { PlotPanel, type PlotView } from '../../plots/PlotPanel.tsx';
-import { baseOptions, decimalsFor, lineSeries, logSiAxis, pointSeries, siAxis, timeAxis, withAlpha } from '../../plots/plot-options.ts';
+import {
+  baseOptions,
+  decimalsFor,
+  lineSeries,
+  logSiAxis,
+  pointSeries,
+  siAxis,
+  timeAxis,
+  withAlpha,
+} from '../../plots/plot-options.ts';
 import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { Figure } from '../controls/Field.tsx';
 import { duration, hz, plain, si, volts } from '../units.ts';
@@ -33,7 +42,15 @@ export interface DriftSource {
   storedFrom?: string;
 }
 
-function DriftKeyFigures({ outcome, running, holdV }: { outcome: DriftOutcome | null; running: boolean; holdV: number | null }) {
+function DriftKeyFigures({
+  outcome,
+  running,
+  holdV,
+}: {
+  outcome: DriftOutcome | null;
+  running: boolean;
+  holdV: number | null;
+}) {
   const a = outcome?.ok ? outcome.analysis : null;
   return (
     <section className="key-figures" aria-label="Drift figures" data-testid="drift-figures">
@@ -47,16 +64,31 @@ function DriftKeyFigures({ outcome, running, holdV }: { outcome: DriftOutcome | 
       <dl className="figures">
         <Figure label="Control held at" value={volts(holdV)} testId="drift-hold" />
         <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
-        <Figure label="Tempco" value={plain(a?.tempcoPpmPerC, 'ppm/°C')} note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined} testId="drift-tempco" />
+        <Figure
+          label="Tempco"
+          value={plain(a?.tempcoPpmPerC, 'ppm/°C')}
+          note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined}
+          testId="drift-tempco"
+        />
         <Figure
           label="Drift rate after warm-up"
           value={plain(a?.driftPpmPerHour, 'ppm/h')}
           // A short log cannot pin the rate down: show its standard uncertainty beside it.
-          note={a?.driftUncertaintyPpmPerHour != null ? `± ${plain(a.driftUncertaintyPpmPerHour, 'ppm/h')} (1σ)` : undefined}
+          note={
+            a?.driftUncertaintyPpmPerHour != null ? `± ${plain(a.driftUncertaintyPpmPerHour, 'ppm/h')} (1σ)` : undefined
+          }
           testId="drift-rate"
         />
-        <Figure label="Warm-up" value={a ? (a.warmUp.settled ? duration(a.warmUp.warmUpS) : 'not settled') : '—'} testId="drift-warmup" />
-        <Figure label="Logged" value={a ? `${a.samples} readings over ${duration(a.durationS)}` : '—'} testId="drift-count" />
+        <Figure
+          label="Warm-up"
+          value={a ? (a.warmUp.settled ? duration(a.warmUp.warmUpS) : 'not settled') : '—'}
+          testId="drift-warmup"
+        />
+        <Figure
+          label="Logged"
+          value={a ? `${a.samples} readings over ${duration(a.durationS)}` : '—'}
+          testId="drift-count"
+        />
       </dl>
     </section>
   );
@@ -65,14 +97,20 @@ function DriftKeyFigures({ outcome, running, holdV }: { outcome: DriftOutcome | 
 export function DriftFigures({ source }: { source: DriftSource }) {
   const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
-  const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () => driftJob(source.columns(), source.rows()));
+  const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () =>
+    driftJob(source.columns(), source.rows()),
+  );
   const analysis = outcome?.ok ? outcome.analysis : null;
   // Set by the last data() call: whether the time plot shows slices (band + mean) or the readings themselves.
   const dense = useRef(false);
   const gapColumns = () => {
     const columns = source.columns();
     if (!gaps.current || gaps.current.key !== source.key) {
-      gaps.current = { key: source.key, freq: new GapDisplay(columns.frequency_hz, columns.status), temp: new GapDisplay(columns.temperature_c, columns.status) };
+      gaps.current = {
+        key: source.key,
+        freq: new GapDisplay(columns.frequency_hz, columns.status),
+        temp: new GapDisplay(columns.temperature_c, columns.status),
+      };
     }
     return { columns, gaps: gaps.current };
   };
@@ -92,10 +130,14 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   const timeCsv = (): string => {
     const { columns, gaps: g } = gapColumns();
     const n = source.rows();
-    return columnsCsv(['time_s', 'frequency_hz', 'temperature_c'], [columns.time_s.view().subarray(0, n), g.freq.data(n), g.temp.data(n)]);
+    return columnsCsv(
+      ['time_s', 'frequency_hz', 'temperature_c'],
+      [columns.time_s.view().subarray(0, n), g.freq.data(n), g.temp.data(n)],
+    );
   };
   const tempco = useMemo(
-    () => (analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null),
+    () =>
+      analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null,
     [analysis],
   );
   const buildKey = `${source.key}|${source.theme}`;
@@ -104,7 +146,8 @@ export function DriftFigures({ source }: { source: DriftSource }) {
       <div className="plots">
         {source.storedFrom ? (
           <p className="muted stored-from" data-testid="stored-from">
-            Latest stored drift log: {source.storedFrom}. Start a log to replace it here; the Run archive has the others.
+            Latest stored drift log: {source.storedFrom}. Start a log to replace it here; the Run archive has the
+            others.
           </p>
         ) : null}
         <PlotPanel
@@ -128,19 +171,31 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 }),
                 lineSeries('Lowest in slice', 'transparent', 'Hz', { width: 0 }),
                 lineSeries('Highest in slice', 'transparent', 'Hz', { width: 0 }),
-                lineSeries('Temperature', colors.series[1], '°C', { scale: '°C', value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`) }),
+                lineSeries('Temperature', colors.series[1], '°C', {
+                  scale: '°C',
+                  value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`),
+                }),
               ],
               [
                 timeAxis(colors, 'Time', source.startMs ?? null),
                 siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
-                { ...siAxis(colors, 'Temperature', '°C'), scale: '°C', side: 1, size: 84, labelGap: 6, grid: { show: false }, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) },
+                {
+                  ...siAxis(colors, 'Temperature', '°C'),
+                  scale: '°C',
+                  side: 1,
+                  size: 84,
+                  labelGap: 6,
+                  grid: { show: false },
+                  values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`),
+                },
               ],
               { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.2) }] },
             )
           }
           footer={
             <span data-testid="drift-plot-key">
-              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each slice of time and the line is their mean; zoom in to see each reading.
+              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each
+              slice of time and the line is their mean; zoom in to see each reading.
             </span>
           }
         />
@@ -155,8 +210,21 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               baseOptions(
                 width,
                 height,
-                [{ label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) }, pointSeries('Frequency', colors.series[0], 'Hz', { points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] } }), lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 })],
-                [{ ...siAxis(colors, 'Temperature', '°C'), space: 72, values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`) }, siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
+                [
+                  { label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) },
+                  pointSeries('Frequency', colors.series[0], 'Hz', {
+                    points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] },
+                  }),
+                  lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 }),
+                ],
+                [
+                  {
+                    ...siAxis(colors, 'Temperature', '°C'),
+                    space: 72,
+                    values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`),
+                  },
+                  siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
+                ],
               )
             }
           />
@@ -172,15 +240,31 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               baseOptions(
                 width,
                 height,
-                [{ label: 'τ', value: (_u, v) => (v === null ? '—' : si(v, 's', 3)) }, lineSeries('σy(τ)', colors.series[2], '', { points: { show: true, size: 5 }, value: (_u, v) => (v === null ? '—' : v.toExponential(3)) })],
-                [logSiAxis(colors, 'Averaging time τ', 's'), { ...siAxis(colors, 'σy(τ)', ''), values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) }],
+                [
+                  { label: 'τ', value: (_u, v) => (v === null ? '—' : si(v, 's', 3)) },
+                  lineSeries('σy(τ)', colors.series[2], '', {
+                    points: { show: true, size: 5 },
+                    value: (_u, v) => (v === null ? '—' : v.toExponential(3)),
+                  }),
+                ],
+                [
+                  logSiAxis(colors, 'Averaging time τ', 's'),
+                  {
+                    ...siAxis(colors, 'σy(τ)', ''),
+                    values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))),
+                  },
+                ],
                 { scales: { x: { time: false, distr: 3 }, y: { distr: 3 } } },
               )
             }
           />
         ) : null}
       </div>
-      <DriftKeyFigures outcome={outcome} running={running} holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null} />
+      <DriftKeyFigures
+        outcome={outcome}
+        running={running}
+        holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null}
+      />
     </div>
   );
 }

@@ -18,13 +18,28 @@ function DriftPlan() {
   const setDutId = useStore(stores.settings, (s) => s.setDutId);
   const checked = checkDriftDraft(draft, limits);
   const text = (key: keyof DriftDraft, label: string, unit: string, testId: string, hint?: string) => (
-    <Field label={label} unit={unit} value={draft[key]} onChange={(value) => edit({ [key]: value })} error={checked.errors[key]} hint={hint} testId={testId} />
+    <Field
+      label={label}
+      unit={unit}
+      value={draft[key]}
+      onChange={(value) => edit({ [key]: value })}
+      error={checked.errors[key]}
+      hint={hint}
+      testId={testId}
+    />
   );
   const dutError = dutId.trim() === '' ? 'give the device a name' : undefined;
   const start = checked.ok && !dutError ? () => bridge.api.startDrift(checked.plan, dutId.trim()) : null;
   return (
     <Panel title="Drift log plan" className="plan" testId="drift-plan">
-      <Field label="Device under test" value={dutId} onChange={setDutId} error={dutError} inputMode="text" testId="drift-dut-id" />
+      <Field
+        label="Device under test"
+        value={dutId}
+        onChange={setDutId}
+        error={dutError}
+        inputMode="text"
+        testId="drift-dut-id"
+      />
       <div className="row">
         {text('controlV', 'Hold control at', 'V', 'drift-control')}
         {text('intervalS', 'Every', '', 'drift-interval', 'e.g. 1s, 500ms')}
@@ -34,7 +49,9 @@ function DriftPlan() {
         {text('gateS', 'Counter gate', 's', 'drift-gate')}
       </div>
       <p className="muted" data-testid="drift-summary">
-        {checked.ok ? `About ${Math.floor(checked.plan.durationS / checked.plan.intervalS)} readings over ${duration(checked.plan.durationS)}.` : 'Fix the marked fields to start.'}
+        {checked.ok
+          ? `About ${Math.floor(checked.plan.durationS / checked.plan.intervalS)} readings over ${duration(checked.plan.durationS)}.`
+          : 'Fix the marked fields to start.'}
       </p>
       <SafetyNotes />
       <RunControls kind="drift" startLabel="Start drift log" startTestId="start-drift" start={start} />
@@ -53,7 +70,10 @@ export function DriftScreen() {
         ) : (
           <div className="placeholder">
             <h2>No drift log yet</h2>
-            <p>Hold the control voltage and log frequency and temperature over minutes or hours; tempco, drift rate and Allan deviation follow when it ends.</p>
+            <p>
+              Hold the control voltage and log frequency and temperature over minutes or hours; tempco, drift rate and
+              Allan deviation follow when it ends.
+            </p>
           </div>
         )}
       </div>

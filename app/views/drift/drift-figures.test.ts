@@ -20,9 +20,11 @@ describe('drift figures', () => {
     expect(outcome.analysis.tempcoPpmPerC).toBeCloseTo(-50, 3);
     const view = tempcoColumns(set, 1000, outcome.analysis, 100);
     expect(view.temperatureC.length).toBe(100);
-    for (let k = 1; k < view.temperatureC.length; k += 1) expect(view.temperatureC[k]).toBeGreaterThanOrEqual(view.temperatureC[k - 1] ?? 0);
+    for (let k = 1; k < view.temperatureC.length; k += 1)
+      expect(view.temperatureC[k]).toBeGreaterThanOrEqual(view.temperatureC[k - 1] ?? 0);
     // Chunk means of a straight line lie on the line.
-    for (let k = 0; k < view.temperatureC.length; k += 1) expect(view.frequencyHz[k]).toBeCloseTo(view.lineHz[k] ?? 0, 3);
+    for (let k = 0; k < view.temperatureC.length; k += 1)
+      expect(view.frequencyHz[k]).toBeCloseTo(view.lineHz[k] ?? 0, 3);
   });
 
   it('reports too few readings instead of throwing', () => {

@@ -24,7 +24,11 @@ import { hz, si, when } from '../units.ts';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
 import { checkLoopDraft, DEFAULT_LOOP, type LoopDraft } from './loop-inputs.ts';
 
-const CORNER_LABELS: Record<KvcoCorner['label'], string> = { min: 'Kvco min (window)', lock: 'Kvco at the lock point', max: 'Kvco max (window)' };
+const CORNER_LABELS: Record<KvcoCorner['label'], string> = {
+  min: 'Kvco min (window)',
+  lock: 'Kvco at the lock point',
+  max: 'Kvco max (window)',
+};
 
 /** uPlot reads null as a gap; NaN (log of a non-positive gain) would break its ranging. */
 function finiteOrNull(values: Float64Array): (number | null)[] {
@@ -58,7 +62,10 @@ export function LoopScreen() {
     if (!checked.values || !analysis || !('sweep' in analysis)) return null;
     return loopOperatingPoint(analysis.sweep, checked.values.referenceHz, checked.values.dividerN);
   }, [analysis, checked.values?.referenceHz, checked.values?.dividerN]);
-  const design = useMemo((): { design: LoopDesign; checks: (ReturnType<typeof loopAcrossKvco>[number] & { label: string })[] } | { error: string } | null => {
+  const design = useMemo(():
+    | { design: LoopDesign; checks: (ReturnType<typeof loopAcrossKvco>[number] & { label: string })[] }
+    | { error: string }
+    | null => {
     if (!checked.values || !point) return null;
     const v = checked.values;
     try {
@@ -67,18 +74,43 @@ export function LoopScreen() {
       const made = designLoopFilter({ ...v, kvcoHzPerV: Math.abs(lock.kvcoHzPerV) });
       // Only corners with loop gain can be checked; the others stay in the table with their reason.
       const usable = point.corners.filter((c) => c.usable);
-      const checks = loopAcrossKvco(made.filter, { dividerN: v.dividerN, chargePumpA: v.chargePumpA }, usable.map((c) => Math.abs(c.kvcoHzPerV)));
-      return { design: made, checks: checks.map((c, i) => ({ ...c, label: CORNER_LABELS[usable[i]?.label ?? 'lock'] })) };
+      const checks = loopAcrossKvco(
+        made.filter,
+        { dividerN: v.dividerN, chargePumpA: v.chargePumpA },
+        usable.map((c) => Math.abs(c.kvcoHzPerV)),
+      );
+      return {
+        design: made,
+        checks: checks.map((c, i) => ({ ...c, label: CORNER_LABELS[usable[i]?.label ?? 'lock'] })),
+      };
     } catch (error) {
       return { error: errorText(error) };
     }
-  }, [checked.values?.referenceHz, checked.values?.dividerN, checked.values?.chargePumpA, checked.values?.loopBandwidthHz, checked.values?.phaseMarginDeg, checked.values?.order, point]);
+  }, [
+    checked.values?.referenceHz,
+    checked.values?.dividerN,
+    checked.values?.chargePumpA,
+    checked.values?.loopBandwidthHz,
+    checked.values?.phaseMarginDeg,
+    checked.values?.order,
+    point,
+  ]);
 
   const bode = useMemo(() => {
     if (!design || !('design' in design) || !checked.values) return null;
     const bw = checked.values.loopBandwidthHz;
     const freqs = logFrequencies(bw / 100, bw * 100, 300);
-    const responses = design.checks.map((c) => openLoopResponse(design.design.filter, { dividerN: checked.values?.dividerN ?? 1, chargePumpA: checked.values?.chargePumpA ?? 0, kvcoHzPerV: c.kvcoHzPerV }, freqs));
+    const responses = design.checks.map((c) =>
+      openLoopResponse(
+        design.design.filter,
+        {
+          dividerN: checked.values?.dividerN ?? 1,
+          chargePumpA: checked.values?.chargePumpA ?? 0,
+          kvcoHzPerV: c.kvcoHzPerV,
+        },
+        freqs,
+      ),
+    );
     return { freqs, responses };
   }, [design]);
 
@@ -91,34 +123,100 @@ export function LoopScreen() {
         <Choice
           label="Sweep whose Kvco to use"
           value={chosen}
-          options={sweeps.length > 0 ? sweeps.map((r) => ({ value: r.id, label: `${r.dut.id} · ${when(r.startedAt)}` })) : [{ value: '', label: 'No finished sweeps yet' }]}
+          options={
+            sweeps.length > 0
+              ? sweeps.map((r) => ({ value: r.id, label: `${r.dut.id} · ${when(r.startedAt)}` }))
+              : [{ value: '', label: 'No finished sweeps yet' }]
+          }
           onChange={setRunId}
           testId="loop-run"
         />
         <div className="row">
-          <Field label="Reference (comparison) frequency" unit="Hz" value={draft.referenceHz} onChange={(referenceHz) => edit({ referenceHz })} error={checked.errors.referenceHz} testId="loop-reference" />
-          <Field label="Feedback divider N" value={draft.dividerN} onChange={(dividerN) => edit({ dividerN })} error={checked.errors.dividerN} testId="loop-divider" />
+          <Field
+            label="Reference (comparison) frequency"
+            unit="Hz"
+            value={draft.referenceHz}
+            onChange={(referenceHz) => edit({ referenceHz })}
+            error={checked.errors.referenceHz}
+            testId="loop-reference"
+          />
+          <Field
+            label="Feedback divider N"
+            value={draft.dividerN}
+            onChange={(dividerN) => edit({ dividerN })}
+            error={checked.errors.dividerN}
+            testId="loop-divider"
+          />
         </div>
         <div className="row">
-          <Field label="Charge-pump current" unit="A" value={draft.chargePumpA} onChange={(chargePumpA) => edit({ chargePumpA })} error={checked.errors.chargePumpA} hint="100u = 100 µA" testId="loop-icp" />
-          <Field label="Loop bandwidth" unit="Hz" value={draft.loopBandwidthHz} onChange={(loopBandwidthHz) => edit({ loopBandwidthHz })} error={checked.errors.loopBandwidthHz} testId="loop-bandwidth" />
+          <Field
+            label="Charge-pump current"
+            unit="A"
+            value={draft.chargePumpA}
+            onChange={(chargePumpA) => edit({ chargePumpA })}
+            error={checked.errors.chargePumpA}
+            hint="100u = 100 µA"
+            testId="loop-icp"
+          />
+          <Field
+            label="Loop bandwidth"
+            unit="Hz"
+            value={draft.loopBandwidthHz}
+            onChange={(loopBandwidthHz) => edit({ loopBandwidthHz })}
+            error={checked.errors.loopBandwidthHz}
+            testId="loop-bandwidth"
+          />
         </div>
         <div className="row">
-          <Field label="Phase margin" unit="°" value={draft.phaseMarginDeg} onChange={(phaseMarginDeg) => edit({ phaseMarginDeg })} error={checked.errors.phaseMarginDeg} testId="loop-margin" />
-          <Choice label="Filter" value={draft.order} options={[{ value: '2', label: '2nd order (C1, R2, C2)' }, { value: '3', label: '3rd order (adds R3, C3)' }]} onChange={(order) => edit({ order })} testId="loop-order" />
+          <Field
+            label="Phase margin"
+            unit="°"
+            value={draft.phaseMarginDeg}
+            onChange={(phaseMarginDeg) => edit({ phaseMarginDeg })}
+            error={checked.errors.phaseMarginDeg}
+            testId="loop-margin"
+          />
+          <Choice
+            label="Filter"
+            value={draft.order}
+            options={[
+              { value: '2', label: '2nd order (C1, R2, C2)' },
+              { value: '3', label: '3rd order (adds R3, C3)' },
+            ]}
+            onChange={(order) => edit({ order })}
+            testId="loop-order"
+          />
         </div>
         {analysis && 'error' in analysis ? <p className="error-line">Sweep analysis: {analysis.error}</p> : null}
         {point ? (
           <>
-            {point.message ? <p className="warnings" role="alert" data-testid="loop-lock-message">{point.message}</p> : null}
+            {point.message ? (
+              <p className="warnings" role="alert" data-testid="loop-lock-message">
+                {point.message}
+              </p>
+            ) : null}
             <dl className="figures">
-              <Figure label="Lock point N·f_ref" value={formatFigure(point.targetHz, 'Hz', { digits: 6 })} testId="loop-target" />
-              <Figure label="Control voltage there" value={point.lockV === null ? '—' : formatFigure(point.lockV, 'V', { uncertainty: point.lockUncertaintyV })} testId="loop-lock-v" />
+              <Figure
+                label="Lock point N·f_ref"
+                value={formatFigure(point.targetHz, 'Hz', { digits: 6 })}
+                testId="loop-target"
+              />
+              <Figure
+                label="Control voltage there"
+                value={
+                  point.lockV === null ? '—' : formatFigure(point.lockV, 'V', { uncertainty: point.lockUncertaintyV })
+                }
+                testId="loop-lock-v"
+              />
               {point.corners.map((c, i) => (
                 <Figure
                   key={c.label}
                   label={CORNER_LABELS[c.label]}
-                  value={Number.isFinite(c.kvcoHzPerV) ? formatFigure(c.kvcoHzPerV, 'Hz/V', { uncertainty: c.uncertaintyHzPerV }) : '—'}
+                  value={
+                    Number.isFinite(c.kvcoHzPerV)
+                      ? formatFigure(c.kvcoHzPerV, 'Hz/V', { uncertainty: c.uncertaintyHzPerV })
+                      : '—'
+                  }
                   note={c.reason ?? (Number.isFinite(c.v) ? `at ${formatFigure(c.v, 'V', { digits: 4 })}` : undefined)}
                   testId={`loop-kvco-${i}`}
                 />
@@ -128,7 +226,11 @@ export function LoopScreen() {
         ) : null}
       </Panel>
       <div className="results">
-        {design && 'error' in design ? <p className="error-line" role="alert">{design.error}</p> : null}
+        {design && 'error' in design ? (
+          <p className="error-line" role="alert">
+            {design.error}
+          </p>
+        ) : null}
         {!run ? <div className="placeholder">Run a sweep first; its measured Kvco sets the filter.</div> : null}
         {f && design && 'design' in design ? (
           <div className="sweep-figures">
@@ -140,9 +242,30 @@ export function LoopScreen() {
                     title="Open-loop gain"
                     buildKey={`${key}|mag`}
                     height={240}
-                    data={() => [Array.from(bode.freqs), ...bode.responses.map((r) => finiteOrNull(r.magnitudeDb))] as uPlot.AlignedData}
+                    data={() =>
+                      [
+                        Array.from(bode.freqs),
+                        ...bode.responses.map((r) => finiteOrNull(r.magnitudeDb)),
+                      ] as uPlot.AlignedData
+                    }
                     options={(colors, width, height) =>
-                      baseOptions(width, height, [xSeries('Hz', 'Frequency'), ...design.checks.map((c, i) => lineSeries(c.label, colors.series[i] ?? colors.text, '', { value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)} dB`) }))], [logSiAxis(colors, 'Offset frequency', 'Hz'), { ...siAxis(colors, 'Gain', ''), values: (_u, vals) => vals.map((v) => `${v} dB`) }], { scales: { x: { time: false, distr: 3 } } })
+                      baseOptions(
+                        width,
+                        height,
+                        [
+                          xSeries('Hz', 'Frequency'),
+                          ...design.checks.map((c, i) =>
+                            lineSeries(c.label, colors.series[i] ?? colors.text, '', {
+                              value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)} dB`),
+                            }),
+                          ),
+                        ],
+                        [
+                          logSiAxis(colors, 'Offset frequency', 'Hz'),
+                          { ...siAxis(colors, 'Gain', ''), values: (_u, vals) => vals.map((v) => `${v} dB`) },
+                        ],
+                        { scales: { x: { time: false, distr: 3 } } },
+                      )
                     }
                   />
                   <PlotPanel
@@ -150,9 +273,30 @@ export function LoopScreen() {
                     title="Open-loop phase"
                     buildKey={`${key}|phase`}
                     height={220}
-                    data={() => [Array.from(bode.freqs), ...bode.responses.map((r) => finiteOrNull(r.phaseDeg))] as uPlot.AlignedData}
+                    data={() =>
+                      [
+                        Array.from(bode.freqs),
+                        ...bode.responses.map((r) => finiteOrNull(r.phaseDeg)),
+                      ] as uPlot.AlignedData
+                    }
                     options={(colors, width, height) =>
-                      baseOptions(width, height, [xSeries('Hz', 'Frequency'), ...design.checks.map((c, i) => lineSeries(c.label, colors.series[i] ?? colors.text, '', { value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)}°`) }))], [logSiAxis(colors, 'Offset frequency', 'Hz'), { ...siAxis(colors, 'Phase', ''), values: (_u, vals) => vals.map((v) => `${v}°`) }], { scales: { x: { time: false, distr: 3 } } })
+                      baseOptions(
+                        width,
+                        height,
+                        [
+                          xSeries('Hz', 'Frequency'),
+                          ...design.checks.map((c, i) =>
+                            lineSeries(c.label, colors.series[i] ?? colors.text, '', {
+                              value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)}°`),
+                            }),
+                          ),
+                        ],
+                        [
+                          logSiAxis(colors, 'Offset frequency', 'Hz'),
+                          { ...siAxis(colors, 'Phase', ''), values: (_u, vals) => vals.map((v) => `${v}°`) },
+                        ],
+                        { scales: { x: { time: false, distr: 3 } } },
+                      )
                     }
                   />
                 </>
@@ -195,9 +339,16 @@ export function LoopScreen() {
                 </tbody>
               </table>
               {design.design.warnings.map((w) => (
-                <p key={w} className="warnings">{w}</p>
+                <p key={w} className="warnings">
+                  {w}
+                </p>
               ))}
-              <RoundedComponents filter={f} dividerN={checked.values?.dividerN ?? 1} chargePumpA={checked.values?.chargePumpA ?? 0} corners={design.checks} />
+              <RoundedComponents
+                filter={f}
+                dividerN={checked.values?.dividerN ?? 1}
+                chargePumpA={checked.values?.chargePumpA ?? 0}
+                corners={design.checks}
+              />
               <p className="muted small">{design.design.source}</p>
             </section>
           </div>

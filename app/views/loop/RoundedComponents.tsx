@@ -42,8 +42,20 @@ export function RoundedComponents(props: RoundedComponentsProps) {
     <div data-testid="loop-rounded">
       <h2>Rounded to preferred values</h2>
       <div className="row">
-        <Choice<ESeries> label="Resistors" value={rSeries} options={R_SERIES} onChange={setRSeries} testId="loop-r-series" />
-        <Choice<ESeries> label="Capacitors" value={cSeries} options={C_SERIES} onChange={setCSeries} testId="loop-c-series" />
+        <Choice<ESeries>
+          label="Resistors"
+          value={rSeries}
+          options={R_SERIES}
+          onChange={setRSeries}
+          testId="loop-r-series"
+        />
+        <Choice<ESeries>
+          label="Capacitors"
+          value={cSeries}
+          options={C_SERIES}
+          onChange={setCSeries}
+          testId="loop-c-series"
+        />
       </div>
       <p className="muted">
         {parts
@@ -61,7 +73,11 @@ export function RoundedComponents(props: RoundedComponentsProps) {
         </thead>
         <tbody>
           {props.corners.map((corner) => {
-            const check = evaluateLoop(rounded, { dividerN: props.dividerN, chargePumpA: props.chargePumpA, kvcoHzPerV: corner.kvcoHzPerV });
+            const check = evaluateLoop(rounded, {
+              dividerN: props.dividerN,
+              chargePumpA: props.chargePumpA,
+              kvcoHzPerV: corner.kvcoHzPerV,
+            });
             return (
               <tr key={corner.label}>
                 <td>{corner.label}</td>
@@ -69,7 +85,8 @@ export function RoundedComponents(props: RoundedComponentsProps) {
                   {hz(check.crossoverHz, 3)} <span className="muted">({hz(corner.crossoverHz, 3)} designed)</span>
                 </td>
                 <td>
-                  {check.phaseMarginDeg.toFixed(1)}° <span className="muted">({corner.phaseMarginDeg.toFixed(1)}°)</span>
+                  {check.phaseMarginDeg.toFixed(1)}°{' '}
+                  <span className="muted">({corner.phaseMarginDeg.toFixed(1)}°)</span>
                 </td>
               </tr>
             );

@@ -21,7 +21,14 @@ describe('E-series rounding of loop-filter parts', () => {
 
   it('a rounded 2nd-order filter keeps close to the designed crossover and margin, recomputed on the rounded parts', () => {
     // A 100 kHz loop on a 9.7 kHz/V oscillator: scenario of our own.
-    const spec = { referenceHz: 1e6, dividerN: 100, chargePumpA: 1e-3, kvcoHzPerV: 9.7e6, loopBandwidthHz: 20e3, phaseMarginDeg: 50 };
+    const spec = {
+      referenceHz: 1e6,
+      dividerN: 100,
+      chargePumpA: 1e-3,
+      kvcoHzPerV: 9.7e6,
+      loopBandwidthHz: 20e3,
+      phaseMarginDeg: 50,
+    };
     const designed = designLoopFilter(spec).filter;
     const params = { dividerN: 100, chargePumpA: 1e-3, kvcoHzPerV: 9.7e6 };
     const exact = evaluateLoop(designed, params);

@@ -11,7 +11,10 @@ export type ESeries = 'E6' | 'E12' | 'E24' | 'E96';
 const TABLES: Record<Exclude<ESeries, 'E96'>, readonly number[]> = {
   E6: [1.0, 1.5, 2.2, 3.3, 4.7, 6.8],
   E12: [1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2],
-  E24: [1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2, 9.1],
+  E24: [
+    1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2,
+    9.1,
+  ],
 };
 
 export function seriesMantissas(series: ESeries): readonly number[] {
@@ -21,7 +24,8 @@ export function seriesMantissas(series: ESeries): readonly number[] {
 
 /** The preferred value nearest to `value` on a log scale (the smallest ratio either way). */
 export function nearestPreferred(value: number, series: ESeries): number {
-  if (!(value > 0) || !Number.isFinite(value)) throw new RangeError(`a component value must be positive and finite, got ${value}`);
+  if (!(value > 0) || !Number.isFinite(value))
+    throw new RangeError(`a component value must be positive and finite, got ${value}`);
   const decade = Math.floor(Math.log10(value));
   let best = value;
   let bestRatio = Number.POSITIVE_INFINITY;

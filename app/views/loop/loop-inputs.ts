@@ -14,7 +14,14 @@ export interface LoopDraft {
 }
 
 // Our own example: a clock multiplier locking ~5 MHz to a 1.25 MHz reference.
-export const DEFAULT_LOOP: LoopDraft = { referenceHz: '1.25M', dividerN: '4', chargePumpA: '100u', loopBandwidthHz: '20k', phaseMarginDeg: '50', order: '2' };
+export const DEFAULT_LOOP: LoopDraft = {
+  referenceHz: '1.25M',
+  dividerN: '4',
+  chargePumpA: '100u',
+  loopBandwidthHz: '20k',
+  phaseMarginDeg: '50',
+  order: '2',
+};
 
 export interface LoopValues {
   referenceHz: number;
@@ -25,7 +32,10 @@ export interface LoopValues {
   order: 2 | 3;
 }
 
-export function checkLoopDraft(draft: LoopDraft): { values: LoopValues | null; errors: Partial<Record<keyof LoopDraft, string>> } {
+export function checkLoopDraft(draft: LoopDraft): {
+  values: LoopValues | null;
+  errors: Partial<Record<keyof LoopDraft, string>>;
+} {
   const errors: Partial<Record<keyof LoopDraft, string>> = {};
   const positive = (key: keyof LoopDraft, example: string): number => {
     const value = parseSiNumber(draft[key]);
@@ -43,5 +53,8 @@ export function checkLoopDraft(draft: LoopDraft): { values: LoopValues | null; e
   const phaseMarginDeg = positive('phaseMarginDeg', '50');
   if (Number.isFinite(phaseMarginDeg) && phaseMarginDeg >= 90) errors.phaseMarginDeg = 'must be below 90°';
   if (Object.keys(errors).length > 0) return { values: null, errors };
-  return { values: { referenceHz, dividerN, chargePumpA, loopBandwidthHz, phaseMarginDeg, order: draft.order === '3' ? 3 : 2 }, errors };
+  return {
+    values: { referenceHz, dividerN, chargePumpA, loopBandwidthHz, phaseMarginDeg, order: draft.order === '3' ? 3 : 2 },
+    errors,
+  };
 }

@@ -37,7 +37,11 @@ export function PushingFigures({ source }: { source: PushingSource }) {
               baseOptions(
                 width,
                 height,
-                [xSeries('V', 'Supply'), pointSeries('Mean frequency', colors.series[0], 'Hz'), lineSeries('Fitted line', colors.fit, 'Hz', { width: 2 })],
+                [
+                  xSeries('V', 'Supply'),
+                  pointSeries('Mean frequency', colors.series[0], 'Hz'),
+                  lineSeries('Fitted line', colors.fit, 'Hz', { width: 2 }),
+                ],
                 [siAxis(colors, 'DUT supply', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
               )
             }
@@ -48,9 +52,18 @@ export function PushingFigures({ source }: { source: PushingSource }) {
         <h2>Supply pushing</h2>
         {!outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
         <dl className="figures">
-          <Figure label="Pushing" value={a ? formatSiWithUncertainty(a.pushingHzPerV, a.pushingUncertaintyHzPerV, 'Hz/V') : '—'} testId="pushing-hz-per-v" />
+          <Figure
+            label="Pushing"
+            value={a ? formatSiWithUncertainty(a.pushingHzPerV, a.pushingUncertaintyHzPerV, 'Hz/V') : '—'}
+            testId="pushing-hz-per-v"
+          />
           <Figure label="Pushing, relative" value={plain(a?.pushingPpmPerV, 'ppm/V')} testId="pushing-ppm-per-v" />
-          <Figure label="Nominal supply" value={volts(a?.nominalSupplyV)} note={a ? `f there ${hz(a.frequencyAtNominalHz, 8)}` : undefined} testId="pushing-nominal" />
+          <Figure
+            label="Nominal supply"
+            value={volts(a?.nominalSupplyV)}
+            note={a ? `f there ${hz(a.frequencyAtNominalHz, 8)}` : undefined}
+            testId="pushing-nominal"
+          />
           <Figure label="Supply steps" value={a ? String(a.points.length) : '—'} testId="pushing-steps" />
         </dl>
       </section>

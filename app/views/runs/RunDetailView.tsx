@@ -11,7 +11,17 @@ import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
 
-function FactsTable({ caption, rows, empty, testId }: { caption: string; rows: [string, string][]; empty: string; testId: string }) {
+function FactsTable({
+  caption,
+  rows,
+  empty,
+  testId,
+}: {
+  caption: string;
+  rows: [string, string][];
+  empty: string;
+  testId: string;
+}) {
   return (
     <table className="table facts" data-testid={testId}>
       <caption>{caption}</caption>
@@ -58,7 +68,9 @@ export function RunDetailView({ id }: { id: string }) {
   const noteTexts = [
     ...new Set([
       ...meta.dut.notes.split('\n'),
-      ...opened.detail.events.filter((e) => e.type === 'note').map((e) => (typeof e.text === 'string' ? e.text : typeof e.note === 'string' ? e.note : '')),
+      ...opened.detail.events
+        .filter((e) => e.type === 'note')
+        .map((e) => (typeof e.text === 'string' ? e.text : typeof e.note === 'string' ? e.note : '')),
     ]),
   ].filter((text) => text.trim() !== '');
   return (
@@ -73,13 +85,23 @@ export function RunDetailView({ id }: { id: string }) {
     >
       <div className="row">
         <Field label="DUT id" value={name ?? meta.dut.id} onChange={setName} inputMode="text" testId="rename-input" />
-        <button type="button" disabled={name === null || name.trim() === '' || name === meta.dut.id} onClick={() => void rename(id, (name ?? '').trim()).then(() => setName(null))} data-testid="rename-run">
+        <button
+          type="button"
+          disabled={name === null || name.trim() === '' || name === meta.dut.id}
+          onClick={() => void rename(id, (name ?? '').trim()).then(() => setName(null))}
+          data-testid="rename-run"
+        >
           Rename
         </button>
       </div>
       <div className="row">
         <Field label="Add a note" value={note} onChange={setNote} inputMode="text" testId="note-input" />
-        <button type="button" disabled={note.trim() === ''} onClick={() => void addNote(id, note.trim()).then(() => setNote(''))} data-testid="add-note">
+        <button
+          type="button"
+          disabled={note.trim() === ''}
+          onClick={() => void addNote(id, note.trim()).then(() => setNote(''))}
+          data-testid="add-note"
+        >
           Add note
         </button>
       </div>
@@ -116,7 +138,12 @@ export function RunDetailView({ id }: { id: string }) {
                 )}
               </tbody>
             </table>
-            <FactsTable caption="Conditions" rows={conditionRows(meta)} empty="not recorded for this run" testId="run-conditions" />
+            <FactsTable
+              caption="Conditions"
+              rows={conditionRows(meta)}
+              empty="not recorded for this run"
+              testId="run-conditions"
+            />
           </div>
         </div>
       </details>

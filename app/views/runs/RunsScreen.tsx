@@ -35,10 +35,23 @@ function ImportCsv() {
     <div className="import-row">
       <Field label="DUT id for the import" value={dutId} onChange={setDutId} inputMode="text" testId="import-dut-id" />
       <div className="field">
-        <label htmlFor="import-csv-file">Import a CSV (control_v, frequency_hz — or time_s, frequency_hz, temperature_c)</label>
-        <input id="import-csv-file" ref={fileRef} type="file" accept=".csv,text/csv" data-testid="import-csv" onChange={(e) => void onFile(e.target.files?.[0])} />
+        <label htmlFor="import-csv-file">
+          Import a CSV (control_v, frequency_hz — or time_s, frequency_hz, temperature_c)
+        </label>
+        <input
+          id="import-csv-file"
+          ref={fileRef}
+          type="file"
+          accept=".csv,text/csv"
+          data-testid="import-csv"
+          onChange={(e) => void onFile(e.target.files?.[0])}
+        />
       </div>
-      {message ? <p className="muted" role="status">{message}</p> : null}
+      {message ? (
+        <p className="muted" role="status">
+          {message}
+        </p>
+      ) : null}
     </div>
   );
 }
@@ -79,7 +92,17 @@ function useArchiveKvco(runs: readonly RunMeta[]): ReadonlyMap<string, number> {
   return known;
 }
 
-function RunRow({ run, picked, focused, kvco }: { run: RunMeta; picked: boolean; focused: boolean; kvco: number | undefined }) {
+function RunRow({
+  run,
+  picked,
+  focused,
+  kvco,
+}: {
+  run: RunMeta;
+  picked: boolean;
+  focused: boolean;
+  kvco: number | undefined;
+}) {
   const { stores } = useApp();
   const togglePick = useStore(stores.runs, (s) => s.togglePick);
   const focus = useStore(stores.runs, (s) => s.focus);
@@ -87,7 +110,13 @@ function RunRow({ run, picked, focused, kvco }: { run: RunMeta; picked: boolean;
   return (
     <tr data-testid={`run-row-${run.id}`} className={focused ? 'focused' : undefined}>
       <td>
-        <input type="checkbox" checked={picked} onChange={() => togglePick(run.id)} aria-label={`Pick ${run.dut.id} (${run.kind})`} data-testid={`run-pick-${run.id}`} />
+        <input
+          type="checkbox"
+          checked={picked}
+          onChange={() => togglePick(run.id)}
+          aria-label={`Pick ${run.dut.id} (${run.kind})`}
+          data-testid={`run-pick-${run.id}`}
+        />
       </td>
       <td>{run.dut.id}</td>
       <td>{run.kind}</td>
@@ -102,7 +131,12 @@ function RunRow({ run, picked, focused, kvco }: { run: RunMeta; picked: boolean;
         <button type="button" onClick={() => void focus(run.id)} data-testid={`run-open-${run.id}`}>
           Open
         </button>
-        <button type="button" className="danger quiet" onClick={() => void remove(run.id)} data-testid={`run-delete-${run.id}`}>
+        <button
+          type="button"
+          className="danger quiet"
+          onClick={() => void remove(run.id)}
+          data-testid={`run-delete-${run.id}`}
+        >
           Delete
         </button>
       </td>
@@ -130,46 +164,72 @@ function Overlay({ ids }: { ids: string[] }) {
   const loaded = sweeps.map((id) => opened[id]).filter((r) => r !== undefined);
   const merged = overlayColumns(loaded.map((r) => ({ columns: r.columns, rows: r.rows })));
   const labels = loaded.map((r) => `${r.detail.meta.dut.id} · ${when(r.detail.meta.startedAt)}`);
-  const refIndex = Math.max(0, loaded.findIndex((r) => r.detail.meta.id === referenceId));
+  const refIndex = Math.max(
+    0,
+    loaded.findIndex((r) => r.detail.meta.id === referenceId),
+  );
   const means = loaded.map((r) => pointMeans(r.columns, r.rows));
   const others = means.map((m, i) => ({ m, i })).filter(({ i }) => i !== refIndex);
-  const diff = differenceColumns(means[refIndex] ?? { v: [], hz: [] }, others.map(({ m }) => m));
+  const diff = differenceColumns(
+    means[refIndex] ?? { v: [], hz: [] },
+    others.map(({ m }) => m),
+  );
   return (
     <>
-    <Choice
-      label="Reference run for the difference plot"
-      value={loaded[refIndex]?.detail.meta.id ?? ''}
-      options={loaded.map((r, i) => ({ value: r.detail.meta.id, label: labels[i] ?? r.detail.meta.id }))}
-      onChange={setReferenceId}
-      testId="overlay-reference"
-    />
-    <PlotPanel
-      testId="overlay-plot"
-      title="Picked sweeps, frequency against control voltage"
-      buildKey={`${sweeps.join(',')}|${theme}`}
-      height={320}
-      data={() => [merged.x, ...merged.ys] as uPlot.AlignedData}
-      options={(colors, width, height) =>
-        baseOptions(width, height, [xSeries('V', 'Control'), ...labels.map((label, i) => pointSeries(label, colors.series[i % colors.series.length] ?? colors.text, 'Hz', { points: { show: true, size: 5 } }))], [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })])
-      }
-      cursorUnits={{ x: 'V', y: 'Hz' }}
-    />
-    <PlotPanel
-      testId="difference-plot"
-      title={`Difference from ${labels[refIndex] ?? 'the reference'} (run − reference, reference interpolated between its setpoints)`}
-      buildKey={`${sweeps.join(',')}|${theme}|diff|${refIndex}`}
-      height={240}
-      data={() => [diff.x, ...diff.ys] as uPlot.AlignedData}
-      options={(colors, width, height) =>
-        baseOptions(
-          width,
-          height,
-          [xSeries('V', 'Control'), ...others.map(({ i }) => lineSeries(labels[i] ?? '', colors.series[i % colors.series.length] ?? colors.text, 'Hz', { points: { show: true, size: 5 }, spanGaps: true }))],
-          [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Difference', 'Hz', { size: 84 })],
-        )
-      }
-      cursorUnits={{ x: 'V', y: 'Hz' }}
-    />
+      <Choice
+        label="Reference run for the difference plot"
+        value={loaded[refIndex]?.detail.meta.id ?? ''}
+        options={loaded.map((r, i) => ({ value: r.detail.meta.id, label: labels[i] ?? r.detail.meta.id }))}
+        onChange={setReferenceId}
+        testId="overlay-reference"
+      />
+      <PlotPanel
+        testId="overlay-plot"
+        title="Picked sweeps, frequency against control voltage"
+        buildKey={`${sweeps.join(',')}|${theme}`}
+        height={320}
+        data={() => [merged.x, ...merged.ys] as uPlot.AlignedData}
+        options={(colors, width, height) =>
+          baseOptions(
+            width,
+            height,
+            [
+              xSeries('V', 'Control'),
+              ...labels.map((label, i) =>
+                pointSeries(label, colors.series[i % colors.series.length] ?? colors.text, 'Hz', {
+                  points: { show: true, size: 5 },
+                }),
+              ),
+            ],
+            [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
+          )
+        }
+        cursorUnits={{ x: 'V', y: 'Hz' }}
+      />
+      <PlotPanel
+        testId="difference-plot"
+        title={`Difference from ${labels[refIndex] ?? 'the reference'} (run − reference, reference interpolated between its setpoints)`}
+        buildKey={`${sweeps.join(',')}|${theme}|diff|${refIndex}`}
+        height={240}
+        data={() => [diff.x, ...diff.ys] as uPlot.AlignedData}
+        options={(colors, width, height) =>
+          baseOptions(
+            width,
+            height,
+            [
+              xSeries('V', 'Control'),
+              ...others.map(({ i }) =>
+                lineSeries(labels[i] ?? '', colors.series[i % colors.series.length] ?? colors.text, 'Hz', {
+                  points: { show: true, size: 5 },
+                  spanGaps: true,
+                }),
+              ),
+            ],
+            [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Difference', 'Hz', { size: 84 })],
+          )
+        }
+        cursorUnits={{ x: 'V', y: 'Hz' }}
+      />
     </>
   );
 }
@@ -189,7 +249,14 @@ export function RunsScreen() {
   const shown = archiveRows(runs, filter, sort, kvco);
   const sortHeader = (key: ArchiveSortKey, label: string) => (
     <th scope="col" aria-sort={sort.key === key ? (sort.descending ? 'descending' : 'ascending') : 'none'}>
-      <button type="button" className="sort-button" onClick={() => setSort({ key, descending: sort.key === key ? !sort.descending : key === 'started' || key === 'kvco' })} data-testid={`runs-sort-${key}`}>
+      <button
+        type="button"
+        className="sort-button"
+        onClick={() =>
+          setSort({ key, descending: sort.key === key ? !sort.descending : key === 'started' || key === 'kvco' })
+        }
+        data-testid={`runs-sort-${key}`}
+      >
         {label}
         {sort.key === key ? (sort.descending ? ' ▾' : ' ▴') : ''}
       </button>
@@ -220,7 +287,13 @@ export function RunsScreen() {
           </p>
         ) : null}
         <div className="row archive-filter" data-testid="runs-filter">
-          <Field label="DUT or note contains" value={filter.text} onChange={(text) => setFilter({ ...filter, text })} inputMode="text" testId="runs-filter-text" />
+          <Field
+            label="DUT or note contains"
+            value={filter.text}
+            onChange={(text) => setFilter({ ...filter, text })}
+            inputMode="text"
+            testId="runs-filter-text"
+          />
           <Choice
             label="Kind"
             value={filter.kind}
@@ -247,8 +320,20 @@ export function RunsScreen() {
             onChange={(status) => setFilter({ ...filter, status })}
             testId="runs-filter-status"
           />
-          <Field label="From (YYYY-MM-DD)" value={filter.from} onChange={(from) => setFilter({ ...filter, from })} inputMode="text" testId="runs-filter-from" />
-          <Field label="To (YYYY-MM-DD)" value={filter.to} onChange={(to) => setFilter({ ...filter, to })} inputMode="text" testId="runs-filter-to" />
+          <Field
+            label="From (YYYY-MM-DD)"
+            value={filter.from}
+            onChange={(from) => setFilter({ ...filter, from })}
+            inputMode="text"
+            testId="runs-filter-from"
+          />
+          <Field
+            label="To (YYYY-MM-DD)"
+            value={filter.to}
+            onChange={(to) => setFilter({ ...filter, to })}
+            inputMode="text"
+            testId="runs-filter-to"
+          />
         </div>
         <table className="table runs" data-testid="runs-list">
           <thead>
@@ -272,7 +357,15 @@ export function RunsScreen() {
                 </td>
               </tr>
             ) : (
-              shown.map((run) => <RunRow key={run.id} run={run} picked={picked.includes(run.id)} focused={run.id === focusId} kvco={kvco.get(run.id)} />)
+              shown.map((run) => (
+                <RunRow
+                  key={run.id}
+                  run={run}
+                  picked={picked.includes(run.id)}
+                  focused={run.id === focusId}
+                  kvco={kvco.get(run.id)}
+                />
+              ))
             )}
           </tbody>
         </table>

@@ -3,7 +3,18 @@ import type { RunMeta } from '../../contract/bench-api.ts';
 import { archiveRows, NO_FILTER } from './archive-view.ts';
 
 function run(id: string, dut: string, kind: RunMeta['kind'], status: RunMeta['status'], startedAt: string): RunMeta {
-  return { schema: 'tunebench.run/1', id, kind, status, startedAt, endedAt: null, dut: { id: dut, notes: '' }, instruments: [], plan: {}, software: { version: '0' } };
+  return {
+    schema: 'tunebench.run/1',
+    id,
+    kind,
+    status,
+    startedAt,
+    endedAt: null,
+    dut: { id: dut, notes: '' },
+    instruments: [],
+    plan: {},
+    software: { version: '0' },
+  };
 }
 
 const RUNS = [
@@ -19,14 +30,45 @@ const KVCO = new Map([
 
 describe('run archive sort and filter', () => {
   it('newest first by default; by DUT text, kind, status and date range', () => {
-    expect(archiveRows(RUNS, NO_FILTER, { key: 'started', descending: true }, KVCO).map((r) => r.id)).toEqual(['d', 'c', 'b', 'a']);
-    expect(archiveRows(RUNS, { ...NO_FILTER, text: 'CLKMUL' }, { key: 'started', descending: true }, KVCO).map((r) => r.id)).toEqual(['d', 'c', 'b']);
-    expect(archiveRows(RUNS, { ...NO_FILTER, kind: 'sweep', status: 'complete' }, { key: 'started', descending: false }, KVCO).map((r) => r.id)).toEqual(['a', 'd']);
-    expect(archiveRows(RUNS, { ...NO_FILTER, from: '2026-03-03', to: '2026-03-04' }, { key: 'started', descending: true }, KVCO).map((r) => r.id)).toEqual(['c', 'b']);
+    expect(archiveRows(RUNS, NO_FILTER, { key: 'started', descending: true }, KVCO).map((r) => r.id)).toEqual([
+      'd',
+      'c',
+      'b',
+      'a',
+    ]);
+    expect(
+      archiveRows(RUNS, { ...NO_FILTER, text: 'CLKMUL' }, { key: 'started', descending: true }, KVCO).map((r) => r.id),
+    ).toEqual(['d', 'c', 'b']);
+    expect(
+      archiveRows(
+        RUNS,
+        { ...NO_FILTER, kind: 'sweep', status: 'complete' },
+        { key: 'started', descending: false },
+        KVCO,
+      ).map((r) => r.id),
+    ).toEqual(['a', 'd']);
+    expect(
+      archiveRows(
+        RUNS,
+        { ...NO_FILTER, from: '2026-03-03', to: '2026-03-04' },
+        { key: 'started', descending: true },
+        KVCO,
+      ).map((r) => r.id),
+    ).toEqual(['c', 'b']);
   });
 
   it('by Kvco, runs without one last whichever the direction', () => {
-    expect(archiveRows(RUNS, NO_FILTER, { key: 'kvco', descending: true }, KVCO).map((r) => r.id)).toEqual(['a', 'd', 'c', 'b']);
-    expect(archiveRows(RUNS, NO_FILTER, { key: 'kvco', descending: false }, KVCO).map((r) => r.id)).toEqual(['d', 'a', 'c', 'b']);
+    expect(archiveRows(RUNS, NO_FILTER, { key: 'kvco', descending: true }, KVCO).map((r) => r.id)).toEqual([
+      'a',
+      'd',
+      'c',
+      'b',
+    ]);
+    expect(archiveRows(RUNS, NO_FILTER, { key: 'kvco', descending: false }, KVCO).map((r) => r.id)).toEqual([
+      'd',
+      'a',
+      'c',
+      'b',
+    ]);
   });
 });

@@ -24,7 +24,12 @@ export interface ArchiveSort {
 }
 
 /** Runs that pass the filter, in the chosen order; runs without a Kvco sort after those with one. */
-export function archiveRows(runs: readonly RunMeta[], filter: ArchiveFilter, sort: ArchiveSort, kvco: ReadonlyMap<string, number>): RunMeta[] {
+export function archiveRows(
+  runs: readonly RunMeta[],
+  filter: ArchiveFilter,
+  sort: ArchiveSort,
+  kvco: ReadonlyMap<string, number>,
+): RunMeta[] {
   const text = filter.text.trim().toLowerCase();
   const kept = runs.filter((run) => {
     if (filter.kind !== 'all' && run.kind !== filter.kind) return false;

@@ -24,10 +24,13 @@ export function pointMeans(columns: ColumnSet, rows: number): PointMeans {
     sums.set(v, entry);
   }
   const v = [...sums.keys()].sort((a, b) => a - b);
-  return { v, hz: v.map((key) => {
-    const e = sums.get(key) as { sum: number; n: number };
-    return e.sum / e.n;
-  }) };
+  return {
+    v,
+    hz: v.map((key) => {
+      const e = sums.get(key) as { sum: number; n: number };
+      return e.sum / e.n;
+    }),
+  };
 }
 
 /** Reference frequency at `v` by linear interpolation; null outside its range. */
@@ -49,7 +52,10 @@ export function interpolate(ref: PointMeans, v: number): number | null {
 }
 
 /** Run minus reference on one shared, ascending x column (null where a run has no point or the reference no value). */
-export function differenceColumns(reference: PointMeans, runs: readonly PointMeans[]): { x: number[]; ys: (number | null)[][] } {
+export function differenceColumns(
+  reference: PointMeans,
+  runs: readonly PointMeans[],
+): { x: number[]; ys: (number | null)[][] } {
   const x = [...new Set(runs.flatMap((r) => r.v))].sort((a, b) => a - b);
   const ys = runs.map((run) => {
     const at = new Map(run.v.map((v, i) => [v, run.hz[i] as number]));

@@ -5,7 +5,10 @@
  */
 import { STATUS_CODE, type ColumnSet } from '../../state/columns.ts';
 
-export function overlayColumns(runs: readonly { columns: ColumnSet; rows: number }[]): { x: number[]; ys: (number | null)[][] } {
+export function overlayColumns(runs: readonly { columns: ColumnSet; rows: number }[]): {
+  x: number[];
+  ys: (number | null)[][];
+} {
   const entries: { v: number; f: number; run: number }[] = [];
   runs.forEach((run, index) => {
     for (let i = 0; i < run.rows; i += 1) {

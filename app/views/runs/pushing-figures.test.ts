@@ -8,7 +8,14 @@ describe('pushing figures', () => {
     const set = createColumnSet();
     const rows = [];
     for (const supplyV of [4.5, 5, 5.5, 4.75, 5.25]) {
-      for (let r = 0; r < 3; r += 1) rows.push({ time_s: rows.length, supply_v: supplyV, control_v: 2, frequency_hz: 4e8 + 1500 * (supplyV - 5), status: 'ok' });
+      for (let r = 0; r < 3; r += 1)
+        rows.push({
+          time_s: rows.length,
+          supply_v: supplyV,
+          control_v: 2,
+          frequency_hz: 4e8 + 1500 * (supplyV - 5),
+          status: 'ok',
+        });
     }
     // A timeout says nothing (dropped); its bogus frequency must not move the mean.
     rows.push({ time_s: rows.length, supply_v: 5, control_v: 2, frequency_hz: 1, status: 'timeout' });

@@ -35,7 +35,11 @@ describe('run facts in words', () => {
     const text = runWindow({ startedAt: '2026-03-04T05:06:07.000Z', endedAt: '2026-03-04T05:21:07.000Z' });
     expect(text).toMatch(/→ .*\(15 min 00 s\)$/);
     expect(runWindow({ startedAt: '2026-03-04T05:06:07.000Z', endedAt: null })).toMatch(/still running$/);
-    expect(conditionRows({ conditions: { dutSupplyV: { start: 3.301, end: 3.299 }, temperatureC: { start: 23.5, end: null } } })).toEqual([
+    expect(
+      conditionRows({
+        conditions: { dutSupplyV: { start: 3.301, end: 3.299 }, temperatureC: { start: 23.5, end: null } },
+      }),
+    ).toEqual([
       ['DUT supply', '3.301 V at start, 3.299 V at end'],
       ['Temperature', '23.50 °C at start, — at end'],
     ]);

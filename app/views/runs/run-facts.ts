@@ -19,8 +19,15 @@ function unitOf(path: string): string {
 
 /** A setting as typed: no padding zeros ("500 mV", "4.5 V", "3"). */
 function settingText(value: number, unit: string): string {
-  if (!unit) return Number.isInteger(value) ? String(value) : formatNumber(value, 6).replace(/(\.\d*?)0+$/, '$1').replace(/\.$/, '');
-  return formatSi(value, unit, 6).replace(/(\.\d*?)0+ /, '$1 ').replace(/\. /, ' ');
+  if (!unit)
+    return Number.isInteger(value)
+      ? String(value)
+      : formatNumber(value, 6)
+          .replace(/(\.\d*?)0+$/, '$1')
+          .replace(/\.$/, '');
+  return formatSi(value, unit, 6)
+    .replace(/(\.\d*?)0+ /, '$1 ')
+    .replace(/\. /, ' ');
 }
 
 function valueText(path: string, value: unknown): string {
@@ -81,11 +88,24 @@ function planEntries(plan: unknown, prefix = ''): [string, string][] {
 export function runWindow(meta: Pick<RunMeta, 'startedAt' | 'endedAt'>): string {
   const start = new Date(meta.startedAt);
   if (Number.isNaN(start.getTime())) return meta.startedAt;
-  const startText = start.toLocaleString(undefined, { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
+  const startText = start.toLocaleString(undefined, {
+    day: 'numeric',
+    month: 'short',
+    year: 'numeric',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
+    hour12: false,
+  });
   if (!meta.endedAt) return `${startText} → still running`;
   const end = new Date(meta.endedAt);
   if (Number.isNaN(end.getTime())) return startText;
-  const endText = end.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
+  const endText = end.toLocaleTimeString(undefined, {
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
+    hour12: false,
+  });
   return `${startText} → ${endText} (${duration((end.getTime() - start.getTime()) / 1000)})`;
 }
 

@@ -17,7 +17,15 @@ import { buildSweepDisplay, liveStallEstimateV } from '../../plots/sweep-display
 import { Figure } from '../controls/Field.tsx';
 import { hz, hzPerV, percent, volts } from '../units.ts';
 import { sameSetpointValue } from './direction-readout.ts';
-import { fitOnX, gainColumns, residualColumns, stallRegions, sweepRegions, usableEndV, type SweepOutcome } from './sweep-figures.ts';
+import {
+  fitOnX,
+  gainColumns,
+  residualColumns,
+  stallRegions,
+  sweepRegions,
+  usableEndV,
+  type SweepOutcome,
+} from './sweep-figures.ts';
 
 export interface SweepSource {
   /** Identity of the data set (run id); a new id rebuilds the charts. */
@@ -51,28 +59,66 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
         </p>
       ) : null}
       <dl className="figures">
-        <Figure label="Tuning range" value={a ? `${hz(a.tuningRange.fMinHz)} – ${hz(a.tuningRange.fMaxHz)}` : '—'} note={a ? `${volts(a.tuningRange.vAtFMin, 3)} to ${volts(a.tuningRange.vAtFMax, 3)}` : undefined} testId="tuning-range" />
+        <Figure
+          label="Tuning range"
+          value={a ? `${hz(a.tuningRange.fMinHz)} – ${hz(a.tuningRange.fMaxHz)}` : '—'}
+          note={a ? `${volts(a.tuningRange.vAtFMin, 3)} to ${volts(a.tuningRange.vAtFMax, 3)}` : undefined}
+          testId="tuning-range"
+        />
         <Figure label="Kvco typ (best line)" value={hzPerV(a?.kvco.linear.slopeHzPerV)} testId="kvco-typ" />
-        <Figure label="Kvco min" value={hzPerV(a?.kvco.minHzPerV)} note={a ? `at ${volts(a.kvco.vAtMin, 3)}` : undefined} testId="kvco-min" />
-        <Figure label="Kvco max" value={hzPerV(a?.kvco.maxHzPerV)} note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined} testId="kvco-max" />
-        <Figure label="Linearity (worst deviation from line)" value={percent(a?.kvco.linear.maxLinearityErrorPct)} note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined} testId="linearity" />
+        <Figure
+          label="Kvco min"
+          value={hzPerV(a?.kvco.minHzPerV)}
+          note={a ? `at ${volts(a.kvco.vAtMin, 3)}` : undefined}
+          testId="kvco-min"
+        />
+        <Figure
+          label="Kvco max"
+          value={hzPerV(a?.kvco.maxHzPerV)}
+          note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined}
+          testId="kvco-max"
+        />
+        <Figure
+          label="Linearity (worst deviation from line)"
+          value={percent(a?.kvco.linear.maxLinearityErrorPct)}
+          note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined}
+          testId="linearity"
+        />
         <Figure
           label="Stall threshold"
-          value={a ? (a.stall.thresholdV === null ? 'none in range' : `${volts(a.stall.thresholdV)}${a.stall.thresholdUncertaintyV !== null ? ` ± ${volts(a.stall.thresholdUncertaintyV, 1)}` : ''}`) : '—'} note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined} testId="stall-threshold" />
+          value={
+            a
+              ? a.stall.thresholdV === null
+                ? 'none in range'
+                : `${volts(a.stall.thresholdV)}${a.stall.thresholdUncertaintyV !== null ? ` ± ${volts(a.stall.thresholdUncertaintyV, 1)}` : ''}`
+              : '—'
+          }
+          note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined}
+          testId="stall-threshold"
+        />
         {a?.hysteresis ? (
           <Figure
             label="Hysteresis (largest rising − falling)"
             value={hz(a.hysteresis.curveMaxDeltaHz, 3)}
             note={[
-              a.hysteresis.curveMaxDeltaAtV !== null ? `at ${volts(a.hysteresis.curveMaxDeltaAtV, 3)}, ${a.hysteresis.commonPoints} setpoints read both ways` : null,
-              a.hysteresis.thresholdDeltaV !== null ? `stall edge moves ${volts(a.hysteresis.thresholdDeltaV, 2)} ± ${volts(a.hysteresis.thresholdDeltaUncertaintyV, 1)}` : null,
+              a.hysteresis.curveMaxDeltaAtV !== null
+                ? `at ${volts(a.hysteresis.curveMaxDeltaAtV, 3)}, ${a.hysteresis.commonPoints} setpoints read both ways`
+                : null,
+              a.hysteresis.thresholdDeltaV !== null
+                ? `stall edge moves ${volts(a.hysteresis.thresholdDeltaV, 2)} ± ${volts(a.hysteresis.thresholdDeltaUncertaintyV, 1)}`
+                : null,
             ]
               .filter(Boolean)
               .join('; ')}
             testId="hysteresis"
           />
         ) : null}
-        <Figure label="Fit" value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'} note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined} testId="fit-model" />
+        <Figure
+          label="Fit"
+          value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'}
+          note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined}
+          testId="fit-model"
+        />
       </dl>
       {a && a.warnings.length > 0 ? (
         <ul className="warnings" data-testid="analysis-warnings">
@@ -97,7 +143,8 @@ function SweepMarksKey({ end }: { end: number | null }) {
       </span>
       {end !== null ? (
         <span className="mark-key" data-testid="key-unusable">
-          <span className="swatch swatch-unusable" aria-hidden="true" /> outside the usable range (above {volts(end, 4)})
+          <span className="swatch swatch-unusable" aria-hidden="true" /> outside the usable range (above {volts(end, 4)}
+          )
         </span>
       ) : null}
       <span className="mark-key">× reading with no oscillation</span>
@@ -108,7 +155,9 @@ function SweepMarksKey({ end }: { end: number | null }) {
 
 export function SweepFigures({ source }: { source: SweepSource }) {
   // Off the page's thread; the live plot stays drawn meanwhile.
-  const { outcome, running } = useBackgroundAnalysis<SweepAnalysis>(source.done ? source.key : null, () => sweepJob(source.columns(), source.rows(), source.gateS));
+  const { outcome, running } = useBackgroundAnalysis<SweepAnalysis>(source.done ? source.key : null, () =>
+    sweepJob(source.columns(), source.rows(), source.gateS),
+  );
   const analysis = outcome?.ok ? outcome.analysis : null;
   const regionsRef = useRef<readonly XRegion[]>([]);
   const deadRef = useRef<readonly number[]>([]);
@@ -152,16 +201,26 @@ export function SweepFigures({ source }: { source: SweepSource }) {
                 xSeries('V', 'Control'),
                 // Rising as filled dots, falling as wider rings around them: where both agree, both stay visible.
                 pointSeries('Rising', colors.series[0], 'Hz', {
-                  value: (_u, v, _s, k) => hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)), 6),
+                  value: (_u, v, _s, k) =>
+                    hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)), 6),
                 }),
                 pointSeries('Falling', colors.series[1], 'Hz', {
                   points: { show: true, size: 11, width: 1.5, stroke: colors.series[1], fill: 'transparent' },
-                  value: (_u, v, _s, k) => hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)), 6),
+                  value: (_u, v, _s, k) =>
+                    hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)), 6),
                 }),
                 lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 }),
               ],
               [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
-              { plugins: [regionsPlugin(() => regionsRef.current), deadMarksPlugin(() => deadRef.current, () => colors.text)] },
+              {
+                plugins: [
+                  regionsPlugin(() => regionsRef.current),
+                  deadMarksPlugin(
+                    () => deadRef.current,
+                    () => colors.text,
+                  ),
+                ],
+              },
             )
           }
           footer={<SweepMarksKey end={analysis ? usableEndV(analysis) : null} />}
@@ -177,7 +236,11 @@ export function SweepFigures({ source }: { source: SweepSource }) {
               baseOptions(
                 width,
                 height,
-                [xSeries('V', 'Control'), lineSeries('Kvco', colors.series[0], 'Hz/V', { points: { show: true, size: 4 } }), pointSeries('Kvco, unsteady region', colors.series[1], 'Hz/V')],
+                [
+                  xSeries('V', 'Control'),
+                  lineSeries('Kvco', colors.series[0], 'Hz/V', { points: { show: true, size: 4 } }),
+                  pointSeries('Kvco, unsteady region', colors.series[1], 'Hz/V'),
+                ],
                 [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Kvco', 'Hz/V', { size: 84 })],
               )
             }
@@ -191,7 +254,12 @@ export function SweepFigures({ source }: { source: SweepSource }) {
             height={180}
             data={() => [residuals.v, residuals.residualHz] as uPlot.AlignedData}
             options={(colors, width, height) =>
-              baseOptions(width, height, [xSeries('V', 'Control'), pointSeries('Residual', colors.series[2], 'Hz')], [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Residual', 'Hz', { size: 84 })])
+              baseOptions(
+                width,
+                height,
+                [xSeries('V', 'Control'), pointSeries('Residual', colors.series[2], 'Hz')],
+                [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Residual', 'Hz', { size: 84 })],
+              )
             }
           />
         ) : null}

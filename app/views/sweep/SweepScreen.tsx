@@ -19,13 +19,28 @@ function PlanEditor() {
   const checked = checkSweepDraft(draft, limits);
   const errors = checked.errors;
   const text = (key: keyof SweepDraft, label: string, unit: string, testId: string, hint?: string) => (
-    <Field label={label} unit={unit} value={String(draft[key])} onChange={(value) => edit({ [key]: value })} error={errors[key]} hint={hint} testId={testId} />
+    <Field
+      label={label}
+      unit={unit}
+      value={String(draft[key])}
+      onChange={(value) => edit({ [key]: value })}
+      error={errors[key]}
+      hint={hint}
+      testId={testId}
+    />
   );
   const dutError = dutId.trim() === '' ? 'give the device a name, e.g. clkmul-vco-01' : undefined;
   const start = checked.ok && !dutError ? () => bridge.api.startSweep(checked.plan, dutId.trim()) : null;
   return (
     <Panel title="Sweep plan" className="plan" testId="sweep-plan">
-      <Field label="Device under test" value={dutId} onChange={setDutId} error={dutError} inputMode="text" testId="dut-id" />
+      <Field
+        label="Device under test"
+        value={dutId}
+        onChange={setDutId}
+        error={dutError}
+        inputMode="text"
+        testId="dut-id"
+      />
       <div className="row">
         {text('start', 'From', 'V', 'plan-start')}
         {text('stop', 'To', 'V', 'plan-stop')}
@@ -71,11 +86,14 @@ function PlanEditor() {
       </div>
       {errors['limits.maxControlV'] || errors['limits.currentLimitA'] ? (
         <p className="error-line" role="alert">
-          The safety limits on the Bench screen need fixing: {errors['limits.maxControlV'] ?? errors['limits.currentLimitA']}
+          The safety limits on the Bench screen need fixing:{' '}
+          {errors['limits.maxControlV'] ?? errors['limits.currentLimitA']}
         </p>
       ) : null}
       <p className="muted" data-testid="plan-summary">
-        {checked.ok ? `${sweepPointCount(checked.plan)} points per pass · limit ${volts(checked.plan.limits.maxControlV)}, ${si(checked.plan.limits.currentLimitA, 'A', 3)}` : 'Fix the marked fields to start.'}
+        {checked.ok
+          ? `${sweepPointCount(checked.plan)} points per pass · limit ${volts(checked.plan.limits.maxControlV)}, ${si(checked.plan.limits.currentLimitA, 'A', 3)}`
+          : 'Fix the marked fields to start.'}
       </p>
       <SafetyNotes />
       <RunControls kind="sweep" startLabel="Start sweep" startTestId="start-sweep" start={start} />
@@ -94,7 +112,9 @@ export function SweepScreen() {
         ) : (
           <div className="placeholder" data-testid="sweep-placeholder">
             <h2>No sweep yet</h2>
-            <p>Start a sweep and the frequency plot fills in as readings arrive; the gain analysis follows when it ends.</p>
+            <p>
+              Start a sweep and the frequency plot fills in as readings arrive; the gain analysis follows when it ends.
+            </p>
           </div>
         )}
       </div>

@@ -12,7 +12,12 @@ import type { XRegion } from '../../plots/regions-plugin.ts';
 
 export type SweepOutcome = AnalysisOutcome<SweepAnalysis>;
 
-export function analyzeColumns(columns: ColumnSet, n: number, gateS: number | undefined, options?: SweepOptions): SweepOutcome {
+export function analyzeColumns(
+  columns: ColumnSet,
+  n: number,
+  gateS: number | undefined,
+  options?: SweepOptions,
+): SweepOutcome {
   if (n === 0) return { ok: false, message: 'no readings' };
   return outcomeOf(() => analyzeSweep(sweepInputFromColumns(columns, n, gateS), options));
 }
@@ -27,7 +32,13 @@ export function evalFit(coefficients: readonly number[], v: number): number {
 /** The fitted curve on the display x column; null outside the fitted range. A spline comes as samples (fit.curve). */
 export function fitOnX(analysis: SweepAnalysis, x: readonly number[]): (number | null)[] {
   const { coefficients, fromV, toV, curve } = analysis.fit;
-  return x.map((v) => (v >= fromV - 1e-12 && v <= toV + 1e-12 ? (coefficients.length ? evalFit(coefficients, v) : onCurve(curve, v)) : null));
+  return x.map((v) =>
+    v >= fromV - 1e-12 && v <= toV + 1e-12
+      ? coefficients.length
+        ? evalFit(coefficients, v)
+        : onCurve(curve, v)
+      : null,
+  );
 }
 
 /** Linear interpolation in the fitted curve's samples (display only). */
@@ -43,17 +54,33 @@ function onCurve(curve: SweepAnalysis['fit']['curve'], v: number): number {
 export function stallRegions(thresholdV: number | null, unstableBelowV: number | null): XRegion[] {
   const regions: XRegion[] = [];
   if (thresholdV !== null) {
-    regions.push({ key: 'stall', fromX: Number.NEGATIVE_INFINITY, toX: thresholdV, className: 'region-stall', title: `No oscillation below ${thresholdV.toFixed(3)} V`, testId: 'stall-region' });
+    regions.push({
+      key: 'stall',
+      fromX: Number.NEGATIVE_INFINITY,
+      toX: thresholdV,
+      className: 'region-stall',
+      title: `No oscillation below ${thresholdV.toFixed(3)} V`,
+      testId: 'stall-region',
+    });
   }
   if (thresholdV !== null && unstableBelowV !== null && unstableBelowV > thresholdV) {
-    regions.push({ key: 'unstable', fromX: thresholdV, toX: unstableBelowV, className: 'region-unstable', title: `Unsteady oscillation up to ${unstableBelowV.toFixed(3)} V`, testId: 'unstable-region' });
+    regions.push({
+      key: 'unstable',
+      fromX: thresholdV,
+      toX: unstableBelowV,
+      className: 'region-unstable',
+      title: `Unsteady oscillation up to ${unstableBelowV.toFixed(3)} V`,
+      testId: 'unstable-region',
+    });
   }
   return regions;
 }
 
 /** Where the usable tuning range ends: the curve turns back or goes flat above this voltage; null if it does neither. */
 export function usableEndV(analysis: SweepAnalysis): number | null {
-  const ends = [analysis.kvco.turnsBackAboveV, analysis.kvco.flatAboveV].filter((v): v is number => v !== null && Number.isFinite(v));
+  const ends = [analysis.kvco.turnsBackAboveV, analysis.kvco.flatAboveV].filter(
+    (v): v is number => v !== null && Number.isFinite(v),
+  );
   return ends.length > 0 ? Math.min(...ends) : null;
 }
 
@@ -63,7 +90,14 @@ export function sweepRegions(analysis: SweepAnalysis): XRegion[] {
   const end = usableEndV(analysis);
   if (end !== null) {
     const why = analysis.kvco.turnsBackAboveV === end ? 'the tuning curve turns back' : 'the tuning curve goes flat';
-    regions.push({ key: 'unusable', fromX: end, toX: Number.POSITIVE_INFINITY, className: 'region-unusable', title: `Outside the usable range above ${end.toFixed(3)} V: ${why}`, testId: 'unusable-region' });
+    regions.push({
+      key: 'unusable',
+      fromX: end,
+      toX: Number.POSITIVE_INFINITY,
+      className: 'region-unusable',
+      title: `Outside the usable range above ${end.toFixed(3)} V: ${why}`,
+      testId: 'unusable-region',
+    });
   }
   return regions;
 }

@@ -34,10 +34,14 @@ export class FakeClock implements Clock {
   sleep(seconds: number, signal?: AbortSignal): Promise<void> {
     return new Promise((resolve, reject) => {
       const cancel = this.setTimer(seconds, resolve);
-      signal?.addEventListener('abort', () => {
-        cancel();
-        reject(Object.assign(new Error('aborted'), { name: 'AbortError' }));
-      }, { once: true });
+      signal?.addEventListener(
+        'abort',
+        () => {
+          cancel();
+          reject(Object.assign(new Error('aborted'), { name: 'AbortError' }));
+        },
+        { once: true },
+      );
     });
   }
 

@@ -37,14 +37,27 @@ export class ScpiResponder {
 
   private command(header: string, arg: string, act: ResponderActions): void {
     switch (header) {
-      case '*IDN?': return act.reply(RESPONDER_IDN);
-      case '*OPC?': return act.reply('1');
-      case '*ESE': this.ese = Number(arg); return;
-      case '*ESE?': return act.reply(String(this.ese));
-      case '*RST': this.volts.clear(); this.outputs.clear(); return;
-      case '*CLS': this.errors.length = 0; return;
-      case 'SYST:ERR?': return act.reply(this.errors.shift() ?? '+0,"No error"');
-      case 'INST:NSEL': this.channel = Number(arg); return;
+      case '*IDN?':
+        return act.reply(RESPONDER_IDN);
+      case '*OPC?':
+        return act.reply('1');
+      case '*ESE':
+        this.ese = Number(arg);
+        return;
+      case '*ESE?':
+        return act.reply(String(this.ese));
+      case '*RST':
+        this.volts.clear();
+        this.outputs.clear();
+        return;
+      case '*CLS':
+        this.errors.length = 0;
+        return;
+      case 'SYST:ERR?':
+        return act.reply(this.errors.shift() ?? '+0,"No error"');
+      case 'INST:NSEL':
+        this.channel = Number(arg);
+        return;
       case 'SOUR:VOLT':
       case 'VOLT': {
         const v = Number(arg);
@@ -52,15 +65,24 @@ export class ScpiResponder {
         else this.volts.set(this.channel, v);
         return;
       }
-      case 'SOUR:VOLT?': return act.reply((this.volts.get(this.channel) ?? 0).toExponential(6).toUpperCase());
-      case 'OUTP': this.outputs.set(this.channel, arg.toUpperCase() === 'ON' || arg === '1'); return;
-      case 'OUTP?': return act.reply(this.outputs.get(this.channel) === true ? '1' : '0');
-      case 'MEAS:VOLT?': return act.reply(`+${(this.volts.get(this.channel) ?? 1.2345).toExponential(6).toUpperCase()}`);
+      case 'SOUR:VOLT?':
+        return act.reply((this.volts.get(this.channel) ?? 0).toExponential(6).toUpperCase());
+      case 'OUTP':
+        this.outputs.set(this.channel, arg.toUpperCase() === 'ON' || arg === '1');
+        return;
+      case 'OUTP?':
+        return act.reply(this.outputs.get(this.channel) === true ? '1' : '0');
+      case 'MEAS:VOLT?':
+        return act.reply(`+${(this.volts.get(this.channel) ?? 1.2345).toExponential(6).toUpperCase()}`);
       case 'READ?':
-      case 'MEAS:FREQ?': return act.reply('+1.00000123E+07');
-      case 'TEST:DELAY?': return act.reply('+4.2E+00', Number(arg));
-      case 'TEST:DROP': return act.hangUp();
-      default: this.errors.push('-113,"Undefined header"');
+      case 'MEAS:FREQ?':
+        return act.reply('+1.00000123E+07');
+      case 'TEST:DELAY?':
+        return act.reply('+4.2E+00', Number(arg));
+      case 'TEST:DROP':
+        return act.hangUp();
+      default:
+        this.errors.push('-113,"Undefined header"');
     }
   }
 }
@@ -100,9 +122,11 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
           return;
         }
         holdUntilMs = dueMs;
-        chain = chain.then(() => new Promise<void>((resolve) => setTimeout(resolve, Math.max(0, dueMs - performance.now())))).then(() => {
-          if (socket.writable) socket.write(`${text}\n`);
-        });
+        chain = chain
+          .then(() => new Promise<void>((resolve) => setTimeout(resolve, Math.max(0, dueMs - performance.now()))))
+          .then(() => {
+            if (socket.writable) socket.write(`${text}\n`);
+          });
       },
       hangUp: () => socket.destroy(),
     };
@@ -131,10 +155,11 @@ export function startTcpResponder(port = 0): Promise<TcpResponderServer> {
         dropClients: () => {
           for (const socket of sockets) socket.destroy();
         },
-        close: () => new Promise<void>((done) => {
-          for (const socket of sockets) socket.destroy();
-          server.close(() => done());
-        }),
+        close: () =>
+          new Promise<void>((done) => {
+            for (const socket of sockets) socket.destroy();
+            server.close(() => done());
+          }),
       });
     });
   });

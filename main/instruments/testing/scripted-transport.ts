@@ -19,7 +19,10 @@ export class ScriptedTransport implements Transport {
   private readonly listeners = { data: new Set<TransportEvents['data']>(), close: new Set<TransportEvents['close']>() };
   private partial = '';
 
-  constructor(public responder: Responder = () => undefined, address = 'scripted://test') {
+  constructor(
+    public responder: Responder = () => undefined,
+    address = 'scripted://test',
+  ) {
     this.address = address;
   }
 

@@ -30,7 +30,12 @@ export const campaignEntrySchema = z.looseObject({
   /** Runs started for this condition and abandoned (interrupted, failed), oldest first. */
   earlierRunIds: z.array(z.string()).default([]),
   soak: z
-    .looseObject({ result: z.enum(['soaked', 'timeout']), waitedS: z.number(), dutC: nullableNumber, airC: nullableNumber })
+    .looseObject({
+      result: z.enum(['soaked', 'timeout']),
+      waitedS: z.number(),
+      dutC: nullableNumber,
+      airC: nullableNumber,
+    })
     .nullable()
     .default(null),
   /** DUT temperature at the start and end of the sweep (the run's own conditions). */
@@ -77,7 +82,9 @@ export async function readCampaignFile(dir: string): Promise<CampaignFile> {
   const parsed = campaignFileSchema.safeParse(json);
   if (!parsed.success) {
     const first = parsed.error.issues[0];
-    throw new CampaignFileError(`${path}: ${first ? `${first.path.join('.') || '(root)'}: ${first.message}` : 'invalid'}`);
+    throw new CampaignFileError(
+      `${path}: ${first ? `${first.path.join('.') || '(root)'}: ${first.message}` : 'invalid'}`,
+    );
   }
   return parsed.data;
 }

@@ -5,7 +5,15 @@
  */
 import { appendFile, mkdir, writeFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
-import { makeLock, readLock, registerOpenWriter, removeLock, unregisterOpenWriter, writeLock, writerAlive } from '../../store/writer-lock.ts';
+import {
+  makeLock,
+  readLock,
+  registerOpenWriter,
+  removeLock,
+  unregisterOpenWriter,
+  writeLock,
+  writerAlive,
+} from '../../store/writer-lock.ts';
 import { nodeStoreFs } from '../../store/store-fs.ts';
 import { dutSlug } from '../../store/run-id.ts';
 
@@ -14,7 +22,11 @@ export const CAMPAIGN_EVENTS_FILE = 'campaign-events.jsonl';
 export const SOAK_LOG_FILE = 'soak-log.csv';
 export const SOAK_LOG_HEADER = 'index,time_s,setpoint_c,air_c,dut_c,frequency_hz';
 
-export async function createCampaignFolder(runsDir: string, wallIso: string, label: string): Promise<{ id: string; dir: string }> {
+export async function createCampaignFolder(
+  runsDir: string,
+  wallIso: string,
+  label: string,
+): Promise<{ id: string; dir: string }> {
   const stamp = wallIso.slice(0, 19).replace(/[-:]/g, '').replace('T', '-');
   const base = `${stamp}-campaign-${dutSlug(label)}`;
   await mkdir(runsDir, { recursive: true });
@@ -57,11 +69,16 @@ export function appendSoakRow(dir: string, row: readonly (number | null)[]): Pro
  * is still running. Refuses when a live writer holds it. Returns the
  * heartbeat (call on each save) and the release.
  */
-export async function claimCampaignFolder(dir: string, startedAtIso: string): Promise<{ beat: () => Promise<void>; release: () => Promise<void> }> {
+export async function claimCampaignFolder(
+  dir: string,
+  startedAtIso: string,
+): Promise<{ beat: () => Promise<void>; release: () => Promise<void> }> {
   const abs = resolve(dir);
   const held = await readLock(nodeStoreFs, abs);
   if (writerAlive(held, abs)) {
-    throw new CampaignBusyError(`${dir}: the campaign is still running (pid ${held?.pid ?? '?'} on ${held?.host ?? '?'}); stop it before resuming`);
+    throw new CampaignBusyError(
+      `${dir}: the campaign is still running (pid ${held?.pid ?? '?'} on ${held?.host ?? '?'}); stop it before resuming`,
+    );
   }
   const write = (): Promise<void> => writeLock(nodeStoreFs, abs, makeLock(startedAtIso, Date.now()));
   await write();

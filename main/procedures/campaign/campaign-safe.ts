@@ -25,21 +25,41 @@ export async function campaignSafeState(
   const control = await goSafe(bench, bench.controlChannel, plan.sweep.safe, record);
   const failures = [...control.failures];
   const dutCh = bench.dutSupplyChannel;
-  await tryStep(bench, `dut-supply-off channel ${dutCh}`, async () => {
-    await bench.supply.setOutput(dutCh, false);
-    if (await bench.supply.getOutput(dutCh)) throw new Error(`channel ${dutCh} still reads ON after OFF was sent`);
-  }, record, failures);
+  await tryStep(
+    bench,
+    `dut-supply-off channel ${dutCh}`,
+    async () => {
+      await bench.supply.setOutput(dutCh, false);
+      if (await bench.supply.getOutput(dutCh)) throw new Error(`channel ${dutCh} still reads ON after OFF was sent`);
+    },
+    record,
+    failures,
+  );
   const chamber = bench.chamber;
   if (chamber) {
     // The limits are the plan's, already checked; set here too in case the campaign failed before it set them.
     chamber.setLimits(plan.chamber);
     if (chamber.endAction === 'stop') {
-      await tryStep(bench, 'chamber-stop', async () => {
-        await chamber.setRunning(false);
-        if (await chamber.getRunning()) throw new Error('chamber still reads running after stop was sent');
-      }, record, failures, 'chamber');
+      await tryStep(
+        bench,
+        'chamber-stop',
+        async () => {
+          await chamber.setRunning(false);
+          if (await chamber.getRunning()) throw new Error('chamber still reads running after stop was sent');
+        },
+        record,
+        failures,
+        'chamber',
+      );
     } else {
-      await tryStep(bench, `chamber-setpoint ${plan.safeC} °C`, () => chamber.setSetpoint(plan.safeC), record, failures, 'chamber');
+      await tryStep(
+        bench,
+        `chamber-setpoint ${plan.safeC} °C`,
+        () => chamber.setSetpoint(plan.safeC),
+        record,
+        failures,
+        'chamber',
+      );
     }
   }
   return { ok: failures.length === 0, failures };

@@ -21,17 +21,35 @@ afterAll(async () => {
   for (const dir of dirs) await rm(dir, { recursive: true, force: true });
 });
 
-async function campaignWith(sim: Omit<SimBenchOptions, 'clock' | 'dut'>, hooks: (control: RunControl, bench: AssembledBench) => CampaignHooks = () => ({}), reconnect?: { attempts: number; delayS: number }) {
+async function campaignWith(
+  sim: Omit<SimBenchOptions, 'clock' | 'dut'>,
+  hooks: (control: RunControl, bench: AssembledBench) => CampaignHooks = () => ({}),
+  reconnect?: { attempts: number; delayS: number },
+) {
   const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-campaignsafe-'));
   dirs.push(runsDir);
   const clock = new VirtualClock({ autoAdvance: true, startWallIso: '2026-05-01T18:00:00.000Z' });
-  const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { ...sim, dut: campaignDut() }, reconnect });
+  const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, {
+    clock,
+    sim: { ...sim, dut: campaignDut() },
+    reconnect,
+  });
   const control = new RunControl();
   try {
     // Start warm, so the chamber's safe setpoint (25 °C) differs from where it stands when the run ends.
-    const outcome = await startCampaign({ bench, clock, control, plan: campaignPlanInput({ temperaturesC: [60, -10] }), runsDir, ...hooks(control, bench) });
+    const outcome = await startCampaign({
+      bench,
+      clock,
+      control,
+      plan: campaignPlanInput({ temperaturesC: [60, -10] }),
+      runsDir,
+      ...hooks(control, bench),
+    });
     const snap = bench.sim?.snapshot();
-    const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as Record<string, unknown>);
+    const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8'))
+      .split('\n')
+      .filter(Boolean)
+      .map((l) => JSON.parse(l) as Record<string, unknown>);
     return { outcome, snap, events };
   } finally {
     await bench.close();
@@ -44,7 +62,9 @@ function expectSafe(result: Awaited<ReturnType<typeof campaignWith>>): void {
   expect(result.snap?.supply[1].outputOn, 'DUT supply').toBe(false);
   expect(result.snap?.chamber.setpointC, 'chamber setpoint').toBe(25);
   const steps = result.events.filter((e) => e.type === 'safe-state');
-  expect(steps.map((e) => e.step)).toEqual(expect.arrayContaining(['output-off', 'dut-supply-off channel 2', 'chamber-setpoint 25 °C']));
+  expect(steps.map((e) => e.step)).toEqual(
+    expect.arrayContaining(['output-off', 'dut-supply-off channel 2', 'chamber-setpoint 25 °C']),
+  );
 }
 
 describe('campaign safe state', () => {
@@ -66,21 +86,36 @@ describe('campaign safe state', () => {
   it('on an instrument error (the chamber reports a SCPI error during the first soak)', async () => {
     // Counted by readings (air temperature queries), not time: the 30th falls inside the first soak;
     // the chamber's next write (the second temperature's setpoint) reports it.
-    const result = await campaignWith({ seed: 3, faults: [{ type: 'error', device: 'chamber', atReading: 30, code: -222, message: 'Data out of range' }] });
+    const result = await campaignWith({
+      seed: 3,
+      faults: [{ type: 'error', device: 'chamber', atReading: 30, code: -222, message: 'Data out of range' }],
+    });
     expect(result.outcome.file.status).toBe('failed');
     expect(result.outcome.failure).toMatch(/-222, "Data out of range" after TEMP:SETP/);
-    expect(result.outcome.file.conditions.map((c) => c.state)).toEqual(['done', 'done', 'done', 'failed', 'waiting', 'waiting']);
+    expect(result.outcome.file.conditions.map((c) => c.state)).toEqual([
+      'done',
+      'done',
+      'done',
+      'failed',
+      'waiting',
+      'waiting',
+    ]);
     expectSafe(result);
   });
 
   it('on a lost link (the chamber drops during a soak and is not reopened by the session)', async () => {
-    const result = await campaignWith({ seed: 4, faults: [{ type: 'drop', device: 'chamber', atS: 600 }] }, undefined, { attempts: 0, delayS: 0.1 });
+    const result = await campaignWith({ seed: 4, faults: [{ type: 'drop', device: 'chamber', atS: 600 }] }, undefined, {
+      attempts: 0,
+      delayS: 0.1,
+    });
     expect(result.outcome.file.status).toBe('failed');
     expect(result.outcome.failure ?? '').toMatch(/disconnect|closed|link|drop/i);
     expect(result.outcome.file.conditions[0]?.state).toBe('failed');
     expectSafe(result);
     // The safe state reopened the chamber's link once to reach it.
-    expect(result.events.some((e) => e.type === 'safe-state' && e.step === 'chamber-setpoint 25 °C' && e.ok === true)).toBe(true);
+    expect(
+      result.events.some((e) => e.type === 'safe-state' && e.step === 'chamber-setpoint 25 °C' && e.ok === true),
+    ).toBe(true);
   });
 });
 
@@ -95,9 +130,19 @@ describe('a campaign folder in use', () => {
       onSoakSample: () => {
         if (refusal !== null || dir === '') return;
         refusal = 'pending';
-        void resumeCampaign({ bench, clock: new VirtualClock(), control: new RunControl(), dir: join(dirs[dirs.length - 1] as string, dir) }).then(
-          () => { refusal = 'resumed'; },
-          (error: unknown) => { refusal = error; control.stop('stop'); },
+        void resumeCampaign({
+          bench,
+          clock: new VirtualClock(),
+          control: new RunControl(),
+          dir: join(dirs[dirs.length - 1] as string, dir),
+        }).then(
+          () => {
+            refusal = 'resumed';
+          },
+          (error: unknown) => {
+            refusal = error;
+            control.stop('stop');
+          },
         );
       },
     }));
@@ -121,9 +166,19 @@ describe('a stop during a sweep, then resume', () => {
       let samplesAtSecond = 0;
       let sweepingSecond = false;
       const stopped = await startCampaign({
-        bench, clock, control, plan, runsDir,
-        sweep: { onSample: () => { if (sweepingSecond && ++samplesAtSecond === 20) control.stop('stop'); } },
-        onState: (entry) => { if (entry.index === 1 && entry.state === 'sweeping') sweepingSecond = true; },
+        bench,
+        clock,
+        control,
+        plan,
+        runsDir,
+        sweep: {
+          onSample: () => {
+            if (sweepingSecond && ++samplesAtSecond === 20) control.stop('stop');
+          },
+        },
+        onState: (entry) => {
+          if (entry.index === 1 && entry.state === 'sweeping') sweepingSecond = true;
+        },
       });
       expect(stopped.file.status).toBe('aborted');
       const second = stopped.file.conditions[1];
@@ -135,7 +190,9 @@ describe('a stop during a sweep, then resume', () => {
       expect(resumed.file.conditions[0]?.runId).toBe(firstRun);
       expect(resumed.file.conditions[1]?.runId).not.toBe(second?.earlierRunIds[0]);
       expect((await readRunFolder(join(stopped.dir, second?.earlierRunIds[0] as string))).meta.status).toBe('aborted');
-      expect((await readRunFolder(join(stopped.dir, resumed.file.conditions[1]?.runId as string))).meta.status).toBe('complete');
+      expect((await readRunFolder(join(stopped.dir, resumed.file.conditions[1]?.runId as string))).meta.status).toBe(
+        'complete',
+      );
     } finally {
       await bench.close();
     }

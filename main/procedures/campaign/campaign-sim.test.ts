@@ -44,14 +44,28 @@ describe('campaign on the simulated bench', () => {
     const file = await readCampaignFile(outcome.dir);
     expect(file.status).toBe('complete');
     expect(file.conditions.map((c) => [c.temperatureC, c.supplyV])).toEqual([
-      [-10, 4.75], [-10, 5], [-10, 5.25], [25, 4.75], [25, 5], [25, 5.25], [60, 4.75], [60, 5], [60, 5.25],
+      [-10, 4.75],
+      [-10, 5],
+      [-10, 5.25],
+      [25, 4.75],
+      [25, 5],
+      [25, 5.25],
+      [60, 4.75],
+      [60, 5],
+      [60, 5.25],
     ]);
-    expect(file.conditions.every((c) => c.state === 'done' && c.runId !== null && c.earlierRunIds.length === 0)).toBe(true);
+    expect(file.conditions.every((c) => c.state === 'done' && c.runId !== null && c.earlierRunIds.length === 0)).toBe(
+      true,
+    );
     expect(new Set(file.conditions.map((c) => c.runId)).size).toBe(9);
     // Each run records its condition and the DUT temperature it was swept at.
     const first = file.conditions[0];
     const events = await readFile(join(outcome.dir, first?.runId ?? '', 'events.jsonl'), 'utf8');
-    const condition = events.split('\n').filter(Boolean).map((l) => JSON.parse(l) as Record<string, unknown>).find((e) => e.type === 'campaign-condition');
+    const condition = events
+      .split('\n')
+      .filter(Boolean)
+      .map((l) => JSON.parse(l) as Record<string, unknown>)
+      .find((e) => e.type === 'campaign-condition');
     expect(condition).toMatchObject({ setpoint_c: -10, supply_v: 4.75, unit: 'unit-a' });
     expect(Math.abs((first?.dutTemperatureC?.start ?? 99) - -10)).toBeLessThan(0.25);
   });
@@ -60,7 +74,11 @@ describe('campaign on the simulated bench', () => {
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
     const nominal = analysis.conditions.filter((c) => c.supplyV === 5);
     const temps = nominal.map((c) => c.dutTemperatureC as number);
-    const model = line(temps, temps.map((t) => modelHz(3, t)), 25);
+    const model = line(
+      temps,
+      temps.map((t) => modelHz(3, t)),
+      25,
+    );
     expect(model).not.toBeNull();
     const modelPpm = ((model?.slope ?? 0) / (model?.at ?? 1)) * 1e6;
     // Sanity of the reference: with the tuning tempco the model's figure is far from tempcoPpmPerC alone.
@@ -75,7 +93,10 @@ describe('campaign on the simulated bench', () => {
       const t = c.dutTemperatureC as number;
       const h = 1e-3;
       const modelKvco = (modelHz(3 + h, t) - modelHz(3 - h, t)) / (2 * h);
-      expect(Math.abs((c.kvcoAtNominalHzPerV as number) - modelKvco) / modelKvco, `at ${c.temperatureC} °C`).toBeLessThan(0.02);
+      expect(
+        Math.abs((c.kvcoAtNominalHzPerV as number) - modelKvco) / modelKvco,
+        `at ${c.temperatureC} °C`,
+      ).toBeLessThan(0.02);
     }
     // Kvco moves with temperature by the tuning tempco: its sign shows in the coefficient.
     expect(analysis.kvcoTempcoPpmPerC as number).toBeGreaterThan(0);

@@ -31,8 +31,20 @@ async function run(onTimeout: 'skip' | 'stop' | 'sweep-anyway') {
   plan.soak = { ...plan.soak, timeoutS: 1800, onTimeout };
   const messages: string[] = [];
   try {
-    const outcome = await startCampaign({ bench, clock, control: new RunControl(), plan, runsDir, onState: (e) => { if (e.message) messages.push(e.message); } });
-    const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as { type: string; waited_s?: number });
+    const outcome = await startCampaign({
+      bench,
+      clock,
+      control: new RunControl(),
+      plan,
+      runsDir,
+      onState: (e) => {
+        if (e.message) messages.push(e.message);
+      },
+    });
+    const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8'))
+      .split('\n')
+      .filter(Boolean)
+      .map((l) => JSON.parse(l) as { type: string; waited_s?: number });
     return { outcome, events, messages, snap: bench.sim?.snapshot() };
   } finally {
     await bench.close();
@@ -44,7 +56,10 @@ describe('soak timeout', () => {
     const r = await run('skip');
     const timeout = r.events.find((e) => e.type === 'soak-timeout');
     expect(timeout?.waited_s).toBeGreaterThanOrEqual(1800);
-    expect(r.outcome.file.conditions.map((c) => [c.temperatureC, c.state])).toEqual([[25, 'done'], [-30, 'skipped']]);
+    expect(r.outcome.file.conditions.map((c) => [c.temperatureC, c.state])).toEqual([
+      [25, 'done'],
+      [-30, 'skipped'],
+    ]);
     expect(r.messages[0]).toMatch(/soak at -30 °C timed out after \d+ s .*plan: skip/);
     expect(r.outcome.file.status).toBe('complete');
   });
@@ -75,9 +90,21 @@ describe('soak with a frequency drift limit', () => {
     plan.soak = { ...plan.soak, maxDriftPpmPerMin: 2 };
     const frequencies: number[] = [];
     try {
-      const outcome = await startCampaign({ bench, clock, control: new RunControl(), plan, runsDir, onSoakSample: (_e, s) => { if (s.frequencyHz !== null) frequencies.push(s.frequencyHz); } });
+      const outcome = await startCampaign({
+        bench,
+        clock,
+        control: new RunControl(),
+        plan,
+        runsDir,
+        onSoakSample: (_e, s) => {
+          if (s.frequencyHz !== null) frequencies.push(s.frequencyHz);
+        },
+      });
       expect(outcome.file.status).toBe('complete');
-      const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8')).split('\n').filter(Boolean).map((l) => JSON.parse(l) as { type: string; drift_ppm_per_min?: number });
+      const events = (await readFile(join(outcome.dir, 'campaign-events.jsonl'), 'utf8'))
+        .split('\n')
+        .filter(Boolean)
+        .map((l) => JSON.parse(l) as { type: string; drift_ppm_per_min?: number });
       const done = events.find((e) => e.type === 'soak-done');
       expect(Math.abs(done?.drift_ppm_per_min ?? 99)).toBeLessThanOrEqual(2);
       // The counter read the DUT at 3 V through the soak: about 18.4 kHz at 25 °C for this DUT, rising with temperature.

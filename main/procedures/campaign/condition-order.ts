@@ -17,10 +17,16 @@ export interface CampaignCondition {
   supplyV: number;
 }
 
-export function orderConditions(plan: { units: readonly string[]; temperaturesC: readonly number[]; supplyV: readonly number[]; safeC: number }): CampaignCondition[] {
+export function orderConditions(plan: {
+  units: readonly string[];
+  temperaturesC: readonly number[];
+  supplyV: readonly number[];
+  safeC: number;
+}): CampaignCondition[] {
   const temps = [...new Set(plan.temperaturesC)].sort((a, b) => a - b);
   const supplies = [...new Set(plan.supplyV)];
-  const lowFirst = Math.abs((temps[0] as number) - plan.safeC) <= Math.abs((temps[temps.length - 1] as number) - plan.safeC);
+  const lowFirst =
+    Math.abs((temps[0] as number) - plan.safeC) <= Math.abs((temps[temps.length - 1] as number) - plan.safeC);
   const walk = lowFirst ? temps : [...temps].reverse();
   const out: CampaignCondition[] = [];
   for (const unit of plan.units) {
@@ -32,7 +38,10 @@ export function orderConditions(plan: { units: readonly string[]; temperaturesC:
 }
 
 /** Chamber moves and unit changes of an order (for the plan summary and tests). */
-export function orderCost(order: readonly CampaignCondition[], safeC: number): { chamberTravelC: number; chamberMoves: number; unitChanges: number } {
+export function orderCost(
+  order: readonly CampaignCondition[],
+  safeC: number,
+): { chamberTravelC: number; chamberMoves: number; unitChanges: number } {
   let at = safeC;
   let travel = 0;
   let moves = 0;
@@ -42,10 +51,18 @@ export function orderCost(order: readonly CampaignCondition[], safeC: number): {
     if (unit !== null && c.unit !== unit) {
       changes++;
       // The door opens at the safe temperature.
-      if (at !== safeC) { travel += Math.abs(at - safeC); moves++; at = safeC; }
+      if (at !== safeC) {
+        travel += Math.abs(at - safeC);
+        moves++;
+        at = safeC;
+      }
     }
     unit = c.unit;
-    if (c.temperatureC !== at) { travel += Math.abs(c.temperatureC - at); moves++; at = c.temperatureC; }
+    if (c.temperatureC !== at) {
+      travel += Math.abs(c.temperatureC - at);
+      moves++;
+      at = c.temperatureC;
+    }
   }
   return { chamberTravelC: travel, chamberMoves: moves, unitChanges: changes };
 }

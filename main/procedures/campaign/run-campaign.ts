@@ -7,7 +7,12 @@
  * abandoned run stays, listed under earlierRunIds). The safe state
  * (campaign-safe.ts) runs on every way out.
  */
-import { campaignPlanSchema, nominalControlOf, sweepRangeV, type CampaignPlan } from '../../../app/contract/campaign-plan.ts';
+import {
+  campaignPlanSchema,
+  nominalControlOf,
+  sweepRangeV,
+  type CampaignPlan,
+} from '../../../app/contract/campaign-plan.ts';
 import type { Chamber } from '../../instruments/roles.ts';
 import type { Clock } from '../../time/clock.ts';
 import { LimitsError } from '../limits.ts';
@@ -16,8 +21,20 @@ import { RunStoppedError, type RunControl } from '../run-control.ts';
 import { goSafe } from '../safe-state.ts';
 import type { EventBody } from '../types.ts';
 import { campaignSafeState } from './campaign-safe.ts';
-import { appendCampaignEvent, appendSoakRow, claimCampaignFolder, createCampaignFolder, ensureSoakLog } from './campaign-folder.ts';
-import { CAMPAIGN_SCHEMA, readCampaignFile, writeCampaignFile, type CampaignEntry, type CampaignFile } from './campaign-file.ts';
+import {
+  appendCampaignEvent,
+  appendSoakRow,
+  claimCampaignFolder,
+  createCampaignFolder,
+  ensureSoakLog,
+} from './campaign-folder.ts';
+import {
+  CAMPAIGN_SCHEMA,
+  readCampaignFile,
+  writeCampaignFile,
+  type CampaignEntry,
+  type CampaignFile,
+} from './campaign-file.ts';
 import { orderConditions } from './condition-order.ts';
 import { setpointMatches } from '../../instruments/setpoint-match.ts';
 import { soakAt, type SoakSample } from './soak.ts';
@@ -53,13 +70,21 @@ export function validateCampaign(plan: CampaignPlan, bench?: CampaignBench): voi
   validateSweepPlan(plan.sweep);
   const [lo, hi] = sweepRangeV(plan.sweep);
   const nominal = nominalControlOf(plan);
-  if (nominal < lo || nominal > hi) throw new LimitsError('nominalControlV', `${nominal} V is outside the sweep's range ${lo} … ${hi} V`);
-  if (bench && !bench.chamber) throw new LimitsError('bench.chamber', 'a campaign needs a temperature chamber in the bench file ("chamber": { "address": … })');
-  if (bench && !bench.thermometer) throw new LimitsError('bench.thermometer', 'a campaign needs the thermometer on the DUT: it is the soak reference');
+  if (nominal < lo || nominal > hi)
+    throw new LimitsError('nominalControlV', `${nominal} V is outside the sweep's range ${lo} … ${hi} V`);
+  if (bench && !bench.chamber)
+    throw new LimitsError(
+      'bench.chamber',
+      'a campaign needs a temperature chamber in the bench file ("chamber": { "address": … })',
+    );
+  if (bench && !bench.thermometer)
+    throw new LimitsError('bench.thermometer', 'a campaign needs the thermometer on the DUT: it is the soak reference');
 }
 
 /** A new campaign folder under runsDir, then the campaign. */
-export async function startCampaign(options: CampaignOptions & { plan: unknown; runsDir: string }): Promise<CampaignOutcome> {
+export async function startCampaign(
+  options: CampaignOptions & { plan: unknown; runsDir: string },
+): Promise<CampaignOutcome> {
   const plan = campaignPlanSchema.parse(options.plan);
   validateCampaign(plan, options.bench);
   const { id, dir } = await createCampaignFolder(options.runsDir, options.clock.wallTimeIso(), plan.units[0] ?? 'dut');
@@ -72,7 +97,15 @@ export async function startCampaign(options: CampaignOptions & { plan: unknown; 
     status: 'running',
     reason: null,
     plan: options.plan,
-    conditions: orderConditions(plan).map((c) => ({ ...c, state: 'waiting', runId: null, earlierRunIds: [], soak: null, dutTemperatureC: null, message: null })),
+    conditions: orderConditions(plan).map((c) => ({
+      ...c,
+      state: 'waiting',
+      runId: null,
+      earlierRunIds: [],
+      soak: null,
+      dutTemperatureC: null,
+      message: null,
+    })),
   };
   await writeCampaignFile(dir, file);
   return runCampaign(options, plan, dir, file);
@@ -95,7 +128,13 @@ export async function resumeCampaign(options: CampaignOptions & { dir: string })
   return runCampaign(options, plan, options.dir, file, true);
 }
 
-async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: string, file: CampaignFile, resumed = false): Promise<CampaignOutcome> {
+async function runCampaign(
+  options: CampaignOptions,
+  plan: CampaignPlan,
+  dir: string,
+  file: CampaignFile,
+  resumed = false,
+): Promise<CampaignOutcome> {
   const { bench, clock } = options;
   const chamber = bench.chamber as Chamber;
   const startS = clock.now();
@@ -108,7 +147,14 @@ async function runCampaign(options: CampaignOptions, plan: CampaignPlan, dir: st
 }
 
 async function runClaimed(
-  options: CampaignOptions, plan: CampaignPlan, dir: string, file: CampaignFile, resumed: boolean, chamber: Chamber, startS: number, beat: () => Promise<void>,
+  options: CampaignOptions,
+  plan: CampaignPlan,
+  dir: string,
+  file: CampaignFile,
+  resumed: boolean,
+  chamber: Chamber,
+  startS: number,
+  beat: () => Promise<void>,
 ): Promise<CampaignOutcome> {
   const { bench, clock, control } = options;
   let writes = Promise.resolve();
@@ -128,7 +174,15 @@ async function runClaimed(
     entry.state = state;
     if (message !== undefined) entry.message = message;
     await save();
-    event({ type: 'condition', index: entry.index, state, unit: entry.unit, temperature_c: entry.temperatureC, supply_v: entry.supplyV, ...(message ? { message } : {}) });
+    event({
+      type: 'condition',
+      index: entry.index,
+      state,
+      unit: entry.unit,
+      temperature_c: entry.temperatureC,
+      supply_v: entry.supplyV,
+      ...(message ? { message } : {}),
+    });
     await options.onState?.(entry, file);
   };
 
@@ -141,7 +195,11 @@ async function runClaimed(
     chamber.setLimits(plan.chamber);
     const ramp = plan.rampCPerMin ?? plan.chamber.maxRateCPerMin;
     if (chamber.capabilities.rampRate) await chamber.setRampRate(ramp);
-    else event({ type: 'chamber-note', message: 'the chamber profile has no ramp-rate command: chamber.maxRateCPerMin rests on the chamber itself' });
+    else
+      event({
+        type: 'chamber-note',
+        message: 'the chamber profile has no ramp-rate command: chamber.maxRateCPerMin rests on the chamber itself',
+      });
     if (chamber.capabilities.runStop) await chamber.setRunning(true);
     const dutCh = bench.dutSupplyChannel;
     if (bench.supply.capabilities.overVoltageProtection) {
@@ -150,7 +208,10 @@ async function runClaimed(
     let unit: string | null = null;
     let soakedAtC: number | null = null;
     for (const entry of file.conditions) {
-      if (entry.state === 'done') { unit = entry.unit; continue; }
+      if (entry.state === 'done') {
+        unit = entry.unit;
+        continue;
+      }
       await control.checkpoint(clock);
       if (unit !== null && entry.unit !== unit) {
         await changeUnit(options, plan, chamber, unit, entry.unit, event);
@@ -168,7 +229,16 @@ async function runClaimed(
           drift: { controlV: nominalControlV, limits: plan.sweep.limits, gateS: plan.sweep.gateS },
           event,
           onSample: (sample) => {
-            events.push(appendSoakRow(dir, [entry.index, sample.timeS - startS, sample.setpointC, sample.airC, sample.dutC, sample.frequencyHz]).catch(() => undefined));
+            events.push(
+              appendSoakRow(dir, [
+                entry.index,
+                sample.timeS - startS,
+                sample.setpointC,
+                sample.airC,
+                sample.dutC,
+                sample.frequencyHz,
+              ]).catch(() => undefined),
+            );
             options.onSoakSample?.(entry, sample);
           },
         });
@@ -183,7 +253,8 @@ async function runClaimed(
           if (plan.soak.onTimeout === 'skip') {
             // Every corner at this temperature is skipped with it.
             for (const other of file.conditions) {
-              if (other.unit === entry.unit && other.temperatureC === entry.temperatureC && other.state !== 'done') await setState(other, 'skipped', message);
+              if (other.unit === entry.unit && other.temperatureC === entry.temperatureC && other.state !== 'done')
+                await setState(other, 'skipped', message);
             }
             soakedAtC = null;
             // A drift-checked soak left the control output on; it does not stay on through a skip.
@@ -205,7 +276,17 @@ async function runClaimed(
         plan: plan.sweep,
         dutId: entry.unit,
         dutNotes: `campaign ${file.id}: chamber ${entry.temperatureC} °C, DUT supply ${entry.supplyV} V`,
-        startEvents: [{ type: 'campaign-condition', campaign: file.id, index: entry.index, unit: entry.unit, setpoint_c: entry.temperatureC, supply_v: entry.supplyV, soak: entry.soak }],
+        startEvents: [
+          {
+            type: 'campaign-condition',
+            campaign: file.id,
+            index: entry.index,
+            unit: entry.unit,
+            setpoint_c: entry.temperatureC,
+            supply_v: entry.supplyV,
+            soak: entry.soak,
+          },
+        ],
         onRunStarted: (meta) => {
           entry.runId = meta.id;
           void save();
@@ -226,7 +307,10 @@ async function runClaimed(
       }
       const why = recorded.outcome.failure?.message ?? recorded.outcome.reason ?? 'aborted';
       await setState(entry, 'failed', why);
-      throw new CampaignStop(`condition ${entry.index} (${entry.unit}, ${entry.temperatureC} °C, ${entry.supplyV} V): sweep failed — ${why}`, 'sweep-failed');
+      throw new CampaignStop(
+        `condition ${entry.index} (${entry.unit}, ${entry.temperatureC} °C, ${entry.supplyV} V): sweep failed — ${why}`,
+        'sweep-failed',
+      );
     }
     file.status = 'complete';
   } catch (error) {
@@ -235,14 +319,20 @@ async function runClaimed(
       file.status = 'aborted';
       file.reason = control.stopReason ?? (error instanceof Error ? error.message : 'stop');
       for (const entry of file.conditions) {
-        if (entry.state === 'soaking' || entry.state === 'sweeping') { entry.state = 'waiting'; entry.message = 'stopped; done again on resume'; }
+        if (entry.state === 'soaking' || entry.state === 'sweeping') {
+          entry.state = 'waiting';
+          entry.message = 'stopped; done again on resume';
+        }
       }
     } else {
       file.status = 'failed';
       file.reason = error instanceof CampaignStop ? error.reason : error instanceof Error ? error.name : 'error';
       failure = error instanceof Error ? error.message : String(error);
       for (const entry of file.conditions) {
-        if (entry.state === 'soaking' || entry.state === 'sweeping') { entry.state = 'failed'; entry.message = failure; }
+        if (entry.state === 'soaking' || entry.state === 'sweeping') {
+          entry.state = 'failed';
+          entry.message = failure;
+        }
       }
       event({ type: 'campaign-error', error: failure });
     }
@@ -263,21 +353,34 @@ async function safeControl(bench: CampaignBench, plan: CampaignPlan, event: (e: 
 /** Stops the campaign with a reason recorded in campaign.json. */
 export class CampaignStop extends Error {
   override name = 'CampaignStop';
-  constructor(message: string, readonly reason: string) {
+  constructor(
+    message: string,
+    readonly reason: string,
+  ) {
     super(message);
   }
 }
 
 /** The DUT supply to `volts` (checked against maxSupplyV before the write), read back, output on. */
-async function setDutSupply(bench: CampaignBench, plan: CampaignPlan, volts: number, clock: Clock, signal: AbortSignal): Promise<void> {
-  if (!(volts > 0) || volts > plan.maxSupplyV) throw new LimitsError('supplyV', `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V)`);
+async function setDutSupply(
+  bench: CampaignBench,
+  plan: CampaignPlan,
+  volts: number,
+  clock: Clock,
+  signal: AbortSignal,
+): Promise<void> {
+  if (!(volts > 0) || volts > plan.maxSupplyV)
+    throw new LimitsError('supplyV', `${volts} V exceeds maxSupplyV (${plan.maxSupplyV} V)`);
   const ch = bench.dutSupplyChannel;
   // Defence in depth: the driver itself refuses any DUT-supply write above maxSupplyV from here on.
   bench.supply.limitChannel(ch, 'dut-supply', plan.maxSupplyV);
   await bench.supply.setVoltage(ch, volts);
   const readBack = await bench.supply.getVoltageSetpoint(ch);
   if (!setpointMatches(readBack, volts)) {
-    throw new CampaignStop(`DUT supply (channel ${ch}) reads back ${readBack} V after ${volts} V was set`, 'supply-readback');
+    throw new CampaignStop(
+      `DUT supply (channel ${ch}) reads back ${readBack} V after ${volts} V was set`,
+      'supply-readback',
+    );
   }
   if (!(await bench.supply.getOutput(ch))) await bench.supply.setOutput(ch, true);
   // The DUT's own supply decoupling settles in well under a second (common practice: wait, then measure).
@@ -285,7 +388,14 @@ async function setDutSupply(bench: CampaignBench, plan: CampaignPlan, volts: num
 }
 
 /** Chamber to safeC, DUT supply off, operator swaps the unit, supply on again at the next condition. */
-async function changeUnit(options: CampaignOptions, plan: CampaignPlan, chamber: Chamber, from: string, next: string, event: (e: EventBody) => void): Promise<void> {
+async function changeUnit(
+  options: CampaignOptions,
+  plan: CampaignPlan,
+  chamber: Chamber,
+  from: string,
+  next: string,
+  event: (e: EventBody) => void,
+): Promise<void> {
   const { bench, clock, control } = options;
   event({ type: 'unit-change', from, to: next, safe_c: plan.safeC });
   // Nothing drives the tuning port of a board about to be unpowered and unplugged.

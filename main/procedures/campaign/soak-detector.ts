@@ -35,7 +35,10 @@ export function slopePerS(t: readonly number[], y: readonly number[]): number | 
   if (n < 2) return null;
   let mt = 0;
   let my = 0;
-  for (let i = 0; i < n; i++) { mt += t[i] as number; my += y[i] as number; }
+  for (let i = 0; i < n; i++) {
+    mt += t[i] as number;
+    my += y[i] as number;
+  }
   mt /= n;
   my /= n;
   let stt = 0;
@@ -63,17 +66,24 @@ export class SoakDetector {
     // Keep the dwell plus the reading just before it, so the window spans the dwell.
     const last = this.#window[this.#window.length - 1];
     if (last !== undefined) {
-      while (this.#window.length > 2 && last.timeS - (this.#window[1] as SoakReading).timeS >= c.dwellS) this.#window.shift();
+      while (this.#window.length > 2 && last.timeS - (this.#window[1] as SoakReading).timeS >= c.dwellS)
+        this.#window.shift();
     }
     const w = this.#window;
     const inBandS = w.length === 0 ? 0 : (w[w.length - 1] as SoakReading).timeS - (w[0] as SoakReading).timeS;
     const times = w.map((r) => r.timeS);
-    const slope = slopePerS(times, w.map((r) => r.dutC));
+    const slope = slopePerS(
+      times,
+      w.map((r) => r.dutC),
+    );
     const slopeCPerMin = slope === null ? null : slope * 60;
     let driftPpmPerMin: number | null = null;
     if (c.maxDriftPpmPerMin !== undefined) {
-      const withF = w.filter((r) => r.frequencyHz !== undefined && Number.isFinite(r.frequencyHz) && (r.frequencyHz) > 0);
-      const fSlope = slopePerS(withF.map((r) => r.timeS), withF.map((r) => r.frequencyHz as number));
+      const withF = w.filter((r) => r.frequencyHz !== undefined && Number.isFinite(r.frequencyHz) && r.frequencyHz > 0);
+      const fSlope = slopePerS(
+        withF.map((r) => r.timeS),
+        withF.map((r) => r.frequencyHz as number),
+      );
       const mean = withF.reduce((s, r) => s + (r.frequencyHz as number), 0) / Math.max(1, withF.length);
       driftPpmPerMin = fSlope === null || !(mean > 0) ? null : (fSlope / mean) * 1e6 * 60;
     }
@@ -81,7 +91,8 @@ export class SoakDetector {
       inBandS >= c.dwellS &&
       slopeCPerMin !== null &&
       Math.abs(slopeCPerMin) <= c.maxSlopeCPerMin &&
-      (c.maxDriftPpmPerMin === undefined || (driftPpmPerMin !== null && Math.abs(driftPpmPerMin) <= c.maxDriftPpmPerMin));
+      (c.maxDriftPpmPerMin === undefined ||
+        (driftPpmPerMin !== null && Math.abs(driftPpmPerMin) <= c.maxDriftPpmPerMin));
     return { soaked, inBandS, slopeCPerMin, driftPpmPerMin };
   }
 }

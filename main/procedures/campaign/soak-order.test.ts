@@ -42,7 +42,12 @@ describe('SoakDetector', () => {
 
 describe('orderConditions', () => {
   it('keeps unit changes to the minimum and walks the chamber one way from the end nearer safeC', () => {
-    const order = orderConditions({ units: ['a', 'b'], temperaturesC: [85, -40, 25], supplyV: [3.1, 3.3, 3.5], safeC: 25 });
+    const order = orderConditions({
+      units: ['a', 'b'],
+      temperaturesC: [85, -40, 25],
+      supplyV: [3.1, 3.3, 3.5],
+      safeC: 25,
+    });
     expect(order).toHaveLength(18);
     expect(order.slice(0, 9).every((c) => c.unit === 'a')).toBe(true);
     // 85 is 60 °C from safeC, −40 is 65: start hot.

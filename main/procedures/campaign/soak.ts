@@ -61,7 +61,13 @@ export async function soakAt(options: SoakOptions): Promise<SoakResult> {
     maxDriftPpmPerMin: useDrift ? soak.maxDriftPpmPerMin : undefined,
   });
   const startS = clock.now();
-  options.event({ type: 'soak-start', setpoint_c: setpointC, tolerance_c: soak.toleranceC, dwell_s: soak.dwellS, timeout_s: soak.timeoutS });
+  options.event({
+    type: 'soak-start',
+    setpoint_c: setpointC,
+    tolerance_c: soak.toleranceC,
+    dwell_s: soak.dwellS,
+    timeout_s: soak.timeoutS,
+  });
   let last: SoakSample | null = null;
   for (;;) {
     const dutC = await thermometer.readTemperature();
@@ -81,11 +87,27 @@ export async function soakAt(options: SoakOptions): Promise<SoakResult> {
     const verdict = detector.add({ timeS, dutC, frequencyHz: frequencyHz ?? undefined });
     const waitedS = timeS - startS;
     if (verdict.soaked) {
-      options.event({ type: 'soak-done', setpoint_c: setpointC, waited_s: waitedS, dut_c: dutC, air_c: airC, slope_c_per_min: verdict.slopeCPerMin, drift_ppm_per_min: verdict.driftPpmPerMin });
+      options.event({
+        type: 'soak-done',
+        setpoint_c: setpointC,
+        waited_s: waitedS,
+        dut_c: dutC,
+        air_c: airC,
+        slope_c_per_min: verdict.slopeCPerMin,
+        drift_ppm_per_min: verdict.driftPpmPerMin,
+      });
       return { result: 'soaked', waitedS, dutC, airC };
     }
     if (waitedS >= soak.timeoutS) {
-      options.event({ type: 'soak-timeout', setpoint_c: setpointC, waited_s: waitedS, dut_c: dutC, air_c: airC, in_band_s: verdict.inBandS, slope_c_per_min: verdict.slopeCPerMin });
+      options.event({
+        type: 'soak-timeout',
+        setpoint_c: setpointC,
+        waited_s: waitedS,
+        dut_c: dutC,
+        air_c: airC,
+        in_band_s: verdict.inBandS,
+        slope_c_per_min: verdict.slopeCPerMin,
+      });
       return { result: 'timeout', waitedS, dutC, airC };
     }
     await clock.sleep(soak.readIntervalS, options.signal);

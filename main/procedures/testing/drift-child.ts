@@ -14,7 +14,13 @@ const [runsDir] = process.argv.slice(2);
 if (!runsDir) throw new Error('usage: drift-child.ts RUNS_DIR');
 const clock = new RealClock();
 const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation', seed: 3 } });
-const plan = driftPlanSchema.parse({ controlV: 3, intervalS: 0.05, durationS: 3600, gateS: 0.02, limits: { maxControlV: 5, currentLimitA: 0.02 } });
+const plan = driftPlanSchema.parse({
+  controlV: 3,
+  intervalS: 0.05,
+  durationS: 3600,
+  gateS: 0.02,
+  limits: { maxControlV: 5, currentLimitA: 0.02 },
+});
 await recordDrift({
   bench,
   plan,

@@ -10,7 +10,13 @@ import { ChannelCeilings, type ChannelPurpose } from '../../instruments/channel-
 import type { Counter, FrequencyReading, InstrumentIdentity, Supply, Thermometer } from '../../instruments/roles.ts';
 import type { BenchRoles, EventBody, ProcedureEvent, RunSink, SampleRow } from '../types.ts';
 
-const IDENTITY: InstrumentIdentity = { idn: 'TEST,FAKE,0,1', manufacturer: 'TEST', model: 'FAKE', serial: '0', firmware: '1' };
+const IDENTITY: InstrumentIdentity = {
+  idn: 'TEST,FAKE,0,1',
+  manufacturer: 'TEST',
+  model: 'FAKE',
+  serial: '0',
+  firmware: '1',
+};
 
 export type SupplyOp = 'setVoltage' | 'setCurrentLimit' | 'setOverVoltageProtection' | 'setOutput' | 'measureVoltage';
 
@@ -36,7 +42,15 @@ export class FakeSupply implements Supply {
 
   constructor(clock: Clock) {
     this.#clock = clock;
-    for (const ch of [1, 2]) this.channels.set(ch, { voltageV: 0, output: false, currentLimitA: null, ovpV: null, changedAtS: 0, previousV: 0 });
+    for (const ch of [1, 2])
+      this.channels.set(ch, {
+        voltageV: 0,
+        output: false,
+        currentLimitA: null,
+        ovpV: null,
+        changedAtS: 0,
+        previousV: 0,
+      });
   }
 
   channel(ch: number): ChannelState {
@@ -161,7 +175,10 @@ export class FakeCounter implements Counter {
   }
 }
 
-export function fakeBench(clock: Clock, dut: ToyDut = TOY_DUT): BenchRoles & { supply: FakeSupply; counter: FakeCounter } {
+export function fakeBench(
+  clock: Clock,
+  dut: ToyDut = TOY_DUT,
+): BenchRoles & { supply: FakeSupply; counter: FakeCounter } {
   const supply = new FakeSupply(clock);
   const counter = new FakeCounter(clock, supply, dut);
   return { supply, counter, controlChannel: 1, dutSupplyChannel: 2 };
