@@ -14,17 +14,11 @@ import { runSweep } from '../procedures/sweep.ts';
 import { MemorySink } from '../procedures/testing/fake-bench.ts';
 import { serveSimBench, type ServedSimBench } from '../sim/tcp-server.ts';
 import { RealClock } from '../time/real-clock.ts';
+import { SHORT_SWEEP } from '../../test/hostile/hostile-bench.ts';
 import { assembleBench, type AssembleOptions } from './assemble.ts';
 
-const plan = sweepPlanSchema.parse({
-  points: [2.0, 2.5, 3.0],
-  readingsPerPoint: 2,
-  gateS: 0.05,
-  settle: { mode: 'fixed', seconds: 0.05 },
-  refineEdgeV: 0,
-  limits: { maxControlV: 5, currentLimitA: 0.02 },
-  safe: { controlV: 0, outputOff: true },
-});
+/** Three points on the relaxation DUT's oscillating range, two readings each. */
+const plan = sweepPlanSchema.parse({ ...SHORT_SWEEP, readingsPerPoint: 2 });
 
 let served: ServedSimBench | null = null;
 afterEach(async () => {

@@ -218,6 +218,14 @@ describe('WebSerialTransport against tunebench sim through a byte bridge', () =>
     await expect(session.reconnect()).rejects.toThrow(/2 allowed ports have USB 0403:6001 and cannot be told apart/);
   });
 
+  it('two opens at once make one attempt on the port', async () => {
+    const { port, transport } = await rig({ open: false });
+    await Promise.all([transport.open(), transport.open()]);
+    expect(port.opens).toHaveLength(1);
+    expect(transport.isOpen).toBe(true);
+    await transport.close();
+  });
+
   it('a port the page cannot open is "cannot open", not a lost link', async () => {
     const { port, session } = await rig({ open: false });
     await port.open({ baudRate: 9600 }); // held by someone else

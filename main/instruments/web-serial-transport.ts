@@ -84,6 +84,7 @@ export class WebSerialTransport implements Transport {
   private lost = false;
   /** Teardown of a dropped link still under way (the next open waits for it). */
   private teardown: Promise<void> = Promise.resolve();
+  private opening: Promise<void> | null = null;
 
   constructor(options: WebSerialTransportOptions) {
     const line = typeof options.address === 'string' ? parseAddress(options.address) : options.address;
@@ -105,8 +106,16 @@ export class WebSerialTransport implements Transport {
     return this.link !== null;
   }
 
-  async open(): Promise<void> {
-    if (this.link !== null) return;
+  /** Opens the port (looking it up again after a drop); concurrent calls share one attempt. */
+  open(): Promise<void> {
+    if (this.link !== null) return Promise.resolve();
+    this.opening ??= this.openLink().finally(() => {
+      this.opening = null;
+    });
+    return this.opening;
+  }
+
+  private async openLink(): Promise<void> {
     await this.teardown;
     let port = this.port;
     try {
@@ -118,7 +127,6 @@ export class WebSerialTransport implements Transport {
     } catch (error) {
       throw new DisconnectedError(this.address, messageOf(error), { cause: error, opening: true });
     }
-    if (this.link !== null) return;
     const readable = port.readable;
     const writable = port.writable;
     if (readable === null || writable === null) {
