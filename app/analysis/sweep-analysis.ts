@@ -13,7 +13,8 @@ import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
 import { kvcoSummary } from './sweep-kvco-summary.ts';
 import { groupPoints, pointSummaries, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
-import { usableRange } from './sweep-usable-range.ts';
+import { usableRange, type UsableRange } from './sweep-usable-range.ts';
+import { formatFigure } from './format-figure.ts';
 import { fitRangeIndices, tuningWindow, type FitRangeRequest, type WindowRequest } from './sweep-window.ts';
 import type { TuningModel } from './tuning-model.ts';
 
@@ -34,6 +35,8 @@ export interface SweepOptions {
   unstableFactor?: number;
   /** The usable range ends where the step slope stays below this fraction of its median (flat top). Default 0.1; 0 disables. */
   flatKvcoFraction?: number;
+  /** Stall-edge zone: points where the chord slope changes by more than this fraction per step are left out of the usable range. Default 0.1; 0 disables. */
+  edgeSlopeChange?: number;
 }
 
 interface Curve {
@@ -77,9 +80,10 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
   const warnings: string[] = [];
   if (edges.blockI1 === edges.blockI0) throw new AnalysisError('the oscillator stalled over the whole range', true);
   const u = pointUncertainty(points, input.gateS);
-  const usable = usableRange(points, edges, u, options.flatKvcoFraction ?? 0.1, warnings);
+  const usable = usableRange(points, edges, u, options.flatKvcoFraction ?? 0.1, options.edgeSlopeChange, warnings);
   const { i0, i1 } = usable;
   const usableV = { fromV: points.v[i0] as number, toV: points.v[i1 - 1] as number };
+  const zone = edgeZoneJson(points, edges, usable);
   const { window, w0, w1 } = tuningWindow(points, edges, usableV, options.window, warnings);
   const [f0, f1] = fitRangeIndices(points, edges, usable, options.fitRange, window);
   const fitted = fitTuningCurve(points, u, f0, f1, options, warnings);
@@ -137,15 +141,42 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     },
     fit: fitted.json,
     window,
-    usableRange: usableV,
-    points: pointsJson(points, edges, fitted.model),
+    usableRange: { ...usableV, edgeZone: zone },
+    points: pointsJson(points, edges, fitted.model, edges.usableI0, usable.zone.startI),
     hysteresis,
     counter: { gateS: input.gateS ?? null, resolutionHz: input.gateS ? 1 / input.gateS : null },
     warnings,
   };
 }
 
-function pointsJson(points: PointSet, edges: Edges, model: TuningModel): SweepAnalysis['points'] {
+/** The edge zone for the JSON, with the reason its points are out in words. */
+function edgeZoneJson(points: PointSet, edges: Edges, usable: UsableRange): SweepAnalysis['usableRange']['edgeZone'] {
+  const { zone } = usable;
+  if (zone.startI <= edges.usableI0) return null;
+  const fromV = points.v[edges.usableI0] as number;
+  const toV = points.v[zone.startI - 1] as number;
+  const limitPct = zone.limit * 100;
+  const change = zone.slopeChange === null ? null : zone.slopeChange * 100;
+  return {
+    fromV,
+    toV,
+    slopeChangePct: change,
+    limitPct,
+    stepV: zone.stepV,
+    reason:
+      `next to the stall edge (${formatFigure(edges.thresholdV ?? NaN, 'V', { uncertainty: edges.thresholdUncertaintyV ?? 0 })}) the tuning slope changes by up to ` +
+      `${change === null ? '—' : formatFigure(change, '%', { digits: 2 })} per ${formatFigure(zone.stepV, 'V', { digits: 3 })} step (limit ${formatFigure(limitPct, '%', { digits: 2 })}): ` +
+      'faster than the sweep resolves, so Kvco there is not quoted',
+  };
+}
+
+function pointsJson(
+  points: PointSet,
+  edges: Edges,
+  model: TuningModel,
+  zoneI0: number,
+  zoneI1: number,
+): SweepAnalysis['points'] {
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
   return pointSummaries(points).map((row, i) => {
     const inFit = row.v >= model.fromV - tol && row.v <= model.toV + tol;
@@ -153,6 +184,7 @@ function pointsJson(points: PointSet, edges: Edges, model: TuningModel): SweepAn
     return Object.assign(row, {
       unstable: edges.unstable[i] === 1,
       unsettled: points.unsettled[i] === 1,
+      edgeZone: i >= zoneI0 && i < zoneI1,
       fitHz: inFit ? model.value(row.v) : null,
     });
   });

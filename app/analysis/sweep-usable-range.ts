@@ -5,6 +5,7 @@
  */
 import { AnalysisError } from './analysis-error.ts';
 import { formatFigure } from './format-figure.ts';
+import { edgeZone, type EdgeZone } from './sweep-edge-zone.ts';
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
 
@@ -104,6 +105,8 @@ export interface UsableRange {
   /** End of the range before the flat-top trim (exclusive). */
   afterTurn: number;
   saturation: { edgeV: number; uncertaintyV: number } | null;
+  /** The stall edge's zone left out below i0 (see sweep-edge-zone.ts). */
+  zone: EdgeZone;
 }
 
 /** The usable range of the primary curve; its warnings go onto `warnings`. */
@@ -112,9 +115,11 @@ export function usableRange(
   edges: Edges,
   u: Float64Array,
   flatFraction: number,
+  edgeSlopeChange: number | undefined,
   warnings: string[],
 ): UsableRange {
-  const i0 = edges.usableI0;
+  const zone = edgeZone(points, edges, u, edgeSlopeChange);
+  const i0 = zone.startI;
   const turn = turningPoint(points.meanHz, u, i0, edges.blockI1);
   const afterTurn = turn === null ? edges.blockI1 : turn + 1;
   const i1 = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
@@ -135,5 +140,5 @@ export function usableRange(
         'the usable range ends at the turn',
     );
   }
-  return { i0, i1, turn, afterTurn, saturation };
+  return { i0, i1, turn, afterTurn, saturation, zone };
 }
