@@ -1,7 +1,8 @@
 /**
  * One point of a sweep: write the control voltage, settle, read back the
- * control voltage when the supply can, then take the readings, each recorded
- * as it arrives, and flush at the end of the point.
+ * control voltage when the supply can (with automatic settling, while the
+ * counter gates the point's first new reading), then take the readings, each
+ * recorded as it arrives, and flush at the end of the point.
  */
 import type { SweepPlan } from '../../app/contract/plans.ts';
 import { InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
