@@ -39,4 +39,26 @@ describe('tunebench launcher', () => {
     // The bundle finds resources/ and the analysis the same way the sources do.
     expect(JSON.parse(fromBundle.stdout)).toEqual(JSON.parse(fromSource.stdout));
   }, 60_000);
+
+  it('loads only the command that runs: help and analyze start no network, server or worker code', async () => {
+    // Node lists every built-in module it has loaded: the browser server needs http, the CSV import
+    // worker worker_threads (net says nothing here: a piped stdout loads it too). Before the
+    // registry loaded commands on demand, every start evaluated all of them.
+    const probe = `
+      const { loadBundle } = await import(${JSON.stringify(new URL('./cli-bundle.mjs', import.meta.url).href)});
+      const { exports } = loadBundle();
+      const sink = { write: () => true };
+      const code = await exports.runCli(process.argv.slice(1), { stdout: sink, stderr: sink, env: {} });
+      const heavy = ['http', 'worker_threads'].filter((m) => process.moduleLoadList.includes('NativeModule ' + m));
+      process.stdout.write(JSON.stringify({ code, heavy }));`;
+    const loaded = async (args: string[]): Promise<{ code: number; heavy: string[] }> =>
+      JSON.parse((await run(process.execPath, ['--input-type=module', '-e', probe, '--', ...args])).stdout) as {
+        code: number;
+        heavy: string[];
+      };
+    expect(await loaded(['--help'])).toEqual({ code: 0, heavy: [] });
+    expect(await loaded(['analyze', FIXTURE])).toEqual({ code: 0, heavy: [] });
+    // The registry still reaches the heavy commands when they are asked for.
+    expect((await loaded(['serve', '--help'])).heavy).toContain('http');
+  }, 60_000);
 });

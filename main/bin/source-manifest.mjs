@@ -4,11 +4,13 @@
 // particular order. A file whose time is not newer than the build is taken
 // as unchanged without reading it; a newer one is compared by size, then by
 // content.
-import { createHash } from 'node:crypto';
 import { readFileSync, statSync, writeFileSync, renameSync } from 'node:fs';
 import { join } from 'node:path';
 
+// node:crypto loads only when a file needs hashing: a launcher that finds every source unchanged
+// by time and size (the usual start) never pays for it.
 function sha1(path) {
+  const { createHash } = process.getBuiltinModule('node:crypto');
   return createHash('sha1').update(readFileSync(path)).digest('hex');
 }
 
@@ -43,12 +45,8 @@ export function readSourceManifest(file) {
  * does not: missing, resized, or newer than the build with other content.
  */
 export function sourceChange(root, entry, builtMs) {
-  let info;
-  try {
-    info = statSync(join(root, entry.path));
-  } catch {
-    return `${entry.path} is gone`;
-  }
+  const info = statSync(join(root, entry.path), { throwIfNoEntry: false });
+  if (info === undefined) return `${entry.path} is gone`;
   if (info.size !== entry.size) return `${entry.path} changed`;
   if (info.mtimeMs <= builtMs) return null;
   return sha1(join(root, entry.path)) === entry.sha1 ? null : `${entry.path} changed`;

@@ -3,7 +3,6 @@
  * for each condition with a run, that run's sweep analysed as `analyze`
  * would; then the campaign analysis over all of them.
  */
-import { stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import {
   analyzeCampaign,
@@ -22,10 +21,7 @@ import { CAMPAIGN_FILE, readCampaignFile, type CampaignFile } from '../procedure
 import { loadAnalysisSource } from './analysis-source.ts';
 import { UsageError } from './types.ts';
 
-export async function isCampaignDir(path: string): Promise<boolean> {
-  const info = await stat(join(path, CAMPAIGN_FILE)).catch(() => null);
-  return info?.isFile() ?? false;
-}
+export { isCampaignDir } from './campaign-dir.ts';
 
 export async function loadCampaignAnalysis(dir: string): Promise<{ file: CampaignFile; analysis: CampaignAnalysis }> {
   const file = await readCampaignFile(dir).catch((error: Error) => {

@@ -102,16 +102,22 @@ describe('one command line', () => {
 
   it('no help text points at a document that does not ship (analyze once named CONTRACTS.md)', async () => {
     const { existsSync } = await import('node:fs');
-    for (const command of commands) expect(command.usage, command.name).not.toMatch(/CONTRACTS\.md/);
+    for (const command of await Promise.all(commands.map((c) => c.load())))
+      expect(command.usage, command.name).not.toMatch(/CONTRACTS\.md/);
     expect(existsSync(join(import.meta.dirname, '..', '..', 'docs', 'reference.md'))).toBe(true);
     expect((await runCliCaptured('analyze', '--help')).out).toMatch(/docs\/reference\.md/);
   });
 
-  it('one spelling of Ctrl+C in every help text', () => {
-    for (const command of commands) expect(command.usage, command.name).not.toMatch(/Ctrl-C/);
-    expect(commands.filter((c) => /Ctrl\+C/.test(c.usage)).map((c) => c.name)).toEqual(
+  it('one spelling of Ctrl+C in every help text', async () => {
+    const loaded = await Promise.all(commands.map((c) => c.load()));
+    for (const command of loaded) expect(command.usage, command.name).not.toMatch(/Ctrl-C/);
+    expect(loaded.filter((c) => /Ctrl\+C/.test(c.usage)).map((c) => c.name)).toEqual(
       expect.arrayContaining(['sweep', 'drift', 'pushing', 'sim']),
     );
+  });
+
+  it('every registered command loads under the name it is registered by', async () => {
+    for (const entry of commands) expect((await entry.load()).name).toBe(entry.name);
   });
 
   it('a drift log with no --duration says it runs 8 h and how to shorten it', async () => {

@@ -9,10 +9,9 @@ import { CsvError, numericColumn } from '../../app/analysis/csv-columns.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
 import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
-import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
-import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
+import { isCampaignDir } from './campaign-dir.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
-import { runsDirFrom } from './run-setup.ts';
+import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
 const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
@@ -72,7 +71,6 @@ function checkNominalInside(nominalV: number, table: ColumnTable): void {
 
 export const analyzeCommand: CliCommand = {
   name: 'analyze',
-  summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, {
@@ -106,6 +104,9 @@ export const analyzeCommand: CliCommand = {
     );
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
     if (await isCampaignDir(flags.positionals[0] as string)) {
+      // Loaded only for a campaign folder: an ordinary run or CSV needs none of it.
+      const { loadCampaignAnalysis } = await import('./campaign-source.ts');
+      const { renderCampaignMarkdown } = await import('../../app/analysis/campaign-datasheet.ts');
       const { file, analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
       if (flags.booleans.has('json'))
         io.stdout.write(

@@ -240,7 +240,6 @@ async function run(argv: string[], io: CliIo): Promise<number> {
 
 export const campaignCommand: CliCommand = {
   name: 'campaign',
-  summary: 'characterisation over temperature (chamber), supply corners and units',
   usage,
   run,
 };

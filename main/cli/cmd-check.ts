@@ -23,7 +23,6 @@ options:
 
 export const checkCommand: CliCommand = {
   name: 'check',
-  summary: 'connect-only bring-up of a bench: a pass/fail line per instrument',
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, { values: ['bench'] });

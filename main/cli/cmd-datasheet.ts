@@ -17,7 +17,7 @@ import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags } from './flags.ts';
-import { runsDirFrom } from './run-setup.ts';
+import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
 
 const usage = `usage: tunebench datasheet RUN_DIR|RUN_ID... [--format md|csv|html] [-o FILE] [--title TEXT] [--window A:B] [--runs DIR]
@@ -48,7 +48,6 @@ function isFormat(text: string): text is keyof typeof RENDER {
 
 export const datasheetCommand: CliCommand = {
   name: 'datasheet',
-  summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, {

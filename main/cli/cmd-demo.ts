@@ -31,7 +31,6 @@ campaign datasheet (tempcos, Kvco per temperature, pushing, headroom).
 
 export const demoCommand: CliCommand = {
   name: 'demo',
-  summary: 'simulated sweep of a built-in DUT and its gain table (seconds, no instruments)',
   usage,
   async run(argv, io) {
     const flags = parseFlags(argv, { values: ['runs', 'dut'] });

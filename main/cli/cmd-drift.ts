@@ -45,7 +45,6 @@ function timeFlag(name: string, text: string | undefined): number | undefined {
 
 export const driftCommand = recordingCommand({
   name: 'drift',
-  summary: 'drift log at a fixed control voltage (frequency + temperature)',
   usage,
   flags: { values: ['duration', 'interval', 'resume'] },
   defaultPlan: defaultDriftPlan,

@@ -25,7 +25,6 @@ Ctrl+C stops cleanly: control voltage to the safe level, output off, DUT supply 
 
 export const pushingCommand = recordingCommand({
   name: 'pushing',
-  summary: 'supply pushing (Hz/V) at a fixed control voltage',
   usage,
   defaultPlan: defaultPushingPlan,
   loadPlan: loadPushingPlan,

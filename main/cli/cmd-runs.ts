@@ -62,7 +62,6 @@ async function run(argv: string[], io: CliIo): Promise<number> {
 
 export const runsCommand: CliCommand = {
   name: 'runs',
-  summary: 'list saved runs: id, kind, status, DUT id, start time',
   usage,
   run,
 };

@@ -15,7 +15,6 @@ Every key with its unit, default and limits: docs/reference.md.
 
 export const schemaCommand: CliCommand = {
   name: 'schema',
-  summary: 'print the JSON Schema of a bench, plan, profile or DUT file',
   usage,
   run(argv, io) {
     const flags = parseFlags(argv, {});

@@ -57,7 +57,6 @@ function waitForStop(io: CliIo): Promise<void> {
 
 export const serveCommand: CliCommand = {
   name: 'serve',
-  summary: 'browser mode: serve the app on 127.0.0.1 with an access token',
   usage: USAGE,
   async run(argv, io) {
     const flags = parseFlags(argv, { values: ['host', 'port', 'runs', 'allow-address'] });

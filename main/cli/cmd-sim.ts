@@ -130,7 +130,6 @@ async function run(argv: string[], io: CliIo): Promise<number> {
 
 export const simCommand: CliCommand = {
   name: 'sim',
-  summary: 'serve the simulated bench (supply, counter, thermometer, chamber) on TCP ports',
   usage: USAGE,
   run,
 };

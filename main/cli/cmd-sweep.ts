@@ -58,7 +58,6 @@ Ctrl+C stops the sweep cleanly: control voltage to the safe level, output off.
 
 export const sweepCommand = recordingCommand({
   name: 'sweep',
-  summary: 'gain sweep of the DUT into a new run folder',
   usage,
   defaultPlan: defaultSweepPlan,
   loadPlan: loadSweepPlan,

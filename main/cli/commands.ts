@@ -1,32 +1,81 @@
 /**
  * Registry of sub-commands, in the order `tunebench --help` lists them:
  * the bench procedures first, then analysis, then the tools around them.
+ *
+ * Each command's module loads only when that command runs (or prints its
+ * help), so `tunebench analyze` never evaluates the instrument layer, the
+ * simulator, the procedures or the browser server, and `--help` evaluates
+ * none of them. In the prebuilt bundle esbuild turns each `import()` below
+ * into a lazily initialised part of the one file.
  */
-import { analyzeCommand } from './cmd-analyze.ts';
-import { campaignCommand } from './cmd-campaign.ts';
-import { checkCommand } from './cmd-check.ts';
-import { datasheetCommand } from './cmd-datasheet.ts';
-import { demoCommand } from './cmd-demo.ts';
-import { driftCommand } from './cmd-drift.ts';
-import { pushingCommand } from './cmd-pushing.ts';
-import { runsCommand } from './cmd-runs.ts';
-import { schemaCommand } from './cmd-schema.ts';
-import { serveCommand } from './cmd-serve.ts';
-import { simCommand } from './cmd-sim.ts';
-import { sweepCommand } from './cmd-sweep.ts';
 import type { CliCommand } from './types.ts';
 
-export const commands: CliCommand[] = [
-  sweepCommand,
-  driftCommand,
-  pushingCommand,
-  campaignCommand,
-  analyzeCommand,
-  datasheetCommand,
-  runsCommand,
-  checkCommand,
-  schemaCommand,
-  simCommand,
-  serveCommand,
-  demoCommand,
+export interface CommandEntry {
+  name: string;
+  /** One line for `tunebench --help`. */
+  summary: string;
+  load(): Promise<CliCommand>;
+}
+
+export const commands: CommandEntry[] = [
+  {
+    name: 'sweep',
+    summary: 'gain sweep of the DUT into a new run folder',
+    load: async () => (await import('./cmd-sweep.ts')).sweepCommand,
+  },
+  {
+    name: 'drift',
+    summary: 'drift log at a fixed control voltage (frequency + temperature)',
+    load: async () => (await import('./cmd-drift.ts')).driftCommand,
+  },
+  {
+    name: 'pushing',
+    summary: 'supply pushing (Hz/V) at a fixed control voltage',
+    load: async () => (await import('./cmd-pushing.ts')).pushingCommand,
+  },
+  {
+    name: 'campaign',
+    summary: 'characterisation over temperature (chamber), supply corners and units',
+    load: async () => (await import('./cmd-campaign.ts')).campaignCommand,
+  },
+  {
+    name: 'analyze',
+    summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
+    load: async () => (await import('./cmd-analyze.ts')).analyzeCommand,
+  },
+  {
+    name: 'datasheet',
+    summary: 'gain table over one or more runs (Markdown, CSV or HTML)',
+    load: async () => (await import('./cmd-datasheet.ts')).datasheetCommand,
+  },
+  {
+    name: 'runs',
+    summary: 'list saved runs: id, kind, status, DUT id, start time',
+    load: async () => (await import('./cmd-runs.ts')).runsCommand,
+  },
+  {
+    name: 'check',
+    summary: 'connect-only bring-up of a bench: a pass/fail line per instrument',
+    load: async () => (await import('./cmd-check.ts')).checkCommand,
+  },
+  {
+    name: 'schema',
+    summary: 'print the JSON Schema of a bench, plan, profile or DUT file',
+    load: async () => (await import('./cmd-schema.ts')).schemaCommand,
+  },
+  {
+    name: 'sim',
+    summary: 'serve the simulated bench (supply, counter, thermometer, chamber) on TCP ports',
+    load: async () => (await import('./cmd-sim.ts')).simCommand,
+  },
+  {
+    name: 'serve',
+    summary: 'browser mode: serve the app on 127.0.0.1 with an access token',
+    load: async () => (await import('./cmd-serve.ts')).serveCommand,
+  },
+  {
+    name: 'demo',
+    summary: 'simulated sweep of a built-in DUT and its gain table (seconds, no instruments)',
+    load: async () => (await import('./cmd-demo.ts')).demoCommand,
+  },
 ];

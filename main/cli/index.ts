@@ -36,11 +36,12 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     io.stdout.write('tunebench 0.1.0\n');
     return 0;
   }
-  const command = commands.find((c) => c.name === name);
-  if (!command) {
+  const entry = commands.find((c) => c.name === name);
+  if (!entry) {
     io.stderr.write(`tunebench: unknown command "${name}"\n\n${mainHelp()}`);
     return 2;
   }
+  const command = await entry.load();
   const beforeSeparator = argsBeforeSeparator(rest);
   if (beforeSeparator.includes('--help') || beforeSeparator.includes('-h')) {
     io.stdout.write(`${command.usage.trimEnd()}\n`);

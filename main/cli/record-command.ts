@@ -19,7 +19,6 @@ export const RECORDING_FLAGS: FlagSpec = { values: ['bench', 'plan', 'runs', 'du
 
 export interface RecordingCommandSpec<P extends { safe: SafeState }, O extends ProcedureOutcome> {
   name: string;
-  summary: string;
   usage: string;
   /** Flags beyond RECORDING_FLAGS. */
   flags?: FlagSpec;
@@ -84,5 +83,5 @@ async function runRecording<P extends { safe: SafeState }, O extends ProcedureOu
 export function recordingCommand<P extends { safe: SafeState }, O extends ProcedureOutcome>(
   spec: RecordingCommandSpec<P, O>,
 ): CliCommand {
-  return { name: spec.name, summary: spec.summary, usage: spec.usage, run: (argv, io) => runRecording(spec, argv, io) };
+  return { name: spec.name, usage: spec.usage, run: (argv, io) => runRecording(spec, argv, io) };
 }

@@ -4,7 +4,6 @@
  * wired to SIGINT/SIGTERM, progress on stderr, and the mapping of outcomes
  * and errors to exit codes (0 done, 1 work failed, 2 bad input).
  */
-import { homedir } from 'node:os';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { stopOnSignals } from '../procedures/exit-guard.ts';
 import { goSafe } from '../procedures/safe-state.ts';
@@ -13,7 +12,6 @@ import { LimitsError } from '../procedures/limits.ts';
 import { RunControl } from '../procedures/run-control.ts';
 import type { RecordOptions } from '../procedures/recorded-run.ts';
 import type { ProcedureOutcome } from '../procedures/types.ts';
-import { resolveRunsDir } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
@@ -37,9 +35,7 @@ export function parseDutName(text: string | undefined): DefaultDut {
   throw new UsageError(`--dut: expected relaxation or varactor, got "${text}"`);
 }
 
-export function runsDirFrom(flag: string | undefined, io: CliIo): string {
-  return resolveRunsDir(flag, io.env, process.platform, homedir());
-}
+export { runsDirFrom } from './runs-dir-flag.ts';
 
 /** Turns a bad file, plan or address into a UsageError (exit 2) that names the field. */
 export function asUsageError(error: unknown): never {

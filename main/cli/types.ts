@@ -1,6 +1,7 @@
 /**
  * Shape of one `tunebench` sub-command. Each lives in its own module
- * (cmd-<name>.ts) and is registered in ./commands.ts.
+ * (cmd-<name>.ts) and is registered, with its one-line summary, in
+ * ./commands.ts.
  *
  * Exit codes (CONTRACTS.md): 0 done; 1 the work failed; 2 bad input, with a
  * message naming the field and the expected form. Never a stack trace for a
@@ -18,8 +19,6 @@ export interface CliIo {
 
 export interface CliCommand {
   name: string;
-  /** One line for `tunebench --help`. */
-  summary: string;
   /** Full usage text for `tunebench <name> --help`. */
   usage: string;
   run(argv: string[], io: CliIo): Promise<number>;

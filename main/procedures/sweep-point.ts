@@ -1,7 +1,8 @@
 /**
  * One point of a sweep: write the control voltage, settle, read back the
- * control voltage when the supply can, then take the readings, each recorded
- * as it arrives, and flush at the end of the point.
+ * control voltage when the supply can (with automatic settling, while the
+ * counter gates the point's first new reading), then take the readings, each
+ * recorded as it arrives, and flush at the end of the point.
  */
 import type { SweepPlan } from '../../app/contract/plans.ts';
 import { InstrumentError, ReplyFormatError, TimeoutError } from '../instruments/errors.ts';
@@ -145,6 +146,16 @@ export async function measurePoint(
   }
   const settleS = ctx.clock.now() - stepAtS;
 
+  const rule = readingsRule(plan);
+  // The supply is read back while the counter gates the point's first fresh reading (when the rule
+  // needs one beyond the settling's): the link's round trip hides behind the gate. Both come after
+  // settling, as before; the read-back is no earlier than the reading.
+  let prefetched: Promise<{ reading: CounterReading; atS: number }> | null =
+    plan.settle.mode === 'auto' && settledReadings.length < rule.min
+      ? ctx.readFrequency().then((reading) => ({ reading, atS: ctx.clock.now() }))
+      : null;
+  // Handled here too, so a read-back that throws first leaves no unhandled rejection behind.
+  prefetched?.catch(() => undefined);
   const measuredV = await measureControlV(ctx, channel);
   let oscillating = false;
   let noSignal = 0;
@@ -153,14 +164,20 @@ export async function measurePoint(
   const readings = state.readingsHz;
   const trace = state.trace;
   const halfGateS = plan.gateS / 2;
-  const rule = readingsRule(plan);
   let taken = 0;
   for (let r = 0; !enoughReadings(rule, readings, r, 1 / plan.gateS); r++) {
-    const reused = settledReadings[r] ?? null;
-    const reading = reused?.reading ?? (await ctx.readFrequency());
-    const endS = reused?.atS ?? ctx.clock.now();
+    const settling = settledReadings[r] ?? null;
+    // Not one of the settling's readings: it is new to the trace (the prefetched one included).
+    const fresh = settling === null;
+    let early: { reading: CounterReading; atS: number } | null = settling;
+    if (fresh && prefetched !== null) {
+      early = await prefetched;
+      prefetched = null;
+    }
+    const reading = early?.reading ?? (await ctx.readFrequency());
+    const endS = early?.atS ?? ctx.clock.now();
     // The readings also feed the τ fit (as the tail of the settling); the reused one is in the trace already.
-    if (reused === null && reading.status === 'ok' && trace.n < trace.timesS.length) {
+    if (fresh && reading.status === 'ok' && trace.n < trace.timesS.length) {
       trace.timesS[trace.n] = endS - halfGateS - stepAtS;
       trace.valuesHz[trace.n] = reading.frequencyHz;
       trace.n++;

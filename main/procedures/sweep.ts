@@ -14,7 +14,7 @@ import { ProgressReporter, type ProgressListener } from './progress.ts';
 import { bisectEdge, bisectionSteps, findEdge, type EdgeBracket } from './refine-edge.ts';
 import { RunControl } from './run-control.ts';
 import { emptyConditions, recordConditions } from './run-conditions.ts';
-import { measurePoint, newPointState } from './sweep-point.ts';
+import { measurePoint, newPointState, type PointResult } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
 import { sweepSchedule } from './sweep-points.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
@@ -153,13 +153,63 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       }
       await ctx.sink.flush();
     };
+    /** The previous point oscillated (τ can only be learned from a step between two oscillating levels). */
+    let lastOscillated = false;
+    /**
+     * The trial point's step was too small to show τ (a few counts): probe τ with one larger step
+     * and measure the point again, since it may have been read before it settled. Only the new rows
+     * are written. Null when there is nowhere to probe (the rows read stand).
+     */
+    const probeAndRemeasure = async (
+      i: number,
+      controlV: number,
+      upward: boolean,
+      direction: 'up' | 'down',
+      scatterBeforeHz: number,
+    ): Promise<PointResult | null> => {
+      const target = probeTarget(levels, controlV, upward);
+      if (target === null) return null;
+      // The probe is no point of the plan: its time stays out of the ETA's time per point.
+      const probe = await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
+      tauNoted = state.tau.tauS !== null;
+      const pathStepHz = state.lastStepHz;
+      // The point is measured again from the probe voltage, settled there: that is its "before" value
+      // (NaN if the probe saw no oscillation); its step is not like the last one.
+      state.lastMeanHz = probe.endHz;
+      state.lastStepHz = 0;
+      state.fromElsewhere = true;
+      // The trial's readings scatter because they were read on the way: they must not loosen the tolerance.
+      state.scatterHz = scatterBeforeHz;
+      await control.checkpoint(clock);
+      ctx.event({
+        type: 'remeasure',
+        point_index: i,
+        control_v: controlV,
+        reason: 'read before τ was known; its step was too small to show it',
+      });
+      const result = await progress.excludingPoint(() =>
+        measurePoint(
+          ctx,
+          plan,
+          state,
+          { controlV, direction, refined: false, index: i, previouslyProvisional: true },
+          control.signal,
+        ),
+      );
+      // The step along the sweep's path (from the previous point to this one) predicts the next.
+      state.lastStepHz = pathStepHz;
+      return result;
+    };
     for (let i = 0; i < schedule.controlV.length; i++) {
       await control.checkpoint(clock);
       const controlV = schedule.controlV[i] as number;
       const pass = schedule.pass[i] as number;
       const direction = pass === 0 ? 'up' : 'down';
       const mayHold = plan.settle.mode === 'auto' && state.tau.tauS === null && (i === 0 || state.provisionalChain);
-      const held: SampleRow[] | undefined = mayHold ? [] : undefined;
+      // The point after the first oscillating one is a trial: measured with τ unknown, its step teaches
+      // τ when it is large enough to show the lag (then no probe is needed). Its rows wait for that.
+      const trial: boolean = plan.settle.mode === 'auto' && !probed && state.tau.tauS === null && lastOscillated;
+      const held: SampleRow[] | undefined = mayHold || trial ? [] : undefined;
       const measure = () =>
         measurePoint(
           ctx,
@@ -169,10 +219,19 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
           control.signal,
           held,
         );
-      // The step back from the probe voltage is the probe's cost, not a point's: it stays out of the ETA too.
-      const result = await (state.fromElsewhere ? progress.excludingPoint(measure) : measure());
-      if (held && result.provisionalAtS !== null) provisional.push({ i, atS: result.provisionalAtS, rows: held });
+      // The step back from the probe voltage is the probe's cost, not a point's: it stays out of the ETA too;
+      // so does the trial, watched as no later point is.
+      const scatterBefore = state.scatterHz;
+      let result: PointResult = await (state.fromElsewhere || trial ? progress.excludingPoint(measure) : measure());
+      if (trial && state.tau.tauS === null) {
+        probed = true;
+        const retried = await probeAndRemeasure(i, controlV, pass === 0, direction, scatterBefore);
+        if (retried !== null) result = retried;
+        else for (const row of held ?? []) ctx.row(row);
+      } else if (held && result.provisionalAtS !== null)
+        provisional.push({ i, atS: result.provisionalAtS, rows: held });
       else if (held) for (const row of held) ctx.row(row);
+      lastOscillated = result.oscillating;
       if (!tauNoted && state.tau.tauS !== null) {
         tauNoted = true;
         ctx.event({ type: 'settle-tau', tauS: state.tau.tauS, point_index: i });
@@ -183,27 +242,6 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       (oscillating[pass] as Uint8Array)[level] = result.oscillating ? 1 : 0;
       outcome.pointsDone = i + 1;
       progress.report('reading', i + 1, { controlV, frequencyHz: result.lastFrequencyHz, status: result.lastStatus });
-      if (
-        plan.settle.mode === 'auto' &&
-        !probed &&
-        result.oscillating &&
-        i + 1 < schedule.controlV.length &&
-        state.tau.tauS === null
-      ) {
-        probed = true;
-        const target = probeTarget(levels, controlV, pass === 0);
-        // The probe is no point of the plan: its time stays out of the ETA's time per point.
-        const probe =
-          target === null
-            ? null
-            : await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
-        tauNoted = state.tau.tauS !== null;
-        // The next point starts from the probe voltage, settled there: that is its "before" value
-        // (NaN if the probe saw no oscillation); its step is not like the last one.
-        state.lastMeanHz = probe?.endHz ?? Number.NaN;
-        state.lastStepHz = 0;
-        state.fromElsewhere = true;
-      }
     }
 
     // Points still provisional (τ never learned): measured again, waiting maxS for a "no signal".

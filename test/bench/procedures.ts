@@ -25,6 +25,7 @@ import { serveSimBench } from '../../main/sim/tcp-server.ts';
 import type { Clock } from '../../main/time/clock.ts';
 import { RealClock } from '../../main/time/real-clock.ts';
 import { VirtualClock } from '../../main/time/virtual-clock.ts';
+import { floorSeconds, pointsOf } from './sweep-floor-model.ts';
 
 export interface OverheadFigure {
   label: string;
@@ -39,6 +40,8 @@ export interface SettlingFigure {
   autoS: number;
   fixedS: number;
   ratio: number;
+  /** The physics floor of the automatic run's own points (sweep-floor-model.ts): the least any settling could take. */
+  floorS: number;
   maxDiffHz: number;
   allowedHz: number;
   points: number;
@@ -117,11 +120,12 @@ function zeroDelayBench(clock: Clock): BenchRoles {
   return { supply, counter, controlChannel: 1, dutSupplyChannel: 2 };
 }
 
-async function settlingFigure(stepV: number): Promise<SettlingFigure> {
+export async function settlingFigure(stepV: number): Promise<SettlingFigure> {
   const dut = builtinDut('relaxation');
   const slowDut = { ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: 0.05 } };
   const curves: Map<number, number>[] = [];
   const durations: number[] = [];
+  let floorS = Number.NaN;
   for (const settle of [
     { mode: 'auto', maxS: 2 },
     { mode: 'fixed', seconds: 0.5 },
@@ -143,6 +147,7 @@ async function settlingFigure(stepV: number): Promise<SettlingFigure> {
     await runSweep({ bench, plan, clock, sink });
     durations.push(clock.now() - t0);
     await bench.close();
+    if (settle.mode === 'auto') floorS = floorSeconds(pointsOf(sink.rows), 0.05, 0.01, 3);
     const sums = new Map<number, { sum: number; n: number }>();
     for (const row of sink.rows) {
       if (row.status !== 'ok') continue;
@@ -171,7 +176,7 @@ async function settlingFigure(stepV: number): Promise<SettlingFigure> {
     allowedHz = Math.min(allowedHz, allowed);
   }
   const [autoS, fixedS] = durations as [number, number];
-  return { stepV, autoS, fixedS, ratio: autoS / fixedS, maxDiffHz, allowedHz, points };
+  return { stepV, autoS, fixedS, ratio: autoS / fixedS, floorS, maxDiffHz, allowedHz, points };
 }
 
 export async function runProceduresBench(options: { print?: boolean } = {}): Promise<ProceduresBenchResult> {

@@ -13,6 +13,12 @@
  * round trips, the supply's read-back; the target (≤ 1.05× floor) leaves
  * them 5 %.
  *
+ * Each step size also runs on the in-process simulated bench on a virtual
+ * clock: the procedure's own ratio, free of link round trips and of the
+ * machine's load (8 helpers share 2 cores here; wall times stretch with it).
+ * Last, item 3's automatic-vs-fixed ratio (procedures.ts's settling figure,
+ * 10 ms gate) with the floor of its points beside it.
+ *
  * The peer: the hand-written fixed 0.5 s script (peer-fixed-settle.ts) over
  * the same points (no edge search), against the same simulator, in the
  * same run; both curves compared point by point (limit 2 counts).
@@ -21,7 +27,6 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import { sweepPlanSchema, type SweepPlan } from '../../app/contract/plans.ts';
 import { assembleBench } from '../../main/bench/assemble.ts';
@@ -30,7 +35,11 @@ import { sweepSchedule } from '../../main/procedures/sweep-points.ts';
 import { MemorySink } from '../../main/procedures/testing/fake-bench.ts';
 import { builtinDut } from '../../main/sim/builtin-duts.ts';
 import { RealClock } from '../../main/time/real-clock.ts';
+import { VirtualClock } from '../../main/time/virtual-clock.ts';
+import type { DutParams } from '../../main/sim/dut-params.ts';
 import { runPeerScript } from './peer-fixed-settle.ts';
+import { settlingFigure } from './procedures.ts';
+import { floorSeconds, pointsOf, type PointMean } from './sweep-floor-model.ts';
 
 const BIN = fileURLToPath(new URL('../../main/bin/tunebench.mjs', import.meta.url));
 const TAU_S = 0.05;
@@ -59,55 +68,6 @@ async function startSim(dutFile: string): Promise<SimProcess> {
   return { child, supply, counter };
 }
 
-interface PointMean {
-  controlV: number;
-  meanHz: number;
-}
-
-/** Points in the order run, with the mean of their ok readings (NaN when none oscillated). */
-function pointsOf(rows: Record<string, number | string>[]): PointMean[] {
-  const byIndex = new Map<number, { controlV: number; sum: number; n: number }>();
-  for (const row of rows) {
-    const index = row.point_index as number;
-    const p = byIndex.get(index) ?? { controlV: row.control_v as number, sum: 0, n: 0 };
-    if (row.status === 'ok') {
-      p.sum += row.frequency_hz as number;
-      p.n++;
-    }
-    byIndex.set(index, p);
-  }
-  return [...byIndex.entries()]
-    .sort((a, b) => a[0] - b[0])
-    .map(([, p]) => ({ controlV: p.controlV, meanHz: p.n > 0 ? p.sum / p.n : Number.NaN }));
-}
-
-/** Local slope |df/dV| at a point, from its nearest oscillating neighbour on the curve. */
-function localSlope(curve: PointMean[], v: number, f: number): number {
-  let best: PointMean | null = null;
-  for (const p of curve) {
-    if (!Number.isFinite(p.meanHz) || p.controlV === v) continue;
-    if (best === null || Math.abs(p.controlV - v) < Math.abs(best.controlV - v)) best = p;
-  }
-  return best === null ? 0 : Math.abs(best.meanHz - f) / Math.abs(best.controlV - v);
-}
-
-export function floorSeconds(points: PointMean[], tauS: number, gateS: number, readings: number): number {
-  const resolutionHz = 1 / gateS;
-  let total = 0;
-  for (let i = 0; i < points.length; i++) {
-    const p = points[i] as PointMean;
-    total += readings * gateS;
-    if (!Number.isFinite(p.meanHz)) continue;
-    const prev = points[i - 1];
-    const stepHz =
-      prev !== undefined && Number.isFinite(prev.meanHz)
-        ? Math.abs(p.meanHz - prev.meanHz)
-        : Math.abs(p.controlV - (prev?.controlV ?? 0)) * localSlope(points, p.controlV, p.meanHz);
-    if (stepHz > resolutionHz) total += tauS * Math.log(stepHz / resolutionHz);
-  }
-  return total;
-}
-
 function plan(stepV: number): SweepPlan {
   return sweepPlanSchema.parse({
     start: 1.0,
@@ -128,16 +88,24 @@ interface AutoRun {
   timeouts: number;
 }
 
-async function autoSweep(sim: SimProcess, stepV: number): Promise<AutoRun> {
-  const clock = new RealClock();
-  const bench = await assembleBench(
-    { supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 }, counter: { address: sim.counter } },
-    { clock },
-  );
+async function autoSweep(sim: SimProcess | null, stepV: number): Promise<AutoRun> {
+  // sim null: the same DUT and plan on the in-process simulated bench on a virtual clock, where no
+  // link and no other process adds time: the procedure's own figure, whatever the machine's load.
+  const clock = sim === null ? new VirtualClock({ autoAdvance: true }) : new RealClock();
+  const bench =
+    sim === null
+      ? await assembleBench('sim', { clock, sim: { dut: tau50msDut(), seed: 7 } })
+      : await assembleBench(
+          {
+            supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 },
+            counter: { address: sim.counter },
+          },
+          { clock },
+        );
   const sink = new MemorySink();
-  const t0 = performance.now();
+  const t0 = clock.now();
   const outcome = await runSweep({ bench, plan: plan(stepV), clock, sink });
-  const wallS = (performance.now() - t0) / 1000;
+  const wallS = clock.now() - t0;
   await bench.close();
   if (outcome.status !== 'complete') throw new Error(`sweep ${outcome.status}: ${outcome.reason ?? ''}`);
   const probe = sink.eventsOfType('settle-probe')[0];
@@ -149,14 +117,15 @@ async function autoSweep(sim: SimProcess, stepV: number): Promise<AutoRun> {
   };
 }
 
+function tau50msDut(): DutParams {
+  const dut = builtinDut('relaxation');
+  return { ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } };
+}
+
 export async function runSweepFloorBench(): Promise<void> {
   const dir = await mkdtemp(join(tmpdir(), 'tunebench-floor-'));
-  const dut = builtinDut('relaxation');
   const dutFile = join(dir, 'relaxation-tau50ms.json');
-  await writeFile(
-    dutFile,
-    JSON.stringify({ ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } }),
-  );
+  await writeFile(dutFile, JSON.stringify(tau50msDut()));
   const sim = await startSim(dutFile);
   try {
     console.log(
@@ -171,6 +140,12 @@ export async function runSweepFloorBench(): Promise<void> {
       console.log(
         `  step ${stepV * 1000} mV: ${auto.points.length} points in ${auto.wallS.toFixed(2)} s, floor ${floorS.toFixed(2)} s, ratio ${ratio.toFixed(3)} (target ≤ 1.05) ${ratio <= 1.05 ? 'meets' : 'MISSES'}` +
           ` [probe τ ${auto.probeTauS === null ? '–' : `${(auto.probeTauS * 1000).toFixed(1)} ms`}, settle timeouts ${auto.timeouts}, load ${load.toFixed(2)}]`,
+      );
+      const virtual = await autoSweep(null, stepV);
+      const virtualFloorS = floorSeconds(virtual.points, TAU_S, GATE_S, READINGS);
+      console.log(
+        `    same sweep on the in-process simulated bench, virtual clock (no link, no load): ${virtual.wallS.toFixed(2)} s, floor ${virtualFloorS.toFixed(2)} s, ratio ${(virtual.wallS / virtualFloorS).toFixed(3)}` +
+          ` [probe τ ${virtual.probeTauS === null ? '–' : `${(virtual.probeTauS * 1000).toFixed(1)} ms`}]`,
       );
       if (peerDone) continue;
       peerDone = true;
@@ -194,10 +169,24 @@ export async function runSweepFloorBench(): Promise<void> {
       }
       const limitHz = 2 / GATE_S;
       console.log(
-        `  peer (hand-written script: VOLT, sleep 0.5 s, ${READINGS} × READ?, same ${pointsV.length} points, no edge search): ${peer.wallS.toFixed(2)} s [load ${peerLoad.toFixed(2)}]; its own points' floor ${peerFloorS.toFixed(2)} s`,
+        `  peer (hand-written script: VOLT, sleep 0.5 s, ${READINGS} × READ?, same ${pointsV.length} points, no edge search): ${peer.wallS.toFixed(2)} s [load ${peerLoad.toFixed(2)}]; its own points' floor ${peerFloorS.toFixed(2)} s;` +
+          ` its sleeps and gates alone ${(pointsV.length * (0.5 + READINGS * GATE_S)).toFixed(2)} s (what the link and the machine's load add shows here too)`,
       );
       console.log(
         `  tunebench / peer wall time: ${(auto.wallS / peer.wallS).toFixed(3)} (tunebench also refines the edge); largest curve difference ${maxDiffHz.toFixed(1)} Hz over ${compared} points (limit 2 counts = ${limitHz} Hz) ${maxDiffHz <= limitHz ? 'meets' : 'MISSES'}`,
+      );
+    }
+    // Item 3's second target, where the previous benches measured it: automatic against a fixed 0.5 s
+    // settle on the in-process simulated bench (virtual clock), gate 10 ms, 3 readings, 1.6–4.2 V.
+    console.log(
+      '  automatic vs fixed 0.5 s settling (same DUT, in-process simulated bench on a virtual clock, 10 ms gate, 3 readings, 1.6–4.2 V):',
+    );
+    for (const stepV of [0.05, 0.2]) {
+      const f = await settlingFigure(stepV);
+      console.log(
+        `  step ${stepV * 1000} mV: auto ${f.autoS.toFixed(2)} s, fixed ${f.fixedS.toFixed(2)} s, ratio ${f.ratio.toFixed(3)} (target ≤ 0.333) ${f.ratio <= 1 / 3 ? 'meets' : 'MISSES'};` +
+          ` floor of its points ${f.floorS.toFixed(2)} s = ${(f.floorS / f.fixedS).toFixed(3)} of fixed, auto/floor ${(f.autoS / f.floorS).toFixed(3)};` +
+          ` largest curve difference ${f.maxDiffHz.toFixed(1)} Hz (limit ${f.allowedHz.toFixed(0)} Hz = 2 counts) ${f.maxDiffHz <= f.allowedHz ? 'meets' : 'MISSES'} over ${f.points} points`,
       );
     }
   } finally {

@@ -1,0 +1,85 @@
+/**
+ * Where an automatic-settling sweep learns τ: from the step after its first
+ * oscillating point when that step is large enough to show the lag (no
+ * probe), else from one larger probe step, after which that point is
+ * measured again and only its new rows are kept. Relaxation DUT with its
+ * tuning port slowed to τ = 50 ms on the simulated bench, virtual clock; the
+ * reference for "settled" is the same sweep with a fixed 0.5 s settle (10 τ,
+ * common practice).
+ */
+import { describe, expect, it } from 'vitest';
+import { sweepPlanSchema } from '../../app/contract/plans.ts';
+import { assembleBench } from '../bench/assemble.ts';
+import { builtinDut } from '../sim/builtin-duts.ts';
+import { VirtualClock } from '../time/virtual-clock.ts';
+import { runSweep } from './sweep.ts';
+import { MemorySink } from './testing/fake-bench.ts';
+
+async function sweep(
+  stepV: number,
+  gateS: number,
+  settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number },
+) {
+  const dut = builtinDut('relaxation');
+  const slow = { ...dut, tuning: { ...dut.tuning, settleTauS: 0.05 } };
+  const clock = new VirtualClock({ autoAdvance: true });
+  const bench = await assembleBench('sim', { clock, sim: { dut: slow, seed: 3 } });
+  const sink = new MemorySink();
+  const plan = sweepPlanSchema.parse({
+    start: 1.6,
+    stop: 3.6,
+    step: stepV,
+    readingsPerPoint: 3,
+    gateS,
+    settle,
+    refineEdgeV: 0,
+    limits: { maxControlV: 5, currentLimitA: 0.02 },
+  });
+  const outcome = await runSweep({ bench, plan, clock, sink });
+  await bench.close();
+  expect(outcome.status).toBe('complete');
+  const groups = new Map<number, number[]>();
+  for (const row of sink.rows) {
+    const list = groups.get(row.point_index as number) ?? [];
+    list.push(row.frequency_hz as number);
+    groups.set(row.point_index as number, list);
+  }
+  const means = new Map([...groups].map(([i, list]) => [i, list.reduce((a, b) => a + b, 0) / list.length]));
+  return { sink, groups, means };
+}
+
+describe('learning τ in an automatic-settling sweep', () => {
+  it('learns τ from a step of many counts between two oscillating points: no probe, every row kept once', async () => {
+    // 200 mV ≈ 2 kHz ≈ 200 counts at a 100 ms gate.
+    const auto = await sweep(0.2, 0.1, { mode: 'auto', maxS: 2 });
+    const fixed = await sweep(0.2, 0.1, { mode: 'fixed', seconds: 0.5 });
+    expect(auto.sink.eventsOfType('settle-probe')).toHaveLength(0);
+    expect(auto.sink.eventsOfType('remeasure')).toHaveLength(0);
+    const learned = auto.sink.eventsOfType('settle-tau')[0];
+    expect(learned?.point_index).toBe(1);
+    expect(learned?.tauS as number).toBeGreaterThan(0.04);
+    expect(learned?.tauS as number).toBeLessThan(0.065);
+    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
+    // Within 2 counts (20 Hz) of the fixed-settle curve at every point.
+    for (const [i, f] of auto.means)
+      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(20);
+  });
+
+  it('probes when the steps are too small to show τ, then measures that point again and keeps only its new rows', async () => {
+    // 50 mV ≈ 450 Hz ≈ 4.5 counts at a 10 ms gate: under the 10 counts a fit needs.
+    const auto = await sweep(0.05, 0.01, { mode: 'auto', maxS: 2 });
+    const fixed = await sweep(0.05, 0.01, { mode: 'fixed', seconds: 0.5 });
+    expect(auto.sink.eventsOfType('settle-probe')).toHaveLength(1);
+    // (Points read "no signal" right after switch-on are measured again for their own reason.)
+    const again = auto.sink
+      .eventsOfType('remeasure')
+      .filter((e) => e.reason === 'read before τ was known; its step was too small to show it');
+    expect(again).toHaveLength(1);
+    // Measured again right after the probe: the event follows it.
+    const probeAt = auto.sink.events.findIndex((e) => e.type === 'settle-probe');
+    expect(auto.sink.events[probeAt + 1]).toMatchObject({ type: 'remeasure', point_index: again[0]?.point_index });
+    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
+    for (const [i, f] of auto.means)
+      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(200);
+  });
+});
