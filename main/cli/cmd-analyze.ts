@@ -12,6 +12,7 @@ import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
+import { writeJsonChunks } from './json-chunks.ts';
 import { runsDirFrom } from './run-setup.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
@@ -156,7 +157,8 @@ export const analyzeCommand: CliCommand = {
             },
           }
         : result;
-      io.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
+      writeJsonChunks(out, (text) => io.stdout.write(text));
+      io.stdout.write('\n');
     } else {
       if (source.meta) io.stdout.write(`run ${source.label}, status ${source.meta.status}\n`);
       if (source.droppedLines > 0)
