@@ -4,10 +4,12 @@
  * hundreds of MB of text; built whole it doubled the command's peak memory
  * (issue 15 item 9). The text is byte for byte what JSON.stringify gives:
  * plain objects and long arrays are walked here, everything else (and each
- * element of a long array) goes through JSON.stringify itself, re-indented.
+ * block of a long array's elements) goes through JSON.stringify itself,
+ * re-indented. (A block's elements see their index within the block as the
+ * key of a toJSON(key) call; no value tunebench writes has such a toJSON.)
  */
 
-/** Arrays at least this long are written element by element. */
+/** Arrays at least this long are written a block of this many elements at a time. */
 const LONG_ARRAY = 64;
 /** Text is handed to `write` in pieces of about this many characters. */
 const CHUNK_CHARS = 1 << 16;
@@ -42,10 +44,14 @@ export function writeJsonChunks(value: unknown, write: (text: string) => void): 
   const emit = (value: unknown, indent: string): void => {
     const inner = `${indent}  `;
     if (Array.isArray(value) && value.length >= LONG_ARRAY) {
+      // A block of elements at a time through JSON.stringify: its text between "[\n" and "\n]"
+      // is the elements at two spaces, re-indented to this depth.
       put('[');
-      value.forEach((element: unknown, i) => {
-        put(`${i === 0 ? '' : ','}\n${inner}${leaf(element, inner) ?? 'null'}`);
-      });
+      for (let at = 0; at < value.length; at += LONG_ARRAY) {
+        const block = JSON.stringify(value.slice(at, at + LONG_ARRAY), null, 2);
+        const body = block.slice(2, -2);
+        put(`${at === 0 ? '' : ','}\n${indent}${indent === '' ? body : body.replaceAll('\n', `\n${indent}`)}`);
+      }
       put(`\n${indent}]`);
       return;
     }
