@@ -11,7 +11,7 @@ import { findEdges, type Edges } from './sweep-edges.ts';
 import { fitTuningCurve, type FitSpec } from './sweep-fit.ts';
 import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
 import { kvcoSummary } from './sweep-kvco-summary.ts';
-import { groupPoints, pointSummaries, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
+import { groupPoints, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
 import { usableRange, type UsableRange } from './sweep-usable-range.ts';
 import { formatFigure } from './format-figure.ts';
@@ -180,7 +180,7 @@ function pointsJson(
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
   // One object per point, built whole (keys in pointSummaries' order, then the flags): a
   // million-point sweep makes no second object per row and no reshaping of the first.
-  const rows: SweepAnalysis['points'] = new Array(points.count);
+  const rows = new Array<SweepAnalysis['points'][number]>(points.count);
   for (let i = 0; i < points.count; i++) {
     const v = points.v[i] as number;
     const nNoOsc = points.nNoOsc[i] as number;
