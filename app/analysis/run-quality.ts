@@ -7,6 +7,7 @@
  */
 import { numericColumn } from './csv-columns.ts';
 import type { ColumnTable } from '../contract/column-table.ts';
+import { listVolts } from './list-volts.ts';
 
 /** One events.jsonl entry as the reader returns it (anything beyond `type` is optional). */
 export interface RunEventLike {
@@ -88,22 +89,17 @@ export function runQuality(
   };
 }
 
-function listV(values: number[], max = 8): string {
-  const shown = values.slice(0, max).join(', ');
-  return values.length > max ? `${shown} … (${values.length} voltages)` : shown;
-}
-
 /** The warnings a quality record gives (empty when the run was clean). */
 export function qualityWarnings(q: RunQuality): string[] {
   const out: string[] = [];
   if (q.settleTimeouts.count > 0) {
     out.push(
-      `${q.settleTimeouts.count} point(s) hit the settle timeout${q.settleTimeouts.atV.length ? ` (at ${listV(q.settleTimeouts.atV)} V)` : ''}`,
+      `${q.settleTimeouts.count} point(s) hit the settle timeout${q.settleTimeouts.atV.length ? ` (at ${listVolts(q.settleTimeouts.atV)} V)` : ''}`,
     );
   }
   if (q.failedReadings.count > 0) {
     out.push(
-      `${q.failedReadings.count} reading(s) failed (counter timeout or error)${q.failedReadings.atV.length ? ` at ${listV(q.failedReadings.atV)} V` : ''}`,
+      `${q.failedReadings.count} reading(s) failed (counter timeout or error)${q.failedReadings.atV.length ? ` at ${listVolts(q.failedReadings.atV)} V` : ''}`,
     );
   }
   if (q.gaps > 0) out.push(`${q.gaps} gap(s) in the record`);

@@ -11,7 +11,7 @@ import { findEdges, type Edges } from './sweep-edges.ts';
 import { fitTuningCurve, type FitSpec } from './sweep-fit.ts';
 import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
 import { kvcoSummary } from './sweep-kvco-summary.ts';
-import { groupPoints, pointSummaries, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
+import { groupPoints, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
 import type { SweepAnalysis } from './sweep-types.ts';
 import { usableRange, type UsableRange } from './sweep-usable-range.ts';
 import { formatFigure } from './format-figure.ts';
@@ -178,14 +178,23 @@ function pointsJson(
   zoneI1: number,
 ): SweepAnalysis['points'] {
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
-  return pointSummaries(points).map((row, i) => {
-    const inFit = row.v >= model.fromV - tol && row.v <= model.toV + tol;
-    // The flags go onto each row in place: a million-point sweep makes no second copy of its rows.
-    return Object.assign(row, {
+  // One object per point, built whole (keys in pointSummaries' order, then the flags): a
+  // million-point sweep makes no second object per row and no reshaping of the first.
+  const rows = new Array<SweepAnalysis['points'][number]>(points.count);
+  for (let i = 0; i < points.count; i++) {
+    const v = points.v[i] as number;
+    const nNoOsc = points.nNoOsc[i] as number;
+    rows[i] = {
+      v,
+      meanHz: points.meanHz[i] as number,
+      sdHz: points.sdHz[i] as number,
+      readings: (points.nOsc[i] as number) + nNoOsc,
+      noOscillation: nNoOsc,
       unstable: edges.unstable[i] === 1,
       unsettled: points.unsettled[i] === 1,
       edgeZone: i >= zoneI0 && i < zoneI1,
-      fitHz: inFit ? model.value(row.v) : null,
-    });
-  });
+      fitHz: v >= model.fromV - tol && v <= model.toV + tol ? model.value(v) : null,
+    };
+  }
+  return rows;
 }

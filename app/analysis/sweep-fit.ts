@@ -6,6 +6,7 @@
  */
 import { AnalysisError } from './analysis-error.ts';
 import { belowFloor } from './format-figure.ts';
+import { listVolts } from './list-volts.ts';
 import { rmsUncertainty } from './point-uncertainty.ts';
 import { fitPolynomialAuto } from './poly-fit-auto.ts';
 import { fitPolynomial, type PolyFit } from './poly-fit.ts';
@@ -58,7 +59,7 @@ export function fitTuningCurve(
   const { keep, leftOut } = fitPoints(points, f0, f1, options.keepUnsettled ?? false);
   if (leftOut.length > 0) {
     warnings.push(
-      `${leftOut.length} point(s) never settled and are left out of the fit (at ${leftOut.join(', ')} V); --keep-unsettled keeps them`,
+      `${leftOut.length} point(s) never settled and are left out of the fit (at ${listVolts(leftOut)} V); --keep-unsettled keeps them`,
     );
   }
   if (keep.length < 2) throw new AnalysisError(`the fit range holds ${keep.length} usable point(s); need at least 2`);

@@ -4,6 +4,7 @@
  * the best straight line and the widest linear range.
  */
 import { belowFloor } from './format-figure.ts';
+import { listVolts } from './list-volts.ts';
 import type { Edges } from './sweep-edges.ts';
 import { bestLine, fitKvco, widestLinearRange } from './sweep-gain.ts';
 import { localKvcoEntries } from './sweep-local-kvco.ts';
@@ -64,7 +65,7 @@ export function kvcoSummary(
   }
   if (wrongWay.length > 0) {
     warnings.push(
-      `the measured curve falls back beyond its uncertainty at ${wrongWay.join(', ')} V inside the window: Kvco changes sign there`,
+      `the measured curve falls back beyond its uncertainty at ${listVolts(wrongWay)} V inside the window: Kvco changes sign there`,
     );
   }
   const { fromV, toV } = fitJson;

@@ -2,6 +2,7 @@
  * Readings of a sweep grouped into points: one point per control voltage and
  * direction, with mean, standard deviation and counts. Columns throughout.
  */
+import { orderByVoltage } from './voltage-order.ts';
 
 export interface SweepInput {
   /** Control-voltage setpoint of each reading (V). */
@@ -59,7 +60,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
     if ((d === 0 ? 1 : d) === want && Number.isFinite(controlV[i])) idx[m++] = i;
   }
   // Stable order by voltage, then reading order: deterministic grouping.
-  idx.sort((a, b) => (controlV[a] as number) - (controlV[b] as number) || a - b);
+  orderByVoltage(controlV, idx);
   const v = new Float64Array(m);
   const meanHz = new Float64Array(m);
   const sdHz = new Float64Array(m);

@@ -1,7 +1,8 @@
 /**
  * Loads what `analyze` and `datasheet` work on: a run folder (through the
  * store's reader, which also marks dead `running` runs as interrupted, and
- * drops a line a crash tore as every reader of the store does) or a plain CSV
+ * drops a line a crash tore as every reader of the store does; its samples
+ * through the store's column cache, as the app opens a run) or a plain CSV
  * file (through the one plain-CSV reader). Malformed input becomes a
  * UsageError naming file and line.
  */
@@ -14,7 +15,8 @@ import { datasheetRunLabel, runConditions, runHints, type RunHints } from '../..
 import { CsvImportError, readPlainCsv } from '../store/plain-csv.ts';
 import type { RunEventLike } from '../../app/analysis/run-quality.ts';
 import { readRunFolder } from '../store/run-reader.ts';
-import { readSampleTable } from '../store/sample-table.ts';
+import { openSamples } from '../store/cached-samples.ts';
+import { SAMPLES_CSV } from '../store/run-meta.ts';
 import { runIdSchema } from '../store/run-id.ts';
 import { UsageError } from './types.ts';
 
@@ -80,11 +82,13 @@ export async function loadAnalysisSource(given: string, runsDir?: string): Promi
   let events: RunEventLike[] | null = null;
   if (info.isDirectory()) {
     try {
-      const run = await readRunFolder(path);
+      // Through the binary column cache, as the app opens a run: a million-reading run is not parsed again.
+      const { run, table: samples } = await openSamples(join(path, SAMPLES_CSV), {}, (withoutSamples) =>
+        readRunFolder(path, { withoutSamples }),
+      );
       meta = run.meta;
       for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
       events = run.events;
-      const samples = readSampleTable(run.samplesCsv);
       droppedLines = samples.dropped.length;
       if (samples.rowCount === 0) throw new UsageError(`${join(path, 'samples.csv')}: no readings recorded`);
       table = samples;

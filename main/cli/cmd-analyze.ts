@@ -11,6 +11,7 @@ import { parseSiNumber } from '../../app/contract/si.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir } from './campaign-dir.ts';
 import { parseFlags, positiveFlag } from './flags.ts';
+import { writeJsonChunks } from './json-chunks.ts';
 import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
 
@@ -157,7 +158,8 @@ export const analyzeCommand: CliCommand = {
             },
           }
         : result;
-      io.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
+      writeJsonChunks(out, (text) => io.stdout.write(text));
+      io.stdout.write('\n');
     } else {
       if (source.meta) io.stdout.write(`run ${source.label}, status ${source.meta.status}\n`);
       if (source.droppedLines > 0)

@@ -82,6 +82,11 @@ function grown<T extends Float64Array | Uint32Array>(array: T, length: number): 
   return next;
 }
 
+/** The first `rows` values: the array itself when it holds exactly that many (the usual case), else a copy. */
+function trimmed<T extends Float64Array | Uint32Array>(array: T, rows: number): T {
+  return array.length === rows ? array : (array.slice(0, rows) as T);
+}
+
 export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const problems: CsvProblem[] = [];
@@ -128,8 +133,11 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   });
   if (problems.length > 0) fail();
 
-  const guess = Math.max(16, Math.ceil((body.length - body.indexOf('\n')) / 8));
-  let capacity = guess;
+  // One row per remaining line at most: counting them first sizes the columns once (no doubling, no copy at the end).
+  let capacity = body.endsWith('\n') ? 0 : 1;
+  if (headerEnd >= 0)
+    for (let at = body.indexOf('\n', headerEnd + 1); at >= 0; at = body.indexOf('\n', at + 1)) capacity++;
+  capacity = Math.max(1, capacity);
   const readings: Reading[] = [];
   header.forEach((name, column) => {
     if (PLAIN_NUMERIC_COLUMNS.includes(name))
@@ -239,12 +247,12 @@ export function readPlainCsv(text: string, source: string): PlainCsvTable {
   const numeric: Record<string, Float64Array> = {};
   const textColumns: Record<string, CodedTextColumn> = {};
   for (const reading of readings) {
-    if (reading.values) numeric[reading.name] = reading.values.slice(0, rows);
+    if (reading.values) numeric[reading.name] = trimmed(reading.values, rows);
     else if (reading.words)
       textColumns[reading.name] = {
         levels: reading.words.levels,
         codes: Uint8Array.from(reading.words.codes.subarray(0, rows)),
       };
   }
-  return { names: header, numeric, text: textColumns, rowCount: rows, lineOf: lineOf.slice(0, rows), headerLine };
+  return { names: header, numeric, text: textColumns, rowCount: rows, lineOf: trimmed(lineOf, rows), headerLine };
 }
