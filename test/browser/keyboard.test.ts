@@ -17,13 +17,13 @@ if (!hasChromium) console.warn(SKIP_REASON);
 
 const byId = (id: string): string => `[data-testid="${id}"]`;
 
-/** What has the keyboard now: its test id, else its id, else its tag. */
+/** What has the keyboard now: its test id, else its id, else its tag. (In-page scripts are plain JS text.) */
 const focused = (page: Page): Promise<string> =>
-  page.evaluate(() => {
+  page.evaluate<string>(`(() => {
     const at = document.activeElement;
     if (!at || at === document.body) return 'body';
-    return at.getAttribute('data-testid') ?? (at.id ? `#${at.id}` : at.tagName.toLowerCase());
-  });
+    return at.getAttribute('data-testid') ?? (at.id ? '#' + at.id : at.tagName.toLowerCase());
+  })()`);
 
 /** Presses `key` until the focus is on `testId`; fails after `limit` presses. Returns the stops passed. */
 async function tabTo(page: Page, testId: string, key: 'Tab' | 'Shift+Tab' = 'Tab', limit = 80): Promise<string[]> {
@@ -48,24 +48,24 @@ interface Cramped {
  * wraps onto a second line, selects whose chosen option is wider than the box leaves for text.
  */
 const crampedControls = (page: Page): Promise<Cramped[]> =>
-  page.evaluate(() => {
-    const found: { what: string; text: string; why: string }[] = [];
-    const name = (el: Element) => el.getAttribute('data-testid') ?? el.tagName.toLowerCase();
-    const visible = (el: HTMLElement) => el.offsetParent !== null && el.getClientRects().length > 0;
-    for (const button of Array.from(document.querySelectorAll<HTMLElement>('button, a.button'))) {
+  page.evaluate<Cramped[]>(`(() => {
+    const found = [];
+    const name = (el) => el.getAttribute('data-testid') ?? el.tagName.toLowerCase();
+    const visible = (el) => el.offsetParent !== null && el.getClientRects().length > 0;
+    for (const button of document.querySelectorAll('button, a.button')) {
       if (!visible(button)) continue;
       const text = (button.textContent ?? '').trim();
       if (button.scrollWidth > button.clientWidth + 1)
-        found.push({ what: name(button), text, why: `scrollWidth ${button.scrollWidth} > ${button.clientWidth}` });
+        found.push({ what: name(button), text, why: 'scrollWidth ' + button.scrollWidth + ' > ' + button.clientWidth });
       const range = document.createRange();
       range.selectNodeContents(button);
-      const lines = new Set(Array.from(range.getClientRects()).map((rect) => Math.round(rect.top)));
-      if (lines.size > 1) found.push({ what: name(button), text, why: `wraps onto ${lines.size} lines` });
+      const lines = new Set(Array.from(range.getClientRects(), (rect) => Math.round(rect.top)));
+      if (lines.size > 1) found.push({ what: name(button), text, why: 'wraps onto ' + lines.size + ' lines' });
     }
     const probe = document.createElement('span');
     probe.style.cssText = 'position:absolute;visibility:hidden;white-space:pre;left:-9999px';
     document.body.append(probe);
-    for (const select of Array.from(document.querySelectorAll<HTMLSelectElement>('select'))) {
+    for (const select of document.querySelectorAll('select')) {
       if (!visible(select)) continue;
       const style = getComputedStyle(select);
       probe.style.font = style.font;
@@ -75,11 +75,11 @@ const crampedControls = (page: Page): Promise<Cramped[]> =>
       // The text box of a select: its width less padding and the drop-down arrow (about 20 px in Chromium).
       const room = select.clientWidth - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight) - 20;
       if (select.scrollWidth > select.clientWidth + 1 || probe.offsetWidth > room)
-        found.push({ what: name(select), text, why: `needs ${probe.offsetWidth} px, has ${Math.round(room)} px` });
+        found.push({ what: name(select), text, why: 'needs ' + probe.offsetWidth + ' px, has ' + Math.round(room) + ' px' });
     }
     probe.remove();
     return found;
-  });
+  })()`);
 
 describe.skipIf(!hasChromium)('keyboard only, and controls that fit at 1280×800 (Chromium, simulated bench)', () => {
   let app: ServedApp;
@@ -148,7 +148,7 @@ describe.skipIf(!hasChromium)('keyboard only, and controls that fit at 1280×800
     await tabTo(page, 'skip-figures', 'Shift+Tab', 120);
     await page.keyboard.press('Enter');
     expect(await focused(page)).toBe('key-figures');
-    const figures = (await page.evaluate(() => document.activeElement?.textContent)) ?? '';
+    const figures = await page.evaluate<string>(`document.activeElement?.textContent ?? ''`);
     expect(figures).toMatch(/Kvco typ \(best line\)\s*\d.*Hz\/V/);
     await shot('kb-03-key-figures-focused');
   }, 240_000); // a sweep on a busy shared machine
@@ -181,19 +181,19 @@ describe.skipIf(!hasChromium)('keyboard only, and controls that fit at 1280×800
 
   it('no control on any screen has words cut or wrapped at 1280×800', async () => {
     // The check itself finds a cramped select and a wrapping button (so an empty list below means something).
-    await page.evaluate(() => {
+    await page.evaluate(`(() => {
       const box = document.createElement('div');
       box.id = 'cramped-sample';
       box.innerHTML =
         '<select data-testid="sample-select"><option>Rising, then falling</option></select>' +
         '<button type="button" data-testid="sample-button">Stop and keep the log</button>';
       // Widths through the CSSOM: the page's CSP refuses inline style attributes.
-      (box.firstElementChild as HTMLElement).style.width = '70px';
-      (box.lastElementChild as HTMLElement).style.width = '60px';
-      document.getElementById('stage')?.prepend(box);
-    });
+      box.firstElementChild.style.width = '70px';
+      box.lastElementChild.style.width = '60px';
+      document.getElementById('stage').prepend(box);
+    })()`);
     expect((await crampedControls(page)).map((c) => c.what).sort()).toEqual(['sample-button', 'sample-select']);
-    await page.evaluate(() => document.getElementById('cramped-sample')?.remove());
+    await page.evaluate(`document.getElementById('cramped-sample').remove()`);
     const seen: Record<string, Cramped[]> = {};
     for (const screen of ['bench', 'sweep', 'drift', 'runs', 'datasheet', 'loop']) {
       await page.click(byId(`nav-${screen}`));

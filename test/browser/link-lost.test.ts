@@ -94,6 +94,8 @@ describe.skipIf(!hasChromium)('a link lost while idle (Chromium, tunebench serve
     expect(text).toContain(`127.0.0.1:${closedPort}`);
     expect(text).not.toMatch(/lost/);
     await expect(page.getAttribute(byId('connection-badge'), 'data-kind')).resolves.toBe('none');
+    // Words for the user, not the program's insides: no "main checks them again" (issue 11 item 12).
+    expect(await page.textContent('#stage')).not.toMatch(/\bmain\b/i);
     await shot('link-01-refused-first-connection');
     proxy = await startScpiProxy(
       { host: '127.0.0.1', port: portOf(sim.counter) },
