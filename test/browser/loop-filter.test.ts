@@ -70,6 +70,15 @@ describe.skipIf(!hasChromium)('the loop-filter screen (Chromium, simulated bench
     expect(stalled.samples.numeric.frequency_hz?.length ?? 0).toBeGreaterThan(0);
     expect(Array.from(stalled.samples.numeric.frequency_hz ?? []).every((f) => !(f > 0))).toBe(true);
     await page.click(byId('nav-loop'));
+    // The form's own example (5 MHz from 1.25 MHz) does not fit this oscillator: the reference field says why,
+    // once, and the results say where to look.
+    await expect
+      .poll(async () => (await page.locator(byId('loop-reference-error')).count()) > 0, { timeout: 30_000 })
+      .toBe(true);
+    await expect(page.textContent(byId('loop-reference-error'))).resolves.toMatch(/outside this run's tuning range/);
+    await expect(page.textContent(byId('loop-design-error'))).resolves.toMatch(/field marked in red says why/);
+    await expect(page.locator(byId('loop-lock-message')).count()).resolves.toBe(0);
+    await shot('loop-00-example-does-not-fit');
     // A loop of our own for this oscillator (about 2–29 kHz): 20 kHz from a 5 kHz reference, 200 Hz wide.
     await page.fill(byId('loop-reference'), '5k');
     await page.fill(byId('loop-divider'), '4');

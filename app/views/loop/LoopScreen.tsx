@@ -168,7 +168,7 @@ export function LoopScreen() {
         {analysis && 'error' in analysis ? <p className="error-line">Sweep analysis: {analysis.error}</p> : null}
         {point ? (
           <>
-            {point.message ? (
+            {point.message && point.message !== designError?.error ? (
               <p className="warnings" role="alert" data-testid="loop-lock-message">
                 {point.message}
               </p>
@@ -215,7 +215,7 @@ export function LoopScreen() {
         ) : null}
         {designError && !shown ? (
           <p className="error-line" role="alert" data-testid="loop-design-error">
-            {designError.error}
+            No design for these inputs: the field marked in red says why.
           </p>
         ) : null}
         {shown ? (
