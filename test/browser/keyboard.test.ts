@@ -10,12 +10,19 @@
 import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  byId,
+  hasChromium,
+  launchChromium,
+  SCREENS_DIR,
+  serveApp,
+  SKIP_REASON,
+  shotOnFailure,
+  type ServedApp,
+} from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
-
-const byId = (id: string): string => `[data-testid="${id}"]`;
 
 /** What has the keyboard now: its test id, else its id, else its tag. (In-page scripts are plain JS text.) */
 const focused = (page: Page): Promise<string> =>
@@ -94,10 +101,7 @@ describe.skipIf(!hasChromium)('keyboard only, and controls that fit at 1280×800
     page = await browser.newPage({ viewport: { width: 1280, height: 800 }, colorScheme: 'dark' });
   }, 240_000); // may build the renderer first (vite), slow on a busy 2-core machine
 
-  afterEach(async (context) => {
-    if (context.task.result?.state === 'fail')
-      await shot(`failed-kb-${context.task.name.slice(0, 40).replace(/\W+/g, '-')}`);
-  });
+  shotOnFailure('kb', () => page);
 
   afterAll(async () => {
     await browser?.close();

@@ -11,15 +11,14 @@ import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ensureRendererBuilt } from '../../main/server/renderer-build.ts';
 import { startScpiProxy, type ScpiProxy } from '../testing/scpi-proxy.ts';
 import { startServe, startSim, type ServeChild, type SimChild } from '../testing/serve-process.ts';
-import { hasChromium, launchChromium, SCREENS_DIR, SKIP_REASON } from './harness.ts';
+import { byId, hasChromium, launchChromium, SCREENS_DIR, SKIP_REASON, shotOnFailure } from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
 
-const byId = (id: string): string => `[data-testid="${id}"]`;
 const hostPort = (address: string): string => address.replace('tcp://', '');
 const portOf = (address: string): number => Number(address.split(':').at(-1));
 
@@ -54,10 +53,7 @@ describe.skipIf(!hasChromium)('a link lost while idle (Chromium, tunebench serve
     });
   }, 240_000); // may build the renderer first and compiles the CLI twice: slow on a busy 2-core machine
 
-  afterEach(async (context) => {
-    if (context.task.result?.state === 'fail')
-      await shot(`failed-link-${context.task.name.slice(0, 40).replace(/\W+/g, '-')}`);
-  });
+  shotOnFailure('link', () => page);
 
   afterAll(async () => {
     await browser?.close();

@@ -9,12 +9,19 @@
 import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  byId,
+  hasChromium,
+  launchChromium,
+  SCREENS_DIR,
+  serveApp,
+  SKIP_REASON,
+  shotOnFailure,
+  type ServedApp,
+} from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
-
-const byId = (id: string): string => `[data-testid="${id}"]`;
 
 describe.skipIf(!hasChromium)('the loop-filter screen (Chromium, simulated bench)', () => {
   let app: ServedApp;
@@ -36,10 +43,7 @@ describe.skipIf(!hasChromium)('the loop-filter screen (Chromium, simulated bench
     });
   }, 240_000); // may build the renderer first (vite), slow on a busy 2-core machine
 
-  afterEach(async (context) => {
-    if (context.task.result?.state === 'fail')
-      await shot(`failed-loop-${context.task.name.slice(0, 40).replace(/\W+/g, '-')}`);
-  });
+  shotOnFailure('loop', () => page);
 
   afterAll(async () => {
     await browser?.close();

@@ -10,11 +10,9 @@ import { mkdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { byId, hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
-
-const byId = (id: string): string => `[data-testid="${id}"]`;
 
 /** Waits until the text of a test id matches. */
 async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 30_000): Promise<string> {
