@@ -92,7 +92,14 @@ export function createConnectionStore(bench: BenchApi): ConnectionStore {
       },
       reconnect() {
         const config = get().lastConfig;
-        return config === null ? Promise.resolve(false) : get().connect(config);
+        if (config !== null) return get().connect(config);
+        // After a reload the page no longer holds the bench file it opened (addresses, profiles); guessing
+        // one from the addresses alone could drive an instrument with the wrong commands, so say so.
+        set({
+          error:
+            'this page was reloaded since the bench was opened, so it cannot reopen it by itself: choose the instruments again on the Bench screen and connect',
+        });
+        return Promise.resolve(false);
       },
       setPeers(others) {
         set({ peers: others });

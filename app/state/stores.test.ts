@@ -137,6 +137,17 @@ describe('app stores', () => {
     expect(stores.connection.getState().busy).toBe(false);
   });
 
+  it('reconnect opens the last bench again, and says so when this page never opened one', async () => {
+    const { bench } = fakeBench();
+    const stores = createAppStores(bench);
+    expect(await stores.connection.getState().reconnect()).toBe(false);
+    expect(bench.connect).not.toHaveBeenCalled();
+    expect(stores.connection.getState().error).toMatch(/choose the instruments again on the Bench screen/);
+    await stores.connection.getState().connect('sim');
+    await stores.connection.getState().reconnect();
+    expect(vi.mocked(bench.connect).mock.calls).toEqual([['sim'], ['sim']]);
+  });
+
   it('lists runs newest first, deletes with undo, and forgets deleted runs from picks', async () => {
     const { bench } = fakeBench();
     const stores = createAppStores(bench);

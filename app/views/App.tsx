@@ -1,5 +1,5 @@
 /** The shell: top bar (name, bench badge, link state, theme), screen rail, the screen. */
-import { useEffect, useSyncExternalStore } from 'react';
+import { useEffect, useRef, useSyncExternalStore, type MouseEvent } from 'react';
 import { useEffectiveTheme } from './use-theme.ts';
 import { SCREENS, type ScreenName, type ThemeChoice } from '../state/settings-store.ts';
 import { useStore } from '../state/use-store.ts';
@@ -69,6 +69,19 @@ function Notice() {
   );
 }
 
+/**
+ * Moves the keyboard to `selector` (made focusable for the purpose), or to the screen when the screen has no
+ * such part yet (no key figures before a run).
+ */
+function skipTo(event: MouseEvent<HTMLAnchorElement>, selector: string): void {
+  event.preventDefault();
+  const target = document.querySelector<HTMLElement>(selector) ?? document.getElementById('stage');
+  if (!target) return;
+  if (!target.hasAttribute('tabindex')) target.tabIndex = -1;
+  target.focus();
+  target.scrollIntoView({ block: 'start' });
+}
+
 export function App() {
   const { stores } = useApp();
   const screen = useStore(stores.settings, (s) => s.screen);
@@ -80,12 +93,32 @@ export function App() {
   useEffect(() => {
     document.documentElement.dataset.theme = theme;
   }, [theme]);
+  const shownScreen = useRef(screen);
+  useEffect(() => {
+    // A control that changed the screen (e.g. "Use the simulated bench") is gone with the old screen; the
+    // keyboard continues from the new screen's start instead of the top of the page. Not on first load:
+    // there the first Tab belongs to the skip link.
+    if (shownScreen.current === screen) return;
+    shownScreen.current = screen;
+    const at = document.activeElement;
+    if (at === null || at === document.body) document.getElementById('stage')?.focus();
+  }, [screen]);
 
   return (
     <div className="shell">
-      <a className="skip-link" href="#stage" data-testid="skip-link">
+      <a className="skip-link" href="#stage" onClick={(event) => skipTo(event, '#stage')} data-testid="skip-link">
         Skip to the screen
       </a>
+      {screen === 'sweep' || screen === 'drift' ? (
+        <a
+          className="skip-link"
+          href="#stage"
+          onClick={(event) => skipTo(event, '#stage .key-figures')}
+          data-testid="skip-figures"
+        >
+          Skip to the key figures
+        </a>
+      ) : null}
       <header className="topbar">
         <div className="brand">
           <span className="brand-mark" aria-hidden="true" />

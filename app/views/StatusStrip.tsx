@@ -8,7 +8,7 @@
 import type { BenchStatus, RunKind } from '../contract/bench-api.ts';
 import { useStore } from '../state/use-store.ts';
 import { useApp } from './app-context.ts';
-import { clockTime, runKindLabel, stripRunText } from './status-text.ts';
+import { clockTime, linkText, runKindLabel, stripRunText } from './status-text.ts';
 import { planHints } from '../analysis/datasheet-run.ts';
 import { celsius, hzAtResolution, volts } from './units.ts';
 
@@ -30,20 +30,25 @@ function LinksCell({ status }: { status: BenchStatus }) {
   const reconnect = useStore(stores.connection, (s) => s.reconnect);
   const busy = useStore(stores.connection, (s) => s.busy);
   const running = useStore(stores.liveRun, (s) => s.active);
+  const roles = useStore(stores.connection, (s) => s.connection.roles);
   const lost = status.links.filter((link) => link.state === 'lost');
   return (
     <span className="strip-cell strip-links" data-testid="strip-links">
-      {status.links.map((link) => (
-        <span
-          key={link.role}
-          className={`link-dot link-${link.state}`}
-          data-testid={`strip-link-${link.role}`}
-          data-state={link.state}
-          title={link.detail ?? `${link.role}: answering`}
-        >
-          {link.role} {link.state === 'up' ? 'answers' : 'link lost'}
-        </span>
-      ))}
+      {status.links.map((link) => {
+        // A lost link names where the instrument was reached, so the user knows which cable or socket to check.
+        const address = roles.find((r) => r.role === link.role)?.address ?? null;
+        return (
+          <span
+            key={link.role}
+            className={`link-dot link-${link.state}`}
+            data-testid={`strip-link-${link.role}`}
+            data-state={link.state}
+            title={link.detail ?? `${link.role}: answering`}
+          >
+            {linkText(link.role, link.state, address)}
+          </span>
+        );
+      })}
       {lost.length > 0 && !running ? (
         <button
           type="button"
@@ -51,6 +56,7 @@ function LinksCell({ status }: { status: BenchStatus }) {
           onClick={() => void reconnect()}
           disabled={busy}
           data-testid="strip-reconnect"
+          aria-label={`Reconnect the bench (${lost.map((link) => link.role).join(', ')} lost)`}
         >
           Reconnect
         </button>

@@ -25,3 +25,15 @@ describe('safe-state words', () => {
     expect(safeStateWords({})).toMatch(/^the control voltage goes to 0 V .* turns off$/);
   });
 });
+
+describe('lost-link words', () => {
+  it('names the lost instrument with the address it was reached at (none for the simulator)', async () => {
+    const { linkText, lostLinksText } = await import('./status-text.ts');
+    expect(linkText('counter', 'lost', 'tcp://192.168.1.40:5025')).toBe('counter link lost (tcp://192.168.1.40:5025)');
+    expect(linkText('counter', 'lost', 'sim:counter')).toBe('counter link lost');
+    expect(linkText('supply', 'up', 'serial:/dev/ttyUSB0?baud=9600')).toBe('supply answers');
+    expect(lostLinksText([])).toBeNull();
+    expect(lostLinksText(['counter'])).toBe('counter link lost');
+    expect(lostLinksText(['supply', 'counter', 'thermometer'])).toBe('supply, counter and thermometer links lost');
+  });
+});

@@ -43,3 +43,18 @@ export function safeStateWords(plan: unknown): string {
     ? `the control voltage goes to ${level} (the safe level), then the supply output turns off`
     : `the control voltage goes to ${level} (the safe level); the plan keeps the output on`;
 }
+
+/** One instrument's link in the strip: "counter answers", or "counter link lost (tcp://10.0.0.7:5025)". */
+export function linkText(role: string, state: 'up' | 'lost', address: string | null): string {
+  if (state === 'up') return `${role} answers`;
+  return address === null || address === 'sim' || address.startsWith('sim:')
+    ? `${role} link lost`
+    : `${role} link lost (${address})`;
+}
+
+/** The bench badge's words while some links are lost: "counter link lost" / "counter and supply links lost". */
+export function lostLinksText(roles: readonly string[]): string | null {
+  if (roles.length === 0) return null;
+  if (roles.length === 1) return `${roles[0]} link lost`;
+  return `${roles.slice(0, -1).join(', ')} and ${roles.at(-1)} links lost`;
+}

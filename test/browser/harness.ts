@@ -8,7 +8,8 @@ import { existsSync } from 'node:fs';
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { chromium, type Browser } from 'playwright-core';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterEach } from 'vitest';
 import { startBrowserServer, type BrowserServer } from '../../main/server/http-server.ts';
 import { ensureRendererBuilt, PROJECT_ROOT } from '../../main/server/renderer-build.ts';
 import type { BenchService } from '../../main/service/bench-service.ts';
@@ -18,6 +19,9 @@ import { ScaledClock } from '../../main/time/scaled-clock.ts';
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 export const hasChromium = existsSync(CHROMIUM_PATH);
 export const SKIP_REASON = `browser tests skipped: no Chromium at ${CHROMIUM_PATH} (Debian: apt-get install chromium)`;
+
+/** The selector of a stable test id (what the browser tests drive). */
+export const byId = (id: string): string => `[data-testid="${id}"]`;
 
 export const SCREENS_DIR = join(PROJECT_ROOT, 'test-artifacts', 'screens');
 
@@ -70,4 +74,14 @@ export async function serveApp(options: ServeOptions = {}): Promise<ServedApp> {
       await rm(scratch, { recursive: true, force: true });
     },
   };
+}
+
+/** Registers an afterEach that leaves a picture of the page when a test fails: `failed-<prefix>-<test name>.png`. */
+export function shotOnFailure(prefix: string, page: () => Page | undefined): void {
+  afterEach(async (context) => {
+    const shown = page();
+    if (!shown || context.task.result?.state !== 'fail') return;
+    const name = context.task.name.slice(0, 40).replace(/\W+/g, '-');
+    await shown.screenshot({ path: join(SCREENS_DIR, `failed-${prefix}-${name}.png`), fullPage: true });
+  });
 }

@@ -10,11 +10,9 @@ import { mkdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { byId, hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
-
-const byId = (id: string): string => `[data-testid="${id}"]`;
 
 /** Waits until the text of a test id matches. */
 async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 30_000): Promise<string> {
@@ -171,20 +169,37 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     expect(saved.md).toContain('clkmul-vco-01');
   });
 
-  it('logs a short drift and shows the drift and Allan deviation plots', async () => {
+  it('logs a short drift of 100 readings, stops it, and shows the drift and Allan deviation plots', async () => {
     await page.click(byId('nav-drift'));
-    await page.fill(byId('drift-duration'), '120s');
+    // Long enough that the log is still running when 100 readings are in, however slow the machine: at 25×
+    // a 1 s slot is 40 ms of real time, and a loaded machine lets slots pass (by design the log never creeps
+    // to catch up), so the test counts the readings the run recorded instead of trusting a duration.
+    await page.fill(byId('drift-duration'), '1h');
     await page.fill(byId('drift-interval'), '1s');
     await page.click(byId('start-drift'));
     await page.waitForSelector(byId('drift-plot'), { timeout: 20_000 });
+    const runningId = async (): Promise<string> =>
+      (await app.service.listRuns()).find((run) => run.kind === 'drift' && run.status === 'running')?.id ?? '';
+    await expect.poll(runningId, { timeout: 20_000, interval: 200 }).not.toBe('');
+    const id = await runningId();
+    const readings = async (): Promise<number> =>
+      (await app.service.openRun(id)).samples.numeric.frequency_hz?.length ?? 0;
+    await expect.poll(readings, { timeout: 180_000, interval: 500 }).toBeGreaterThanOrEqual(100);
+    await page.click(byId('stop-run'));
+    await page.click(byId('stop-run-yes'));
     await page.waitForSelector(byId('adev-plot'), { timeout: 60_000 });
     await textMatches(page, 'drift-mean', /\d/, 60_000);
     await shot(page, '07-drift-done');
-    const drift = (await app.service.listRuns()).find((run) => run.kind === 'drift');
-    expect(drift?.status).toBe('complete');
-    const detail = await app.service.openRun(drift?.id ?? '');
-    expect(detail.samples.numeric.frequency_hz?.length).toBeGreaterThanOrEqual(100);
-  });
+    // Stopping a log by hand keeps it as a finished log with every reading it took.
+    await expect.poll(async () => (await app.service.openRun(id)).meta.status, { timeout: 30_000 }).toBe('complete');
+    const detail = await app.service.openRun(id);
+    const times = Array.from(detail.samples.numeric.time_s ?? []);
+    expect(times.length).toBeGreaterThanOrEqual(100);
+    // One reading per 1 s slot at most: the log is scheduled on its slots, never faster than the interval asks.
+    const span = (times.at(-1) ?? 0) - (times[0] ?? 0);
+    expect(times.length - 1).toBeLessThanOrEqual(Math.floor(span / 1) + 1);
+    expect(Array.from(detail.samples.numeric.frequency_hz ?? []).every((f) => f > 0)).toBe(true);
+  }, 300_000); // bounded by the reading count, not by the machine's speed
 
   it('a drift log runs while the Bench screen shows its live frequency and "output on", from the run itself', async () => {
     await page.setViewportSize({ width: 1280, height: 800 });

@@ -106,6 +106,8 @@ export const misbehave = {
 export async function startScpiProxy(
   target: { host: string; port: number },
   rules: ProxyRules = {},
+  /** Port to listen on; 0 (default) takes an ephemeral one. A test reopens a closed proxy on its old port. */
+  listenPort = 0,
 ): Promise<ScpiProxy> {
   const log: ProxyLogEntry[] = [];
   const sockets = new Set<net.Socket>();
@@ -162,7 +164,7 @@ export async function startScpiProxy(
   });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => resolve());
+    server.listen(listenPort, '127.0.0.1', () => resolve());
   });
   const info = server.address();
   const port = typeof info === 'object' && info !== null ? info.port : 0;

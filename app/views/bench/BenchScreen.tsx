@@ -104,6 +104,13 @@ export function BenchScreen() {
   const runKind = useStore(stores.liveRun, (s) => s.meta?.kind ?? null);
   const runPlan = useStore(stores.liveRun, (s) => s.meta?.plan);
   const locked = busy || running;
+  // Joined to a string: a store selector must return a stable value.
+  const lostRoles = useStore(stores.connection, (s) =>
+    (s.status?.links ?? [])
+      .filter((link) => link.state === 'lost')
+      .map((link) => link.role)
+      .join(' '),
+  );
   const [drafts, setDrafts] = useState<Record<RoleName, RoleDraft>>(DEFAULT_ROLE_DRAFTS);
   const [errors, setErrors] = useState<RoleErrors>({});
 
@@ -193,6 +200,7 @@ export function BenchScreen() {
               ports={ports}
               profiles={profiles}
               identity={roles.find((r) => r.role === role)?.idn ?? null}
+              linkLost={lostRoles.split(' ').includes(role)}
               disabled={locked}
               onChange={(patch) => setDrafts((all) => ({ ...all, [role]: { ...all[role], ...patch } }))}
             />

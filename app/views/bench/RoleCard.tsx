@@ -16,6 +16,8 @@ export interface RoleCardProps {
   ports: SerialPortInfo[];
   profiles: { name: string; role: string }[];
   identity: string | null;
+  /** The bench status says this role's link is lost (the identity is then what it last answered). */
+  linkLost?: boolean;
   disabled: boolean;
   onChange(patch: Partial<RoleDraft>): void;
 }
@@ -95,8 +97,12 @@ export function RoleCard(props: RoleCardProps) {
           disabled={props.disabled}
         />
       ) : null}
-      <p className="identity" data-testid={`identity-${role}`}>
-        {props.identity ? (
+      <p className={props.linkLost ? 'identity identity-lost' : 'identity'} data-testid={`identity-${role}`}>
+        {props.identity && props.linkLost ? (
+          <>
+            Link lost; last answered as <code>{props.identity}</code>
+          </>
+        ) : props.identity ? (
           <>
             Answers as <code>{props.identity}</code>
           </>

@@ -7,7 +7,7 @@ import { useApp } from '../app-context.ts';
 import { clockTime, safeStateWords } from '../status-text.ts';
 import { duration, volts } from '../units.ts';
 import { ConfirmAction } from './ConfirmAction.tsx';
-import { estimateS, nextEta, planPointS, type ShownEta } from './eta.ts';
+import { shownEta as nextShownEta, type ShownEta } from './eta.ts';
 
 export interface RunControlsProps {
   kind: RunKind;
@@ -37,13 +37,22 @@ export function RunControls(props: RunControlsProps) {
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState(false);
   const pauseRef = useRef<HTMLButtonElement | null>(null);
+  /**
+   * Set by Start, Pause and Resume: the keyboard goes (back) to the Pause/Resume button once it can take it.
+   * Each of them is disabled while its call is out, which drops the focus to the page.
+   */
+  const pauseWantsFocus = useRef(false);
   const mineNow = active && activeKind === props.kind;
-  // After Start the keyboard lands on Pause, the next thing one may need (Start itself is now disabled).
+  // After Start the keyboard lands on Pause, the next thing one may need. Start turns disabled while the
+  // call is out, which drops its focus to the page; Pause is enabled only once the call has returned and
+  // the run is ours, so wait for both (the run can be announced before the call returns).
   useEffect(() => {
+    const pause = pauseRef.current;
+    if (!pauseWantsFocus.current || !mineNow || pending || !pause || pause.disabled) return;
+    pauseWantsFocus.current = false;
     const at = document.activeElement;
-    if (mineNow && (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled)))
-      pauseRef.current?.focus();
-  }, [mineNow]);
+    if (at === null || at === document.body || (at instanceof HTMLButtonElement && at.disabled)) pause.focus();
+  }, [mineNow, pending, paused]);
 
   const act = async (work: () => Promise<unknown>) => {
     setError(null);
@@ -65,7 +74,11 @@ export function RunControls(props: RunControlsProps) {
           type="button"
           className="primary big"
           disabled={!start || active || pending || !connected}
-          onClick={() => start && void act(start)}
+          onClick={() => {
+            if (!start) return;
+            pauseWantsFocus.current = true;
+            void act(start);
+          }}
           data-testid={props.startTestId}
         >
           {props.startLabel}
@@ -73,9 +86,11 @@ export function RunControls(props: RunControlsProps) {
         {paused ? (
           <button
             type="button"
+            ref={pauseRef}
             disabled={!mine || pending}
             onClick={() =>
               void act(async () => {
+                pauseWantsFocus.current = document.activeElement === pauseRef.current;
                 await bridge.api.resumeRun();
                 setPaused(false);
               })
@@ -91,6 +106,7 @@ export function RunControls(props: RunControlsProps) {
             disabled={!mine || pending}
             onClick={() =>
               void act(async () => {
+                pauseWantsFocus.current = document.activeElement === pauseRef.current;
                 await bridge.api.pauseRun();
                 setPaused(true);
               })
@@ -146,9 +162,14 @@ function ProgressLine({ kind }: { kind: RunKind }) {
   const status = useStore(stores.liveRun, (s) => (s.meta?.kind === kind ? s.meta.status : null));
   if (shownEta.current.runId !== runId) shownEta.current = { runId, shown: null };
   // Steady: from the plan and the learned settle time at first, main's measured pace later, counting down in between.
-  const estimate = estimateS(Math.max(0, total - done), done, measuredEta, planPointS(plan, tauS));
-  const previous = shownEta.current.shown;
-  if (previous === null || runClockS !== previous.atS) shownEta.current.shown = nextEta(previous, estimate, runClockS);
+  shownEta.current.shown = nextShownEta(shownEta.current.shown, {
+    total,
+    done,
+    measuredEtaS: measuredEta,
+    plan,
+    tauS,
+    runClockS,
+  });
   const eta = shownEta.current.shown?.etaS ?? null;
   if (progressKind !== kind && status === null) return null;
   const fraction = total > 0 ? Math.min(1, done / total) : 0;

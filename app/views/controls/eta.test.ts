@@ -32,3 +32,22 @@ describe('time left from the plan, kept steady', () => {
     expect(nextEta(second, 0, 13)).toEqual({ etaS: 0, atS: 13 });
   });
 });
+
+describe('the time left shown from the first frame of a run', () => {
+  const plan = { readingsPerPoint: 3, gateS: 0.1, settle: { mode: 'auto', maxS: 2 } };
+  it('is unknown until the run says how many points it plans, then the plan estimate, not 0 s', async () => {
+    const { shownEta } = await import('./eta.ts');
+    // The first frame: no progress yet (total 0). Showing 0 s here used to stick (seen: "3 of 47 points · about 0 s left").
+    const first = shownEta(null, { total: 0, done: 0, measuredEtaS: null, plan, tauS: null, runClockS: 0 });
+    expect(first).toBeNull();
+    // Progress arrives before any reading (run clock still 0): 47 × (3 × 0.15 s + 1 s) = 68.15 s from the plan.
+    const second = shownEta(first, { total: 47, done: 0, measuredEtaS: null, plan, tauS: null, runClockS: 0 });
+    expect(second?.etaS).toBeCloseTo(47 * 1.45, 9);
+    // Three points in, 2 s later, τ learned as 20 ms: counts down and moves a quarter toward the new plan figure.
+    const third = shownEta(second, { total: 47, done: 3, measuredEtaS: null, plan, tauS: 0.02, runClockS: 2 });
+    const counted = 47 * 1.45 - 2;
+    expect(third?.etaS).toBeCloseTo(counted + 0.25 * (44 * (0.45 + Math.log(50) * 0.02) - counted), 9);
+    // A finished run shows 0 at once.
+    expect(shownEta(third, { total: 47, done: 47, measuredEtaS: 5, plan, tauS: 0.02, runClockS: 2 })?.etaS).toBe(0);
+  });
+});

@@ -61,3 +61,34 @@ export function nextEta(previous: ShownEta | null, estimate: number | null, nowS
   if (estimate === 0) return { etaS: 0, atS: nowS };
   return { etaS: counted + 0.25 * (estimate - counted), atS: nowS };
 }
+
+export interface EtaInputs {
+  /** Points (or readings) planned; 0 while the run has not said yet. */
+  total: number;
+  done: number;
+  measuredEtaS: number | null;
+  plan: unknown;
+  /** The tuning port's time constant once the settle probe learned it, s. */
+  tauS: number | null;
+  /** The run's clock at its latest reading, s. */
+  runClockS: number;
+}
+
+/**
+ * The time left to show now, given what was shown before (null at a run's start). Before the run has said
+ * how many points it plans there is nothing to estimate: the answer is "unknown", never 0 s (a 0 shown
+ * first would then only creep toward the real figure).
+ */
+export function shownEta(previous: ShownEta | null, inputs: EtaInputs): ShownEta | null {
+  const estimate =
+    inputs.total > 0
+      ? estimateS(
+          Math.max(0, inputs.total - inputs.done),
+          inputs.done,
+          inputs.measuredEtaS,
+          planPointS(inputs.plan, inputs.tauS),
+        )
+      : null;
+  if (previous !== null && inputs.runClockS === previous.atS && estimate !== null && estimate !== 0) return previous;
+  return nextEta(previous, estimate, inputs.runClockS);
+}

@@ -3,37 +3,27 @@
  * for the entered reference, divider, pump current, bandwidth and phase
  * margin, designed at the lock point N·f_ref on the run's tuning curve; then
  * how crossover and margin move at the Kvco corners of the tuning window. A
- * corner the loop cannot use is listed with its reason, never dropped.
+ * corner the loop cannot use is listed with its reason, never dropped. An
+ * input that cannot be used says why next to its field while the last good
+ * design stays in view, marked as such.
  */
-import { useEffect, useMemo, useState } from 'react';
-import type uPlot from 'uplot';
-import { designLoopFilter, type LoopDesign } from '../../analysis/loop-filter.ts';
-import { RoundedComponents } from './RoundedComponents.tsx';
-import { loopAcrossKvco, logFrequencies, openLoopResponse } from '../../analysis/loop-filter-eval.ts';
-import { loopOperatingPoint, type KvcoCorner } from '../../analysis/loop-operating-point.ts';
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { logFrequencies, openLoopResponse } from '../../analysis/loop-filter-eval.ts';
+import { loopOperatingPoint } from '../../analysis/loop-operating-point.ts';
 import type { SweepAnalysis } from '../../analysis/sweep-types.ts';
-import { errorText } from '../../bridge/bench-call-error.ts';
-import { PlotPanel } from '../../plots/PlotPanel.tsx';
-import { baseOptions, lineSeries, logSiAxis, siAxis, xSeries } from '../../plots/plot-options.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { useEffectiveTheme } from '../use-theme.ts';
 import { Choice, Field, Figure, Panel } from '../controls/Field.tsx';
-import { formatFigure } from '../../analysis/format-figure.ts';
-import { hz, si, when } from '../units.ts';
+import { when } from '../units.ts';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
-import { checkLoopDraft, DEFAULT_LOOP, type LoopDraft } from './loop-inputs.ts';
+import { checkLoopDraft, DEFAULT_LOOP, type LoopDraft, type LoopValues } from './loop-inputs.ts';
+import { CORNER_LABELS, designAtLock, frequencyPoints, offeredSweeps, type DesignOutcome } from './loop-design.ts';
+import { LoopBode } from './LoopBode.tsx';
+import { LoopResults } from './LoopResults.tsx';
 
-const CORNER_LABELS: Record<KvcoCorner['label'], string> = {
-  min: 'Kvco min (window)',
-  lock: 'Kvco at the lock point',
-  max: 'Kvco max (window)',
-};
-
-/** uPlot reads null as a gap; NaN (log of a non-positive gain) would break its ranging. */
-function finiteOrNull(values: Float64Array): (number | null)[] {
-  return Array.from(values, (v) => (Number.isFinite(v) ? v : null));
-}
+type GoodDesign = Extract<DesignOutcome, { ok: true }>;
 
 export function LoopScreen() {
   const { stores } = useApp();
@@ -41,15 +31,22 @@ export function LoopScreen() {
   const runs = useStore(stores.runs, (s) => s.runs);
   const opened = useStore(stores.runs, (s) => s.opened);
   const open = useStore(stores.runs, (s) => s.open);
-  const sweeps = runs.filter((r) => r.kind === 'sweep' && r.status !== 'running');
+  // Sweeps found, once opened, to have no reading with a frequency: not offered.
+  const [noPoints, setNoPoints] = useState<ReadonlySet<string>>(new Set());
+  const sweeps = offeredSweeps(runs, noPoints);
   const [runId, setRunId] = useState<string>('');
   const [draft, setDraft] = useState<LoopDraft>(DEFAULT_LOOP);
-  const chosen = runId || sweeps[0]?.id || '';
+  const chosen = sweeps.some((r) => r.id === runId) ? runId : (sweeps[0]?.id ?? '');
   useEffect(() => {
     if (chosen && !opened[chosen]) void open(chosen);
   }, [chosen, opened, open]);
 
   const run = chosen ? opened[chosen] : undefined;
+  useEffect(() => {
+    if (!run || !chosen) return;
+    const points = frequencyPoints(run.columns.frequency_hz.view(), run.columns.status.view(), run.rows);
+    if (points === 0) setNoPoints((known) => new Set([...known, chosen]));
+  }, [run, chosen]);
   const analysis = useMemo((): { sweep: SweepAnalysis } | { error: string } | null => {
     if (!run) return null;
     const plan = run.detail.meta.plan as { gateS?: unknown } | null;
@@ -58,65 +55,46 @@ export function LoopScreen() {
   }, [run]);
 
   const checked = checkLoopDraft(draft);
+  // While a field cannot be read, the last readable inputs stand (the field says what is wrong).
+  const lastValues = useRef<LoopValues | null>(null);
+  if (checked.values) lastValues.current = checked.values;
+  const typed = checked.values ?? lastValues.current;
+  // One object per distinct set of inputs, so the design and the plots are redone only when an input changes.
+  const typedKey = JSON.stringify(typed);
+  const values = useMemo(() => typed, [typedKey]);
   const point = useMemo(() => {
-    if (!checked.values || !analysis || !('sweep' in analysis)) return null;
-    return loopOperatingPoint(analysis.sweep, checked.values.referenceHz, checked.values.dividerN);
-  }, [analysis, checked.values?.referenceHz, checked.values?.dividerN]);
-  const design = useMemo(():
-    | { design: LoopDesign; checks: (ReturnType<typeof loopAcrossKvco>[number] & { label: string })[] }
-    | { error: string }
-    | null => {
-    if (!checked.values || !point) return null;
-    const v = checked.values;
-    try {
-      const lock = point.corners.find((c) => c.label === 'lock');
-      if (!lock || !lock.usable) return { error: lock?.reason ?? 'no lock point on this sweep' };
-      const made = designLoopFilter({ ...v, kvcoHzPerV: Math.abs(lock.kvcoHzPerV) });
-      // Only corners with loop gain can be checked; the others stay in the table with their reason.
-      const usable = point.corners.filter((c) => c.usable);
-      const checks = loopAcrossKvco(
-        made.filter,
-        { dividerN: v.dividerN, chargePumpA: v.chargePumpA },
-        usable.map((c) => Math.abs(c.kvcoHzPerV)),
-      );
-      return {
-        design: made,
-        checks: checks.map((c, i) => ({ ...c, label: CORNER_LABELS[usable[i]?.label ?? 'lock'] })),
-      };
-    } catch (error) {
-      return { error: errorText(error) };
-    }
-  }, [
-    checked.values?.referenceHz,
-    checked.values?.dividerN,
-    checked.values?.chargePumpA,
-    checked.values?.loopBandwidthHz,
-    checked.values?.phaseMarginDeg,
-    checked.values?.order,
-    point,
-  ]);
+    if (!values || !analysis || !('sweep' in analysis)) return null;
+    return loopOperatingPoint(analysis.sweep, values.referenceHz, values.dividerN);
+  }, [analysis, values?.referenceHz, values?.dividerN]);
+  const outcome = useMemo(
+    (): DesignOutcome | null => (values && point ? designAtLock(point, values) : null),
+    [values, point],
+  );
+  // The last good design on this run stays in view while the inputs cannot make one.
+  const lastGood = useRef<{ runId: string; good: GoodDesign; values: LoopValues } | null>(null);
+  if (outcome?.ok && values) lastGood.current = { runId: chosen, good: outcome, values };
+  const shown = lastGood.current?.runId === chosen ? lastGood.current : null;
+  const stale = shown !== null && (!checked.values || !outcome?.ok);
+  const designError = outcome && !outcome.ok ? outcome : null;
+  const fieldError = (key: keyof LoopDraft): string | undefined =>
+    checked.errors[key] ?? (designError?.field === key ? designError.error : undefined);
 
   const bode = useMemo(() => {
-    if (!design || !('design' in design) || !checked.values) return null;
-    const bw = checked.values.loopBandwidthHz;
+    if (!shown) return null;
+    const bw = shown.values.loopBandwidthHz;
     const freqs = logFrequencies(bw / 100, bw * 100, 300);
-    const responses = design.checks.map((c) =>
+    const responses = shown.good.checks.map((c) =>
       openLoopResponse(
-        design.design.filter,
-        {
-          dividerN: checked.values?.dividerN ?? 1,
-          chargePumpA: checked.values?.chargePumpA ?? 0,
-          kvcoHzPerV: c.kvcoHzPerV,
-        },
+        shown.good.design.filter,
+        { dividerN: shown.values.dividerN, chargePumpA: shown.values.chargePumpA, kvcoHzPerV: c.kvcoHzPerV },
         freqs,
       ),
     );
     return { freqs, responses };
-  }, [design]);
+  }, [shown?.good, shown?.values]);
 
   const edit = (patch: Partial<LoopDraft>) => setDraft((d) => ({ ...d, ...patch }));
-  const f = design && 'design' in design ? design.design.filter : null;
-  const key = `${chosen}|${theme}|${JSON.stringify(checked.values)}`;
+  const key = `${chosen}|${theme}|${JSON.stringify(shown?.values ?? null)}`;
   return (
     <div className="screen screen-sweep">
       <Panel title="Loop to design" className="plan" testId="loop-inputs">
@@ -126,7 +104,7 @@ export function LoopScreen() {
           options={
             sweeps.length > 0
               ? sweeps.map((r) => ({ value: r.id, label: `${r.dut.id} · ${when(r.startedAt)}` }))
-              : [{ value: '', label: 'No finished sweeps yet' }]
+              : [{ value: '', label: 'No finished sweep with readings yet' }]
           }
           onChange={setRunId}
           testId="loop-run"
@@ -137,14 +115,14 @@ export function LoopScreen() {
             unit="Hz"
             value={draft.referenceHz}
             onChange={(referenceHz) => edit({ referenceHz })}
-            error={checked.errors.referenceHz}
+            error={fieldError('referenceHz')}
             testId="loop-reference"
           />
           <Field
             label="Feedback divider N"
             value={draft.dividerN}
             onChange={(dividerN) => edit({ dividerN })}
-            error={checked.errors.dividerN}
+            error={fieldError('dividerN')}
             testId="loop-divider"
           />
         </div>
@@ -154,7 +132,7 @@ export function LoopScreen() {
             unit="A"
             value={draft.chargePumpA}
             onChange={(chargePumpA) => edit({ chargePumpA })}
-            error={checked.errors.chargePumpA}
+            error={fieldError('chargePumpA')}
             hint="100u = 100 µA"
             testId="loop-icp"
           />
@@ -163,7 +141,7 @@ export function LoopScreen() {
             unit="Hz"
             value={draft.loopBandwidthHz}
             onChange={(loopBandwidthHz) => edit({ loopBandwidthHz })}
-            error={checked.errors.loopBandwidthHz}
+            error={fieldError('loopBandwidthHz')}
             testId="loop-bandwidth"
           />
         </div>
@@ -173,7 +151,7 @@ export function LoopScreen() {
             unit="°"
             value={draft.phaseMarginDeg}
             onChange={(phaseMarginDeg) => edit({ phaseMarginDeg })}
-            error={checked.errors.phaseMarginDeg}
+            error={fieldError('phaseMarginDeg')}
             testId="loop-margin"
           />
           <Choice
@@ -190,7 +168,7 @@ export function LoopScreen() {
         {analysis && 'error' in analysis ? <p className="error-line">Sweep analysis: {analysis.error}</p> : null}
         {point ? (
           <>
-            {point.message ? (
+            {point.message && point.message !== designError?.error ? (
               <p className="warnings" role="alert" data-testid="loop-lock-message">
                 {point.message}
               </p>
@@ -226,131 +204,34 @@ export function LoopScreen() {
         ) : null}
       </Panel>
       <div className="results">
-        {design && 'error' in design ? (
-          <p className="error-line" role="alert">
-            {design.error}
+        {!run ? <div className="placeholder">Run a sweep first; its measured Kvco sets the filter.</div> : null}
+        {stale && shown ? (
+          <p className="busy-reason" role="status" data-testid="loop-stale">
+            Showing the design for the last inputs that worked (
+            {formatFigure(shown.values.loopBandwidthHz, 'Hz', { digits: 3 })} bandwidth,{' '}
+            {formatFigure(shown.values.phaseMarginDeg, '', { digits: 3 })}° margin): the field marked in red says what
+            to change.
           </p>
         ) : null}
-        {!run ? <div className="placeholder">Run a sweep first; its measured Kvco sets the filter.</div> : null}
-        {f && design && 'design' in design ? (
-          <div className="sweep-figures">
+        {designError && !shown ? (
+          <p className="error-line" role="alert" data-testid="loop-design-error">
+            No design for these inputs: the field marked in red says why.
+          </p>
+        ) : null}
+        {shown ? (
+          <div className={stale ? 'sweep-figures loop-stale' : 'sweep-figures'}>
             <div className="plots">
               {bode ? (
-                <>
-                  <PlotPanel
-                    testId="loop-magnitude-plot"
-                    title="Open-loop gain"
-                    buildKey={`${key}|mag`}
-                    height={240}
-                    data={() =>
-                      [
-                        Array.from(bode.freqs),
-                        ...bode.responses.map((r) => finiteOrNull(r.magnitudeDb)),
-                      ] as uPlot.AlignedData
-                    }
-                    options={(colors, width, height) =>
-                      baseOptions(
-                        width,
-                        height,
-                        [
-                          xSeries('Hz', 'Frequency'),
-                          ...design.checks.map((c, i) =>
-                            lineSeries(c.label, colors.series[i] ?? colors.text, '', {
-                              value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)} dB`),
-                            }),
-                          ),
-                        ],
-                        [
-                          logSiAxis(colors, 'Offset frequency', 'Hz'),
-                          { ...siAxis(colors, 'Gain', ''), values: (_u, vals) => vals.map((v) => `${v} dB`) },
-                        ],
-                        { scales: { x: { time: false, distr: 3 } } },
-                      )
-                    }
-                  />
-                  <PlotPanel
-                    testId="loop-phase-plot"
-                    title="Open-loop phase"
-                    buildKey={`${key}|phase`}
-                    height={220}
-                    data={() =>
-                      [
-                        Array.from(bode.freqs),
-                        ...bode.responses.map((r) => finiteOrNull(r.phaseDeg)),
-                      ] as uPlot.AlignedData
-                    }
-                    options={(colors, width, height) =>
-                      baseOptions(
-                        width,
-                        height,
-                        [
-                          xSeries('Hz', 'Frequency'),
-                          ...design.checks.map((c, i) =>
-                            lineSeries(c.label, colors.series[i] ?? colors.text, '', {
-                              value: (_u, v) => (v === null ? '—' : `${v.toFixed(1)}°`),
-                            }),
-                          ),
-                        ],
-                        [
-                          logSiAxis(colors, 'Offset frequency', 'Hz'),
-                          { ...siAxis(colors, 'Phase', ''), values: (_u, vals) => vals.map((v) => `${v}°`) },
-                        ],
-                        { scales: { x: { time: false, distr: 3 } } },
-                      )
-                    }
-                  />
-                </>
+                <LoopBode buildKey={key} freqs={bode.freqs} responses={bode.responses} corners={shown.good.checks} />
               ) : null}
             </div>
-            <section className="key-figures" aria-label="Loop filter" data-testid="loop-components">
-              <h2>Components</h2>
-              <dl className="figures">
-                <Figure label="C1" value={si(f.c1F, 'F')} testId="loop-c1" />
-                <Figure label="R2" value={si(f.r2Ohm, 'Ω')} testId="loop-r2" />
-                <Figure label="C2" value={si(f.c2F, 'F')} testId="loop-c2" />
-                {f.r3Ohm !== null ? <Figure label="R3" value={si(f.r3Ohm, 'Ω')} testId="loop-r3" /> : null}
-                {f.c3F !== null ? <Figure label="C3" value={si(f.c3F, 'F')} testId="loop-c3" /> : null}
-              </dl>
-              <h2>At each Kvco</h2>
-              <table className="table" data-testid="loop-checks">
-                <thead>
-                  <tr>
-                    <th scope="col">Kvco</th>
-                    <th scope="col">Crossover</th>
-                    <th scope="col">Margin</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {design.checks.map((c) => (
-                    <tr key={c.label}>
-                      <td>{c.label}</td>
-                      <td>{hz(c.crossoverHz, 3)}</td>
-                      <td>{c.phaseMarginDeg.toFixed(1)}°</td>
-                    </tr>
-                  ))}
-                  {point?.corners
-                    .filter((c) => !c.usable)
-                    .map((c) => (
-                      <tr key={`unusable-${c.label}`} data-testid={`loop-unusable-${c.label}`}>
-                        <td>{CORNER_LABELS[c.label]}</td>
-                        <td colSpan={2}>not usable: {c.reason}</td>
-                      </tr>
-                    ))}
-                </tbody>
-              </table>
-              {design.design.warnings.map((w) => (
-                <p key={w} className="warnings">
-                  {w}
-                </p>
-              ))}
-              <RoundedComponents
-                filter={f}
-                dividerN={checked.values?.dividerN ?? 1}
-                chargePumpA={checked.values?.chargePumpA ?? 0}
-                corners={design.checks}
-              />
-              <p className="muted small">{design.design.source}</p>
-            </section>
+            <LoopResults
+              design={shown.good.design}
+              checks={shown.good.checks}
+              unusable={point?.corners.filter((c) => !c.usable) ?? []}
+              dividerN={shown.values.dividerN}
+              chargePumpA={shown.values.chargePumpA}
+            />
           </div>
         ) : null}
       </div>

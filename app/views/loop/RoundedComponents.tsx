@@ -7,14 +7,15 @@ import { useState } from 'react';
 import { evaluateLoop } from '../../analysis/loop-filter-eval.ts';
 import type { LoopFilter } from '../../analysis/loop-filter.ts';
 import { Choice } from '../controls/Field.tsx';
-import { hz, si } from '../units.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
+import { degreesText } from './bode-options.ts';
 import { roundFilter, type ESeries } from './e-series.ts';
 
 export interface RoundedComponentsProps {
   filter: LoopFilter;
   dividerN: number;
   chargePumpA: number;
-  corners: { label: string; kvcoHzPerV: number; crossoverHz: number; phaseMarginDeg: number }[];
+  corners: readonly { label: string; kvcoHzPerV: number; crossoverHz: number; phaseMarginDeg: number }[];
 }
 
 const R_SERIES: { value: ESeries; label: string }[] = [
@@ -60,7 +61,7 @@ export function RoundedComponents(props: RoundedComponentsProps) {
       <p className="muted">
         {parts
           .filter(([, value]) => value !== null)
-          .map(([name, value, unit]) => `${name} ${si(value, unit, 3)}`)
+          .map(([name, value, unit]) => `${name} ${formatFigure(value, unit, { digits: 3 })}`)
           .join(' · ')}
       </p>
       <table className="table" data-testid="loop-rounded-checks">
@@ -79,14 +80,15 @@ export function RoundedComponents(props: RoundedComponentsProps) {
               kvcoHzPerV: corner.kvcoHzPerV,
             });
             return (
-              <tr key={corner.label}>
+              <tr key={corner.label} data-testid="loop-rounded-row">
                 <td>{corner.label}</td>
                 <td>
-                  {hz(check.crossoverHz, 3)} <span className="muted">({hz(corner.crossoverHz, 3)} designed)</span>
+                  {formatFigure(check.crossoverHz, 'Hz', { digits: 3 })}{' '}
+                  <span className="muted">({formatFigure(corner.crossoverHz, 'Hz', { digits: 3 })} designed)</span>
                 </td>
                 <td>
-                  {check.phaseMarginDeg.toFixed(1)}°{' '}
-                  <span className="muted">({corner.phaseMarginDeg.toFixed(1)}°)</span>
+                  {degreesText(check.phaseMarginDeg)}{' '}
+                  <span className="muted">({degreesText(corner.phaseMarginDeg)} designed)</span>
                 </td>
               </tr>
             );
