@@ -25,32 +25,47 @@ function warmUpText(a: DriftAnalysis): string {
     : `undetermined (log too short for ${formatFigure(a.warmUp.limitPpmPerHour, 'ppm/h', { digits: 3 })})`;
 }
 
+/** A rate or coefficient: "v ± u" when significant, else "not significant over <span> (±σ)", shown plain. */
+function rateFigure(
+  label: string,
+  testId: string,
+  value: number | null,
+  sd: number | null,
+  significant: boolean,
+  unit: string,
+  span: string,
+  missing: string,
+): FigureText {
+  if (value === null) return figure(label, missing, testId, undefined, false);
+  return figure(label, formatSignificance(value, sd, unit, span), testId, undefined, significant);
+}
+
 export function driftKeyFigures(a: DriftAnalysis | null, holdV: number | null): FigureText[] {
   if (!a) return WAITING(holdV);
   const span = formatDuration(a.durationS);
   const gateHz = a.resolutionFloor !== null ? a.resolutionFloor * a.meanHz : null;
-  const tempco =
-    a.tempcoPpmPerC === null
-      ? figure('Tempco', '— (temperature did not move enough)', 'drift-tempco', undefined, false)
-      : figure(
-          'Tempco',
-          formatSignificance(a.tempcoPpmPerC, a.tempcoUncertaintyPpmPerC, 'ppm/°C', span),
-          'drift-tempco',
-          a.tempcoSignificant
-            ? formatFigure(a.tempcoHzPerC, 'Hz/°C', { uncertainty: a.tempcoUncertaintyHzPerC })
-            : undefined,
-          a.tempcoSignificant,
-        );
-  const drift =
-    a.driftPpmPerHour === null
-      ? figure('Drift rate after warm-up', '—', 'drift-rate', undefined, false)
-      : figure(
-          'Drift rate after warm-up',
-          formatSignificance(a.driftPpmPerHour, a.driftUncertaintyPpmPerHour, 'ppm/h', span),
-          'drift-rate',
-          undefined,
-          a.driftSignificant,
-        );
+  const tempco = rateFigure(
+    'Tempco',
+    'drift-tempco',
+    a.tempcoPpmPerC,
+    a.tempcoUncertaintyPpmPerC,
+    a.tempcoSignificant,
+    'ppm/°C',
+    span,
+    '— (temperature did not move enough)',
+  );
+  if (a.tempcoSignificant)
+    tempco.note = formatFigure(a.tempcoHzPerC, 'Hz/°C', { uncertainty: a.tempcoUncertaintyHzPerC });
+  const drift = rateFigure(
+    'Drift rate after warm-up',
+    'drift-rate',
+    a.driftPpmPerHour,
+    a.driftUncertaintyPpmPerHour,
+    a.driftSignificant,
+    'ppm/h',
+    span,
+    '—',
+  );
   return [
     figure('Control held at', setpointText(holdV), 'drift-hold'),
     figure(
