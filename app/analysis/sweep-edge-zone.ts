@@ -81,8 +81,9 @@ export function edgeZone(
   let worst: number | null = null;
   // Leave at least three points above the zone: the range needs two, the rule one more.
   for (let j = edges.usableI0; j < i1 - 3; j++) {
+    // Unsteady points below the usable range scatter too much to anchor a chord.
     let lo = j;
-    while (lo > i0 && (v[j] as number) - (v[lo] as number) < reach) lo--;
+    while (lo > edges.usableI0 && (v[j] as number) - (v[lo] as number) < reach) lo--;
     let hi = j;
     while (hi < i1 - 1 && (v[hi] as number) - (v[j] as number) < reach) hi++;
     if (hi === j || (v[hi] as number) - (v[j] as number) < reach) return none;
