@@ -91,6 +91,22 @@ describe('default spline model on the simulated DUTs over the default usable ran
     });
   }
 
+  for (const seed of [1, 2, 3]) {
+    it(`relaxation DUT, 0.1 V steps from 0.2 V (the app's plan), seed ${seed}: no point past the 4.25 V clamp, Kvco within 2 %`, async () => {
+      // Reproduction: 4.3 V, already on the flat side of the clamp, stayed in the usable range and the
+      // spline bent round the kink (residual SD 23.6 Hz against 6.2 Hz scatter on the app's own sweep).
+      const s = await simSweep('relaxation', seed, { ...base, start: 0.2, stop: 4.8, step: 0.1, direction: 'up' });
+      const a = analyzeSweep(s.input);
+      expect(a.usableRange.toV).toBeLessThanOrEqual(4.25);
+      expect(a.fit.residualStdDevHz).toBeLessThanOrEqual(1.5 * a.fit.pointScatterHz);
+      const { worst, at } = worstKvcoError(a, relaxKvco);
+      expect(worst, `worst at ${at} V`).toBeLessThan(0.02);
+      expect(Math.abs((a.kvco.saturation?.edgeV ?? 0) - 4.25)).toBeLessThanOrEqual(
+        a.kvco.saturation?.uncertaintyV ?? 0,
+      );
+    });
+  }
+
   it('reproduction: the headline Kvco max came from the stall edge point (61.79 kHz/V at 1.55 V on the screen)', async () => {
     const s = await simSweep('relaxation', 1, { ...base, start: 1.2, stop: 4.6, step: 0.05, direction: 'up' });
     const old = analyzeSweep(s.input, { edgeSlopeChange: 0 });

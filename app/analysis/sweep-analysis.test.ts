@@ -96,6 +96,8 @@ describe('analyzeSweep: unstable region, intermittent edge, hysteresis', () => {
     const flagged = result.kvco.local.filter((e) => e.unstable).map((e) => e.v);
     expect(flagged).toEqual([0.6, 0.7]);
     expect(result.kvco.local).toHaveLength(25);
+    // The scattered points anchor no chord of the edge-zone rule: a straight line has no zone.
+    expect(result.usableRange.edgeZone).toBeNull();
   });
   it('interpolates the edge through an intermittent point', () => {
     const readings = lineSweep().map((r, i) => (r.v === 0.5 && i % 2 === 0 ? { ...r, f: 1e5 + 2e5 * 0.5 } : r));

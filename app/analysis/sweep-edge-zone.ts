@@ -23,6 +23,12 @@
  * local Kvco for ρ ≤ 0.05.
  * Checked on the RC charging law and the simulated relaxation DUT
  * (test/gain-truth.test.ts). A block with no stall below it has no zone.
+ *
+ * The same test ends the range at a flat top (`bendEnd`): where a drive clamps
+ * (the sim's at 4.25 V) the slope drops to zero within one step, and the last
+ * point before the flat steps can already sit past the bend (4.3 V in 0.1 V
+ * steps); it leaves while its chord slope misses the trend of the chords below
+ * by more than the limit, so the fit never has to bend round the kink.
  */
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
@@ -75,8 +81,9 @@ export function edgeZone(
   let worst: number | null = null;
   // Leave at least three points above the zone: the range needs two, the rule one more.
   for (let j = edges.usableI0; j < i1 - 3; j++) {
+    // Unsteady points below the usable range scatter too much to anchor a chord.
     let lo = j;
-    while (lo > i0 && (v[j] as number) - (v[lo] as number) < reach) lo--;
+    while (lo > edges.usableI0 && (v[j] as number) - (v[lo] as number) < reach) lo--;
     let hi = j;
     while (hi < i1 - 1 && (v[hi] as number) - (v[j] as number) < reach) hi++;
     if (hi === j || (v[hi] as number) - (v[j] as number) < reach) return none;
@@ -97,4 +104,49 @@ export function edgeZone(
     worst = Math.max(worst ?? 0, Math.expm1(change));
   }
   return none;
+}
+
+/** Highest index in [lo, j) at least one step h below v[j], or -1. */
+function stepBelow(v: Float64Array, lo: number, j: number, reach: number): number {
+  let a = j - 1;
+  while (a >= lo && (v[j] as number) - (v[a] as number) < reach) a--;
+  return a;
+}
+
+/**
+ * End (exclusive) of the usable range [i0, i1) once points past the bend into a
+ * flat top are dropped: the last point leaves while the chord slope of its last
+ * step misses the straight-line trend of the two chords below it (a smooth
+ * curve, even a parabola up to its peak, continues that trend; a kink does
+ * not) by more than `maxSlopeChange` of it beyond 2σ. Call only when a flat
+ * top was found above i1.
+ */
+export function bendEnd(
+  points: PointSet,
+  u: Float64Array,
+  i0: number,
+  i1: number,
+  maxSlopeChange = EDGE_ZONE_SLOPE_CHANGE,
+): number {
+  const h = regularStep(points.v, i0, i1);
+  if (!(h > 0) || !(maxSlopeChange > 0)) return i1;
+  const reach = h * (1 - 1e-6);
+  let end = i1;
+  while (end - i0 > 3) {
+    const j = end - 1;
+    const a = stepBelow(points.v, i0, j, reach);
+    const b = a < 0 ? -1 : stepBelow(points.v, i0, a, reach);
+    const c = b < 0 ? -1 : stepBelow(points.v, i0, b, reach);
+    if (c < 0) break;
+    const last = chord(points, u, a, j);
+    const below = chord(points, u, b, a);
+    const further = chord(points, u, c, b);
+    // Chord slopes at the chords' midpoints, extended linearly to the last one's.
+    const mid = (p: number, q: number): number => ((points.v[p] as number) + (points.v[q] as number)) / 2;
+    const trend = below.s + ((below.s - further.s) * (mid(a, j) - mid(b, a))) / (mid(b, a) - mid(c, b));
+    const sd = Math.hypot(last.sd, 2 * below.sd, further.sd);
+    if (!(Math.abs(last.s - trend) - 2 * sd > maxSlopeChange * Math.abs(trend))) break;
+    end--;
+  }
+  return end;
 }

@@ -5,7 +5,7 @@
  */
 import { AnalysisError } from './analysis-error.ts';
 import { formatFigure } from './format-figure.ts';
-import { edgeZone, type EdgeZone } from './sweep-edge-zone.ts';
+import { bendEnd, edgeZone, type EdgeZone } from './sweep-edge-zone.ts';
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
 
@@ -122,7 +122,9 @@ export function usableRange(
   const i0 = zone.startI;
   const turn = turningPoint(points.meanHz, u, i0, edges.blockI1);
   const afterTurn = turn === null ? edges.blockI1 : turn + 1;
-  const i1 = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
+  const flatEnd = flatTopEnd(points.v, points.meanHz, u, i0, afterTurn, flatFraction);
+  // Past a flat top's bend too: a last point already on the flat side of the kink leaves (sweep-edge-zone.ts).
+  const i1 = flatEnd < afterTurn ? bendEnd(points, u, i0, flatEnd, edgeSlopeChange) : flatEnd;
   let saturation: UsableRange['saturation'] = null;
   if (i1 < afterTurn) {
     saturation = saturationEdge(points.v, points.meanHz, i0, i1);

@@ -12,7 +12,14 @@ import type { ColumnSet } from '../state/columns.ts';
 
 export type AnalysisJob =
   | { kind: 'sweep'; controlV: Float64Array; frequencyHz: Float64Array; direction: Int8Array; gateS: number | null }
-  | { kind: 'drift'; timeS: Float64Array; frequencyHz: Float64Array; temperatureC: Float64Array | null };
+  | {
+      kind: 'drift';
+      timeS: Float64Array;
+      frequencyHz: Float64Array;
+      temperatureC: Float64Array | null;
+      /** Counter gate: ADEV points at the ±1-count floor 1/(gate·f) are marked resolution-limited. */
+      gateS: number | null;
+    };
 
 export type { AnalysisOutcome };
 export type JobResult = AnalysisOutcome<SweepAnalysis> | AnalysisOutcome<DriftAnalysis>;
@@ -28,13 +35,14 @@ export function sweepJob(columns: ColumnSet, n: number, gateS: number | undefine
   };
 }
 
-export function driftJob(columns: ColumnSet, n: number): AnalysisJob {
+export function driftJob(columns: ColumnSet, n: number, gateS?: number): AnalysisJob {
   const input = driftInputFromColumns(columns, n);
   return {
     kind: 'drift',
     timeS: input.timeS,
     frequencyHz: input.frequencyHz,
     temperatureC: input.temperatureC ?? null,
+    gateS: gateS ?? null,
   };
 }
 
@@ -52,5 +60,5 @@ export function runJob(job: AnalysisJob): JobResult {
   const input = job.temperatureC
     ? { timeS: job.timeS, frequencyHz: job.frequencyHz, temperatureC: job.temperatureC }
     : { timeS: job.timeS, frequencyHz: job.frequencyHz };
-  return outcomeOf(() => analyzeDrift(input));
+  return outcomeOf(() => analyzeDrift(input, job.gateS !== null ? { gateS: job.gateS } : {}));
 }

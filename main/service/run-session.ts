@@ -91,10 +91,14 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
   status?.runStarted(runId);
 
   let finished = false;
-  const finishOnce = async (status: Exclude<RunMeta['status'], 'running'>): Promise<RunMeta> => {
+  const finishOnce = async (
+    status: Exclude<RunMeta['status'], 'running'>,
+    conditions?: ProcedureOutcome['conditions'],
+  ): Promise<RunMeta> => {
     if (finished) return writer.meta();
     finished = true;
-    return writer.finish(status);
+    // The conditions the sweep read around itself go into run.json, as `tunebench sweep` writes them (recorded-run.ts).
+    return writer.finish(status, conditions ? { conditions } : undefined);
   };
   const done = (async (): Promise<RunMeta> => {
     let outcome: ProcedureOutcome | null = null;
@@ -117,7 +121,7 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     if (outcome?.failure) emit({ type: 'error', message: `${options.kind} run ${runId}: ${outcome.failure.message}` });
     let final: RunMeta;
     try {
-      final = await finishOnce(outcome?.status ?? 'aborted');
+      final = await finishOnce(outcome?.status ?? 'aborted', outcome?.conditions);
     } catch (error) {
       const message = error instanceof Error ? error.message : String(error);
       emit({ type: 'error', message: `recording the end of run ${runId} failed: ${message}` });

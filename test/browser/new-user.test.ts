@@ -32,7 +32,10 @@ async function shot(page: Page, name: string): Promise<void> {
 
 /** Reads a number out of a figure such as "1.234 MHz/V" (SI prefix applied). */
 function siValue(text: string): number {
-  const match = /(-?\d+(?:\.\d+)?(?:e[+-]?\d+)?)\s*([pnuµmkMG]?)/.exec(text.replace(/\u2212/g, '-'));
+  // A figure "9.08 ± 0.22 kHz/V": the value, then the prefix after its ±.
+  const match = /(-?\d+(?:\.\d+)?(?:e[+-]?\d+)?)\s*([pnuµmkMG]?)/.exec(
+    text.replace(/\u2212/g, '-').replace(/ ± [\d.]+/, ''),
+  );
   if (!match) return Number.NaN;
   const scale: Record<string, number> = { p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, m: 1e-3, '': 1, k: 1e3, M: 1e6, G: 1e9 };
   return Number(match[1]) * (scale[match[2] ?? ''] ?? 1);

@@ -102,11 +102,20 @@ export function Panel(props: {
   );
 }
 
-export function Figure(props: { label: string; value: string; testId: string; note?: string }) {
+export function Figure(props: {
+  label: string;
+  value: string;
+  testId: string;
+  note?: string;
+  insignificant?: boolean;
+}) {
   return (
     <div className="figure">
       <dt>{props.label}</dt>
-      <dd data-testid={props.testId}>{props.value}</dd>
+      {/* A figure within 2σ of zero is shown, but never in bold. */}
+      <dd data-testid={props.testId} className={props.insignificant ? 'figure-insignificant' : undefined}>
+        {props.value}
+      </dd>
       {props.note ? <dd className="figure-note">{props.note}</dd> : null}
     </div>
   );

@@ -4,6 +4,7 @@
  * columnSetFromStored and app/views/datasheet/run-analysis.ts, the command
  * through its own loader; both end in buildDatasheet and the shared renderers.
  */
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { buildDatasheet, type DatasheetRun } from '../../analysis/datasheet.ts';
 import { renderDatasheetCsv, renderDatasheetHtml, renderDatasheetMarkdown } from '../../analysis/datasheet-render.ts';
@@ -14,6 +15,11 @@ import { createRun } from '../../../main/store/run-writer.ts';
 import { withTempDir } from '../../../main/store/testing/temp-dir.ts';
 import { VirtualClock } from '../../../main/time/virtual-clock.ts';
 import { runCli } from '../../../main/cli/index.ts';
+import { createBenchService } from '../../../main/service/bench-service.ts';
+import { sweepPort, driftPort, storePort } from '../../../main/service/default-ports.ts';
+import { openBench } from '../../../main/service/open-bench.ts';
+import { ScaledClock } from '../../../main/time/scaled-clock.ts';
+import { parseCallParams } from '../../contract/bench-api-schemas.ts';
 
 async function cli(...argv: string[]): Promise<string> {
   let out = '';
@@ -156,6 +162,58 @@ describe('gain table: screen and command agree', () => {
         'T 23.1 °C; supply 5.00 V; gate 100 ms; window 1.000 V … 3.000 V (usable range)',
       );
       expect(md).toContain('T 23.1 °C; supply 5.00 V; gate 100 ms');
+    });
+  });
+
+  it('a sweep recorded by the app (the service) shows temperature and supply in its conditions, as the command does', async () => {
+    // The reproduction: the app's runs had no run.json `conditions`, so the screen's column read only
+    // "gate 100 ms" where `tunebench sweep` runs read "T 23.0 °C; supply 5.00 V; gate 100 ms".
+    await withTempDir(async (runsDir) => {
+      const clock = new ScaledClock(200);
+      const service = createBenchService({
+        runsDir,
+        openBench: (config) => openBench(config, { clock, simClock: () => clock }),
+        listSerialPorts: async () => [],
+        listProfiles: async () => [],
+        store: storePort(runsDir),
+        procedures: { sweep: sweepPort, drift: driftPort },
+        livePeriodMs: 50,
+        batchMs: 100,
+      });
+      try {
+        const ended = new Promise<void>((resolve) =>
+          service.subscribe((event) => {
+            if (event.type === 'run-ended') resolve();
+          }),
+        );
+        await service.connect('sim');
+        const plan = {
+          start: 1.8,
+          stop: 3.2,
+          step: 0.2,
+          readingsPerPoint: 2,
+          gateS: 0.1,
+          settle: { mode: 'fixed', seconds: 0.05 },
+          refineEdgeV: 0,
+          limits: { maxControlV: 5, currentLimitA: 0.02 },
+        };
+        const call = parseCallParams('startSweep', [plan, 'sensor-osc-9']);
+        if (!call.ok) throw new Error(call.message);
+        const meta = await service.startSweep(...(call.args as [never, string]));
+        await ended;
+        const detail = await service.openRun(meta.id);
+        const columns = columnSetFromStored(detail.samples.numeric, detail.samples.text);
+        const made = datasheetRun(detail.meta, columns, columns.time_s.length);
+        expect(made.message).toBeNull();
+        const sheet = buildDatasheet(made.run ? [made.run] : [], 'App sweep');
+        const conditions = sheet.rows.find((r) => r.key === 'kvcoLine')?.conditions ?? '';
+        expect(conditions).toMatch(/^T \d+\.\d °C; supply 5\.00 V; gate 100 ms/);
+        expect(renderDatasheetMarkdown(sheet)).toBe(
+          await cli('datasheet', join(runsDir, meta.id), '--format', 'md', '--title', 'App sweep'),
+        );
+      } finally {
+        await service.close();
+      }
     });
   });
 

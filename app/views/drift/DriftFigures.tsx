@@ -25,12 +25,15 @@ import {
   withAlpha,
 } from '../../plots/plot-options.ts';
 import { timeTickLabel } from '../../plots/time-ticks.ts';
-import { Figure } from '../controls/Field.tsx';
-import { duration, hz, plain, si, volts } from '../units.ts';
+import { FigureList } from '../FigureList.tsx';
+import { adevColumns, driftKeyFigures } from './drift-key-figures.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 
 export interface DriftSource {
   key: string;
+  /** Counter gate of the log: its ±1-count floor marks ADEV points and bounds the mean's digits. */
+  gateS?: number;
   columns: () => ColumnSet;
   rows: () => number;
   watch?: (notify: () => void) => () => void;
@@ -62,33 +65,7 @@ function DriftKeyFigures({
         </p>
       ) : null}
       <dl className="figures">
-        <Figure label="Control held at" value={volts(holdV)} testId="drift-hold" />
-        <Figure label="Mean frequency" value={hz(a?.meanHz, 8)} testId="drift-mean" />
-        <Figure
-          label="Tempco"
-          value={plain(a?.tempcoPpmPerC, 'ppm/°C')}
-          note={a?.tempcoHzPerC != null ? hz(a.tempcoHzPerC) + '/°C' : undefined}
-          testId="drift-tempco"
-        />
-        <Figure
-          label="Drift rate after warm-up"
-          value={plain(a?.driftPpmPerHour, 'ppm/h')}
-          // A short log cannot pin the rate down: show its standard uncertainty beside it.
-          note={
-            a?.driftUncertaintyPpmPerHour != null ? `± ${plain(a.driftUncertaintyPpmPerHour, 'ppm/h')} (1σ)` : undefined
-          }
-          testId="drift-rate"
-        />
-        <Figure
-          label="Warm-up"
-          value={a ? (a.warmUp.settled ? duration(a.warmUp.warmUpS) : 'not settled') : '—'}
-          testId="drift-warmup"
-        />
-        <Figure
-          label="Logged"
-          value={a ? `${a.samples} readings over ${duration(a.durationS)}` : '—'}
-          testId="drift-count"
-        />
+        <FigureList figures={driftKeyFigures(a, holdV)} />
       </dl>
     </section>
   );
@@ -98,7 +75,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
   const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () =>
-    driftJob(source.columns(), source.rows()),
+    driftJob(source.columns(), source.rows(), source.gateS),
   );
   const analysis = outcome?.ok ? outcome.analysis : null;
   // Set by the last data() call: whether the time plot shows slices (band + mean) or the readings themselves.
@@ -141,6 +118,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     [analysis],
   );
   const buildKey = `${source.key}|${source.theme}`;
+  const adev = analysis && analysis.adev.length > 0 ? adevColumns(analysis) : null;
   return (
     <div className="sweep-figures">
       <div className="plots">
@@ -173,7 +151,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 lineSeries('Highest in slice', 'transparent', 'Hz', { width: 0 }),
                 lineSeries('Temperature', colors.series[1], '°C', {
                   scale: '°C',
-                  value: (_u, v) => (v === null ? '—' : `${v.toFixed(3)} °C`),
+                  value: (_u, v) => formatFigure(v, '°C', { digits: 4 }),
                 }),
               ],
               [
@@ -211,7 +189,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 width,
                 height,
                 [
-                  { label: 'Temperature', value: (_u, v) => (v === null ? '—' : `${v.toFixed(2)} °C`) },
+                  { label: 'Temperature', value: (_u, v) => formatFigure(v, '°C', { digits: 4 }) },
                   pointSeries('Frequency', colors.series[0], 'Hz', {
                     points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] },
                   }),
@@ -229,33 +207,46 @@ export function DriftFigures({ source }: { source: DriftSource }) {
             }
           />
         ) : null}
-        {analysis && analysis.adev.length > 0 ? (
+        {adev ? (
           <PlotPanel
             testId="adev-plot"
             title="Allan deviation (overlapping) of fractional frequency"
             buildKey={`${buildKey}|adev`}
             height={240}
-            data={() => [analysis.adev.map((p) => p.tauS), analysis.adev.map((p) => p.adev)] as uPlot.AlignedData}
+            data={() => [adev.tauS, adev.adev, adev.limited] as uPlot.AlignedData}
             options={(colors, width, height) =>
               baseOptions(
                 width,
                 height,
                 [
-                  { label: 'τ', value: (_u, v) => (v === null ? '—' : si(v, 's', 3)) },
+                  { label: 'τ', value: (_u, v) => formatFigure(v, 's', { digits: 3 }) },
                   lineSeries('σy(τ)', colors.series[2], '', {
                     points: { show: true, size: 5 },
-                    value: (_u, v) => (v === null ? '—' : v.toExponential(3)),
+                    value: (_u, v) => formatFigure(v, '', { digits: 3 }),
+                  }),
+                  // At or below the counter's ±1-count floor 1/(gate·f): the counter, not the oscillator.
+                  pointSeries('resolution-limited (±1 count)', colors.text, '', {
+                    points: { show: true, size: 11, width: 2, stroke: colors.text, fill: 'transparent' },
+                    value: (_u, v) => (v === null ? '—' : formatFigure(v, '', { digits: 3 })),
                   }),
                 ],
                 [
                   logSiAxis(colors, 'Averaging time τ', 's'),
                   {
                     ...siAxis(colors, 'σy(τ)', ''),
-                    values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))),
+                    values: (_u, vals) => vals.map((v) => (v === null ? '' : formatFigure(v, '', { digits: 1 }))),
                   },
                 ],
                 { scales: { x: { time: false, distr: 3 }, y: { distr: 3 } } },
               )
+            }
+            footer={
+              adev.limited.some((v) => v !== null) ? (
+                <span className="mark-key" data-testid="adev-limited-key">
+                  ○ ring: at or below the counter&apos;s ±1-count floor 1/(gate·f) ={' '}
+                  {formatFigure(analysis?.resolutionFloor, '', { digits: 2 })}: resolution-limited, not the oscillator
+                </span>
+              ) : undefined
             }
           />
         ) : null}

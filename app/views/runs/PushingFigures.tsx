@@ -4,13 +4,11 @@
  */
 import { useMemo } from 'react';
 import type uPlot from 'uplot';
-import { formatSiWithUncertainty } from '../../analysis/format-si.ts';
 import type { ColumnSet } from '../../state/columns.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
-import { Figure } from '../controls/Field.tsx';
-import { hz, plain, volts } from '../units.ts';
-import { analyzePushingColumns, pushingPlotColumns } from './pushing-figures.ts';
+import { FigureList } from '../FigureList.tsx';
+import { analyzePushingColumns, pushingKeyFigures, pushingPlotColumns } from './pushing-figures.ts';
 
 export interface PushingSource {
   key: string;
@@ -52,19 +50,7 @@ export function PushingFigures({ source }: { source: PushingSource }) {
         <h2>Supply pushing</h2>
         {!outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
         <dl className="figures">
-          <Figure
-            label="Pushing"
-            value={a ? formatSiWithUncertainty(a.pushingHzPerV, a.pushingUncertaintyHzPerV, 'Hz/V') : '—'}
-            testId="pushing-hz-per-v"
-          />
-          <Figure label="Pushing, relative" value={plain(a?.pushingPpmPerV, 'ppm/V')} testId="pushing-ppm-per-v" />
-          <Figure
-            label="Nominal supply"
-            value={volts(a?.nominalSupplyV)}
-            note={a ? `f there ${hz(a.frequencyAtNominalHz, 8)}` : undefined}
-            testId="pushing-nominal"
-          />
-          <Figure label="Supply steps" value={a ? String(a.points.length) : '—'} testId="pushing-steps" />
+          <FigureList figures={pushingKeyFigures(a)} />
         </dl>
       </section>
     </div>

@@ -8,11 +8,18 @@ import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { useEffectiveTheme } from '../use-theme.ts';
-import { hzPerV, when } from '../units.ts';
+import { when } from '../units.ts';
 import { Choice } from '../controls/Field.tsx';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
 import { planHints } from '../../analysis/datasheet-run.ts';
-import { archiveRows, NO_FILTER, type ArchiveFilter, type ArchiveSort, type ArchiveSortKey } from './archive-view.ts';
+import {
+  archiveRows,
+  kvcoText,
+  NO_FILTER,
+  type ArchiveFilter,
+  type ArchiveSort,
+  type ArchiveSortKey,
+} from './archive-view.ts';
 import { differenceColumns, pointMeans } from './difference.ts';
 import { overlayColumns } from './overlay.ts';
 import { RunDetailView } from './RunDetailView.tsx';
@@ -58,6 +65,8 @@ function ImportCsv() {
 
 /** Kvco (best-line slope) of finished sweeps, worked out one at a time in the background as the archive shows them. */
 const kvcoCache = new Map<string, number | null>();
+/** Each Kvco's 1σ, so the column shows only the digits it supports. */
+const kvcoUncertainty = new Map<string, number>();
 
 function useArchiveKvco(runs: readonly RunMeta[]): ReadonlyMap<string, number> {
   const { stores } = useApp();
@@ -77,6 +86,7 @@ function useArchiveKvco(runs: readonly RunMeta[]): ReadonlyMap<string, number> {
         }
         const outcome = analyzeColumns(opened.columns, opened.rows, planHints(opened.detail.meta.plan).gateS);
         kvcoCache.set(id, outcome.ok ? outcome.analysis.kvco.linear.slopeHzPerV : null);
+        if (outcome.ok) kvcoUncertainty.set(id, outcome.analysis.kvco.linear.slopeUncertaintyHzPerV);
         // Let the page breathe between runs.
         await new Promise((resolve) => setTimeout(resolve, 0));
       }
@@ -125,7 +135,7 @@ function RunRow({
         <span className={`status status-${run.status}`}>{run.status}</span>
       </td>
       <td className="num" data-testid={`run-kvco-${run.id}`}>
-        {run.kind === 'sweep' ? (kvco === undefined ? '…' : hzPerV(kvco)) : ''}
+        {run.kind === 'sweep' ? (kvco === undefined ? '…' : kvcoText(kvco, kvcoUncertainty.get(run.id))) : ''}
       </td>
       <td className="row-actions">
         <button type="button" onClick={() => void focus(run.id)} data-testid={`run-open-${run.id}`}>

@@ -3,6 +3,7 @@
  * status and date, with Kvco (best-line slope of a sweep) as a column once
  * it is known. Pure: the screen keeps the choices, this orders the rows.
  */
+import { formatFigure } from '../../analysis/format-figure.ts';
 import type { RunKind, RunMeta, RunStatus } from '../../contract/bench-api.ts';
 
 export type ArchiveSortKey = 'started' | 'dut' | 'kind' | 'status' | 'kvco';
@@ -61,4 +62,9 @@ export function archiveRows(
   };
   // Ties keep the newest first.
   return kept.sort((a, b) => compare(a, b) || b.startedAt.localeCompare(a.startedAt));
+}
+
+/** The archive's Kvco cell: the best-line slope ± its 1σ, to the digits the 1σ supports. */
+export function kvcoText(hzPerV: number, uncertaintyHzPerV: number | undefined): string {
+  return formatFigure(hzPerV, 'Hz/V', { uncertainty: uncertaintyHzPerV ?? null });
 }

@@ -8,6 +8,8 @@ import { analyzePushing, type PushingAnalysis } from '../../analysis/pushing-ana
 import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
 import { pushingInputFromColumns } from '../../state/column-inputs.ts';
 import type { ColumnSet } from '../../state/columns.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
+import { figure, setpointText, type FigureText } from '../figure-text.ts';
 
 export type PushingOutcome = AnalysisOutcome<PushingAnalysis>;
 
@@ -31,4 +33,56 @@ export function pushingPlotColumns(analysis: PushingAnalysis): PushingPlotColumn
     meanHz: points.map((p) => (Number.isFinite(p.meanHz) ? p.meanHz : null)),
     lineHz: points.map((p) => line(p.supplyV)),
   };
+}
+
+/**
+ * The pushing figures as text, through the one formatter: Hz/V ± u, ppm/V with
+ * the same relative uncertainty, "not significant (±σ)" within 2σ (never bold).
+ */
+export function pushingKeyFigures(a: PushingAnalysis | null): FigureText[] {
+  if (!a) {
+    return [
+      figure('Pushing', '—', 'pushing-hz-per-v'),
+      figure('Pushing, relative', '—', 'pushing-ppm-per-v'),
+      figure('Nominal supply', '—', 'pushing-nominal'),
+      figure('Supply steps', '—', 'pushing-steps'),
+    ];
+  }
+  const ppmU =
+    a.pushingHzPerV !== 0 ? Math.abs((a.pushingUncertaintyHzPerV / a.pushingHzPerV) * a.pushingPpmPerV) : NaN;
+  const significant = a.pushingSignificant;
+  // The line's value mid-range is known to about the points' mean scatter over √(number of steps).
+  const scatter = a.points.filter((p) => p.readings > 1 && Number.isFinite(p.sdHz));
+  const fU =
+    scatter.length > 0
+      ? Math.sqrt(scatter.reduce((sum, p) => sum + (p.sdHz * p.sdHz) / p.readings, 0) / scatter.length) /
+        Math.sqrt(a.points.length)
+      : null;
+  return [
+    figure(
+      'Pushing',
+      significant
+        ? formatFigure(a.pushingHzPerV, 'Hz/V', { uncertainty: a.pushingUncertaintyHzPerV })
+        : `not significant (±${formatFigure(a.pushingUncertaintyHzPerV, 'Hz/V', { digits: 2 })})`,
+      'pushing-hz-per-v',
+      undefined,
+      significant,
+    ),
+    figure(
+      'Pushing, relative',
+      significant
+        ? formatFigure(a.pushingPpmPerV, 'ppm/V', { uncertainty: ppmU })
+        : `not significant (±${formatFigure(ppmU, 'ppm/V', { digits: 2 })})`,
+      'pushing-ppm-per-v',
+      undefined,
+      significant,
+    ),
+    figure(
+      'Nominal supply',
+      setpointText(a.nominalSupplyV),
+      'pushing-nominal',
+      `f there ${formatFigure(a.frequencyAtNominalHz, 'Hz', fU ? { uncertainty: fU } : { digits: 7 })}`,
+    ),
+    figure('Supply steps', String(a.points.length), 'pushing-steps'),
+  ];
 }

@@ -3,6 +3,7 @@
  * conditions around it, the instruments and the time window. Pure, so the
  * wording is tested with real plans.
  */
+import { formatFigure } from '../../analysis/format-figure.ts';
 import { formatNumber, formatSi } from '../../analysis/format-si.ts';
 import type { RunMeta } from '../../contract/bench-api.ts';
 import { duration } from '../units.ts';
@@ -114,7 +115,7 @@ export function conditionRows(meta: Pick<RunMeta, 'conditions'>): [string, strin
   const c = meta.conditions;
   if (!c) return [];
   const span = (s: { start: number | null; end: number | null }, unit: string, digits: number) =>
-    `${s.start === null ? '—' : formatSi(s.start, unit, digits)} at start, ${s.end === null ? '—' : formatSi(s.end, unit, digits)} at end`;
+    `${formatFigure(s.start, unit, { digits })} at start, ${formatFigure(s.end, unit, { digits })} at end`;
   return [
     ['DUT supply', span(c.dutSupplyV, 'V', 4)],
     ['Temperature', span(c.temperatureC, '°C', 4)],

@@ -14,8 +14,8 @@ import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plo
 import { deadMarksPlugin } from '../../plots/dead-marks-plugin.ts';
 import { regionsPlugin, type XRegion } from '../../plots/regions-plugin.ts';
 import { buildSweepDisplay, liveStallEstimateV } from '../../plots/sweep-display.ts';
-import { Figure } from '../controls/Field.tsx';
-import { hz, hzPerV, percent, volts } from '../units.ts';
+import { FigureList } from '../FigureList.tsx';
+import { readingText, setpointText } from '../figure-text.ts';
 import { sameSetpointValue } from './direction-readout.ts';
 import {
   fitOnX,
@@ -26,6 +26,7 @@ import {
   usableEndV,
   type SweepOutcome,
 } from './sweep-figures.ts';
+import { sweepKeyFigures } from './sweep-key-figures.ts';
 
 export interface SweepSource {
   /** Identity of the data set (run id); a new id rebuilds the charts. */
@@ -59,66 +60,7 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
         </p>
       ) : null}
       <dl className="figures">
-        <Figure
-          label="Tuning range"
-          value={a ? `${hz(a.tuningRange.fMinHz)} – ${hz(a.tuningRange.fMaxHz)}` : '—'}
-          note={a ? `${volts(a.tuningRange.vAtFMin, 3)} to ${volts(a.tuningRange.vAtFMax, 3)}` : undefined}
-          testId="tuning-range"
-        />
-        <Figure label="Kvco typ (best line)" value={hzPerV(a?.kvco.linear.slopeHzPerV)} testId="kvco-typ" />
-        <Figure
-          label="Kvco min"
-          value={hzPerV(a?.kvco.minHzPerV)}
-          note={a ? `at ${volts(a.kvco.vAtMin, 3)}` : undefined}
-          testId="kvco-min"
-        />
-        <Figure
-          label="Kvco max"
-          value={hzPerV(a?.kvco.maxHzPerV)}
-          note={a ? `at ${volts(a.kvco.vAtMax, 3)}` : undefined}
-          testId="kvco-max"
-        />
-        <Figure
-          label="Linearity (worst deviation from line)"
-          value={percent(a?.kvco.linear.maxLinearityErrorPct)}
-          note={a ? `over ${volts(a.kvco.linear.fromV, 3)} – ${volts(a.kvco.linear.toV, 3)}` : undefined}
-          testId="linearity"
-        />
-        <Figure
-          label="Stall threshold"
-          value={
-            a
-              ? a.stall.thresholdV === null
-                ? 'none in range'
-                : `${volts(a.stall.thresholdV)}${a.stall.thresholdUncertaintyV !== null ? ` ± ${volts(a.stall.thresholdUncertaintyV, 1)}` : ''}`
-              : '—'
-          }
-          note={a?.stall.unstableBelowV != null ? `unsteady below ${volts(a.stall.unstableBelowV, 3)}` : undefined}
-          testId="stall-threshold"
-        />
-        {a?.hysteresis ? (
-          <Figure
-            label="Hysteresis (largest rising − falling)"
-            value={hz(a.hysteresis.curveMaxDeltaHz, 3)}
-            note={[
-              a.hysteresis.curveMaxDeltaAtV !== null
-                ? `at ${volts(a.hysteresis.curveMaxDeltaAtV, 3)}, ${a.hysteresis.commonPoints} setpoints read both ways`
-                : null,
-              a.hysteresis.thresholdDeltaV !== null
-                ? `stall edge moves ${volts(a.hysteresis.thresholdDeltaV, 2)} ± ${volts(a.hysteresis.thresholdDeltaUncertaintyV, 1)}`
-                : null,
-            ]
-              .filter(Boolean)
-              .join('; ')}
-            testId="hysteresis"
-          />
-        ) : null}
-        <Figure
-          label="Fit"
-          value={a ? (a.fit.model === 'spline' ? 'cubic spline (GCV)' : `polynomial, degree ${a.fit.degree}`) : '—'}
-          note={a ? `residual σ ${hz(a.fit.residualStdDevHz, 3)}` : undefined}
-          testId="fit-model"
-        />
+        <FigureList figures={sweepKeyFigures(a)} />
       </dl>
       {a && a.warnings.length > 0 ? (
         <ul className="warnings" data-testid="analysis-warnings">
@@ -132,7 +74,7 @@ export function KeyFigures({ outcome, running }: { outcome: SweepOutcome | null;
 }
 
 /** What the plot's marks mean: the stall wash, the unsteady hatching, the usable-range edge, the × marks. */
-function SweepMarksKey({ end }: { end: number | null }) {
+function SweepMarksKey({ end, zone }: { end: number | null; zone: SweepAnalysis['usableRange']['edgeZone'] }) {
   return (
     <>
       <span className="mark-key" data-testid="key-stall">
@@ -141,10 +83,16 @@ function SweepMarksKey({ end }: { end: number | null }) {
       <span className="mark-key" data-testid="key-unstable">
         <span className="swatch swatch-unstable" aria-hidden="true" /> unsteady oscillation
       </span>
+      {zone ? (
+        <span className="mark-key" data-testid="key-edge-zone">
+          <span className="swatch swatch-edge-zone" aria-hidden="true" /> stall edge&apos;s zone, left out of the usable
+          range ({setpointText(zone.fromV)} – {setpointText(zone.toV)})
+        </span>
+      ) : null}
       {end !== null ? (
         <span className="mark-key" data-testid="key-unusable">
-          <span className="swatch swatch-unusable" aria-hidden="true" /> outside the usable range (above {volts(end, 4)}
-          )
+          <span className="swatch swatch-unusable" aria-hidden="true" /> outside the usable range (above{' '}
+          {setpointText(end)})
         </span>
       ) : null}
       <span className="mark-key">× reading with no oscillation</span>
@@ -174,6 +122,7 @@ export function SweepFigures({ source }: { source: SweepSource }) {
     return [shown.x, shown.up, shown.down, fit] as uPlot.AlignedData;
   };
   const buildKey = `${source.key}|${source.theme}|${analysis ? 'fit' : 'live'}`;
+  const resolution = source.gateS ? 1 / source.gateS : null;
   const gain = analysis ? gainColumns(analysis) : null;
   const residuals = analysis ? residualColumns(analysis) : null;
 
@@ -202,12 +151,18 @@ export function SweepFigures({ source }: { source: SweepSource }) {
                 // Rising as filled dots, falling as wider rings around them: where both agree, both stay visible.
                 pointSeries('Rising', colors.series[0], 'Hz', {
                   value: (_u, v, _s, k) =>
-                    hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)), 6),
+                    readingText(
+                      v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)),
+                      resolution,
+                    ),
                 }),
                 pointSeries('Falling', colors.series[1], 'Hz', {
                   points: { show: true, size: 11, width: 1.5, stroke: colors.series[1], fill: 'transparent' },
                   value: (_u, v, _s, k) =>
-                    hz(v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)), 6),
+                    readingText(
+                      v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)),
+                      resolution,
+                    ),
                 }),
                 lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 }),
               ],
@@ -223,7 +178,12 @@ export function SweepFigures({ source }: { source: SweepSource }) {
               },
             )
           }
-          footer={<SweepMarksKey end={analysis ? usableEndV(analysis) : null} />}
+          footer={
+            <SweepMarksKey
+              end={analysis ? usableEndV(analysis) : null}
+              zone={analysis ? analysis.usableRange.edgeZone : null}
+            />
+          }
         />
         {gain ? (
           <PlotPanel
@@ -239,7 +199,7 @@ export function SweepFigures({ source }: { source: SweepSource }) {
                 [
                   xSeries('V', 'Control'),
                   lineSeries('Kvco', colors.series[0], 'Hz/V', { points: { show: true, size: 4 } }),
-                  pointSeries('Kvco, unsteady region', colors.series[1], 'Hz/V'),
+                  pointSeries("Kvco, unsteady or stall edge's zone (not quoted)", colors.series[1], 'Hz/V'),
                 ],
                 [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Kvco', 'Hz/V', { size: 84 })],
               )

@@ -7,7 +7,7 @@ import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { SweepFigures } from './SweepFigures.tsx';
 import { useLiveRunSource } from '../live-run-source.ts';
-import { si, volts } from '../units.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
 
 function PlanEditor() {
   const { bridge, stores } = useApp();
@@ -92,7 +92,7 @@ function PlanEditor() {
       ) : null}
       <p className="muted" data-testid="plan-summary">
         {checked.ok
-          ? `${sweepPointCount(checked.plan)} points per pass · limit ${volts(checked.plan.limits.maxControlV)}, ${si(checked.plan.limits.currentLimitA, 'A', 3)}`
+          ? `${sweepPointCount(checked.plan)} points per pass · limit ${formatFigure(checked.plan.limits.maxControlV, 'V', { digits: 4 })}, ${formatFigure(checked.plan.limits.currentLimitA, 'A', { digits: 3 })}`
           : 'Fix the marked fields to start.'}
       </p>
       <SafetyNotes />

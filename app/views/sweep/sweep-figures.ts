@@ -9,6 +9,9 @@ import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts
 import { sweepInputFromColumns } from '../../state/column-inputs.ts';
 import type { ColumnSet } from '../../state/columns.ts';
 import type { XRegion } from '../../plots/regions-plugin.ts';
+import { formatFigure } from '../../analysis/format-figure.ts';
+import { setpointText } from '../figure-text.ts';
+import { stallText } from './sweep-key-figures.ts';
 
 export type SweepOutcome = AnalysisOutcome<SweepAnalysis>;
 
@@ -51,7 +54,11 @@ function onCurve(curve: SweepAnalysis['fit']['curve'], v: number): number {
   return (curve.hz[i - 1] as number) + t * ((curve.hz[i] as number) - (curve.hz[i - 1] as number));
 }
 
-export function stallRegions(thresholdV: number | null, unstableBelowV: number | null): XRegion[] {
+/**
+ * Stall and unsteady regions. The titles quote the edges with their ± when the
+ * analysis gives them (`a`); the live estimate during a sweep has none.
+ */
+export function stallRegions(thresholdV: number | null, unstableBelowV: number | null, a?: SweepAnalysis): XRegion[] {
   const regions: XRegion[] = [];
   if (thresholdV !== null) {
     regions.push({
@@ -59,17 +66,20 @@ export function stallRegions(thresholdV: number | null, unstableBelowV: number |
       fromX: Number.NEGATIVE_INFINITY,
       toX: thresholdV,
       className: 'region-stall',
-      title: `No oscillation below ${thresholdV.toFixed(3)} V`,
+      title: `No oscillation below ${a ? stallText(a) : `about ${setpointText(thresholdV)}`}`,
       testId: 'stall-region',
     });
   }
   if (thresholdV !== null && unstableBelowV !== null && unstableBelowV > thresholdV) {
+    const upTo = a
+      ? formatFigure(unstableBelowV, 'V', { uncertainty: a.stall.unstableBelowUncertaintyV })
+      : setpointText(unstableBelowV);
     regions.push({
       key: 'unstable',
       fromX: thresholdV,
       toX: unstableBelowV,
       className: 'region-unstable',
-      title: `Unsteady oscillation up to ${unstableBelowV.toFixed(3)} V`,
+      title: `Unsteady oscillation up to ${upTo}`,
       testId: 'unstable-region',
     });
   }
@@ -84,9 +94,22 @@ export function usableEndV(analysis: SweepAnalysis): number | null {
   return ends.length > 0 ? Math.min(...ends) : null;
 }
 
-/** Stall and unsteady regions, plus the range beyond the usable tuning window. */
+/** Stall, unsteady and edge-zone regions, plus the range beyond the usable tuning window. */
 export function sweepRegions(analysis: SweepAnalysis): XRegion[] {
-  const regions = stallRegions(analysis.stall.thresholdV, analysis.stall.unstableBelowV);
+  const regions = stallRegions(analysis.stall.thresholdV, analysis.stall.unstableBelowV, analysis);
+  const zone = analysis.usableRange.edgeZone;
+  if (zone) {
+    // From the edge (or the unsteady points' end) to halfway to the first usable point.
+    const from = Math.max(analysis.stall.unstableBelowV ?? -Infinity, analysis.stall.thresholdV ?? -Infinity);
+    regions.push({
+      key: 'edge-zone',
+      fromX: Number.isFinite(from) ? from : zone.fromV,
+      toX: (zone.toV + analysis.usableRange.fromV) / 2,
+      className: 'region-edge-zone',
+      title: `Stall edge's zone, ${setpointText(zone.fromV)} – ${setpointText(zone.toV)}: ${zone.reason}`,
+      testId: 'edge-zone-region',
+    });
+  }
   const end = usableEndV(analysis);
   if (end !== null) {
     const why = analysis.kvco.turnsBackAboveV === end ? 'the tuning curve turns back' : 'the tuning curve goes flat';
@@ -95,7 +118,7 @@ export function sweepRegions(analysis: SweepAnalysis): XRegion[] {
       fromX: end,
       toX: Number.POSITIVE_INFINITY,
       className: 'region-unusable',
-      title: `Outside the usable range above ${end.toFixed(3)} V: ${why}`,
+      title: `Outside the usable range above ${setpointText(end)}: ${why}`,
       testId: 'unusable-region',
     });
   }
@@ -108,12 +131,15 @@ export interface GainColumns {
   unstable: (number | null)[];
 }
 
+/** Local Kvco in two series: quoted, and not quoted (unsteady, or in the stall edge's zone) — drawn apart. */
 export function gainColumns(analysis: SweepAnalysis): GainColumns {
   const local = [...analysis.kvco.local].sort((a, b) => a.v - b.v);
+  const zone = new Set(analysis.points.filter((p) => p.edgeZone).map((p) => p.v));
+  const out = (k: (typeof local)[number]): boolean => k.unstable || zone.has(k.v);
   return {
     v: local.map((k) => k.v),
-    stable: local.map((k) => (k.unstable || !Number.isFinite(k.hzPerV) ? null : k.hzPerV)),
-    unstable: local.map((k) => (k.unstable && Number.isFinite(k.hzPerV) ? k.hzPerV : null)),
+    stable: local.map((k) => (out(k) || !Number.isFinite(k.hzPerV) ? null : k.hzPerV)),
+    unstable: local.map((k) => (out(k) && Number.isFinite(k.hzPerV) ? k.hzPerV : null)),
   };
 }
 
