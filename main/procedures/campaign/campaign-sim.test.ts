@@ -119,8 +119,10 @@ describe('campaign on the simulated bench', () => {
 
   it('measures pushing from the supply corners near the model (120 Hz/V)', async () => {
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
-    expect(analysis.pushingHzPerV?.typ).toBeGreaterThan(100);
-    expect(analysis.pushingHzPerV?.typ).toBeLessThan(140);
+    // Within 5 % of the model's 120 Hz/V: four runs gave 117.8–121.4 (the campaign is not bit-for-bit repeatable).
+    expect(Math.abs((analysis.pushingHzPerV?.typ ?? Number.NaN) - dut.pushingHzPerV) / dut.pushingHzPerV).toBeLessThan(
+      0.05,
+    );
     expect(analysis.headroom).toHaveLength(3);
     expect(analysis.headroom.every((r) => r.inWindow)).toBe(true);
   });
