@@ -89,7 +89,12 @@ describe('the gain table refuses bad input', () => {
       { label: 'push', analysis: pushing, conditions },
     ]);
     const driftRow = sheet.rows.find((r) => r.key === 'drift');
-    expect(driftRow?.uncertainty).toBeGreaterThan(0);
+    if (drift.kind !== 'drift') throw new Error('expected a drift analysis');
+    // The row carries the analysis' own ± unchanged, and the 2 ppm/h the data were built with lies within 2σ of it.
+    const sigma = drift.driftUncertaintyPpmPerHour ?? Number.NaN;
+    expect(driftRow?.uncertainty).toBe(sigma);
+    expect(sigma).toBeGreaterThan(0);
+    expect(Math.abs((driftRow?.typ ?? Number.NaN) - 2)).toBeLessThanOrEqual(2 * sigma);
     expect(displayRow(driftRow ?? sheet.rows[0]!).typ).toMatch(/ ± /);
     const pushRow = sheet.rows.find((r) => r.key === 'pushing');
     expect(displayRow(pushRow ?? sheet.rows[0]!).typ).toMatch(/^120\.0 ± 3\.5$/);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { belowFloor, formatFigure, formatSignificance, isSignificant } from './format-figure.ts';
 
 describe('formatFigure: only the digits a figure supports', () => {
-  it('value ± uncertainty to two significant digits of u (GUM §7.2.6, common practice)', () => {
+  it('value ± uncertainty to two significant digits of u (GUM §7.2.6, section number from memory; common practice)', () => {
     expect(formatFigure(18442.6667, 'Hz', { uncertainty: 5.77 })).toBe('18.4427 ± 0.0058 kHz');
     expect(formatFigure(-2.02e3, 'Hz/V', { uncertainty: 480 })).toBe('−2.02 ± 0.48 kHz/V');
     expect(formatFigure(-26055, 'ppm/h', { uncertainty: 18192 })).toBe('−26000 ± 18000 ppm/h');

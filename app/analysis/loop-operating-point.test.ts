@@ -37,7 +37,9 @@ describe('loopOperatingPoint', () => {
       { window: { fromV: 0, toV: 3, source: 'flag' } },
     );
     expect(folded.kvco.minHzPerV).toBeLessThan(0);
-    expect(folded.kvco.signChangeAtV.length).toBeGreaterThan(0);
+    // df/dV = 4e5 − 2e5·V is negative exactly above 2 V: every grid point from 2.1 V on runs the wrong way.
+    expect(folded.kvco.signChangeAtV).toHaveLength(10);
+    folded.kvco.signChangeAtV.forEach((v, i) => expect(v).toBeCloseTo(2.1 + i / 10, 9));
     const op = loopOperatingPoint(folded, 1.2e6, 1);
     const min = op.corners.find((c) => c.label === 'min');
     expect(min?.usable).toBe(false);

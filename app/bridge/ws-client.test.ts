@@ -5,61 +5,8 @@ import { BenchCallError } from './bench-call-error.ts';
 import { socketUrlFor } from './pick-bridge.ts';
 import { encodeBinaryReply } from '../contract/wire-binary.ts';
 import { frameParts } from '../contract/wire-parts.ts';
-import { createWsBench, type SocketLike, type Timers } from './ws-client.ts';
-
-class FakeSocket implements SocketLike {
-  readyState = 0;
-  binaryType = 'blob';
-  sent: string[] = [];
-  onopen: (() => void) | null = null;
-  onclose: (() => void) | null = null;
-  onerror: (() => void) | null = null;
-  onmessage: ((message: { data: unknown }) => void) | null = null;
-  constructor(readonly url: string) {}
-  send(data: string): void {
-    if (this.readyState !== 1) throw new Error('send on a socket that is not open');
-    this.sent.push(data);
-  }
-  close(): void {
-    this.drop();
-  }
-  accept(): void {
-    this.readyState = 1;
-    this.onopen?.();
-  }
-  drop(): void {
-    this.readyState = 3;
-    this.onclose?.();
-  }
-  reply(message: unknown): void {
-    this.onmessage?.({ data: JSON.stringify(message) });
-  }
-  /** As a browser WebSocket with binaryType "arraybuffer" hands over a binary message. */
-  replyBinary(frame: Uint8Array): void {
-    this.onmessage?.({ data: frame.buffer.slice(frame.byteOffset, frame.byteOffset + frame.byteLength) });
-  }
-  calls(): { id: number; method: string; params: unknown[] }[] {
-    return this.sent.map((text) => JSON.parse(text) as { id: number; method: string; params: unknown[] });
-  }
-}
-
-class FakeTimers implements Timers {
-  queue: { callback: () => void; delayMs: number }[] = [];
-  setTimeout(callback: () => void, delayMs: number): unknown {
-    const entry = { callback, delayMs };
-    this.queue.push(entry);
-    return entry;
-  }
-  clearTimeout(handle: unknown): void {
-    this.queue = this.queue.filter((entry) => entry !== handle);
-  }
-  runNext(): number {
-    const entry = this.queue.shift();
-    if (!entry) throw new Error('no timer queued');
-    entry.callback();
-    return entry.delayMs;
-  }
-}
+import { createWsBench } from './ws-client.ts';
+import { FakeSocket, FakeTimers } from './testing/fake-socket.ts';
 
 function setup() {
   const sockets: FakeSocket[] = [];

@@ -28,13 +28,8 @@ function fakeBench() {
     meta('a', '2026-01-01T00:00:00Z', { status: 'complete' }),
     meta('b', '2026-02-01T00:00:00Z', { status: 'complete' }),
   ];
-  const bench = {
-    subscribe: (l: (event: BenchEvent) => void) => {
-      listener = l;
-      return () => (listener = null);
-    },
-    listRuns: vi.fn(async () => runs.filter((r) => !deleted.has(r.id))),
-    deleteRun: vi.fn(async (id: string) => void deleted.add(id)),
+  // Mocks the tests inspect, kept as plain properties (expect() takes them, never unbound methods).
+  const mocks = {
     restoreRun: vi.fn(async (id: string) => {
       deleted.delete(id);
       const found = runs.find((r) => r.id === id);
@@ -50,6 +45,15 @@ function fakeBench() {
       },
       events: [],
     })),
+  };
+  const bench = {
+    subscribe: (l: (event: BenchEvent) => void) => {
+      listener = l;
+      return () => (listener = null);
+    },
+    listRuns: vi.fn(async () => runs.filter((r) => !deleted.has(r.id))),
+    deleteRun: vi.fn(async (id: string) => void deleted.add(id)),
+    ...mocks,
     renameRun: vi.fn(async (id: string, dutId: string) => ({
       ...meta(id, '2026-01-01T00:00:00Z'),
       dut: { id: dutId, notes: '' },
@@ -58,7 +62,7 @@ function fakeBench() {
       throw new Error('supply.address: cannot open /dev/ttyUSB9');
     }),
   } as unknown as BenchApi;
-  return { bench, push: (event: BenchEvent) => listener?.(event) };
+  return { bench, mocks, push: (event: BenchEvent) => listener?.(event) };
 }
 
 describe('app stores', () => {
@@ -149,7 +153,7 @@ describe('app stores', () => {
   });
 
   it('lists runs newest first, deletes with undo, and forgets deleted runs from picks', async () => {
-    const { bench } = fakeBench();
+    const { bench, mocks } = fakeBench();
     const stores = createAppStores(bench);
     const runs = stores.runs.getState();
     await runs.refresh();
@@ -163,20 +167,20 @@ describe('app stores', () => {
     expect(stores.runs.getState().picked).toEqual([]);
     expect(stores.runs.getState().lastDeleted?.id).toBe('a');
     await stores.runs.getState().undoRemove();
-    expect(bench.restoreRun).toHaveBeenCalledWith('a');
+    expect(mocks.restoreRun).toHaveBeenCalledWith('a');
     expect(stores.runs.getState().runs.map((r) => r.id)).toEqual(['b', 'a']);
     expect(stores.runs.getState().lastDeleted).toBeNull();
   });
 
   it('opens a run into columns once and renames in place', async () => {
-    const { bench } = fakeBench();
+    const { bench, mocks } = fakeBench();
     const stores = createAppStores(bench);
     await stores.runs.getState().refresh();
     const opened = await stores.runs.getState().open('a');
     expect(opened?.rows).toBe(3);
     expect(opened?.columns.frequency_hz.at(2)).toBe(3);
     await stores.runs.getState().open('a');
-    expect(bench.openRun).toHaveBeenCalledTimes(1);
+    expect(mocks.openRun).toHaveBeenCalledTimes(1);
     await stores.runs.getState().rename('a', 'varactor-400M-07');
     expect(stores.runs.getState().runs.find((r) => r.id === 'a')?.dut.id).toBe('varactor-400M-07');
   });

@@ -1,17 +1,19 @@
 /**
- * Splits a byte stream into lines on a terminator, for any transport (serial,
- * TCP, sim). The same logic as @serialport/parser-readline's delimiter
- * parser, but synchronous (no stream machinery on the hot path) and aware of
- * IEEE 488.2 definite-length blocks at the start of a line, whose payload may
+ * Splits a byte stream into lines on a terminator, for the transports that
+ * hand over bytes (TCP, sim, Web Serial in the page; serial frames with
+ * @serialport/parser-readline, see readline-lines.ts). The same logic as the
+ * readline parser, but synchronous, free of Node streams, and aware of IEEE
+ * 488.2 definite-length blocks at the start of a line, whose payload may
  * contain the terminator byte.
  *
  * Lines are split on bytes and decoded by the consumer, so a multi-byte UTF-8
  * character split across two chunks arrives whole.
  *
- * Why not the readline parser itself on serial links: it cuts a definite block
- * that holds newline bytes apart; line-framer-vs-readline.test.ts shows that,
- * and holds this framer to the parser's output on every ordinary reply.
+ * The readline parser alone cuts a definite block that holds newline bytes
+ * apart; line-framer-vs-readline.test.ts shows that, and holds this framer to
+ * the parser's output on every ordinary reply.
  */
+import { definiteBlockEnd } from './definite-block.ts';
 
 export interface LineFramerOptions {
   /** Line terminator; default "\n" (common practice for SCPI over sockets and serial). */
@@ -27,7 +29,6 @@ export interface LineFramerOptions {
 
 const HASH = 0x23;
 const CR = 0x0d;
-const DIGIT_0 = 0x30;
 
 export class LineFramer {
   private pending: Buffer | null = null;
@@ -73,7 +74,7 @@ export class LineFramer {
     while (start < data.length) {
       let searchFrom = start;
       if (this.blocks && data[start] === HASH) {
-        const blockEnd = this.blockEnd(data, start);
+        const blockEnd = definiteBlockEnd(data, start);
         if (blockEnd === -1) break; // block header or payload incomplete: wait for more bytes
         searchFrom = blockEnd;
       }
@@ -93,25 +94,5 @@ export class LineFramer {
       // Copy: the caller may reuse its chunk buffer (serial reads are pooled).
       this.pending = Buffer.from(data.subarray(start));
     }
-  }
-
-  /**
-   * Index just past a definite block's payload starting at `start`, the same
-   * index when the '#' does not open a definite block, or -1 when more bytes are needed.
-   */
-  private blockEnd(data: Buffer, start: number): number {
-    if (start + 1 >= data.length) return -1;
-    const digitCount = (data[start + 1] ?? 0) - DIGIT_0;
-    if (digitCount < 1 || digitCount > 9) return start; // #0 (indefinite), #H.., or text
-    const lengthStart = start + 2;
-    if (lengthStart + digitCount > data.length) return -1;
-    let length = 0;
-    for (let i = lengthStart; i < lengthStart + digitCount; i += 1) {
-      const digit = (data[i] ?? 0) - DIGIT_0;
-      if (digit < 0 || digit > 9) return start;
-      length = length * 10 + digit;
-    }
-    const payloadEnd = lengthStart + digitCount + length;
-    return payloadEnd > data.length ? -1 : payloadEnd;
   }
 }

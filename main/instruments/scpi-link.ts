@@ -130,7 +130,9 @@ export class ScpiLink {
   async open(): Promise<void> {
     if (this.state === 'open') return;
     this.unsubscribe = [
-      this.transport.on('data', (chunk) => this.framer.push(chunk)),
+      // A transport that frames lines itself (serial: the readline parser) does; else the own framer.
+      this.transport.onLines?.(this.terminator, (line) => this.onLine(line)) ??
+        this.transport.on('data', (chunk) => this.framer.push(chunk)),
       this.transport.on('close', (reason) => this.onTransportClose(reason)),
     ];
     this.state = 'open';

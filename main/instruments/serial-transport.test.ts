@@ -123,6 +123,42 @@ describe.skipIf(!haveSocat)('SerialTransport over a socat pty pair', () => {
     const error = await session.query('*IDN?', { timeoutS: 0.5 }).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(DisconnectedError);
   });
+  it('frames replies cut across reads through the readline parser: CR LF, UTF-8, a block holding newlines (issue 10 item 8)', async () => {
+    const pair = await ptyPair();
+    const transport = new SerialTransport({ path: pair.b, baudRate: 115200 });
+    const lines: string[] = [];
+    const bytesSeen: number[] = [];
+    transport.on('data', (chunk) => bytesSeen.push(chunk.length));
+    const off = transport.onLines('\n', (line) => lines.push(line.toString('latin1')));
+    cleanups.push(() => transport.close());
+    await transport.open();
+    const far = openSync(pair.a, 'r+');
+    cleanups.push(() => closeSync(far));
+    // Each piece is written alone and given time to arrive as its own read: the cuts fall inside a
+    // number, between CR and LF, inside the two bytes of "°" (C2 B0) and inside a block's payload.
+    const block = Buffer.from('#211ab\ncd\r\nef\n#', 'latin1');
+    const pieces = [
+      Buffer.from('+1.2'),
+      Buffer.from('5E+03\r'),
+      Buffer.from('\n23.5 \xc2', 'latin1'),
+      Buffer.from('\xb0C\r\n', 'latin1'),
+      block.subarray(0, 9),
+      block.subarray(9),
+      Buffer.from('\r\n0\n'),
+    ];
+    for (const piece of pieces) {
+      writeSync(far, piece);
+      await new Promise((r) => setTimeout(r, 30));
+    }
+    // The pieces came as several reads (a loaded machine may merge neighbours, never all of them).
+    expect(bytesSeen.length).toBeGreaterThan(1);
+    expect(lines).toEqual(['+1.25E+03', '23.5 \xc2\xb0C', block.toString('latin1'), '0']);
+    off();
+    writeSync(far, Buffer.from('after\n'));
+    await new Promise((r) => setTimeout(r, 30));
+    expect(lines).toHaveLength(4);
+  });
+
   it('opens with flow control and framing options set (XON/XOFF, 7E2; RTS/CTS) and still talks', async () => {
     const pair = await ptyPair();
     await serveResponder(pair.a);

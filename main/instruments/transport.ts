@@ -19,4 +19,12 @@ export interface Transport {
   close(): Promise<void>;
   /** Subscribe; returns an unsubscribe function. */
   on<E extends keyof TransportEvents>(event: E, listener: TransportEvents[E]): () => void;
+  /**
+   * Present on a transport that frames lines itself (serial, with
+   * @serialport/parser-readline): `onLine` gets each reply line, terminator
+   * removed, definite blocks whole; a partial line does not outlive the port
+   * it came from. Returns an unsubscribe function. Without it, ScpiLink frames the
+   * `data` events with its own LineFramer.
+   */
+  onLines?(terminator: string, onLine: (line: Buffer) => void): () => void;
 }

@@ -1,11 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { sweepPlanSchema } from '../../app/contract/plans.ts';
-import { assembleBench } from '../bench/assemble.ts';
-import { builtinDut } from '../sim/builtin-duts.ts';
-import { VirtualClock } from '../time/virtual-clock.ts';
+import { readingsByPoint, simSweep } from '../../test/testing/sim-sweep.ts';
 import { enoughReadings, standardErrorHz } from './point-readings.ts';
-import { runSweep } from './sweep.ts';
-import { MemorySink } from './testing/fake-bench.ts';
 
 describe('adaptive readings per point', () => {
   it('computes the standard error of the mean, s/√n, never below the quantisation floor', () => {
@@ -53,10 +49,7 @@ describe('adaptive readings per point', () => {
   });
 
   it('on the simulated relaxation DUT reads the noisy points near the stall edge longer, each to its target or max', async () => {
-    const clock = new VirtualClock({ autoAdvance: true });
-    const bench = await assembleBench('sim', { clock, sim: { dut: builtinDut('relaxation'), seed: 3 } });
-    const sink = new MemorySink();
-    const plan = sweepPlanSchema.parse({
+    const { rows } = await simSweep('relaxation', 3, {
       start: 1.56,
       stop: 3,
       step: 0.08,
@@ -66,14 +59,7 @@ describe('adaptive readings per point', () => {
       settle: { mode: 'fixed', seconds: 0.05 },
       limits: { maxControlV: 5, currentLimitA: 0.02 },
     });
-    await runSweep({ bench, plan, clock, sink });
-    await bench.close();
-    const byPoint = new Map<number, number[]>();
-    for (const row of sink.rows) {
-      const list = byPoint.get(row.point_index as number) ?? [];
-      list.push(row.status === 'ok' ? (row.frequency_hz as number) : Number.NaN);
-      byPoint.set(row.point_index as number, list);
-    }
+    const byPoint = readingsByPoint(rows);
     const counts = [...byPoint.values()].map((v) => v.length);
     for (const values of byPoint.values()) {
       expect(values.length).toBeGreaterThanOrEqual(3);

@@ -59,7 +59,11 @@ describe('automatic settling against a known settling lag', () => {
   it('flags a DUT still moving at maxS as not settled', async () => {
     // τ = 1 s, 0.5 V steps (100 kHz): still 80 kHz away after maxS = 0.2 s.
     const { sink } = await sweepWith(1, { mode: 'auto', maxS: 0.2 }, 0.5);
-    expect(sink.eventsOfType('settle-timeout').length).toBeGreaterThan(0);
+    // Two points: point 0 has no step; point 1, the one 0.5 V step, runs out of time and says so.
+    const timeouts = sink.eventsOfType('settle-timeout');
+    expect(timeouts).toHaveLength(1);
+    expect(timeouts[0]).toMatchObject({ point_index: 1, control_v: 2 });
+    expect(timeouts[0]?.waited_s as number).toBeGreaterThanOrEqual(0.2);
   });
 
   it('beats a fixed 0.5 s settle on time and agrees with it within tolerance', async () => {

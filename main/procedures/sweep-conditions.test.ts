@@ -8,7 +8,6 @@
  * at the start of its default profile (main/sim/ambient.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { assembleBench } from '../bench/assemble.ts';
 import type { Supply, Thermometer } from '../instruments/roles.ts';
 import { readRunFolder } from '../store/index.ts';
@@ -17,19 +16,10 @@ import { VirtualClock } from '../time/virtual-clock.ts';
 import { recordSweep } from './recorded-run.ts';
 import { runSweep } from './sweep.ts';
 import { MemorySink } from './testing/fake-bench.ts';
+import { SHORT_SWEEP_PLAN } from './testing/short-sweep-plan.ts';
 import type { BenchRoles } from './types.ts';
 
-const plan = sweepPlanSchema.parse({
-  start: 1.6,
-  stop: 3,
-  step: 0.1,
-  readingsPerPoint: 2,
-  gateS: 0.05,
-  settle: { mode: 'fixed', seconds: 0.05 },
-  refineEdgeV: 0,
-  limits: { maxControlV: 5, currentLimitA: 0.02 },
-  safe: { controlV: 0.5, outputOff: true },
-});
+const plan = SHORT_SWEEP_PLAN;
 
 /** A sweep on the simulated relaxation DUT into a memory sink, with the bench's roles changed by `tweak`. */
 async function simSweep(tweak: (bench: BenchRoles) => BenchRoles) {

@@ -6,7 +6,6 @@
  */
 import { EventEmitter } from 'node:events';
 import { describe, expect, it } from 'vitest';
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { assembleBench, type AssembledBench } from '../bench/assemble.ts';
 import type { FaultSpec } from '../sim/faults.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
@@ -14,18 +13,9 @@ import { stopOnSignals } from './exit-guard.ts';
 import { RunControl } from './run-control.ts';
 import { runSweep, type SweepOptions } from './sweep.ts';
 import { MemorySink } from './testing/fake-bench.ts';
+import { SHORT_SWEEP_PLAN } from './testing/short-sweep-plan.ts';
 
-const plan = sweepPlanSchema.parse({
-  start: 1.6,
-  stop: 3,
-  step: 0.1,
-  readingsPerPoint: 2,
-  gateS: 0.05,
-  settle: { mode: 'fixed', seconds: 0.05 },
-  refineEdgeV: 0,
-  limits: { maxControlV: 5, currentLimitA: 0.02 },
-  safe: { controlV: 0.5, outputOff: true },
-});
+const plan = SHORT_SWEEP_PLAN;
 
 async function simSweep(
   faults: FaultSpec[] = [],

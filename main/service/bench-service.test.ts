@@ -180,13 +180,14 @@ describe('BenchApi service', () => {
     const during = await service.getBenchStatus();
     expect(during).toMatchObject({ source: 'run', output: true, controlSetV: 2 });
     // The strip's frequency is the run's own last reading, not a second query.
-    const sent = samples.type === 'samples' ? samples.rows.map((row) => row.frequency_hz) : [];
+    expect(samples.type === 'samples' ? samples.rows.length : 0).toBeGreaterThan(0);
     const runRows = events.flatMap((e) => (e.type === 'samples' ? e.rows : []));
+    expect(Number.isFinite(during.frequencyHz)).toBe(true);
     expect(runRows.map((row) => row.frequency_hz)).toContain(during.frequencyHz);
-    expect(sent.length).toBeGreaterThan(0);
     await service.pauseRun();
     await waitFor(() => events.find((e) => e.type === 'bench-status' && e.status.paused !== null));
     expect((await service.getBenchStatus()).paused).toMatchObject({ controlV: 2 });
+    const stoppedAtMs = Date.now();
     await service.stopRun();
     // The run's end is recorded, then the status goes back to the idle poll.
     await waitFor(() =>
@@ -200,7 +201,10 @@ describe('BenchApi service', () => {
       paused: null,
       safeState: { reached: true, outputOff: true, failures: [] },
     });
-    expect(Date.parse(after.safeState?.at ?? '')).toBeGreaterThan(0);
+    // The time the safe state was reached: after the stop was asked, on the wall clock (ISO 8601).
+    const safeAtMs = Date.parse(after.safeState?.at ?? '');
+    expect(safeAtMs).toBeGreaterThanOrEqual(stoppedAtMs);
+    expect(safeAtMs).toBeLessThanOrEqual(Date.now());
   });
 });
 

@@ -15,7 +15,7 @@ const CONNECTED: ConnectionState = {
   error: null,
 };
 
-function tracker(): { t: BenchStatusTracker; seen: BenchStatus[]; tick(s: number): void } {
+function tracker(): { t: BenchStatusTracker; seen: BenchStatus[]; tick: (s: number) => void } {
   const seen: BenchStatus[] = [];
   let ms = Date.parse('2026-03-04T05:06:07Z');
   const t = new BenchStatusTracker(

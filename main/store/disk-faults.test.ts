@@ -7,9 +7,9 @@
 import { readFile, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { assembleBench } from '../bench/assemble.ts';
 import { recordSweep } from '../procedures/recorded-run.ts';
+import { SHORT_SWEEP_PLAN } from '../procedures/testing/short-sweep-plan.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { createRun } from './run-writer.ts';
 import { DiskError, RunFolderGoneError } from './store-error.ts';
@@ -84,17 +84,7 @@ describe('disk faults while recording', () => {
 
   it('a run folder deleted mid-sweep is noticed at the next flush; the sweep stops there and leaves the supply safe', async () => {
     await withTempDir(async (runsDir) => {
-      const plan = sweepPlanSchema.parse({
-        start: 1.6,
-        stop: 3,
-        step: 0.1,
-        readingsPerPoint: 2,
-        gateS: 0.05,
-        settle: { mode: 'fixed', seconds: 0.05 },
-        refineEdgeV: 0,
-        limits: { maxControlV: 5, currentLimitA: 0.02 },
-        safe: { controlV: 0.5, outputOff: true },
-      });
+      const plan = SHORT_SWEEP_PLAN;
       const clock = new VirtualClock({ autoAdvance: true });
       const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
       let dir = '';

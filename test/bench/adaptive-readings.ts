@@ -5,13 +5,8 @@
  * target (equal curve uncertainty), on the simulated relaxation DUT whose
  * jitter grows toward the stall edge (virtual clock, 10 ms gate).
  */
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
-import { assembleBench } from '../../main/bench/assemble.ts';
 import { standardErrorHz } from '../../main/procedures/point-readings.ts';
-import { runSweep } from '../../main/procedures/sweep.ts';
-import { MemorySink } from '../../main/procedures/testing/fake-bench.ts';
-import { builtinDut } from '../../main/sim/builtin-duts.ts';
-import { VirtualClock } from '../../main/time/virtual-clock.ts';
+import { readingsByPoint, simSweep } from '../testing/sim-sweep.ts';
 
 const GATE_S = 0.01;
 const TARGET_HZ = 20;
@@ -19,10 +14,7 @@ const TARGET_HZ = 20;
 async function sweep(
   readings: { readings: { min: number; max: number; targetHz: number } } | { readingsPerPoint: number },
 ) {
-  const clock = new VirtualClock({ autoAdvance: true });
-  const bench = await assembleBench('sim', { clock, sim: { dut: builtinDut('relaxation'), seed: 21 } });
-  const sink = new MemorySink();
-  const plan = sweepPlanSchema.parse({
+  const { rows, durationS } = await simSweep('relaxation', 21, {
     start: 1.56,
     stop: 4,
     step: 0.04,
@@ -32,16 +24,7 @@ async function sweep(
     settle: { mode: 'fixed', seconds: 0.02 },
     limits: { maxControlV: 5, currentLimitA: 0.02 },
   });
-  const t0 = clock.now();
-  await runSweep({ bench, plan, clock, sink });
-  const durationS = clock.now() - t0;
-  await bench.close();
-  const byPoint = new Map<number, number[]>();
-  for (const row of sink.rows) {
-    const list = byPoint.get(row.point_index as number) ?? [];
-    list.push(row.status === 'ok' ? (row.frequency_hz as number) : Number.NaN);
-    byPoint.set(row.point_index as number, list);
-  }
+  const byPoint = readingsByPoint(rows);
   let worstSeHz = 0;
   let mostReadings = 0;
   for (const values of byPoint.values()) {
@@ -49,7 +32,7 @@ async function sweep(
     const se = standardErrorHz(new Float64Array(values), values.length, 1 / GATE_S);
     if (Number.isFinite(se)) worstSeHz = Math.max(worstSeHz, se);
   }
-  return { durationS, worstSeHz, mostReadings, rows: sink.rows.length, points: byPoint.size };
+  return { durationS, worstSeHz, mostReadings, rows: rows.length, points: byPoint.size };
 }
 
 export async function runAdaptiveReadingsBench(): Promise<void> {

@@ -298,7 +298,7 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
       await download.saveAs(path);
       saved[format] = await readFile(path);
     }
-    // PNG signature (ISO/IEC 15948 §5.2) and a real image, not an empty canvas.
+    // PNG signature (ISO/IEC 15948 §5.2, section number from memory) and a real image, not an empty canvas.
     expect([...(saved.png ?? Buffer.alloc(0)).subarray(0, 8)]).toEqual([
       0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a,
     ]);

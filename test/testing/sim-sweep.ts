@@ -17,6 +17,19 @@ export interface SimSweep {
   rows: SampleRow[];
   events: ProcedureEvent[];
   status: string;
+  /** How long the sweep took on the virtual clock, s. */
+  durationS: number;
+}
+
+/** Each point's readings in the order taken (NaN where a reading gave no frequency), by point_index. */
+export function readingsByPoint(rows: readonly SampleRow[]): Map<number, number[]> {
+  const byPoint = new Map<number, number[]>();
+  for (const row of rows) {
+    const list = byPoint.get(row.point_index as number) ?? [];
+    list.push(row.status === 'ok' ? (row.frequency_hz as number) : Number.NaN);
+    byPoint.set(row.point_index as number, list);
+  }
+  return byPoint;
 }
 
 export async function simSweep(dut: BuiltinDutName, seed: number, plan: Record<string, unknown>): Promise<SimSweep> {
@@ -24,7 +37,9 @@ export async function simSweep(dut: BuiltinDutName, seed: number, plan: Record<s
   const bench = await assembleBench('sim', { clock, sim: { dut, seed } });
   const sink = new MemorySink();
   try {
+    const t0 = clock.now();
     const outcome = await runSweep({ bench, plan: sweepPlanSchema.parse(plan), clock, sink });
+    const durationS = clock.now() - t0;
     const rows = sink.rows;
     // Failed readings (timeout, error) carry no frequency; "no-signal" means no oscillation.
     const read = rows.filter((r) => r.status === 'ok' || r.status === 'no-signal');
@@ -34,7 +49,7 @@ export async function simSweep(dut: BuiltinDutName, seed: number, plan: Record<s
       direction: Int8Array.from(read, (r) => (r.direction === 'down' ? -1 : 1)),
       gateS: Number(plan.gateS),
     };
-    return { input, rows, events: sink.events, status: outcome.status };
+    return { input, rows, events: sink.events, status: outcome.status, durationS };
   } finally {
     await bench.close();
   }

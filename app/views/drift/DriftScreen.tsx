@@ -1,8 +1,9 @@
 /** Drift log: plan, cautions, start/stop, live frequency and temperature, analysis at the end. */
 import { useStore } from '../../state/use-store.ts';
-import { checkDriftDraft, type DriftDraft } from '../../state/plan-drafts.ts';
+import { checkDriftDraft } from '../../state/plan-drafts.ts';
 import { useApp } from '../app-context.ts';
-import { Field, Panel } from '../controls/Field.tsx';
+import { Panel } from '../controls/Field.tsx';
+import { DutIdField, planFieldRenderer, useDutId } from '../controls/plan-fields.tsx';
 import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { duration } from '../units.ts';
@@ -13,33 +14,15 @@ function DriftPlan() {
   const { bridge, stores } = useApp();
   const draft = useStore(stores.settings, (s) => s.driftDraft);
   const limits = useStore(stores.settings, (s) => s.limits);
-  const dutId = useStore(stores.settings, (s) => s.dutId);
   const edit = useStore(stores.settings, (s) => s.editDrift);
-  const setDutId = useStore(stores.settings, (s) => s.setDutId);
+  const dut = useDutId();
   const checked = checkDriftDraft(draft, limits);
-  const text = (key: keyof DriftDraft, label: string, unit: string, testId: string, hint?: string) => (
-    <Field
-      label={label}
-      unit={unit}
-      value={draft[key]}
-      onChange={(value) => edit({ [key]: value })}
-      error={checked.errors[key]}
-      hint={hint}
-      testId={testId}
-    />
-  );
-  const dutError = dutId.trim() === '' ? 'give the device a name' : undefined;
+  const text = planFieldRenderer(draft, checked.errors, edit);
+  const { dutId, dutError } = dut;
   const start = checked.ok && !dutError ? () => bridge.api.startDrift(checked.plan, dutId.trim()) : null;
   return (
     <Panel title="Drift log plan" className="plan" testId="drift-plan">
-      <Field
-        label="Device under test"
-        value={dutId}
-        onChange={setDutId}
-        error={dutError}
-        inputMode="text"
-        testId="drift-dut-id"
-      />
+      <DutIdField dut={dut} testId="drift-dut-id" />
       <div className="row">
         {text('controlV', 'Hold control at', 'V', 'drift-control')}
         {text('intervalS', 'Every', '', 'drift-interval', 'e.g. 1s, 500ms')}

@@ -4,7 +4,7 @@ import { designLoopFilter } from '../../analysis/loop-filter.ts';
 import { nearestPreferred, roundFilter, seriesMantissas } from './e-series.ts';
 
 describe('E-series rounding of loop-filter parts', () => {
-  it('E96 from the formula holds the values printed on 1 % parts (IEC 60063; e.g. 1.00, 1.02, 4.99, 9.76)', () => {
+  it('E96 from the formula holds the values printed on 1 % parts (IEC 60063, values from memory: e.g. 1.00, 1.02, 4.99, 9.76)', () => {
     const e96 = seriesMantissas('E96');
     expect(e96).toHaveLength(96);
     for (const printed of [1.0, 1.02, 1.05, 2.21, 3.32, 4.99, 6.81, 9.76]) expect(e96).toContain(printed);

@@ -1,8 +1,9 @@
 /** Gain sweep: plan, safety notes, start/pause/abort, live plot, and the analysis afterwards. */
 import { useStore } from '../../state/use-store.ts';
-import { checkSweepDraft, sweepPointCount, type SweepDraft } from '../../state/plan-drafts.ts';
+import { checkSweepDraft, sweepPointCount } from '../../state/plan-drafts.ts';
 import { useApp } from '../app-context.ts';
 import { Choice, Field, Panel } from '../controls/Field.tsx';
+import { DutIdField, planFieldRenderer, useDutId } from '../controls/plan-fields.tsx';
 import { RunControls } from '../controls/RunControls.tsx';
 import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { SweepFigures } from './SweepFigures.tsx';
@@ -13,34 +14,16 @@ function PlanEditor() {
   const { bridge, stores } = useApp();
   const draft = useStore(stores.settings, (s) => s.sweepDraft);
   const limits = useStore(stores.settings, (s) => s.limits);
-  const dutId = useStore(stores.settings, (s) => s.dutId);
   const edit = useStore(stores.settings, (s) => s.editSweep);
-  const setDutId = useStore(stores.settings, (s) => s.setDutId);
+  const dut = useDutId('clkmul-vco-01');
   const checked = checkSweepDraft(draft, limits);
   const errors = checked.errors;
-  const text = (key: keyof SweepDraft, label: string, unit: string, testId: string, hint?: string) => (
-    <Field
-      label={label}
-      unit={unit}
-      value={String(draft[key])}
-      onChange={(value) => edit({ [key]: value })}
-      error={errors[key]}
-      hint={hint}
-      testId={testId}
-    />
-  );
-  const dutError = dutId.trim() === '' ? 'give the device a name, e.g. clkmul-vco-01' : undefined;
+  const text = planFieldRenderer(draft, errors, edit);
+  const { dutId, dutError } = dut;
   const start = checked.ok && !dutError ? () => bridge.api.startSweep(checked.plan, dutId.trim()) : null;
   return (
     <Panel title="Sweep plan" className="plan" testId="sweep-plan">
-      <Field
-        label="Device under test"
-        value={dutId}
-        onChange={setDutId}
-        error={dutError}
-        inputMode="text"
-        testId="dut-id"
-      />
+      <DutIdField dut={dut} testId="dut-id" />
       <div className="row">
         {text('start', 'From', 'V', 'plan-start')}
         {text('stop', 'To', 'V', 'plan-stop')}

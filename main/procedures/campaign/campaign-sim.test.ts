@@ -98,14 +98,31 @@ describe('campaign on the simulated bench', () => {
         `at ${c.temperatureC} °C`,
       ).toBeLessThan(0.02);
     }
-    // Kvco moves with temperature by the tuning tempco: its sign shows in the coefficient.
-    expect(analysis.kvcoTempcoPpmPerC as number).toBeGreaterThan(0);
+    // Kvco's tempco against the model's own: the least-squares slope of the model's Kvco at 3 V over the
+    // measured DUT temperatures, over its Kvco at 25 °C (+164.9 ppm/°C). Three temperatures span a Kvco
+    // change of only ~1.2 %, so the 2 % per-condition error above moves the slope a lot: over six runs
+    // the measurement came 1–8 % from the model (the campaign is not bit-for-bit repeatable), hence 20 %.
+    // That still fails a wrong sign, a °F/°C mix-up (×1.8) or a missing ×1e6.
+    const rows = analysis.conditions.filter((r) => r.supplyV === 5);
+    const temps = rows.map((r) => r.dutTemperatureC as number);
+    const modelKvcos = temps.map((t) => (modelHz(3 + 1e-3, t) - modelHz(3 - 1e-3, t)) / 2e-3);
+    const meanT = temps.reduce((a, b) => a + b, 0) / temps.length;
+    const meanK = modelKvcos.reduce((a, b) => a + b, 0) / modelKvcos.length;
+    const slope =
+      temps.reduce((a, t, i) => a + (t - meanT) * ((modelKvcos[i] as number) - meanK), 0) /
+      temps.reduce((a, t) => a + (t - meanT) ** 2, 0);
+    const modelTempcoPpm = (slope / ((modelHz(3 + 1e-3, 25) - modelHz(3 - 1e-3, 25)) / 2e-3)) * 1e6;
+    expect(modelTempcoPpm).toBeGreaterThan(100);
+    const measuredTempco = analysis.kvcoTempcoPpmPerC as number;
+    expect(Math.abs(measuredTempco - modelTempcoPpm) / modelTempcoPpm).toBeLessThan(0.2);
   });
 
   it('measures pushing from the supply corners near the model (120 Hz/V)', async () => {
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
-    expect(analysis.pushingHzPerV?.typ).toBeGreaterThan(100);
-    expect(analysis.pushingHzPerV?.typ).toBeLessThan(140);
+    // Within 5 % of the model's 120 Hz/V: four runs gave 117.8–121.4 (the campaign is not bit-for-bit repeatable).
+    expect(Math.abs((analysis.pushingHzPerV?.typ ?? Number.NaN) - dut.pushingHzPerV) / dut.pushingHzPerV).toBeLessThan(
+      0.05,
+    );
     expect(analysis.headroom).toHaveLength(3);
     expect(analysis.headroom.every((r) => r.inWindow)).toBe(true);
   });
