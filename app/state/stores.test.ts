@@ -45,6 +45,9 @@ function fakeBench() {
       },
       events: [],
     })),
+    connect: vi.fn(async (_which: string): Promise<never> => {
+      throw new Error('supply.address: cannot open /dev/ttyUSB9');
+    }),
   };
   const bench = {
     subscribe: (l: (event: BenchEvent) => void) => {
@@ -58,9 +61,6 @@ function fakeBench() {
       ...meta(id, '2026-01-01T00:00:00Z'),
       dut: { id: dutId, notes: '' },
     })),
-    connect: vi.fn(async () => {
-      throw new Error('supply.address: cannot open /dev/ttyUSB9');
-    }),
   } as unknown as BenchApi;
   return { bench, mocks, push: (event: BenchEvent) => listener?.(event) };
 }
@@ -142,14 +142,14 @@ describe('app stores', () => {
   });
 
   it('reconnect opens the last bench again, and says so when this page never opened one', async () => {
-    const { bench } = fakeBench();
+    const { bench, mocks } = fakeBench();
     const stores = createAppStores(bench);
     expect(await stores.connection.getState().reconnect()).toBe(false);
-    expect(bench.connect).not.toHaveBeenCalled();
+    expect(mocks.connect).not.toHaveBeenCalled();
     expect(stores.connection.getState().error).toMatch(/choose the instruments again on the Bench screen/);
     await stores.connection.getState().connect('sim');
     await stores.connection.getState().reconnect();
-    expect(vi.mocked(bench.connect).mock.calls).toEqual([['sim'], ['sim']]);
+    expect(mocks.connect.mock.calls).toEqual([['sim'], ['sim']]);
   });
 
   it('lists runs newest first, deletes with undo, and forgets deleted runs from picks', async () => {
