@@ -40,6 +40,16 @@ describe('tunebench campaign', () => {
     await expect(readdir(join(work, 'refused'))).rejects.toThrow();
   });
 
+  it('refuses a misspelt nested key with a did-you-mean, exit 2, before any folder exists', async () => {
+    const bad = join(work, 'misspelt.json');
+    const plan = campaignPlanInput();
+    await writeFile(bad, JSON.stringify({ ...plan, soak: { ...plan.soak, dwelS: 60 } }));
+    const r = await runCliCaptured('campaign', '--plan', bad, '--runs', join(work, 'misspelt'));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/soak: unknown key "dwelS" \(did you mean "dwellS"\?\)/);
+    await expect(readdir(join(work, 'misspelt'))).rejects.toThrow();
+  });
+
   it('runs on the simulated bench in virtual time, then analyze --json and datasheet read the folder', async () => {
     const runs = join(work, 'ok');
     const r = await runCliCaptured('campaign', '--plan', planPath, '--runs', runs);
