@@ -11,6 +11,7 @@ import {
   type CampaignConditionInput,
 } from '../../app/analysis/campaign-analysis.ts';
 import { analyzeTable } from '../../app/analysis/analyze-table.ts';
+import { runOrigin } from '../../app/analysis/datasheet-run.ts';
 import type { SweepAnalysis } from '../../app/analysis/sweep-types.ts';
 import {
   campaignPlanSchema,
@@ -38,8 +39,10 @@ export async function loadCampaignAnalysis(dir: string): Promise<{ file: Campaig
   const inputs: CampaignConditionInput[] = [];
   for (const entry of file.conditions) {
     let sweep: SweepAnalysis | null = null;
+    let simulated = false;
     if (entry.runId !== null && entry.state === 'done') {
       const source = await loadAnalysisSource(join(dir, entry.runId));
+      simulated = source.meta !== null && runOrigin(source.meta).simulated;
       const result = analyzeTable('sweep', source.table, { gateS: source.gateS });
       if (result.kind === 'sweep') sweep = result;
     }
@@ -55,6 +58,8 @@ export async function loadCampaignAnalysis(dir: string): Promise<{ file: Campaig
       status: entry.state,
       points: sweep ? sweep.points : null,
       stallV: sweep?.stall.thresholdV ?? null,
+      stallUncertaintyV: sweep?.stall.thresholdUncertaintyV ?? null,
+      simulated,
     });
   }
   const analysis = analyzeCampaign(inputs, {

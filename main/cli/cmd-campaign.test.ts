@@ -86,9 +86,15 @@ describe('tunebench campaign', () => {
     expect(json.headroom).toHaveLength(2);
     const d = await runCliCaptured('datasheet', dir);
     expect(d.code).toBe(0);
-    expect(d.out).toMatch(/\| Kvco at 0 °C \|/);
+    expect(d.out).toMatch(/\| Kvco at 0\.0 °C \|/);
     expect(d.out).toMatch(/\| Kvco at 50\.0 °C \|/);
     expect(d.out).toMatch(/Tuning headroom over temperature/);
+    const h = await runCliCaptured('datasheet', dir, '--format', 'html');
+    expect(h.code, h.err).toBe(0);
+    expect(h.out).toMatch(/^<!doctype html>/);
+    expect(h.out).toContain('SIMULATED BENCH');
+    expect(h.out).toContain('T 0.0 °C … 50.0 °C; supply 4.800 V … 5.200 V; 1 unit');
+    expect(h.out).toMatch(/<td>Kvco at 50\.0 °C<\/td><td>[^<]*<\/td><td class="num">[\d.]+ ± [\d.]+ kHz\/V<\/td>/);
   }, 60_000);
 
   it(
