@@ -160,7 +160,7 @@ export function startCampaignSession(
         active = false;
         if (!started) {
           started = true;
-          rejectStarted(error);
+          rejectStarted(error instanceof Error ? error : new Error(String(error)));
           return null;
         }
         options.emit({ type: 'error', message: `campaign: ${error instanceof Error ? error.message : String(error)}` });
