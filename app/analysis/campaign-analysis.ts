@@ -188,9 +188,22 @@ function propagatedSlopeU(x: readonly number[], u: readonly number[]): number {
   return Math.sqrt(sum);
 }
 
+/**
+ * A slope's uncertainty: with two points only the points' own (propagated);
+ * with more, the larger of that and the residuals' scatter. NaN when neither
+ * is known.
+ */
+function slopeUncertainty(residualSe: number, x: readonly number[], u: readonly (number | null)[]): number {
+  const known = u.every((v) => v !== null && Number.isFinite(v));
+  const propagated = known ? propagatedSlopeU(x, u as number[]) : Number.NaN;
+  if (!Number.isFinite(residualSe)) return propagated;
+  return Number.isFinite(propagated) ? Math.max(residualSe, propagated) : residualSe;
+}
+
 function coefficient(
   rows: CampaignConditionResult[],
   pick: (r: CampaignConditionResult) => number | null,
+  pickU: (r: CampaignConditionResult) => number | null,
   referenceC: number,
 ): Coefficient | null {
   const use = rows.filter((r) => r.dutTemperatureC !== null && pick(r) !== null);
@@ -202,7 +215,16 @@ function coefficient(
   if (fit === null || !(fit.at !== 0)) return null;
   return {
     ppmPerC: (fit.slope / fit.at) * 1e6,
-    uncertaintyPpmPerC: Math.abs(fit.slopeSe / fit.at) * 1e6,
+    uncertaintyPpmPerC:
+      (Math.abs(
+        slopeUncertainty(
+          fit.slopeSe,
+          use.map((r) => r.dutTemperatureC as number),
+          use.map(pickU),
+        ),
+      ) /
+        Math.abs(fit.at)) *
+      1e6,
     points: use.length,
   };
 }
@@ -235,8 +257,18 @@ export function analyzeCampaign(
   const kvcoTempcoByUnit: Record<string, Coefficient | null> = {};
   for (const unit of units) {
     const rows = conditions.filter((r) => r.unit === unit && atNominalSupply(r));
-    frequencyTempcoByUnit[unit] = coefficient(rows, (r) => r.frequencyAtNominalHz, referenceC);
-    kvcoTempcoByUnit[unit] = coefficient(rows, (r) => r.kvcoAtNominalHzPerV, referenceC);
+    frequencyTempcoByUnit[unit] = coefficient(
+      rows,
+      (r) => r.frequencyAtNominalHz,
+      (r) => r.frequencyUncertaintyHz,
+      referenceC,
+    );
+    kvcoTempcoByUnit[unit] = coefficient(
+      rows,
+      (r) => r.kvcoAtNominalHzPerV,
+      (r) => r.kvcoUncertaintyHzPerV,
+      referenceC,
+    );
   }
   const mean = (xs: (Coefficient | null)[]): number | null => {
     const v = xs.filter((x): x is Coefficient => x !== null).map((x) => x.ppmPerC);
@@ -277,15 +309,11 @@ export function analyzeCampaign(
         options.nominalSupplyV,
       );
       if (!fit) continue;
-      const us = rows.map((r) => r.frequencyUncertaintyHz);
-      const propagated = us.every((u) => u !== null && Number.isFinite(u))
-        ? propagatedSlopeU(
-            rows.map((r) => r.supplyV),
-            us as number[],
-          )
-        : null;
-      // Two corners: only the points' own uncertainties; more: the larger of those and the residuals' scatter.
-      const uncertainty = Number.isFinite(fit.slopeSe) ? Math.max(fit.slopeSe, propagated ?? 0) : propagated;
+      const uncertainty = slopeUncertainty(
+        fit.slopeSe,
+        rows.map((r) => r.supplyV),
+        rows.map((r) => r.frequencyUncertaintyHz),
+      );
       pushing.push({ unit, temperatureC: t, hzPerV: fit.slope, uncertaintyHzPerV: uncertainty, points: rows.length });
     }
   }

@@ -89,6 +89,19 @@ describe('campaign datasheet', () => {
     expect(page).toMatch(/<td class="num">1\.20 ± 0\.05 V<\/td>|<td class="num">1\.200 ± 0\.050 V<\/td>/);
   });
 
+  it('with two temperatures the tempco still carries its ±, propagated from the points (no residuals to use)', () => {
+    const two = analyzeCampaign(
+      inputs(false).filter((c) => c.temperatureC !== 25),
+      options,
+    );
+    const coefficient = two.frequencyTempcoByUnit['unit-2'];
+    expect(coefficient?.points).toBe(2);
+    expect(coefficient?.ppmPerC).toBeCloseTo(100, 0);
+    expect(Number.isFinite(coefficient?.uncertaintyPpmPerC)).toBe(true);
+    expect(coefficient?.uncertaintyPpmPerC).toBeGreaterThan(0);
+    expect(renderCampaignMarkdown(two)).toMatch(/\| Frequency tempco \|[^|]*\| [\d.]+ ± [\d.]+ ppm\/°C \|/);
+  });
+
   it('no banner when no run came from the simulated bench', () => {
     const measured = analyzeCampaign(inputs(false), options);
     expect(renderCampaignHtml(measured)).not.toContain('SIMULATED BENCH');

@@ -59,7 +59,7 @@ export function createCampaignMethods(options: CampaignMethodsOptions) {
   let current: CampaignSession | null = null;
   let last: CampaignView | null = null;
 
-  const begin = async (what: { plan: unknown } | { dir: string }): Promise<CampaignView> => {
+  const begin = async (what: Parameters<typeof startCampaignSession>[1]): Promise<CampaignView> => {
     const opened = await options.acquire();
     if (!opened.chamber) {
       options.release();
@@ -108,7 +108,7 @@ export function createCampaignMethods(options: CampaignMethodsOptions) {
       const status = await effectiveStatus(dir, file);
       if (status === 'complete') throw new BenchApiError(`campaign ${id} is complete: nothing to resume`, 'id');
       if (status === 'running') throw new BenchApiError(`campaign ${id} is still running`, 'id');
-      return begin({ dir });
+      return begin({ dir, file });
     },
     async stopCampaign() {
       if (!current) throw new BenchApiError('no campaign in progress');

@@ -66,10 +66,18 @@ export function viewOf(
  */
 export function startCampaignSession(
   options: CampaignSessionOptions,
-  what: { plan: unknown } | { dir: string },
+  what: { plan: unknown } | { dir: string; file: CampaignFile },
 ): Promise<CampaignSession> {
   const control = new RunControl();
-  let file: CampaignFile | null = null;
+  // A resumed campaign may open with a unit change, before any condition changes state: show its file at once.
+  let file: CampaignFile | null =
+    'file' in what
+      ? {
+          ...what.file,
+          status: 'running',
+          conditions: what.file.conditions.map((c) => (c.state === 'done' ? c : { ...c, state: 'waiting' })),
+        }
+      : null;
   let unitChange: CampaignView['unitChange'] = null;
   let answer: (() => void) | null = null;
   let safeStateOk: boolean | null = null;
@@ -97,6 +105,13 @@ export function startCampaignSession(
       bench: options.bench,
       clock: options.clock,
       control,
+      onEvent: (event: { type: string }) => {
+        if (event.type === 'campaign-resume' && file !== null && !started) {
+          started = true;
+          resolveStarted(session);
+          push();
+        }
+      },
       onState: (entry: { index: number; state: string }, current: CampaignFile) => {
         file = current;
         if (entry.state === 'sweeping') {

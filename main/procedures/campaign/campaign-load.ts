@@ -11,6 +11,7 @@ import {
   type CampaignAnalysis,
   type CampaignConditionInput,
 } from '../../../app/analysis/campaign-analysis.ts';
+import { AnalysisError } from '../../../app/analysis/analysis-error.ts';
 import { analyzeTable } from '../../../app/analysis/analyze-table.ts';
 import { runHints, runOrigin } from '../../../app/analysis/datasheet-run.ts';
 import {
@@ -47,8 +48,15 @@ export async function loadCampaign(dir: string): Promise<{ file: CampaignFile; a
       const run = await readRunFolder(join(dir, entry.runId)).catch((error: Error) => {
         throw new CampaignFileError(`${join(dir, entry.runId ?? '')}: not a readable run folder (${error.message})`);
       });
-      const result = analyzeTable('sweep', readSampleTable(run.samplesCsv), { gateS: runHints(run.meta).gateS });
-      if (result.kind === 'sweep') {
+      let result: ReturnType<typeof analyzeTable> | null = null;
+      try {
+        result = analyzeTable('sweep', readSampleTable(run.samplesCsv), { gateS: runHints(run.meta).gateS });
+      } catch (error) {
+        // A sweep that cannot be analysed gives this condition no figures; the others still count.
+        if (!(error instanceof AnalysisError)) throw error;
+        input.status = `done (not analysable: ${error.message})`;
+      }
+      if (result?.kind === 'sweep') {
         input.points = result.points;
         input.stallV = result.stall.thresholdV;
         input.stallUncertaintyV = result.stall.thresholdUncertaintyV;
