@@ -40,7 +40,7 @@ describe('generated file formats', () => {
   it('shipped profiles and DUT models name their JSON Schema and load through their strict loaders', async () => {
     const { readdirSync, existsSync } = await import('node:fs');
     const { loadProfile } = await import('../main/instruments/profile-loader.ts');
-    const { loadDutParamsFile } = await import('../main/sim/dut-params.ts');
+    const { loadDutParamsFile } = await import('../main/cli/sim-files.ts');
     for (const [folder, schema] of [
       ['profiles', 'profile'],
       ['duts', 'dut'],

@@ -5,7 +5,8 @@
  * SIGINT/SIGTERM.
  */
 import { builtinDut } from '../sim/builtin-duts.ts';
-import { loadFaultScriptFile, type FaultScript } from '../sim/faults.ts';
+import type { FaultScript } from '../sim/faults.ts';
+import { loadFaultScriptFile } from './sim-files.ts';
 import type { NoSignalReply } from '../sim/sim-counter.ts';
 import { serveSimBench } from '../sim/tcp-server.ts';
 import { RealClock } from '../time/real-clock.ts';

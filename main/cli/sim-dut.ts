@@ -3,7 +3,8 @@
  * commands: a built-in model name or a DUT model file (JSON).
  */
 import { isBuiltinDutName, type BuiltinDutName } from '../sim/builtin-duts.ts';
-import { loadDutParamsFile, type DutParams } from '../sim/dut-params.ts';
+import type { DutParams } from '../sim/dut-params.ts';
+import { loadDutParamsFile } from './sim-files.ts';
 import { UsageError } from './types.ts';
 
 export async function resolveSimDut(value: string | undefined): Promise<BuiltinDutName | DutParams> {

@@ -8,19 +8,18 @@ import { parseBoundedJson } from '../../app/contract/bounded-json.ts';
 import { readdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { z } from 'zod';
-import { compileTemplate, type CommandTemplate } from './command-template.ts';
 import { ProfileError } from './errors.ts';
-import {
-  PLACEHOLDERS,
-  profileSchema,
-  type ChamberProfile,
-  type CounterProfile,
-  type InstrumentProfile,
-  type SupplyProfile,
-  type ThermometerProfile,
+import { defaultProfileName, parseProfile } from './profile-parse.ts';
+import type {
+  ChamberProfile,
+  CounterProfile,
+  InstrumentProfile,
+  SupplyProfile,
+  ThermometerProfile,
 } from './profile-schema.ts';
 import type { RoleName } from './roles.ts';
+
+export { defaultProfileName, parseProfile };
 
 export const SHIPPED_PROFILE_DIR = fileURLToPath(new URL('../../resources/profiles/', import.meta.url));
 
@@ -40,11 +39,6 @@ type ProfileFor<R extends RoleName> = R extends 'supply'
     : R extends 'chamber'
       ? ChamberProfile
       : ThermometerProfile;
-
-/** The standard-SCPI profile name for a role. */
-export function defaultProfileName(role: RoleName): string {
-  return `${role}-scpi`;
-}
 
 const NAME_RE = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
@@ -81,35 +75,6 @@ export async function loadProfile(name: string, options: LoadProfileOptions = {}
   throw new ProfileError(name, `not found; looked in ${candidates.join(', ')}`);
 }
 
-/** Validates a parsed profile object and compiles its command templates. */
-export function parseProfile(json: unknown, name: string): InstrumentProfile {
-  const result = profileSchema.safeParse(json);
-  if (!result.success) throw new ProfileError(name, describe(result.error));
-  const data = result.data;
-  const allowed: Record<string, readonly string[]> = PLACEHOLDERS[data.role];
-  const commands: Record<string, CommandTemplate | undefined> = {};
-  for (const [op, source] of Object.entries(data.commands)) {
-    if (source === undefined) {
-      commands[op] = undefined;
-      continue;
-    }
-    try {
-      commands[op] = compileTemplate(source, allowed[op] ?? []);
-    } catch (error) {
-      throw new ProfileError(name, `commands.${op}: ${(error as Error).message}`);
-    }
-  }
-  data.init.forEach((source, i) => {
-    try {
-      compileTemplate(source, []);
-    } catch (error) {
-      throw new ProfileError(name, `init.${i}: ${(error as Error).message}`);
-    }
-  });
-  // The zod output and the compiled map agree key by key (checked above), so the cast only joins them.
-  return { ...data, name, commands } as unknown as InstrumentProfile;
-}
-
 /** Profile names available: user profiles first, then shipped ones not overridden. */
 export async function listProfiles(
   options: Omit<LoadProfileOptions, 'role'> = {},
@@ -138,10 +103,4 @@ function candidatePaths(name: string, options: LoadProfileOptions): string[] {
 
 function profileNameOf(name: string): string {
   return name.endsWith('.json') ? path.basename(name, '.json') : name;
-}
-
-function describe(error: z.ZodError): string {
-  return error.issues
-    .map((issue) => `${issue.path.length > 0 ? issue.path.join('.') : '(root)'}: ${issue.message}`)
-    .join('; ');
 }

@@ -5,7 +5,6 @@
  * resumed into its own folder. This is what the CLI and the BenchApi
  * service call.
  */
-import { rm } from 'node:fs/promises';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import {
   driftPlanSchema,
@@ -14,7 +13,7 @@ import {
   type PushingPlan,
   type SweepPlan,
 } from '../../app/contract/plans.ts';
-import { createRun, reopenRun, type RunWriter } from '../store/index.ts';
+import { createRun, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
 import { checkControlV, checkLimits, LimitsError } from './limits.ts';
@@ -81,7 +80,7 @@ async function refusedBeforeOutput(
 ): Promise<void> {
   if (outcome.failure?.kind !== 'limits' || outputTouched || outcome.rowsWritten > 0) return;
   await writer.finish('aborted');
-  await rm(writer.dir, { recursive: true, force: true });
+  await nodeStoreFs.rm(writer.dir, { recursive: true, force: true });
   const field = /^([\w.[\]]+): /.exec(outcome.failure.message)?.[1] ?? 'plan';
   throw new LimitsError(field, outcome.failure.message.slice(field.length + 2) || outcome.failure.message);
 }

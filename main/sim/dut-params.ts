@@ -3,9 +3,7 @@
  * file names the field. SI units throughout: ohms, farads, henries, volts,
  * seconds, hertz; ppm where the trade quotes ppm.
  */
-import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
-import { parseBoundedJson } from '../../app/contract/bounded-json.ts';
 import { schemaRef, strictObject } from '../../app/contract/schema-kit.ts';
 
 /**
@@ -157,20 +155,4 @@ export function parseDutParams(value: unknown, source = 'DUT'): DutParams {
   const result = dutParamsSchema.safeParse(value);
   if (!result.success) throw new DutParamsError(describeIssues(result.error, source));
   return result.data;
-}
-
-export async function loadDutParamsFile(path: string): Promise<DutParams> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    throw new DutParamsError(`${path}: cannot read DUT file (${(error as Error).message})`);
-  }
-  let json: unknown;
-  try {
-    json = parseBoundedJson(text);
-  } catch (error) {
-    throw new DutParamsError(`${path}: ${(error as Error).message}`);
-  }
-  return parseDutParams(json, path);
 }

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { fileURLToPath } from 'node:url';
-import { loadFaultScriptFile, parseFaultScript, type FaultSpec } from './faults.ts';
+import { loadFaultScriptFile } from '../cli/sim-files.ts';
+import { parseFaultScript, type FaultSpec } from './faults.ts';
 import { LineClient } from './line-client.ts';
 import { createSimBench } from './sim-bench.ts';
 import type { z } from 'zod';

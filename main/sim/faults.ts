@@ -5,7 +5,6 @@
  * time (`atS`, seconds since the bench started) or at the n-th reading of
  * its device (`atReading`, 1-based; readings are measurement queries).
  */
-import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
 import type { Clock } from '../time/clock.ts';
 import type { ReplyAction } from './device-link.ts';
@@ -60,16 +59,6 @@ export function parseFaultScript(value: unknown, source = 'faults'): FaultScript
     throw new FaultScriptError(`${source}: invalid fault script — ${detail}`);
   }
   return result.data;
-}
-
-export async function loadFaultScriptFile(path: string): Promise<FaultScript> {
-  let json: unknown;
-  try {
-    json = JSON.parse(await readFile(path, 'utf8'));
-  } catch (error) {
-    throw new FaultScriptError(`${path}: cannot read fault script (${(error as Error).message})`);
-  }
-  return parseFaultScript(json, path);
 }
 
 /** Bytes a confused instrument might send: no newline inside, one at the end. */

@@ -2,7 +2,6 @@
  * The clock of the real world: monotonic seconds from performance.now(),
  * waits on the platform's timers.
  */
-import { performance } from 'node:perf_hooks';
 import { abortError } from './abort.ts';
 import type { Clock } from './clock.ts';
 

@@ -5,7 +5,6 @@
  * a real bench, unlike a virtual clock that jumps. Never for real
  * instruments, whose settling and gate times are physical.
  */
-import { performance } from 'node:perf_hooks';
 import type { Clock } from './clock.ts';
 import { sleepOn } from './real-clock.ts';
 

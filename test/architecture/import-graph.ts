@@ -5,6 +5,7 @@
  * run time, but they still say which layer knows which.
  */
 import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { builtinModules } from 'node:module';
 import { dirname, join, relative, resolve } from 'node:path';
 
 export interface ImportEdge {
@@ -14,6 +15,13 @@ export interface ImportEdge {
 }
 
 const ROOTS = ['app', 'main'];
+/** A Node built-in by name: `node:fs`, or the bare `fs`, `fs/promises`, `path`… */
+const BUILTINS: ReadonlySet<string> = new Set(builtinModules.filter((name) => !name.startsWith('_')));
+
+export function isNodeBuiltin(spec: string): boolean {
+  return spec.startsWith('node:') || BUILTINS.has(spec) || BUILTINS.has(spec.split('/')[0] ?? '');
+}
+
 const IMPORT =
   /(?:^|\n)\s*(import|export)\s+(type\s+)?(?:[^'";]*?\s+from\s+)?['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)/g;
 
@@ -31,18 +39,18 @@ function sourceFiles(dir: string, out: string[] = []): string[] {
 export function importGraph(repo: string): {
   files: string[];
   edges: ImportEdge[];
-  builtins: { from: string; module: string }[];
+  builtins: { from: string; module: string; typeOnly: boolean }[];
 } {
   const files = ROOTS.flatMap((root) => sourceFiles(join(repo, root))).map((f) =>
     relative(repo, f).split('\\').join('/'),
   );
   const edges: ImportEdge[] = [];
-  const builtins: { from: string; module: string }[] = [];
+  const builtins: { from: string; module: string; typeOnly: boolean }[] = [];
   for (const file of files) {
     const text = readFileSync(join(repo, file), 'utf8');
     for (const m of text.matchAll(IMPORT)) {
       const spec = m[3] ?? m[4] ?? '';
-      if (spec.startsWith('node:')) builtins.push({ from: file, module: spec });
+      if (isNodeBuiltin(spec)) builtins.push({ from: file, module: spec, typeOnly: m[2] !== undefined });
       if (!spec.startsWith('.')) continue;
       const to = relative(repo, resolve(join(repo, dirname(file)), spec))
         .split('\\')

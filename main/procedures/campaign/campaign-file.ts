@@ -5,10 +5,9 @@
  * so a crash leaves the previous or the next version whole; a process that
  * dies leaves `running`, which a resume reads as interrupted.
  */
-import { readFile } from 'node:fs/promises';
-import { join } from 'node:path';
 import { z } from 'zod';
 import { writeJsonAtomic } from '../../store/atomic-json.ts';
+import { joinPath as join } from '../../store/store-path.ts';
 import { nodeStoreFs } from '../../store/store-fs.ts';
 
 export const CAMPAIGN_SCHEMA = 'tunebench.campaign/1';
@@ -69,7 +68,7 @@ export async function readCampaignFile(dir: string): Promise<CampaignFile> {
   const path = join(dir, CAMPAIGN_FILE);
   let text: string;
   try {
-    text = await readFile(path, 'utf8');
+    text = await nodeStoreFs.readFile(path);
   } catch (error) {
     throw new CampaignFileError(`${path}: cannot read (${(error as Error).message}); is ${dir} a campaign folder?`);
   }

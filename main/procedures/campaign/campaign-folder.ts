@@ -3,8 +3,7 @@
  * campaign.json, campaign-events.jsonl, soak-log.csv and one ordinary run
  * folder per sweep.
  */
-import { appendFile, mkdir, writeFile } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { joinPath as join, resolvePath as resolve } from '../../store/store-path.ts';
 import {
   makeLock,
   readLock,
@@ -29,12 +28,12 @@ export async function createCampaignFolder(
 ): Promise<{ id: string; dir: string }> {
   const stamp = wallIso.slice(0, 19).replace(/[-:]/g, '').replace('T', '-');
   const base = `${stamp}-campaign-${dutSlug(label)}`;
-  await mkdir(runsDir, { recursive: true });
+  await nodeStoreFs.mkdir(runsDir, { recursive: true });
   for (let n = 1; n < 1000; n++) {
     const id = n === 1 ? base : `${base}-${n}`;
     const dir = join(runsDir, id);
     try {
-      await mkdir(dir);
+      await nodeStoreFs.mkdir(dir);
       return { id, dir };
     } catch (error) {
       if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
@@ -45,13 +44,13 @@ export async function createCampaignFolder(
 
 /** Appends one event line; the campaign's own log beside its runs. */
 export async function appendCampaignEvent(dir: string, event: Record<string, unknown>): Promise<void> {
-  await appendFile(join(dir, CAMPAIGN_EVENTS_FILE), `${JSON.stringify(event)}\n`, 'utf8');
+  await nodeStoreFs.appendFile(join(dir, CAMPAIGN_EVENTS_FILE), `${JSON.stringify(event)}\n`);
 }
 
 /** Writes the soak log's header unless the file exists (a resumed campaign carries on in it). */
 export async function ensureSoakLog(dir: string): Promise<void> {
   try {
-    await writeFile(join(dir, SOAK_LOG_FILE), `${SOAK_LOG_HEADER}\n`, { encoding: 'utf8', flag: 'wx' });
+    await nodeStoreFs.writeFile(join(dir, SOAK_LOG_FILE), `${SOAK_LOG_HEADER}\n`, { flag: 'wx' });
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
   }
@@ -60,7 +59,7 @@ export async function ensureSoakLog(dir: string): Promise<void> {
 /** Appends one soak reading; numbers in shortest round-trip form, empty for none. */
 export function appendSoakRow(dir: string, row: readonly (number | null)[]): Promise<void> {
   const cells = row.map((v) => (v === null || !Number.isFinite(v) ? '' : String(v))).join(',');
-  return appendFile(join(dir, SOAK_LOG_FILE), `${cells}\n`, 'utf8');
+  return nodeStoreFs.appendFile(join(dir, SOAK_LOG_FILE), `${cells}\n`);
 }
 
 /**
