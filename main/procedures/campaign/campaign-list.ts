@@ -3,8 +3,7 @@
  * as a reader should see it: a `running` campaign whose writer is gone
  * (pid, host, heartbeat of the store's writer lock) is `interrupted`.
  */
-import { readdir } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { joinPath as join, resolvePath as resolve } from '../../store/store-path.ts';
 import { readLock, writerAlive } from '../../store/writer-lock.ts';
 import { nodeStoreFs } from '../../store/store-fs.ts';
 import { readCampaignFile, type CampaignFile, type CampaignStatus } from './campaign-file.ts';
@@ -27,7 +26,7 @@ export async function effectiveStatus(dir: string, file: CampaignFile): Promise<
 }
 
 export async function listCampaignFolders(runsDir: string): Promise<CampaignFolderSummary[]> {
-  const names = await readdir(runsDir).catch(() => [] as string[]);
+  const names = await nodeStoreFs.readdir(runsDir).catch(() => [] as string[]);
   const found: CampaignFolderSummary[] = [];
   for (const name of names
     .filter((n) => n.includes('-campaign-'))

@@ -5,7 +5,7 @@
  * all of them. Shared by the CLI (analyze, datasheet) and the service (the
  * app's campaign datasheet).
  */
-import { join } from 'node:path';
+import { joinPath as join } from '../../store/store-path.ts';
 import {
   analyzeCampaign,
   type CampaignAnalysis,
