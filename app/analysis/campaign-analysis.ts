@@ -21,6 +21,24 @@ export interface CampaignConditionInput {
   points: readonly SweepPointLite[] | null;
   /** Lower stall edge of the sweep, V (null: none found). */
   stallV: number | null;
+  /** ± of stallV (half the local step), V. */
+  stallUncertaintyV?: number | null;
+  /** The run was taken on the simulated bench (run.json `simulated`). */
+  simulated?: boolean;
+}
+
+/**
+ * Min, typ (mean) and max across units or conditions, each with its 1σ
+ * measurement uncertainty: min and max carry their own condition's, typ the
+ * mean's, √Σu²/n (the spread itself is the min…max, not an uncertainty).
+ */
+export interface SpreadFigure {
+  min: number;
+  minUncertainty: number | null;
+  typ: number;
+  typUncertainty: number | null;
+  max: number;
+  maxUncertainty: number | null;
 }
 
 export interface CampaignAnalysisOptions {
@@ -58,11 +76,14 @@ export interface HeadroomRow {
   dutTemperatureC: number | null;
   /** Control voltage holding headroomTargetHz at nominal supply; null if the sweep never reaches it. */
   controlV: number | null;
+  /** 1σ of controlV: the local fit's frequency uncertainty over its slope there. */
+  controlUncertaintyV: number | null;
   /** controlV − window low, window high − controlV (negative: outside the window). */
   marginLowV: number | null;
   marginHighV: number | null;
-  /** The stall edge at this temperature, when the sweep found one. */
+  /** The stall edge at this temperature, when the sweep found one, and its ±. */
   stallV: number | null;
+  stallUncertaintyV: number | null;
   inWindow: boolean;
 }
 
@@ -84,16 +105,22 @@ export interface CampaignAnalysis {
     kvcoTypHzPerV: number;
     kvcoMaxHzPerV: number;
     frequencyTypHz: number;
+    /** Kvco and frequency at this temperature across units and supply corners, with uncertainties. */
+    kvco: SpreadFigure;
+    frequency: SpreadFigure;
+    supplyRangeV: [number, number];
     n: number;
   }[];
-  pushing: { unit: string; temperatureC: number; hzPerV: number; points: number }[];
-  pushingHzPerV: { min: number; typ: number; max: number } | null;
+  pushing: { unit: string; temperatureC: number; hzPerV: number; uncertaintyHzPerV: number | null; points: number }[];
+  pushingHzPerV: SpreadFigure | null;
   headroomTargetHz: number | null;
   tuningWindowV: [number, number];
   headroom: HeadroomRow[];
+  /** Any run of the campaign came from the simulated bench. */
+  simulated: boolean;
   overall: {
-    kvcoHzPerV: { min: number; typ: number; max: number } | null;
-    frequencyHz: { min: number; typ: number; max: number } | null;
+    kvcoHzPerV: SpreadFigure | null;
+    frequencyHz: SpreadFigure | null;
     temperatureRangeC: [number, number] | null;
     supplyRangeV: [number, number] | null;
     units: string[];
@@ -124,14 +151,59 @@ export function line(
   return { slope, slopeSe, at: my + slope * (x0 - mx) };
 }
 
-function spread(values: readonly number[]): { min: number; typ: number; max: number } | null {
-  if (values.length === 0) return null;
-  return { min: Math.min(...values), typ: values.reduce((s, v) => s + v, 0) / values.length, max: Math.max(...values) };
+/** Min/typ/max of values with their uncertainties (null: unknown; a mean with any unknown is unknown). */
+export function spreadOf(items: readonly { value: number; u: number | null }[]): SpreadFigure | null {
+  if (items.length === 0) return null;
+  let lo = items[0] as { value: number; u: number | null };
+  let hi = lo;
+  let sum = 0;
+  let sumU2: number | null = 0;
+  for (const item of items) {
+    if (item.value < lo.value) lo = item;
+    if (item.value > hi.value) hi = item;
+    sum += item.value;
+    sumU2 = sumU2 === null || item.u === null || !Number.isFinite(item.u) ? null : sumU2 + item.u * item.u;
+  }
+  const finite = (u: number | null): number | null => (u !== null && Number.isFinite(u) ? u : null);
+  return {
+    min: lo.value,
+    minUncertainty: finite(lo.u),
+    typ: sum / items.length,
+    typUncertainty: sumU2 === null ? null : Math.sqrt(sumU2) / items.length,
+    max: hi.value,
+    maxUncertainty: finite(hi.u),
+  };
+}
+
+/**
+ * Standard uncertainty of a least-squares slope from the points' own
+ * uncertainties: u_b² = Σ((x_i − x̄)/Sxx)²·u_i² (GUM propagation, common
+ * practice). With two points the residuals say nothing; this still does.
+ */
+function propagatedSlopeU(x: readonly number[], u: readonly number[]): number {
+  const mx = x.reduce((s, v) => s + v, 0) / x.length;
+  const sxx = x.reduce((s, v) => s + (v - mx) ** 2, 0);
+  let sum = 0;
+  for (let i = 0; i < x.length; i++) sum += (((x[i] as number) - mx) / sxx) ** 2 * (u[i] as number) ** 2;
+  return Math.sqrt(sum);
+}
+
+/**
+ * A slope's uncertainty: with two points only the points' own (propagated);
+ * with more, the larger of that and the residuals' scatter. NaN when neither
+ * is known.
+ */
+function slopeUncertainty(residualSe: number, x: readonly number[], u: readonly (number | null)[]): number {
+  const known = u.every((v) => v !== null && Number.isFinite(v));
+  const propagated = known ? propagatedSlopeU(x, u as number[]) : Number.NaN;
+  if (!Number.isFinite(residualSe)) return propagated;
+  return Number.isFinite(propagated) ? Math.max(residualSe, propagated) : residualSe;
 }
 
 function coefficient(
   rows: CampaignConditionResult[],
   pick: (r: CampaignConditionResult) => number | null,
+  pickU: (r: CampaignConditionResult) => number | null,
   referenceC: number,
 ): Coefficient | null {
   const use = rows.filter((r) => r.dutTemperatureC !== null && pick(r) !== null);
@@ -143,7 +215,16 @@ function coefficient(
   if (fit === null || !(fit.at !== 0)) return null;
   return {
     ppmPerC: (fit.slope / fit.at) * 1e6,
-    uncertaintyPpmPerC: Math.abs(fit.slopeSe / fit.at) * 1e6,
+    uncertaintyPpmPerC:
+      (Math.abs(
+        slopeUncertainty(
+          fit.slopeSe,
+          use.map((r) => r.dutTemperatureC as number),
+          use.map(pickU),
+        ),
+      ) /
+        Math.abs(fit.at)) *
+      1e6,
     points: use.length,
   };
 }
@@ -176,8 +257,18 @@ export function analyzeCampaign(
   const kvcoTempcoByUnit: Record<string, Coefficient | null> = {};
   for (const unit of units) {
     const rows = conditions.filter((r) => r.unit === unit && atNominalSupply(r));
-    frequencyTempcoByUnit[unit] = coefficient(rows, (r) => r.frequencyAtNominalHz, referenceC);
-    kvcoTempcoByUnit[unit] = coefficient(rows, (r) => r.kvcoAtNominalHzPerV, referenceC);
+    frequencyTempcoByUnit[unit] = coefficient(
+      rows,
+      (r) => r.frequencyAtNominalHz,
+      (r) => r.frequencyUncertaintyHz,
+      referenceC,
+    );
+    kvcoTempcoByUnit[unit] = coefficient(
+      rows,
+      (r) => r.kvcoAtNominalHzPerV,
+      (r) => r.kvcoUncertaintyHzPerV,
+      referenceC,
+    );
   }
   const mean = (xs: (Coefficient | null)[]): number | null => {
     const v = xs.filter((x): x is Coefficient => x !== null).map((x) => x.ppmPerC);
@@ -187,8 +278,9 @@ export function analyzeCampaign(
   const temps = [...new Set(inputs.map((c) => c.temperatureC))].sort((a, b) => a - b);
   const perTemperature = temps.flatMap((t) => {
     const rows = conditions.filter((r) => r.temperatureC === t && r.kvcoAtNominalHzPerV !== null);
-    const k = spread(rows.map((r) => r.kvcoAtNominalHzPerV as number));
-    const f = spread(rows.map((r) => r.frequencyAtNominalHz as number));
+    const k = spreadOf(rows.map((r) => ({ value: r.kvcoAtNominalHzPerV as number, u: r.kvcoUncertaintyHzPerV })));
+    const f = spreadOf(rows.map((r) => ({ value: r.frequencyAtNominalHz as number, u: r.frequencyUncertaintyHz })));
+    const supplies = rows.map((r) => r.supplyV);
     const dut = rows.filter((r) => r.dutTemperatureC !== null).map((r) => r.dutTemperatureC as number);
     if (!k || !f) return [];
     return [
@@ -199,6 +291,9 @@ export function analyzeCampaign(
         kvcoTypHzPerV: k.typ,
         kvcoMaxHzPerV: k.max,
         frequencyTypHz: f.typ,
+        kvco: k,
+        frequency: f,
+        supplyRangeV: [Math.min(...supplies), Math.max(...supplies)] as [number, number],
         n: rows.length,
       },
     ];
@@ -213,7 +308,13 @@ export function analyzeCampaign(
         rows.map((r) => r.frequencyAtNominalHz as number),
         options.nominalSupplyV,
       );
-      if (fit) pushing.push({ unit, temperatureC: t, hzPerV: fit.slope, points: rows.length });
+      if (!fit) continue;
+      const uncertainty = slopeUncertainty(
+        fit.slopeSe,
+        rows.map((r) => r.supplyV),
+        rows.map((r) => r.frequencyUncertaintyHz),
+      );
+      pushing.push({ unit, temperatureC: t, hzPerV: fit.slope, uncertaintyHzPerV: uncertainty, points: rows.length });
     }
   }
 
@@ -227,14 +328,18 @@ export function analyzeCampaign(
     for (const c of inputs) {
       if (Math.abs(c.supplyV - options.nominalSupplyV) >= 1e-9 || c.points === null || c.status !== 'done') continue;
       const v = voltageForFrequency(c.points, targetHz);
+      const there = v === null ? null : localFigures(c.points, v);
       headroom.push({
         unit: c.unit,
         temperatureC: c.temperatureC,
         dutTemperatureC: c.dutTemperatureC,
         controlV: v,
+        controlUncertaintyV:
+          there && there.kvcoHzPerV !== 0 ? there.frequencyUncertaintyHz / Math.abs(there.kvcoHzPerV) : null,
         marginLowV: v === null ? null : v - Math.max(winLo, c.stallV ?? winLo),
         marginHighV: v === null ? null : winHi - v,
         stallV: c.stallV,
+        stallUncertaintyV: c.stallUncertaintyV ?? null,
         inWindow: v !== null && v >= Math.max(winLo, c.stallV ?? winLo) && v <= winHi,
       });
     }
@@ -253,13 +358,16 @@ export function analyzeCampaign(
     kvcoTempcoByUnit,
     perTemperature,
     pushing,
-    pushingHzPerV: spread(pushing.map((p) => p.hzPerV)),
+    pushingHzPerV: spreadOf(pushing.map((p) => ({ value: p.hzPerV, u: p.uncertaintyHzPerV }))),
     headroomTargetHz: targetHz,
     tuningWindowV: options.tuningWindowV,
     headroom,
+    simulated: inputs.some((c) => c.simulated === true),
     overall: {
-      kvcoHzPerV: spread(done.map((r) => r.kvcoAtNominalHzPerV as number)),
-      frequencyHz: spread(done.map((r) => r.frequencyAtNominalHz as number)),
+      kvcoHzPerV: spreadOf(done.map((r) => ({ value: r.kvcoAtNominalHzPerV as number, u: r.kvcoUncertaintyHzPerV }))),
+      frequencyHz: spreadOf(
+        done.map((r) => ({ value: r.frequencyAtNominalHz as number, u: r.frequencyUncertaintyHz })),
+      ),
       temperatureRangeC: temps.length ? [temps[0] as number, temps[temps.length - 1] as number] : null,
       supplyRangeV: inputs.length
         ? [Math.min(...inputs.map((c) => c.supplyV)), Math.max(...inputs.map((c) => c.supplyV))]

@@ -44,7 +44,7 @@ export function displayRow(row: DatasheetRow): { min: string; typ: string; max: 
   };
 }
 
-const SIMULATED_BANNER = 'SIMULATED BENCH: figures from the built-in simulator, not from hardware.';
+export const SIMULATED_BANNER = 'SIMULATED BENCH: figures from the built-in simulator, not from hardware.';
 
 const HEAD = ['Parameter', 'Conditions', 'Min', 'Typ', 'Max', 'Unit'];
 
@@ -114,11 +114,11 @@ export function renderDatasheetCsv(sheet: Datasheet): string {
   return `${lines.join('\n')}\n`;
 }
 
-function html(text: string): string {
+export function html(text: string): string {
   return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
 
-const STYLE = `
+export const STYLE = `
   body { font: 11pt/1.4 system-ui, sans-serif; color: #111; background: #fff; margin: 2em auto; max-width: 60em; padding: 0 1em; }
   h1 { font-size: 16pt; margin: 0 0 0.3em; }
   p.runs { color: #444; margin: 0 0 1em; }

@@ -19,6 +19,7 @@ import {
   siNumber,
   sweepPlanSchema,
 } from './plans.ts';
+import { campaignPlanSchema } from './campaign-plan.ts';
 
 /** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
 export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
@@ -106,6 +107,13 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   restoreRun: params(['id'], [runIdSchema]),
   importCsv: params(['fileName', 'csvText', 'dutId'], [fileNameSchema, csvTextSchema, dutIdSchema]),
   printDatasheetPdf: params(['fileName'], [fileNameSchema]),
+  startCampaign: params(['plan'], [campaignPlanSchema]),
+  resumeCampaign: params(['id'], [runIdSchema]),
+  stopCampaign: none(),
+  confirmUnitChange: none(),
+  getCampaign: none(),
+  listCampaigns: none(),
+  campaignDatasheet: params(['id'], [runIdSchema]),
 };
 
 export function isBenchMethod(name: unknown): name is BenchMethod | DesktopMethod {

@@ -14,6 +14,13 @@
 import type { z } from 'zod';
 import type { KnownShape } from './known-shape.ts';
 import type { BenchConfig, DriftPlan, PushingPlan, SweepPlan } from './plans.ts';
+import type {
+  CampaignSheet,
+  CampaignSummary,
+  CampaignView,
+  SoakSampleView,
+  SweepPointView,
+} from './campaign-schemas.ts';
 import type { ReadingStatus } from './reading-status.ts';
 import type { runMetaSchema } from './run-meta-schema.ts';
 import type { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
@@ -109,7 +116,13 @@ export type BenchEvent =
   | { type: 'bench-status'; status: BenchStatus }
   | { type: 'error'; message: string }
   /** Browser mode: how many other pages drive the same bench (any of them can stop, pause or rename a run). */
-  | { type: 'peers'; others: number };
+  | { type: 'peers'; others: number }
+  /** A campaign's state changed (a condition, the unit-change question, the end). */
+  | { type: 'campaign'; campaign: CampaignView }
+  /** Soak readings (batched): setpoint, chamber air and DUT temperature. */
+  | { type: 'campaign-soak'; samples: SoakSampleView[] }
+  /** Readings of the condition being swept (batched). */
+  | { type: 'campaign-sweep'; index: number; points: SweepPointView[] };
 
 export interface SerialPortInfo {
   path: string;
@@ -150,6 +163,27 @@ export interface BenchApi {
   deleteRun(id: string): Promise<void>;
   restoreRun(id: string): Promise<RunMeta>;
   importCsv(fileName: string, csvText: string, dutId: string): Promise<RunMeta>;
+
+  /*
+   * Campaigns (temperature chamber, supply corners, units). Optional: a
+   * carrier without a chamber (the in-page web edition) leaves them out.
+   * One campaign or run at a time on the connected bench, which needs a
+   * chamber and the DUT thermometer.
+   */
+  /** Starts a campaign with this plan (campaign-plan.ts) in a new campaign folder of the runs folder. */
+  startCampaign?(plan: unknown): Promise<CampaignView>;
+  /** Carries on an interrupted or stopped campaign of the runs folder: done conditions are kept. */
+  resumeCampaign?(id: string): Promise<CampaignView>;
+  /** Stops the campaign: supply outputs off, chamber to safeC; resolves once it is told. */
+  stopCampaign?(): Promise<void>;
+  /** The operator has changed the unit (the campaign waits for this between units). */
+  confirmUnitChange?(): Promise<void>;
+  /** The campaign running now, else the last one this process ran; null when none. */
+  getCampaign?(): Promise<CampaignView | null>;
+  /** The campaign folders of the runs folder, newest first. */
+  listCampaigns?(): Promise<CampaignSummary[]>;
+  /** The campaign datasheet of one campaign folder. */
+  campaignDatasheet?(id: string): Promise<CampaignSheet>;
 
   /**
    * Desktop app only (optional): prints the calling window's current page —

@@ -6,6 +6,12 @@
  */
 import { z } from 'zod';
 import type { BenchMethod, CodedTextColumn } from './bench-api.ts';
+import {
+  campaignEventSchemas,
+  campaignSheetSchema,
+  campaignSummarySchema,
+  campaignViewSchema,
+} from './campaign-schemas.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
 import { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
@@ -137,6 +143,7 @@ export const benchEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('bench-status'), status: benchStatusSchema }),
   z.object({ type: z.literal('error'), message: z.string() }),
   z.object({ type: z.literal('peers'), others: z.number().int().nonnegative() }),
+  ...campaignEventSchemas,
 ]);
 
 export const wireInboundSchema = z.union([
@@ -173,6 +180,13 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   deleteRun: anything,
   restoreRun: runMetaSchema,
   importCsv: runMetaSchema,
+  startCampaign: campaignViewSchema,
+  resumeCampaign: campaignViewSchema,
+  stopCampaign: anything,
+  confirmUnitChange: anything,
+  getCampaign: campaignViewSchema.nullable(),
+  listCampaigns: z.array(campaignSummarySchema),
+  campaignDatasheet: campaignSheetSchema,
 };
 
 /** "field.path: message" for the first issue, for one-line error text. */

@@ -75,6 +75,13 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'deleteRun',
   'restoreRun',
   'importCsv',
+  'startCampaign',
+  'resumeCampaign',
+  'stopCampaign',
+  'confirmUnitChange',
+  'getCampaign',
+  'listCampaigns',
+  'campaignDatasheet',
 ] as const;
 
 /** Optional methods the desktop preload adds (see BenchApi); the WebSocket carrier has none. */

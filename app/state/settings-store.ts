@@ -10,7 +10,7 @@ import {
 } from './plan-drafts.ts';
 
 export type ThemeChoice = 'system' | 'dark' | 'light';
-export const SCREENS = ['bench', 'sweep', 'drift', 'runs', 'datasheet', 'loop'] as const;
+export const SCREENS = ['bench', 'sweep', 'drift', 'runs', 'datasheet', 'loop', 'campaign'] as const;
 export type ScreenName = (typeof SCREENS)[number];
 
 export interface SettingsState {

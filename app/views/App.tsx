@@ -5,6 +5,7 @@ import { SCREENS, type ScreenName, type ThemeChoice } from '../state/settings-st
 import { useStore } from '../state/use-store.ts';
 import { useApp } from './app-context.ts';
 import { BenchScreen } from './bench/BenchScreen.tsx';
+import { CampaignScreen } from './campaign/CampaignScreen.tsx';
 import { ConnectionBadge } from './ConnectionBadge.tsx';
 import { DatasheetScreen } from './datasheet/DatasheetScreen.tsx';
 import { DriftScreen } from './drift/DriftScreen.tsx';
@@ -20,6 +21,7 @@ const SCREEN_LABEL: Record<ScreenName, string> = {
   runs: 'Run archive',
   datasheet: 'Gain table',
   loop: 'Loop filter',
+  campaign: 'Campaign',
 };
 
 const THEME_LABEL: Record<ThemeChoice, string> = {
@@ -161,6 +163,7 @@ export function App() {
         {screen === 'runs' ? <RunsScreen /> : null}
         {screen === 'datasheet' ? <DatasheetScreen /> : null}
         {screen === 'loop' ? <LoopScreen /> : null}
+        {screen === 'campaign' ? <CampaignScreen /> : null}
       </main>
     </div>
   );

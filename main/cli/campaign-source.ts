@@ -1,63 +1,20 @@
 /**
- * Loads a campaign folder for `analyze` and `datasheet`: campaign.json, and
- * for each condition with a run, that run's sweep analysed as `analyze`
- * would; then the campaign analysis over all of them.
+ * `analyze` and `datasheet` given a campaign folder: the procedures' loader
+ * (main/procedures/campaign/campaign-load.ts), its refusals as usage errors.
  */
 import { join } from 'node:path';
-import {
-  analyzeCampaign,
-  type CampaignAnalysis,
-  type CampaignConditionInput,
-} from '../../app/analysis/campaign-analysis.ts';
-import { analyzeTable } from '../../app/analysis/analyze-table.ts';
-import type { SweepAnalysis } from '../../app/analysis/sweep-types.ts';
-import {
-  campaignPlanSchema,
-  nominalControlOf,
-  nominalSupplyOf,
-  sweepRangeV,
-} from '../../app/contract/campaign-plan.ts';
-import { CAMPAIGN_FILE, readCampaignFile, type CampaignFile } from '../procedures/campaign/campaign-file.ts';
-import { loadAnalysisSource } from './analysis-source.ts';
+import type { CampaignAnalysis } from '../../app/analysis/campaign-analysis.ts';
+import { CAMPAIGN_FILE, CampaignFileError, type CampaignFile } from '../procedures/campaign/campaign-file.ts';
+import { loadCampaign } from '../procedures/campaign/campaign-load.ts';
 import { UsageError } from './types.ts';
 
 export { isCampaignDir } from './campaign-dir.ts';
 
 export async function loadCampaignAnalysis(dir: string): Promise<{ file: CampaignFile; analysis: CampaignAnalysis }> {
-  const file = await readCampaignFile(dir).catch((error: Error) => {
-    throw new UsageError(error.message);
-  });
-  const parsed = campaignPlanSchema.safeParse(file.plan);
-  if (!parsed.success)
-    throw new UsageError(`${join(dir, CAMPAIGN_FILE)}: plan: ${parsed.error.issues[0]?.message ?? 'invalid'}`);
-  const plan = parsed.data;
-  const inputs: CampaignConditionInput[] = [];
-  for (const entry of file.conditions) {
-    let sweep: SweepAnalysis | null = null;
-    if (entry.runId !== null && entry.state === 'done') {
-      const source = await loadAnalysisSource(join(dir, entry.runId));
-      const result = analyzeTable('sweep', source.table, { gateS: source.gateS });
-      if (result.kind === 'sweep') sweep = result;
-    }
-    const t = entry.dutTemperatureC;
-    const dutC = t && t.start !== null && t.end !== null ? (t.start + t.end) / 2 : (t?.start ?? t?.end ?? null);
-    inputs.push({
-      index: entry.index,
-      unit: entry.unit,
-      temperatureC: entry.temperatureC,
-      dutTemperatureC: dutC,
-      supplyV: entry.supplyV,
-      runId: entry.runId,
-      status: entry.state,
-      points: sweep ? sweep.points : null,
-      stallV: sweep?.stall.thresholdV ?? null,
-    });
+  try {
+    return await loadCampaign(dir);
+  } catch (error) {
+    if (error instanceof CampaignFileError) throw new UsageError(error.message);
+    throw error;
   }
-  const analysis = analyzeCampaign(inputs, {
-    nominalControlV: nominalControlOf(plan),
-    nominalSupplyV: nominalSupplyOf(plan),
-    tuningWindowV: plan.tuningWindowV ?? sweepRangeV(plan.sweep),
-    headroomTargetHz: plan.headroomTargetHz,
-  });
-  return { file, analysis };
 }

@@ -143,6 +143,6 @@ describe('one command line', () => {
     expect((JSON.parse(r.out) as { title: string }).title).toBe('tunebench sweep plan');
     const bad = await runCliCaptured('schema', 'plan');
     expect(bad.code).toBe(2);
-    expect(bad.err).toMatch(/expected one of bench, sweep-plan, drift-plan, pushing-plan, profile, dut/);
+    expect(bad.err).toMatch(/expected one of bench, sweep-plan, drift-plan, pushing-plan, campaign-plan, profile, dut/);
   });
 });

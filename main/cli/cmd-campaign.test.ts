@@ -40,6 +40,16 @@ describe('tunebench campaign', () => {
     await expect(readdir(join(work, 'refused'))).rejects.toThrow();
   });
 
+  it('refuses a misspelt nested key with a did-you-mean, exit 2, before any folder exists', async () => {
+    const bad = join(work, 'misspelt.json');
+    const plan = campaignPlanInput();
+    await writeFile(bad, JSON.stringify({ ...plan, soak: { ...plan.soak, dwelS: 60 } }));
+    const r = await runCliCaptured('campaign', '--plan', bad, '--runs', join(work, 'misspelt'));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/soak: unknown key "dwelS" \(did you mean "dwellS"\?\)/);
+    await expect(readdir(join(work, 'misspelt'))).rejects.toThrow();
+  });
+
   it('runs on the simulated bench in virtual time, then analyze --json and datasheet read the folder', async () => {
     const runs = join(work, 'ok');
     const r = await runCliCaptured('campaign', '--plan', planPath, '--runs', runs);
@@ -76,9 +86,15 @@ describe('tunebench campaign', () => {
     expect(json.headroom).toHaveLength(2);
     const d = await runCliCaptured('datasheet', dir);
     expect(d.code).toBe(0);
-    expect(d.out).toMatch(/\| Kvco at 0 °C \|/);
+    expect(d.out).toMatch(/\| Kvco at 0\.0 °C \|/);
     expect(d.out).toMatch(/\| Kvco at 50\.0 °C \|/);
     expect(d.out).toMatch(/Tuning headroom over temperature/);
+    const h = await runCliCaptured('datasheet', dir, '--format', 'html');
+    expect(h.code, h.err).toBe(0);
+    expect(h.out).toMatch(/^<!doctype html>/);
+    expect(h.out).toContain('SIMULATED BENCH');
+    expect(h.out).toContain('T 0.0 °C … 50.0 °C; supply 4.800 V … 5.200 V; 1 unit');
+    expect(h.out).toMatch(/<td>Kvco at 50\.0 °C<\/td><td>[^<]*<\/td><td class="num">[\d.]+ ± [\d.]+ kHz\/V<\/td>/);
   }, 60_000);
 
   it(

@@ -1,14 +1,13 @@
 /**
  * `tunebench campaign --plan FILE [--bench FILE] [--runs DIR] [--resume DIR] [--real-time]`
  */
-import { readFile } from 'node:fs/promises';
 import { createInterface } from 'node:readline/promises';
 import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
 import { campaignPlanSchema, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
 import { describeIssues } from '../../app/contract/plans.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../bench/assemble.ts';
 import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from './run-setup.ts';
-import { loadBenchFile } from '../cli/config-files.ts';
+import { ConfigFileError, loadBenchFile, loadCampaignPlan } from './config-files.ts';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { campaignSafeState } from '../procedures/campaign/campaign-safe.ts';
 import { CampaignBusyError } from '../procedures/campaign/campaign-folder.ts';
@@ -57,18 +56,6 @@ options:
 
 Ctrl+C stops cleanly: supply outputs off, chamber to safeC (or stopped, per its profile).
 `;
-
-async function loadPlan(path: string): Promise<unknown> {
-  let json: unknown;
-  try {
-    json = JSON.parse(await readFile(path, 'utf8'));
-  } catch (error) {
-    throw new UsageError(`--plan ${path}: ${(error as Error).message}`);
-  }
-  const parsed = campaignPlanSchema.safeParse(json);
-  if (!parsed.success) throw new UsageError(`--plan ${path}: ${describeIssues(parsed.error)}`);
-  return json;
-}
 
 async function openBench(
   benchPath: string | undefined,
@@ -129,14 +116,24 @@ async function run(argv: string[], io: CliIo): Promise<number> {
   const seed = parseSeed(flags.values.get('seed'));
   const planInput =
     planPath !== undefined
-      ? await loadPlan(planPath)
+      ? await loadCampaignPlan(planPath).then(
+          (loaded) => loaded.input,
+          (error: unknown) => {
+            throw error instanceof ConfigFileError ? new UsageError(error.message) : error;
+          },
+        )
       : await readCampaignFile(resumeDir as string).then(
           (f) => f.plan,
           (error: unknown) => {
             throw new UsageError(error instanceof CampaignFileError ? error.message : String(error));
           },
         );
-  const plan: CampaignPlan = campaignPlanSchema.parse(planInput);
+  const parsedPlan = campaignPlanSchema.safeParse(planInput);
+  if (!parsedPlan.success)
+    throw new UsageError(
+      `${planPath ?? `${resumeDir as string}/campaign.json`}: plan: ${describeIssues(parsedPlan.error)}`,
+    );
+  const plan: CampaignPlan = parsedPlan.data;
   try {
     validateCampaign(plan);
   } catch (error) {

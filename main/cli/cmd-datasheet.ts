@@ -15,7 +15,11 @@ import {
 } from '../../app/analysis/datasheet-render.ts';
 import { loadAnalysisSource } from './analysis-source.ts';
 import { isCampaignDir, loadCampaignAnalysis } from './campaign-source.ts';
-import { renderCampaignCsv, renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts';
+import {
+  renderCampaignCsv,
+  renderCampaignHtml,
+  renderCampaignMarkdown,
+} from '../../app/analysis/campaign-datasheet.ts';
 import { parseFlags } from './flags.ts';
 import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand, type CliIo } from './types.ts';
@@ -27,7 +31,7 @@ Builds the gain table (min / typ / max over the runs) from sweep, drift and
 pushing runs — folders, or ids as \`tunebench runs\` prints them (plain CSV files
 are accepted too). Given one campaign
 folder (tunebench campaign), it builds the table over temperature, supply and
-units: per-temperature Kvco, tempcos, pushing and tuning headroom (md or csv).
+units: per-temperature Kvco, tempcos, pushing and tuning headroom (md, csv or html).
 
 options:
   --format md|csv|html  output format (default md); html is one printable, self-contained page
@@ -59,10 +63,14 @@ export const datasheetCommand: CliCommand = {
     const format = flags.values.get('format') ?? 'md';
     if (!isFormat(format)) throw new UsageError(`--format: "${format}" is not md, csv or html`);
     if (flags.positionals.length === 1 && (await isCampaignDir(flags.positionals[0] as string))) {
-      if (format === 'html') throw new UsageError('--format: a campaign datasheet is md or csv');
       const { analysis } = await loadCampaignAnalysis(flags.positionals[0] as string);
+      const title = flags.values.get('title');
       const text =
-        format === 'csv' ? renderCampaignCsv(analysis) : renderCampaignMarkdown(analysis, flags.values.get('title'));
+        format === 'csv'
+          ? renderCampaignCsv(analysis)
+          : format === 'html'
+            ? renderCampaignHtml(analysis, title)
+            : renderCampaignMarkdown(analysis, title);
       return writeOut(text, flags.values.get('output'), io);
     }
     const windowText = flags.values.get('window');

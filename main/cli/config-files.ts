@@ -20,6 +20,7 @@ import {
   type PushingPlan,
   type SweepPlan,
 } from '../../app/contract/plans.ts';
+import { campaignPlanSchema, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
 
 /** A bench or plan file that cannot be used; the message names the file and the field. */
 export class ConfigFileError extends Error {
@@ -85,4 +86,10 @@ export async function loadDriftPlan(path: string): Promise<DriftPlan> {
 
 export async function loadPushingPlan(path: string): Promise<PushingPlan> {
   return parseWith(pushingPlanSchema, await readJson(path, 'plan file'), `pushing plan ${path}`);
+}
+
+/** A campaign plan: the checked plan, and the file's JSON as written (campaign.json keeps it so). */
+export async function loadCampaignPlan(path: string): Promise<{ input: unknown; plan: CampaignPlan }> {
+  const input = await readJson(path, 'plan file');
+  return { input, plan: parseWith(campaignPlanSchema, input, `campaign plan ${path}`) };
 }

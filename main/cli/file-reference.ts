@@ -118,6 +118,8 @@ function typeOf(node: Json): string {
   const quantity = QUANTITY_TYPES[String(node['x-quantity'])];
   if (quantity !== undefined) return quantity;
   if (Array.isArray(node.type) && node.type.includes('number') && node.type.includes('string')) return 'number or text';
+  if (node.type === 'array' && Array.isArray(node.prefixItems))
+    return `pair of ${typeOf((node.prefixItems[0] as Json | undefined) ?? {})}`;
   if (node.type === 'array') return `array of ${typeOf((node.items as Json | undefined) ?? {})}`;
   if (Array.isArray(node.oneOf) || Array.isArray(node.anyOf)) return 'one of the forms below';
   return typeof node.type === 'string' ? node.type : 'any';
@@ -143,7 +145,7 @@ function rows(node: Json, prefix: string, required: boolean, out: string[]): voi
   const meaning =
     typeof node.description === 'string'
       ? node.description
-      : (NOTES[key.replace(/^[^.]*\(.*?\)\./, '')] ?? NOTES[key] ?? '');
+      : (NOTES[key.replace(/^[^(]*\([^)]*\)\./, '')] ?? NOTES[key] ?? '');
   const dflt = 'default' in node ? `\`${JSON.stringify(node.default).replace(/\|/g, '\\|')}\`` : '';
   if (key !== '' && key !== '$schema')
     out.push(

@@ -7,6 +7,7 @@
  */
 import { z } from 'zod';
 import { benchConfigSchema, driftPlanSchema, pushingPlanSchema, sweepPlanSchema } from '../../app/contract/plans.ts';
+import { campaignPlanSchema } from '../../app/contract/campaign-plan.ts';
 import { profileSchema } from '../instruments/profile-schema.ts';
 import { dutParamsSchema } from '../sim/dut-params.ts';
 
@@ -18,6 +19,10 @@ export const FILE_SCHEMAS = {
   'sweep-plan': { schema: sweepPlanSchema, title: 'tunebench sweep plan' },
   'drift-plan': { schema: driftPlanSchema, title: 'tunebench drift plan' },
   'pushing-plan': { schema: pushingPlanSchema, title: 'tunebench pushing plan' },
+  'campaign-plan': {
+    schema: campaignPlanSchema,
+    title: 'tunebench campaign plan: temperatures, supply corners and units, soak, chamber limits and the sweep',
+  },
   profile: { schema: profileSchema, title: 'tunebench instrument profile (tunebench.profile/1)' },
   dut: { schema: dutParamsSchema, title: 'tunebench simulated DUT model' },
 } as const satisfies Record<string, { schema: z.ZodType; title: string }>;

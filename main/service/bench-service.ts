@@ -19,6 +19,7 @@ import { LivePoller } from './live-readout.ts';
 import { applyManualControl } from './manual-control.ts';
 import type { OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
+import { createCampaignMethods } from './campaign-methods.ts';
 
 export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
@@ -85,6 +86,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   };
 
   const endRunAndWait = async (): Promise<void> => {
+    await campaigns.stopAndWait();
     const current = run;
     if (!current) return;
     current.control.stop('stop');
@@ -118,8 +120,34 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     if (!bench)
       throw new BenchApiError('no bench connected: connect to your instruments or to the simulated bench first');
     if (run) throw new BenchApiError(`a run is already in progress (${run.meta.id}); stop it before starting another`);
+    if (campaigns.running())
+      throw new BenchApiError(
+        'a campaign holds the bench; stop it on the Campaign screen before starting anything else',
+      );
     return bench;
   };
+
+  const campaigns = createCampaignMethods({
+    runsDir: options.runsDir,
+    emit,
+    batchMs: options.batchMs,
+    acquire: async () => {
+      const opened = requireIdleBench();
+      if (starting || connecting)
+        throw new BenchApiError('another run or connection is being started; try again in a moment');
+      starting = true;
+      await stopLive();
+      manualOutputOn = false;
+      return opened;
+    },
+    started: () => {
+      starting = false;
+    },
+    release: () => {
+      starting = false;
+      startLive();
+    },
+  });
 
   const startRun = async (kind: RunKind, plan: unknown, dutId: string): Promise<RunMeta> => {
     const opened = requireIdleBench();
@@ -170,6 +198,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     const current = run;
     const opened = bench;
     try {
+      // A campaign drives its own safe state (supply off, chamber to safeC) once told to stop.
+      if (campaigns.running()) ok = await campaigns.stopWithin(options.lastResortWaitMs ?? 8000);
       if (current) {
         const { kind: _kind, ...detail } = cause;
         current.note({ type: 'last-resort', cause: cause.kind, ...detail });
@@ -207,6 +237,8 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     listProfiles: () => options.listProfiles(),
     async connect(config: BenchConfig | 'sim') {
       if (connecting || starting) throw new BenchApiError('a connection attempt or a run start is already in progress');
+      if (campaigns.running())
+        throw new BenchApiError('a campaign holds the bench; stop it on the Campaign screen before changing the bench');
       if (run) throw new BenchApiError(`a run is in progress (${run.meta.id}); stop it before changing the bench`);
       await checkApiBench(config, options.addressPolicy ?? { extraHosts: new Set() });
       connecting = true;
@@ -296,6 +328,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     },
     restoreRun: (id) => options.store.restore(id),
     importCsv: (fileName, csvText, dutId) => options.store.importCsv(fileName, csvText, dutId),
+    ...campaigns.api,
     subscribe: (listener) => hub.subscribe(listener),
     ...(options.store.openImport ? { openImport: options.store.openImport.bind(options.store) } : {}),
     leaveSafe,

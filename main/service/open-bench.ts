@@ -9,7 +9,7 @@
  */
 import type { ConnectionState, RoleConnection } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
-import { assembleBench, SIM_BENCH_CONFIG } from '../bench/assemble.ts';
+import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG } from '../bench/assemble.ts';
 import { parseAddress } from '../instruments/address.ts';
 import type { Clock } from '../time/clock.ts';
 import type { OpenedBench } from './ports.ts';
@@ -26,17 +26,23 @@ function isSim(address: string): boolean {
 }
 
 export async function openBench(config: BenchConfig | 'sim', options: OpenBenchOptions): Promise<OpenedBench> {
-  const bench = config === 'sim' ? SIM_BENCH_CONFIG : config;
-  const entries = [bench.supply, bench.counter, bench.thermometer].filter((entry) => entry !== undefined);
+  // The simulated bench comes with its chamber: it sits idle (the DUT in lab air) until a campaign runs it.
+  const bench = config === 'sim' ? SIM_CAMPAIGN_BENCH_CONFIG : config;
+  const entries = [bench.supply, bench.counter, bench.thermometer, bench.chamber].filter(
+    (entry) => entry !== undefined,
+  );
   const allSim = entries.every((entry) => isSim(entry.address));
   const clock = allSim ? options.simClock() : options.clock;
   const assembled = await assembleBench(bench, { clock, sim: { dut: 'relaxation' } });
-  const roles: RoleConnection[] = assembled.instruments.map((instrument) => ({
-    role: instrument.role as RoleConnection['role'],
-    address: instrument.address,
-    idn: instrument.idn,
-    simulated: isSim(instrument.address),
-  }));
+  // The connection lists the three roles every screen knows; the chamber is the campaign screen's.
+  const roles: RoleConnection[] = assembled.instruments
+    .filter((instrument) => instrument.role !== 'chamber')
+    .map((instrument) => ({
+      role: instrument.role as RoleConnection['role'],
+      address: instrument.address,
+      idn: instrument.idn,
+      simulated: isSim(instrument.address),
+    }));
   const connection: ConnectionState = { connected: true, simulated: assembled.simulated, roles, error: null };
   return {
     // The same roles as before the switch to assembleBench: no reconnect or error-queue hooks, so the
@@ -48,6 +54,7 @@ export async function openBench(config: BenchConfig | 'sim', options: OpenBenchO
       controlChannel: assembled.controlChannel,
       dutSupplyChannel: assembled.dutSupplyChannel,
     },
+    chamber: assembled.chamber,
     connection,
     clock,
     close: () => assembled.close(),

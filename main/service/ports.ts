@@ -7,11 +7,14 @@ import type { ConnectionState, RunDetail, RunKind, RunMeta, SerialPortInfo } fro
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import type { RunControl } from '../procedures/run-control.ts';
 import type { BenchRoles, ProcedureOutcome, ProcedureProgress, RunSink } from '../procedures/types.ts';
+import type { Chamber } from '../instruments/roles.ts';
 import type { Clock } from '../time/clock.ts';
 import type { ImportStream } from './import-off-thread.ts';
 
 export interface OpenedBench {
   roles: BenchRoles;
+  /** The temperature chamber (campaigns), when the bench has one; the simulated bench always does. */
+  chamber?: Chamber | undefined;
   connection: ConnectionState;
   /** The clock procedures use on this bench (the simulated bench may run faster than real time). */
   clock: Clock;
