@@ -2,9 +2,8 @@
  * `analyze` and `datasheet` given a campaign folder: the procedures' loader
  * (main/procedures/campaign/campaign-load.ts), its refusals as usage errors.
  */
-import { join } from 'node:path';
 import type { CampaignAnalysis } from '../../app/analysis/campaign-analysis.ts';
-import { CAMPAIGN_FILE, CampaignFileError, type CampaignFile } from '../procedures/campaign/campaign-file.ts';
+import { CampaignFileError, type CampaignFile } from '../procedures/campaign/campaign-file.ts';
 import { loadCampaign } from '../procedures/campaign/campaign-load.ts';
 import { UsageError } from './types.ts';
 
