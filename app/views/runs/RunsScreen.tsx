@@ -16,6 +16,7 @@ import { archiveRows, NO_FILTER, type ArchiveFilter, type ArchiveSort, type Arch
 import { differenceColumns, pointMeans } from './difference.ts';
 import { overlayColumns } from './overlay.ts';
 import { RunDetailView } from './RunDetailView.tsx';
+import { RunZip } from './RunZip.tsx';
 
 function ImportCsv() {
   const { stores } = useApp();
@@ -370,6 +371,7 @@ export function RunsScreen() {
           </tbody>
         </table>
         <ImportCsv />
+        <RunZip />
       </Panel>
       {picked.length > 0 ? (
         <Panel title="Overlay" testId="overlay-panel">
