@@ -12,6 +12,7 @@ import { startApp } from '../app/views/start-app.tsx';
 import { ScaledClock } from '../main/time/scaled-clock.ts';
 import type { GrantedPort } from './page/browser-serial.ts';
 import { createPageBench } from './page-bench.ts';
+import { guardPageClose } from './page-close.ts';
 import { simSpeedFrom } from './page-options.ts';
 import { memoryDir, opfsDir, type PageDir } from './store/page-dir.ts';
 
@@ -38,15 +39,7 @@ async function start(): Promise<void> {
     simClock: speed > 1 ? () => new ScaledClock(speed) : undefined,
     requestPort: serial ? () => serial.requestPort() : undefined,
   });
-  let leaving = false;
-  const leaveSafe = (event: Event): void => {
-    if (leaving) return;
-    leaving = true;
-    // The first SCPI writes leave within this task's microtasks, while the link is still open.
-    void bench.service.leaveSafe({ kind: 'signal', signal: event.type });
-  };
-  window.addEventListener('beforeunload', leaveSafe);
-  window.addEventListener('pagehide', leaveSafe);
+  guardPageClose(window, bench.service);
   const root = document.getElementById('root');
   if (root)
     startApp(createRoot(root), {

@@ -9,11 +9,12 @@ import { useApp } from '../app-context.ts';
 export function BrowserSerialButton({ disabled }: { disabled: boolean }) {
   const { bridge, stores } = useApp();
   const [message, setMessage] = useState<string | null>(null);
-  const choose = bridge.api.chooseBrowserSerialPort;
-  if (!choose) return null;
+  const { api } = bridge;
+  if (!api.chooseBrowserSerialPort) return null;
   const pick = async () => {
     try {
-      const port = await choose();
+      const port = await api.chooseBrowserSerialPort?.();
+      if (!port) return;
       await stores.connection.getState().refresh();
       setMessage(`Port ${port.path} granted: pick it as the serial port of a role below.`);
     } catch (error) {

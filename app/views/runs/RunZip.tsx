@@ -16,12 +16,13 @@ export function RunZip() {
   const [picked, setPicked] = useState('');
   const [message, setMessage] = useState<string | null>(null);
   const fileRef = useRef<HTMLInputElement | null>(null);
-  const { exportRunZip, importRunZip } = bridge.api;
-  if (!exportRunZip || !importRunZip) return null;
+  const { api } = bridge;
+  if (!api.exportRunZip || !api.importRunZip) return null;
   const id = picked || focusId || runs[0]?.id || '';
   const download = async () => {
     try {
-      const zip = await exportRunZip(id);
+      const zip = await api.exportRunZip?.(id);
+      if (!zip) return;
       downloadBlob(zip.fileName, new Blob([zip.bytes as Uint8Array<ArrayBuffer>], { type: 'application/zip' }));
       setMessage(
         `Saved ${zip.fileName}: open it with the desktop app, or unzip it and run tunebench analyze on the folder.`,
@@ -33,7 +34,7 @@ export function RunZip() {
   const load = async (file: File | undefined) => {
     if (!file) return;
     try {
-      const added = await importRunZip(file.name, new Uint8Array(await file.arrayBuffer()));
+      const added = (await api.importRunZip?.(file.name, new Uint8Array(await file.arrayBuffer()))) ?? [];
       setMessage(`Added ${added.map((run) => `${run.dut.id} (${run.kind})`).join(', ')} from ${file.name}.`);
       await refresh();
     } catch (error) {
