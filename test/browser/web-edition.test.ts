@@ -21,6 +21,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { PROJECT_ROOT } from '../../main/server/renderer-build.ts';
 import { readZip } from '../../web/zip/zip-file.ts';
 import { hasChromium, launchChromium, SCREENS_DIR, SKIP_REASON } from './harness.ts';
+import { byId, shot, textMatches } from './page-steps.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
 
@@ -56,23 +57,6 @@ async function serveStatic(root: string): Promise<{ server: Server; origin: stri
   const address = server.address();
   if (address === null || typeof address === 'string') throw new Error('no port');
   return { server, origin: `http://127.0.0.1:${address.port}` };
-}
-
-const byId = (id: string): string => `[data-testid="${id}"]`;
-
-async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 60_000): Promise<string> {
-  const locator = page.locator(byId(testId)).first();
-  await expect
-    .poll(async () => ((await locator.count()) > 0 ? ((await locator.textContent()) ?? '') : ''), {
-      timeout: timeoutMs,
-      interval: 100,
-    })
-    .toMatch(pattern);
-  return (await locator.textContent()) ?? '';
-}
-
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({ path: join(SCREENS_DIR, `${name}.png`), fullPage: true });
 }
 
 /** The numbers of a figure such as "1.234 kHz – 28.80 kHz" with SI prefixes applied. */

@@ -8,20 +8,15 @@
  * the final status.
  */
 import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { RUN_SCHEMA } from '../../app/contract/run-meta-schema.ts';
 import { formatCell } from '../../main/store/csv-cells.ts';
 import { dutIdSchema, makeRunId } from '../../main/store/run-id.ts';
-import { SOFTWARE_VERSION } from '../../main/store/software-version.ts';
+import { startingRunMeta } from '../../main/store/starting-meta.ts';
 import type { CreateRunOptions, RunWriter } from '../../main/store/writer-types.ts';
 import { appendText, readText, writeText, type PageDir } from './page-dir.ts';
 import { parseStoredMeta, PAGE_FILES, TRASH_DIR } from './page-run-files.ts';
 
 /** Real ms between automatic appends: rows reach OPFS at least this often. */
 export const PAGE_FLUSH_MS = 1000;
-
-function isSimulated(instruments: RunMeta['instruments']): boolean {
-  return instruments.length > 0 && instruments.every((i) => i.address === 'sim' || i.address.startsWith('sim:'));
-}
 
 /** A free run folder under `root` for `baseId` (-2, -3… when taken, here or in the trash). */
 async function makeRunFolder(root: PageDir, baseId: string): Promise<{ id: string; dir: PageDir }> {
@@ -40,19 +35,7 @@ export async function createPageRun(root: PageDir, options: CreateRunOptions): P
   const dutId = dutIdSchema.parse(options.dut.id);
   const startedAt = options.clock.wallTimeIso();
   const { id, dir } = await makeRunFolder(root, makeRunId(startedAt, dutId));
-  let meta: RunMeta = {
-    schema: RUN_SCHEMA,
-    id,
-    kind: options.kind,
-    status: 'running',
-    startedAt,
-    endedAt: null,
-    dut: { id: dutId, notes: options.dut.notes ?? '' },
-    instruments: options.instruments,
-    plan: options.plan,
-    software: { version: options.softwareVersion ?? SOFTWARE_VERSION },
-    ...(isSimulated(options.instruments) ? { simulated: true } : {}),
-  };
+  let meta: RunMeta = startingRunMeta(options, { id, startedAt, dutId });
   const columns = options.columns;
   await writeText(dir, PAGE_FILES.samples, `${columns.join(',')}\n`);
   await writeText(dir, PAGE_FILES.events, '');
