@@ -11,8 +11,9 @@ import { fileURLToPath } from 'node:url';
 import { app, BrowserWindow, dialog, ipcMain, webContents } from 'electron';
 import { BENCH_METHODS } from '../app/contract/wire.ts';
 import { registerAppScheme, serveRendererOnAppScheme } from './desktop/app-protocol.ts';
-import { isAppUrl } from './desktop/app-url.ts';
+import { isAppOrigin, isAppUrl } from './desktop/app-url.ts';
 import { hardenSessionAndContents } from './desktop/harden.ts';
+import { serialChooserDialog } from './desktop/serial-chooser.ts';
 import { createIpcGate, setupBenchIpc } from './ipc/gate.ts';
 import { setupPrintPdfIpc } from './ipc/print-pdf.ts';
 import { parseAllowedHosts } from './service/address-policy.ts';
@@ -98,7 +99,18 @@ app.on('window-all-closed', () => app.quit());
 app.on('second-instance', () => BrowserWindow.getAllWindows()[0]?.focus());
 
 void app.whenReady().then(() => {
-  hardenSessionAndContents();
+  hardenSessionAndContents({
+    isAppOrigin: (origin) => isAppOrigin(origin, devUrl),
+    isOwnPage,
+    // Web Serial: the user picks the port here, in the main process; the page cannot grant itself one.
+    choosePort: async (ports, contents) => {
+      const { options, portAt } = serialChooserDialog(ports);
+      const owner = BrowserWindow.fromWebContents(contents);
+      const choice = owner ? await dialog.showMessageBox(owner, options) : await dialog.showMessageBox(options);
+      return portAt(choice.response);
+    },
+    log: (line) => console.error(line),
+  });
   serveRendererOnAppScheme(rendererDir);
   setupFeatures();
   createWindow();

@@ -21,6 +21,8 @@ function sweepLines(a: SweepAnalysis): string[] {
     `Kvco min / max    ${formatFigure(k.minHzPerV, 'Hz/V', { uncertainty: k.minUncertaintyHzPerV })} at ${formatSi(k.vAtMin, 'V')} / ${formatFigure(k.maxHzPerV, 'Hz/V', { uncertainty: k.maxUncertaintyHzPerV })} at ${formatSi(k.vAtMax, 'V')} (over the window)`,
     `Kvco at ${formatSi(k.nominal.v, 'V')}   ${formatFigure(k.nominal.hzPerV, 'Hz/V', { uncertainty: k.nominal.uncertaintyHzPerV })}`,
   ];
+  const z = a.usableRange.edgeZone;
+  if (z) lines.push(`edge zone         ${formatSi(z.fromV, 'V')} … ${formatSi(z.toV, 'V')} left out: ${z.reason}`);
   const w = k.widestLinearRange;
   if (w)
     lines.push(`linear within ±${formatNumber(w.limitPct, 3)} %  ${formatSi(w.fromV, 'V')} … ${formatSi(w.toV, 'V')}`);

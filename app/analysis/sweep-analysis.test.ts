@@ -181,10 +181,9 @@ describe('analyzeSweep where a polynomial cannot follow the curve', () => {
   const f = (v: number): number => 1e4 / Math.log(v / (v - 1));
   const df = (v: number): number => 1e4 / (v * (v - 1) * Math.log(v / (v - 1)) ** 2);
   const vs = [...Array.from({ length: 36 }, (_, k) => Math.round(5 + k) / 10), 1.0125, 1.025, 1.05];
-  const result = analyzeSweep({
-    controlV: Float64Array.from(vs),
-    frequencyHz: Float64Array.from(vs, (v) => (v <= 1 ? NaN : f(v))),
-  });
+  const input = { controlV: Float64Array.from(vs), frequencyHz: Float64Array.from(vs, (v) => (v <= 1 ? NaN : f(v))) };
+  // The stall edge's zone switched off: the fit then reaches down to the edge.
+  const result = analyzeSweep(input, { edgeSlopeChange: 0 });
   it('uses the local slope where the fit disagrees, and says so', () => {
     const first = result.kvco.local[0];
     expect(first?.v).toBe(1.0125);
@@ -202,6 +201,47 @@ describe('analyzeSweep where a polynomial cannot follow the curve', () => {
     expect(far?.source).toBe('fit');
     // A degree ≤ 6 polynomial only approximates this log-shaped curve: within 3 % here.
     expect(Math.abs((far?.hzPerV ?? 0) / df(3) - 1)).toBeLessThan(0.03);
+  });
+});
+
+describe("analyzeSweep leaves the stall edge's zone out of the usable range", () => {
+  // The same onset by default: Kvco grows without bound toward the edge (RC charging law, textbook physics:
+  // T = RC·ln(V/(V − V1)) — Horowitz & Hill, The Art of Electronics, 3rd ed., §1.4, from memory), so the
+  // steep points must neither set the headline Kvco max nor bend the fit.
+  const f = (v: number): number => 1e4 / Math.log(v / (v - 1));
+  const df = (v: number): number => 1e4 / (v * (v - 1) * Math.log(v / (v - 1)) ** 2);
+  const vs = [...Array.from({ length: 36 }, (_, k) => Math.round(5 + k) / 10), 1.0125, 1.025, 1.05];
+  const result = analyzeSweep({
+    controlV: Float64Array.from(vs),
+    frequencyHz: Float64Array.from(vs, (v) => (v <= 1 ? NaN : f(v))),
+  });
+  it('starts the usable range where the slope changes by under 5 % per step, and says why the rest is out', () => {
+    // Chord slopes 0.1 V either side of 1.3 V differ by (f(1.3)−f(1.2))/(f(1.4)−f(1.3)) − 1 ≈ 10 % (> 5 %),
+    // of 1.4 V by ≈ 4.8 % (derived here from f): the range starts at 1.4 V.
+    const change13 = (f(1.3) - f(1.2)) / (f(1.4) - f(1.3)) - 1;
+    const change14 = (f(1.4) - f(1.3)) / (f(1.5) - f(1.4)) - 1;
+    expect(change13).toBeGreaterThan(0.05);
+    expect(change14).toBeLessThan(0.05);
+    expect(result.usableRange.fromV).toBe(1.4);
+    expect(result.usableRange.edgeZone?.fromV).toBe(1.0125);
+    expect(result.usableRange.edgeZone?.toV).toBe(1.3);
+    expect(result.usableRange.edgeZone?.limitPct).toBe(5);
+    expect(result.usableRange.edgeZone?.reason).toMatch(/stall edge .* changes by up to \d+ % per 100 mV step/);
+    expect(result.fit.fromV).toBe(1.4);
+  });
+  it("keeps the zone's points visible and marked, with their local Kvco", () => {
+    const marked = result.points.filter((p) => p.edgeZone).map((p) => p.v);
+    expect(marked).toEqual([1.0125, 1.025, 1.05, 1.1, 1.2, 1.3]);
+    expect(result.kvco.local.find((e) => e.v === 1.0125)?.hzPerV).toBeGreaterThan(2e4);
+  });
+  it('takes the headline Kvco max at the start of the usable range, within 2 % of the derivative', () => {
+    expect(result.kvco.vAtMax).toBe(1.4);
+    expect(Math.abs(result.kvco.maxHzPerV / df(1.4) - 1)).toBeLessThan(0.02);
+    for (const e of result.kvco.local)
+      if (e.v >= 1.4) expect(Math.abs(e.hzPerV / df(e.v) - 1), `at ${e.v} V`).toBeLessThan(0.02);
+  });
+  it('has no zone on a straight line that stalls (the slope does not change)', () => {
+    expect(analyzeSweep(toInput(lineSweep(), 0.1)).usableRange.edgeZone).toBeNull();
   });
 });
 

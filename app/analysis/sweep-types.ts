@@ -78,8 +78,22 @@ export interface SweepAnalysis {
   };
   /** The tuning window Kvco min/max/typ and linearity are taken over. */
   window: { fromV: number; toV: number; source: 'plan' | 'flag' | 'auto' };
-  /** The automatic usable range (stable, before a turn or flat top). */
-  usableRange: { fromV: number; toV: number };
+  /** The automatic usable range (stable, above the stall edge's zone, before a turn or flat top). */
+  usableRange: {
+    fromV: number;
+    toV: number;
+    /** Points just above the stall edge left out because the slope changes faster than the step resolves (sweep-edge-zone.ts); null when none. */
+    edgeZone: {
+      fromV: number;
+      toV: number;
+      /** Largest change of chord slope per regular step inside the zone, % (null if only unsteady points were there). */
+      slopeChangePct: number | null;
+      /** The limit, % per step. */
+      limitPct: number;
+      stepV: number;
+      reason: string;
+    } | null;
+  };
   points: {
     v: number;
     meanHz: number;
@@ -88,6 +102,8 @@ export interface SweepAnalysis {
     noOscillation: number;
     unstable: boolean;
     unsettled: boolean;
+    /** In the stall edge's zone: left out of the usable range (see `usableRange.edgeZone`). */
+    edgeZone: boolean;
     /** The fitted curve at this point (null outside the fitted range): residual = meanHz − fitHz. */
     fitHz: number | null;
   }[];

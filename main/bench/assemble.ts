@@ -37,6 +37,8 @@ export interface AssembleOptions {
   /** DUT, seed, faults… of the in-process simulated bench (for `sim` addresses). */
   sim?: Omit<SimBenchOptions, 'clock'>;
   connectTimeoutS?: number;
+  /** Transport for serial addresses where device paths cannot be opened (a page: Web Serial). */
+  serial?: OpenInstrumentOptions['serial'];
   /** Reopen policy of each SCPI session after a dropped link. */
   reconnect?: OpenInstrumentOptions['reconnect'];
   userProfileDir?: string;
@@ -96,6 +98,7 @@ export async function assembleBench(config: BenchConfig | 'sim', options: Assemb
         {
           clock: options.clock,
           sim: sim === null ? undefined : (simRole) => sim.transport(simRole),
+          serial: options.serial,
           connectTimeoutS: options.connectTimeoutS,
           loadedProfile: profiles.get(role),
           reconnect: options.reconnect,

@@ -22,3 +22,23 @@ export function isAppUrl(url: string, devUrl: string | undefined): boolean {
   if (origin === APP_ORIGIN && url.startsWith(`${APP_ORIGIN}/`)) return true;
   return devUrl !== undefined && devUrl !== '' && origin === originOf(devUrl);
 }
+
+/**
+ * Whether an origin as Electron's permission handlers report it
+ * (`tunebench://app`, sometimes with a trailing slash) is the app's own —
+ * or the dev server's, under `electron-vite dev`. Nothing but an origin may
+ * follow: a path, query or credentials mean it is not one.
+ */
+export function isAppOrigin(origin: string, devUrl: string | undefined): boolean {
+  let parsed: URL;
+  try {
+    parsed = new URL(origin);
+  } catch {
+    return false;
+  }
+  if (parsed.username !== '' || parsed.password !== '' || parsed.search !== '' || parsed.hash !== '') return false;
+  if (parsed.pathname !== '' && parsed.pathname !== '/') return false;
+  const bare = `${parsed.protocol}//${parsed.host}`;
+  if (bare === APP_ORIGIN) return true;
+  return devUrl !== undefined && devUrl !== '' && bare === originOf(devUrl);
+}

@@ -1,11 +1,13 @@
 /**
  * Electron security checklist items that apply to every web contents the
  * app ever creates: no navigation away from the app, no new windows, no
- * <webview>, no permission grants, and the CSP header on anything loaded
- * over http(s) (the dev server).
+ * <webview>, no permission grants but Web Serial ports the user chose in the
+ * main-process chooser (serial-access.ts), and the CSP header on anything
+ * loaded over http(s) (the dev server).
  */
 import { app, session, type WebContents } from 'electron';
 import { contentSecurityPolicy } from '../window-options.ts';
+import { installSerialAccess, type SerialAccessOptions } from './serial-access.ts';
 
 export function guardWebContents(contents: WebContents): void {
   contents.on('will-navigate', (event) => event.preventDefault());
@@ -14,11 +16,10 @@ export function guardWebContents(contents: WebContents): void {
   contents.setWindowOpenHandler(() => ({ action: 'deny' }));
 }
 
-export function hardenSessionAndContents(): void {
+export function hardenSessionAndContents(serial: SerialAccessOptions<WebContents>): void {
   app.on('web-contents-created', (_event, contents) => guardWebContents(contents));
   const ses = session.defaultSession;
-  ses.setPermissionRequestHandler((_contents, _permission, callback) => callback(false));
-  ses.setPermissionCheckHandler(() => false);
+  installSerialAccess(ses, serial);
   ses.webRequest.onHeadersReceived((details, callback) => {
     callback({
       responseHeaders: {

@@ -3,7 +3,7 @@
  * main/sim/ and is passed in, so this layer does not depend on it.
  */
 import type { Clock } from '../time/clock.ts';
-import { parseAddress, type InstrumentAddress } from './address.ts';
+import { parseAddress, type InstrumentAddress, type SerialAddress } from './address.ts';
 import { AddressError } from './errors.ts';
 import type { RoleName } from './roles.ts';
 import { SerialTransport } from './serial-transport.ts';
@@ -13,6 +13,11 @@ import type { Transport } from './transport.ts';
 export interface CreateTransportOptions {
   /** Supplies the in-process simulated instrument for `sim` addresses. */
   sim?: (role: RoleName) => Transport;
+  /**
+   * Builds the transport for serial addresses where device paths cannot be
+   * opened (a page: WebSerialTransport); default SerialTransport.
+   */
+  serial?: (address: SerialAddress, role: RoleName | undefined) => Transport;
   /** Role to simulate when the address is a bare `sim`. */
   role?: RoleName;
   /** TCP connect timeout, s; default 5. */
@@ -31,6 +36,7 @@ export function createTransport(address: InstrumentAddress | string, options: Cr
         clock: options.clock,
       });
     case 'serial':
+      if (options.serial !== undefined) return options.serial(descriptor, options.role);
       return new SerialTransport({ ...descriptor, clock: options.clock });
     case 'sim': {
       const role = descriptor.role ?? options.role;

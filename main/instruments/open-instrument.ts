@@ -4,7 +4,7 @@
  * terminator / timeouts / error checking, send the profile's init commands.
  */
 import type { Clock } from '../time/clock.ts';
-import { createTransport } from './create-transport.ts';
+import { createTransport, type CreateTransportOptions } from './create-transport.ts';
 import { RoleConnectError } from './errors.ts';
 import { createCounter } from './counter-driver.ts';
 import { defaultProfileName, loadProfile } from './profile-loader.ts';
@@ -26,6 +26,8 @@ export interface InstrumentConfig {
 export interface OpenInstrumentOptions {
   clock: Clock;
   sim?: (role: RoleName) => Transport;
+  /** Transport for serial addresses where device paths cannot be opened (a page: Web Serial). */
+  serial?: CreateTransportOptions['serial'];
   userProfileDir?: string;
   shippedProfileDir?: string;
   connectTimeoutS?: number;
@@ -57,6 +59,7 @@ export async function openInstrument<R extends RoleName>(
     }));
   const transport = createTransport(config.address, {
     sim: options.sim,
+    serial: options.serial,
     role,
     connectTimeoutS: options.connectTimeoutS,
     clock: options.clock,

@@ -11,6 +11,8 @@
  * such as `Buffer` are not imports and are not checked here; the page
  * provides Buffer from the npm `buffer` package.
  */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { PAGE_MODULES } from '../../web/page-modules.ts';
@@ -82,6 +84,18 @@ describe('Node-free code for the web edition (issue 16 item 2)', () => {
     const files = valueClosure(ROLE_DRIVERS, graph.edges);
     expect(files.has('main/instruments/scpi-reply.ts')).toBe(true);
     expect(nodeImportsIn(files, graph.builtins)).toEqual([]);
+  });
+
+  it('the Web Serial transport and everything it imports by value import no Node built-in (the page loads it)', () => {
+    const files = valueClosure(['main/instruments/web-serial-transport.ts'], graph.edges);
+    expect(files.has('main/instruments/web-serial-options.ts')).toBe(true);
+    expect(files.has('main/instruments/web-serial-ports.ts')).toBe(true);
+    expect(nodeImportsIn(files, graph.builtins)).toEqual([]);
+    // Nor Node-only globals: the transport needs no Buffer stand-in in the page.
+    const nodeGlobals = [...files].filter((file) =>
+      /\b(Buffer\.|process\.|setImmediate\(|require\()/.test(readFileSync(join(REPO, file), 'utf8')),
+    );
+    expect(nodeGlobals).toEqual([]);
   });
 
   it('every excused Node face still exists and still needs the excuse', () => {
