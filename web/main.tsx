@@ -10,14 +10,14 @@ import './buffer-global.ts';
 import { createRoot } from 'react-dom/client';
 import { startApp } from '../app/views/start-app.tsx';
 import { ScaledClock } from '../main/time/scaled-clock.ts';
-import type { GrantedPort } from './page/browser-serial.ts';
+import type { BrowserSerial } from './page/browser-serial.ts';
 import { createPageBench } from './page-bench.ts';
 import { guardPageClose } from './page-close.ts';
 import { simSpeedFrom } from './page-options.ts';
 import { memoryDir, opfsDir, type PageDir } from './store/page-dir.ts';
 
 interface SerialNavigator {
-  serial?: { requestPort(): Promise<GrantedPort> };
+  serial?: BrowserSerial;
 }
 
 async function runsFolder(): Promise<PageDir> {
@@ -37,7 +37,7 @@ async function start(): Promise<void> {
   const bench = createPageBench({
     root: await runsFolder(),
     simClock: speed > 1 ? () => new ScaledClock(speed) : undefined,
-    requestPort: serial ? () => serial.requestPort() : undefined,
+    serial,
   });
   guardPageClose(window, bench.service);
   const root = document.getElementById('root');

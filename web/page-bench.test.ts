@@ -16,6 +16,11 @@ import type { BenchEvent, RunMeta } from '../app/contract/bench-api.ts';
 import { defaultDriftPlan, defaultSweepPlan } from '../main/cli/default-plans.ts';
 import { openRun } from '../main/store/run-store.ts';
 import { VirtualClock } from '../main/time/virtual-clock.ts';
+import { RealClock } from '../main/time/real-clock.ts';
+import { sweepPlanSchema } from '../app/contract/plans.ts';
+import { FakeSerialPort, FakeWebSerial, farEndOf } from '../main/instruments/testing/fake-web-serial.ts';
+import { serveSimBench } from '../main/sim/tcp-server.ts';
+import { SHORT_SWEEP } from '../test/hostile/hostile-bench.ts';
 import { createPageBench, type PageBench } from './page-bench.ts';
 import { guardPageClose } from './page-close.ts';
 import { PAGE_MODULES } from './page-modules.ts';
@@ -161,6 +166,52 @@ describe('the in-page bench (web edition)', () => {
     expect(status.output).toBe(false);
   }, 120_000);
 
+  it('a sweep over Web Serial: the port chosen in the browser, the simulated bench at its far end, then the safe state', async () => {
+    const served = await serveSimBench({
+      host: '127.0.0.1',
+      basePort: 0,
+      seed: 7,
+      dut: 'relaxation',
+      clock: new RealClock(),
+    });
+    try {
+      const supplyPort = new FakeSerialPort({
+        far: farEndOf(served.addresses.supply),
+        info: { usbVendorId: 0x0403, usbProductId: 0x6001 },
+        chunkBytes: 5,
+      });
+      const counterPort = new FakeSerialPort({
+        far: farEndOf(served.addresses.counter),
+        info: { usbVendorId: 0x1a86, usbProductId: 0x7523 },
+      });
+      const serial = Object.assign(new FakeWebSerial(), {
+        // The user picks the supply's adapter in the chooser; the counter's was granted on an earlier visit.
+        requestPort: async () => supplyPort,
+      });
+      serial.ports.push(counterPort);
+      const bench = createPageBench({ root: memoryDir(), serial });
+      benches.push(bench);
+      await expect(bench.api.chooseBrowserSerialPort?.()).resolves.toEqual({
+        path: 'usb-0403-6001',
+        manufacturer: 'USB 0403:6001',
+      });
+      expect((await bench.api.listSerialPorts()).map((p) => p.path)).toEqual(['usb-0403-6001', 'usb-1a86-7523']);
+      const connection = await bench.api.connect({
+        supply: { address: 'serial:usb-0403-6001?baud=115200', controlChannel: 1, dutSupplyChannel: 2 },
+        counter: { address: 'serial:usb-1a86-7523?baud=115200' },
+      });
+      expect(connection.roles.map((r) => r.idn)).toEqual(['tunebench,SIM-SUPPLY,0,0.1', 'tunebench,SIM-COUNTER,0,0.1']);
+      const done = ended(bench);
+      await bench.api.startSweep(sweepPlanSchema.parse({ ...SHORT_SWEEP, readingsPerPoint: 2 }), 'page-serial-1');
+      expect((await done).status).toBe('complete');
+      expect(supplyPort.opens[0]?.baudRate).toBe(115200);
+      // The safe state, read from the simulator itself: control channel at 0 V, output off.
+      expect(served.bench.supply.state(1)).toMatchObject({ setpointV: 0, outputOn: false });
+    } finally {
+      await served.close();
+    }
+  }, 120_000);
+
   it('refuses a network address and says what the page can reach', async () => {
     const bench = pageBench(memoryDir());
     await expect(
@@ -169,6 +220,6 @@ describe('the in-page bench (web edition)', () => {
         counter: { address: 'sim' },
       }),
     ).rejects.toThrow(/config\.supply\.address: the web edition reaches "sim" or a port granted in this browser/);
-    await expect(bench.api.chooseBrowserSerialPort?.()).rejects.toThrow(/no Web Serial/);
+    await expect(bench.api.chooseBrowserSerialPort?.()).rejects.toThrow(/this browser has no Web Serial/);
   });
 });

@@ -14,7 +14,7 @@ import { openBench } from '../main/service/open-bench.ts';
 import { driftPort, pushingPort, sweepPort } from '../main/service/procedure-ports.ts';
 import type { Clock } from '../main/time/clock.ts';
 import { RealClock } from '../main/time/real-clock.ts';
-import { addGrantedPort, grantedPorts, hasWebSerialTransport, type GrantedPort } from './page/browser-serial.ts';
+import { choosePort, grantedPorts, useBrowserSerial, type BrowserSerial } from './page/browser-serial.ts';
 import { listProfiles, loadProfile } from './page/profile-loader.ts';
 import { usePageStore } from './page/store-index.ts';
 import type { PageDir } from './store/page-dir.ts';
@@ -26,8 +26,8 @@ export interface PageBenchOptions {
   root: PageDir;
   /** Clock of the simulated bench; real time when omitted (a demo may run it faster). */
   simClock?: () => Clock;
-  /** The browser's serial port chooser (navigator.serial.requestPort), absent where the browser has none. */
-  requestPort?: () => Promise<GrantedPort>;
+  /** navigator.serial (its chooser and granted ports), absent where the browser has no Web Serial. */
+  serial?: BrowserSerial | undefined;
 }
 
 export interface PageBench {
@@ -38,12 +38,13 @@ export interface PageBench {
 
 export function createPageBench(options: PageBenchOptions): PageBench {
   const store = createPageRunStore(options.root);
+  useBrowserSerial(options.serial ?? null);
   usePageStore(options.root, store);
   const realClock = new RealClock();
   const service = createBenchService({
     runsDir: 'opfs:/runs',
     openBench: (config) => openBench(config, { clock: realClock, simClock: options.simClock ?? (() => realClock) }),
-    listSerialPorts: async () => grantedPorts(),
+    listSerialPorts: () => grantedPorts(),
     listProfiles: async () => {
       const found: { name: string; role: string }[] = [];
       for (const { name } of await listProfiles()) found.push({ name, role: (await loadProfile(name)).role });
@@ -74,16 +75,7 @@ export function createPageBench(options: PageBenchOptions): PageBench {
     restoreRun: (id) => service.restoreRun(id),
     importCsv: (fileName, csvText, dutId) => service.importCsv(fileName, csvText, dutId),
     subscribe: (listener) => service.subscribe(listener),
-    async chooseBrowserSerialPort(): Promise<SerialPortInfo> {
-      if (options.requestPort === undefined)
-        throw new Error('this browser has no Web Serial (Chromium-based browsers have it, over HTTPS or localhost)');
-      const info = addGrantedPort(await options.requestPort());
-      if (!hasWebSerialTransport())
-        throw new Error(
-          `${info.path} granted, but this build has no Web Serial transport yet: use the simulated bench, or the desktop app for instruments`,
-        );
-      return info;
-    },
+    chooseBrowserSerialPort: (): Promise<SerialPortInfo> => choosePort(),
     async exportRunZip(id: string): Promise<{ fileName: string; bytes: Uint8Array }> {
       return exportRunZip(store, id);
     },

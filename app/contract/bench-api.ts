@@ -161,9 +161,8 @@ export interface BenchApi {
 
   /**
    * Web edition only (optional; web/page-bench.ts): opens the browser's serial
-   * port chooser and adds the granted port to listSerialPorts() as
-   * `browser-N`; rejects, saying why, where the browser or the build cannot
-   * talk over it.
+   * port chooser; the granted port joins listSerialPorts() as `usb-VVVV-PPPP`
+   * (its USB ids). Rejects, saying why, where the browser has no Web Serial.
    */
   chooseBrowserSerialPort?(): Promise<SerialPortInfo>;
   /** Web edition only: a run folder as a zip (run.json, samples.csv, events.jsonl under `<id>/`). */

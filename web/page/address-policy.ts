@@ -23,13 +23,15 @@ export const checkApiBench: typeof Original.checkApiBench = async (config: Bench
     let ok = false;
     try {
       const address = parseAddress(entry.address);
-      ok = address.kind === 'sim' || (address.kind === 'serial' && address.path.startsWith('browser-'));
+      ok =
+        address.kind === 'sim' ||
+        (address.kind === 'serial' && /^(usb-[0-9a-f]{4}-[0-9a-f]{4}|web-serial)$/i.test(address.path));
     } catch {
       ok = false;
     }
     if (!ok)
       throw new BenchApiError(
-        `connect: config.${role}.address: the web edition reaches "sim" or a port granted in this browser (serial:browser-N)`,
+        `connect: config.${role}.address: the web edition reaches "sim" or a port granted in this browser (serial:usb-VVVV-PPPP?baud=N)`,
         `config.${role}.address`,
       );
   }

@@ -1,76 +1,65 @@
 /**
- * Serial ports the user granted to this page (the browser's port chooser,
- * navigator.serial.requestPort), and the seam for the Web Serial transport
- * (issue 16 item 1, built separately): until a transport is registered the
- * page can list a granted port but says plainly that it cannot talk over it.
- * A granted port is addressed as `serial:browser-N` (N = 1, 2… in grant order).
+ * Serial ports the page may use: those the user grants through the browser's
+ * chooser (navigator.serial.requestPort) and those granted before (getPorts,
+ * so a reload keeps them). A port is addressed by its USB ids,
+ * `serial:usb-VVVV-PPPP?baud=…` (main/instruments/web-serial-ports.ts), and
+ * opened by the Web Serial transport (main/instruments/web-serial-transport.ts),
+ * which finds it again after an unplug by those ids.
  */
 import type { SerialPortInfo } from '../../app/contract/bench-api.ts';
 import type { SerialAddress } from '../../main/instruments/address.ts';
 import type { Transport } from '../../main/instruments/transport.ts';
+import { describeUsbIds, usbIdsOf, webSerialPortPath } from '../../main/instruments/web-serial-ports.ts';
+import { WebSerialTransport } from '../../main/instruments/web-serial-transport.ts';
+import type { WebSerial, WebSerialPort } from '../../main/instruments/web-serial-types.ts';
 import type { Clock } from '../../main/time/clock.ts';
 
-/** The part of the W3C Web Serial SerialPort the page uses here. */
-export interface GrantedPort {
-  getInfo(): { usbVendorId?: number; usbProductId?: number };
+/** navigator.serial with the chooser. */
+export interface BrowserSerial extends WebSerial {
+  requestPort(): Promise<WebSerialPort>;
 }
 
-export type WebSerialTransportFactory = (
-  port: GrantedPort,
-  settings: SerialAddress & { clock?: Pick<Clock, 'setTimer'> },
-) => Transport;
+let serial: BrowserSerial | null = null;
+/** Ports chosen in this page, by path (a port without USB ids is only reachable as the one chosen). */
+const chosen = new Map<string, WebSerialPort>();
 
-const PREFIX = 'browser-';
-const granted: GrantedPort[] = [];
-let factory: WebSerialTransportFactory | null = null;
-
-/** Plugs in the Web Serial transport (the page entry does this when the build has one). */
-export function registerWebSerialTransport(make: WebSerialTransportFactory): void {
-  factory = make;
+/** The page's navigator.serial (the page entry sets it where the browser has Web Serial). */
+export function useBrowserSerial(api: BrowserSerial | null): void {
+  serial = api;
 }
 
-export function hasWebSerialTransport(): boolean {
-  return factory !== null;
+function describe(port: WebSerialPort): SerialPortInfo {
+  const ids = usbIdsOf(port.getInfo());
+  return { path: webSerialPortPath(ids), manufacturer: ids === null ? null : describeUsbIds(ids) };
 }
 
-function describe(port: GrantedPort, index: number): SerialPortInfo {
-  const info = port.getInfo();
-  const hex = (n: number | undefined): string => (n === undefined ? '?' : n.toString(16).padStart(4, '0'));
-  return {
-    path: `${PREFIX}${index + 1}`,
-    manufacturer: info.usbVendorId === undefined ? null : `USB ${hex(info.usbVendorId)}:${hex(info.usbProductId)}`,
-  };
+/** The ports this page may open: granted ones (this visit or before), by path. */
+export async function grantedPorts(): Promise<SerialPortInfo[]> {
+  const found = new Map<string, SerialPortInfo>();
+  for (const port of [...chosen.values(), ...(serial ? await serial.getPorts() : [])]) {
+    const info = describe(port);
+    if (!found.has(info.path)) found.set(info.path, info);
+  }
+  return [...found.values()];
 }
 
-export function grantedPorts(): SerialPortInfo[] {
-  return granted.map(describe);
+/** Opens the browser's chooser; the port picked is offered from then on. */
+export async function choosePort(): Promise<SerialPortInfo> {
+  if (serial === null)
+    throw new Error('this browser has no Web Serial (Chromium-based browsers have it, over HTTPS or on localhost)');
+  const port = await serial.requestPort();
+  const info = describe(port);
+  chosen.set(info.path, port);
+  return info;
 }
 
-/** Adds a port the user picked in the browser's chooser (the same port twice is kept once). */
-export function addGrantedPort(port: GrantedPort): SerialPortInfo {
-  const known = granted.indexOf(port);
-  if (known >= 0) return describe(port, known);
-  granted.push(port);
-  return describe(port, granted.length - 1);
-}
-
-/** The transport for `serial:browser-N`, or a refusal that says what is missing. */
-export function browserSerialTransport(address: SerialAddress, clock: Pick<Clock, 'setTimer'> | undefined): Transport {
-  const index = address.path.startsWith(PREFIX) ? Number(address.path.slice(PREFIX.length)) - 1 : -1;
-  const port = granted[index];
-  if (port === undefined)
-    throw new Error(
-      `serial:${address.path}: not a port granted to this page; pick one with "Serial port in this browser" (granted: ${
-        granted.length === 0
-          ? 'none'
-          : grantedPorts()
-              .map((p) => p.path)
-              .join(', ')
-      })`,
-    );
-  if (factory === null)
-    throw new Error(
-      `serial:${address.path}: this build of the web edition has no Web Serial transport yet; use the simulated bench here, or the desktop app or \`tunebench serve\` for instruments`,
-    );
-  return factory(port, { ...address, clock });
+/** The Web Serial transport for `serial:usb-VVVV-PPPP?…` (or the port chosen without USB ids). */
+export function browserSerialTransport(
+  address: SerialAddress,
+  role: string | undefined,
+  clock: Pick<Clock, 'setTimer'> | undefined,
+): Transport {
+  if (serial === null)
+    throw new Error(`serial:${address.path}: this browser has no Web Serial; use a Chromium-based browser`);
+  return new WebSerialTransport({ port: chosen.get(address.path), serial, address, role, clock });
 }

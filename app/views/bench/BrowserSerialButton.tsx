@@ -1,7 +1,7 @@
 /**
  * Web edition only: "Serial port in this browser" opens the browser's port
  * chooser (Web Serial); a granted port joins the serial ports on offer as
- * `browser-N`. Shown only where the BenchApi has the verb (web/page-bench.ts).
+ * `usb-VVVV-PPPP` (its USB ids). Shown only where the BenchApi has the verb (web/page-bench.ts).
  */
 import { useState } from 'react';
 import { useApp } from '../app-context.ts';
