@@ -43,8 +43,6 @@ export default defineConfig({
   base: './',
   publicDir: false,
   plugins: [pageModules(), react()],
-  // A build started from a test runner (NODE_ENV=test) must still ship React's production build.
-  define: { 'process.env.NODE_ENV': JSON.stringify('production') },
   build: {
     outDir: WEB_OUT_DIR,
     emptyOutDir: true,
