@@ -68,8 +68,17 @@ function requestPort(session: FakeSession, ports: unknown[], contents: ChooserCo
   return { event, answer };
 }
 
-const device = (port: SerialPortDescription, origin = 'tunebench://app') =>
-  ({ deviceType: 'serial', origin, device: port }) as const;
+/** A port as Electron's device handler describes it (numeric USB ids, serial number; see serial-grants.ts). */
+const device = (port: SerialPortDescription, origin = 'tunebench://app') => ({
+  deviceType: 'serial',
+  origin,
+  device: {
+    name: port.portName,
+    vendor_id: Number(port.vendorId),
+    product_id: Number(port.productId),
+    serial_number: port.serialNumber,
+  },
+});
 
 describe('installSerialAccess', () => {
   it('registers the check, request and device handlers and the select-serial-port listener', () => {
@@ -106,7 +115,7 @@ describe('installSerialAccess', () => {
     expect(session.device?.(device(COUNTER_PORT))).toBe(true);
     expect(session.device?.(device(SUPPLY_PORT))).toBe(false);
     expect(session.device?.(device(COUNTER_PORT, 'https://example.org'))).toBe(false);
-    expect(session.device?.({ deviceType: 'usb', origin: 'tunebench://app', device: COUNTER_PORT })).toBe(false);
+    expect(session.device?.({ ...device(COUNTER_PORT), deviceType: 'usb' })).toBe(false);
   });
 
   it('a cancelled or failed chooser grants nothing', async () => {

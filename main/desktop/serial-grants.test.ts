@@ -28,6 +28,11 @@ const NO_SERIAL_NUMBER: SerialPortDescription = {
   productId: '29987',
 };
 const BUILT_IN: SerialPortDescription = { portId: 'd4', portName: 'ttyS0' };
+/**
+ * ADAPTER as Electron's device permission handler describes it (PortInfoToValue in
+ * Electron's serial_chooser_context.cc, read from its source): numeric ids, snake_case keys.
+ */
+const ADAPTER_DEVICE = { name: 'USB serial adapter', vendor_id: 1027, product_id: 24577, serial_number: 'BENCH42' };
 
 describe('isAppOrigin', () => {
   it('is the app scheme origin (with or without the slash) or the dev server origin, nothing near them', () => {
@@ -71,38 +76,46 @@ describe('permission decisions', () => {
     const grants = new SerialGrants();
     const ask = (device: unknown, deviceType = 'serial', origin = 'tunebench://app') =>
       allowDevice({ deviceType, origin, device }, grants, appOrigin);
-    expect(ask(ADAPTER)).toBe(false);
+    expect(ask(ADAPTER_DEVICE)).toBe(false);
     grants.grant(ADAPTER);
-    expect(ask(ADAPTER)).toBe(true);
-    expect(ask(NO_SERIAL_NUMBER)).toBe(false);
-    expect(ask(ADAPTER, 'usb')).toBe(false);
-    expect(ask(ADAPTER, 'hid')).toBe(false);
-    expect(ask(ADAPTER, 'serial', 'https://example.org')).toBe(false);
-    expect(ask({ portName: 'ttyUSB0' })).toBe(false);
+    expect(ask(ADAPTER_DEVICE)).toBe(true);
+    expect(ask({ ...ADAPTER_DEVICE, serial_number: 'BENCH43' })).toBe(false);
+    expect(ask({ ...ADAPTER_DEVICE, product_id: 24592 })).toBe(false);
+    expect(ask(ADAPTER_DEVICE, 'usb')).toBe(false);
+    expect(ask(ADAPTER_DEVICE, 'hid')).toBe(false);
+    expect(ask(ADAPTER_DEVICE, 'serial', 'https://example.org')).toBe(false);
+    expect(ask({ name: 'USB serial adapter' })).toBe(false);
+    expect(ask({ ...ADAPTER_DEVICE, vendor_id: '1027' })).toBe(false);
     expect(ask(null)).toBe(false);
   });
 });
 
-describe('what identifies a chosen port when it comes back', () => {
-  it('USB ids and serial number survive a replug (new portId, maybe another OS name)', () => {
+describe('what identifies a chosen port when Electron asks again', () => {
+  it('USB ids and serial number, whatever connection (portId) or OS name it comes back with', () => {
     const grants = new SerialGrants();
-    grants.grant(ADAPTER);
-    expect(grants.allows({ ...ADAPTER, portId: 'zz9', portName: 'ttyUSB3' })).toBe(true);
-    expect(grants.allows({ ...ADAPTER, serialNumber: 'BENCH43' })).toBe(false);
+    grants.grant({ ...ADAPTER, portId: 'first', portName: 'ttyUSB3' });
+    expect(grants.allowsDevice(ADAPTER_DEVICE)).toBe(true);
+    expect(grantKey(ADAPTER)).toBe('usb:1027:24577:sn:BENCH42');
   });
 
-  it('without a serial number, USB ids and the OS port name: the identity a desktop serial address has', () => {
+  it("Windows' device instance id, and on macOS the driver too", () => {
+    const windows = { ...ADAPTER, deviceInstanceId: 'USB\\VID_0403&PID_6001\\BENCH42' };
+    const grants = new SerialGrants();
+    grants.grant(windows);
+    expect(grants.allowsDevice({ name: 'x', device_instance_id: 'USB\\VID_0403&PID_6001\\BENCH42' })).toBe(true);
+    const mac = { ...ADAPTER, usbDriverName: 'AppleUSBFTDI' };
+    grants.grant(mac);
+    expect(grants.allowsDevice({ ...ADAPTER_DEVICE, usb_driver: 'AppleUSBFTDI' })).toBe(true);
+    expect(grants.allowsDevice({ ...ADAPTER_DEVICE, usb_driver: 'other' })).toBe(false);
+  });
+
+  it('a port without a serial number (or without USB ids) has no lasting key: Electron grants it for that connection only', () => {
+    expect(grantKey(NO_SERIAL_NUMBER)).toBeNull();
+    expect(grantKey(BUILT_IN)).toBeNull();
     const grants = new SerialGrants();
     grants.grant(NO_SERIAL_NUMBER);
-    expect(grants.allows({ ...NO_SERIAL_NUMBER, portId: 'new' })).toBe(true);
-    expect(grants.allows({ ...NO_SERIAL_NUMBER, portName: 'ttyUSB2' })).toBe(false);
-  });
-
-  it("Windows' device instance id wins; a port without USB ids is only this connection of it", () => {
-    expect(grantKey({ ...ADAPTER, deviceInstanceId: 'USB\\VID_0403&PID_6001\\BENCH42' })).toBe(
-      'win:USB\\VID_0403&PID_6001\\BENCH42',
-    );
-    expect(grantKey(BUILT_IN)).toBe('port:d4');
+    expect(grants.size).toBe(0);
+    expect(grants.allowsDevice({ name: 'ttyUSB1', vendor_id: 6790, product_id: 29987 })).toBe(false);
   });
 
   it('offers only well-formed port entries', () => {

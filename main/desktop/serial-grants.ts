@@ -17,6 +17,8 @@ export const serialPortDescriptionSchema = z.object({
   serialNumber: z.string().optional(),
   /** Stable per device on Windows. */
   deviceInstanceId: z.string().optional(),
+  /** macOS: one port may be listed once per driver. */
+  usbDriverName: z.string().optional(),
 });
 
 export type SerialPortDescription = z.infer<typeof serialPortDescriptionSchema>;
@@ -31,19 +33,50 @@ export function offerablePorts(portList: unknown): SerialPortDescription[] {
 }
 
 /**
- * What identifies a chosen device when it is asked about again, strongest
- * first: Windows' device instance id; USB ids with the serial number; USB
- * ids with the OS port name (an adapter without a serial number plugged back
- * into the same socket — the identity a desktop serial address has too);
- * else only this connection of it (`portId`).
+ * How Electron describes a serial port to the device permission handler: the
+ * form it stores permissions in (`PortInfoToValue` in Electron's
+ * shell/browser/serial/serial_chooser_context.cc, read from its source):
+ * Windows' device instance id, else the USB ids (numbers) with the serial
+ * number (and on macOS the driver). A port without those never reaches the
+ * handler: Electron grants it for this connection only, by token, when the
+ * chooser returns it.
  */
-export function grantKey(port: SerialPortDescription): string {
-  if (port.deviceInstanceId !== undefined && port.deviceInstanceId !== '') return `win:${port.deviceInstanceId}`;
-  const usb = port.vendorId !== undefined && port.productId !== undefined ? `${port.vendorId}:${port.productId}` : null;
-  if (usb !== null && port.serialNumber !== undefined && port.serialNumber !== '')
-    return `usb:${usb}:sn:${port.serialNumber}`;
-  if (usb !== null) return `usb:${usb}:at:${port.portName}`;
-  return `port:${port.portId}`;
+export const serialDeviceSchema = z.object({
+  name: z.string().optional(),
+  device_instance_id: z.string().optional(),
+  vendor_id: z.number().int().nonnegative().optional(),
+  product_id: z.number().int().nonnegative().optional(),
+  serial_number: z.string().optional(),
+  usb_driver: z.string().optional(),
+});
+
+type SerialDevice = z.infer<typeof serialDeviceSchema>;
+
+const nonEmpty = (text: string | undefined): text is string => text !== undefined && text !== '';
+
+function identity(device: SerialDevice): string | null {
+  if (nonEmpty(device.device_instance_id)) return `win:${device.device_instance_id}`;
+  const { vendor_id: vendor, product_id: product, serial_number: serial } = device;
+  if (vendor === undefined || product === undefined || !nonEmpty(serial)) return null;
+  return `usb:${vendor}:${product}:sn:${serial}${nonEmpty(device.usb_driver) ? `:driver:${device.usb_driver}` : ''}`;
+}
+
+/** The chooser's description of a port in the device handler's terms (the chooser gives USB ids as decimal text). */
+function asDevice(port: SerialPortDescription): SerialDevice {
+  const id = (text: string | undefined): number | undefined =>
+    text !== undefined && /^\d+$/.test(text) ? Number(text) : undefined;
+  return {
+    device_instance_id: port.deviceInstanceId,
+    vendor_id: id(port.vendorId),
+    product_id: id(port.productId),
+    serial_number: port.serialNumber,
+    usb_driver: port.usbDriverName,
+  };
+}
+
+/** What identifies a chosen port when Electron asks about it again (after a replug too); null when Electron never asks. */
+export function grantKey(port: SerialPortDescription): string | null {
+  return identity(asDevice(port));
 }
 
 /** The ports the user chose during this run of the app (in memory: a restart asks again). */
@@ -51,11 +84,15 @@ export class SerialGrants {
   private readonly keys = new Set<string>();
 
   grant(port: SerialPortDescription): void {
-    this.keys.add(grantKey(port));
+    const key = grantKey(port);
+    if (key !== null) this.keys.add(key);
   }
 
-  allows(port: SerialPortDescription): boolean {
-    return this.keys.has(grantKey(port));
+  /** Whether a device, as the device permission handler gets it, is one the user chose. */
+  allowsDevice(device: unknown): boolean {
+    const checked = serialDeviceSchema.safeParse(device);
+    const key = checked.success ? identity(checked.data) : null;
+    return key !== null && this.keys.has(key);
   }
 
   get size(): number {
@@ -101,7 +138,5 @@ export interface DeviceCheck {
 
 /** Device checks: a serial port the user chose, for the app's own origin; no HID, no USB, nothing unchosen. */
 export function allowDevice(check: DeviceCheck, grants: SerialGrants, isAppOrigin: OriginTest): boolean {
-  if (check.deviceType !== 'serial' || !isAppOrigin(check.origin)) return false;
-  const port = serialPortDescriptionSchema.safeParse(check.device);
-  return port.success && grants.allows(port.data);
+  return check.deviceType === 'serial' && isAppOrigin(check.origin) && grants.allowsDevice(check.device);
 }
