@@ -15,7 +15,7 @@ declare global {
 
 export interface Bridge {
   api: BenchApi;
-  transport: 'ipc' | 'websocket';
+  transport: 'ipc' | 'websocket' | 'page';
   link: {
     getState: () => LinkState;
     subscribe: (listener: (state: LinkState) => void) => () => void;

@@ -193,11 +193,24 @@ export interface BenchApi {
    */
   printDatasheetPdf?(fileName: string): Promise<{ savedTo: string | null }>;
 
+  /**
+   * Web edition only (optional; web/page-bench.ts): opens the browser's serial
+   * port chooser; the granted port joins listSerialPorts() as `usb-VVVV-PPPP`
+   * (its USB ids). Rejects, saying why, where the browser has no Web Serial.
+   */
+  chooseBrowserSerialPort?(): Promise<SerialPortInfo>;
+  /** Web edition only: a run folder as a zip (run.json, samples.csv, events.jsonl under `<id>/`). */
+  exportRunZip?(id: string): Promise<{ fileName: string; bytes: Uint8Array }>;
+  /** Web edition only: run folders from a zip into the archive; an existing run is never overwritten. */
+  importRunZip?(fileName: string, bytes: Uint8Array): Promise<RunMeta[]>;
+
   /** Subscribe to pushed events; returns an unsubscribe function. */
   subscribe(listener: (event: BenchEvent) => void): () => void;
 }
 
 /** Methods every carrier answers (IPC and WebSocket). */
-export type BenchMethod = Exclude<keyof BenchApi, 'subscribe' | DesktopMethod>;
+export type BenchMethod = Exclude<keyof BenchApi, 'subscribe' | DesktopMethod | PageMethod>;
 /** Optional methods only the desktop app (IPC) answers; absent from the API object elsewhere. */
 export type DesktopMethod = 'printDatasheetPdf';
+/** Optional methods only the web edition's in-page API has (no carrier crosses for them). */
+export type PageMethod = 'chooseBrowserSerialPort' | 'exportRunZip' | 'importRunZip';

@@ -206,7 +206,11 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
         current.control.stop(cause.kind === 'signal' ? 'signal' : cause.kind);
         const ended = await Promise.race([
           current.done.then(() => true),
-          new Promise<boolean>((resolve) => setTimeout(() => resolve(false), options.lastResortWaitMs ?? 8000).unref()),
+          new Promise<boolean>((resolve) => {
+            const timer: unknown = setTimeout(() => resolve(false), options.lastResortWaitMs ?? 8000);
+            // Node: do not hold the process open for it; a page's timer is a number (nothing to unref).
+            (timer as { unref?: () => void }).unref?.();
+          }),
         ]);
         if (!ended && opened) {
           const result = await goSafe(opened.roles, opened.roles.controlChannel, current.safe, (event) =>

@@ -4,25 +4,18 @@
  * (main/bench) and the simulated bench (main/sim).
  */
 import type { RunMeta } from '../../app/contract/bench-api.ts';
-import type { DriftPlan, PushingPlan, SweepPlan } from '../../app/contract/plans.ts';
 import { listProfiles, loadProfile } from '../instruments/profile-loader.ts';
 import { listSerialPorts } from '../instruments/serial-transport.ts';
-import { DRIFT_COLUMNS, runDrift } from '../procedures/drift.ts';
-import { PUSHING_COLUMNS, runPushing } from '../procedures/pushing.ts';
-import {
-  checkPlanAgainstBench,
-  validateDriftPlan,
-  validatePushingPlan,
-  validateSweepPlan,
-} from '../procedures/recorded-run.ts';
-import { runSweep, SWEEP_COLUMNS } from '../procedures/sweep.ts';
 import { addNote, deleteRun, listRuns, openRun, renameDut, restoreRun } from '../store/run-store.ts';
 import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { createBenchService, type BenchService, type BenchServiceOptions } from './bench-service.ts';
 import { importCsvOffThread, openImportStream } from './import-off-thread.ts';
 import { openBench } from './open-bench.ts';
-import type { ProcedurePort, RunStorePort, ServicePorts } from './ports.ts';
+import type { RunStorePort, ServicePorts } from './ports.ts';
+import { driftPort, pushingPort, sweepPort } from './procedure-ports.ts';
+
+export { driftPort, pushingPort, sweepPort };
 
 export function storePort(runsDir: string): RunStorePort {
   return {
@@ -40,33 +33,6 @@ export function storePort(runsDir: string): RunStorePort {
     openImport: (fileName, dutId) => openImportStream({ runsDir, fileName, dutId }),
   };
 }
-
-export const sweepPort: ProcedurePort = {
-  columns: SWEEP_COLUMNS,
-  validate: (plan, roles) => {
-    validateSweepPlan(plan as SweepPlan);
-    checkPlanAgainstBench(plan as SweepPlan, roles);
-  },
-  run: (o) => runSweep({ ...o, plan: o.plan as SweepPlan }),
-};
-
-export const driftPort: ProcedurePort = {
-  columns: DRIFT_COLUMNS,
-  validate: (plan, roles) => {
-    validateDriftPlan(plan as DriftPlan);
-    checkPlanAgainstBench(plan as DriftPlan, roles);
-  },
-  run: (o) => runDrift({ ...o, plan: o.plan as DriftPlan }),
-};
-
-export const pushingPort: ProcedurePort = {
-  columns: PUSHING_COLUMNS,
-  validate: (plan, roles) => {
-    validatePushingPlan(plan as PushingPlan);
-    checkPlanAgainstBench(plan as PushingPlan, roles);
-  },
-  run: (o) => runPushing({ ...o, plan: o.plan as PushingPlan }),
-};
 
 /** Shipped and user profiles with the role each one drives; unreadable ones are left out. */
 export async function profilesWithRoles(): Promise<{ name: string; role: string }[]> {

@@ -11,7 +11,8 @@ export { readRunFolder, readRunStatus, type ReadOptions, type RunFolderContents 
 export { parseSamplesCsv, type DroppedLine, type ParsedSamples } from './samples-csv.ts';
 export { readSampleTable, type SampleTable } from './sample-table.ts';
 export { parseEventsJsonl } from './events-jsonl.ts';
-export { assertRunId, dutIdSchema, makeRunId, runFolder, runIdSchema } from './run-id.ts';
+export { assertRunId, dutIdSchema, makeRunId, runIdSchema } from './run-id.ts';
+export { runFolder } from './store-path.ts';
 export { RunFormatError, RUN_SCHEMA } from './run-meta.ts';
 export { defaultRunsDir, resolveRunsDir } from './runs-dir.ts';
 export { nodeStoreFs, type StoreFileHandle, type StoreFs } from './store-fs.ts';

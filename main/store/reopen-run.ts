@@ -10,7 +10,7 @@ import { join, resolve } from 'node:path';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { AppendFile } from './append-file.ts';
 import { splitCsvLine } from './csv-cells.ts';
-import { runFolder } from './run-id.ts';
+import { runFolder } from './store-path.ts';
 import { EVENTS_JSONL, SAMPLES_CSV, writeRunMeta } from './run-meta.ts';
 import { lastTimeS, readRunStatus } from './run-reader.ts';
 import { startWriter } from './start-writer.ts';

@@ -1,7 +1,8 @@
 import { join, relative, resolve, sep } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { assertRunId, dutSlug, makeRunId, runFolder } from './run-id.ts';
+import { assertRunId, dutSlug, makeRunId } from './run-id.ts';
+import { runFolder } from './store-path.ts';
 
 describe('run ids', () => {
   it('are the UTC start stamp plus a slug of the DUT id', () => {

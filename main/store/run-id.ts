@@ -6,7 +6,6 @@
  * and it must start with a letter or digit (so never `.trash`).
  */
 import { hasUnsafeChars } from '../../app/contract/excerpt.ts';
-import { join } from 'node:path';
 import { z } from 'zod';
 
 const RUN_ID_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,127}$/;
@@ -24,11 +23,6 @@ export function assertRunId(id: unknown): string {
   if (!result.success)
     throw new RangeError(`${result.error.issues[0]?.message ?? 'bad run id'}, got ${JSON.stringify(id)}`);
   return result.data;
-}
-
-/** The folder of run `id` inside `runsDir`, after validating the id. */
-export function runFolder(runsDir: string, id: unknown): string {
-  return join(runsDir, assertRunId(id));
 }
 
 /** A DUT id as the operator typed it: any text without control characters. */

@@ -10,12 +10,10 @@
  * and a heartbeat so readers can tell a dead writer.
  */
 import { join, resolve } from 'node:path';
-import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { AppendFile } from './append-file.ts';
 import { dutIdSchema, makeRunId } from './run-id.ts';
-import { EVENTS_JSONL, RUN_SCHEMA, SAMPLES_CSV, writeRunMeta } from './run-meta.ts';
-import { isSimulatedBench } from '../../app/contract/run-meta-schema.ts';
-import { SOFTWARE_VERSION } from './software-version.ts';
+import { EVENTS_JSONL, SAMPLES_CSV, writeRunMeta } from './run-meta.ts';
+import { startingRunMeta } from './starting-meta.ts';
 import { startWriter } from './start-writer.ts';
 import { type StoreFileHandle, type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
 import type { CreateRunOptions, RunWriter } from './writer-types.ts';
@@ -64,20 +62,7 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
   const startedAt = options.clock.wallTimeIso();
   const runsDir = resolve(options.runsDir);
   const { id, dir } = await makeRunDir(fs, runsDir, makeRunId(startedAt, dutId));
-  const meta: RunMeta = {
-    schema: RUN_SCHEMA,
-    id,
-    kind: options.kind,
-    status: 'running',
-    startedAt,
-    endedAt: null,
-    dut: { id: dutId, notes: options.dut.notes ?? '' },
-    instruments: options.instruments,
-    plan: options.plan,
-    software: { version: options.softwareVersion ?? SOFTWARE_VERSION },
-    // Every export of a simulated run says so; run.json states it outright.
-    ...(isSimulatedBench(options.instruments) ? { simulated: true } : {}),
-  };
+  const meta = startingRunMeta(options, { id, startedAt, dutId });
   const wallNowMs = options.wallNowMs ?? Date.now;
   const header = `${options.columns.join(',')}\n`;
   const opened: StoreFileHandle[] = [];

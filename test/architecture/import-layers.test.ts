@@ -46,6 +46,8 @@ const RANKS: readonly [prefix: string, rank: number][] = [
   ['main/preload-api.ts', 7],
   ['main/index.ts', 8],
   ['main/preload.ts', 8],
+  // The web edition's page: an entry point over app/ and main/ (their own ranks hold inside them).
+  ['web/', 9],
 ];
 
 function place(file: string): { prefix: string; rank: number } | null {

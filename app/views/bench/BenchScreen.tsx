@@ -10,6 +10,7 @@ import { planHints } from '../../analysis/datasheet-run.ts';
 import { celsius, hzAtResolution, volts } from '../units.ts';
 import { ManualControl } from './ManualControl.tsx';
 import { RoleCard } from './RoleCard.tsx';
+import { BrowserSerialButton } from './BrowserSerialButton.tsx';
 import { buildBenchConfig, DEFAULT_ROLE_DRAFTS, type RoleDraft, type RoleErrors, type RoleName } from './role-draft.ts';
 import { checkSweepDraft } from '../../state/plan-drafts.ts';
 
@@ -143,6 +144,7 @@ export function BenchScreen() {
           >
             Use the simulated bench
           </button>
+          <BrowserSerialButton disabled={locked} />
           {connected ? (
             <ConfirmAction
               label="Disconnect"

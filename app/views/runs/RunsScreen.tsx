@@ -23,6 +23,7 @@ import {
 import { differenceColumns, pointMeans } from './difference.ts';
 import { overlayColumns } from './overlay.ts';
 import { RunDetailView } from './RunDetailView.tsx';
+import { RunZip } from './RunZip.tsx';
 
 function ImportCsv() {
   const { stores } = useApp();
@@ -380,6 +381,7 @@ export function RunsScreen() {
           </tbody>
         </table>
         <ImportCsv />
+        <RunZip />
       </Panel>
       {picked.length > 0 ? (
         <Panel title="Overlay" testId="overlay-panel">
