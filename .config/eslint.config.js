@@ -10,7 +10,7 @@ export default tseslint.config(
     languageOptions: {
       // Every file belongs to one of these (tests included: app/tsconfig.test.json).
       parserOptions: {
-        project: ['main/tsconfig.json', 'app/tsconfig.json', 'app/tsconfig.test.json', 'web/tsconfig.json'],
+        project: ['main/tsconfig.json', 'app/tsconfig.json', 'app/tsconfig.test.json', 'app/web/tsconfig.json'],
         tsconfigRootDir: new URL('..', import.meta.url).pathname,
       },
     },

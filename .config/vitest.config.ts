@@ -4,7 +4,7 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   root: fileURLToPath(new URL('..', import.meta.url)),
   test: {
-    include: ['app/**/*.test.ts', 'main/**/*.test.ts', 'test/**/*.test.ts', 'web/**/*.test.ts'],
+    include: ['app/**/*.test.ts', 'main/**/*.test.ts', 'test/**/*.test.ts'],
     environment: 'node',
     testTimeout: 30_000,
     hookTimeout: 60_000,

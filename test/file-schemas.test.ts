@@ -1,6 +1,6 @@
 /**
  * The JSON Schemas in resources/schemas/ and the key tables of
- * docs/reference.md are generated from the zod schemas (`npm run schemas`);
+ * resources/docs/reference.md are generated from the zod schemas (`npm run schemas`);
  * these checks fail when a schema changes and the shipped files do not.
  */
 import { readFileSync } from 'node:fs';
@@ -25,8 +25,8 @@ describe('generated file formats', () => {
     expect(bench.properties.supply.additionalProperties).toBe(false);
   });
 
-  it('docs/reference.md holds the generated key tables of every format, and every key has a meaning', () => {
-    const doc = readFileSync(join(root, 'docs', 'reference.md'), 'utf8');
+  it('resources/docs/reference.md holds the generated key tables of every format, and every key has a meaning', () => {
+    const doc = readFileSync(join(root, 'resources', 'docs', 'reference.md'), 'utf8');
     expect(regenerateReference(doc)).toBe(doc);
     for (const name of FILE_SCHEMA_NAMES)
       expect(doc).toContain(
@@ -60,8 +60,8 @@ describe('generated file formats', () => {
   });
 
   it('README links the user reference, and the reference names every address form and the check command', () => {
-    expect(readFileSync(join(root, 'README.md'), 'utf8')).toMatch(/\]\(docs\/reference\.md\)/);
-    const doc = readFileSync(join(root, 'docs', 'reference.md'), 'utf8');
+    expect(readFileSync(join(root, 'README.md'), 'utf8')).toMatch(/\]\(resources\/docs\/reference\.md\)/);
+    const doc = readFileSync(join(root, 'resources', 'docs', 'reference.md'), 'utf8');
     for (const form of [
       'tcp://HOST:PORT',
       'TCPIP[n]::HOST::PORT::SOCKET',

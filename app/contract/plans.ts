@@ -1,5 +1,5 @@
 /**
- * Schemas for bench files and procedure plans (docs/reference.md). Shared by
+ * Schemas for bench files and procedure plans (resources/docs/reference.md). Shared by
  * the CLI, the main process (validating IPC/WebSocket payloads) and the
  * renderer (validation as you type). Numbers are SI; strings in the one
  * quantity grammar of si.ts ("250m" V, "20mA", "100ms", "15min") are

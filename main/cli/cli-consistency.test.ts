@@ -104,7 +104,7 @@ describe('one command line', () => {
     const { existsSync } = await import('node:fs');
     for (const command of await Promise.all(commands.map((c) => c.load())))
       expect(command.usage, command.name).not.toMatch(/CONTRACTS\.md/);
-    expect(existsSync(join(import.meta.dirname, '..', '..', 'docs', 'reference.md'))).toBe(true);
+    expect(existsSync(join(import.meta.dirname, '..', '..', 'resources', 'docs', 'reference.md'))).toBe(true);
     expect((await runCliCaptured('analyze', '--help')).out).toMatch(/docs\/reference\.md/);
   });
 

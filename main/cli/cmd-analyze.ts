@@ -26,7 +26,7 @@ prints it), or a plain CSV file:
   campaign folder (campaign.json): every condition's sweep, tempcos, pushing, headroom
 
 options:
-  --json            machine-readable result (keys in docs/reference.md, "analyze --json")
+  --json            machine-readable result (keys in resources/docs/reference.md, "analyze --json")
   --fit spline|poly:N|auto  tuning-curve model: penalised cubic regression spline (default; smoothing by
                     generalised cross-validation, monotone where the data allow), polynomial degree 1–6,
                     or a polynomial of the degree AICc picks

@@ -31,7 +31,7 @@ options:
   --runs, --dut-id, --dut, --bench as for \`tunebench sweep\`
 
 A time needs its unit (ms, s, min, h, d); a bare number is seconds; "15m" is refused as ambiguous.
-Every key of the plan file: docs/reference.md (or \`tunebench schema drift-plan\`).
+Every key of the plan file: resources/docs/reference.md (or \`tunebench schema drift-plan\`).
 `;
 
 function timeFlag(name: string, text: string | undefined): number | undefined {

@@ -19,7 +19,7 @@ options:
                 default: ±10 % around the simulated DUT's nominal supply
   --runs, --dut-id, --dut, --bench as for \`tunebench sweep\`
 
-Every key of the plan file: docs/reference.md (or \`tunebench schema pushing-plan\`).
+Every key of the plan file: resources/docs/reference.md (or \`tunebench schema pushing-plan\`).
 Ctrl+C stops cleanly: control voltage to the safe level, output off, DUT supply restored.
 `;
 

@@ -10,7 +10,7 @@ const usage = `usage: tunebench schema NAME
 Prints the JSON Schema of one file format, for an editor to validate and
 complete files with. NAME is one of: ${FILE_SCHEMA_NAMES.join(', ')}.
 The same files ship in resources/schemas/; point a file's "$schema" key at one.
-Every key with its unit, default and limits: docs/reference.md.
+Every key with its unit, default and limits: resources/docs/reference.md.
 `;
 
 export const schemaCommand: CliCommand = {

@@ -24,7 +24,7 @@ it, all speaking SCPI over raw TCP.
 
   --host       address to listen on (default 127.0.0.1, loopback only)
   --base-port  supply port; counter +1, thermometer +2, chamber +3 (default 5025; 0 = any free ports)
-  --dut        built-in model (relaxation, varactor) or a DUT model file (JSON; keys in docs/reference.md)
+  --dut        built-in model (relaxation, varactor) or a DUT model file (JSON; keys in resources/docs/reference.md)
   --seed       integer seed of all simulated noise (default 1)
   --faults     fault script (JSON): drops, delays, garbage, errors, silence
   --no-signal  how the counter shows no oscillation: nan (9.91E37, default), zero, silent

@@ -52,7 +52,7 @@ ${wrap(`varactor DUT: ${describeDefaultSweep(defaultSweepPlan('varactor'))}`, ' 
   --dut-id ID     DUT id recorded with the run
   --dut NAME      simulated DUT when there is no --bench: relaxation (default), varactor or a DUT model FILE.json
 
-Every key of the plan and bench files: docs/reference.md (or \`tunebench schema sweep-plan\`).
+Every key of the plan and bench files: resources/docs/reference.md (or \`tunebench schema sweep-plan\`).
 Ctrl+C stops the sweep cleanly: control voltage to the safe level, output off.
 `;
 

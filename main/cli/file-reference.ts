@@ -1,5 +1,5 @@
 /**
- * The key tables of docs/reference.md, made from the files' JSON Schemas
+ * The key tables of resources/docs/reference.md, made from the files' JSON Schemas
  * (file-schemas.ts): every key with its type, whether it is required, its
  * default, its limits and what it means. Keys whose schema carries no
  * description take theirs from NOTES below, so every key is explained.

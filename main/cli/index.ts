@@ -21,7 +21,7 @@ function mainHelp(): string {
     '',
     'Run `tunebench <command> --help` for the options of one command.',
     'With no --bench file, commands run against the built-in simulated bench.',
-    'Every key of the bench, plan, profile and DUT files: docs/reference.md (and `tunebench schema NAME`).',
+    'Every key of the bench, plan, profile and DUT files: resources/docs/reference.md (and `tunebench schema NAME`).',
     '',
   ].join('\n');
 }

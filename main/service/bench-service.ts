@@ -17,9 +17,8 @@ import { EventHub } from './event-hub.ts';
 import { BenchStatusTracker } from './bench-status.ts';
 import { LivePoller } from './live-readout.ts';
 import { applyManualControl } from './manual-control.ts';
-import type { OpenedBench, ServicePorts } from './ports.ts';
+import type { CampaignMethods, OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
-import { createCampaignMethods } from './campaign-methods.ts';
 
 export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
@@ -40,6 +39,14 @@ export interface BenchServiceOptions extends ServicePorts {
   /** Wall clock for the status strip's times (tests pin it). */
   now?: () => Date;
 }
+
+/** A service without campaigns (the web edition's page has no chamber): never running, no API methods. */
+const NO_CAMPAIGNS: CampaignMethods = {
+  api: {},
+  running: () => false,
+  stopAndWait: async () => {},
+  stopWithin: async () => true,
+};
 
 const DISCONNECTED: ConnectionState = { connected: false, simulated: false, roles: [], error: null };
 
@@ -127,7 +134,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     return bench;
   };
 
-  const campaigns = createCampaignMethods({
+  const campaigns = (options.campaigns ?? (() => NO_CAMPAIGNS))({
     runsDir: options.runsDir,
     emit,
     batchMs: options.batchMs,

@@ -13,7 +13,6 @@ import {
   renderCampaignMarkdown,
 } from '../../app/analysis/campaign-datasheet.ts';
 import { formatFigure } from '../../app/analysis/format-figure.ts';
-import type { BenchApi, BenchEvent } from '../../app/contract/bench-api.ts';
 import type { CampaignSheet, CampaignView } from '../../app/contract/campaign-schemas.ts';
 import { CampaignBusyError } from '../procedures/campaign/campaign-folder.ts';
 import { CampaignFileError, readCampaignFile } from '../procedures/campaign/campaign-file.ts';
@@ -22,32 +21,7 @@ import { loadCampaign } from '../procedures/campaign/campaign-load.ts';
 import { LimitsError } from '../procedures/limits.ts';
 import { startCampaignSession, type CampaignSession } from './campaign-session.ts';
 import { BenchApiError } from './errors.ts';
-import type { OpenedBench } from './ports.ts';
-
-export interface CampaignMethodsOptions {
-  runsDir: string;
-  emit: (event: BenchEvent) => void;
-  batchMs?: number | undefined;
-  /** The idle bench, with the live poll stopped; throws when it is busy or absent. */
-  acquire(): Promise<OpenedBench>;
-  /** The campaign has started (or was refused): other starts may proceed to be refused by `running()`. */
-  started(): void;
-  /** The campaign has ended: the bench is the service's again. */
-  release(): void;
-}
-
-type CampaignApi = Required<
-  Pick<
-    BenchApi,
-    | 'startCampaign'
-    | 'resumeCampaign'
-    | 'stopCampaign'
-    | 'confirmUnitChange'
-    | 'getCampaign'
-    | 'listCampaigns'
-    | 'campaignDatasheet'
-  >
->;
+import type { CampaignApi, CampaignMethods, CampaignMethodsOptions } from './ports.ts';
 
 function refusal(error: unknown): never {
   if (error instanceof LimitsError) throw new BenchApiError(error.message, error.field);
@@ -55,7 +29,7 @@ function refusal(error: unknown): never {
   throw error;
 }
 
-export function createCampaignMethods(options: CampaignMethodsOptions) {
+export function createCampaignMethods(options: CampaignMethodsOptions): CampaignMethods & { api: CampaignApi } {
   let current: CampaignSession | null = null;
   let last: CampaignView | null = null;
 

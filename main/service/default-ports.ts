@@ -14,6 +14,7 @@ import { importCsvOffThread, openImportStream } from './import-off-thread.ts';
 import { openBench } from './open-bench.ts';
 import type { RunStorePort, ServicePorts } from './ports.ts';
 import { driftPort, pushingPort, sweepPort } from './procedure-ports.ts';
+import { createCampaignMethods } from './campaign-methods.ts';
 
 export { driftPort, pushingPort, sweepPort };
 
@@ -63,6 +64,7 @@ export function defaultPorts(options: DefaultServiceOptions): ServicePorts {
     listProfiles: profilesWithRoles,
     store: storePort(options.runsDir),
     procedures: { sweep: sweepPort, drift: driftPort, pushing: pushingPort },
+    campaigns: createCampaignMethods,
   };
 }
 

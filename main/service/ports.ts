@@ -3,7 +3,15 @@
  * main/service/default-ports.ts fills them with the real modules (store,
  * procedures, bench assembly, simulator); tests fill them with fakes.
  */
-import type { ConnectionState, RunDetail, RunKind, RunMeta, SerialPortInfo } from '../../app/contract/bench-api.ts';
+import type {
+  BenchApi,
+  BenchEvent,
+  ConnectionState,
+  RunDetail,
+  RunKind,
+  RunMeta,
+  SerialPortInfo,
+} from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
 import type { RunControl } from '../procedures/run-control.ts';
 import type { BenchRoles, ProcedureOutcome, ProcedureProgress, RunSink } from '../procedures/types.ts';
@@ -58,4 +66,42 @@ export interface ServicePorts {
   listProfiles(): Promise<{ name: string; role: string }[]>;
   store: RunStorePort;
   procedures: Partial<Record<RunKind, ProcedurePort>>;
+  /**
+   * The campaign methods (./campaign-methods.ts), given as a port so that a service without a chamber
+   * (the web edition's page) loads none of the campaign's folder code; absent: no campaigns.
+   */
+  campaigns?: (options: CampaignMethodsOptions) => CampaignMethods;
+}
+
+export interface CampaignMethodsOptions {
+  runsDir: string;
+  emit: (event: BenchEvent) => void;
+  batchMs?: number | undefined;
+  /** The idle bench, with the live poll stopped; throws when it is busy or absent. */
+  acquire(): Promise<OpenedBench>;
+  /** The campaign has started (or was refused): other starts may proceed to be refused by `running()`. */
+  started(): void;
+  /** The campaign has ended: the bench is the service's again. */
+  release(): void;
+}
+
+export type CampaignApi = Required<
+  Pick<
+    BenchApi,
+    | 'startCampaign'
+    | 'resumeCampaign'
+    | 'stopCampaign'
+    | 'confirmUnitChange'
+    | 'getCampaign'
+    | 'listCampaigns'
+    | 'campaignDatasheet'
+  >
+>;
+
+/** What the bench service holds of the campaign methods (one value of `createCampaignMethods`). */
+export interface CampaignMethods {
+  api: Partial<CampaignApi>;
+  running(): boolean;
+  stopAndWait(): Promise<void>;
+  stopWithin(ms: number): Promise<boolean>;
 }

@@ -14,7 +14,7 @@ export interface ImportEdge {
   typeOnly: boolean;
 }
 
-const ROOTS = ['app', 'main', 'web'];
+const ROOTS = ['app', 'main'];
 /** A Node built-in by name: `node:fs`, or the bare `fs`, `fs/promises`, `path`… */
 const BUILTINS: ReadonlySet<string> = new Set(builtinModules.filter((name) => !name.startsWith('_')));
 

@@ -15,7 +15,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { PAGE_MODULES } from '../../web/page-modules.ts';
+import { PAGE_MODULES } from '../../app/web/page-modules.ts';
 import { importGraph, isNodeBuiltin, type ImportEdge } from './import-graph.ts';
 
 const REPO = fileURLToPath(new URL('../..', import.meta.url));
@@ -107,13 +107,13 @@ describe('Node-free code for the web edition (issue 16 item 2)', () => {
 
   it("the web edition's page, from its entry, loads no Node built-in once the stand-ins replace their originals", () => {
     const edges = graph.edges.map((edge) => ({ ...edge, to: PAGE_MODULES[edge.to] ?? edge.to }));
-    const page = valueClosure(['web/main.tsx'], edges);
+    const page = valueClosure(['app/web/main.tsx'], edges);
     expect(page.has('main/service/bench-service.ts')).toBe(true);
     expect(page.has('main/procedures/sweep.ts')).toBe(true);
     for (const original of Object.keys(PAGE_MODULES)) expect(page.has(original)).toBe(false);
-    // The npm `buffer` package stands in for Node's Buffer global (web/buffer-global.ts).
+    // The npm `buffer` package stands in for Node's Buffer global (app/web/buffer-global.ts).
     const npmBuffer = (b: { from: string; module: string }): boolean =>
-      b.from === 'web/buffer-global.ts' && b.module === 'buffer';
+      b.from === 'app/web/buffer-global.ts' && b.module === 'buffer';
     expect(
       nodeImportsIn(
         page,

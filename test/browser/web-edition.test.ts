@@ -18,7 +18,7 @@ import { promisify } from 'node:util';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { PROJECT_ROOT } from '../../main/server/renderer-build.ts';
-import { readZip } from '../../web/zip/zip-file.ts';
+import { readZip } from '../../app/web/zip/zip-file.ts';
 import { hasChromium, launchChromium, SCREENS_DIR, SKIP_REASON } from './harness.ts';
 import { byId, shot, textMatches } from './page-steps.ts';
 
@@ -61,9 +61,13 @@ async function serveStatic(root: string): Promise<{ server: Server; origin: stri
 /** The numbers of a figure such as "1.234 kHz – 28.80 kHz" with SI prefixes applied. */
 function siValues(text: string): number[] {
   const scale: Record<string, number> = { p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, m: 1e-3, '': 1, k: 1e3, M: 1e6, G: 1e9 };
-  return [...text.replace(/\u2212/g, '-').matchAll(/(-?\d+(?:\.\d+)?)\s*([pnuµmkMG]?)(?=Hz|V)/g)].map(
-    (m) => Number(m[1]) * (scale[m[2] ?? ''] ?? 1),
-  );
+  // A figure "8.92 ± 0.09 kHz/V" carries its prefix after the ±: drop each "± u" so the value meets its unit.
+  return [
+    ...text
+      .replace(/\u2212/g, '-')
+      .replace(/ ± [\d.]+/g, '')
+      .matchAll(/(-?\d+(?:\.\d+)?)\s*([pnuµmkMG]?)(?=Hz|V)/g),
+  ].map((m) => Number(m[1]) * (scale[m[2] ?? ''] ?? 1));
 }
 
 /** Relative difference a figure shown to four significant digits may have from the full value. */
@@ -97,7 +101,7 @@ describe.skipIf(!hasChromium)('the web edition, built static and served plainly 
         join(PROJECT_ROOT, 'node_modules/vite/bin/vite.js'),
         'build',
         '--config',
-        'web/vite.config.ts',
+        'app/web/vite.config.ts',
         '--logLevel',
         'warn',
       ],

@@ -94,7 +94,7 @@ export function CampaignScreen() {
           />
           {check.ok ? (
             <p className="muted" data-testid="campaign-plan-ok">
-              Plan checks out. Keys and forms: docs/reference.md, "Campaign plan".
+              Plan checks out. Keys and forms: resources/docs/reference.md, "Campaign plan".
             </p>
           ) : (
             <ul className="plan-problems" data-testid="campaign-plan-problems" role="alert">

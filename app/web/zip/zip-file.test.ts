@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { crc32 } from './crc32.ts';
 import { readZip, writeZip, ZipError } from './zip-file.ts';
 
-const FIXTURES = fileURLToPath(new URL('../../test/fixtures/zip/', import.meta.url));
+const FIXTURES = fileURLToPath(new URL('../../../test/fixtures/zip/', import.meta.url));
 const text = (bytes: Uint8Array): string => new TextDecoder().decode(bytes);
 
 function hasPython(): boolean {

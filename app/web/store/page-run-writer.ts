@@ -7,11 +7,11 @@
  * is re-read (a rename or note made during the run is kept) and replaced with
  * the final status.
  */
-import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { formatCell } from '../../main/store/csv-cells.ts';
-import { dutIdSchema, makeRunId } from '../../main/store/run-id.ts';
-import { startingRunMeta } from '../../main/store/starting-meta.ts';
-import type { CreateRunOptions, RunWriter } from '../../main/store/writer-types.ts';
+import type { RunMeta } from '../../contract/bench-api.ts';
+import { formatCell } from '../../../main/store/csv-cells.ts';
+import { dutIdSchema, makeRunId } from '../../../main/store/run-id.ts';
+import { startingRunMeta } from '../../../main/store/starting-meta.ts';
+import type { CreateRunOptions, RunWriter } from '../../../main/store/writer-types.ts';
 import { appendText, readText, writeText, type PageDir } from './page-dir.ts';
 import { parseStoredMeta, PAGE_FILES, TRASH_DIR } from './page-run-files.ts';
 

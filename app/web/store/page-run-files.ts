@@ -1,6 +1,6 @@
 /** File names of a run folder and run.json parsing, shared by the page's writer, store and zip. */
-import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { runMetaSchema } from '../../app/contract/run-meta-schema.ts';
+import type { RunMeta } from '../../contract/bench-api.ts';
+import { runMetaSchema } from '../../contract/run-meta-schema.ts';
 
 export const PAGE_FILES = { meta: 'run.json', samples: 'samples.csv', events: 'events.jsonl' } as const;
 /** Deleted runs wait here until restored (as `<runs>/.trash/<id>` on the desktop). */

@@ -1,6 +1,6 @@
 /**
  * The web edition's in-page bench in Node: the desktop's service over the
- * page's stand-ins (the same four web/page-modules.ts substitutes the build
+ * page's stand-ins (the same four app/web/page-modules.ts substitutes the build
  * makes), a memory runs folder in place of OPFS and the simulated bench on a
  * virtual clock. Checks that a page run is a desktop run folder (the desktop
  * store opens it to the same rows), that rows reach the folder within a
@@ -12,15 +12,15 @@ import { mkdtemp, rm, writeFile, mkdir } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import type { BenchEvent, RunMeta } from '../app/contract/bench-api.ts';
-import { defaultDriftPlan, defaultSweepPlan } from '../main/cli/default-plans.ts';
-import { openRun } from '../main/store/run-store.ts';
-import { VirtualClock } from '../main/time/virtual-clock.ts';
-import { RealClock } from '../main/time/real-clock.ts';
-import { sweepPlanSchema } from '../app/contract/plans.ts';
-import { FakeSerialPort, FakeWebSerial, farEndOf } from '../main/instruments/testing/fake-web-serial.ts';
-import { serveSimBench } from '../main/sim/tcp-server.ts';
-import { SHORT_SWEEP } from '../test/hostile/hostile-bench.ts';
+import type { BenchEvent, RunMeta } from '../contract/bench-api.ts';
+import { defaultDriftPlan, defaultSweepPlan } from '../../main/cli/default-plans.ts';
+import { openRun } from '../../main/store/run-store.ts';
+import { VirtualClock } from '../../main/time/virtual-clock.ts';
+import { RealClock } from '../../main/time/real-clock.ts';
+import { sweepPlanSchema } from '../contract/plans.ts';
+import { FakeSerialPort, FakeWebSerial, farEndOf } from '../../main/instruments/testing/fake-web-serial.ts';
+import { serveSimBench } from '../../main/sim/tcp-server.ts';
+import { SHORT_SWEEP } from '../../test/hostile/hostile-bench.ts';
 import { createPageBench, type PageBench } from './page-bench.ts';
 import { guardPageClose } from './page-close.ts';
 import { PAGE_MODULES } from './page-modules.ts';
@@ -28,11 +28,11 @@ import { memoryDir, readText, writeText, type PageDir } from './store/page-dir.t
 import { createPageRun, PAGE_FLUSH_MS } from './store/page-run-writer.ts';
 import { createPageRunStore } from './store/page-run-store.ts';
 
-// The same substitutes as the web build (web/vite.config.ts); a test below checks the lists agree.
-vi.mock('../main/instruments/create-transport.ts', async () => import('./page/create-transport.ts'));
-vi.mock('../main/instruments/profile-loader.ts', async () => import('./page/profile-loader.ts'));
-vi.mock('../main/service/address-policy.ts', async () => import('./page/address-policy.ts'));
-vi.mock('../main/store/index.ts', async () => import('./page/store-index.ts'));
+// The same substitutes as the web build (app/web/vite.config.ts); a test below checks the lists agree.
+vi.mock('../../main/instruments/create-transport.ts', async () => import('./page/create-transport.ts'));
+vi.mock('../../main/instruments/profile-loader.ts', async () => import('./page/profile-loader.ts'));
+vi.mock('../../main/service/address-policy.ts', async () => import('./page/address-policy.ts'));
+vi.mock('../../main/store/index.ts', async () => import('./page/store-index.ts'));
 const MOCKED = [
   'main/instruments/create-transport.ts',
   'main/instruments/profile-loader.ts',

@@ -5,10 +5,10 @@
  * user granted through the browser, over the Web Serial transport
  * (./browser-serial.ts).
  */
-import { parseAddress, type InstrumentAddress } from '../../main/instruments/address.ts';
-import type * as Original from '../../main/instruments/create-transport.ts';
-import { AddressError } from '../../main/instruments/errors.ts';
-import type { Transport } from '../../main/instruments/transport.ts';
+import { parseAddress, type InstrumentAddress } from '../../../main/instruments/address.ts';
+import type * as Original from '../../../main/instruments/create-transport.ts';
+import { AddressError } from '../../../main/instruments/errors.ts';
+import type { Transport } from '../../../main/instruments/transport.ts';
 import { browserSerialTransport } from './browser-serial.ts';
 
 export type CreateTransportOptions = Original.CreateTransportOptions;

@@ -2,7 +2,7 @@
  * `npm run build:web`: the web edition as a static site in out/web/ (no
  * server code; any static file server over HTTPS, or http://localhost).
  * The four Node-facing modules resolve to their page stand-ins
- * (web/page-modules.ts), and any Node built-in that would still reach the
+ * (app/web/page-modules.ts), and any Node built-in that would still reach the
  * page stops the build, naming the importer.
  */
 import { builtinModules } from 'node:module';
@@ -12,12 +12,12 @@ import react from '@vitejs/plugin-react';
 import { defineConfig, type Plugin } from 'vite';
 import { PAGE_MODULES } from './page-modules.ts';
 
-const repo = fileURLToPath(new URL('..', import.meta.url));
+const repo = fileURLToPath(new URL('../..', import.meta.url));
 const webDir = fileURLToPath(new URL('.', import.meta.url));
 export const WEB_OUT_DIR = resolve(repo, 'out/web');
 
 const BUILTINS = new Set(builtinModules);
-/** The npm `buffer` package, imported by name by web/buffer-global.ts only. */
+/** The npm `buffer` package, imported by name by app/web/buffer-global.ts only. */
 const NPM_BUFFER_IMPORTER = resolve(webDir, 'buffer-global.ts');
 
 function pageModules(): Plugin {

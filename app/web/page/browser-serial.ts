@@ -6,13 +6,13 @@
  * opened by the Web Serial transport (main/instruments/web-serial-transport.ts),
  * which finds it again after an unplug by those ids.
  */
-import type { SerialPortInfo } from '../../app/contract/bench-api.ts';
-import type { SerialAddress } from '../../main/instruments/address.ts';
-import type { Transport } from '../../main/instruments/transport.ts';
-import { describeUsbIds, usbIdsOf, webSerialPortPath } from '../../main/instruments/web-serial-ports.ts';
-import { WebSerialTransport } from '../../main/instruments/web-serial-transport.ts';
-import type { WebSerial, WebSerialPort } from '../../main/instruments/web-serial-types.ts';
-import type { Clock } from '../../main/time/clock.ts';
+import type { SerialPortInfo } from '../../contract/bench-api.ts';
+import type { SerialAddress } from '../../../main/instruments/address.ts';
+import type { Transport } from '../../../main/instruments/transport.ts';
+import { describeUsbIds, usbIdsOf, webSerialPortPath } from '../../../main/instruments/web-serial-ports.ts';
+import { WebSerialTransport } from '../../../main/instruments/web-serial-transport.ts';
+import type { WebSerial, WebSerialPort } from '../../../main/instruments/web-serial-types.ts';
+import type { Clock } from '../../../main/time/clock.ts';
 
 /** navigator.serial with the chooser. */
 export interface BrowserSerial extends WebSerial {

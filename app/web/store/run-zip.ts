@@ -8,8 +8,8 @@
  * writer.lock, a column cache) are left out; an existing run is never
  * overwritten.
  */
-import type { RunMeta } from '../../app/contract/bench-api.ts';
-import { assertRunId } from '../../main/store/run-id.ts';
+import type { RunMeta } from '../../contract/bench-api.ts';
+import { assertRunId } from '../../../main/store/run-id.ts';
 import { readZip, writeZip, ZipError, type ZipEntry } from '../zip/zip-file.ts';
 import type { PageDir } from './page-dir.ts';
 import { parseStoredMeta, PAGE_FILES } from './page-run-files.ts';

@@ -4,14 +4,14 @@
  * parsed by the same rules (profile-parse.ts); a page has no user profile
  * folder, so a name beyond the shipped ones is refused, naming them.
  */
-import type * as Original from '../../main/instruments/profile-loader.ts';
-import { ProfileError } from '../../main/instruments/errors.ts';
-import { defaultProfileName, parseProfile } from '../../main/instruments/profile-parse.ts';
-import type { InstrumentProfile } from '../../main/instruments/profile-schema.ts';
-import chamberScpi from '../../resources/profiles/chamber-scpi.json';
-import counterScpi from '../../resources/profiles/counter-scpi.json';
-import supplyScpi from '../../resources/profiles/supply-scpi.json';
-import thermometerScpi from '../../resources/profiles/thermometer-scpi.json';
+import type * as Original from '../../../main/instruments/profile-loader.ts';
+import { ProfileError } from '../../../main/instruments/errors.ts';
+import { defaultProfileName, parseProfile } from '../../../main/instruments/profile-parse.ts';
+import type { InstrumentProfile } from '../../../main/instruments/profile-schema.ts';
+import chamberScpi from '../../../resources/profiles/chamber-scpi.json';
+import counterScpi from '../../../resources/profiles/counter-scpi.json';
+import supplyScpi from '../../../resources/profiles/supply-scpi.json';
+import thermometerScpi from '../../../resources/profiles/thermometer-scpi.json';
 
 export { defaultProfileName, parseProfile };
 

@@ -5,11 +5,11 @@
  * restore. A run left `running` by a page that is gone reads as
  * `interrupted`, as on the desktop.
  */
-import type { RunDetail, RunMeta } from '../../app/contract/bench-api.ts';
-import { eventLineAfter, parseEventsJsonl } from '../../main/store/events-jsonl.ts';
-import { assertRunId, dutIdSchema } from '../../main/store/run-id.ts';
-import { readSampleTable } from '../../main/store/sample-table.ts';
-import type { RunStorePort } from '../../main/service/ports.ts';
+import type { RunDetail, RunMeta } from '../../contract/bench-api.ts';
+import { eventLineAfter, parseEventsJsonl } from '../../../main/store/events-jsonl.ts';
+import { assertRunId, dutIdSchema } from '../../../main/store/run-id.ts';
+import { readSampleTable } from '../../../main/store/sample-table.ts';
+import type { RunStorePort } from '../../../main/service/ports.ts';
 import { readText, writeText, type PageDir } from './page-dir.ts';
 import { parseStoredMeta, PAGE_FILES, TRASH_DIR } from './page-run-files.ts';
 

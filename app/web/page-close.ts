@@ -6,7 +6,7 @@
  * leave within that event's microtasks, while the port is still open; what
  * needs a reply after the page is gone cannot be waited for.
  */
-import type { BenchHolder } from '../main/service/last-resort-guard.ts';
+import type { BenchHolder } from '../../main/service/last-resort-guard.ts';
 
 export const PAGE_CLOSE_EVENTS = ['beforeunload', 'pagehide'] as const;
 

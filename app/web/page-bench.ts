@@ -8,12 +8,12 @@
  * what only the page has: the browser's port chooser and run folders as zip
  * files in and out.
  */
-import type { BenchApi, RunMeta, SerialPortInfo } from '../app/contract/bench-api.ts';
-import { createBenchService, type BenchService } from '../main/service/bench-service.ts';
-import { openBench } from '../main/service/open-bench.ts';
-import { driftPort, pushingPort, sweepPort } from '../main/service/procedure-ports.ts';
-import type { Clock } from '../main/time/clock.ts';
-import { RealClock } from '../main/time/real-clock.ts';
+import type { BenchApi, RunMeta, SerialPortInfo } from '../contract/bench-api.ts';
+import { createBenchService, type BenchService } from '../../main/service/bench-service.ts';
+import { openBench } from '../../main/service/open-bench.ts';
+import { driftPort, pushingPort, sweepPort } from '../../main/service/procedure-ports.ts';
+import type { Clock } from '../../main/time/clock.ts';
+import { RealClock } from '../../main/time/real-clock.ts';
 import { choosePort, grantedPorts, useBrowserSerial, type BrowserSerial } from './page/browser-serial.ts';
 import { listProfiles, loadProfile } from './page/profile-loader.ts';
 import { usePageStore } from './page/store-index.ts';

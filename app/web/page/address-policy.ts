@@ -4,10 +4,10 @@
  * the serial ports the user granted in the browser; a network address or a
  * device path is refused, naming the field and what would be valid.
  */
-import type { BenchConfig } from '../../app/contract/plans.ts';
-import { parseAddress } from '../../main/instruments/address.ts';
-import type * as Original from '../../main/service/address-policy.ts';
-import { BenchApiError } from '../../main/service/errors.ts';
+import type { BenchConfig } from '../../contract/plans.ts';
+import { parseAddress } from '../../../main/instruments/address.ts';
+import type * as Original from '../../../main/service/address-policy.ts';
+import { BenchApiError } from '../../../main/service/errors.ts';
 
 export type AddressPolicy = Original.AddressPolicy;
 

@@ -4,9 +4,9 @@
  * sets the store once at start; resuming a run and Node's file system do not
  * exist in a page and say so if reached.
  */
-import type * as Original from '../../main/store/index.ts';
-import type { StoreFs } from '../../main/store/store-fs.ts';
-import type { CreateRunOptions, RunWriter } from '../../main/store/writer-types.ts';
+import type * as Original from '../../../main/store/index.ts';
+import type { StoreFs } from '../../../main/store/store-fs.ts';
+import type { CreateRunOptions, RunWriter } from '../../../main/store/writer-types.ts';
 import type { PageDir } from '../store/page-dir.ts';
 import { createPageRun } from '../store/page-run-writer.ts';
 import type { PageRunStore } from '../store/page-run-store.ts';

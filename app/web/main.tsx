@@ -8,8 +8,8 @@
  */
 import './buffer-global.ts';
 import { createRoot } from 'react-dom/client';
-import { startApp } from '../app/views/start-app.tsx';
-import { ScaledClock } from '../main/time/scaled-clock.ts';
+import { startApp } from '../views/start-app.tsx';
+import { ScaledClock } from '../../main/time/scaled-clock.ts';
 import type { BrowserSerial } from './page/browser-serial.ts';
 import { createPageBench } from './page-bench.ts';
 import { guardPageClose } from './page-close.ts';
