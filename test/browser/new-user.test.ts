@@ -11,24 +11,9 @@ import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { byId, hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { shot, textMatches } from './page-steps.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
-
-/** Waits until the text of a test id matches. */
-async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 30_000): Promise<string> {
-  const locator = page.locator(byId(testId)).first();
-  await expect
-    .poll(async () => ((await locator.count()) > 0 ? ((await locator.textContent()) ?? '') : ''), {
-      timeout: timeoutMs,
-      interval: 100,
-    })
-    .toMatch(pattern);
-  return (await locator.textContent()) ?? '';
-}
-
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({ path: join(SCREENS_DIR, `${name}.png`), fullPage: true });
-}
 
 /** Reads a number out of a figure such as "1.234 MHz/V" (SI prefix applied). */
 function siValue(text: string): number {

@@ -2,10 +2,9 @@
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { expect } from 'vitest';
-import { SCREENS_DIR } from './harness.ts';
+import { byId, SCREENS_DIR } from './harness.ts';
 
-/** The CSS selector of a `data-testid`. */
-export const byId = (id: string): string => `[data-testid="${id}"]`;
+export { byId };
 
 /** Waits until the text of a test id matches; returns it. */
 export async function textMatches(page: Page, testId: string, pattern: RegExp, timeoutMs = 30_000): Promise<string> {

@@ -83,39 +83,23 @@ export function RunControls(props: RunControlsProps) {
         >
           {props.startLabel}
         </button>
-        {paused ? (
-          <button
-            type="button"
-            ref={pauseRef}
-            disabled={!mine || pending}
-            onClick={() =>
-              void act(async () => {
-                pauseWantsFocus.current = document.activeElement === pauseRef.current;
-                await bridge.api.resumeRun();
-                setPaused(false);
-              })
-            }
-            data-testid="resume-run"
-          >
-            Resume
-          </button>
-        ) : (
-          <button
-            type="button"
-            ref={pauseRef}
-            disabled={!mine || pending}
-            onClick={() =>
-              void act(async () => {
-                pauseWantsFocus.current = document.activeElement === pauseRef.current;
-                await bridge.api.pauseRun();
-                setPaused(true);
-              })
-            }
-            data-testid="pause-run"
-          >
-            Pause
-          </button>
-        )}
+        {/* One button that flips between Pause and Resume, so the keyboard focus stays on it across a pause. */}
+        <button
+          type="button"
+          ref={pauseRef}
+          disabled={!mine || pending}
+          onClick={() =>
+            void act(async () => {
+              pauseWantsFocus.current = document.activeElement === pauseRef.current;
+              if (paused) await bridge.api.resumeRun();
+              else await bridge.api.pauseRun();
+              setPaused(!paused);
+            })
+          }
+          data-testid={paused ? 'resume-run' : 'pause-run'}
+        >
+          {paused ? 'Resume' : 'Pause'}
+        </button>
         <ConfirmAction
           label={props.kind === 'drift' ? 'Stop the log' : 'Abort'}
           className="danger"
