@@ -8,7 +8,7 @@
  * formatFigure (format-figure.ts).
  */
 import { spreadOf, type CampaignAnalysis, type HeadroomRow, type SpreadFigure } from './campaign-analysis.ts';
-import { STYLE as DATASHEET_STYLE, html, mdEscape, SIMULATED_BANNER } from './datasheet-render.ts';
+import { html, htmlPage, htmlTable, mdEscape, SIMULATED_BANNER } from './datasheet-render.ts';
 import { formatFigure } from './format-figure.ts';
 
 /** One figure and its 1σ uncertainty (null: unknown), SI units. */
@@ -245,33 +245,12 @@ export function renderCampaignHtml(a: CampaignAnalysis, title = 'VCO characteris
       return `<tr${h.inWindow ? '' : ' class="fails"'}>${cells.map((c, i) => td(c, i >= 3 && i <= 6)).join('')}</tr>`;
     })
     .join('\n');
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<title>${html(title)}</title>
-<style>${DATASHEET_STYLE}  tr.fails td { font-weight: 600; }
-  h2 { font-size: 13pt; margin: 1.5em 0 0.4em; }
-</style>
-</head>
-<body>
-<h1>${html(title)}</h1>
-${a.simulated ? `<p class="simulated"><strong>${html(SIMULATED_BANNER)}</strong></p>\n` : ''}<p class="runs">${html(campaignConditionsText(a))}</p>
-<table>
-<thead><tr>${HEAD.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
-<tbody>
-${body}
-</tbody>
-</table>
-<h2>${html(headroomHeading(a))}</h2>
-<table>
-<thead><tr>${HEADROOM_HEAD.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
-<tbody>
-${headroom}
-</tbody>
-</table>
-<ul class="notes"><li>${html(NOTE)}</li></ul>
-</body>
-</html>
-`;
+  return htmlPage({
+    title,
+    simulated: a.simulated,
+    lead: campaignConditionsText(a),
+    body: `${htmlTable(HEAD, body)}\n<h2>${html(headroomHeading(a))}</h2>\n${htmlTable(HEADROOM_HEAD, headroom)}`,
+    notes: [NOTE],
+    extraStyle: '  tr.fails td { font-weight: 600; }\n  h2 { font-size: 13pt; margin: 1.5em 0 0.4em; }\n',
+  });
 }

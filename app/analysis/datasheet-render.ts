@@ -132,7 +132,47 @@ export const STYLE = `
   @media print { body { margin: 0; max-width: none; } tbody tr:nth-child(even) { background: none; } tr { break-inside: avoid; } }
 `;
 
-/** One self-contained HTML page; prints on A4/Letter with a light style. */
+/** A table of escaped-or-built cells under plain-text headings. */
+export function htmlTable(head: readonly string[], rows: string): string {
+  return `<table>
+<thead><tr>${head.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
+<tbody>
+${rows}
+</tbody>
+</table>`;
+}
+
+export interface HtmlPage {
+  title: string;
+  simulated: boolean;
+  /** The line under the title (plain text; escaped here). */
+  lead: string;
+  /** Tables and headings, already escaped. */
+  body: string;
+  notes: readonly string[];
+  /** CSS added after the shared style. */
+  extraStyle?: string;
+}
+
+/** One self-contained HTML page (gain table, campaign datasheet); prints on A4/Letter with a light style. */
+export function htmlPage(page: HtmlPage): string {
+  return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<title>${html(page.title)}</title>
+<style>${STYLE}${page.extraStyle ?? ''}</style>
+</head>
+<body>
+<h1>${html(page.title)}</h1>
+${page.simulated ? `<p class="simulated"><strong>${html(SIMULATED_BANNER)}</strong></p>\n` : ''}<p class="runs">${html(page.lead)}</p>
+${page.body}
+<ul class="notes">${page.notes.map((n) => `<li>${html(n)}</li>`).join('')}</ul>
+</body>
+</html>
+`;
+}
+
 export function renderDatasheetHtml(sheet: Datasheet): string {
   const body = sheet.rows
     .map((row) => {
@@ -140,24 +180,11 @@ export function renderDatasheetHtml(sheet: Datasheet): string {
       return `<tr><td>${html(row.parameter)}</td><td>${html(row.conditions)}</td><td class="num">${html(d.min)}</td><td class="num">${html(d.typ)}</td><td class="num">${html(d.max)}</td><td>${html(d.unit)}</td></tr>`;
     })
     .join('\n');
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<title>${html(sheet.title)}</title>
-<style>${STYLE}</style>
-</head>
-<body>
-<h1>${html(sheet.title)}</h1>
-${sheet.simulated ? `<p class="simulated"><strong>${html(SIMULATED_BANNER)}</strong></p>\n` : ''}<p class="runs">Runs: ${html(sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', '))}</p>
-<table>
-<thead><tr>${HEAD.map((h) => `<th>${h}</th>`).join('')}</tr></thead>
-<tbody>
-${body}
-</tbody>
-</table>
-<ul class="notes">${sheet.notes.map((n) => `<li>${html(n)}</li>`).join('')}</ul>
-</body>
-</html>
-`;
+  return htmlPage({
+    title: sheet.title,
+    simulated: sheet.simulated,
+    lead: `Runs: ${sheet.runs.map((r) => `${r.label} (${r.kind}${r.simulated ? ', simulated' : ''})`).join(', ')}`,
+    body: htmlTable(HEAD, body),
+    notes: sheet.notes,
+  });
 }
