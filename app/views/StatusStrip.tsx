@@ -10,7 +10,7 @@ import { useStore } from '../state/use-store.ts';
 import { useApp } from './app-context.ts';
 import { clockTime, linkText, runKindLabel, stripRunText } from './status-text.ts';
 import { planHints } from '../analysis/datasheet-run.ts';
-import { celsius, hzAtResolution, volts } from './units.ts';
+import { celsius, hzAtResolution, supplyVolts } from './units.ts';
 
 function OutputCell({ output }: { output: boolean | null }) {
   const text = output === null ? 'Output unknown' : output ? 'Output on' : 'Output off';
@@ -127,13 +127,13 @@ export function StatusStrip() {
       </span>
       {status.paused ? (
         <span className="strip-cell strip-paused" data-testid="strip-paused">
-          Paused since {clockTime(status.paused.since)} · control held at {volts(status.paused.controlV)}
+          Paused since {clockTime(status.paused.since)} · control held at {supplyVolts(status.paused.controlV)}
         </span>
       ) : null}
       <OutputCell output={status.output} />
       <span className="strip-cell" data-testid="strip-control">
-        Control {volts(status.controlSetV)} set
-        {status.controlMeasV !== null ? ` · ${volts(status.controlMeasV)} measured` : ''}
+        Control {supplyVolts(status.controlSetV)} set
+        {status.controlMeasV !== null ? ` · ${supplyVolts(status.controlMeasV)} measured` : ''}
       </span>
       <span className="strip-cell" data-testid="strip-frequency">
         {hzAtResolution(status.frequencyHz, status.source === 'run' && gateS ? 1 / gateS : null)}

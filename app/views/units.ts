@@ -3,16 +3,25 @@
  * views read `hz(x)`, `volts(x)`; the prefix logic itself lives with analysis.
  */
 import { formatClockDuration } from '../analysis/format-clock.ts';
+import { formatFigure } from '../analysis/format-figure.ts';
 import { formatPlain, formatSiOrDash } from '../analysis/format-si.ts';
+import { SUPPLY_SETTING_RESOLUTION_V, THERMOMETER_RESOLUTION_C } from '../plots/readout.ts';
+import { readingText } from './figure-text.ts';
 
 export const si = formatSiOrDash;
 
 export const hz = (value: number | null | undefined, digits?: number) => si(value, 'Hz', digits);
 export const volts = (value: number | null | undefined, digits?: number) => si(value, 'V', digits);
+
+/** A supply's setpoint or readback on the bench: to its 1 mV setting resolution, through the one formatter. */
+export function supplyVolts(value: number | null | undefined): string {
+  return formatFigure(value, 'V', { resolution: SUPPLY_SETTING_RESOLUTION_V });
+}
 export const hzPerV = (value: number | null | undefined, digits?: number) => si(value, 'Hz/V', digits);
 
+/** A temperature to the thermometer's 0.01 °C, through the one formatter. */
 export function celsius(value: number | null | undefined): string {
-  return value === null || value === undefined || !Number.isFinite(value) ? '—' : `${value.toFixed(2)} °C`;
+  return formatFigure(value, '°C', { resolution: THERMOMETER_RESOLUTION_C });
 }
 
 export function percent(value: number | null | undefined, digits = 3): string {
@@ -47,11 +56,8 @@ export function siTicks(unit: string, digits = 3) {
 /**
  * A counter reading with the digits its resolution supports: a 0.1 s gate
  * counts in 10 Hz steps, so 13 780 Hz reads "13.78 kHz", not "13.78000 kHz".
- * Without a known resolution, 7 significant digits.
+ * Without a known resolution, 7 significant digits (figure-text's readingText).
  */
 export function hzAtResolution(value: number | null | undefined, resolutionHz: number | null | undefined): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  if (!resolutionHz || !(resolutionHz > 0) || value === 0) return hz(value, 7);
-  const digits = Math.floor(Math.log10(Math.abs(value))) - Math.floor(Math.log10(resolutionHz) + 1e-9) + 1;
-  return hz(value, Math.max(1, Math.min(12, digits)));
+  return readingText(value, resolutionHz);
 }

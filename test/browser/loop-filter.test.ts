@@ -1,7 +1,7 @@
 /**
  * The loop-filter screen in Chromium against browser mode on the simulated
- * bench (25× real time): a sweep that only saw the stalled oscillator is not
- * offered; the Bode plots mark each Kvco corner's crossover and phase margin
+ * bench (25× real time): the form's first lock point fits the chosen run; a
+ * sweep that only saw the stalled oscillator is not offered; the Bode plots mark each Kvco corner's crossover and phase margin
  * with a key that matches the table; the rounded parts are checked again; an
  * input that cannot be used says why next to its field while the last good
  * design stays in view.
@@ -10,6 +10,7 @@ import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { textMatches } from './page-steps.ts';
 import {
   byId,
   hasChromium,
@@ -74,15 +75,20 @@ describe.skipIf(!hasChromium)('the loop-filter screen (Chromium, simulated bench
     expect(stalled.samples.numeric.frequency_hz?.length ?? 0).toBeGreaterThan(0);
     expect(Array.from(stalled.samples.numeric.frequency_hz ?? []).every((f) => !(f > 0))).toBe(true);
     await page.click(byId('nav-loop'));
-    // The form's own example (5 MHz from 1.25 MHz) does not fit this oscillator: the reference field says why,
-    // once, and the results say where to look.
-    await expect
-      .poll(async () => (await page.locator(byId('loop-reference-error')).count()) > 0, { timeout: 30_000 })
-      .toBe(true);
-    await expect(page.textContent(byId('loop-reference-error'))).resolves.toMatch(/outside this run's tuning range/);
-    await expect(page.textContent(byId('loop-design-error'))).resolves.toMatch(/field marked in red says why/);
+    // The first lock point is the chosen run's own (the middle of its tuning window, a reference a decade
+    // below): a new user sees a design, not an error (the example's 5 MHz did not fit this 2–29 kHz oscillator).
+    await page.waitForSelector(byId('loop-magnitude-plot'), { timeout: 60_000 });
+    await expect(page.locator(byId('loop-reference-error')).count()).resolves.toBe(0);
+    await expect(page.locator(byId('loop-design-error')).count()).resolves.toBe(0);
     await expect(page.locator(byId('loop-lock-message')).count()).resolves.toBe(0);
-    await shot('loop-00-example-does-not-fit');
+    await expect(page.inputValue(byId('loop-divider'))).resolves.toBe('10');
+    const referenceHz = Number((await page.inputValue(byId('loop-reference'))).replace(/k$/, 'e3'));
+    // 2–29 kHz oscillator: the lock point N·f_ref lies well inside, and the bandwidth is f_ref/10.
+    expect(referenceHz * 10).toBeGreaterThan(5e3);
+    expect(referenceHz * 10).toBeLessThan(27e3);
+    await expect(page.inputValue(byId('loop-bandwidth'))).resolves.toBe(String(referenceHz / 10));
+    await textMatches(page, 'loop-lock-v', /V/);
+    await shot('loop-00-first-design-fits');
     // A loop of our own for this oscillator (about 2–29 kHz): 20 kHz from a 5 kHz reference, 200 Hz wide.
     await page.fill(byId('loop-reference'), '5k');
     await page.fill(byId('loop-divider'), '4');

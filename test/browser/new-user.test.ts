@@ -263,14 +263,19 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     if (!box) throw new Error('no plot area');
     await page.mouse.move(box.x + box.width * 0.6, box.y + box.height / 2);
     const values = await page.locator(`${byId('sweep-plot')} .u-legend .u-series .u-value`).allTextContents();
-    expect(values[1]).toMatch(/Hz/); // Rising
-    expect(values[2]).toMatch(/Hz/); // Falling
+    // Rising and falling, each to the counter's 10 Hz (0.1 s gate): "12.80 kHz", never "12.8000 kHz".
+    expect(values[1]).toMatch(/^\d{1,2}\.\d\d kHz$/);
+    expect(values[2]).toMatch(/^\d{1,2}\.\d\d kHz$/);
+    // The control voltage to the supply's 1 mV setting step.
+    expect(values[0]).toMatch(/^(\d\.\d{3} V|\d{3} mV)$/);
     // Two cursors by clicking two readings: ΔV, Δf and the slope between them.
     await page.mouse.click(box.x + box.width * 0.5, box.y + box.height / 2);
     await page.mouse.click(box.x + box.width * 0.8, box.y + box.height / 2);
     const deltas = await textMatches(page, 'sweep-plot-deltas', /^ΔV .*V · Δf .*Hz · slope .*Hz\/V$/);
     // Rising with the voltage on this oscillator: B lies right of A, so the slope is positive.
     expect(deltas).not.toMatch(/slope −/);
+    // ΔV to 1 mV, Δf to 10 Hz, the slope with the ± the two readings' quantisation leaves.
+    expect(deltas).toMatch(/^ΔV (\d\.\d{3} V|\d{1,3} mV) · Δf \d{1,2}\.\d\d kHz · slope [\d.]+ ± [\d.]+ kHz\/V$/);
     await shot(page, '14-sweep-up-down');
   }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 
@@ -331,10 +336,41 @@ describe.skipIf(!hasChromium)('a new user in browser mode (Chromium, simulated b
     await page.emulateMedia({ colorScheme: 'dark' });
   }, 180_000);
 
-  it('shows the loop-filter screen, and no script errors happened on the way', async () => {
+  it('shows the loop-filter screen with a design for the chosen sweep, and no script errors happened on the way', async () => {
     await page.click(byId('nav-loop'));
-    await page.waitForTimeout(500);
+    // The form's first lock point is the run's own: a design, no error next to the reference field.
+    await page.waitForSelector(byId('loop-magnitude-plot'), { timeout: 30_000 });
+    await expect(page.locator(byId('loop-reference-error')).count()).resolves.toBe(0);
     await shot(page, '08-loop-filter');
     expect(consoleErrors).toEqual([]);
   });
+
+  it('aborts a sweep: Abort asks first and says what the safe state does, then "safe state reached"', async () => {
+    await page.click(byId('nav-sweep'));
+    await page.selectOption(byId('plan-direction'), 'up');
+    // Fine steps and more readings: a sweep long enough to still run while the question is answered.
+    await page.fill(byId('plan-step'), '0.01');
+    await page.fill(byId('plan-readings'), '5');
+    const before = new Set((await app.service.listRuns()).map((run) => run.id));
+    await page.click(byId('start-sweep'));
+    const made = async () => (await app.service.listRuns()).find((run) => !before.has(run.id));
+    await expect.poll(async () => (await made())?.status, { timeout: 30_000, interval: 100 }).toBe('running');
+    await page.click(byId('stop-run'));
+    const question = await textMatches(page, 'stop-run-confirm', /output turns off/);
+    expect(question).toMatch(/control voltage goes to 0 V/);
+    await shot(page, '16-sweep-abort-asks-first');
+    await page.click(byId('stop-run-yes'));
+    await page.waitForSelector(`${byId('progress')}[data-status="aborted"]`, { timeout: 30_000 });
+    await textMatches(page, 'strip-safe', /^Safe state reached \d\d:\d\d:\d\d · output off$/);
+    await page.waitForSelector(`${byId('strip-output')}[data-output="off"]`);
+    // What the screen says is what the run recorded: aborted, every safe-state step read back.
+    const id = (await made())?.id ?? '';
+    await expect.poll(async () => (await app.service.openRun(id)).meta.status, { timeout: 30_000 }).toBe('aborted');
+    const status = await app.service.getBenchStatus();
+    expect(status.safeState?.runId).toBe(id);
+    expect(status.safeState?.reached).toBe(true);
+    expect(status.safeState?.failures).toEqual([]);
+    await shot(page, '17-sweep-aborted-safe-state');
+    expect(consoleErrors).toEqual([]);
+  }, 120_000); // a busy shared machine can make Chromium and the simulated bench slow
 });

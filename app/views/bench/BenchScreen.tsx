@@ -7,7 +7,7 @@ import { SafetyNotes } from '../controls/SafetyNotes.tsx';
 import { ConfirmAction } from '../controls/ConfirmAction.tsx';
 import { safeStateWords } from '../status-text.ts';
 import { planHints } from '../../analysis/datasheet-run.ts';
-import { celsius, hzAtResolution, volts } from '../units.ts';
+import { celsius, hzAtResolution, supplyVolts } from '../units.ts';
 import { ManualControl } from './ManualControl.tsx';
 import { RoleCard } from './RoleCard.tsx';
 import { BrowserSerialButton } from './BrowserSerialButton.tsx';
@@ -32,8 +32,8 @@ function LiveReadouts() {
             : 'No bench connected.'}
       </p>
       <dl className="figures figures-wide" aria-live="polite">
-        <Figure label="Control, set" value={volts(status?.controlSetV)} testId="readout-control-set" />
-        <Figure label="Control, measured" value={volts(status?.controlMeasV)} testId="readout-control-meas" />
+        <Figure label="Control, set" value={supplyVolts(status?.controlSetV)} testId="readout-control-set" />
+        <Figure label="Control, measured" value={supplyVolts(status?.controlMeasV)} testId="readout-control-meas" />
         <Figure label="Supply output" value={output === null ? '—' : output ? 'on' : 'off'} testId="readout-output" />
         <Figure
           label="Frequency"

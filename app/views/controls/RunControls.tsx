@@ -5,7 +5,7 @@ import { errorText } from '../../bridge/bench-call-error.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
 import { clockTime, safeStateWords } from '../status-text.ts';
-import { duration, volts } from '../units.ts';
+import { duration, supplyVolts } from '../units.ts';
 import { ConfirmAction } from './ConfirmAction.tsx';
 import { shownEta as nextShownEta, type ShownEta } from './eta.ts';
 
@@ -173,7 +173,7 @@ function ProgressLine({ kind }: { kind: RunKind }) {
       />
       <span>
         {paused && (status === 'running' || status === null)
-          ? `Paused${pausedAt ? ` since ${clockTime(pausedAt.since)}, control held at ${volts(pausedAt.controlV)}` : ''} · ${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · output stays as it is; the run stops safely if the pause outlasts its limit`
+          ? `Paused${pausedAt ? ` since ${clockTime(pausedAt.since)}, control held at ${supplyVolts(pausedAt.controlV)}` : ''} · ${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · output stays as it is; the run stops safely if the pause outlasts its limit`
           : status === 'running' || status === null
             ? `${done} of ${total} ${kind === 'drift' ? 'readings' : 'points'} · ${phase ? PHASE_TEXT[phase] : ''} · about ${duration(eta)} left`
             : `${status === 'complete' ? 'Finished' : status === 'aborted' ? 'Aborted' : 'Interrupted'} after ${done} ${kind === 'drift' ? 'readings' : 'points'}${status === 'complete' ? '' : ` of ${total} (${Math.round(fraction * 100)} %)`}`}
