@@ -127,7 +127,12 @@ export function PlotPanel(props: PlotPanelProps) {
         setScale: [
           ...(base.hooks?.setScale ?? []),
           (u, key) => {
-            if (!markZoomed || key !== 'x') return;
+            if (!markZoomed) return;
+            // A zoom along y alone sets no x view, but the reset must show all the same.
+            if (key !== 'x') {
+              setZoomed(true);
+              return;
+            }
             const min = u.scales.x?.min;
             const max = u.scales.x?.max;
             if (min === undefined || max === undefined || min === null || max === null) return;
