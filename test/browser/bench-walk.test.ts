@@ -114,6 +114,10 @@ describe.skipIf(!hasChromium)('a bench user walks the status, marks, zoom, locks
       await page.mouse.move(box.x + box.width * 0.6, box.y + box.height * 0.7, { steps: 8 });
       await page.mouse.up();
       await page.waitForSelector(byId('sweep-plot-reset'), { timeout: 10_000 });
+      // "Whole range" on one line at 1280 px, as tall as its neighbours (item 11: no control's words wrap).
+      const reset = await page.locator(byId('sweep-plot-reset')).boundingBox();
+      const png = await page.locator(byId('sweep-plot-png')).boundingBox();
+      expect(Math.abs((reset?.height ?? 0) - (png?.height ?? 0))).toBeLessThan(2);
       if (mode === 'box') await shot(page, 'walk-02-sweep-marks-box-zoom');
       await page.click(byId('sweep-plot-reset'));
       await page.waitForSelector(byId('sweep-plot-reset'), { state: 'detached', timeout: 10_000 });
