@@ -23,6 +23,17 @@ describe('formatFigure: only the digits a figure supports', () => {
     expect(formatFigure(2.25e-4, '')).toBe('2.250e-4');
     expect(formatFigure(null, 'Hz')).toBe('—');
   });
+  it("at a resolution the prefix follows the rounded value; a reading that rounds to 0 keeps the resolution's decimals", () => {
+    // 0.1 mV read back at a supply's 1 mV: "0.000 V", never "0 µV" (a prefix the reading does not resolve).
+    expect(formatFigure(1e-4, 'V', { resolution: 1e-3 })).toBe('0.000 V');
+    expect(formatFigure(0.04, '°C', { resolution: 0.1 })).toBe('0.0 °C');
+    // 999.996 Hz at 0.01 Hz rounds to 1000.00 Hz: written in kHz to the same 0.01 Hz.
+    expect(formatFigure(999.996, 'Hz', { resolution: 0.01 })).toBe('1.00000 kHz');
+  });
+  it('with `exponent`, a tiny dimensionless figure and its u read as (m ± u)e-N (an Allan point and its confidence)', () => {
+    expect(formatFigure(5.4e-4, '', { uncertainty: 3e-5, exponent: true })).toBe('(5.40 ± 0.30)e-4');
+    expect(formatFigure(0.05, '', { uncertainty: 0.003, exponent: true })).toBe('0.0500 ± 0.0030');
+  });
 });
 
 describe('significance (|value| ≥ 2σ)', () => {

@@ -87,10 +87,9 @@ export function formatFigure(value: number | null | undefined, unit: string, opt
   }
   const r = options.resolution;
   if (r !== null && r !== undefined && Number.isFinite(r) && r > 0) {
-    // The prefix follows the rounded value: 0.1 mV at 1 mV resolution is "0 V", not "0 µV".
+    // The prefix follows the rounded value: 0.1 mV at 1 mV resolution is "0.000 V", not "0 µV".
     const rounded = Math.round(value / r) * r;
-    if (rounded === 0) return withUnit('0', '', unit);
-    const { scale, symbol } = plain ? { scale: 1, symbol: '' } : siPrefixFor(rounded);
+    const { scale, symbol } = plain || rounded === 0 ? { scale: 1, symbol: '' } : siPrefixFor(rounded);
     const decimals = Math.max(0, -Math.floor(Math.log10(r / scale) + 1e-12));
     return withUnit(minus((rounded / scale).toFixed(Math.min(decimals, 15))), symbol, unit);
   }
