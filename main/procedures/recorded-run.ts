@@ -13,7 +13,8 @@ import {
   type PushingPlan,
   type SweepPlan,
 } from '../../app/contract/plans.ts';
-import { createRun, isRunFileFault, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
+import { createRun, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
+import { isRunFileFault } from '../store/store-error.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
 import { checkControlV, checkLimits, LimitsError } from './limits.ts';

@@ -8,7 +8,8 @@ import type { BenchEvent, RunKind, RunMeta } from '../../app/contract/bench-api.
 import { RunControl } from '../procedures/run-control.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
 import type { EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
-import { createRun, isRunFileFault, type RunWriter } from '../store/index.ts';
+import { createRun, type RunWriter } from '../store/index.ts';
+import { isRunFileFault } from '../store/store-error.ts';
 import type { BenchStatusTracker } from './bench-status.ts';
 import type { OpenedBench, ProcedurePort } from './ports.ts';
 import { SampleBatcher } from './sample-batcher.ts';

@@ -32,4 +32,4 @@ export {
 export { reopenRun, type ReopenRunOptions } from './reopen-run.ts';
 export { importCsvRun, type ImportCsvOptions } from './csv-import.ts';
 export { CsvImportError, readPlainCsv, type CsvProblem, type PlainCsvTable } from './plain-csv.ts';
-export { StoreError, type StoreErrorReason, isRunFileFault } from './store-error.ts';
+export { StoreError, type StoreErrorReason } from './store-error.ts';
