@@ -3,7 +3,7 @@
  */
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
-import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
+import { analyzeTableColumns, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
 import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
 import { CsvError, numericColumn } from '../../app/analysis/csv-columns.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
@@ -125,7 +125,8 @@ export const analyzeCommand: CliCommand = {
         : source.window
           ? { ...source.window, source: 'plan' }
           : undefined;
-      result = analyzeTable(source.kind, source.table, {
+      // Columns: a sweep of a million points is written from them, never made into objects.
+      result = analyzeTableColumns(source.kind, source.table, {
         gateS: source.gateS,
         events: source.events ?? undefined,
         sweep: {
