@@ -196,13 +196,15 @@ function pointColumns(
   zoneI1: number,
 ): SweepPointColumns {
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
-  const out = new SweepPointColumns(points.count);
-  out.v.set(points.v);
-  out.meanHz.set(points.meanHz);
-  out.sdHz.set(points.sdHz);
-  out.noOscillation.set(points.nNoOsc);
-  out.unstable.set(edges.unstable.subarray(0, points.count));
-  out.unsettled.set(points.unsettled);
+  // The point set's own columns, shared: nothing changes them after this.
+  const out = new SweepPointColumns(points.count, {
+    v: points.v,
+    meanHz: points.meanHz,
+    sdHz: points.sdHz,
+    noOscillation: points.nNoOsc,
+    unstable: edges.unstable.subarray(0, points.count),
+    unsettled: points.unsettled,
+  });
   for (let i = 0; i < points.count; i++) {
     const v = points.v[i] as number;
     out.readings[i] = (points.nOsc[i] as number) + (points.nNoOsc[i] as number);

@@ -66,16 +66,20 @@ export class SweepPointColumns extends RowColumns<SweepPointRow> {
   readonly fitted: Uint8Array;
   readonly count: number;
 
-  constructor(count: number) {
+  /** `count` rows; columns given in `from` are used as they are (not copied), the others start at 0. */
+  constructor(
+    count: number,
+    from: Partial<Pick<SweepPointColumns, 'v' | 'meanHz' | 'sdHz' | 'noOscillation' | 'unstable' | 'unsettled'>> = {},
+  ) {
     super();
     this.count = count;
-    this.v = new Float64Array(count);
-    this.meanHz = new Float64Array(count);
-    this.sdHz = new Float64Array(count);
+    this.v = from.v ?? new Float64Array(count);
+    this.meanHz = from.meanHz ?? new Float64Array(count);
+    this.sdHz = from.sdHz ?? new Float64Array(count);
     this.readings = new Int32Array(count);
-    this.noOscillation = new Int32Array(count);
-    this.unstable = new Uint8Array(count);
-    this.unsettled = new Uint8Array(count);
+    this.noOscillation = from.noOscillation ?? new Int32Array(count);
+    this.unstable = from.unstable ?? new Uint8Array(count);
+    this.unsettled = from.unsettled ?? new Uint8Array(count);
     this.edgeZone = new Uint8Array(count);
     this.fitHz = new Float64Array(count);
     this.fitted = new Uint8Array(count);
