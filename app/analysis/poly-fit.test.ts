@@ -98,31 +98,39 @@ describe('fitPolynomial recovers random exact polynomials (property)', () => {
   });
 });
 
+const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
+
+/**
+ * Property: the matrix-free path of `degree` gives exactly the general QR path's fit (or the same refusal), on
+ * random points with x from `xArb`, from a random start index. Equality is exact (toEqual on every number and
+ * Float64Array element), not a tolerance: the matrix-free paths claim the same floating-point operations.
+ */
+function sameAsGeneralPath(degree: number, xArb: fc.Arbitrary<number>): void {
+  fc.assert(
+    fc.property(
+      fc.array(fc.tuple(xArb, finite(-1e12, 1e12)), { minLength: degree + 1, maxLength: 60 }),
+      fc.nat(3),
+      (pairs, skip) => {
+        const xs = Float64Array.from(pairs, (p) => p[0]);
+        const ys = Float64Array.from(pairs, (p) => p[1]);
+        const i0 = Math.min(skip, pairs.length - degree - 1);
+        const run = (general: boolean): unknown => {
+          try {
+            return fitPolynomial(xs, ys, i0, pairs.length, degree, general);
+          } catch (error) {
+            return String(error);
+          }
+        };
+        expect(run(false)).toEqual(run(true));
+      },
+    ),
+    { numRuns: 400 },
+  );
+}
+
 describe('fitPolynomial: the matrix-free straight line', () => {
-  // The line path claims the same floating-point operations as design matrix + Householder QR;
-  // equality here is exact (toEqual on every number and Float64Array element), not a tolerance.
   it('is bit-for-bit the general QR path (property, incl. offsets, wide ranges and windows)', () => {
-    const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
-    fc.assert(
-      fc.property(
-        fc.array(fc.tuple(finite(-1e9, 1e9), finite(-1e12, 1e12)), { minLength: 2, maxLength: 60 }),
-        fc.nat(3),
-        (pairs, skip) => {
-          const xs = Float64Array.from(pairs, (p) => p[0]);
-          const ys = Float64Array.from(pairs, (p) => p[1]);
-          const i0 = Math.min(skip, pairs.length - 2);
-          const run = (general: boolean): unknown => {
-            try {
-              return fitPolynomial(xs, ys, i0, pairs.length, 1, general);
-            } catch (error) {
-              return String(error);
-            }
-          };
-          expect(run(false)).toEqual(run(true));
-        },
-      ),
-      { numRuns: 400 },
-    );
+    sameAsGeneralPath(1, finite(-1e9, 1e9));
   });
 
   it('same on a long, drift-like record, and the same refusal when every x is equal', () => {
@@ -136,32 +144,8 @@ describe('fitPolynomial: the matrix-free straight line', () => {
 });
 
 describe('fitPolynomial: the matrix-free quadratic', () => {
-  // As the line: the same floating-point operations as design matrix + Householder QR, so exact equality.
   it('is bit-for-bit the general QR path (property, incl. offsets, wide ranges, windows and repeated x)', () => {
-    const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
-    fc.assert(
-      fc.property(
-        fc.array(fc.tuple(fc.oneof(finite(-1e9, 1e9), fc.integer({ min: -3, max: 3 })), finite(-1e12, 1e12)), {
-          minLength: 3,
-          maxLength: 60,
-        }),
-        fc.nat(3),
-        (pairs, skip) => {
-          const xs = Float64Array.from(pairs, (p) => p[0]);
-          const ys = Float64Array.from(pairs, (p) => p[1]);
-          const i0 = Math.min(skip, pairs.length - 3);
-          const run = (general: boolean): unknown => {
-            try {
-              return fitPolynomial(xs, ys, i0, pairs.length, 2, general);
-            } catch (error) {
-              return String(error);
-            }
-          };
-          expect(run(false)).toEqual(run(true));
-        },
-      ),
-      { numRuns: 400 },
-    );
+    sameAsGeneralPath(2, fc.oneof(finite(-1e9, 1e9), fc.integer({ min: -3, max: 3 })));
   });
 
   it('same on a long tuning-curve-like record, and the same refusal with two distinct x', () => {
