@@ -29,6 +29,8 @@ import { FigureList } from '../FigureList.tsx';
 import { adevColumns, driftKeyFigures } from './drift-key-figures.ts';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
+import type { PixelPreview } from '../../contract/run-preview.ts';
+import { previewPlotData } from './preview-plot.ts';
 
 export interface DriftSource {
   key: string;
@@ -43,16 +45,20 @@ export interface DriftSource {
   startMs?: number | null;
   /** Set when the screen shows a stored log (no log in this window yet): which one. */
   storedFrom?: string;
+  /** Set while only the run's pixel preview has arrived: drawn from it, nothing analysed yet. */
+  preview?: { data: PixelPreview; rowCount: number };
 }
 
 function DriftKeyFigures({
   outcome,
   running,
   holdV,
+  previewing = false,
 }: {
   outcome: DriftOutcome | null;
   running: boolean;
   holdV: number | null;
+  previewing?: boolean;
 }) {
   const a = outcome?.ok ? outcome.analysis : null;
   return (
@@ -61,7 +67,11 @@ function DriftKeyFigures({
       {outcome && !outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
       {!outcome ? (
         <p className="muted" data-testid={running ? 'analysis-running' : undefined}>
-          {running ? 'Analysing the log…' : 'Shown when the log has ended.'}
+          {running
+            ? 'Analysing the log…'
+            : previewing
+              ? 'Analysed once every reading has arrived.'
+              : 'Shown when the log has ended.'}
         </p>
       ) : null}
       <dl className="figures">
@@ -92,6 +102,10 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     return { columns, gaps: gaps.current };
   };
   const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
+    if (source.preview) {
+      dense.current = true;
+      return previewPlotData(source.preview.data, 'frequency_hz', 'temperature_c', view) as uPlot.AlignedData;
+    }
     const { columns, gaps: g } = gapColumns();
     const n = source.rows();
     const x = columns.time_s.view().subarray(0, n);
@@ -134,7 +148,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           buildKey={buildKey}
           height={320}
           data={timeData}
-          csv={timeCsv}
+          {...(source.preview ? {} : { csv: timeCsv })}
           cursorUnits={{ x: 's', y: 'Hz' }}
           exportName={`drift-${source.key}`}
           watch={source.watch}
@@ -171,10 +185,17 @@ export function DriftFigures({ source }: { source: DriftSource }) {
             )
           }
           footer={
-            <span data-testid="drift-plot-key">
-              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each
-              slice of time and the line is their mean; zoom in to see each reading.
-            </span>
+            source.preview ? (
+              <span className="muted" data-testid="drift-preview-note">
+                Preview: {source.preview.rowCount.toLocaleString('en')} readings drawn at screen resolution (lowest to
+                highest and mean per pixel column). Loading every reading for zoom and analysis…
+              </span>
+            ) : (
+              <span data-testid="drift-plot-key">
+                Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each
+                slice of time and the line is their mean; zoom in to see each reading.
+              </span>
+            )
           }
         />
         {tempco ? (
@@ -255,6 +276,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
         outcome={outcome}
         running={running}
         holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null}
+        previewing={source.preview !== undefined}
       />
     </div>
   );

@@ -1,0 +1,156 @@
+/**
+ * A run reduced to one column per screen pixel, so a plot can be drawn at
+ * once from a few thousand numbers instead of millions of readings: the x
+ * range [first x, last x] is cut into `columns` equal slices and each slice
+ * keeps, per series, its first, lowest, highest and last valid value, their
+ * mean and how many there were. Rows whose value is not finite or that the
+ * caller marks invalid (a reading without signal) count as no value: a
+ * slice without one holds null, so a line drawn from it breaks there.
+ * Pure: main computes it from the column cache (main/store/run-preview.ts),
+ * the page draws it (app/views/drift) until the full columns arrive.
+ */
+
+import type { RunDetail } from '../contract/bench-api.ts';
+import {
+  MAX_PREVIEW_COLUMNS,
+  type PixelPreview,
+  type PreviewSeries,
+  type RunPreview,
+} from '../contract/run-preview.ts';
+
+export type { PixelPreview, PreviewSeries };
+
+export interface PreviewInput {
+  x: { name: string; values: ArrayLike<number> };
+  series: { name: string; values: ArrayLike<number> }[];
+  /** Rows [0, n) are reduced. */
+  n: number;
+  /** How many slices (pixels) at most. */
+  columns: number;
+  /** Whether row i is a reading with a value (e.g. status ok); every row when absent. */
+  rowOk?: (row: number) => boolean;
+}
+
+function emptySeries(columns: number): PreviewSeries {
+  return {
+    first: new Array<number | null>(columns).fill(null),
+    min: new Array<number | null>(columns).fill(null),
+    max: new Array<number | null>(columns).fill(null),
+    last: new Array<number | null>(columns).fill(null),
+    mean: new Array<number | null>(columns).fill(null),
+    count: new Array<number>(columns).fill(0),
+  };
+}
+
+/**
+ * Reduces rows [0, n) to at most `columns` slices of equal x width. x must
+ * be ascending (a run's time column); rows with a non-finite x are skipped.
+ * With fewer rows than columns, or a single x value, there are fewer slices
+ * (one row each at most, or just one), never empty padding.
+ */
+export function pixelPreview(input: PreviewInput): PixelPreview {
+  const { x, series, rowOk } = input;
+  const xs = x.values;
+  const n = Math.max(0, Math.min(input.n, xs.length));
+  let i0 = 0;
+  while (i0 < n && !Number.isFinite(xs[i0] as number)) i0 += 1;
+  let i1 = n - 1;
+  while (i1 >= i0 && !Number.isFinite(xs[i1] as number)) i1 -= 1;
+  const xFrom = i1 >= i0 ? (xs[i0] as number) : null;
+  const xTo = i1 >= i0 ? (xs[i1] as number) : null;
+  const span = xFrom === null || xTo === null ? 0 : xTo - xFrom;
+  const wanted = Math.max(1, Math.min(MAX_PREVIEW_COLUMNS, Math.floor(input.columns)));
+  const columns = i1 < i0 ? 0 : span > 0 ? Math.min(wanted, i1 - i0 + 1) : 1;
+  const out: PixelPreview = {
+    x: x.name,
+    columns,
+    xFrom,
+    xTo,
+    rows: new Array<number>(columns).fill(0),
+    xFirst: new Array<number | null>(columns).fill(null),
+    xLast: new Array<number | null>(columns).fill(null),
+    series: {},
+  };
+  const acc = series.map((s) => {
+    const reduced = emptySeries(columns);
+    out.series[s.name] = reduced;
+    return { values: s.values, out: reduced, sum: new Float64Array(columns) };
+  });
+  if (columns === 0) return out;
+  const scale = span > 0 ? columns / span : 0;
+  const origin = xFrom ?? 0;
+  for (let i = i0; i <= i1; i += 1) {
+    const xi = xs[i] as number;
+    if (!Number.isFinite(xi)) continue;
+    // The last x falls on the range's end: it belongs to the last slice.
+    const c = Math.min(columns - 1, Math.max(0, Math.floor((xi - origin) * scale)));
+    if (out.rows[c] === 0) out.xFirst[c] = xi;
+    out.xLast[c] = xi;
+    out.rows[c] = (out.rows[c] as number) + 1;
+    if (rowOk && !rowOk(i)) continue;
+    for (const a of acc) {
+      const v = a.values[i] as number;
+      if (!Number.isFinite(v)) continue;
+      const s = a.out;
+      const seen = s.count[c] as number;
+      if (seen === 0) {
+        s.first[c] = v;
+        s.min[c] = v;
+        s.max[c] = v;
+      } else {
+        if (v < (s.min[c] as number)) s.min[c] = v;
+        if (v > (s.max[c] as number)) s.max[c] = v;
+      }
+      s.last[c] = v;
+      s.count[c] = seen + 1;
+      a.sum[c] = (a.sum[c] as number) + v;
+    }
+  }
+  for (const a of acc) {
+    for (let c = 0; c < columns; c += 1) {
+      const count = a.out.count[c] as number;
+      if (count > 0) a.out.mean[c] = (a.sum[c] as number) / count;
+    }
+  }
+  return out;
+}
+
+/** The series each kind of run plots against time, in preview order (drift: frequency and temperature). */
+const PLOTTED: Readonly<Record<string, readonly string[]>> = {
+  drift: ['frequency_hz', 'temperature_c'],
+};
+
+/**
+ * Below this many readings a run's full columns arrive about as fast as a
+ * preview would (a few hundred kilobytes): no preview is made.
+ */
+export const PREVIEW_MIN_ROWS = 20_000;
+
+/**
+ * The preview of an opened run: its plotted series against time_s, rows
+ * whose status is not `ok` counted as no value (the plots break there too).
+ * Null for a run of another kind, a small run, or one without time_s.
+ */
+export function runPreviewOf(detail: RunDetail, columns: number): RunPreview {
+  const { meta, samples, events } = detail;
+  const time = samples.numeric.time_s;
+  const rowCount = samples.rowCount ?? time?.length ?? 0;
+  const names = (PLOTTED[meta.kind] ?? []).filter((name) => samples.numeric[name] !== undefined);
+  const base = { meta, events, rowCount };
+  if (time === undefined || names.length === 0 || rowCount < PREVIEW_MIN_ROWS) return { ...base, preview: null };
+  const status = samples.text.status;
+  let rowOk: ((row: number) => boolean) | undefined;
+  if (status !== undefined && !Array.isArray(status)) {
+    const okCode = status.levels.indexOf('ok');
+    const codes = status.codes;
+    rowOk = (row) => codes[row] === okCode;
+  } else if (status !== undefined) rowOk = (row) => status[row] === 'ok';
+  const preview = pixelPreview({
+    x: { name: 'time_s', values: time },
+    series: names.map((name) => ({ name, values: samples.numeric[name] as ArrayLike<number> })),
+    n: rowCount,
+    columns,
+    ...(rowOk ? { rowOk } : {}),
+  });
+  return { ...base, preview };
+}
