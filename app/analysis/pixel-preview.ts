@@ -45,8 +45,8 @@ function emptySeries(columns: number): PreviewSeries {
 /**
  * Reduces rows [0, n) to at most `columns` slices of equal x width. x must
  * be ascending (a run's time column); rows with a non-finite x are skipped.
- * With fewer rows than columns, or a single x value, there are fewer slices
- * (one row each at most, or just one), never empty padding.
+ * There are never more slices than readings (a single x value: one slice),
+ * so a short run is not padded with thousands of empty ones.
  */
 export function pixelPreview(input: PreviewInput): PixelPreview {
   const { x, series, rowOk } = input;
