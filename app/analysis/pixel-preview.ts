@@ -31,17 +31,6 @@ export interface PreviewInput {
   rowOk?: (row: number) => boolean;
 }
 
-function emptySeries(columns: number): PreviewSeries {
-  return {
-    first: new Array<number | null>(columns).fill(null),
-    min: new Array<number | null>(columns).fill(null),
-    max: new Array<number | null>(columns).fill(null),
-    last: new Array<number | null>(columns).fill(null),
-    mean: new Array<number | null>(columns).fill(null),
-    count: new Array<number>(columns).fill(0),
-  };
-}
-
 /**
  * Reduces rows [0, n) to at most `columns` slices of equal x width. x must
  * be ascending (a run's time column); rows with a non-finite x are skipped.
@@ -66,52 +55,72 @@ export function pixelPreview(input: PreviewInput): PixelPreview {
     columns,
     xFrom,
     xTo,
-    rows: new Array<number>(columns).fill(0),
-    xFirst: new Array<number | null>(columns).fill(null),
-    xLast: new Array<number | null>(columns).fill(null),
+    rows: [],
+    xFirst: [],
+    xLast: [],
     series: {},
   };
-  const acc = series.map((s) => {
-    const reduced = emptySeries(columns);
-    out.series[s.name] = reduced;
-    return { values: s.values, out: reduced, sum: new Float64Array(columns) };
-  });
-  if (columns === 0) return out;
+  // Typed accumulators: a plain array of number | null would box every value it is given (seconds for 10M rows).
   const scale = span > 0 ? columns / span : 0;
   const origin = xFrom ?? 0;
+  // The last x falls on the range's end: it belongs to the last slice.
+  const sliceOf = (xi: number): number => Math.min(columns - 1, Math.max(0, Math.floor((xi - origin) * scale)));
+  const rows = new Float64Array(columns);
+  const xFirst = new Float64Array(columns);
+  const xLast = new Float64Array(columns);
   for (let i = i0; i <= i1; i += 1) {
     const xi = xs[i] as number;
     if (!Number.isFinite(xi)) continue;
-    // The last x falls on the range's end: it belongs to the last slice.
-    const c = Math.min(columns - 1, Math.max(0, Math.floor((xi - origin) * scale)));
-    if (out.rows[c] === 0) out.xFirst[c] = xi;
-    out.xLast[c] = xi;
-    out.rows[c] = (out.rows[c] as number) + 1;
-    if (rowOk && !rowOk(i)) continue;
-    for (const a of acc) {
-      const v = a.values[i] as number;
-      if (!Number.isFinite(v)) continue;
-      const s = a.out;
-      const seen = s.count[c] as number;
-      if (seen === 0) {
-        s.first[c] = v;
-        s.min[c] = v;
-        s.max[c] = v;
+    const c = sliceOf(xi);
+    if (rows[c] === 0) xFirst[c] = xi;
+    xLast[c] = xi;
+    rows[c] = (rows[c] as number) + 1;
+  }
+  out.rows = Array.from(rows);
+  out.xFirst = cellsOf(xFirst, rows);
+  out.xLast = cellsOf(xLast, rows);
+  for (const { name, values } of series) {
+    const first = new Float64Array(columns);
+    const min = new Float64Array(columns);
+    const max = new Float64Array(columns);
+    const last = new Float64Array(columns);
+    const sum = new Float64Array(columns);
+    const count = new Float64Array(columns);
+    for (let i = i0; i <= i1; i += 1) {
+      const xi = xs[i] as number;
+      const v = values[i] as number;
+      if (!Number.isFinite(xi) || !Number.isFinite(v) || (rowOk !== undefined && !rowOk(i))) continue;
+      const c = sliceOf(xi);
+      if (count[c] === 0) {
+        first[c] = v;
+        min[c] = v;
+        max[c] = v;
       } else {
-        if (v < (s.min[c] as number)) s.min[c] = v;
-        if (v > (s.max[c] as number)) s.max[c] = v;
+        if (v < (min[c] as number)) min[c] = v;
+        if (v > (max[c] as number)) max[c] = v;
       }
-      s.last[c] = v;
-      s.count[c] = seen + 1;
-      a.sum[c] = (a.sum[c] as number) + v;
+      last[c] = v;
+      count[c] = (count[c] as number) + 1;
+      sum[c] = (sum[c] as number) + v;
     }
+    for (let c = 0; c < columns; c += 1)
+      if ((count[c] as number) > 0) sum[c] = (sum[c] as number) / (count[c] as number);
+    out.series[name] = {
+      first: cellsOf(first, count),
+      min: cellsOf(min, count),
+      max: cellsOf(max, count),
+      last: cellsOf(last, count),
+      mean: cellsOf(sum, count),
+      count: Array.from(count),
+    };
   }
-  for (const a of acc) {
-    for (let c = 0; c < columns; c += 1) {
-      const count = a.out.count[c] as number;
-      if (count > 0) a.out.mean[c] = (a.sum[c] as number) / count;
-    }
-  }
+  return out;
+}
+
+/** Each slice's value, null where the slice holds none. */
+function cellsOf(values: Float64Array, counts: Float64Array): (number | null)[] {
+  const out = new Array<number | null>(values.length);
+  for (let c = 0; c < values.length; c += 1) out[c] = (counts[c] as number) > 0 ? (values[c] as number) : null;
   return out;
 }
 

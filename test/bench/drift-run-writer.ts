@@ -51,6 +51,8 @@ export async function writeSyntheticDriftRun(options: SyntheticDriftOptions): Pr
     columns: DRIFT_COLUMNS,
     clock,
   });
+  // The writer's heartbeat timers fire as the virtual clock moves to the end of the log.
+  await clock.advance(samples * intervalS);
   await writer.finish('complete');
   const out = createWriteStream(join(options.runsDir, writer.id, 'samples.csv'));
   out.write(`${DRIFT_COLUMNS.join(',')}\n`);

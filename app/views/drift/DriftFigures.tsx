@@ -31,6 +31,7 @@ import { formatFigure } from '../../analysis/format-figure.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
 import type { PixelPreview } from '../../contract/run-preview.ts';
 import { previewPlotData } from './preview-plot.ts';
+import { maskedColumn } from './masked-column.ts';
 
 export interface DriftSource {
   key: string;
@@ -83,6 +84,7 @@ function DriftKeyFigures({
 
 export function DriftFigures({ source }: { source: DriftSource }) {
   const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
+  const masked = useRef<{ key: string; rows: number; ys: [Float64Array, Float64Array] } | null>(null);
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
   const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () =>
     driftJob(source.columns(), source.rows(), source.gateS),
@@ -101,6 +103,21 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     }
     return { columns, gaps: gaps.current };
   };
+  // A finished run's columns no longer grow: its gaps are masked once, in one typed pass.
+  const storedYs = (columns: ColumnSet, n: number): [Float64Array, Float64Array] => {
+    if (!masked.current || masked.current.key !== source.key || masked.current.rows !== n) {
+      const status = columns.status.view();
+      masked.current = {
+        key: source.key,
+        rows: n,
+        ys: [
+          maskedColumn(columns.frequency_hz.view(), status, n),
+          maskedColumn(columns.temperature_c.view(), status, n),
+        ],
+      };
+    }
+    return masked.current.ys;
+  };
   const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
     if (source.preview) {
       dense.current = true;
@@ -113,7 +130,8 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     const to = view ? view.xMax : (x[n - 1] ?? 0);
     const px = Math.max(100, view?.widthPx ?? widthPx);
     // Slices at least 4 px and 4 readings wide: a reading flipping between two counts becomes a band, and drift still shows.
-    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
+    const ys = source.done ? storedYs(columns, n) : [g.freq.data(n), g.temp.data(n)];
+    const env = envelope(x, ys, n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
     dense.current = env.dense;
     const [freq, temp] = env.series as [EnvelopeSeries, EnvelopeSeries];
     return [env.x, freq.mid, freq.lo, freq.hi, temp.mid] as uPlot.AlignedData;
