@@ -24,6 +24,9 @@ import { writeSyntheticDriftRun } from './drift-run-writer.ts';
 import { timeRunOpen, type OpenTiming } from './open-timing.ts';
 
 interface OpenFigures extends OpenTiming {
+  /** CPU seconds (user + system) from the click until the preview was on screen: free of the machine's load. */
+  serveCpuToPreviewS: number;
+  rendererCpuToPreviewS: number;
   serveHwmMiB: number;
   rendererHwmMiB: number;
   pageHeapMiB: number;
@@ -37,6 +40,14 @@ async function peakRssMiB(pid: number): Promise<number> {
   return kib === undefined ? Number.NaN : Number(kib) / 1024;
 }
 
+/** CPU seconds (user + system) a process has used so far; NaN when it cannot be read. */
+async function cpuSeconds(pid: number): Promise<number> {
+  const stat = await readFile(`/proc/${pid}/stat`, 'utf8').catch(() => '');
+  // Fields after the command name (which may hold spaces): utime and stime are the 12th and 13th, in clock ticks.
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return (Number(fields[11]) + Number(fields[12])) / 100;
+}
+
 async function openOnce(runsDir: string, rendererDir: string, id: string): Promise<OpenFigures> {
   const serve = await startServe({ runsDir, rendererDir });
   const browser = await launchChromium();
@@ -46,10 +57,18 @@ async function openOnce(runsDir: string, rendererDir: string, id: string): Promi
     await page.click('[data-testid="nav-runs"]');
     await page.waitForSelector(`[data-testid="run-open-${id}"]`, { timeout: 60_000 });
     const load = loadavg()[0] ?? Number.NaN;
-    const timing = await timeRunOpen(page, id, 600_000);
     const cdp = await browser.newBrowserCDPSession();
     const info = (await cdp.send('SystemInfo.getProcessInfo')) as { processInfo: { type: string; id: number }[] };
     const renderers = info.processInfo.filter((p) => p.type === 'renderer');
+    const servePid = serve.process.pid as number;
+    const rendererCpu = async (): Promise<number> =>
+      (await Promise.all(renderers.map((p) => cpuSeconds(p.id)))).reduce((a, b) => a + b, 0);
+    const cpu0 = { serve: await cpuSeconds(servePid), renderer: await rendererCpu() };
+    const opening = timeRunOpen(page, id, 600_000);
+    await page.waitForSelector('[data-testid="drift-preview-note"]', { timeout: 600_000 });
+    const serveCpuToPreviewS = (await cpuSeconds(servePid)) - cpu0.serve;
+    const rendererCpuToPreviewS = (await rendererCpu()) - cpu0.renderer;
+    const timing = await opening;
     const rendererHwmMiB = Math.max(...(await Promise.all(renderers.map((p) => peakRssMiB(p.id)))));
     const pageCdp = await page.context().newCDPSession(page);
     await pageCdp.send('Performance.enable');
@@ -57,6 +76,8 @@ async function openOnce(runsDir: string, rendererDir: string, id: string): Promi
     const heap = metrics.metrics.find((m) => m.name === 'JSHeapUsedSize')?.value ?? Number.NaN;
     return {
       ...timing,
+      serveCpuToPreviewS,
+      rendererCpuToPreviewS,
       serveHwmMiB: await peakRssMiB(serve.process.pid as number),
       rendererHwmMiB,
       pageHeapMiB: heap / 2 ** 20,
@@ -77,6 +98,9 @@ function report(label: string, f: OpenFigures, targetMs: number | null): void {
   console.log(
     `  ${label}: first draw ${ms(f.firstDrawMs)}${f.previewFirst ? ' (pixel preview)' : ''}${verdict} [load ${f.load.toFixed(2)}]; ` +
       `every reading drawn ${ms(f.fullDrawMs)}, analysis shown ${ms(f.analysedMs)}`,
+  );
+  console.log(
+    `    CPU from the click to the preview on screen (free of load): serve ${f.serveCpuToPreviewS.toFixed(2)} s, page renderer ${f.rendererCpuToPreviewS.toFixed(2)} s`,
   );
   console.log(
     `    peak RSS: serve ${f.serveHwmMiB.toFixed(0)} MiB, page renderer ${f.rendererHwmMiB.toFixed(0)} MiB; page JS heap after ${f.pageHeapMiB.toFixed(0)} MiB; ` +
