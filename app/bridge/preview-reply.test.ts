@@ -1,23 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { checkResult } from './ws-inbound.ts';
+import { driftRunMeta } from '../contract/testing/run-meta-fixture.ts';
 
 describe('a previewRun reply over the WebSocket', () => {
   it('is refused when malformed, naming the field under result', () => {
     const checked = checkResult('previewRun', {
       ok: true,
       result: {
-        meta: {
-          schema: 'tunebench.run/1',
-          id: 'r1',
-          kind: 'drift',
-          status: 'complete',
-          startedAt: '2026-11-20T18:00:00.000Z',
-          endedAt: null,
-          dut: { id: 'd', notes: '' },
-          instruments: [],
-          plan: {},
-          software: { version: '0' },
-        },
+        meta: driftRunMeta(),
         events: [],
         rowCount: 2,
         preview: { x: 'time_s', columns: 2, xFrom: 0, xTo: 1, rows: [1], xFirst: [0, 1], xLast: [0, 1], series: {} },

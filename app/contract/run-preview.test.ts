@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseCallParams } from './bench-api-schemas.ts';
 import { MAX_PREVIEW_COLUMNS, pixelPreviewSchema, runPreviewSchema } from './run-preview.ts';
 import { firstIssue } from './wire-schemas.ts';
+import { driftRunMeta } from './testing/run-meta-fixture.ts';
 
 const series = () => ({
   first: [1, null, 3],
@@ -57,18 +58,7 @@ describe('the pixel preview schema (previewRun replies, both carriers)', () => {
   });
 
   it('takes a run without a preview (a small run) and refuses a reply without rowCount', () => {
-    const meta = {
-      schema: 'tunebench.run/1',
-      id: 'r1',
-      kind: 'drift',
-      status: 'complete',
-      startedAt: '2026-11-20T18:00:00.000Z',
-      endedAt: null,
-      dut: { id: 'd', notes: '' },
-      instruments: [],
-      plan: {},
-      software: { version: '0' },
-    };
+    const meta = driftRunMeta();
     expect(runPreviewSchema.safeParse({ meta, events: [], rowCount: 10, preview: null }).success).toBe(true);
     const missing = runPreviewSchema.safeParse({ meta, events: [], preview: preview() });
     expect(missing.success ? null : firstIssue(missing.error).field).toBe('rowCount');

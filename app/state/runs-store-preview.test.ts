@@ -2,19 +2,9 @@ import { describe, expect, it } from 'vitest';
 import type { BenchApi, RunDetail } from '../contract/bench-api.ts';
 import type { RunPreview } from '../contract/run-preview.ts';
 import { createRunsStore } from './runs-store.ts';
+import { driftRunMeta } from '../contract/testing/run-meta-fixture.ts';
 
-const meta = {
-  schema: 'tunebench.run/1',
-  id: 'big',
-  kind: 'drift',
-  status: 'complete',
-  startedAt: '2026-11-20T18:00:00.000Z',
-  endedAt: '2026-11-21T18:00:00.000Z',
-  dut: { id: 'radio-lo', notes: '' },
-  instruments: [],
-  plan: {},
-  software: { version: '0' },
-} as RunDetail['meta'];
+const meta = driftRunMeta('big');
 
 const shown: RunPreview = {
   meta,
