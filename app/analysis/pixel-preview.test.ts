@@ -98,7 +98,7 @@ describe('pixel preview reducer (first/min/max/last/mean/count per pixel column)
     expect(s.count).toEqual([1, 2, 0, 2]);
     expect([s.min[0], s.max[0], s.first[0], s.last[0]]).toEqual([1, 1, 1, 1]);
     expect([s.first[2], s.min[2], s.max[2], s.last[2], s.mean[2]]).toEqual([null, null, null, null, null]);
-    expect(Math.max(...(s.max.filter((v) => v !== null) as number[]))).toBe(6);
+    expect(Math.max(...s.max.filter((v): v is number => v !== null))).toBe(6);
     expect(pixelPreviewSchema.safeParse(p).success).toBe(true);
   });
 

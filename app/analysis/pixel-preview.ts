@@ -42,9 +42,9 @@ export function pixelPreview(input: PreviewInput): PixelPreview {
   const xs = x.values;
   const n = Math.max(0, Math.min(input.n, xs.length));
   let i0 = 0;
-  while (i0 < n && !Number.isFinite(xs[i0] as number)) i0 += 1;
+  while (i0 < n && !Number.isFinite(xs[i0])) i0 += 1;
   let i1 = n - 1;
-  while (i1 >= i0 && !Number.isFinite(xs[i1] as number)) i1 -= 1;
+  while (i1 >= i0 && !Number.isFinite(xs[i1])) i1 -= 1;
   const xFrom = i1 >= i0 ? (xs[i0] as number) : null;
   const xTo = i1 >= i0 ? (xs[i1] as number) : null;
   const span = xFrom === null || xTo === null ? 0 : xTo - xFrom;

@@ -72,7 +72,7 @@ async function openOnce(runsDir: string, rendererDir: string, id: string): Promi
     const rendererHwmMiB = Math.max(...(await Promise.all(renderers.map((p) => peakRssMiB(p.id)))));
     const pageCdp = await page.context().newCDPSession(page);
     await pageCdp.send('Performance.enable');
-    const metrics = (await pageCdp.send('Performance.getMetrics')) as { metrics: { name: string; value: number }[] };
+    const metrics = await pageCdp.send('Performance.getMetrics');
     const heap = metrics.metrics.find((m) => m.name === 'JSHeapUsedSize')?.value ?? Number.NaN;
     return {
       ...timing,

@@ -122,7 +122,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
     if (source.preview) {
       dense.current = true;
-      return previewPlotData(source.preview.data, 'frequency_hz', 'temperature_c', view) as uPlot.AlignedData;
+      return previewPlotData(source.preview.data, 'frequency_hz', 'temperature_c', view);
     }
     const { columns, gaps: g } = gapColumns();
     const n = source.rows();
