@@ -8,7 +8,6 @@
  * the reply by wire-schemas.ts' resultSchemas.
  */
 import { z } from 'zod';
-import type { RunEvent } from './bench-api.ts';
 import type { KnownShape } from './known-shape.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
 
@@ -105,7 +104,8 @@ export const runPreviewSchema = z.looseObject({
 
 export interface RunPreview {
   meta: KnownShape<z.output<typeof runMetaSchema>>;
-  events: RunEvent[];
+  /** The run's events, as in RunDetail (spelt out here: bench-api.ts imports this file). */
+  events: { time_s: number; type: string; [key: string]: unknown }[];
   rowCount: number;
   preview: PixelPreview | null;
 }
