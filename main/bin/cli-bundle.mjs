@@ -5,6 +5,7 @@ import { readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
 import { createRequire, Module } from 'node:module';
 import { dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import v8 from 'node:v8';
 import vm from 'node:vm';
 import { readSourceManifest, sourceChange } from './source-manifest.mjs';
 
@@ -14,6 +15,27 @@ export const PROJECT_ROOT = fileURLToPath(new URL('../../', import.meta.url));
 export const BUNDLE_FILE = fileURLToPath(new URL('../../out/cli/tunebench.cjs', import.meta.url));
 // The project files the bundle was built from, with their sizes and hashes.
 export const INPUTS_FILE = fileURLToPath(new URL('../../out/cli/sources.json', import.meta.url));
+
+/**
+ * V8's young generation starts at 1 MB and doubles as a start allocates, and
+ * every page it grows into is memory the process touches for the first time
+ * (a page fault each, which a virtual machine makes dear): a short command
+ * runs faster in the first pages, collected more often. So the launcher
+ * keeps it from growing until a command says it has big work to do
+ * (main/cli/young-generation.ts). V8 keys its code cache to its flags: the
+ * cache is always made and read with these set.
+ */
+export const START_FLAGS = '--semi-space-growth-factor=1';
+/** V8's own setting, which main/cli/young-generation.ts puts back. */
+export const GROWING_FLAGS = '--semi-space-growth-factor=2';
+
+export function useStartFlags() {
+  v8.setFlagsFromString(START_FLAGS);
+}
+
+export function letYoungGenerationGrow() {
+  v8.setFlagsFromString(GROWING_FLAGS);
+}
 
 /**
  * Why the bundle cannot be used, or null when it is current: missing, or
@@ -45,6 +67,7 @@ export function bundleStaleReason() {
  * just starts a little slower).
  */
 export function loadBundle() {
+  useStartFlags();
   const source = readFileSync(BUNDLE_FILE, 'utf8');
   const info = statSync(BUNDLE_FILE);
   const cacheFile = `${BUNDLE_FILE}.${info.size}-${Math.trunc(info.mtimeMs)}.v8cache`;
@@ -62,6 +85,7 @@ export function loadBundle() {
   const saveCache = () => {
     if (cachedData !== undefined && !script.cachedDataRejected) return;
     try {
+      useStartFlags(); // the command may have let the young generation grow; the cache is keyed to the start flags
       const temp = `${cacheFile}.${process.pid}.tmp`;
       writeFileSync(temp, script.createCachedData());
       renameSync(temp, cacheFile);

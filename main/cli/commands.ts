@@ -15,6 +15,12 @@ export interface CommandEntry {
   /** One line for `tunebench --help`. */
   summary: string;
   load(): Promise<CliCommand>;
+  /**
+   * Runs with the young generation the launcher starts with (see young-generation.ts): a command
+   * people wait on with small input, which lets it grow itself when the input is big. Every
+   * other command gets V8's default before it runs.
+   */
+  quickStart?: true;
 }
 
 export const commands: CommandEntry[] = [
@@ -42,6 +48,7 @@ export const commands: CommandEntry[] = [
     name: 'analyze',
     summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
     load: async () => (await import('./cmd-analyze.ts')).analyzeCommand,
+    quickStart: true,
   },
   {
     name: 'datasheet',
