@@ -5,6 +5,6 @@ export const INPUTS_FILE: string;
 export function bundleStaleReason(): string | null;
 export function loadBundle(): { exports: unknown; saveCache(): void };
 export const START_FLAGS: string;
-export const GROWING_FLAGS: string;
+export const BIG_WORK_FLAGS: string;
 export function useStartFlags(): void;
-export function letYoungGenerationGrow(): void;
+export function tuneForBigWork(): void;

@@ -16,9 +16,9 @@ export interface CommandEntry {
   summary: string;
   load(): Promise<CliCommand>;
   /**
-   * Runs with the young generation the launcher starts with (see young-generation.ts): a command
-   * people wait on with small input, which lets it grow itself when the input is big. Every
-   * other command gets V8's default before it runs.
+   * Runs with V8 set for a short command, as the launcher starts it (see v8-tuning.ts): a command
+   * people wait on with small input, which tunes V8 for big work itself when the input is big.
+   * Every other command gets V8's own settings before it runs.
    */
   quickStart?: true;
 }
