@@ -18,19 +18,19 @@ export const BUNDLE_FILE = fileURLToPath(new URL('../../out/cli/tunebench.cjs', 
 export const INPUTS_FILE = fileURLToPath(new URL('../../out/cli/sources.json', import.meta.url));
 
 /**
- * V8 settings for a short command. (1) V8's young generation starts at 1 MB
- * and doubles as a start allocates, and every page it grows into is memory
- * the process touches for the first time (a page fault each, which a virtual
- * machine makes dear): kept at its first size, a short command runs in the
- * pages it already has. (2) Optimising compilation (TurboFan) costs more than
- * it saves on a run this short; the baseline compiler (Sparkplug) stays on.
- * A command with big work to do puts V8's own settings back
- * (main/cli/v8-tuning.ts). V8 keys its code cache to its flags: the cache is
+ * V8 set for a short command: its young generation starts at 1 MB and
+ * doubles as a start allocates, and every page it grows into is memory the
+ * process touches for the first time (a page fault each, which a virtual
+ * machine makes dear); kept at its first size, a short command runs in the
+ * pages it already has. A command with big work to do puts V8's own setting
+ * back (main/cli/v8-tuning.ts). (Turning the optimising compiler off as well
+ * saved CPU time but cost the main thread more, which is what a waiting user
+ * sees on an idle machine.) V8 keys its code cache to its flags: the cache is
  * always made and read with these set.
  */
-export const START_FLAGS = '--semi-space-growth-factor=1 --max-opt=1';
-/** V8's own settings, which main/cli/v8-tuning.ts puts back the same way. */
-export const BIG_WORK_FLAGS = '--semi-space-growth-factor=2 --max-opt=999';
+export const START_FLAGS = '--semi-space-growth-factor=1';
+/** V8's own setting, which main/cli/v8-tuning.ts puts back the same way. */
+export const BIG_WORK_FLAGS = '--semi-space-growth-factor=2';
 
 export function useStartFlags() {
   v8.setFlagsFromString(START_FLAGS);

@@ -14,7 +14,7 @@ import { parseFlags, positiveFlag } from './flags.ts';
 import { writeJsonChunks } from './json-chunks.ts';
 import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
-import { BIG_INPUT_ROWS, tuneForBigWork } from './v8-tuning.ts';
+import { tuneForBigWork } from './v8-tuning.ts';
 
 const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
 
@@ -119,7 +119,6 @@ export const analyzeCommand: CliCommand = {
       return 0;
     }
     const source = await loadAnalysisSource(flags.positionals[0] as string, runsDirFrom(flags.values.get('runs'), io));
-    if (source.table.rowCount > BIG_INPUT_ROWS) tuneForBigWork();
     if (nominalV !== undefined && source.kind === 'sweep') checkNominalInside(nominalV, source.table);
     let result;
     try {
