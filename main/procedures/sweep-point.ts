@@ -116,6 +116,8 @@ export async function measurePoint(
         afterOutputOn: point.afterOutputOn,
         trace: state.trace,
         expectedStepHz: state.lastStepHz,
+        // The settling's last reading is the first of the point's readings, the rest follow at once.
+        recordedReadings: readingsRule(plan).min,
         // From switch-on until something oscillates, with τ unknown: the point's own readings decide
         // (the last of them ends by then), checked against τ once learned (sweep.ts).
         provisionalAfterS:

@@ -94,6 +94,15 @@ export interface AutoRun {
   remeasured: number;
 }
 
+/** The same run against the floor of its recorded means (each point's mean within 1 count). */
+function printFloorOfMean(run: AutoRun, floorS: number): void {
+  const meanFloorS = floorSeconds(run.points, TAU_S, GATE_S, READINGS, 'recorded-mean');
+  console.log(
+    `      against the floor of the recorded mean (mean of ${READINGS} gates within 1 count, τ·ln(F·step/resolution)): ${meanFloorS.toFixed(2)} s, ratio ${(run.wallS / meanFloorS).toFixed(3)}` +
+      ` (the floor above, first gate opening within 1 count: ${floorS.toFixed(2)} s)`,
+  );
+}
+
 /** Where the time went, beside the floor's settle waits and gates. */
 export function printParts(run: AutoRun, floorS: number): void {
   const t = totals(run.parts);
@@ -166,6 +175,7 @@ export async function runSweepFloorBench(): Promise<void> {
         `  step ${stepV * 1000} mV: ${auto.points.length} points in ${auto.wallS.toFixed(2)} s, floor ${floorS.toFixed(2)} s, ratio ${ratio.toFixed(3)} (target ≤ 1.05) ${ratio <= 1.05 ? 'meets' : 'MISSES'}` +
           ` [probe τ ${auto.probeTauS === null ? '–' : `${(auto.probeTauS * 1000).toFixed(1)} ms`}, settle timeouts ${auto.timeouts}, load ${load.toFixed(2)}]`,
       );
+      printFloorOfMean(auto, floorS);
       printParts(auto, floorS);
       const virtual = await autoSweep(null, stepV);
       const virtualFloorS = floorSeconds(virtual.points, TAU_S, GATE_S, READINGS);
@@ -173,6 +183,7 @@ export async function runSweepFloorBench(): Promise<void> {
         `    same sweep on the in-process simulated bench, virtual clock (no link, no load): ${virtual.wallS.toFixed(2)} s, floor ${virtualFloorS.toFixed(2)} s, ratio ${(virtual.wallS / virtualFloorS).toFixed(3)}` +
           ` [probe τ ${virtual.probeTauS === null ? '–' : `${(virtual.probeTauS * 1000).toFixed(1)} ms`}]`,
       );
+      printFloorOfMean(virtual, virtualFloorS);
       printParts(virtual, virtualFloorS);
       if (peerDone) continue;
       peerDone = true;
@@ -206,13 +217,14 @@ export async function runSweepFloorBench(): Promise<void> {
     // Item 3's second target, where the previous benches measured it: automatic against a fixed 0.5 s
     // settle on the in-process simulated bench (virtual clock), gate 10 ms, 3 readings, 1.6–4.2 V.
     console.log(
-      '  automatic vs fixed 0.5 s settling (same DUT, in-process simulated bench on a virtual clock, 10 ms gate, 3 readings, 1.6–4.2 V):',
+      '  automatic vs fixed 0.5 s settling (same DUT, in-process simulated bench on a virtual clock, 10 ms gate, 3 readings, 1.6–4.2 V, the plan default tolerance of 2 counts; floors at 1 count):',
     );
     for (const stepV of [0.05, 0.2]) {
       const f = await settlingFigure(stepV);
       console.log(
         `  step ${stepV * 1000} mV: auto ${f.autoS.toFixed(2)} s, fixed ${f.fixedS.toFixed(2)} s, ratio ${f.ratio.toFixed(3)} (target ≤ 0.333) ${f.ratio <= 1 / 3 ? 'meets' : 'MISSES'};` +
           ` floor of its points ${f.floorS.toFixed(2)} s = ${(f.floorS / f.fixedS).toFixed(3)} of fixed, auto/floor ${(f.autoS / f.floorS).toFixed(3)};` +
+          ` floor of their recorded means ${f.meanFloorS.toFixed(2)} s = ${(f.meanFloorS / f.fixedS).toFixed(3)} of fixed;` +
           ` largest curve difference ${f.maxDiffHz.toFixed(1)} Hz (limit ${f.allowedHz.toFixed(0)} Hz = 2 counts) ${f.maxDiffHz <= f.allowedHz ? 'meets' : 'MISSES'} over ${f.points} points`,
       );
     }
