@@ -10,6 +10,7 @@ import {
   readingErrorHz,
   STEP_MARGIN,
   TARGET_FRACTION,
+  takenMeanErrorHz,
 } from './settle-predict.ts';
 import { TimeConstantEstimate, settleAuto } from './settle.ts';
 import { runSweep } from './sweep.ts';
@@ -156,6 +157,17 @@ describe('settling by prediction, tolerance on the mean of the recorded readings
       expect(missHz).toBeCloseTo(stepHz * Math.exp(-startS / tauS) * gateAverageFactor(tauS, n * gate), 1);
       expect(gateAverageFactor(tauS, n * gate)).toBeCloseTo(factor, 3);
     }
+  });
+
+  it('judges readings already taken (a trial point’s) by the lag once τ is known', () => {
+    const f = gateAverageFactor(tauS, gateS);
+    const starts = [0.25, 0.35, 0.45];
+    const values = starts.map((s) => beforeHz + stepHz * (1 - f * Math.exp(-s / tauS)));
+    const meanLeft = starts.reduce((a, s) => a + f * Math.exp(-s / tauS), 0) / starts.length;
+    expect(takenMeanErrorHz(tauS, gateS, starts, values, beforeHz)).toBeCloseTo(stepHz * meanLeft, 6);
+    // 0.25 s = 5τ after a 1600 Hz step the mean of three 100 ms gates misses by about 0.3 Hz; a reading at 0 s cannot tell.
+    expect(takenMeanErrorHz(tauS, gateS, starts, values, beforeHz)).toBeLessThan(countHz);
+    expect(takenMeanErrorHz(tauS, 1e-12, [0], [beforeHz], beforeHz)).toBe(Number.POSITIVE_INFINITY);
   });
 
   it('reads the mean’s error back from the first reading alone', () => {

@@ -94,3 +94,30 @@ export function meanErrorHz(
   const stepHz = Math.abs(frequencyHz - beforeHz) / (1 - left);
   return stepHz * gateAverageFactor(tauS, readings * gateS) * decay;
 }
+
+/**
+ * Error of the mean of readings already taken after a step, judged once τ
+ * is known (the trial point of a sweep, read before τ was learned). Reading
+ * i, its gate opening s_i after the step, keeps left_i = F·e^(−s_i/τ) of the
+ * step A; each bounds A by |f_i − before| / (1 − left_i), and the largest is
+ * taken; the mean keeps A·mean(left_i). Over a link the gate opened a little
+ * before s_i (its reply's time less a gate): pass τ with a margin.
+ */
+export function takenMeanErrorHz(
+  tauS: number,
+  gateS: number,
+  startsS: readonly number[],
+  valuesHz: readonly number[],
+  beforeHz: number,
+): number {
+  const f = gateAverageFactor(tauS, gateS);
+  let stepHz = 0;
+  let leftSum = 0;
+  for (let i = 0; i < startsS.length; i++) {
+    const left = f * Math.exp(-Math.max(0, startsS[i] as number) / tauS);
+    if (!(left < 1)) return Number.POSITIVE_INFINITY;
+    stepHz = Math.max(stepHz, Math.abs((valuesHz[i] as number) - beforeHz) / (1 - left));
+    leftSum += left;
+  }
+  return startsS.length > 0 && Number.isFinite(stepHz) ? (stepHz * leftSum) / startsS.length : Number.POSITIVE_INFINITY;
+}

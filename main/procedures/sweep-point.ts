@@ -38,6 +38,8 @@ export interface PointResult {
   lastStatus: SampleStatus;
   /** Readings recorded at the point (fixed, or as many as the adaptive rule needed). */
   readingsTaken: number;
+  /** Clock time of the point's control-voltage write. */
+  stepAtS: number;
   /** "No signal" believed before τ was known, the port maybe still on its way from switch-on: clock time of the last such reading, else null. */
   provisionalAtS: number | null;
 }
@@ -240,6 +242,7 @@ export async function measurePoint(
     lastFrequencyHz,
     lastStatus,
     provisionalAtS,
+    stepAtS,
   };
 }
 
