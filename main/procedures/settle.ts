@@ -70,6 +70,14 @@ export interface AutoSettleOptions {
    * settling by prediction; default 1 (the reading alone).
    */
   recordedReadings?: number;
+  /**
+   * "No signal" is final in a reading whose command went out at least this
+   * long after the step (s): the port moves one way, into a region known to
+   * stall from there on (a bisection point of the stall edge approached from
+   * the oscillating side, once the port is surely inside the bracket). Until
+   * then the watching readings are not spaced past that moment.
+   */
+  finalNoSignalAfterS?: number;
 }
 
 /** Preallocated record of one point's settling readings. */
@@ -210,6 +218,9 @@ export async function settleAuto(
   const expectedStepHz = options.expectedStepHz ?? 0;
   const recorded = Math.max(1, Math.floor(options.recordedReadings ?? 1));
   const meanTolHz = options.toleranceCounts / gateS;
+  const finalAfterS = options.finalNoSignalAfterS;
+  const finalNoSignal = (reading: CounterReading, sentS: number): boolean =>
+    finalAfterS !== undefined && reading.status === 'no-signal' && sentS - stepAtS >= finalAfterS;
   if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && options.afterOutputOn !== true) {
     const startS = predictedStartS(knownTauS, gateS, expectedStepHz, meanTolHz, recorded);
     const waitS = stepAtS + Math.min(maxS, startS) - clock.now();
@@ -221,6 +232,8 @@ export async function settleAuto(
   note(previousAtS, previous);
   remember(previous, previousAtS);
   let readings = 1;
+  if (finalNoSignal(previous, sentAtS)) return done(true, previous, previousAtS, readings);
+  let previousSentS = sentAtS;
   if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && previous.status === 'ok') {
     // The gate opened between the command's sending and a gate before its reply: the earlier end is
     // the one that leaves the most error (over a link the reply comes a return trip after the gate).
@@ -235,14 +248,21 @@ export async function settleAuto(
   if (first !== undefined) nextSpacingS = first;
   for (;;) {
     if (previousAtS >= deadlineS) return done(false, previous, previousAtS, readings);
-    // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end.
+    // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end
+    // (no later than where a "no signal" would be final).
+    // (A reading sent before that moment could not tell; the next goes out no later than it.)
+    if (finalAfterS !== undefined && previousSentS - stepAtS < finalAfterS)
+      nextSpacingS = Math.min(nextSpacingS, Math.max(gateS, stepAtS + finalAfterS + gateS - previousAtS));
     const waitS = Math.min(nextSpacingS - gateS, deadlineS - previousAtS);
     if (waitS > 0) await clock.sleep(waitS, signal);
+    const currentSentS = clock.now();
     const current = await read();
     const currentAtS = clock.now();
     note(currentAtS, current);
     remember(current, currentAtS);
     readings++;
+    if (finalNoSignal(current, currentSentS)) return done(true, current, currentAtS, readings);
+    previousSentS = currentSentS;
     if (previous.status === 'no-signal' && current.status === 'no-signal') {
       // No signal says nothing about how far the port still has to go: a DUT
       // whose port is still on its way up through the stalled region reads the

@@ -22,7 +22,11 @@ import type { BenchRoles, ProcedureOutcome, RunSink, SampleRow } from './types.t
 
 export { SWEEP_COLUMNS } from './sweep-point.ts';
 
-/** A trial point's readings are judged with τ taken this much longer (its estimate scatters; the gate's start is a reply's time less a gate). */
+/**
+ * τ is taken this much longer where the sweep judges from it after the fact (a trial point's
+ * readings, when the port is inside the edge's bracket): its estimate scatters, and a gate's start
+ * is a reply's time less a gate.
+ */
 const TRIAL_TAU_MARGIN = 1.25;
 
 export interface SweepOptions {
@@ -298,7 +302,13 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
           ctx,
           plan,
           state,
-          { controlV, direction: bracket.direction, refined: true, index },
+          {
+            controlV,
+            direction: bracket.direction,
+            refined: true,
+            index,
+            finalNoSignalAfterS: finalNoSignalAfterS(bracket, state.controlV, controlV, state.tau.tauS),
+          },
           control.signal,
         );
         index++;
@@ -333,4 +343,22 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;
+}
+
+/**
+ * A bisection point approached from above (the oscillating side): the port
+ * falls from `fromV` toward `toV`, and once it is inside the bracket (below
+ * its oscillating level, by the lag with τ taken 25 % longer) a "no signal"
+ * means it is below the one edge the bisection assumes, where it stays:
+ * final. From below, or with τ unknown: undefined (the usual rules).
+ */
+export function finalNoSignalAfterS(
+  bracket: EdgeBracket,
+  fromV: number,
+  toV: number,
+  tauS: number | null,
+): number | undefined {
+  if (tauS === null || !(fromV > toV) || !(bracket.oscillatingV > toV)) return undefined;
+  const insideS = TRIAL_TAU_MARGIN * tauS * Math.log(Math.max(1, (fromV - toV) / (bracket.oscillatingV - toV)));
+  return insideS;
 }
