@@ -31,6 +31,8 @@ export interface FigureOptions {
   digits?: number;
   /** Never use an SI prefix (default: prefixes for units other than %, ppm…, and dimensionless). */
   plain?: boolean;
+  /** With an uncertainty, write |value| < 1e-3 or ≥ 1e6 as "(5.40 ± 0.30)e-4" (dimensionless figures such as σy). */
+  exponent?: boolean;
 }
 
 const PLAIN_UNIT = /^(%|ppm.*|dB|°|°C|min|h)?$/;
@@ -58,6 +60,13 @@ export function formatFigure(value: number | null | undefined, unit: string, opt
   const u = options.uncertainty;
   // An uncertainty at the numerical floor of the value (exact data) supports no extra digits.
   if (u !== null && u !== undefined && Number.isFinite(u) && u > 0 && !belowFloor(u, value, 1e-9)) {
+    const size = Math.max(Math.abs(value), u);
+    if (options.exponent && plain && (size < 1e-3 || size >= 1e6)) {
+      // The mantissa takes the decimals u supports; the exponent is the value's (as formatNumber writes "5.40e-4").
+      const e = Math.floor(Math.log10(size));
+      const mantissa = formatFigure(value / 10 ** e, '', { uncertainty: u / 10 ** e, plain: true });
+      return withUnit(`(${mantissa})e${e}`, '', unit);
+    }
     const { scale, symbol } = plain ? { scale: 1, symbol: '' } : siPrefixFor(Math.max(Math.abs(value), u));
     const us = u / scale;
     const decimals = 1 - Math.floor(Math.log10(us));

@@ -6,15 +6,21 @@ import type { PointSet } from './sweep-points.ts';
 
 /** Per-point frequency SD: reading scatter of the mean and ±1 count/gate (rectangular). */
 export function pointUncertainty(points: PointSet, gateS: number | undefined): Float64Array {
-  const q = gateS ? 1 / (gateS * Math.sqrt(3)) : 0;
   const u = new Float64Array(points.count);
-  for (let i = 0; i < points.count; i++) {
-    const n = points.nOsc[i] as number;
-    const sd = points.sdHz[i] as number;
-    const scatter = n > 1 && Number.isFinite(sd) ? (sd * sd) / n : 0;
-    u[i] = Math.sqrt(scatter + q * q);
-  }
+  for (let i = 0; i < points.count; i++)
+    u[i] = meanReadingUncertainty(points.sdHz[i] as number, points.nOsc[i] as number, gateS);
   return u;
+}
+
+/**
+ * 1σ of a mean of `n` counter readings with sample SD `sdHz`: the standard
+ * error and the ±1 count of a `gateS` gate as a rectangular distribution,
+ * 1/(gate·√3) (GUM §4.3.7). Also what the plots' read-outs carry.
+ */
+export function meanReadingUncertainty(sdHz: number, n: number, gateS: number | null | undefined): number {
+  const q = gateS && gateS > 0 ? 1 / (gateS * Math.sqrt(3)) : 0;
+  const scatter = n > 1 && Number.isFinite(sdHz) ? (sdHz * sdHz) / n : 0;
+  return Math.sqrt(scatter + q * q);
 }
 
 /** RMS of u over the given points: the pooled scatter a fit's residual SD is judged against. */

@@ -16,8 +16,8 @@ import { recordPlotWork } from './frame-work.ts';
 import { createFrameGate } from './frame-gate.ts';
 import { readPlotColors, type PlotColors } from './plot-colors.ts';
 import { chartCsv, chartPng, chartSvg } from './plot-export.ts';
-import { cursorDeltas, markAt, type CursorMark } from './cursor-pair.ts';
-import { formatSi } from '../analysis/format-si.ts';
+import { cursorTexts, markAt, type CursorMark } from './cursor-pair.ts';
+import type { Readout } from './readout.ts';
 
 /** The x range on screen when the user has zoomed (null: the whole data). */
 export interface PlotView {
@@ -48,46 +48,28 @@ export interface PlotPanelProps {
   csv?(): string;
   /** Extra lines under the chart (legend of marks). */
   footer?: React.ReactNode;
-  /** Units of x and y: enables two cursors (click readings) with Δx, Δy and the slope. */
-  cursorUnits?: { x: string; y: string };
+  /** Read-outs of x and y (unit and resolution): enables two cursors (click readings) with Δx, Δy and the slope. */
+  cursorReadouts?: { x: Readout; y: Readout };
 }
-
-/** One cursor's value with a unit: SI prefixes, seconds as they are. */
-const withUnit = (value: number, unit: string, digits = 5): string => formatSi(value, unit, digits);
 
 function CursorReadout({
   marks,
-  units,
+  readouts,
   onClear,
   testId,
 }: {
   marks: CursorMark[];
-  units: { x: string; y: string };
+  readouts: { x: Readout; y: Readout };
   onClear: () => void;
   testId: string;
 }) {
-  const [a, b] = marks;
-  const d = a && b ? cursorDeltas(a, b) : null;
+  const text = cursorTexts(marks, readouts.x, readouts.y);
   return (
     <div className="cursor-readout" data-testid={`${testId}-cursors`} aria-live="polite">
       {marks.length === 0 ? <span>Click a reading to place cursor A, another for B.</span> : null}
-      {a ? (
-        <span>
-          A: {withUnit(a.x, units.x)}, {withUnit(a.y, units.y, 7)}
-        </span>
-      ) : null}
-      {b ? (
-        <span>
-          B: {withUnit(b.x, units.x)}, {withUnit(b.y, units.y, 7)}
-        </span>
-      ) : null}
-      {d ? (
-        <strong data-testid={`${testId}-deltas`}>
-          Δ{units.x === 'V' ? 'V' : 'x'} {withUnit(d.dx, units.x)} · Δ{units.y === 'Hz' ? 'f' : 'y'}{' '}
-          {withUnit(d.dy, units.y)} · slope{' '}
-          {d.slope === null ? '— (same x)' : withUnit(d.slope, `${units.y}/${units.x}`, 4)}
-        </strong>
-      ) : null}
+      {text.a ? <span>A: {text.a}</span> : null}
+      {text.b ? <span>B: {text.b}</span> : null}
+      {text.deltas ? <strong data-testid={`${testId}-deltas`}>{text.deltas}</strong> : null}
       {marks.length > 0 ? (
         <button type="button" className="quiet plot-tool" onClick={onClear}>
           Clear cursors
@@ -117,7 +99,7 @@ export function PlotPanel(props: PlotPanelProps) {
   const [marks, setMarks] = useState<CursorMark[]>([]);
   const marksRef = useRef<CursorMark[]>([]);
   marksRef.current = marks;
-  const cursorsOn = props.cursorUnits !== undefined;
+  const cursorsOn = props.cursorReadouts !== undefined;
 
   useEffect(() => {
     const host = hostRef.current;
@@ -188,7 +170,7 @@ export function PlotPanel(props: PlotPanelProps) {
       downAt = [e.clientX, e.clientY];
     };
     const onClick = (e: MouseEvent) => {
-      if (!latest.current.cursorUnits) return;
+      if (!latest.current.cursorReadouts) return;
       const moved = downAt ? Math.hypot(e.clientX - downAt[0], e.clientY - downAt[1]) : 0;
       if (moved > 3) return;
       const mark = markAt(chart.data, chart.cursor.idx);
@@ -325,8 +307,13 @@ export function PlotPanel(props: PlotPanelProps) {
         onDoubleClick={() => resetRef.current()}
       />
       {props.isEmpty ? <p className="plot-empty">{props.emptyText ?? 'No readings yet.'}</p> : null}
-      {cursorsOn && !props.isEmpty && props.cursorUnits ? (
-        <CursorReadout marks={marks} units={props.cursorUnits} onClear={() => setMarks([])} testId={props.testId} />
+      {cursorsOn && !props.isEmpty && props.cursorReadouts ? (
+        <CursorReadout
+          marks={marks}
+          readouts={props.cursorReadouts}
+          onClear={() => setMarks([])}
+          testId={props.testId}
+        />
       ) : null}
       {props.footer && !props.isEmpty ? <div className="plot-footer">{props.footer}</div> : null}
     </figure>

@@ -2,6 +2,7 @@
 import type uPlot from 'uplot';
 import { formatSiOrDash as si, siPrefixFor } from '../analysis/format-si.ts';
 import type { PlotColors } from './plot-colors.ts';
+import { readoutValue, type Readout } from './readout.ts';
 import { TIME_STEPS_S, timeTickLabel } from './time-ticks.ts';
 
 export function siAxis(colors: PlotColors, label: string, unit: string, extra: Partial<uPlot.Axis> = {}): uPlot.Axis {
@@ -68,14 +69,19 @@ export function timeAxis(colors: PlotColors, label = 'Time', startMs: number | n
   };
 }
 
-export function xSeries(unit: string, label: string): uPlot.Series {
-  return { label, value: (_u, value) => si(value, unit, 5) };
+/**
+ * Series take a Readout (./readout.ts): the unit and the resolution or per-point
+ * uncertainty of what they plot, so the cursor's legend read-out shows only the
+ * digits the reading supports.
+ */
+export function xSeries(label: string, readout: Readout): uPlot.Series {
+  return { label, value: readoutValue(readout) };
 }
 
 export function pointSeries(
   label: string,
   color: string,
-  unit: string,
+  readout: Readout,
   extra: Partial<uPlot.Series> = {},
 ): uPlot.Series {
   return {
@@ -84,7 +90,7 @@ export function pointSeries(
     fill: undefined,
     paths: () => null,
     points: { show: true, size: 6, stroke: color, fill: color },
-    value: (_u, value) => si(value, unit, 6),
+    value: readoutValue(readout),
     ...extra,
   };
 }
@@ -92,7 +98,7 @@ export function pointSeries(
 export function lineSeries(
   label: string,
   color: string,
-  unit: string,
+  readout: Readout,
   extra: Partial<uPlot.Series> = {},
 ): uPlot.Series {
   return {
@@ -100,7 +106,7 @@ export function lineSeries(
     stroke: color,
     width: 1.5,
     points: { show: false },
-    value: (_u, value) => si(value, unit, 6),
+    value: readoutValue(readout),
     ...extra,
   };
 }

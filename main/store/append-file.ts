@@ -11,7 +11,8 @@
 import { DiskError } from './store-error.ts';
 import { type StoreFileHandle, errorCode } from './store-fs.ts';
 
-function asDiskError(path: string, error: unknown): DiskError {
+/** `error` as a DiskError naming `path` (kept as is when it already is one). */
+export function asDiskError(path: string, error: unknown): DiskError {
   if (error instanceof DiskError) return error;
   const code = errorCode(error);
   return new DiskError(path, code, error instanceof Error ? error.message : String(error), { cause: error });

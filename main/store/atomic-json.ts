@@ -5,6 +5,8 @@
  * never a mix (POSIX rename is atomic within a file system).
  */
 import { dirname, join, basename } from 'node:path';
+import { asDiskError } from './append-file.ts';
+import { DiskError } from './store-error.ts';
 import { type StoreFs } from './store-fs.ts';
 
 let tempCounter = 0;
@@ -14,15 +16,29 @@ export async function writeJsonAtomic(fs: StoreFs, path: string, value: unknown)
   // from sharing a temp file.
   tempCounter += 1;
   const tempPath = join(dirname(path), `.${basename(path)}.${process.pid}.${tempCounter}.tmp`);
-  const text = `${JSON.stringify(value, null, 2)}\n`;
-  const handle = await fs.open(tempPath, 'w');
+  const bytes = Buffer.from(`${JSON.stringify(value, null, 2)}\n`, 'utf8');
   try {
-    await handle.write(text);
-    await handle.sync();
-  } finally {
-    await handle.close();
+    const handle = await fs.open(tempPath, 'w');
+    try {
+      // A filling disk takes part of a write and refuses the rest: continue a short write, and never rename
+      // a temp file that is not whole over the target.
+      let done = 0;
+      while (done < bytes.length) {
+        const { bytesWritten } = await handle.write(bytes.subarray(done));
+        if (!(bytesWritten > 0))
+          throw new DiskError(path, undefined, `short write: ${done} of ${bytes.length} bytes, then nothing`);
+        done += bytesWritten;
+      }
+      await handle.sync();
+    } finally {
+      await handle.close();
+    }
+    await fs.rename(tempPath, path);
+  } catch (error) {
+    await fs.rm(tempPath, { force: true }).catch(() => undefined);
+    // Name the file the caller meant and the OS error (ENOSPC, EIO, EROFS…).
+    throw asDiskError(path, error);
   }
-  await fs.rename(tempPath, path);
   await syncDirectory(fs, dirname(path));
 }
 

@@ -4,7 +4,7 @@
  * folder deleted mid-run is noticed at the next flush and the run stops there,
  * with the simulated supply left in the safe state (read back from the sim).
  */
-import { readFile, rm } from 'node:fs/promises';
+import { readdir, readFile, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { assembleBench } from '../bench/assemble.ts';
@@ -80,6 +80,62 @@ describe('disk faults while recording', () => {
         'control_v,frequency_hz,status\n1,1000,ok\n',
       );
     });
+  });
+
+  it('a disk that fills while run.json is replaced: DiskError naming run.json, the old file whole, no temp left', async () => {
+    // Found by re-probing on a real 1 MiB tmpfs: finishing a drift log failed with "Error: ENOSPC: no space left
+    // on device, write" (no path) and left an empty .run.json.*.tmp. A short write (the OS took part of the
+    // text, as Linux does on a filling disk) must never be renamed over run.json as a torn file either.
+    for (const mode of ['short', 'refused'] as const) {
+      await withTempDir(async (runsDir) => {
+        const full = { on: false };
+        const fs: StoreFs = {
+          ...nodeStoreFs,
+          async open(path, flags) {
+            const handle = await nodeStoreFs.open(path, flags);
+            if (!/\.run\.json\..*\.tmp$/.test(path)) return handle;
+            let calls = 0;
+            return {
+              ...handle,
+              async write(data) {
+                if (!full.on) return handle.write(data);
+                calls++;
+                const bytes = typeof data === 'string' ? Buffer.from(data) : data;
+                if (mode === 'short' && calls === 1)
+                  return handle.write(bytes.subarray(0, Math.floor(bytes.length / 3)));
+                if (mode === 'short') return { bytesWritten: 0 };
+                throw Object.assign(new Error('ENOSPC: no space left on device, write'), {
+                  code: 'ENOSPC',
+                  syscall: 'write',
+                });
+              },
+            };
+          },
+        };
+        const writer = await createRun({
+          runsDir,
+          kind: 'drift',
+          dut: { id: 'full-at-finish' },
+          instruments: [],
+          plan: {},
+          columns: ['frequency_hz', 'status'],
+          clock: new VirtualClock(),
+          fs,
+        });
+        writer.appendSample([1000, 'ok']);
+        await writer.flush();
+        const before = await readFile(join(writer.dir, 'run.json'), 'utf8');
+        full.on = true;
+        const error = await writer.finish('complete').catch((e: unknown) => e);
+        expect(error, mode).toBeInstanceOf(DiskError);
+        expect((error as Error).message).toContain(`cannot write ${join(writer.dir, 'run.json')}: `);
+        if (mode === 'refused') expect((error as DiskError).osCode).toBe('ENOSPC');
+        else expect((error as Error).message).toMatch(/short write/);
+        // The old run.json stays whole (a reader finds the run interrupted), and no temp file is left behind.
+        expect(await readFile(join(writer.dir, 'run.json'), 'utf8')).toBe(before);
+        expect((await readdir(writer.dir)).filter((name) => name.endsWith('.tmp'))).toEqual([]);
+      });
+    }
   });
 
   it('a run folder deleted mid-sweep is noticed at the next flush; the sweep stops there and leaves the supply safe', async () => {

@@ -59,9 +59,10 @@ describe('readRunFolder', () => {
       writer.appendSample([0, 0.5, 10e6, 'up', 'ok']);
       plan.failRenameTo = 'run.json';
       await expect(writer.finish('complete')).rejects.toThrow(/before rename/);
-      // The new content sits in a temp file; run.json is the old, whole file.
+      // run.json is the old, whole file. (A rename that fails with an error removes its temp file; one cut
+      // short by a real death leaves it, and readers never look at temp files.)
       const names = await readdir(writer.dir);
-      expect(names.some((n) => n.startsWith('.run.json.') && n.endsWith('.tmp'))).toBe(true);
+      expect(names.some((n) => n.startsWith('.run.json.') && n.endsWith('.tmp'))).toBe(false);
       const run = await readRunFolder(writer.dir);
       expect(run.meta.status).toBe('running'); // our own live writer still holds it
       expect(parseSamplesCsv(run.samplesCsv).rowCount).toBe(1);

@@ -22,7 +22,11 @@ export class DiskError extends Error {
     options?: ErrorOptions,
   ) {
     super(`cannot write ${path}: ${detail}`, options);
+    // Callers that branch on an fs error's code (ENOENT: the folder has gone) see the same code through it.
+    if (osCode !== undefined) this.code = osCode;
   }
+
+  readonly code: string | undefined;
 }
 
 /** The run folder disappeared while the run was recording (deleted, or its disk unmounted). */

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { writeFile, readFile, rm } from 'node:fs/promises';
+import { execFileSync } from 'node:child_process';
+import { mkdtemp, open, writeFile, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { VirtualClock } from './virtual-clock.ts';
@@ -174,6 +175,49 @@ describe('VirtualClock', () => {
       await rm(path, { force: true });
     }
   });
+
+  it.skipIf(process.platform === 'win32')(
+    'does not overtake a slow file request however many loop turns it takes (an fsync on a busy disk)',
+    { timeout: 20_000 },
+    async () => {
+      // A request that stays in the thread pool until the test lets it go: opening a FIFO for reading blocks
+      // until a writer opens it. Before the fix the idle check gave up after 10,000 loop turns (tens of ms)
+      // with the request still in flight and the clock jumped to its next timer — the campaign's run-to-run
+      // variation (a slow fsync of campaign.json moved the whole campaign by a stale 2 s reply deadline).
+      const dir = await mkdtemp(join(tmpdir(), 'tunebench-vclock-fifo-'));
+      const fifo = join(dir, 'slow');
+      execFileSync('mkfifo', [fifo]);
+      const clock = new VirtualClock({ autoAdvance: true });
+      let fired = false;
+      clock.setTimer(2, () => {
+        fired = true;
+      });
+      const reader = open(fifo, 'r');
+      let released = false;
+      const release = async (): Promise<void> => {
+        if (released) return;
+        released = true;
+        const writer = await open(fifo, 'w');
+        await (await reader).close();
+        await writer.close();
+      };
+      try {
+        // Far longer in real time than 10,000 turns of the loop.
+        await new Promise((resolve) => setTimeout(resolve, 400));
+        expect(fired).toBe(false);
+        expect(clock.now()).toBe(0);
+        await release();
+        // With the request done the loop is idle again and the clock moves on.
+        await new Promise((resolve) => setTimeout(resolve, 50));
+        expect(fired).toBe(true);
+        expect(clock.now()).toBe(2);
+      } finally {
+        await release();
+        clock.setAutoAdvance(false);
+        await rm(dir, { recursive: true, force: true });
+      }
+    },
+  );
 
   it('autoAdvance runs a procedure without being driven', async () => {
     const clock = new VirtualClock({ autoAdvance: true });

@@ -8,6 +8,7 @@
 import { useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 import type { CampaignSheet, CampaignSummary } from '../../contract/campaign-schemas.ts';
 import { baseOptions, lineSeries, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
+import { celsiusReadout, counterReadout, voltsReadout, type Readout } from '../../plots/readout.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { useApp } from '../app-context.ts';
 import { ConfirmAction } from '../controls/ConfirmAction.tsx';
@@ -24,6 +25,11 @@ const STATUS_TEXT: Record<CampaignSummary['status'], string> = {
   failed: 'failed',
   interrupted: 'interrupted',
 };
+
+/** Soak readings come about once a second: their time to the second. */
+const SOAK_TIME: Readout = { unit: 's', clock: true, resolution: 1 };
+/** The campaign's sweep events do not carry the counter's gate: a reading to 7 significant digits (figure-text's readingText). */
+const LIVE_READING: Readout = counterReadout(null);
 
 export function CampaignScreen() {
   const { bridge, stores } = useApp();
@@ -208,10 +214,10 @@ export function CampaignScreen() {
               width,
               height,
               [
-                xSeries('s', 'Campaign time'),
-                lineSeries('Setpoint', colors.series[3], '°C', { dash: [6, 4] }),
-                lineSeries('Air', colors.series[2], '°C'),
-                lineSeries('DUT', colors.series[0], '°C', { width: 2 }),
+                xSeries('Campaign time', SOAK_TIME),
+                lineSeries('Setpoint', colors.series[3], celsiusReadout, { dash: [6, 4] }),
+                lineSeries('Air', colors.series[2], celsiusReadout),
+                lineSeries('DUT', colors.series[0], celsiusReadout, { width: 2 }),
               ],
               [timeAxis(colors, 'Campaign time'), siAxis(colors, 'Temperature', '°C', { size: 64 })],
             )
@@ -229,13 +235,13 @@ export function CampaignScreen() {
           watch={feed.watch}
           isEmpty={feed.sweep.v.length === 0}
           emptyText="Readings of the condition being swept appear here."
-          cursorUnits={{ x: 'V', y: 'Hz' }}
+          cursorReadouts={{ x: voltsReadout, y: LIVE_READING }}
           data={() => [feed.sweep.v, feed.sweep.f]}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
-              [xSeries('V', 'Control'), pointSeries('Frequency', colors.series[0], 'Hz')],
+              [xSeries('Control', voltsReadout), pointSeries('Frequency', colors.series[0], LIVE_READING)],
               [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
             )
           }

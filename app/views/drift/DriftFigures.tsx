@@ -23,12 +23,13 @@ import {
   siAxis,
   timeAxis,
   withAlpha,
+  xSeries,
 } from '../../plots/plot-options.ts';
-import { timeTickLabel } from '../../plots/time-ticks.ts';
 import { FigureList } from '../FigureList.tsx';
 import { adevColumns, driftKeyFigures } from './drift-key-figures.ts';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
+import { driftReadouts } from './drift-readouts.ts';
 
 export interface DriftSource {
   key: string;
@@ -119,6 +120,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   );
   const buildKey = `${source.key}|${source.theme}`;
   const adev = analysis && analysis.adev.length > 0 ? adevColumns(analysis) : null;
+  const readouts = driftReadouts(source.gateS, analysis);
   return (
     <div className="sweep-figures">
       <div className="plots">
@@ -135,7 +137,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           height={320}
           data={timeData}
           csv={timeCsv}
-          cursorUnits={{ x: 's', y: 'Hz' }}
+          cursorReadouts={{ x: readouts.time, y: readouts.frequency }}
           exportName={`drift-${source.key}`}
           watch={source.watch}
           options={(colors, width, height) =>
@@ -143,16 +145,13 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               width,
               height,
               [
-                { label: 'Time', value: (_u, v) => (v === null ? '—' : timeTickLabel(v, v >= 60 ? 1 : 0.1)) },
-                lineSeries('Frequency', colors.series[0], 'Hz', {
+                xSeries('Time', readouts.time),
+                lineSeries('Frequency', colors.series[0], readouts.frequency, {
                   points: { show: () => !dense.current, size: 4, stroke: colors.series[0], fill: colors.series[0] },
                 }),
-                lineSeries('Lowest in slice', 'transparent', 'Hz', { width: 0 }),
-                lineSeries('Highest in slice', 'transparent', 'Hz', { width: 0 }),
-                lineSeries('Temperature', colors.series[1], '°C', {
-                  scale: '°C',
-                  value: (_u, v) => formatFigure(v, '°C', { digits: 4 }),
-                }),
+                lineSeries('Lowest in slice', 'transparent', readouts.frequency, { width: 0 }),
+                lineSeries('Highest in slice', 'transparent', readouts.frequency, { width: 0 }),
+                lineSeries('Temperature', colors.series[1], readouts.temperature, { scale: '°C' }),
               ],
               [
                 timeAxis(colors, 'Time', source.startMs ?? null),
@@ -189,11 +188,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 width,
                 height,
                 [
-                  { label: 'Temperature', value: (_u, v) => formatFigure(v, '°C', { digits: 4 }) },
-                  pointSeries('Frequency', colors.series[0], 'Hz', {
+                  xSeries('Temperature', readouts.temperature),
+                  pointSeries('Frequency', colors.series[0], readouts.frequency, {
                     points: { show: true, size: 3, stroke: colors.series[0], fill: colors.series[0] },
                   }),
-                  lineSeries('Tempco line', colors.fit, 'Hz', { width: 2 }),
+                  lineSeries('Tempco line', colors.fit, readouts.frequency, { width: 2 }),
                 ],
                 [
                   {
@@ -219,15 +218,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 width,
                 height,
                 [
-                  { label: 'τ', value: (_u, v) => formatFigure(v, 's', { digits: 3 }) },
-                  lineSeries('σy(τ)', colors.series[2], '', {
-                    points: { show: true, size: 5 },
-                    value: (_u, v) => formatFigure(v, '', { digits: 3 }),
-                  }),
+                  xSeries('τ', readouts.tau),
+                  lineSeries('σy(τ)', colors.series[2], readouts.adev, { points: { show: true, size: 5 } }),
                   // At or below the counter's ±1-count floor 1/(gate·f): the counter, not the oscillator.
-                  pointSeries('resolution-limited (±1 count)', colors.text, '', {
+                  pointSeries('resolution-limited (±1 count)', colors.text, readouts.adev, {
                     points: { show: true, size: 11, width: 2, stroke: colors.text, fill: 'transparent' },
-                    value: (_u, v) => (v === null ? '—' : formatFigure(v, '', { digits: 3 })),
                   }),
                 ],
                 [

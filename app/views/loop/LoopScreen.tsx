@@ -1,7 +1,8 @@
 /**
  * Loop filter: from a measured sweep's Kvco, a passive charge-pump PLL filter
  * for the entered reference, divider, pump current, bandwidth and phase
- * margin, designed at the lock point N·f_ref on the run's tuning curve; then
+ * margin, designed at the lock point N·f_ref on the run's tuning curve (by
+ * default the middle of the run's tuning window: `suggestedLoop`); then
  * how crossover and margin move at the Kvco corners of the tuning window. A
  * corner the loop cannot use is listed with its reason, never dropped. An
  * input that cannot be used says why next to its field while the last good
@@ -18,7 +19,7 @@ import { useEffectiveTheme } from '../use-theme.ts';
 import { Choice, Field, Figure, Panel } from '../controls/Field.tsx';
 import { when } from '../units.ts';
 import { analyzeColumns } from '../sweep/sweep-figures.ts';
-import { checkLoopDraft, DEFAULT_LOOP, type LoopDraft, type LoopValues } from './loop-inputs.ts';
+import { checkLoopDraft, DEFAULT_LOOP, suggestedLoop, type LoopDraft, type LoopValues } from './loop-inputs.ts';
 import { CORNER_LABELS, designAtLock, frequencyPoints, offeredSweeps, type DesignOutcome } from './loop-design.ts';
 import { LoopBode } from './LoopBode.tsx';
 import { LoopResults } from './LoopResults.tsx';
@@ -35,7 +36,8 @@ export function LoopScreen() {
   const [noPoints, setNoPoints] = useState<ReadonlySet<string>>(new Set());
   const sweeps = offeredSweeps(runs, noPoints);
   const [runId, setRunId] = useState<string>('');
-  const [draft, setDraft] = useState<LoopDraft>(DEFAULT_LOOP);
+  // What the user typed; the rest of the form is the chosen run's own suggestion (or the example before a run).
+  const [edits, setEdits] = useState<Partial<LoopDraft>>({});
   const chosen = sweeps.some((r) => r.id === runId) ? runId : (sweeps[0]?.id ?? '');
   useEffect(() => {
     if (chosen && !opened[chosen]) void open(chosen);
@@ -54,6 +56,9 @@ export function LoopScreen() {
     return outcome.ok ? { sweep: outcome.analysis } : { error: outcome.message };
   }, [run]);
 
+  // The lock point starts on the chosen run's curve (middle of its tuning window), never the example's 5 MHz.
+  const suggested = useMemo(() => (analysis && 'sweep' in analysis ? suggestedLoop(analysis.sweep) : null), [analysis]);
+  const draft: LoopDraft = { ...DEFAULT_LOOP, ...(suggested ?? {}), ...edits };
   const checked = checkLoopDraft(draft);
   // While a field cannot be read, the last readable inputs stand (the field says what is wrong).
   const lastValues = useRef<LoopValues | null>(null);
@@ -93,7 +98,7 @@ export function LoopScreen() {
     return { freqs, responses };
   }, [shown?.good, shown?.values]);
 
-  const edit = (patch: Partial<LoopDraft>) => setDraft((d) => ({ ...d, ...patch }));
+  const edit = (patch: Partial<LoopDraft>) => setEdits((d) => ({ ...d, ...patch }));
   const key = `${chosen}|${theme}|${JSON.stringify(shown?.values ?? null)}`;
   return (
     <div className="screen screen-sweep">

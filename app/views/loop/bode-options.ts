@@ -9,6 +9,7 @@ import type uPlot from 'uplot';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import type { PlotColors } from '../../plots/plot-colors.ts';
 import { baseOptions, lineSeries, logSiAxis, siAxis, xSeries } from '../../plots/plot-options.ts';
+import { readoutText, type Readout } from '../../plots/readout.ts';
 
 /** One Kvco corner's loop as checked: where the gain crosses 0 dB and the margin there. */
 export interface BodeCorner {
@@ -22,6 +23,25 @@ export type BodeKind = 'magnitude' | 'phase';
 /** An angle as written in the trade: "52.3°" (no space before the degree sign), 3 significant digits. */
 export function degreesText(value: number): string {
   return `${formatFigure(value, '', { digits: 3 })}°`;
+}
+
+/*
+ * Read-outs of the Bode traces. The loop is computed exactly from component
+ * values that hold only to their series' tolerance (E96 1 % … E6 20 %) and a
+ * measured Kvco of a few per cent, i.e. some 0.1–2 dB and a degree or more:
+ * 0.1 dB and 0.1° keep the read-out steady and claim no more than that. The
+ * frequencies are the plot's log grid (300 points over four decades, 3 % apart):
+ * 3 significant digits tell neighbours apart.
+ */
+const BODE_FREQUENCY: Readout = { unit: 'Hz', digits: 3 };
+const BODE_MAGNITUDE: Readout = { unit: 'dB', resolution: 0.1 };
+const PHASE_RESOLUTION_DEG = 0.1;
+
+/** A phase read-out as the trade writes it, "−132.4°", to 0.1°. */
+export function phaseReadout(value: number | null | undefined): string {
+  return value === null || value === undefined || !Number.isFinite(value)
+    ? '—'
+    : `${formatFigure(value, '', { resolution: PHASE_RESOLUTION_DEG })}°`;
 }
 
 /** The colour of corner `i`: the theme's series colours, the text colour past them. */
@@ -104,11 +124,10 @@ export function bodeOptions(
     width,
     height,
     [
-      xSeries('Hz', 'Frequency'),
+      xSeries('Frequency', BODE_FREQUENCY),
       ...corners.map((c, i) =>
-        lineSeries(c.label, cornerColor(colors, i), '', {
-          value: (_u, v) =>
-            v === null ? '—' : kind === 'phase' ? degreesText(v) : formatFigure(v, 'dB', { digits: 3 }),
+        lineSeries(c.label, cornerColor(colors, i), BODE_MAGNITUDE, {
+          value: (_u, v) => (kind === 'phase' ? phaseReadout(v) : readoutText(BODE_MAGNITUDE, v)),
         }),
       ),
     ],

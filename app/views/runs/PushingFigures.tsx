@@ -8,23 +8,26 @@ import type { ColumnSet } from '../../state/columns.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
 import { FigureList } from '../FigureList.tsx';
-import { analyzePushingColumns, pushingKeyFigures, pushingPlotColumns } from './pushing-figures.ts';
+import { analyzePushingColumns, pushingKeyFigures, pushingPlotColumns, pushingReadouts } from './pushing-figures.ts';
 
 export interface PushingSource {
   key: string;
   columns(): ColumnSet;
   rows(): number;
   theme: string;
+  /** Counter gate of the run: the ±1-count resolution of its readings. */
+  gateS?: number;
 }
 
 export function PushingFigures({ source }: { source: PushingSource }) {
   const outcome = useMemo(() => analyzePushingColumns(source.columns(), source.rows()), [source.key]);
   const a = outcome.ok ? outcome.analysis : null;
-  const plot = useMemo(() => (a ? pushingPlotColumns(a) : null), [a]);
+  const plot = useMemo(() => (a ? pushingPlotColumns(a, source.gateS) : null), [a]);
+  const readouts = plot ? pushingReadouts(plot, source.gateS) : null;
   return (
     <div className="sweep-figures">
       <div className="plots">
-        {plot ? (
+        {plot && readouts ? (
           <PlotPanel
             testId="pushing-plot"
             title="Frequency against DUT supply voltage"
@@ -36,9 +39,9 @@ export function PushingFigures({ source }: { source: PushingSource }) {
                 width,
                 height,
                 [
-                  xSeries('V', 'Supply'),
-                  pointSeries('Mean frequency', colors.series[0], 'Hz'),
-                  lineSeries('Fitted line', colors.fit, 'Hz', { width: 2 }),
+                  xSeries('Supply', readouts.supply),
+                  pointSeries('Mean frequency', colors.series[0], readouts.mean),
+                  lineSeries('Fitted line', colors.fit, readouts.line, { width: 2 }),
                 ],
                 [siAxis(colors, 'DUT supply', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 96 })],
               )

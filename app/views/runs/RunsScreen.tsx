@@ -3,6 +3,7 @@ import { useEffect, useRef, useState } from 'react';
 import type uPlot from 'uplot';
 import type { RunMeta } from '../../contract/bench-api.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
+import { coarsestReadout, counterReadout, voltsReadout } from '../../plots/readout.ts';
 import { baseOptions, lineSeries, pointSeries, siAxis, xSeries } from '../../plots/plot-options.ts';
 import { useStore } from '../../state/use-store.ts';
 import { useApp } from '../app-context.ts';
@@ -175,6 +176,9 @@ function Overlay({ ids }: { ids: string[] }) {
   const loaded = sweeps.map((id) => opened[id]).filter((r) => r !== undefined);
   const merged = overlayColumns(loaded.map((r) => ({ columns: r.columns, rows: r.rows })));
   const labels = loaded.map((r) => `${r.detail.meta.dut.id} · ${when(r.detail.meta.startedAt)}`);
+  // Each run's readings to its own counter's 1/gate; shared read-outs (cursors, differences) to the coarsest.
+  const readings = loaded.map((r) => counterReadout(planHints(r.detail.meta.plan).gateS));
+  const coarsest = coarsestReadout(readings);
   const refIndex = Math.max(
     0,
     loaded.findIndex((r) => r.detail.meta.id === referenceId),
@@ -205,9 +209,9 @@ function Overlay({ ids }: { ids: string[] }) {
             width,
             height,
             [
-              xSeries('V', 'Control'),
+              xSeries('Control', voltsReadout),
               ...labels.map((label, i) =>
-                pointSeries(label, colors.series[i % colors.series.length] ?? colors.text, 'Hz', {
+                pointSeries(label, colors.series[i % colors.series.length] ?? colors.text, readings[i] ?? coarsest, {
                   points: { show: true, size: 5 },
                 }),
               ),
@@ -215,7 +219,7 @@ function Overlay({ ids }: { ids: string[] }) {
             [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
           )
         }
-        cursorUnits={{ x: 'V', y: 'Hz' }}
+        cursorReadouts={{ x: voltsReadout, y: coarsest }}
       />
       <PlotPanel
         testId="difference-plot"
@@ -228,9 +232,9 @@ function Overlay({ ids }: { ids: string[] }) {
             width,
             height,
             [
-              xSeries('V', 'Control'),
+              xSeries('Control', voltsReadout),
               ...others.map(({ i }) =>
-                lineSeries(labels[i] ?? '', colors.series[i % colors.series.length] ?? colors.text, 'Hz', {
+                lineSeries(labels[i] ?? '', colors.series[i % colors.series.length] ?? colors.text, coarsest, {
                   points: { show: true, size: 5 },
                   spanGaps: true,
                 }),
@@ -239,7 +243,7 @@ function Overlay({ ids }: { ids: string[] }) {
             [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Difference', 'Hz', { size: 84 })],
           )
         }
-        cursorUnits={{ x: 'V', y: 'Hz' }}
+        cursorReadouts={{ x: voltsReadout, y: coarsest }}
       />
     </>
   );

@@ -10,6 +10,8 @@ import { pushingInputFromColumns } from '../../state/column-inputs.ts';
 import type { ColumnSet } from '../../state/columns.ts';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import { figure, setpointText, type FigureText } from '../figure-text.ts';
+import { meanReadingUncertainty } from '../../analysis/point-uncertainty.ts';
+import { counterReadout, voltsReadout, type Readout } from '../../plots/readout.ts';
 
 export type PushingOutcome = AnalysisOutcome<PushingAnalysis>;
 
@@ -23,15 +25,30 @@ export interface PushingPlotColumns {
   meanHz: (number | null)[];
   /** The least-squares line f(V) = f(nominal) + Hz/V·(V − nominal). */
   lineHz: number[];
+  /** 1σ of each mean: its readings' standard error and ±1 count of the gate. */
+  meanU: number[];
 }
 
-export function pushingPlotColumns(analysis: PushingAnalysis): PushingPlotColumns {
+export function pushingPlotColumns(analysis: PushingAnalysis, gateS?: number): PushingPlotColumns {
   const points = [...analysis.points].sort((a, b) => a.supplyV - b.supplyV);
   const line = (v: number) => analysis.frequencyAtNominalHz + analysis.pushingHzPerV * (v - analysis.nominalSupplyV);
   return {
     supplyV: points.map((p) => p.supplyV),
     meanHz: points.map((p) => (Number.isFinite(p.meanHz) ? p.meanHz : null)),
     lineHz: points.map((p) => line(p.supplyV)),
+    meanU: points.map((p) => meanReadingUncertainty(p.sdHz, p.readings - p.noOscillation, gateS)),
+  };
+}
+
+/** The pushing plot's read-outs: supply setpoints to the supply's resolution, means with their 1σ, the line to 1/gate. */
+export function pushingReadouts(
+  plot: PushingPlotColumns,
+  gateS?: number,
+): { supply: Readout; mean: Readout; line: Readout } {
+  return {
+    supply: voltsReadout,
+    mean: counterReadout(gateS, (i) => plot.meanU[i] ?? null),
+    line: counterReadout(gateS),
   };
 }
 

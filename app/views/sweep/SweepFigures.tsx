@@ -15,7 +15,8 @@ import { deadMarksPlugin } from '../../plots/dead-marks-plugin.ts';
 import { regionsPlugin, type XRegion } from '../../plots/regions-plugin.ts';
 import { buildSweepDisplay, liveStallEstimateV } from '../../plots/sweep-display.ts';
 import { FigureList } from '../FigureList.tsx';
-import { readingText, setpointText } from '../figure-text.ts';
+import { setpointText } from '../figure-text.ts';
+import { readoutText } from '../../plots/readout.ts';
 import { sameSetpointValue } from './direction-readout.ts';
 import {
   fitOnX,
@@ -27,6 +28,7 @@ import {
   type SweepOutcome,
 } from './sweep-figures.ts';
 import { sweepKeyFigures } from './sweep-key-figures.ts';
+import { residualUncertainty, sweepReadouts } from './sweep-readouts.ts';
 
 export interface SweepSource {
   /** Identity of the data set (run id); a new id rebuilds the charts. */
@@ -122,9 +124,15 @@ export function SweepFigures({ source }: { source: SweepSource }) {
     return [shown.x, shown.up, shown.down, fit] as uPlot.AlignedData;
   };
   const buildKey = `${source.key}|${source.theme}|${analysis ? 'fit' : 'live'}`;
-  const resolution = source.gateS ? 1 / source.gateS : null;
   const gain = analysis ? gainColumns(analysis) : null;
   const residuals = analysis ? residualColumns(analysis) : null;
+  const readouts = sweepReadouts(
+    analysis,
+    source.gateS,
+    (i) => shownRef.current.x[i],
+    gain,
+    analysis ? residualUncertainty(analysis, source.gateS) : null,
+  );
 
   return (
     <div className="sweep-figures">
@@ -141,30 +149,30 @@ export function SweepFigures({ source }: { source: SweepSource }) {
           height={340}
           data={sweepData}
           watch={source.watch}
-          cursorUnits={{ x: 'V', y: 'Hz' }}
+          cursorReadouts={{ x: readouts.control, y: readouts.reading }}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
               [
-                xSeries('V', 'Control'),
+                xSeries('Control', readouts.control),
                 // Rising as filled dots, falling as wider rings around them: where both agree, both stay visible.
-                pointSeries('Rising', colors.series[0], 'Hz', {
+                pointSeries('Rising', colors.series[0], readouts.reading, {
                   value: (_u, v, _s, k) =>
-                    readingText(
+                    readoutText(
+                      readouts.reading,
                       v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.up, k)),
-                      resolution,
                     ),
                 }),
-                pointSeries('Falling', colors.series[1], 'Hz', {
+                pointSeries('Falling', colors.series[1], readouts.reading, {
                   points: { show: true, size: 11, width: 1.5, stroke: colors.series[1], fill: 'transparent' },
                   value: (_u, v, _s, k) =>
-                    readingText(
+                    readoutText(
+                      readouts.reading,
                       v ?? (k === null ? null : sameSetpointValue(shownRef.current.x, shownRef.current.down, k)),
-                      resolution,
                     ),
                 }),
-                lineSeries('Fitted curve', colors.fit, 'Hz', { width: 2 }),
+                lineSeries('Fitted curve', colors.fit, readouts.fit, { width: 2 }),
               ],
               [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
               {
@@ -197,9 +205,9 @@ export function SweepFigures({ source }: { source: SweepSource }) {
                 width,
                 height,
                 [
-                  xSeries('V', 'Control'),
-                  lineSeries('Kvco', colors.series[0], 'Hz/V', { points: { show: true, size: 4 } }),
-                  pointSeries("Kvco, unsteady or stall edge's zone (not quoted)", colors.series[1], 'Hz/V'),
+                  xSeries('Control', readouts.control),
+                  lineSeries('Kvco', colors.series[0], readouts.kvco, { points: { show: true, size: 4 } }),
+                  pointSeries("Kvco, unsteady or stall edge's zone (not quoted)", colors.series[1], readouts.kvco),
                 ],
                 [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Kvco', 'Hz/V', { size: 84 })],
               )
@@ -217,7 +225,7 @@ export function SweepFigures({ source }: { source: SweepSource }) {
               baseOptions(
                 width,
                 height,
-                [xSeries('V', 'Control'), pointSeries('Residual', colors.series[2], 'Hz')],
+                [xSeries('Control', readouts.control), pointSeries('Residual', colors.series[2], readouts.residual)],
                 [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Residual', 'Hz', { size: 84 })],
               )
             }

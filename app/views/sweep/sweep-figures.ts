@@ -46,12 +46,18 @@ export function fitOnX(analysis: SweepAnalysis, x: readonly number[]): (number |
 
 /** Linear interpolation in the fitted curve's samples (display only). */
 function onCurve(curve: SweepAnalysis['fit']['curve'], v: number): number {
+  return alongCurve(curve.v, curve.hz, v);
+}
+
+/** Linear interpolation of `ys` on the curve's ascending grid `grid` (its band, its frequency); clamped to the ends. */
+export function alongCurve(grid: readonly number[], ys: readonly number[], v: number): number {
   let i = 1;
-  while (i < curve.v.length - 1 && (curve.v[i] as number) < v) i++;
-  const v0 = curve.v[i - 1] as number;
-  const v1 = curve.v[i] as number;
-  const t = v1 > v0 ? (v - v0) / (v1 - v0) : 0;
-  return (curve.hz[i - 1] as number) + t * ((curve.hz[i] as number) - (curve.hz[i - 1] as number));
+  while (i < grid.length - 1 && (grid[i] as number) < v) i++;
+  const v0 = grid[i - 1] as number;
+  const v1 = grid[i] ?? v0;
+  const t = v1 > v0 ? Math.min(1, Math.max(0, (v - v0) / (v1 - v0))) : 0;
+  const y0 = ys[i - 1] as number;
+  return y0 + t * ((ys[i] ?? y0) - y0);
 }
 
 /**
@@ -129,6 +135,8 @@ export interface GainColumns {
   v: number[];
   stable: (number | null)[];
   unstable: (number | null)[];
+  /** 1σ of each local Kvco (its read-out's digits). */
+  u: number[];
 }
 
 /** Local Kvco in two series: quoted, and not quoted (unsteady, or in the stall edge's zone) — drawn apart. */
@@ -140,6 +148,7 @@ export function gainColumns(analysis: SweepAnalysis): GainColumns {
     v: local.map((k) => k.v),
     stable: local.map((k) => (out(k) || !Number.isFinite(k.hzPerV) ? null : k.hzPerV)),
     unstable: local.map((k) => (out(k) && Number.isFinite(k.hzPerV) ? k.hzPerV : null)),
+    u: local.map((k) => k.uncertaintyHzPerV),
   };
 }
 

@@ -164,10 +164,15 @@ async function runClaimed(
     writes = writes.then(() => writeCampaignFile(dir, snapshot)).then(beat);
     return writes;
   };
-  const events: Promise<void>[] = [];
+  // Event lines and soak rows are appended one after another, in the order they happened: concurrent appends
+  // to one file land in whatever order the disk finishes them, and the same seed must give the same files.
+  let appends = Promise.resolve();
+  const append = (write: () => Promise<void>): void => {
+    appends = appends.then(write).catch(() => undefined);
+  };
   const event = (body: EventBody): void => {
     const stamped = { time_s: clock.now() - startS, at: clock.wallTimeIso(), ...body };
-    events.push(appendCampaignEvent(dir, stamped).catch(() => undefined));
+    append(() => appendCampaignEvent(dir, stamped));
     options.onEvent?.(stamped);
   };
   const setState = async (entry: CampaignEntry, state: CampaignEntry['state'], message?: string): Promise<void> => {
@@ -229,16 +234,15 @@ async function runClaimed(
           drift: { controlV: nominalControlV, limits: plan.sweep.limits, gateS: plan.sweep.gateS },
           event,
           onSample: (sample) => {
-            events.push(
-              appendSoakRow(dir, [
-                entry.index,
-                sample.timeS - startS,
-                sample.setpointC,
-                sample.airC,
-                sample.dutC,
-                sample.frequencyHz,
-              ]).catch(() => undefined),
-            );
+            const row = [
+              entry.index,
+              sample.timeS - startS,
+              sample.setpointC,
+              sample.airC,
+              sample.dutC,
+              sample.frequencyHz,
+            ];
+            append(() => appendSoakRow(dir, row));
             options.onSoakSample?.(entry, sample);
           },
         });
@@ -340,7 +344,7 @@ async function runClaimed(
   const safe = await campaignSafeState({ ...bench, chamber }, plan, event);
   event({ type: 'campaign-end', status: file.status, safe_state_ok: safe.ok });
   await save();
-  await Promise.all(events);
+  await appends;
   return { dir, file, safeStateOk: safe.ok, failure };
 }
 
