@@ -1,15 +1,15 @@
 /**
  * Short human-readable summaries of analyses (CLI text output, tooltips).
  */
-import type { AnyAnalysis } from './analyze-table.ts';
+import type { AnyAnalysis, AnyColumnAnalysis } from './analyze-table.ts';
 import type { DriftAnalysis } from './drift-analysis.ts';
 import { formatFigure, formatSignificance } from './format-figure.ts';
 import { formatDuration, formatNumber, formatPlain, formatSi, formatSiWithUncertainty } from './format-si.ts';
 import type { PushingAnalysis } from './pushing-analysis.ts';
 import type { RunQuality } from './run-quality.ts';
-import type { SweepAnalysis } from './sweep-types.ts';
+import type { SweepAnalysisOf } from './sweep-types.ts';
 
-function sweepLines(a: SweepAnalysis): string[] {
+function sweepLines(a: SweepAnalysisOf<unknown, unknown>): string[] {
   const t = a.tuningRange;
   const s = a.stall;
   const k = a.kvco;
@@ -100,7 +100,7 @@ function qualityLine(q: RunQuality): string {
   return `data quality      ${parts.join(', ')}`;
 }
 
-export function summarizeAnalysis(a: AnyAnalysis): string {
+export function summarizeAnalysis(a: AnyAnalysis | AnyColumnAnalysis): string {
   const lines = a.kind === 'sweep' ? sweepLines(a) : a.kind === 'drift' ? driftLines(a) : pushingLines(a);
   if (a.quality) lines.push(qualityLine(a.quality));
   const warnings = 'warnings' in a ? a.warnings : [];

@@ -6,12 +6,14 @@ import { driftInputFromTable, pushingInputFromTable, sweepInputFromTable, type C
 import type { ColumnTable } from '../contract/column-table.ts';
 import { analyzeDrift, type DriftAnalysis, type DriftOptions } from './drift-analysis.ts';
 import { analyzePushing, type PushingAnalysis } from './pushing-analysis.ts';
-import { analyzeSweep, type SweepOptions } from './sweep-analysis.ts';
+import { analyzeSweepColumns, sweepAnalysisRows, type SweepOptions } from './sweep-analysis.ts';
 import { qualityWarnings, runQuality, type RunEventLike, type RunQuality } from './run-quality.ts';
-import type { SweepAnalysis } from './sweep-types.ts';
+import type { SweepAnalysis, SweepColumnAnalysis } from './sweep-types.ts';
 
 /** Any analysis; `quality` is there when events (a run folder) were given. */
 export type AnyAnalysis = (SweepAnalysis | DriftAnalysis | PushingAnalysis) & { quality?: RunQuality };
+/** The same with a sweep's `points` and `kvco.local` as columns (sweep-columns.ts). */
+export type AnyColumnAnalysis = (SweepColumnAnalysis | DriftAnalysis | PushingAnalysis) & { quality?: RunQuality };
 
 export interface TableAnalysisOptions {
   sweep?: SweepOptions;
@@ -23,13 +25,23 @@ export interface TableAnalysisOptions {
 }
 
 export function analyzeTable(kind: CsvKind, table: ColumnTable, options: TableAnalysisOptions = {}): AnyAnalysis {
+  const result = analyzeTableColumns(kind, table, options);
+  return result.kind === 'sweep' ? sweepAnalysisRows(result) : result;
+}
+
+/** analyzeTable with a sweep's per-point parts as columns: what a writer of a million points wants. */
+export function analyzeTableColumns(
+  kind: CsvKind,
+  table: ColumnTable,
+  options: TableAnalysisOptions = {},
+): AnyColumnAnalysis {
   const checked = options.events ? runQuality(table, options.events) : null;
-  let result: AnyAnalysis;
+  let result: AnyColumnAnalysis;
   switch (kind) {
     case 'sweep': {
       const input = sweepInputFromTable(table, options.gateS);
       if (checked) input.unsettled = checked.unsettledRows;
-      const sweep = analyzeSweep(input, options.sweep);
+      const sweep = analyzeSweepColumns(input, options.sweep);
       if (checked) checked.quality.unsettledPointsLeftOut = sweep.fit.unsettledLeftOutV.length;
       result = sweep;
       break;

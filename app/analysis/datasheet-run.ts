@@ -5,24 +5,12 @@
  * two write the same files.
  */
 import { z } from 'zod';
-import type { CsvKind } from './csv-columns.ts';
-import type { RunConditions, RunOrigin } from './datasheet.ts';
+import type { RunOrigin } from './datasheet.ts';
 import { isSimulatedBench } from '../contract/run-meta-schema.ts';
 import { meanOfFinite } from './mean-finite.ts';
+import type { PlanHints, RunHints } from './run-conditions.ts';
 
-/** "run id (DUT id)", or the run id alone. */
-export function datasheetRunLabel(runId: string, dutId: string): string {
-  return `${runId}${dutId ? ` (${dutId})` : ''}`;
-}
-
-/** Plan fields that say something about the conditions (each optional). */
-export interface PlanHints {
-  gateS?: number;
-  supplyV?: number;
-  dutSupplyV?: number;
-  /** The plan's tuning window, V. */
-  window?: { fromV: number; toV: number };
-}
+export { datasheetRunLabel, runConditions, type PlanHints, type RunHints } from './run-conditions.ts';
 
 // Each field on its own: a malformed one is ignored, the others still count (they are hints).
 const planHintsSchema = z.looseObject({
@@ -45,14 +33,6 @@ export function planHints(plan: unknown): PlanHints {
   if (w && Number.isFinite(w.fromV) && Number.isFinite(w.toV) && w.toV > w.fromV)
     hints.window = { fromV: w.fromV, toV: w.toV };
   return hints;
-}
-
-/** Plan hints plus the conditions run.json recorded around the run (each optional). */
-export interface RunHints extends PlanHints {
-  /** Mean of the temperatures read at the start and end of the run. */
-  recordedTemperatureC?: number;
-  /** Mean of the DUT supply voltages read at the start and end of the run. */
-  recordedDutSupplyV?: number;
 }
 
 // run.json `conditions` ({ start, end } per condition, null when not read); malformed parts are ignored.
@@ -82,23 +62,6 @@ export function runHints(meta: { plan: unknown; conditions?: unknown }): RunHint
   if (temperatureC !== undefined) hints.recordedTemperatureC = temperatureC;
   if (dutSupplyV !== undefined) hints.recordedDutSupplyV = dutSupplyV;
   return hints;
-}
-
-/**
- * Conditions of one run: mean logged temperature and supply; without a
- * logged column, the mean of those recorded at the run's start and end (then
- * the plan's supply); gate from the plan. A pushing run varies the supply on
- * purpose, so it has no single supply condition.
- */
-export function runConditions(
-  kind: CsvKind,
-  columns: { temperatureC?: ArrayLike<number> | null; supplyV?: ArrayLike<number> | null },
-  hints: RunHints,
-): RunConditions {
-  const supplyV =
-    meanOfFinite(columns.supplyV) ?? hints.recordedDutSupplyV ?? hints.supplyV ?? hints.dutSupplyV ?? null;
-  const temperatureC = meanOfFinite(columns.temperatureC) ?? hints.recordedTemperatureC ?? null;
-  return { temperatureC, supplyV: kind === 'pushing' ? null : supplyV, gateS: hints.gateS ?? null };
 }
 
 /** What run.json says that decides whether a run may enter a gain table (status, DUT, simulated bench). */

@@ -106,10 +106,34 @@ export function solveLeastSquaresInPlace(
   y: Float64Array,
 ): LeastSquaresSolution {
   const { diagR, fullRank } = householderInPlace(a, rows, cols, y);
+  const { coefficients, unscaledCovariance } = solveTriangular(
+    diagR,
+    (i, j) => a[j * rows + i] as number,
+    y,
+    cols,
+    fullRank,
+  );
+  let rss = 0;
+  for (let i = cols; i < rows; i++) rss += (y[i] as number) * (y[i] as number);
+  return { coefficients, unscaledCovariance, residualSumSquares: rss, fullRank };
+}
+
+/**
+ * Coefficients b from R·b = (Qᵀy)[0…cols) by back substitution, and (AᵀA)⁻¹ = R⁻¹R⁻ᵀ:
+ * R's diagonal in diagR, its entries above it from `above(i, j)` (i < j). All zero
+ * when not of full rank. (Shared with the matrix-free quadratic, poly-fit-quadratic.ts.)
+ */
+export function solveTriangular(
+  diagR: Float64Array,
+  above: (i: number, j: number) => number,
+  y: ArrayLike<number>,
+  cols: number,
+  fullRank: boolean,
+): { coefficients: Float64Array; unscaledCovariance: Float64Array } {
   const b = new Float64Array(cols);
   const rinv = new Float64Array(cols * cols); // row-major upper-triangular R⁻¹
   if (fullRank) {
-    const r = (i: number, j: number): number => (i === j ? (diagR[i] as number) : (a[j * rows + i] as number));
+    const r = (i: number, j: number): number => (i === j ? (diagR[i] as number) : above(i, j));
     for (let i = cols - 1; i >= 0; i--) {
       let s = y[i] as number;
       for (let j = i + 1; j < cols; j++) s -= r(i, j) * (b[j] as number);
@@ -133,7 +157,5 @@ export function solveLeastSquaresInPlace(
       cov[j * cols + i] = s;
     }
   }
-  let rss = 0;
-  for (let i = cols; i < rows; i++) rss += (y[i] as number) * (y[i] as number);
-  return { coefficients: b, unscaledCovariance: cov, residualSumSquares: rss, fullRank };
+  return { coefficients: b, unscaledCovariance: cov };
 }

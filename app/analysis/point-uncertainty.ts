@@ -24,8 +24,11 @@ export function meanReadingUncertainty(sdHz: number, n: number, gateS: number | 
 }
 
 /** RMS of u over the given points: the pooled scatter a fit's residual SD is judged against. */
-export function rmsUncertainty(u: Float64Array, indices: readonly number[]): number {
+export function rmsUncertainty(u: Float64Array, indices: ArrayLike<number>): number {
   let sum = 0;
-  for (const i of indices) sum += (u[i] as number) * (u[i] as number);
+  for (let k = 0; k < indices.length; k++) {
+    const i = indices[k] as number;
+    sum += (u[i] as number) * (u[i] as number);
+  }
   return Math.sqrt(sum / indices.length);
 }

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { solveQuadraticScaled } from './poly-fit-quadratic.ts';
 import { fitPolynomialAuto } from './poly-fit-auto.ts';
 import { derivativeStdDev, evalPoly, evalPolyDerivative, fitPolynomial } from './poly-fit.ts';
 
@@ -97,31 +98,39 @@ describe('fitPolynomial recovers random exact polynomials (property)', () => {
   });
 });
 
+const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
+
+/**
+ * Property: the matrix-free path of `degree` gives exactly the general QR path's fit (or the same refusal), on
+ * random points with x from `xArb`, from a random start index. Equality is exact (toEqual on every number and
+ * Float64Array element), not a tolerance: the matrix-free paths claim the same floating-point operations.
+ */
+function sameAsGeneralPath(degree: number, xArb: fc.Arbitrary<number>): void {
+  fc.assert(
+    fc.property(
+      fc.array(fc.tuple(xArb, finite(-1e12, 1e12)), { minLength: degree + 1, maxLength: 60 }),
+      fc.nat(3),
+      (pairs, skip) => {
+        const xs = Float64Array.from(pairs, (p) => p[0]);
+        const ys = Float64Array.from(pairs, (p) => p[1]);
+        const i0 = Math.min(skip, pairs.length - degree - 1);
+        const run = (general: boolean): unknown => {
+          try {
+            return fitPolynomial(xs, ys, i0, pairs.length, degree, general);
+          } catch (error) {
+            return String(error);
+          }
+        };
+        expect(run(false)).toEqual(run(true));
+      },
+    ),
+    { numRuns: 400 },
+  );
+}
+
 describe('fitPolynomial: the matrix-free straight line', () => {
-  // The line path claims the same floating-point operations as design matrix + Householder QR;
-  // equality here is exact (toEqual on every number and Float64Array element), not a tolerance.
   it('is bit-for-bit the general QR path (property, incl. offsets, wide ranges and windows)', () => {
-    const finite = (lo: number, hi: number) => fc.double({ min: lo, max: hi, noNaN: true, noDefaultInfinity: true });
-    fc.assert(
-      fc.property(
-        fc.array(fc.tuple(finite(-1e9, 1e9), finite(-1e12, 1e12)), { minLength: 2, maxLength: 60 }),
-        fc.nat(3),
-        (pairs, skip) => {
-          const xs = Float64Array.from(pairs, (p) => p[0]);
-          const ys = Float64Array.from(pairs, (p) => p[1]);
-          const i0 = Math.min(skip, pairs.length - 2);
-          const run = (general: boolean): unknown => {
-            try {
-              return fitPolynomial(xs, ys, i0, pairs.length, 1, general);
-            } catch (error) {
-              return String(error);
-            }
-          };
-          expect(run(false)).toEqual(run(true));
-        },
-      ),
-      { numRuns: 400 },
-    );
+    sameAsGeneralPath(1, finite(-1e9, 1e9));
   });
 
   it('same on a long, drift-like record, and the same refusal when every x is equal', () => {
@@ -131,5 +140,26 @@ describe('fitPolynomial: the matrix-free straight line', () => {
     expect(fitPolynomial(t, f, 17, n, 1)).toEqual(fitPolynomial(t, f, 17, n, 1, true));
     const flat = new Float64Array(5).fill(2);
     expect(() => fitPolynomial(flat, f, 0, 5, 1)).toThrow('needs 2 distinct x values');
+  });
+});
+
+describe('fitPolynomial: the matrix-free quadratic', () => {
+  it('is bit-for-bit the general QR path (property, incl. offsets, wide ranges, windows and repeated x)', () => {
+    sameAsGeneralPath(2, fc.oneof(finite(-1e9, 1e9), fc.integer({ min: -3, max: 3 })));
+  });
+
+  it('same on a long tuning-curve-like record, and the same refusal with two distinct x', () => {
+    const n = 20_000;
+    const v = Float64Array.from({ length: n }, (_, i) => 0.5 + i * 4e-6);
+    const f = Float64Array.from(
+      { length: n },
+      (_, i) => 8000 + 2000 * (v[i] as number) + 30 * (v[i] as number) ** 2 + Math.sin(i * 12.9898) * 0.5,
+    );
+    const fit = fitPolynomial(v, f, 5, n, 2);
+    expect(fit).toEqual(fitPolynomial(v, f, 5, n, 2, true));
+    expect(fit.coefficients[2]).toBeCloseTo(30, 0); // the curvature put in, within the ripple
+    expect(solveQuadraticScaled(v, f, 5, n)?.coefficients).toEqual(fit.scaledCoefficients); // the matrix-free path ran
+    const two = Float64Array.from([1, 2, 1, 2, 1]);
+    expect(() => fitPolynomial(two, f, 0, 5, 2)).toThrow('needs 3 distinct x values');
   });
 });

@@ -6,6 +6,7 @@
  */
 import { solveLeastSquaresInPlace } from './least-squares.ts';
 import { centreAndScale, solveLineScaled, type ScaledSolution } from './poly-fit-line.ts';
+import { solveQuadraticScaled } from './poly-fit-quadratic.ts';
 
 export interface PolyFit {
   degree: number;
@@ -73,8 +74,8 @@ function solveScaled(xs: Float64Array, ys: Float64Array, i0: number, i1: number,
 
 /**
  * Least-squares polynomial of `degree` through (xs[i], ys[i]), i0 ≤ i < i1.
- * A straight line takes the matrix-free path (same arithmetic, no allocation
- * per point) unless `general` is set (tests compare the two).
+ * A straight line and a quadratic take the matrix-free paths (same arithmetic,
+ * no allocation per point) unless `general` is set (tests compare the two).
  */
 export function fitPolynomial(
   xs: Float64Array,
@@ -90,7 +91,10 @@ export function fitPolynomial(
   const n = i1 - i0;
   const p = degree + 1;
   if (n < p) throw new RangeError(`a degree-${degree} fit needs at least ${p} points (got ${n})`);
-  const sol = p === 2 && !general ? solveLineScaled(xs, ys, i0, i1) : solveScaled(xs, ys, i0, i1, p);
+  const sol =
+    p === 2 && !general
+      ? solveLineScaled(xs, ys, i0, i1)
+      : ((p === 3 && !general ? solveQuadraticScaled(xs, ys, i0, i1) : null) ?? solveScaled(xs, ys, i0, i1, p));
   const { centre, scale } = sol;
   if (!sol.fullRank) throw new RangeError(`a degree-${degree} fit needs ${p} distinct x values`);
   const b = sol.coefficients;

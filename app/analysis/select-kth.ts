@@ -42,3 +42,16 @@ function medianOfThree(a: number, b: number, c: number): number {
   if (a < b) return b < c ? b : a < c ? c : a;
   return a < c ? a : b < c ? c : b;
 }
+
+/**
+ * `values.sort()[k]` (a typed array's numeric order, NaN last) without the
+ * sort: in place by kthSmallestInPlace when no value is NaN, else by sorting.
+ * Reorders `values`. (A −0 may come back as 0 or the other way round; they
+ * compare equal.)
+ */
+export function sortedAtInPlace(values: Float64Array, k: number): number {
+  for (let i = 0; i < values.length; i++) {
+    if (Number.isNaN(values[i])) return values.sort()[k] as number;
+  }
+  return kthSmallestInPlace(values, k);
+}

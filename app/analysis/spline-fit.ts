@@ -21,6 +21,7 @@
  * keeps its quadratic forms well scaled at 400 MHz.
  */
 import { evalPoly, fitPolynomial } from './poly-fit.ts';
+import { sortedAtInPlace } from './select-kth.ts';
 
 const BAND = 3; // cubic B-splines overlap 4 wide; the 3rd-difference penalty too
 const MAX_SEGMENTS = 40;
@@ -56,30 +57,29 @@ export interface SplineOptions {
   monotone?: 'rising' | 'falling' | null;
 }
 
-interface Basis {
-  j: number;
-  b: number[];
-}
+/** The four non-zero B-splines (or their derivatives) at the last `basisAt`'s x: one buffer, no allocation per call. */
+const BASIS = new Float64Array(4);
 
-/** The four non-zero cubic B-splines at x (uniform knots) and the first index. */
-function basisAt(fromV: number, h: number, segments: number, x: number, derivative: boolean): Basis {
+/** Fills BASIS with the four non-zero cubic B-splines at x (uniform knots) and returns the first index. */
+function basisAt(fromV: number, h: number, segments: number, x: number, derivative: boolean): number {
   const u = (x - fromV) / h;
   let j = Math.floor(u);
   if (j < 0) j = 0;
   if (j > segments - 1) j = segments - 1;
   const t = u - j;
   const s = 1 - t;
-  if (!derivative)
-    return {
-      j,
-      b: [
-        (s * s * s) / 6,
-        (3 * t * t * t - 6 * t * t + 4) / 6,
-        (-3 * t * t * t + 3 * t * t + 3 * t + 1) / 6,
-        (t * t * t) / 6,
-      ],
-    };
-  return { j, b: [(-s * s) / 2 / h, (3 * t * t - 4 * t) / 2 / h, (-3 * t * t + 2 * t + 1) / 2 / h, (t * t) / 2 / h] };
+  if (!derivative) {
+    BASIS[0] = (s * s * s) / 6;
+    BASIS[1] = (3 * t * t * t - 6 * t * t + 4) / 6;
+    BASIS[2] = (-3 * t * t * t + 3 * t * t + 3 * t + 1) / 6;
+    BASIS[3] = (t * t * t) / 6;
+  } else {
+    BASIS[0] = (-s * s) / 2 / h;
+    BASIS[1] = (3 * t * t - 4 * t) / 2 / h;
+    BASIS[2] = (-3 * t * t + 2 * t + 1) / 2 / h;
+    BASIS[3] = (t * t) / 2 / h;
+  }
+  return j;
 }
 
 /** Banded Cholesky A = L·Lᵀ in place on a dense row-major K×K lower triangle. False if not positive definite. */
@@ -147,8 +147,7 @@ export function fitUniformSpline(
   const k = segments + 3;
   // Weights 1/u², with u floored at half the median: a point whose few readings
   // happened to agree must not pin the curve.
-  const us = Float64Array.from(u.subarray(i0, i1)).sort();
-  const uFloor = 0.5 * (us[n >> 1] as number);
+  const uFloor = 0.5 * sortedAtInPlace(Float64Array.from(u.subarray(i0, i1)), n >> 1);
   const q = fitPolynomial(xs, ys, i0, i1, 2);
   const g = new Float64Array(k * k);
   const c = new Float64Array(k);
@@ -160,11 +159,11 @@ export function fitUniformSpline(
     const wi = 1 / (ui * ui);
     const r = (ys[i0 + i] as number) - evalPoly(q, x);
     yWy += wi * r * r;
-    const { j, b } = basisAt(fromV, h, segments, x, false);
+    const j = basisAt(fromV, h, segments, x, false);
     for (let p = 0; p < 4; p++) {
-      c[j + p] = (c[j + p] as number) + wi * (b[p] as number) * r;
+      c[j + p] = (c[j + p] as number) + wi * (BASIS[p] as number) * r;
       for (let s = 0; s <= p; s++)
-        g[(j + p) * k + j + s] = (g[(j + p) * k + j + s] as number) + wi * (b[p] as number) * (b[s] as number);
+        g[(j + p) * k + j + s] = (g[(j + p) * k + j + s] as number) + wi * (BASIS[p] as number) * (BASIS[s] as number);
     }
   }
   // Third-difference penalty P = DᵀD, D rows (−1, 3, −3, 1); lower triangle.
@@ -335,14 +334,26 @@ export function fitUniformSpline(
   return fit;
 }
 
+/** The pilot's values at its two ends, computed once per pilot (every warped evaluation needs them). */
+const warpEnds = new WeakMap<SplineFit, { g0: number; g1: number }>();
+
+function endsOf(pilot: SplineFit): { g0: number; g1: number } {
+  let ends = warpEnds.get(pilot);
+  if (!ends) {
+    ends = { g0: splineValue(pilot, pilot.fromV), g1: splineValue(pilot, pilot.toV) };
+    warpEnds.set(pilot, ends);
+  }
+  return ends;
+}
+
 function warpZ(pilot: SplineFit, v: number): number {
-  const g0 = splineValue(pilot, pilot.fromV);
-  const g1 = splineValue(pilot, pilot.toV);
+  const { g0, g1 } = endsOf(pilot);
   return 0.5 * ((v - pilot.fromV) / (pilot.toV - pilot.fromV)) + 0.5 * ((splineValue(pilot, v) - g0) / (g1 - g0));
 }
 
 function warpSlope(pilot: SplineFit, v: number): number {
-  const span = splineValue(pilot, pilot.toV) - splineValue(pilot, pilot.fromV);
+  const { g0, g1 } = endsOf(pilot);
+  const span = g1 - g0;
   return 0.5 / (pilot.toV - pilot.fromV) + (0.5 * splineSlope(pilot, v)) / span;
 }
 
@@ -378,9 +389,9 @@ export function fitSpline(
 /** f(v) in Hz. */
 export function splineValue(fit: SplineFit, v: number): number {
   if (fit.warp) return splineValue(innerOf(fit), warpZ(fit.warp, v));
-  const { j, b } = basisAt(fit.fromV, (fit.toV - fit.fromV) / fit.segments, fit.segments, v, false);
+  const j = basisAt(fit.fromV, (fit.toV - fit.fromV) / fit.segments, fit.segments, v, false);
   let s = 0;
-  for (let p = 0; p < 4; p++) s += (b[p] as number) * (fit.coefficients[j + p] as number);
+  for (let p = 0; p < 4; p++) s += (BASIS[p] as number) * (fit.coefficients[j + p] as number);
   return s;
 }
 
@@ -399,20 +410,21 @@ export function splineSlope(fit: SplineFit, v: number): number {
 }
 
 function rawSlope(fit: SplineFit, v: number): number {
-  const { j, b } = basisAt(fit.fromV, (fit.toV - fit.fromV) / fit.segments, fit.segments, v, true);
+  const j = basisAt(fit.fromV, (fit.toV - fit.fromV) / fit.segments, fit.segments, v, true);
   let s = 0;
-  for (let p = 0; p < 4; p++) s += (b[p] as number) * (fit.coefficients[j + p] as number);
+  for (let p = 0; p < 4; p++) s += (BASIS[p] as number) * (fit.coefficients[j + p] as number);
   return s;
 }
 
-function bandForm(fit: SplineFit, basis: Basis): number {
+/** √(bᵀ C b) for the basis in BASIS starting at index j. */
+function bandForm(fit: SplineFit, j: number): number {
   const w = BAND + 1;
   let s = 0;
   for (let p = 0; p < 4; p++) {
     for (let r = 0; r < 4; r++) {
-      const i = basis.j + Math.min(p, r);
+      const i = j + Math.min(p, r);
       const d = Math.abs(p - r);
-      s += (basis.b[p] as number) * (basis.b[r] as number) * (fit.covarianceBand[i * w + d] as number);
+      s += (BASIS[p] as number) * (BASIS[r] as number) * (fit.covarianceBand[i * w + d] as number);
     }
   }
   return Math.sqrt(Math.max(s, 0));

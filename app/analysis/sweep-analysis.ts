@@ -12,7 +12,8 @@ import { fitTuningCurve, type FitSpec } from './sweep-fit.ts';
 import { compareDirections, type Hysteresis } from './sweep-hysteresis.ts';
 import { kvcoSummary } from './sweep-kvco-summary.ts';
 import { groupPoints, type Direction, type PointSet, type SweepInput } from './sweep-points.ts';
-import type { SweepAnalysis } from './sweep-types.ts';
+import { SweepPointColumns } from './sweep-columns.ts';
+import type { SweepAnalysis, SweepAnalysisOf, SweepColumnAnalysis } from './sweep-types.ts';
 import { usableRange, type UsableRange } from './sweep-usable-range.ts';
 import { formatFigure } from './format-figure.ts';
 import { fitRangeIndices, tuningWindow, type FitRangeRequest, type WindowRequest } from './sweep-window.ts';
@@ -51,7 +52,7 @@ function curveOf(input: SweepInput, direction: Direction, options: SweepOptions)
 }
 
 /** Lowest and highest mean frequency over the usable range [i0, i1). */
-function tuningRange(points: PointSet, u: Float64Array, i0: number, i1: number): SweepAnalysis['tuningRange'] {
+function tuningRange(points: PointSet, u: Float64Array, i0: number, i1: number): SweepColumnAnalysis['tuningRange'] {
   let iMin = i0;
   let iMax = i0;
   for (let i = i0; i < i1; i++) {
@@ -68,7 +69,20 @@ function tuningRange(points: PointSet, u: Float64Array, i0: number, i1: number):
   };
 }
 
+/** The analysis with `points` and `kvco.local` as rows of objects (the app's and the tests' shape). */
 export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): SweepAnalysis {
+  return sweepAnalysisRows(analyzeSweepColumns(input, options));
+}
+
+/** `points` and `kvco.local` of a column analysis as rows of objects; every other key as it is. */
+export function sweepAnalysisRows<A extends SweepColumnAnalysis>(
+  a: A,
+): Omit<A, 'points' | 'kvco'> & SweepAnalysisOf<SweepAnalysis['points'], SweepAnalysis['kvco']['local']> {
+  return { ...a, kvco: { ...a.kvco, local: a.kvco.local.rows() }, points: a.points.rows() };
+}
+
+/** The analysis with `points` and `kvco.local` as columns (sweep-columns.ts): no object per point. */
+export function analyzeSweepColumns(input: SweepInput, options: SweepOptions = {}): SweepColumnAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
   }
@@ -142,7 +156,7 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
     fit: fitted.json,
     window,
     usableRange: { ...usableV, edgeZone: zone },
-    points: pointsJson(points, edges, fitted.model, edges.usableI0, usable.zone.startI),
+    points: pointColumns(points, edges, fitted.model, edges.usableI0, usable.zone.startI),
     hysteresis,
     counter: { gateS: input.gateS ?? null, resolutionHz: input.gateS ? 1 / input.gateS : null },
     warnings,
@@ -150,7 +164,11 @@ export function analyzeSweep(input: SweepInput, options: SweepOptions = {}): Swe
 }
 
 /** The edge zone for the JSON, with the reason its points are out in words. */
-function edgeZoneJson(points: PointSet, edges: Edges, usable: UsableRange): SweepAnalysis['usableRange']['edgeZone'] {
+function edgeZoneJson(
+  points: PointSet,
+  edges: Edges,
+  usable: UsableRange,
+): SweepColumnAnalysis['usableRange']['edgeZone'] {
   const { zone } = usable;
   if (zone.startI <= edges.usableI0) return null;
   const fromV = points.v[edges.usableI0] as number;
@@ -170,31 +188,31 @@ function edgeZoneJson(points: PointSet, edges: Edges, usable: UsableRange): Swee
   };
 }
 
-function pointsJson(
+function pointColumns(
   points: PointSet,
   edges: Edges,
   model: TuningModel,
   zoneI0: number,
   zoneI1: number,
-): SweepAnalysis['points'] {
+): SweepPointColumns {
   const tol = 1e-9 * Math.max(1, Math.abs(model.toV));
-  // One object per point, built whole (keys in pointSummaries' order, then the flags): a
-  // million-point sweep makes no second object per row and no reshaping of the first.
-  const rows = new Array<SweepAnalysis['points'][number]>(points.count);
+  // The point set's own columns, shared: nothing changes them after this.
+  const out = new SweepPointColumns(points.count, {
+    v: points.v,
+    meanHz: points.meanHz,
+    sdHz: points.sdHz,
+    noOscillation: points.nNoOsc,
+    unstable: edges.unstable.subarray(0, points.count),
+    unsettled: points.unsettled,
+  });
   for (let i = 0; i < points.count; i++) {
     const v = points.v[i] as number;
-    const nNoOsc = points.nNoOsc[i] as number;
-    rows[i] = {
-      v,
-      meanHz: points.meanHz[i] as number,
-      sdHz: points.sdHz[i] as number,
-      readings: (points.nOsc[i] as number) + nNoOsc,
-      noOscillation: nNoOsc,
-      unstable: edges.unstable[i] === 1,
-      unsettled: points.unsettled[i] === 1,
-      edgeZone: i >= zoneI0 && i < zoneI1,
-      fitHz: v >= model.fromV - tol && v <= model.toV + tol ? model.value(v) : null,
-    };
+    out.readings[i] = (points.nOsc[i] as number) + (points.nNoOsc[i] as number);
+    if (i >= zoneI0 && i < zoneI1) out.edgeZone[i] = 1;
+    if (v >= model.fromV - tol && v <= model.toV + tol) {
+      out.fitted[i] = 1;
+      out.fitHz[i] = model.value(v);
+    }
   }
-  return rows;
+  return out;
 }

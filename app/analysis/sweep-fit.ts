@@ -31,21 +31,32 @@ export interface FittedCurve {
   rising: boolean;
 }
 
-/** Oscillating points of [f0, f1) the fit keeps, and the voltages of never-settled ones it leaves out. */
+/** Oscillating points of [f0, f1) the fit keeps (indices, ascending), and the voltages of never-settled ones it leaves out. */
 function fitPoints(
   points: PointSet,
   f0: number,
   f1: number,
   keepUnsettled: boolean,
-): { keep: number[]; leftOut: number[] } {
-  const keep: number[] = [];
+): { keep: Uint32Array; leftOut: number[] } {
+  const keep = new Uint32Array(Math.max(f1 - f0, 0));
   const leftOut: number[] = [];
+  let n = 0;
   for (let i = f0; i < f1; i++) {
     if (!((points.nOsc[i] as number) > 0)) continue;
     if (points.unsettled[i] === 1 && !keepUnsettled) leftOut.push(points.v[i] as number);
-    else keep.push(i);
+    else keep[n++] = i;
   }
-  return { keep, leftOut };
+  return { keep: keep.subarray(0, n), leftOut };
+}
+
+/** Column `values` at the kept indices: a view when they are one unbroken run (the usual case), else a copy. */
+function gather(values: Float64Array, keep: Uint32Array): Float64Array {
+  const n = keep.length;
+  const first = keep[0] as number;
+  if ((keep[n - 1] as number) - first === n - 1) return values.subarray(first, first + n);
+  const out = new Float64Array(n);
+  for (let k = 0; k < n; k++) out[k] = values[keep[k] as number] as number;
+  return out;
 }
 
 export function fitTuningCurve(
@@ -87,16 +98,16 @@ export function fitTuningCurve(
 function fitModel(
   points: PointSet,
   u: Float64Array,
-  keep: number[],
+  keep: Uint32Array,
   spec: FitSpec,
   monotone: 'rising' | 'falling' | null,
   warnings: string[],
   rmsU: number,
 ): { model: TuningModel; json: SweepAnalysis['fit'] } {
   const n = keep.length;
-  const v = Float64Array.from(keep, (i) => points.v[i] as number);
-  const f = Float64Array.from(keep, (i) => points.meanHz[i] as number);
-  const uk = Float64Array.from(keep, (i) => u[i] as number);
+  const v = gather(points.v, keep);
+  const f = gather(points.meanHz, keep);
+  const uk = gather(u, keep);
   const fromV = v[0] as number;
   const toV = v[n - 1] as number;
   if (spec === 'spline' && n >= 6) {

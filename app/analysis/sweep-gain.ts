@@ -33,8 +33,26 @@ export function localSlope(
   j0: number,
   j1: number,
 ): { slope: number; sd: number } {
+  const out = { slope: NaN, sd: NaN };
+  localSlopeInto(v, f, u, j0, j1, out);
+  return out;
+}
+
+/** localSlope written into `out` (a caller looping over a million points reuses one object). */
+export function localSlopeInto(
+  v: Float64Array,
+  f: Float64Array,
+  u: Float64Array,
+  j0: number,
+  j1: number,
+  out: { slope: number; sd: number },
+): void {
   const n = j1 - j0;
-  if (n < 2) return { slope: NaN, sd: NaN };
+  if (n < 2) {
+    out.slope = NaN;
+    out.sd = NaN;
+    return;
+  }
   let vm = 0;
   let fm = 0;
   for (let j = j0; j < j1; j++) {
@@ -55,7 +73,8 @@ export function localSlope(
     const w = ((v[j] as number) - vm) / sxx;
     var_ += w * w * (u[j] as number) * (u[j] as number);
   }
-  return { slope: sxy / sxx, sd: Math.sqrt(var_) };
+  out.slope = sxy / sxx;
+  out.sd = Math.sqrt(var_);
 }
 
 export interface LinearSummary {

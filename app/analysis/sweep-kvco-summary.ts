@@ -9,17 +9,17 @@ import type { Edges } from './sweep-edges.ts';
 import { bestLine, fitKvco, widestLinearRange } from './sweep-gain.ts';
 import { localKvcoEntries } from './sweep-local-kvco.ts';
 import type { PointSet } from './sweep-points.ts';
-import type { SweepAnalysis } from './sweep-types.ts';
+import type { SweepAnalysisOf, SweepColumnAnalysis } from './sweep-types.ts';
 import type { FittedCurve } from './sweep-fit.ts';
 
-type Kvco = SweepAnalysis['kvco'];
+type Kvco = SweepColumnAnalysis['kvco'];
 
 export interface KvcoSummaryInput {
   points: PointSet;
   edges: Edges;
   u: Float64Array;
   fitted: FittedCurve;
-  window: SweepAnalysis['window'];
+  window: SweepAnalysisOf<unknown, unknown>['window'];
   /** Window point indices [w0, w1). */
   w0: number;
   w1: number;
@@ -51,17 +51,29 @@ export function kvcoSummary(
   let kMinV = NaN;
   let kMaxV = NaN;
   const wrongWay: number[] = [];
-  for (const e of local) {
-    if (e.v < window.fromV - 1e-9 || e.v > window.toV + 1e-9 || !Number.isFinite(e.hzPerV)) continue;
-    if (sense * e.hzPerV < 0) {
-      if (sense * e.hzPerV < -2 * e.uncertaintyHzPerV) wrongWay.push(e.v);
+  for (let n = 0; n < local.count; n++) {
+    const v = local.v[n] as number;
+    let hzPerV = local.hzPerV[n] as number;
+    const uk = local.uncertaintyHzPerV[n] as number;
+    if (v < window.fromV - 1e-9 || v > window.toV + 1e-9 || !Number.isFinite(hzPerV)) continue;
+    if (sense * hzPerV < 0) {
+      if (sense * hzPerV < -2 * uk) wrongWay.push(v);
       else {
-        e.hzPerV = 0; // flat within its uncertainty: not a sign change
-        e.flatWithinUncertainty = true;
+        hzPerV = 0; // flat within its uncertainty: not a sign change
+        local.hzPerV[n] = 0;
+        local.flatWithinUncertainty[n] = 1;
       }
     }
-    if (e.hzPerV < kMin) [kMin, kMinU, kMinV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
-    if (e.hzPerV > kMax) [kMax, kMaxU, kMaxV] = [e.hzPerV, e.uncertaintyHzPerV, e.v];
+    if (hzPerV < kMin) {
+      kMin = hzPerV;
+      kMinU = uk;
+      kMinV = v;
+    }
+    if (hzPerV > kMax) {
+      kMax = hzPerV;
+      kMaxU = uk;
+      kMaxV = v;
+    }
   }
   if (wrongWay.length > 0) {
     warnings.push(

@@ -1,12 +1,20 @@
 /**
  * Result of analyzeSweep. The keys named in CONTRACTS.md (`analyze --json`)
- * are stable; the others are additions.
+ * are stable; the others are additions. The per-point parts (`points`,
+ * `kvco.local`) come in two shapes: rows of objects (SweepAnalysis: the app,
+ * tests) or columns (SweepColumnAnalysis, sweep-columns.ts: the CLI, which
+ * writes a million-point sweep without making a million objects).
  */
 import type { Direction } from './sweep-points.ts';
 import type { LinearSummary, LocalKvco, WidestRange } from './sweep-gain.ts';
 import type { Hysteresis } from './sweep-hysteresis.ts';
+import type { LocalKvcoColumns, SweepPointColumns, SweepPointRow } from './sweep-columns.ts';
 
-export interface SweepAnalysis {
+export type SweepAnalysis = SweepAnalysisOf<SweepPointRow[], LocalKvco[]>;
+export type SweepColumnAnalysis = SweepAnalysisOf<SweepPointColumns, LocalKvcoColumns>;
+
+/** The result with its per-point parts of type Points (`points`) and Local (`kvco.local`). */
+export interface SweepAnalysisOf<Points, Local> {
   kind: 'sweep';
   /** Direction the headline figures come from ('up' when the run has it). */
   primaryDirection: Direction;
@@ -29,7 +37,7 @@ export interface SweepAnalysis {
   };
   kvco: {
     linear: LinearSummary;
-    local: LocalKvco[];
+    local: Local;
     minHzPerV: number;
     maxHzPerV: number;
     minUncertaintyHzPerV: number;
@@ -94,19 +102,7 @@ export interface SweepAnalysis {
       reason: string;
     } | null;
   };
-  points: {
-    v: number;
-    meanHz: number;
-    sdHz: number;
-    readings: number;
-    noOscillation: number;
-    unstable: boolean;
-    unsettled: boolean;
-    /** In the stall edge's zone: left out of the usable range (see `usableRange.edgeZone`). */
-    edgeZone: boolean;
-    /** The fitted curve at this point (null outside the fitted range): residual = meanHz − fitHz. */
-    fitHz: number | null;
-  }[];
+  points: Points;
   hysteresis: Hysteresis | null;
   counter: { gateS: number | null; resolutionHz: number | null };
   warnings: string[];

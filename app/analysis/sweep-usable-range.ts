@@ -8,6 +8,7 @@ import { formatFigure } from './format-figure.ts';
 import { bendEnd, edgeZone, type EdgeZone } from './sweep-edge-zone.ts';
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
+import { sortedAtInPlace } from './select-kth.ts';
 
 /**
  * Index of the extreme point where a tuning curve turns back, or null when it
@@ -59,8 +60,7 @@ export function flatTopEnd(
     slopes[i - i0] =
       (sense * ((meanHz[i + 1] as number) - (meanHz[i] as number))) / ((v[i + 1] as number) - (v[i] as number));
   }
-  const sorted = Float64Array.from(slopes).sort();
-  const median = sorted[steps >> 1] as number;
+  const median = sortedAtInPlace(Float64Array.from(slopes), steps >> 1);
   if (!(median > 0)) return i1;
   let end = i1;
   while (end - i0 > 2) {

@@ -20,6 +20,7 @@ import {
   sweepPlanSchema,
 } from './plans.ts';
 import { campaignPlanSchema } from './campaign-plan.ts';
+import { previewColumnsSchema } from './run-preview.ts';
 
 /** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
 export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
@@ -100,6 +101,7 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   resumeRun: none(),
   stopRun: none(),
   listRuns: none(),
+  previewRun: params(['id', 'columns'], [runIdSchema, previewColumnsSchema]),
   openRun: params(['id'], [runIdSchema]),
   renameRun: params(['id', 'dutId'], [runIdSchema, dutIdSchema]),
   addNote: params(['id', 'text'], [runIdSchema, noteTextSchema]),

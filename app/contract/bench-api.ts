@@ -22,6 +22,7 @@ import type {
   SweepPointView,
 } from './campaign-schemas.ts';
 import type { ReadingStatus } from './reading-status.ts';
+import type { RunPreview } from './run-preview.ts';
 import type { runMetaSchema } from './run-meta-schema.ts';
 import type { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
@@ -157,6 +158,12 @@ export interface BenchApi {
   stopRun(): Promise<void>;
 
   listRuns(): Promise<RunMeta[]>;
+  /**
+   * The run at screen resolution before its full columns (./run-preview.ts):
+   * `columns` is how many pixel columns the page's plot has. Optional: a
+   * carrier without it sends the full columns only.
+   */
+  previewRun?(id: string, columns: number): Promise<RunPreview>;
   openRun(id: string): Promise<RunDetail>;
   renameRun(id: string, dutId: string): Promise<RunMeta>;
   addNote(id: string, text: string): Promise<void>;

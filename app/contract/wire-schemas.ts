@@ -13,6 +13,7 @@ import {
   campaignViewSchema,
 } from './campaign-schemas.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
+import { runPreviewSchema } from './run-preview.ts';
 import { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
 // NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
@@ -174,6 +175,7 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   resumeRun: anything,
   stopRun: anything,
   listRuns: z.array(runMetaSchema),
+  previewRun: runPreviewSchema,
   openRun: runDetailSchema,
   renameRun: runMetaSchema,
   addNote: anything,

@@ -69,6 +69,7 @@ export const BENCH_METHODS: readonly BenchMethod[] = [
   'resumeRun',
   'stopRun',
   'listRuns',
+  'previewRun',
   'openRun',
   'renameRun',
   'addNote',

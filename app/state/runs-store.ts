@@ -4,6 +4,7 @@
  */
 import { createStore, type StoreApi } from 'zustand/vanilla';
 import type { BenchApi, RunDetail, RunMeta } from '../contract/bench-api.ts';
+import { MAX_PREVIEW_COLUMNS, type RunPreview } from '../contract/run-preview.ts';
 import { errorText } from '../bridge/bench-call-error.ts';
 import { columnSetFromStored, type ColumnSet } from './columns.ts';
 
@@ -20,6 +21,8 @@ export interface RunsState {
   /** The run shown in detail, if any. */
   focusId: string | null;
   opened: Record<string, OpenedRun>;
+  /** Runs being opened whose screen-resolution preview has arrived before their full columns. */
+  previews: Record<string, RunPreview>;
   lastDeleted: RunMeta | null;
   loading: boolean;
   error: string | null;
@@ -45,7 +48,35 @@ function newestFirst(a: RunMeta, b: RunMeta): number {
   return b.startedAt.localeCompare(a.startedAt);
 }
 
-export function createRunsStore(bench: BenchApi): RunsStore {
+export interface RunsStoreOptions {
+  /** Pixel columns to ask a preview for (the plot's width in device pixels). Default 2000. */
+  previewColumns?: () => number;
+  /** Resolves once the page has painted what was just set (the preview), before the full columns are asked for. */
+  afterPaint?: () => Promise<void>;
+}
+
+function without<T>(record: Record<string, T>, id: string): Record<string, T> {
+  const rest = { ...record };
+  delete rest[id];
+  return rest;
+}
+
+/** The window's width in device pixels (no plot is wider), else 2000. */
+function screenColumns(): number {
+  if (typeof window === 'undefined') return 2000;
+  const px = Math.round(window.innerWidth * (window.devicePixelRatio || 1));
+  return Math.min(MAX_PREVIEW_COLUMNS, Math.max(200, px));
+}
+
+/** In a page: after the next frame has been painted; elsewhere at once. */
+function nextPaint(): Promise<void> {
+  if (typeof requestAnimationFrame !== 'function') return Promise.resolve();
+  return new Promise((resolve) => requestAnimationFrame(() => setTimeout(resolve, 0)));
+}
+
+export function createRunsStore(bench: BenchApi, options: RunsStoreOptions = {}): RunsStore {
+  const previewColumns = options.previewColumns ?? screenColumns;
+  const afterPaint = options.afterPaint ?? nextPaint;
   return createStore<RunsState & RunsActions>()((set, get) => {
     async function guarded<T>(work: () => Promise<T>): Promise<T | null> {
       set({ loading: true, error: null });
@@ -58,11 +89,10 @@ export function createRunsStore(bench: BenchApi): RunsStore {
         return null;
       }
     }
-    function forget(id: string): Pick<RunsState, 'opened' | 'picked' | 'focusId'> {
-      const opened = { ...get().opened };
-      delete opened[id];
+    function forget(id: string): Pick<RunsState, 'opened' | 'previews' | 'picked' | 'focusId'> {
       return {
-        opened,
+        opened: without(get().opened, id),
+        previews: without(get().previews, id),
         picked: get().picked.filter((p) => p !== id),
         focusId: get().focusId === id ? null : get().focusId,
       };
@@ -72,6 +102,7 @@ export function createRunsStore(bench: BenchApi): RunsStore {
       picked: [],
       focusId: null,
       opened: {},
+      previews: {},
       lastDeleted: null,
       loading: false,
       error: null,
@@ -83,12 +114,25 @@ export function createRunsStore(bench: BenchApi): RunsStore {
         // A run still being written is re-read each time; finished runs are cached.
         if (cached && cached.detail.meta.status !== 'running') return cached;
         return guarded(async () => {
-          const detail = await bench.openRun(id);
+          // A big run is drawn first from its preview (a few thousand numbers), then from every reading.
+          if (bench.previewRun) {
+            const first = await bench.previewRun(id, previewColumns()).catch(() => null);
+            if (first?.preview) {
+              performance.mark('tunebench:open-run:preview');
+              set({ previews: { ...get().previews, [id]: first } });
+              await afterPaint();
+            }
+          }
+          const detail = await bench.openRun(id).catch((error: unknown) => {
+            set({ previews: without(get().previews, id) });
+            throw error;
+          });
           performance.mark('tunebench:open-run:fetched');
           const columns = columnSetFromStored(detail.samples.numeric, detail.samples.text);
           performance.mark('tunebench:open-run:columns');
           const opened: OpenedRun = { detail, columns, rows: columns.time_s.length };
-          set({ opened: { ...get().opened, [id]: opened } });
+          // The full columns replace the preview in one step: the plot never shows neither.
+          set({ opened: { ...get().opened, [id]: opened }, previews: without(get().previews, id) });
           return opened;
         });
       },

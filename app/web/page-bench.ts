@@ -68,6 +68,7 @@ export function createPageBench(options: PageBenchOptions): PageBench {
     resumeRun: () => service.resumeRun(),
     stopRun: () => service.stopRun(),
     listRuns: () => service.listRuns(),
+    previewRun: (id, columns) => service.previewRun(id, columns),
     openRun: (id) => service.openRun(id),
     renameRun: (id, dutId) => service.renameRun(id, dutId),
     addNote: (id, text) => service.addNote(id, text),

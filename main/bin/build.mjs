@@ -9,7 +9,7 @@
 //  - renderer: builds app/ with vite into out/renderer, which `tunebench
 //    serve` serves as is. Needs the devDependencies; skipped with a note in an
 //    install without them (a packed tarball carries the built folder).
-import { mkdir, mkdtemp, readdir, rename, rm, writeFile } from 'node:fs/promises';
+import { mkdir, mkdtemp, readdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { dirname, join, relative, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -28,6 +28,36 @@ const EXTERNAL = [
   'electron',
 ];
 
+// zod re-exports every message locale as `z.locales` (300 KB of the bundle); the CLI only uses
+// English, the one zod configures itself with. The bundle gets a locales module with English alone.
+const zodEnglishOnly = {
+  name: 'zod-english-only',
+  setup(build) {
+    build.onResolve({ filter: /^\.\.\/locales\/index\.js$/ }, (args) =>
+      /[\\/]zod[\\/]/.test(args.importer)
+        ? { path: join(args.resolveDir, '../locales/en.js'), namespace: 'zod-en' }
+        : undefined,
+    );
+    build.onLoad({ filter: /.*/, namespace: 'zod-en' }, (args) => ({
+      contents: `export { default as en } from ${JSON.stringify(args.path)};`,
+      resolveDir: dirname(args.path),
+    }));
+  },
+};
+
+/**
+ * esbuild escapes non-ASCII characters everywhere but in regular-expression literals; one such
+ * character makes V8 hold the whole bundle as a two-byte string (twice the memory to read and
+ * keep). \uXXXX means the same inside a regular expression, a string or a template.
+ */
+async function escapeNonAscii(file) {
+  const text = await readFile(file, 'utf8');
+  // eslint-disable-next-line no-control-regex
+  if (!/[^\x00-\x7f]/.test(text)) return;
+  const escaped = text.replace(/[^\x00-\x7f]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  await writeFile(file, escaped);
+}
+
 async function buildCli() {
   const { build } = await import('esbuild');
   const tempFile = `${BUNDLE_FILE}.${process.pid}.tmp`;
@@ -45,6 +75,7 @@ async function buildCli() {
     supported: { 'dynamic-import': false },
     define: { 'import.meta.url': '__tunebenchModuleUrl' },
     external: EXTERNAL,
+    plugins: [zodEnglishOnly],
     metafile: true,
     logLevel: 'warning',
     legalComments: 'none',
@@ -65,6 +96,7 @@ async function buildCli() {
     format: 'esm',
     target: 'node20',
     external: EXTERNAL,
+    plugins: [zodEnglishOnly],
     metafile: true,
     logLevel: 'warning',
     legalComments: 'none',
@@ -72,7 +104,9 @@ async function buildCli() {
       js: "import { createRequire as __tunebenchRequire } from 'node:module';\nconst require = __tunebenchRequire(import.meta.url);",
     },
   });
+  await escapeNonAscii(tempFile);
   const inputs = [...new Set([...Object.keys(result.metafile.inputs), ...Object.keys(worker.metafile.inputs)])]
+    .filter((input) => !input.startsWith('zod-en:'))
     .map((input) => relative(PROJECT_ROOT, `${PROJECT_ROOT}${input}`).split(sep).join('/'))
     .filter((input) => !input.startsWith('node_modules/'));
   // A dependency upgrade changes package.json or the lock file.

@@ -3,11 +3,13 @@
  * TypeScript sources through tsx otherwise, with the same behaviour.
  */
 import { execFile } from 'node:child_process';
+import { readdir, readFile, stat } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCliCaptured } from '../../test/testing/run-cli-captured.ts';
-import { bundleStaleReason } from './cli-bundle.mjs';
+import { BUNDLE_FILE, bundleStaleReason } from './cli-bundle.mjs';
 
 const run = promisify(execFile);
 const BIN = fileURLToPath(new URL('./tunebench.mjs', import.meta.url));
@@ -50,15 +52,40 @@ describe('tunebench launcher', () => {
       const sink = { write: () => true };
       const code = await exports.runCli(process.argv.slice(1), { stdout: sink, stderr: sink, env: {} });
       const heavy = ['http', 'worker_threads'].filter((m) => process.moduleLoadList.includes('NativeModule ' + m));
-      process.stdout.write(JSON.stringify({ code, heavy }));`;
-    const loaded = async (args: string[]): Promise<{ code: number; heavy: string[] }> =>
+      // zod keeps its global configuration on globalThis once any schema module has been evaluated.
+      const zod = '__zod_globalConfig' in globalThis;
+      process.stdout.write(JSON.stringify({ code, heavy, zod }));`;
+    const loaded = async (args: string[]): Promise<{ code: number; heavy: string[]; zod: boolean }> =>
       JSON.parse((await run(process.execPath, ['--input-type=module', '-e', probe, '--', ...args])).stdout) as {
         code: number;
         heavy: string[];
+        zod: boolean;
       };
-    expect(await loaded(['--help'])).toEqual({ code: 0, heavy: [] });
-    expect(await loaded(['analyze', FIXTURE])).toEqual({ code: 0, heavy: [] });
-    // The registry still reaches the heavy commands when they are asked for.
+    expect(await loaded(['--help'])).toEqual({ code: 0, heavy: [], zod: false });
+    // A plain CSV needs no schema: the run-folder reader, the campaign file and the flag parser's
+    // did-you-mean load without zod.
+    expect(await loaded(['analyze', FIXTURE])).toEqual({ code: 0, heavy: [], zod: false });
+    // The registry still reaches the heavy commands and the schemas when they are asked for.
     expect((await loaded(['serve', '--help'])).heavy).toContain('http');
+    expect((await loaded(['schema', 'bench'])).zod).toBe(true);
+  }, 60_000);
+
+  it('ships an ASCII bundle whose code cache the launcher accepts', async () => {
+    // One non-ASCII character would make V8 hold the whole bundle as a two-byte string.
+    const bundle = await readFile(BUNDLE_FILE);
+    expect(bundle.findIndex((byte) => byte > 0x7f)).toBe(-1);
+    // The launcher rewrites the cache only when V8 rejects it (other flags or another Node); the
+    // build made it with the flags the launcher starts with, so a run leaves it as it was.
+    const caches = async (): Promise<string[]> =>
+      Promise.all(
+        (await readdir(dirname(BUNDLE_FILE)))
+          .filter((name) => name.endsWith('.v8cache'))
+          .map(async (name) => `${name} ${(await stat(join(dirname(BUNDLE_FILE), name))).mtimeMs}`),
+      );
+    const before = await caches();
+    expect(before).toHaveLength(1);
+    const out = await bin(['analyze', FIXTURE]);
+    expect(out.stderr).toContain('prebuilt bundle');
+    expect(await caches()).toEqual(before);
   }, 60_000);
 });

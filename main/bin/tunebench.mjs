@@ -4,7 +4,9 @@
 // `prepare`) when it is current; in a checkout whose sources have changed
 // since, or with TUNEBENCH_FROM_SOURCE=1, tsx compiles the TypeScript on
 // load instead, so `npx tunebench` always runs the code you see.
-import { bundleStaleReason, loadBundle } from './cli-bundle.mjs';
+import { bundleStaleReason, tuneForBigWork, loadBundle, useStartFlags } from './cli-bundle.mjs';
+
+useStartFlags();
 
 // TUNEBENCH_SHOW_LAUNCH=1 says on stderr which one ran (tests, bug reports).
 function said(line) {
@@ -19,6 +21,8 @@ async function loadCli() {
     return { runCli: exports.runCli, after: saveCache };
   }
   said(`sources through tsx (bundle not used: ${stale})`);
+  // Compiling TypeScript on the fly is big work: V8's own settings suit it.
+  tuneForBigWork();
   const { register } = await import('tsx/esm/api');
   register();
   const { runCli } = await import('../cli/index.ts');

@@ -11,14 +11,15 @@ import { join } from 'node:path';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
 import { CsvError, detectCsvKind, numericColumn, type CsvKind } from '../../app/analysis/csv-columns.ts';
-import { datasheetRunLabel, runConditions, runHints, type RunHints } from '../../app/analysis/datasheet-run.ts';
+import { runConditions, type RunHints } from '../../app/analysis/run-conditions.ts';
 import { CsvImportError, readPlainCsv } from '../store/plain-csv.ts';
 import type { RunEventLike } from '../../app/analysis/run-quality.ts';
-import { readRunFolder } from '../store/run-reader.ts';
-import { openSamples } from '../store/cached-samples.ts';
-import { SAMPLES_CSV } from '../store/run-meta.ts';
-import { runIdSchema } from '../store/run-id.ts';
 import { UsageError } from './types.ts';
+import { BIG_INPUT_BYTES, tuneForBigWork } from './v8-tuning.ts';
+
+// A run folder's reader (the store and its schemas) loads only for a folder or a run id: a plain
+// CSV, what `analyze` is most often given, starts without it.
+const runFolderSource = async (): Promise<typeof import('./run-folder-source.ts')> => import('./run-folder-source.ts');
 
 export interface AnalysisSource {
   path: string;
@@ -59,7 +60,7 @@ async function locate(
 ): Promise<{ path: string; info: Awaited<ReturnType<typeof stat>> }> {
   const info = await stat(path).catch(() => null);
   if (info) return { path, info };
-  if (runsDir !== undefined && runIdSchema.safeParse(path).success) {
+  if (runsDir !== undefined && (await runFolderSource()).looksLikeRunId(path)) {
     const folder = join(runsDir, path);
     const inRuns = await stat(folder).catch(() => null);
     if (inRuns?.isDirectory()) return { path: folder, info: inRuns };
@@ -72,33 +73,20 @@ async function locate(
 
 export async function loadAnalysisSource(given: string, runsDir?: string): Promise<AnalysisSource> {
   const { path, info } = await locate(given, runsDir);
+  // A run folder (its reader, maybe a million readings) or a big CSV is big work for V8.
+  if (info.isDirectory() || info.size > BIG_INPUT_BYTES) tuneForBigWork();
   let table: ColumnTable;
   let droppedLines = 0;
   let meta: RunMeta | null = null;
   let kind: CsvKind;
   let label = path;
   let hints: RunHints = {};
-  const eventsByType: Record<string, number> = {};
+  let eventsByType: Record<string, number> = {};
   let events: RunEventLike[] | null = null;
   if (info.isDirectory()) {
-    try {
-      // Through the binary column cache, as the app opens a run: a million-reading run is not parsed again.
-      const { run, table: samples } = await openSamples(join(path, SAMPLES_CSV), {}, (withoutSamples) =>
-        readRunFolder(path, { withoutSamples }),
-      );
-      meta = run.meta;
-      for (const event of run.events) eventsByType[event.type] = (eventsByType[event.type] ?? 0) + 1;
-      events = run.events;
-      droppedLines = samples.dropped.length;
-      if (samples.rowCount === 0) throw new UsageError(`${join(path, 'samples.csv')}: no readings recorded`);
-      table = samples;
-    } catch (error) {
-      if (error instanceof UsageError) throw error;
-      throw new UsageError(`${path}: not a readable run folder (${(error as Error).message})`);
-    }
-    kind = meta.kind;
-    label = datasheetRunLabel(meta.id, meta.dut.id);
-    hints = runHints(meta);
+    const run = await (await runFolderSource()).readRunFolderSource(path);
+    ({ table, droppedLines, meta, eventsByType, events, label, hints } = run);
+    kind = run.meta.kind;
   } else {
     table = plainTable(await readFile(path, 'utf8'), path);
     try {

@@ -3,7 +3,7 @@
  */
 import { AnalysisError } from '../../app/analysis/analysis-error.ts';
 import { summarizeAnalysis } from '../../app/analysis/analysis-summary.ts';
-import { analyzeTable, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
+import { analyzeTableColumns, parseFitSpec, parseVoltRange } from '../../app/analysis/analyze-table.ts';
 import type { SweepOptions } from '../../app/analysis/sweep-analysis.ts';
 import { CsvError, numericColumn } from '../../app/analysis/csv-columns.ts';
 import type { ColumnTable } from '../../app/contract/column-table.ts';
@@ -14,6 +14,7 @@ import { parseFlags, positiveFlag } from './flags.ts';
 import { writeJsonChunks } from './json-chunks.ts';
 import { runsDirFrom } from './runs-dir-flag.ts';
 import { UsageError, WorkFailedError, type CliCommand } from './types.ts';
+import { tuneForBigWork } from './v8-tuning.ts';
 
 const usage = `usage: tunebench analyze RUN_DIR|RUN_ID|CAMPAIGN_DIR|FILE.csv [--runs DIR] [--json] [--fit spline|poly:N|auto] [--fit-range all|usable|A:B] [--window A:B]
 
@@ -105,6 +106,7 @@ export const analyzeCommand: CliCommand = {
     );
     const nominalV = positiveNumber(flags.values.get('nominal'), 'nominal', 'a voltage > 0 (e.g. 1.5 or 1500m)');
     if (await isCampaignDir(flags.positionals[0] as string)) {
+      tuneForBigWork();
       // Loaded only for a campaign folder: an ordinary run or CSV needs none of it.
       const { loadCampaignAnalysis } = await import('./campaign-source.ts');
       const { renderCampaignMarkdown } = await import('../../app/analysis/campaign-datasheet.ts');
@@ -125,7 +127,8 @@ export const analyzeCommand: CliCommand = {
         : source.window
           ? { ...source.window, source: 'plan' }
           : undefined;
-      result = analyzeTable(source.kind, source.table, {
+      // Columns: a sweep of a million points is written from them, never made into objects.
+      result = analyzeTableColumns(source.kind, source.table, {
         gateS: source.gateS,
         events: source.events ?? undefined,
         sweep: {

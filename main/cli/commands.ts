@@ -15,6 +15,12 @@ export interface CommandEntry {
   /** One line for `tunebench --help`. */
   summary: string;
   load(): Promise<CliCommand>;
+  /**
+   * Runs with V8 set for a short command, as the launcher starts it (see v8-tuning.ts): a command
+   * people wait on with small input, which tunes V8 for big work itself when the input is big.
+   * Every other command gets V8's own settings before it runs.
+   */
+  quickStart?: true;
 }
 
 export const commands: CommandEntry[] = [
@@ -42,6 +48,7 @@ export const commands: CommandEntry[] = [
     name: 'analyze',
     summary: 'analyse a sweep, drift or pushing run (or a plain CSV)',
     load: async () => (await import('./cmd-analyze.ts')).analyzeCommand,
+    quickStart: true,
   },
   {
     name: 'datasheet',

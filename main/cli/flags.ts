@@ -7,7 +7,7 @@
  * flag and the nearest known one.
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
-import { nearestKey } from '../../app/contract/schema-kit.ts';
+import { nearestKey } from '../../app/contract/nearest-key.ts';
 import { UsageError } from './types.ts';
 
 export interface FlagSpec {

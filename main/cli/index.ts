@@ -7,6 +7,7 @@ import { commands } from './commands.ts';
 import { argsBeforeSeparator } from './flags.ts';
 import { watchParent } from './parent-watch.ts';
 import { UsageError, WorkFailedError, type CliIo } from './types.ts';
+import { tuneForBigWork } from './v8-tuning.ts';
 
 function mainHelp(): string {
   const width = Math.max(...commands.map((c) => c.name.length), 4);
@@ -49,6 +50,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
   }
   // Owning the process (the installed bin or npx): stop as on SIGTERM when the parent goes
   // away, so an orphaned `sim` or drift log releases its ports and leaves the bench safe.
+  if (!entry.quickStart) tuneForBigWork();
   const unwatch = io.stdout === process.stdout ? watchParent(() => process.kill(process.pid, 'SIGTERM')) : () => {};
   try {
     return await command.run(rest, io);

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { analyzeTable } from '../../app/analysis/analyze-table.ts';
+import { analyzeTable, analyzeTableColumns } from '../../app/analysis/analyze-table.ts';
+import { sweepAnalysisRows } from '../../app/analysis/sweep-analysis.ts';
 import { detectCsvKind } from '../../app/analysis/csv-columns.ts';
 import { readPlainCsv } from '../store/plain-csv.ts';
 import { writeJsonChunks } from './json-chunks.ts';
@@ -62,5 +63,29 @@ describe('writeJsonChunks', () => {
       const result = analyzeTable(detectCsvKind(table), table, {});
       expect(chunked(result).text).toBe(JSON.stringify(result, null, 2));
     }
+  });
+
+  it('columns (a sweep’s points and local Kvco) come out as their rows would, at any depth and across blocks', () => {
+    const lines = ['control_v,frequency_hz'];
+    // 1500 distinct voltages (more rows than one block), stalled below 0.6 V.
+    for (let i = 0; i < 1500; i++) {
+      const v = 0.5 + i * 0.002;
+      lines.push(`${v.toFixed(3)},${v < 0.6 ? '' : (8000 + 2000 * v + Math.sin(i * 12.9898) * 0.5).toFixed(1)}`);
+    }
+    const table = readPlainCsv(`${lines.join('\n')}\n`, 'distinct.csv');
+    const columns = analyzeTableColumns('sweep', table, {});
+    if (columns.kind !== 'sweep') throw new Error('expected a sweep');
+    const rows = sweepAnalysisRows(columns);
+    expect(columns.points.count).toBe(1500);
+    expect(columns.kvco.local.count).toBe(1450);
+    const { text, pieces } = chunked({ ...columns, run: { id: 'x' } });
+    expect(text).toBe(JSON.stringify({ ...rows, run: { id: 'x' } }, null, 2));
+    expect(pieces).toBeGreaterThan(1);
+    for (const value of [
+      columns.points,
+      { a: { b: { c: columns.kvco.local } } },
+      [columns.points.count, columns.points],
+    ])
+      expect(chunked(value).text).toBe(JSON.stringify(value, null, 2)); // JSON.stringify goes through toJSON: the rows
   });
 });

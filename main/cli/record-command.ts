@@ -6,7 +6,7 @@
  * (a refused plan, file or address → 2; the work failed → 1).
  */
 import type { SafeState } from '../../app/contract/plans.ts';
-import { asUsageError, exitCodeFor, openCliRun, runsDirFrom, validatedCliPlan } from './run-setup.ts';
+import { asUsageError, exitCodeFor, openCliRun, runsDirFrom, validatedCliPlan, type RunVerdict } from './run-setup.ts';
 import type { RecordedRun, RecordOptions } from '../procedures/recorded-run.ts';
 import type { ProcedureOutcome } from '../procedures/types.ts';
 import type { BuiltinDutName } from '../sim/builtin-duts.ts';
@@ -53,6 +53,7 @@ async function runRecording<P extends { safe: SafeState }, O extends ProcedureOu
   const notice = spec.notice?.(plan, flags);
   if (notice) io.stderr.write(`${notice}\n`);
   const { progress, dutId, recording, close } = await openCliRun(io, flags, dut, plan.safe);
+  let verdict: RunVerdict | undefined;
   try {
     const recorded = await spec
       .record(
@@ -70,12 +71,14 @@ async function runRecording<P extends { safe: SafeState }, O extends ProcedureOu
     progress.done();
     io.stdout.write(`${recorded.dir}\n`);
     io.stdout.write(await spec.report(recorded));
-    return exitCodeFor(recorded.outcome, io);
+    const exitCode = exitCodeFor(recorded.outcome, io);
+    verdict = { safeStateOk: recorded.outcome.safeStateOk, exitCode };
+    return exitCode;
   } catch (error) {
     progress.done();
     throw error;
   } finally {
-    await close();
+    await close(verdict);
   }
 }
 

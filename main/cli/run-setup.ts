@@ -66,6 +66,12 @@ export async function openCliBench(
   }
 }
 
+/** How a recorded run ended, for the last-resort guard when a signal arrives while it finishes. */
+export interface RunVerdict {
+  safeStateOk: boolean;
+  exitCode: number;
+}
+
 /**
  * A RunControl stopped by io.signal, or by SIGINT/SIGTERM/SIGHUP when the
  * caller gave none. When the command owns the process (its streams are the
@@ -79,20 +85,23 @@ export function cliControl(
   io: CliIo,
   bench: AssembledBench,
   safe: SafeState,
-): { control: RunControl; dispose: () => void } {
+): { control: RunControl; dispose: (verdict?: RunVerdict) => void } {
   const control = new RunControl({ signal: io.signal });
   const disposers: (() => void)[] = [];
-  let ended: () => void = () => undefined;
-  const runEnded = new Promise<void>((resolve) => (ended = resolve));
+  let ended: (verdict: RunVerdict) => void = () => undefined;
+  const runEnded = new Promise<RunVerdict>((resolve) => (ended = resolve));
   if (io.stdout === process.stdout && io.signal === undefined) {
     const record = (event: { type: string; [key: string]: unknown }): void => {
       io.stderr.write(`${event.type}: ${JSON.stringify(event)}\n`);
     };
     const holder = {
-      async leaveSafe(cause: { kind: string }): Promise<{ ok: boolean }> {
+      async leaveSafe(cause: { kind: string }): Promise<{ ok: boolean; exitCode?: number }> {
         control.stop(cause.kind === 'signal' ? 'signal' : cause.kind);
-        const wait = new Promise<boolean>((resolve) => setTimeout(() => resolve(false), 8000).unref());
-        if (await Promise.race([runEnded.then(() => true), wait])) return { ok: true };
+        const wait = new Promise<null>((resolve) => setTimeout(() => resolve(null), 8000).unref());
+        // The run ended by itself: its own safe-state verdict and exit code stand (a run that ended is not
+        // a bench proven safe — a second Ctrl-C once exited 0 over an unconfirmed safe state).
+        const verdict = await Promise.race([runEnded, wait]);
+        if (verdict !== null) return { ok: verdict.safeStateOk, exitCode: verdict.exitCode };
         return { ok: (await goSafe(bench, bench.controlChannel, safe, record)).ok };
       },
     };
@@ -108,8 +117,9 @@ export function cliControl(
   } else if (io.signal === undefined) disposers.push(stopOnSignals(control, process, ['SIGINT', 'SIGTERM', 'SIGHUP']));
   return {
     control,
-    dispose: () => {
-      ended();
+    dispose: (verdict) => {
+      // Without a verdict (the command threw) nothing proves the safe state.
+      ended(verdict ?? { safeStateOk: false, exitCode: 1 });
       disposers.forEach((dispose) => dispose());
     },
   };
@@ -166,8 +176,8 @@ export interface CliRun {
   dutId: string;
   /** What every record call takes from this session: bench, clock, control, progress. */
   recording: Pick<RecordOptions, 'bench' | 'clock' | 'control' | 'onProgress'>;
-  /** Releases the signal handlers and closes the bench. */
-  close: () => Promise<void>;
+  /** Releases the signal handlers and closes the bench; `verdict`: how the run ended, when it did. */
+  close: (verdict?: RunVerdict) => Promise<void>;
 }
 
 /**
@@ -195,8 +205,8 @@ export async function openCliRun(
   }
   const { control, dispose } = cliControl(io, bench, safe);
   const dutId = flags.values.get('dut-id') ?? (bench.sim !== null ? `sim-${bench.sim.dutParams.id}` : 'dut');
-  const close = async (): Promise<void> => {
-    dispose();
+  const close = async (verdict?: RunVerdict): Promise<void> => {
+    dispose(verdict);
     await bench.close();
   };
   const progress = cliProgress(io);

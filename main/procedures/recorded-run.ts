@@ -14,12 +14,13 @@ import {
   type SweepPlan,
 } from '../../app/contract/plans.ts';
 import { createRun, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
+import { isRunFileFault } from '../store/store-error.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
 import { checkControlV, checkLimits, LimitsError } from './limits.ts';
 import type { ProgressListener } from './progress.ts';
 import { PUSHING_COLUMNS, checkPushingLimits, runPushing, type PushingOutcome } from './pushing.ts';
-import type { RunControl } from './run-control.ts';
+import { RunControl } from './run-control.ts';
 import { SWEEP_COLUMNS, runSweep, type SweepOutcome } from './sweep.ts';
 import { sweepSchedule } from './sweep-points.ts';
 import { DEFAULT_GATE_RANGE_S } from '../instruments/roles.ts';
@@ -184,7 +185,24 @@ function createRunFor(
     instruments: options.bench.instruments,
     plan,
     columns,
+    onError: stopOnRunFileFault(options.control),
   });
+}
+
+/**
+ * The writer's own timed flush (a drift log's only one) reports its errors here: a run folder that has gone
+ * or a disk that refuses the run's files stops the run at once, through its safe state — the procedure's
+ * final flush then raises the fault by name. Without this a drift log ran to its planned end writing nothing.
+ */
+function stopOnRunFileFault(control: RunControl | undefined): (error: Error) => void {
+  return (error) => {
+    if (isRunFileFault(error)) control?.stop('disk-fault');
+  };
+}
+
+/** The options with a RunControl of their own, so a fault of the run's files can stop the run. */
+function withControl<T extends { control?: RunControl }>(options: T): T & { control: RunControl } {
+  return { ...options, control: options.control ?? new RunControl() };
 }
 
 /** What every procedure takes from the options besides its plan and sink. */
@@ -198,7 +216,8 @@ function procedureContext(options: RecordOptions, writer: RunWriter) {
   };
 }
 
-export async function recordSweep(options: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
+export async function recordSweep(given: RecordOptions & { plan: SweepPlan }): Promise<RecordedRun<SweepOutcome>> {
+  const options = withControl(given);
   validateSweepPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'sweep', options.plan, SWEEP_COLUMNS);
@@ -207,7 +226,8 @@ export async function recordSweep(options: RecordOptions & { plan: SweepPlan }):
   );
 }
 
-export async function recordDrift(options: RecordOptions & { plan: DriftPlan }): Promise<RecordedRun<DriftOutcome>> {
+export async function recordDrift(given: RecordOptions & { plan: DriftPlan }): Promise<RecordedRun<DriftOutcome>> {
+  const options = withControl(given);
   validateDriftPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'drift', options.plan, DRIFT_COLUMNS);
@@ -217,8 +237,9 @@ export async function recordDrift(options: RecordOptions & { plan: DriftPlan }):
 }
 
 export async function recordPushing(
-  options: RecordOptions & { plan: PushingPlan },
+  given: RecordOptions & { plan: PushingPlan },
 ): Promise<RecordedRun<PushingOutcome>> {
+  const options = withControl(given);
   validatePushingPlan(options.plan);
   checkPlanAgainstBench(options.plan, options.bench);
   const writer = await createRunFor(options, 'pushing', options.plan, PUSHING_COLUMNS);
@@ -233,9 +254,15 @@ export async function recordPushing(
  * its planned duration (counted from the original start) or a stop.
  */
 export async function resumeDrift(
-  options: Omit<RecordOptions, 'dutId' | 'dutNotes'> & { id: string },
+  given: Omit<RecordOptions, 'dutId' | 'dutNotes'> & { id: string },
 ): Promise<RecordedRun<DriftOutcome>> {
-  const writer = await reopenRun({ runsDir: options.runsDir, id: options.id, clock: options.clock });
+  const options = withControl(given);
+  const writer = await reopenRun({
+    runsDir: options.runsDir,
+    id: options.id,
+    clock: options.clock,
+    onError: stopOnRunFileFault(options.control),
+  });
   const meta = writer.meta();
   const parsed = driftPlanSchema.safeParse(meta.plan);
   if (meta.kind !== 'drift' || !parsed.success) {

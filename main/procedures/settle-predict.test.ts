@@ -1,7 +1,18 @@
 import { describe, expect, it } from 'vitest';
 import { sweepPlanSchema } from '../../app/contract/plans.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
-import { gateAverageFactor, predictedStartS, readingErrorHz, STEP_MARGIN, TARGET_FRACTION } from './settle-predict.ts';
+import { FirstOrderLag } from '../sim/first-order-lag.ts';
+import type { CounterReading } from './read-counter.ts';
+import {
+  gateAverageFactor,
+  meanErrorHz,
+  predictedStartS,
+  readingErrorHz,
+  STEP_MARGIN,
+  TARGET_FRACTION,
+  takenMeanErrorHz,
+} from './settle-predict.ts';
+import { TimeConstantEstimate, settleAuto } from './settle.ts';
 import { runSweep } from './sweep.ts';
 import { MemorySink, TOY_DUT, fakeBench } from './testing/fake-bench.ts';
 
@@ -83,5 +94,149 @@ describe('settling by prediction (first-order lag, common practice)', () => {
         Math.abs((row.frequency_hz as number) - TOY_DUT.frequencyAtV(row.control_v as number)),
       );
     expect(worstHz).toBeLessThanOrEqual(200 + 100); // tolerance plus the ±1-count quantisation
+  });
+});
+
+/**
+ * The tolerance on the recorded mean (issue 12 item 3): a step of a tuning port through the
+ * simulator's own first-order lag (main/sim/first-order-lag.ts, advanced in 0.1 ms slices), counted
+ * over gates as a counter does, with the numbers of the sweep-floor bench: τ = 50 ms, gate 100 ms,
+ * 3 readings, 1 count = 10 Hz, a 200 mV step of 8 kHz/V = 1600 Hz.
+ */
+describe('settling by prediction, tolerance on the mean of the recorded readings', () => {
+  const tauS = 0.05;
+  const gateS = 0.1;
+  const beforeHz = 20_000;
+  const kHzPerV = 8000;
+  const stepV = 0.2;
+  const stepHz = kHzPerV * stepV;
+  const countHz = 1 / gateS;
+
+  /** A port that steps at t = 0 and a counter reading it: exact gate means (no counts) and counted readings. */
+  function portAndCounter(clock: VirtualClock, phase = 0.5, gate = gateS) {
+    const lag = new FirstOrderLag(tauS, 0);
+    let atS = 0;
+    const sliceS = 1e-4;
+    const advance = (toS: number): number => {
+      let integral = 0;
+      while (atS < toS - 1e-12) {
+        const dt = Math.min(sliceS, toS - atS);
+        const before = lag.value;
+        lag.step(dt, stepV);
+        integral += ((before + lag.value) / 2) * dt;
+        atS += dt;
+      }
+      return integral;
+    };
+    const means: number[] = [];
+    const read = async (): Promise<CounterReading> => {
+      const startS = clock.now();
+      advance(startS);
+      await clock.sleep(gate);
+      const meanHz = beforeHz + (kHzPerV * advance(startS + gate)) / gate;
+      means.push(meanHz);
+      const counted = Math.floor(meanHz * gate + phase) / gate;
+      return { status: 'ok', frequencyHz: counted, detail: null, errorName: null };
+    };
+    return { read, means, endHz: beforeHz + stepHz };
+  }
+
+  it('the mean of n back-to-back gates keeps F(τ, n·g) of the error at the first gate’s start, as the simulator’s lag integrates it', async () => {
+    for (const [gate, n, factor] of [
+      [0.1, 3, 0.1663],
+      [0.01, 3, 0.752],
+      [0.1, 1, 0.4323],
+    ] as const) {
+      const clock = new VirtualClock();
+      const { read, means } = portAndCounter(clock, 0.5, gate);
+      const startS = 0.1;
+      await clock.runUntil(clock.sleep(startS));
+      for (let k = 0; k < n; k++) await clock.runUntil(read());
+      const missHz = beforeHz + stepHz - means.reduce((a, b) => a + b, 0) / n;
+      // Simulator's integral against the closed form (τ/(n·g))·(1 − e^(−n·g/τ)), and that to the digits quoted.
+      expect(missHz).toBeCloseTo(stepHz * Math.exp(-startS / tauS) * gateAverageFactor(tauS, n * gate), 1);
+      expect(gateAverageFactor(tauS, n * gate)).toBeCloseTo(factor, 3);
+    }
+  });
+
+  it('judges readings already taken (a trial point’s) by the lag once τ is known', () => {
+    const f = gateAverageFactor(tauS, gateS);
+    const starts = [0.25, 0.35, 0.45];
+    const values = starts.map((s) => beforeHz + stepHz * (1 - f * Math.exp(-s / tauS)));
+    const meanLeft = starts.reduce((a, s) => a + f * Math.exp(-s / tauS), 0) / starts.length;
+    expect(takenMeanErrorHz(tauS, gateS, starts, values, beforeHz)).toBeCloseTo(stepHz * meanLeft, 6);
+    // 0.25 s = 5τ after a 1600 Hz step the mean of three 100 ms gates misses by about 0.3 Hz; a reading at 0 s cannot tell.
+    expect(takenMeanErrorHz(tauS, gateS, starts, values, beforeHz)).toBeLessThan(countHz);
+    expect(takenMeanErrorHz(tauS, 1e-12, [0], [beforeHz], beforeHz)).toBe(Number.POSITIVE_INFINITY);
+  });
+
+  it('reads the mean’s error back from the first reading alone', () => {
+    const startS = 0.15;
+    const left = gateAverageFactor(tauS, gateS) * Math.exp(-startS / tauS);
+    const firstHz = beforeHz + stepHz * (1 - left);
+    expect(meanErrorHz(tauS, gateS, 3, startS, firstHz, beforeHz)).toBeCloseTo(
+      stepHz * Math.exp(-startS / tauS) * gateAverageFactor(tauS, 3 * gateS),
+      9,
+    );
+    expect(meanErrorHz(tauS, gateS, 1, startS, firstHz, beforeHz)).toBeCloseTo(
+      readingErrorHz(tauS, gateS, startS, firstHz, beforeHz),
+      9,
+    );
+  });
+
+  async function settleThenRecord(recordedReadings: number, phase: number) {
+    const clock = new VirtualClock();
+    const { read, means, endHz } = portAndCounter(clock, phase);
+    const tau = new TimeConstantEstimate();
+    // τ as a sweep learns it: fitted from a step's readings (here the exact lag, 50 ms).
+    const times = Float64Array.from([0.005, 0.015, 0.03, 0.05, 0.08, 0.12, 0.2, 0.21, 0.22]);
+    tau.fitStep(
+      times,
+      times.map((t) => 20_000 - 3000 * Math.exp(-t / tauS)),
+      times.length,
+      1000,
+    );
+    const outcome = await clock.runUntil(
+      settleAuto(
+        clock,
+        0,
+        read,
+        { gateS, maxS: 2, toleranceCounts: 1, scatterHz: 0, expectedStepHz: stepHz, recordedReadings },
+        tau,
+        undefined,
+        beforeHz,
+      ),
+    );
+    // The point's other readings follow at once, as the sweep takes them.
+    const recorded = [outcome.last?.reading.frequencyHz as number];
+    const firstMean = means.length - 1;
+    for (let k = 1; k < 3; k++) recorded.push((await clock.runUntil(read())).frequencyHz);
+    const exact = means.slice(firstMean, firstMean + 3);
+    return {
+      outcome,
+      firstStartS: outcome.elapsedS - gateS,
+      exactMissHz: endHz - exact.reduce((a, b) => a + b, 0) / 3,
+      countedMissHz: endHz - recorded.reduce((a, b) => a + b, 0) / 3,
+      firstMissHz: endHz - (exact[0] as number),
+    };
+  }
+
+  it('opens the first gate earlier than the one-reading rule, and the recorded mean of 3 is still within 1 count', async () => {
+    for (const phase of [0.05, 0.3, 0.5, 0.7, 0.95]) {
+      const mean = await settleThenRecord(3, phase);
+      const single = await settleThenRecord(1, phase);
+      expect(mean.outcome.settled && single.outcome.settled).toBe(true);
+      expect(mean.outcome.readings).toBe(1); // no reading spent watching
+      // τ·ln(F(g)/F(3g)) = 50 ms · ln(0.4323/0.1663) ≈ 48 ms earlier.
+      expect(single.firstStartS - mean.firstStartS).toBeCloseTo(tauS * Math.log(0.4323 / 0.1663), 3);
+      // The settling error of the recorded mean (exact gate means): within 1 count, with the prediction's margin.
+      expect(Math.abs(mean.exactMissHz)).toBeLessThanOrEqual(countHz);
+      // The first reading alone misses by more than a count: the mean, not each reading, is what is held to it.
+      expect(Math.abs(mean.firstMissHz)).toBeGreaterThan(countHz);
+      // Counted as a counter counts: the mean of 3 whole-count readings within 1 count of settled, plus its ±½-count rounding.
+      expect(Math.abs(mean.countedMissHz)).toBeLessThanOrEqual(1.5 * countHz);
+      // Beats the floor's rule, τ·ln(step/resolution) to the first gate (instantaneous frequency within 1 count).
+      expect(mean.firstStartS).toBeLessThan(tauS * Math.log(stepHz / countHz));
+    }
   });
 });

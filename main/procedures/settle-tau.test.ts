@@ -43,6 +43,39 @@ describe('TimeConstantEstimate.fitStep (end value free)', () => {
   });
 });
 
+describe('TimeConstantEstimate.fitStep at a gate of 2τ (issue 12 item 3: the trial step over TCP)', () => {
+  // The trial point of a 200 mV sweep over TCP to `tunebench sim` (τ = 50 ms, gate 100 ms), as the
+  // sweep traced it: gate centres after the step, s, and the readings, Hz. The third reading is 10 Hz
+  // (one count) off the end: under "three readings moving" it did not count, no τ was learned, and the
+  // sweep paid a probe step and measured the point again (1.7 s of a 15.4 s run).
+  const times = Float64Array.from([0.061, 0.166, 0.2799, 0.4465, 0.5498, 0.6554]);
+  const tcpTrace = Float64Array.from([5280, 6190, 6300, 6310, 6310, 6310]);
+
+  it('learns τ from two readings that each still show the minimum step (10 counts), within 5 % of the simulator’s 50 ms', () => {
+    const est = new TimeConstantEstimate();
+    const tau = est.fitStep(times, tcpTrace, times.length, 10 / 0.1);
+    expect(tau).not.toBeNull();
+    expect(Math.abs((tau as number) - 0.05) / 0.05).toBeLessThan(0.05);
+  });
+
+  it('does the same on gate means of the exponential itself, whatever the counts round to', () => {
+    // A reading is the mean of f over its gate [c − g/2, c + g/2]: f∞ − A·F·e^(−(c − g/2)/τ) with
+    // F = (τ/g)(1 − e^(−g/τ)) (first-order lag, common practice), quantised to whole counts.
+    const g = 0.1;
+    const tauS = 0.05;
+    const gateFactor = (tauS / g) * -Math.expm1(-g / tauS);
+    for (const phase of [0, 0.25, 0.5, 0.75, 0.99]) {
+      const values = times.map((c) => {
+        const mean = 6310 - 2980 * gateFactor * Math.exp(-(c - g / 2) / tauS);
+        return Math.floor(mean * g + phase) / g;
+      });
+      const tau = new TimeConstantEstimate().fitStep(times, values, times.length, 10 / g);
+      expect(tau).not.toBeNull();
+      expect(Math.abs((tau as number) - tauS) / tauS).toBeLessThan(0.05);
+    }
+  });
+});
+
 describe('settleAuto rule 1 (τ and the value before the step known)', () => {
   async function settleOnStep(stepHz: number, expectedStepHz: number) {
     const clock = new VirtualClock();

@@ -69,14 +69,22 @@ export class TimeConstantEstimate {
     // The readings themselves must have moved by the minimum step: a fitted amplitude
     // extrapolated back to the step (with a tiny τ) proves nothing.
     if (!(tMax > 0) || !(vMax - vMin >= minStepHz)) return null;
-    // τ shows only in the shape of the approach: at least three readings on the way (off the
-    // latest one by more than a tenth of the minimum step), else any τ fits them.
+    // τ shows only in the shape of the approach, else any τ fits them: at least three readings on
+    // the way (off the latest one by more than a tenth of the minimum step), or two that each still
+    // show the whole minimum step. Two such readings Δt apart fix τ = Δt / ln(e₁/e₂) once the settled
+    // tail (n ≥ 4) fixes the end value; each is off by at most a count or so in ten, so τ comes out
+    // within a few per cent — where the third reading, at a gate of 2τ, is already within a count of
+    // the end and whether it counts as moving is the quantisation's toss.
     let latest = 0;
     for (let i = 1; i < n; i++) if ((times[i] as number) > (times[latest] as number)) latest = i;
     let moving = 0;
-    for (let i = 0; i < n; i++)
-      if (Math.abs((values[i] as number) - (values[latest] as number)) > minStepHz / 10) moving++;
-    if (moving < 3) return null;
+    let showingStep = 0;
+    for (let i = 0; i < n; i++) {
+      const offHz = Math.abs((values[i] as number) - (values[latest] as number));
+      if (offHz > minStepHz / 10) moving++;
+      if (offHz >= minStepHz) showingStep++;
+    }
+    if (moving < 3 && showingStep < 2) return null;
     // τ between a hundredth and the whole of the time covered, searched on a log scale.
     let lo = Math.log(tMax / 100);
     let hi = Math.log(tMax);

@@ -2,7 +2,8 @@
  * Where an automatic-settling sweep learns τ: from the step after its first
  * oscillating point when that step is large enough to show the lag (no
  * probe), else from one larger probe step, after which that point is
- * measured again and only its new rows are kept. Relaxation DUT with its
+ * measured again and only its new rows are kept — unless, judged with the
+ * learned τ, its readings were settled already. Relaxation DUT with its
  * tuning port slowed to τ = 50 ms on the simulated bench, virtual clock; the
  * reference for "settled" is the same sweep with a fixed 0.5 s settle (10 τ,
  * common practice).
@@ -18,7 +19,7 @@ import { MemorySink } from './testing/fake-bench.ts';
 async function sweep(
   stepV: number,
   gateS: number,
-  settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number },
+  settle: { mode: 'auto'; maxS: number; toleranceCounts?: number } | { mode: 'fixed'; seconds: number },
 ) {
   const dut = builtinDut('relaxation');
   const slow = { ...dut, tuning: { ...dut.tuning, settleTauS: 0.05 } };
@@ -81,5 +82,22 @@ describe('learning τ in an automatic-settling sweep', () => {
     for (const list of auto.groups.values()) expect(list).toHaveLength(3);
     for (const [i, f] of auto.means)
       expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(200);
+  });
+
+  it('keeps the trial point’s readings when, judged with the τ the probe learned, their mean was settled already', async () => {
+    // 50 mV ≈ 450 Hz ≈ 45 counts at a 100 ms gate, but a gate of 2τ sees the approach in two readings, the second
+    // already under the fit's 10 counts: the probe teaches τ. The trial's own readings, taken a few gates after its
+    // step, sit within 1 count by then: no step back to measure them again.
+    const auto = await sweep(0.05, 0.1, { mode: 'auto', maxS: 2, toleranceCounts: 1 });
+    const fixed = await sweep(0.05, 0.1, { mode: 'fixed', seconds: 0.5 });
+    expect(auto.sink.eventsOfType('settle-probe')).toHaveLength(1);
+    const stands = auto.sink.eventsOfType('trial-stands');
+    expect(stands).toHaveLength(1);
+    expect(stands[0]?.meanErrorHz as number).toBeLessThanOrEqual(10);
+    expect(auto.sink.eventsOfType('remeasure').filter((e) => e.point_index === stands[0]?.point_index)).toHaveLength(0);
+    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
+    // Every point, the trial's included, within 2 counts (20 Hz) of the fixed-settle curve.
+    for (const [i, f] of auto.means)
+      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(20);
   });
 });

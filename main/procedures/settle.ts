@@ -36,7 +36,7 @@
  */
 import type { Clock } from '../time/clock.ts';
 import type { CounterReading } from './read-counter.ts';
-import { predictedStartS, readingErrorHz } from './settle-predict.ts';
+import { meanErrorHz, predictedStartS } from './settle-predict.ts';
 import { TimeConstantEstimate } from './settle-tau.ts';
 
 export { TimeConstantEstimate } from './settle-tau.ts';
@@ -64,6 +64,20 @@ export interface AutoSettleOptions {
    * once learned.
    */
   provisionalAfterS?: number;
+  /**
+   * The reading that ends settling is the first of this many recorded back
+   * to back, and the tolerance is on their mean (settle-predict.ts). Used by
+   * settling by prediction; default 1 (the reading alone).
+   */
+  recordedReadings?: number;
+  /**
+   * "No signal" is final in a reading whose command went out at least this
+   * long after the step (s): the port moves one way, into a region known to
+   * stall from there on (a bisection point of the stall edge approached from
+   * the oscillating side, once the port is surely inside the bracket). Until
+   * then the watching readings are not spaced past that moment.
+   */
+  finalNoSignalAfterS?: number;
 }
 
 /** Preallocated record of one point's settling readings. */
@@ -196,21 +210,36 @@ export async function settleAuto(
     const targetCentreS = tauEffS * Math.log(Math.max(1, Math.min(stepHz, plannedStepHz) / (tolHz * TARGET_FRACTION)));
     return Math.max(gateS, targetCentreS + half + stepAtS - atS);
   };
-  // Settling by prediction (settle-predict.ts): one wait, then the reading that confirms it.
+  // Settling by prediction (settle-predict.ts): one wait, then the reading that confirms it. The
+  // tolerance is on the mean of the readings recorded from it on, in counts: the previous point's
+  // scatter does not widen it (that allowance is for the watching rules' differences of noisy
+  // readings; here the model decides, and a scatter that settling itself caused must not loosen it).
   const knownTauS = learned.tauS;
   const expectedStepHz = options.expectedStepHz ?? 0;
+  const recorded = Math.max(1, Math.floor(options.recordedReadings ?? 1));
+  const meanTolHz = options.toleranceCounts / gateS;
+  const finalAfterS = options.finalNoSignalAfterS;
+  const finalNoSignal = (reading: CounterReading, sentS: number): boolean =>
+    finalAfterS !== undefined && reading.status === 'no-signal' && sentS - stepAtS >= finalAfterS;
   if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && options.afterOutputOn !== true) {
-    const waitS = stepAtS + Math.min(maxS, predictedStartS(knownTauS, gateS, expectedStepHz, tolHz)) - clock.now();
+    const startS = predictedStartS(knownTauS, gateS, expectedStepHz, meanTolHz, recorded);
+    const waitS = stepAtS + Math.min(maxS, startS) - clock.now();
     if (waitS > 0) await clock.sleep(waitS, signal);
   }
+  const sentAtS = clock.now();
   let previous = await read();
   let previousAtS = clock.now();
   note(previousAtS, previous);
   remember(previous, previousAtS);
   let readings = 1;
+  if (finalNoSignal(previous, sentAtS)) return done(true, previous, previousAtS, readings);
+  let previousSentS = sentAtS;
   if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && previous.status === 'ok') {
-    const errorHz = readingErrorHz(knownTauS, gateS, previousAtS - gateS - stepAtS, previous.frequencyHz, beforeStepHz);
-    if (errorHz <= tolHz) return done(true, previous, previousAtS, readings);
+    // The gate opened between the command's sending and a gate before its reply: the earlier end is
+    // the one that leaves the most error (over a link the reply comes a return trip after the gate).
+    const startS = Math.min(sentAtS, previousAtS - gateS) - stepAtS;
+    const errorHz = meanErrorHz(knownTauS, gateS, recorded, startS, previous.frequencyHz, beforeStepHz);
+    if (errorHz <= meanTolHz) return done(true, previous, previousAtS, readings);
   }
   let nextSpacingS = gateS;
   // With τ and the value before the step known, one reading right after the step says how long to wait.
@@ -219,14 +248,21 @@ export async function settleAuto(
   if (first !== undefined) nextSpacingS = first;
   for (;;) {
     if (previousAtS >= deadlineS) return done(false, previous, previousAtS, readings);
-    // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end.
+    // The next reading ends one gate after it starts; start it so its end lies nextSpacingS after the previous end
+    // (no later than where a "no signal" would be final).
+    // (A reading sent before that moment could not tell; the next goes out no later than it.)
+    if (finalAfterS !== undefined && previousSentS - stepAtS < finalAfterS)
+      nextSpacingS = Math.min(nextSpacingS, Math.max(gateS, stepAtS + finalAfterS + gateS - previousAtS));
     const waitS = Math.min(nextSpacingS - gateS, deadlineS - previousAtS);
     if (waitS > 0) await clock.sleep(waitS, signal);
+    const currentSentS = clock.now();
     const current = await read();
     const currentAtS = clock.now();
     note(currentAtS, current);
     remember(current, currentAtS);
     readings++;
+    if (finalNoSignal(current, currentSentS)) return done(true, current, currentAtS, readings);
+    previousSentS = currentSentS;
     if (previous.status === 'no-signal' && current.status === 'no-signal') {
       // No signal says nothing about how far the port still has to go: a DUT
       // whose port is still on its way up through the stalled region reads the

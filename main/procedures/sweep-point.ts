@@ -38,6 +38,8 @@ export interface PointResult {
   lastStatus: SampleStatus;
   /** Readings recorded at the point (fixed, or as many as the adaptive rule needed). */
   readingsTaken: number;
+  /** Clock time of the point's control-voltage write. */
+  stepAtS: number;
   /** "No signal" believed before τ was known, the port maybe still on its way from switch-on: clock time of the last such reading, else null. */
   provisionalAtS: number | null;
 }
@@ -60,6 +62,8 @@ export interface PointState {
   pathMeanHz: number;
   /** Every point since switch-on read "no signal" before τ was known: the port may still be on its way. */
   provisionalChain: boolean;
+  /** The control voltage last written by a point (NaN before the first). */
+  controlV: number;
 }
 
 export function newPointState(plan: SweepPlan): PointState {
@@ -73,6 +77,7 @@ export function newPointState(plan: SweepPlan): PointState {
     fromElsewhere: false,
     provisionalChain: false,
     pathMeanHz: Number.NaN,
+    controlV: Number.NaN,
   };
 }
 
@@ -87,6 +92,8 @@ export async function measurePoint(
     index: number;
     afterOutputOn?: boolean;
     previouslyProvisional?: boolean;
+    /** See AutoSettleOptions.finalNoSignalAfterS. */
+    finalNoSignalAfterS?: number;
   },
   signal: AbortSignal,
   /** Where the point's rows go instead of the run, when the caller may hold them back (a provisional "no signal"). */
@@ -96,6 +103,7 @@ export async function measurePoint(
   const channel = ctx.bench.controlChannel;
   const stepAtS = ctx.clock.now();
   await supply.setVoltage(channel, point.controlV);
+  state.controlV = point.controlV;
 
   let settled = true;
   /** The readings that showed the port settled: settled readings, recorded as the point's first. */
@@ -116,6 +124,9 @@ export async function measurePoint(
         afterOutputOn: point.afterOutputOn,
         trace: state.trace,
         expectedStepHz: state.lastStepHz,
+        // The settling's last reading is the first of the point's readings, the rest follow at once.
+        recordedReadings: readingsRule(plan).min,
+        finalNoSignalAfterS: point.finalNoSignalAfterS,
         // From switch-on until something oscillates, with τ unknown: the point's own readings decide
         // (the last of them ends by then), checked against τ once learned (sweep.ts).
         provisionalAfterS:
@@ -238,6 +249,7 @@ export async function measurePoint(
     lastFrequencyHz,
     lastStatus,
     provisionalAtS,
+    stepAtS,
   };
 }
 

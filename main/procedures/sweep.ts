@@ -16,10 +16,18 @@ import { RunControl } from './run-control.ts';
 import { emptyConditions, recordConditions } from './run-conditions.ts';
 import { measurePoint, newPointState, type PointResult } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
+import { takenMeanErrorHz } from './settle-predict.ts';
 import { sweepSchedule } from './sweep-points.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
 
 export { SWEEP_COLUMNS } from './sweep-point.ts';
+
+/**
+ * τ is taken this much longer where the sweep judges from it after the fact (a trial point's
+ * readings, when the port is inside the edge's bracket): its estimate scatters, and a gate's start
+ * is a reply's time less a gate.
+ */
+const TRIAL_TAU_MARGIN = 1.25;
 
 export interface SweepOptions {
   bench: BenchRoles;
@@ -157,8 +165,9 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     let lastOscillated = false;
     /**
      * The trial point's step was too small to show τ (a few counts): probe τ with one larger step
-     * and measure the point again, since it may have been read before it settled. Only the new rows
-     * are written. Null when there is nowhere to probe (the rows read stand).
+     * and measure the point again, since it may have been read before it settled — unless its
+     * readings, judged with the τ just learned, were settled already. Only the new rows are written.
+     * Null when the rows read stand (nowhere to probe, or judged settled; the caller writes them).
      */
     const probeAndRemeasure = async (
       i: number,
@@ -166,6 +175,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       upward: boolean,
       direction: 'up' | 'down',
       scatterBeforeHz: number,
+      taken: { rows: readonly SampleRow[]; stepAtS: number; beforeHz: number },
     ): Promise<PointResult | null> => {
       const target = probeTarget(levels, controlV, upward);
       if (target === null) return null;
@@ -173,6 +183,17 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       const probe = await progress.excluding(() => probeTimeConstant(ctx, plan, state, target, control.signal));
       tauNoted = state.tau.tauS !== null;
       const pathStepHz = state.lastStepHz;
+      // With τ known, the trial's own readings may already be settled: their mean's error, judged by
+      // the lag with τ taken 25 % longer, within the tolerance in counts. Then they stand (the caller
+      // writes them) and the sweep goes on from the probe voltage instead of stepping back.
+      const trialErrorHz = trialMeanErrorHz(taken);
+      if (plan.settle.mode === 'auto' && trialErrorHz <= plan.settle.toleranceCounts / plan.gateS) {
+        ctx.event({ type: 'trial-stands', point_index: i, control_v: controlV, meanErrorHz: trialErrorHz });
+        state.lastMeanHz = probe.endHz;
+        state.lastStepHz = 0;
+        state.fromElsewhere = true;
+        return null;
+      }
       // The point is measured again from the probe voltage, settled there: that is its "before" value
       // (NaN if the probe saw no oscillation); its step is not like the last one.
       state.lastMeanHz = probe.endHz;
@@ -200,6 +221,19 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       state.lastStepHz = pathStepHz;
       return result;
     };
+    /** Settling error of the mean of a trial point's ok readings, once τ is known (Infinity if it cannot tell). */
+    const trialMeanErrorHz = (taken: { rows: readonly SampleRow[]; stepAtS: number; beforeHz: number }): number => {
+      const tauS = state.tau.tauS;
+      if (tauS === null || !Number.isFinite(taken.beforeHz)) return Number.POSITIVE_INFINITY;
+      const starts: number[] = [];
+      const values: number[] = [];
+      for (const row of taken.rows) {
+        if (row.status !== 'ok') return Number.POSITIVE_INFINITY;
+        starts.push((row.time_s as number) + ctx.startS - plan.gateS - taken.stepAtS);
+        values.push(row.frequency_hz as number);
+      }
+      return takenMeanErrorHz(TRIAL_TAU_MARGIN * tauS, plan.gateS, starts, values, taken.beforeHz);
+    };
     for (let i = 0; i < schedule.controlV.length; i++) {
       await control.checkpoint(clock);
       const controlV = schedule.controlV[i] as number;
@@ -222,10 +256,15 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       // The step back from the probe voltage is the probe's cost, not a point's: it stays out of the ETA too;
       // so does the trial, watched as no later point is.
       const scatterBefore = state.scatterHz;
+      const beforeHz = state.lastMeanHz;
       let result: PointResult = await (state.fromElsewhere || trial ? progress.excludingPoint(measure) : measure());
       if (trial && state.tau.tauS === null) {
         probed = true;
-        const retried = await probeAndRemeasure(i, controlV, pass === 0, direction, scatterBefore);
+        const retried = await probeAndRemeasure(i, controlV, pass === 0, direction, scatterBefore, {
+          rows: held ?? [],
+          stepAtS: result.stepAtS,
+          beforeHz,
+        });
         if (retried !== null) result = retried;
         else for (const row of held ?? []) ctx.row(row);
       } else if (held && result.provisionalAtS !== null)
@@ -263,7 +302,13 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
           ctx,
           plan,
           state,
-          { controlV, direction: bracket.direction, refined: true, index },
+          {
+            controlV,
+            direction: bracket.direction,
+            refined: true,
+            index,
+            finalNoSignalAfterS: finalNoSignalAfterS(bracket, state.controlV, controlV, state.tau.tauS),
+          },
           control.signal,
         );
         index++;
@@ -298,4 +343,22 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     await finishRun(outcome, { ctx, control, progress, channel, safe: plan.safe, afterSafe });
   }
   return outcome;
+}
+
+/**
+ * A bisection point approached from above (the oscillating side): the port
+ * falls from `fromV` toward `toV`, and once it is inside the bracket (below
+ * its oscillating level, by the lag with τ taken 25 % longer) a "no signal"
+ * means it is below the one edge the bisection assumes, where it stays:
+ * final. From below, or with τ unknown: undefined (the usual rules).
+ */
+export function finalNoSignalAfterS(
+  bracket: EdgeBracket,
+  fromV: number,
+  toV: number,
+  tauS: number | null,
+): number | undefined {
+  if (tauS === null || !(fromV > toV) || !(bracket.oscillatingV > toV)) return undefined;
+  const insideS = TRIAL_TAU_MARGIN * tauS * Math.log(Math.max(1, (fromV - toV) / (bracket.oscillatingV - toV)));
+  return insideS;
 }

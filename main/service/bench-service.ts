@@ -7,6 +7,7 @@
  */
 import type { BenchApi, BenchEvent, ConnectionState, RunKind, RunMeta } from '../../app/contract/bench-api.ts';
 import type { BenchConfig } from '../../app/contract/plans.ts';
+import type { RunPreview } from '../../app/contract/run-preview.ts';
 import { goSafe } from '../procedures/safe-state.ts';
 import { sanitiseText } from '../../app/contract/excerpt.ts';
 import { checkApiBench, type AddressPolicy } from './address-policy.ts';
@@ -19,10 +20,13 @@ import { LivePoller } from './live-readout.ts';
 import { applyManualControl } from './manual-control.ts';
 import type { CampaignMethods, OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
+import { createRunOpener } from './run-opener.ts';
 
 export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
   close(): Promise<void>;
+  /** The service always answers previewRun (./run-opener.ts). */
+  previewRun(id: string, columns: number): Promise<RunPreview>;
   /** A CSV import fed as UTF-8 slices (browser mode's streamed upload); absent when the store has none. */
   openImport?: (fileName: string, dutId: string) => ImportStream;
 }
@@ -65,6 +69,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
   let starting = false;
 
+  const opener = createRunOpener((id) => options.store.open(id));
   const status = new BenchStatusTracker((state) => emit({ type: 'bench-status', status: state }), options.now);
 
   const setConnection = (state: ConnectionState): ConnectionState => {
@@ -330,11 +335,19 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
       requireRun().control.stop('stop');
     },
     listRuns: () => options.store.list(),
-    openRun: (id) => options.store.open(id),
-    renameRun: (id, dutId) => options.store.rename(id, dutId),
-    addNote: (id, text) => options.store.addNote(id, text),
+    previewRun: (id, columns) => opener.preview(id, columns),
+    openRun: (id) => opener.open(id),
+    renameRun: (id, dutId) => {
+      opener.forget(id);
+      return options.store.rename(id, dutId);
+    },
+    addNote: (id, text) => {
+      opener.forget(id);
+      return options.store.addNote(id, text);
+    },
     async deleteRun(id) {
       if (run?.meta.id === id) throw new BenchApiError(`run ${id} is in progress; stop it before deleting it`, 'id');
+      opener.forget(id);
       await options.store.delete(id);
     },
     restoreRun: (id) => options.store.restore(id),

@@ -17,8 +17,11 @@ export type GuardCause =
   | { kind: 'memory'; usedMb: number; limitMb: number };
 
 export interface BenchHolder {
-  /** Drives every connected supply to its safe state and records why in the run in progress; never rejects. */
-  leaveSafe(cause: GuardCause): Promise<{ ok: boolean }>;
+  /**
+   * Drives every connected supply to its safe state and records why in the run in progress; never rejects.
+   * `exitCode`: the run's own verdict when it ended by itself meanwhile (the process exits with no less).
+   */
+  leaveSafe(cause: GuardCause): Promise<{ ok: boolean; exitCode?: number }>;
 }
 
 /** The bits of `process` the guard uses, so tests can pass an EventEmitter. */
@@ -85,12 +88,12 @@ export function installLastResortGuard(options: LastResortGuardOptions): () => v
     }, deadlineMs);
     void options.holder
       .leaveSafe(cause)
-      .catch(() => ({ ok: false }))
+      .catch((): { ok: boolean; exitCode?: number } => ({ ok: false }))
       .then((result) => {
         clearTimeout(deadline);
         if (!result.ok)
           options.log('tunebench: the safe state could not be confirmed on every step — check the supply now');
-        options.exit(result.ok ? code : code || 1);
+        options.exit(Math.max(result.exitCode ?? 0, result.ok ? code : code || 1));
       });
   };
 

@@ -9,6 +9,7 @@ import { RunControl } from '../procedures/run-control.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
 import type { EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
 import { createRun, type RunWriter } from '../store/index.ts';
+import { isRunFileFault } from '../store/store-error.ts';
 import type { BenchStatusTracker } from './bench-status.ts';
 import type { OpenedBench, ProcedurePort } from './ports.ts';
 import { SampleBatcher } from './sample-batcher.ts';
@@ -62,6 +63,7 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
   const { bench, emit } = options;
   // A plan refused on its own or against these instruments leaves no run folder.
   options.procedure.validate?.(options.plan, bench.roles);
+  const control = new RunControl();
   const writer = await createRun({
     runsDir: options.runsDir,
     kind: options.kind,
@@ -70,7 +72,12 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     plan: options.plan,
     columns: options.procedure.columns,
     clock: bench.clock,
-    onError: (error) => emit({ type: 'error', message: `saving run samples failed: ${error.message}` }),
+    onError: (error) => {
+      emit({ type: 'error', message: `saving run samples failed: ${error.message}` });
+      // A run folder gone or a disk refusing the run's files stops the run (through its safe state) here,
+      // not at the end of a drift log that has nowhere to write.
+      if (isRunFileFault(error)) control.stop('disk-fault');
+    },
   });
   const runId = writer.id;
   const status = options.status;
@@ -85,7 +92,6 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     emit({ type: 'run-event', runId, event });
     status?.runEvent(event);
   });
-  const control = new RunControl();
   const meta = writer.meta();
   emit({ type: 'run-started', meta });
   status?.runStarted(runId);

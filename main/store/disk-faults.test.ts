@@ -8,7 +8,9 @@ import { readdir, readFile, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { assembleBench } from '../bench/assemble.ts';
-import { recordSweep } from '../procedures/recorded-run.ts';
+import { driftPlanSchema } from '../../app/contract/plans.ts';
+import { recordDrift, recordSweep } from '../procedures/recorded-run.ts';
+import { RunControl } from '../procedures/run-control.ts';
 import { SHORT_SWEEP_PLAN } from '../procedures/testing/short-sweep-plan.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { createRun } from './run-writer.ts';
@@ -169,6 +171,52 @@ describe('disk faults while recording', () => {
       expect((error as Error).message).toContain(dir);
       // Stopped at the next flush (the end of the point): at most one point's readings after the deletion.
       expect(rows - rowsAtDelete).toBeLessThanOrEqual(plan.readingsPerPoint);
+      expect(control?.outputOn).toBe(false);
+      expect(control?.setpointV).toBeCloseTo(0.5, 9);
+    });
+  });
+
+  it('a run folder deleted mid-drift stops the log within a flush period (not at its end), through the safe state', async () => {
+    // Re-probe of item 6: a drift log flushes on the writer's own 1 s timer, whose failure was only reported;
+    // the log ran to its planned end writing into nothing and noticed at finish.
+    await withTempDir(async (runsDir) => {
+      const plan = driftPlanSchema.parse({
+        controlV: 2.5,
+        intervalS: 0.1,
+        durationS: 60,
+        gateS: 0.05,
+        settle: { mode: 'fixed', seconds: 0.05 },
+        limits: { maxControlV: 5, currentLimitA: 0.02 },
+        safe: { controlV: 0.5, outputOff: true },
+      });
+      const clock = new VirtualClock({ autoAdvance: true });
+      const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
+      let dir = '';
+      let rows = 0;
+      let rowsAtDelete = -1;
+      const deletions: Promise<void>[] = [];
+      const error = await recordDrift({
+        bench,
+        plan,
+        clock,
+        control: new RunControl(),
+        runsDir,
+        dutId: 'vanishing-folder',
+        onRunStarted: (_meta, runDir) => (dir = runDir),
+        onSample: () => {
+          rows++;
+          if (rows === 20) {
+            rowsAtDelete = rows;
+            deletions.push(rm(dir, { recursive: true, force: true }));
+          }
+        },
+      }).catch((e: unknown) => e);
+      await Promise.all(deletions);
+      const control = bench.sim?.supply.state(1);
+      await bench.close();
+      expect(error).toBeInstanceOf(RunFolderGoneError);
+      // The writer flushes at least once a second on the procedure's clock: ten 0.1 s readings, plus one in flight.
+      expect(rows - rowsAtDelete).toBeLessThanOrEqual(12);
       expect(control?.outputOn).toBe(false);
       expect(control?.setpointV).toBeCloseTo(0.5, 9);
     });

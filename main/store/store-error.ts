@@ -36,3 +36,8 @@ export class RunFolderGoneError extends Error {
     super(`the run folder ${dir} has gone (deleted or unmounted while recording); the run was stopped there`);
   }
 }
+
+/** A fault of the run's own files that no retry will mend while the run goes on: it must stop the run. */
+export function isRunFileFault(error: unknown): boolean {
+  return error instanceof RunFolderGoneError || error instanceof DiskError;
+}

@@ -9,6 +9,7 @@ import { runAnalysisBench } from './analysis.ts';
 import { runBigInputsBench } from './big-inputs.ts';
 import { runProceduresBench } from './procedures.ts';
 import { runBrowserBench } from './browser.ts';
+import { runBigRunsBench } from './big-runs.ts';
 import { benchStoreAppend } from './store-append.ts';
 import { runSimClockBench } from './sim-clock.ts';
 import { runCliStartBench } from './cli-start.ts';
@@ -28,6 +29,7 @@ const suites: Record<string, () => Promise<unknown>> = {
   },
   'sim-clock': runSimClockBench,
   browser: runBrowserBench,
+  'big-runs': () => runBigRunsBench(),
 };
 
 const wanted = process.argv.slice(2);

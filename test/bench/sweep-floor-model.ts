@@ -5,7 +5,13 @@
  * previous point's mean (or, after a point without oscillation, ΔV × the
  * local slope), resolution 1/gate — plus its gate times. A point without
  * oscillation costs only its gates.
+ *
+ * Beside it, the floor of the recorded mean (criterion 'recorded-mean'): the
+ * point's readings are recorded as their mean, and the mean of n back-to-back
+ * gates opening t after a step of A misses by A·e^(−t/τ)·F(τ, n·g) (settle-
+ * predict.ts): the first gate may open at τ·ln(F·step / resolution).
  */
+import { gateAverageFactor } from '../../main/procedures/settle-predict.ts';
 import type { SampleRow } from '../../main/procedures/types.ts';
 
 export interface PointMean {
@@ -40,8 +46,15 @@ function localSlope(curve: PointMean[], v: number, f: number): number {
   return best === null ? 0 : Math.abs(best.meanHz - f) / Math.abs(best.controlV - v);
 }
 
-export function floorSeconds(points: PointMean[], tauS: number, gateS: number, readings: number): number {
+export function floorSeconds(
+  points: PointMean[],
+  tauS: number,
+  gateS: number,
+  readings: number,
+  criterion: 'first-gate' | 'recorded-mean' = 'first-gate',
+): number {
   const resolutionHz = 1 / gateS;
+  const kept = criterion === 'recorded-mean' ? gateAverageFactor(tauS, readings * gateS) : 1;
   let total = 0;
   for (let i = 0; i < points.length; i++) {
     const p = points[i] as PointMean;
@@ -52,7 +65,7 @@ export function floorSeconds(points: PointMean[], tauS: number, gateS: number, r
       prev !== undefined && Number.isFinite(prev.meanHz)
         ? Math.abs(p.meanHz - prev.meanHz)
         : Math.abs(p.controlV - (prev?.controlV ?? 0)) * localSlope(points, p.controlV, p.meanHz);
-    if (stepHz > resolutionHz) total += tauS * Math.log(stepHz / resolutionHz);
+    if (kept * stepHz > resolutionHz) total += tauS * Math.log((kept * stepHz) / resolutionHz);
   }
   return total;
 }

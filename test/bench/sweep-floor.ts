@@ -40,19 +40,20 @@ import type { DutParams } from '../../main/sim/dut-params.ts';
 import { runPeerScript } from './peer-fixed-settle.ts';
 import { settlingFigure } from './procedures.ts';
 import { floorSeconds, pointsOf, type PointMean } from './sweep-floor-model.ts';
+import { SweepTimer, describeTotals, stretches, totals, type StretchTimes } from './sweep-timing.ts';
 
 const BIN = fileURLToPath(new URL('../../main/bin/tunebench.mjs', import.meta.url));
-const TAU_S = 0.05;
-const GATE_S = 0.1;
-const READINGS = 3;
+export const TAU_S = 0.05;
+export const GATE_S = 0.1;
+export const READINGS = 3;
 
-interface SimProcess {
+export interface SimProcess {
   child: ChildProcess;
   supply: string;
   counter: string;
 }
 
-async function startSim(dutFile: string): Promise<SimProcess> {
+export async function startSim(dutFile: string): Promise<SimProcess> {
   const child = spawn(process.execPath, [BIN, 'sim', '--base-port', '0', '--dut', dutFile, '--seed', '7'], {
     stdio: ['ignore', 'pipe', 'inherit'],
   });
@@ -81,32 +82,62 @@ function plan(stepV: number): SweepPlan {
   });
 }
 
-interface AutoRun {
+export interface AutoRun {
   wallS: number;
   points: PointMean[];
   probeTauS: number | null;
   timeouts: number;
+  /** Time per control write, by kind (sweep-timing.ts). */
+  parts: StretchTimes[];
+  /** Before the first control write and after the last stretch: limits, output on, conditions, safe state. */
+  setupS: number;
+  remeasured: number;
 }
 
-async function autoSweep(sim: SimProcess | null, stepV: number): Promise<AutoRun> {
+/** The same run against the floor of its recorded means (each point's mean within 1 count). */
+function printFloorOfMean(run: AutoRun, floorS: number): void {
+  const meanFloorS = floorSeconds(run.points, TAU_S, GATE_S, READINGS, 'recorded-mean');
+  console.log(
+    `      against the floor of the recorded mean (mean of ${READINGS} gates within 1 count, τ·ln(F·step/resolution)): ${meanFloorS.toFixed(2)} s, ratio ${(run.wallS / meanFloorS).toFixed(3)}` +
+      ` (the floor above, first gate opening within 1 count: ${floorS.toFixed(2)} s)`,
+  );
+}
+
+/** Where the time went, beside the floor's settle waits and gates. */
+export function printParts(run: AutoRun, floorS: number): void {
+  const t = totals(run.parts);
+  const floorGatesS = run.points.length * READINGS * GATE_S;
+  console.log(
+    `      time by kind: ${describeTotals(t, run.parts.length)}; setup and safe state ${run.setupS.toFixed(2)} s` +
+      `\n      floor: settle ${(floorS - floorGatesS).toFixed(2)} s + gates ${floorGatesS.toFixed(2)} s over ${run.points.length} points; ` +
+      `stretches beyond the points (probe, measured again): ${run.parts.length - run.points.length}, remeasure events ${run.remeasured}`,
+  );
+}
+
+export async function autoSweep(sim: SimProcess | null, stepV: number): Promise<AutoRun> {
   // sim null: the same DUT and plan on the in-process simulated bench on a virtual clock, where no
   // link and no other process adds time: the procedure's own figure, whatever the machine's load.
-  const clock = sim === null ? new VirtualClock({ autoAdvance: true }) : new RealClock();
-  const bench =
+  const base = sim === null ? new VirtualClock({ autoAdvance: true }) : new RealClock();
+  // The procedure's waits are timed; the in-process simulator's own (its gates) are not.
+  const timer = new SweepTimer(base);
+  const clock = timer.clock;
+  const assembled =
     sim === null
-      ? await assembleBench('sim', { clock, sim: { dut: tau50msDut(), seed: 7 } })
+      ? await assembleBench('sim', { clock: base, sim: { dut: tau50msDut(), seed: 7 } })
       : await assembleBench(
           {
             supply: { address: sim.supply, controlChannel: 1, dutSupplyChannel: 2 },
             counter: { address: sim.counter },
           },
-          { clock },
+          { clock: base },
         );
+  const bench = timer.wrap(assembled);
   const sink = new MemorySink();
   const t0 = clock.now();
   const outcome = await runSweep({ bench, plan: plan(stepV), clock, sink });
   const wallS = clock.now() - t0;
-  await bench.close();
+  const parts = stretches(timer.spans, GATE_S, clock.now());
+  await assembled.close();
   if (outcome.status !== 'complete') throw new Error(`sweep ${outcome.status}: ${outcome.reason ?? ''}`);
   const probe = sink.eventsOfType('settle-probe')[0];
   return {
@@ -114,10 +145,13 @@ async function autoSweep(sim: SimProcess | null, stepV: number): Promise<AutoRun
     points: pointsOf(sink.rows),
     probeTauS: (probe?.tauS as number | null | undefined) ?? null,
     timeouts: sink.eventsOfType('settle-timeout').length,
+    parts,
+    setupS: wallS - totals(parts).totalS,
+    remeasured: sink.eventsOfType('remeasure').length,
   };
 }
 
-function tau50msDut(): DutParams {
+export function tau50msDut(): DutParams {
   const dut = builtinDut('relaxation');
   return { ...dut, id: `${dut.id}-tau50ms`, tuning: { ...dut.tuning, settleTauS: TAU_S } };
 }
@@ -141,12 +175,16 @@ export async function runSweepFloorBench(): Promise<void> {
         `  step ${stepV * 1000} mV: ${auto.points.length} points in ${auto.wallS.toFixed(2)} s, floor ${floorS.toFixed(2)} s, ratio ${ratio.toFixed(3)} (target ≤ 1.05) ${ratio <= 1.05 ? 'meets' : 'MISSES'}` +
           ` [probe τ ${auto.probeTauS === null ? '–' : `${(auto.probeTauS * 1000).toFixed(1)} ms`}, settle timeouts ${auto.timeouts}, load ${load.toFixed(2)}]`,
       );
+      printFloorOfMean(auto, floorS);
+      printParts(auto, floorS);
       const virtual = await autoSweep(null, stepV);
       const virtualFloorS = floorSeconds(virtual.points, TAU_S, GATE_S, READINGS);
       console.log(
         `    same sweep on the in-process simulated bench, virtual clock (no link, no load): ${virtual.wallS.toFixed(2)} s, floor ${virtualFloorS.toFixed(2)} s, ratio ${(virtual.wallS / virtualFloorS).toFixed(3)}` +
           ` [probe τ ${virtual.probeTauS === null ? '–' : `${(virtual.probeTauS * 1000).toFixed(1)} ms`}]`,
       );
+      printFloorOfMean(virtual, virtualFloorS);
+      printParts(virtual, virtualFloorS);
       if (peerDone) continue;
       peerDone = true;
       // The peer: same scheduled points, fixed 0.5 s, no edge search.
@@ -179,13 +217,14 @@ export async function runSweepFloorBench(): Promise<void> {
     // Item 3's second target, where the previous benches measured it: automatic against a fixed 0.5 s
     // settle on the in-process simulated bench (virtual clock), gate 10 ms, 3 readings, 1.6–4.2 V.
     console.log(
-      '  automatic vs fixed 0.5 s settling (same DUT, in-process simulated bench on a virtual clock, 10 ms gate, 3 readings, 1.6–4.2 V):',
+      '  automatic vs fixed 0.5 s settling (same DUT, in-process simulated bench on a virtual clock, 10 ms gate, 3 readings, 1.6–4.2 V, the plan default tolerance of 2 counts; floors at 1 count):',
     );
     for (const stepV of [0.05, 0.2]) {
       const f = await settlingFigure(stepV);
       console.log(
         `  step ${stepV * 1000} mV: auto ${f.autoS.toFixed(2)} s, fixed ${f.fixedS.toFixed(2)} s, ratio ${f.ratio.toFixed(3)} (target ≤ 0.333) ${f.ratio <= 1 / 3 ? 'meets' : 'MISSES'};` +
           ` floor of its points ${f.floorS.toFixed(2)} s = ${(f.floorS / f.fixedS).toFixed(3)} of fixed, auto/floor ${(f.autoS / f.floorS).toFixed(3)};` +
+          ` floor of their recorded means ${f.meanFloorS.toFixed(2)} s = ${(f.meanFloorS / f.fixedS).toFixed(3)} of fixed;` +
           ` largest curve difference ${f.maxDiffHz.toFixed(1)} Hz (limit ${f.allowedHz.toFixed(0)} Hz = 2 counts) ${f.maxDiffHz <= f.allowedHz ? 'meets' : 'MISSES'} over ${f.points} points`,
       );
     }

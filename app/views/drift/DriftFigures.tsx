@@ -29,6 +29,9 @@ import { FigureList } from '../FigureList.tsx';
 import { adevColumns, driftKeyFigures } from './drift-key-figures.ts';
 import { formatFigure } from '../../analysis/format-figure.ts';
 import { tempcoColumns, type DriftOutcome } from './drift-figures.ts';
+import type { PixelPreview } from '../../contract/run-preview.ts';
+import { previewPlotData } from './preview-plot.ts';
+import { maskedColumn } from './masked-column.ts';
 import { driftReadouts } from './drift-readouts.ts';
 
 export interface DriftSource {
@@ -44,16 +47,20 @@ export interface DriftSource {
   startMs?: number | null;
   /** Set when the screen shows a stored log (no log in this window yet): which one. */
   storedFrom?: string;
+  /** Set while only the run's pixel preview has arrived: drawn from it, nothing analysed yet. */
+  preview?: { data: PixelPreview; rowCount: number };
 }
 
 function DriftKeyFigures({
   outcome,
   running,
   holdV,
+  previewing = false,
 }: {
   outcome: DriftOutcome | null;
   running: boolean;
   holdV: number | null;
+  previewing?: boolean;
 }) {
   const a = outcome?.ok ? outcome.analysis : null;
   return (
@@ -62,7 +69,11 @@ function DriftKeyFigures({
       {outcome && !outcome.ok ? <p className="error-line">Analysis: {outcome.message}</p> : null}
       {!outcome ? (
         <p className="muted" data-testid={running ? 'analysis-running' : undefined}>
-          {running ? 'Analysing the log…' : 'Shown when the log has ended.'}
+          {running
+            ? 'Analysing the log…'
+            : previewing
+              ? 'Analysed once every reading has arrived.'
+              : 'Shown when the log has ended.'}
         </p>
       ) : null}
       <dl className="figures">
@@ -74,6 +85,7 @@ function DriftKeyFigures({
 
 export function DriftFigures({ source }: { source: DriftSource }) {
   const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
+  const masked = useRef<{ key: string; rows: number; ys: [Float64Array, Float64Array] } | null>(null);
   // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
   const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () =>
     driftJob(source.columns(), source.rows(), source.gateS),
@@ -92,7 +104,26 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     }
     return { columns, gaps: gaps.current };
   };
+  // A finished run's columns no longer grow: its gaps are masked once, in one typed pass.
+  const storedYs = (columns: ColumnSet, n: number): [Float64Array, Float64Array] => {
+    if (!masked.current || masked.current.key !== source.key || masked.current.rows !== n) {
+      const status = columns.status.view();
+      masked.current = {
+        key: source.key,
+        rows: n,
+        ys: [
+          maskedColumn(columns.frequency_hz.view(), status, n),
+          maskedColumn(columns.temperature_c.view(), status, n),
+        ],
+      };
+    }
+    return masked.current.ys;
+  };
   const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
+    if (source.preview) {
+      dense.current = true;
+      return previewPlotData(source.preview.data, 'frequency_hz', 'temperature_c', view);
+    }
     const { columns, gaps: g } = gapColumns();
     const n = source.rows();
     const x = columns.time_s.view().subarray(0, n);
@@ -100,7 +131,8 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     const to = view ? view.xMax : (x[n - 1] ?? 0);
     const px = Math.max(100, view?.widthPx ?? widthPx);
     // Slices at least 4 px and 4 readings wide: a reading flipping between two counts becomes a band, and drift still shows.
-    const env = envelope(x, [g.freq.data(n), g.temp.data(n)], n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
+    const ys = source.done ? storedYs(columns, n) : [g.freq.data(n), g.temp.data(n)];
+    const env = envelope(x, ys, n, from, to, Math.floor(px / 4), Math.floor(px / 4), 4);
     dense.current = env.dense;
     const [freq, temp] = env.series as [EnvelopeSeries, EnvelopeSeries];
     return [env.x, freq.mid, freq.lo, freq.hi, temp.mid] as uPlot.AlignedData;
@@ -136,7 +168,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           buildKey={buildKey}
           height={320}
           data={timeData}
-          csv={timeCsv}
+          {...(source.preview ? {} : { csv: timeCsv })}
           cursorReadouts={{ x: readouts.time, y: readouts.frequency }}
           exportName={`drift-${source.key}`}
           watch={source.watch}
@@ -170,10 +202,17 @@ export function DriftFigures({ source }: { source: DriftSource }) {
             )
           }
           footer={
-            <span data-testid="drift-plot-key">
-              Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each
-              slice of time and the line is their mean; zoom in to see each reading.
-            </span>
+            source.preview ? (
+              <span className="muted" data-testid="drift-preview-note">
+                Preview: {source.preview.rowCount.toLocaleString('en')} readings drawn at screen resolution (lowest to
+                highest and mean per pixel column). Loading every reading for zoom and analysis…
+              </span>
+            ) : (
+              <span data-testid="drift-plot-key">
+                Where readings are denser than the screen, the shaded band spans the lowest to highest reading in each
+                slice of time and the line is their mean; zoom in to see each reading.
+              </span>
+            )
           }
         />
         {tempco ? (
@@ -250,6 +289,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
         outcome={outcome}
         running={running}
         holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null}
+        previewing={source.preview !== undefined}
       />
     </div>
   );

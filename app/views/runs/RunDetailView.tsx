@@ -10,6 +10,8 @@ import { SweepFigures } from '../sweep/SweepFigures.tsx';
 import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
+import type { PixelPreview, RunPreview } from '../../contract/run-preview.ts';
+import { createColumnSet } from '../../state/columns.ts';
 
 function FactsTable({
   caption,
@@ -43,15 +45,54 @@ function FactsTable({
   );
 }
 
+/** A big run while its full columns are on their way: its plot from the pixel preview, nothing else yet. */
+function RunPreviewView({ id, shown, preview }: { id: string; shown: RunPreview; preview: PixelPreview }) {
+  const { stores } = useApp();
+  const theme = useEffectiveTheme();
+  const focus = useStore(stores.runs, (s) => s.focus);
+  const meta = shown.meta;
+  const gateS = planHints(meta.plan).gateS;
+  const empty = createColumnSet(1);
+  const source = {
+    key: `${meta.id}|preview`,
+    columns: () => empty,
+    rows: () => 0,
+    done: false,
+    theme,
+    startMs: Date.parse(meta.startedAt),
+    preview: { data: preview, rowCount: shown.rowCount },
+    ...(gateS !== undefined ? { gateS } : {}),
+  };
+  return (
+    <Panel
+      title={`${meta.dut.id} — ${meta.kind}, ${when(meta.startedAt)}`}
+      testId="run-detail"
+      actions={
+        <button type="button" className="quiet" onClick={() => void focus(null)} data-testid="run-close">
+          Close
+        </button>
+      }
+    >
+      <p className="muted" data-testid="run-preview-status">
+        {shown.rowCount.toLocaleString('en')} readings · status {meta.status} · {runWindow(meta)} · loading the full
+        data of run {id}…
+      </p>
+      {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
+    </Panel>
+  );
+}
+
 export function RunDetailView({ id }: { id: string }) {
   const { stores } = useApp();
   const theme = useEffectiveTheme();
   const opened = useStore(stores.runs, (s) => s.opened[id]);
+  const preview = useStore(stores.runs, (s) => s.previews[id]);
   const rename = useStore(stores.runs, (s) => s.rename);
   const addNote = useStore(stores.runs, (s) => s.addNote);
   const focus = useStore(stores.runs, (s) => s.focus);
   const [name, setName] = useState<string | null>(null);
   const [note, setNote] = useState('');
+  if (!opened && preview?.preview) return <RunPreviewView id={id} shown={preview} preview={preview.preview} />;
   if (!opened) return <p className="muted">Opening run…</p>;
   const meta = opened.detail.meta;
   const gateS = planHints(meta.plan).gateS;
