@@ -13,7 +13,7 @@ import {
   type PushingPlan,
   type SweepPlan,
 } from '../../app/contract/plans.ts';
-import { createRun, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
+import { cacheFinishedRun, createRun, nodeStoreFs, reopenRun, type RunWriter } from '../store/index.ts';
 import { isRunFileFault } from '../store/store-error.ts';
 import type { Clock } from '../time/clock.ts';
 import { DRIFT_COLUMNS, runDrift, type DriftOutcome } from './drift.ts';
@@ -135,6 +135,8 @@ async function record<O extends ProcedureOutcome>(
   await refusedBeforeOutput(writer, outcome, outputTouched);
   announce();
   const meta = await writer.finish(outcome.status, outcome.conditions ? { conditions: outcome.conditions } : undefined);
+  // The bench is already safe here: a big run's column cache is built now, so its first opening draws at once.
+  await cacheFinishedRun(writer.dir, writer.rowsWritten()).catch(() => false);
   return { meta, dir: writer.dir, outcome };
 }
 

@@ -8,7 +8,7 @@ import type { BenchEvent, RunKind, RunMeta } from '../../app/contract/bench-api.
 import { RunControl } from '../procedures/run-control.ts';
 import type { SafeState } from '../../app/contract/plans.ts';
 import type { EventBody, ProcedureEvent, ProcedureOutcome, RunSink, SampleRow } from '../procedures/types.ts';
-import { createRun, type RunWriter } from '../store/index.ts';
+import { cacheFinishedRun, createRun, type RunWriter } from '../store/index.ts';
 import { isRunFileFault } from '../store/store-error.ts';
 import type { BenchStatusTracker } from './bench-status.ts';
 import type { OpenedBench, ProcedurePort } from './ports.ts';
@@ -104,7 +104,10 @@ export async function startRunSession(options: RunSessionOptions): Promise<RunSe
     if (finished) return writer.meta();
     finished = true;
     // The conditions the sweep read around itself go into run.json, as `tunebench sweep` writes them (recorded-run.ts).
-    return writer.finish(status, conditions ? { conditions } : undefined);
+    const meta = await writer.finish(status, conditions ? { conditions } : undefined);
+    // A big run's column cache is built in the background, so its first opening draws at once; best effort.
+    void cacheFinishedRun(writer.dir, writer.rowsWritten()).catch(() => false);
+    return meta;
   };
   const done = (async (): Promise<RunMeta> => {
     let outcome: ProcedureOutcome | null = null;

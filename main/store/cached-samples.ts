@@ -5,7 +5,10 @@
  * Only on the real file system (an injected one, as in fault tests, reads
  * the CSV every time).
  */
+import { readFile } from 'node:fs/promises';
+import { join } from 'node:path';
 import { csvKey, readColumnCache, writeColumnCache } from './column-cache.ts';
+import { SAMPLES_CSV } from './run-meta.ts';
 import type { ReadOptions, RunFolderContents } from './run-reader.ts';
 import { type SampleTable, readSampleTable } from './sample-table.ts';
 
@@ -31,4 +34,25 @@ export async function openSamples(
   const table = readSampleTable(run.samplesCsv);
   if (key !== null && run.meta.status !== 'running') await writeColumnCache(csvPath, table, key);
   return { run, table, source: 'csv' };
+}
+
+/**
+ * Runs of at least this many rows get their column cache when they finish; the page's pixel preview starts at
+ * the same count (app/analysis/pixel-preview.ts PREVIEW_MIN_ROWS). Smaller runs parse faster than a cache pays.
+ */
+export const CACHE_AT_FINISH_MIN_ROWS = 20_000;
+
+/**
+ * Builds a finished run's column cache at once, so that the first opening of a big run (a week-long drift log)
+ * reads the cache instead of parsing the CSV. Best effort: the CSV stays the source of truth, and a run whose
+ * cache can't be written still opens from it. Returns whether a cache was written.
+ */
+export async function cacheFinishedRun(dir: string, rowsWritten: number): Promise<boolean> {
+  if (rowsWritten < CACHE_AT_FINISH_MIN_ROWS) return false;
+  const csvPath = join(dir, SAMPLES_CSV);
+  // The CSV's state before it is read: writeColumnCache skips the cache if the file changed meanwhile.
+  const key = await csvKey(csvPath);
+  if (key === null) return false;
+  const table = readSampleTable(await readFile(csvPath, 'utf8'));
+  return writeColumnCache(csvPath, table, key);
 }

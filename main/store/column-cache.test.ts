@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import { COLUMN_CACHE_FILE, decodeColumnCache, encodeColumnCache } from './column-cache.ts';
-import { openSamples } from './cached-samples.ts';
+import { CACHE_AT_FINISH_MIN_ROWS, cacheFinishedRun, openSamples } from './cached-samples.ts';
 import { readRunFolder } from './run-reader.ts';
 import { openRun } from './run-store.ts';
 import { createRun } from './run-writer.ts';
@@ -111,6 +111,21 @@ describe('binary column cache', () => {
         (await openSamples(csvPath, {}, (without) => readRunFolder(dir, { withoutSamples: without }))).source,
       ).toBe('csv');
       await expect(stat(join(dir, COLUMN_CACHE_FILE))).rejects.toThrow();
+    });
+  });
+  it('is built when a big run finishes, so its first opening reads the cache; small runs are left to their CSV', async () => {
+    await withTempDir(async (runsDir) => {
+      const small = await finishedRun(runsDir, CACHE_AT_FINISH_MIN_ROWS - 1);
+      expect(await cacheFinishedRun(small.dir, CACHE_AT_FINISH_MIN_ROWS - 1)).toBe(false);
+      await expect(stat(join(small.dir, COLUMN_CACHE_FILE))).rejects.toThrow();
+
+      const big = await finishedRun(runsDir, CACHE_AT_FINISH_MIN_ROWS);
+      expect(await cacheFinishedRun(big.dir, CACHE_AT_FINISH_MIN_ROWS)).toBe(true);
+      const csvPath = join(big.dir, 'samples.csv');
+      const first = await openSamples(csvPath, {}, (without) => readRunFolder(big.dir, { withoutSamples: without }));
+      expect(first.source).toBe('cache');
+      expect(first.table).toEqual(readSampleTable(await readFile(csvPath, 'utf8')));
+      expect(first.table.rowCount).toBe(CACHE_AT_FINISH_MIN_ROWS);
     });
   });
 });

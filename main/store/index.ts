@@ -30,6 +30,7 @@ export {
   type OpenedRun,
 } from './run-store.ts';
 export { reopenRun, type ReopenRunOptions } from './reopen-run.ts';
+export { cacheFinishedRun, CACHE_AT_FINISH_MIN_ROWS } from './cached-samples.ts';
 export { importCsvRun, type ImportCsvOptions } from './csv-import.ts';
 export { CsvImportError, readPlainCsv, type CsvProblem, type PlainCsvTable } from './plain-csv.ts';
 export { StoreError, type StoreErrorReason } from './store-error.ts';

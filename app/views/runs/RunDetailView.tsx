@@ -12,6 +12,25 @@ import { when } from '../units.ts';
 import { conditionRows, planRows, runWindow } from './run-facts.ts';
 import type { PixelPreview, RunPreview } from '../../contract/run-preview.ts';
 import { createColumnSet } from '../../state/columns.ts';
+import type { ReactNode } from 'react';
+import type { RunMeta } from '../../contract/bench-api.ts';
+
+/** The frame of a run's detail, the same while its preview and once its full data show. */
+function RunDetailPanel({ meta, onClose, children }: { meta: RunMeta; onClose: () => void; children: ReactNode }) {
+  return (
+    <Panel
+      title={`${meta.dut.id} — ${meta.kind}, ${when(meta.startedAt)}`}
+      testId="run-detail"
+      actions={
+        <button type="button" className="quiet" onClick={onClose} data-testid="run-close">
+          Close
+        </button>
+      }
+    >
+      {children}
+    </Panel>
+  );
+}
 
 function FactsTable({
   caption,
@@ -64,21 +83,13 @@ function RunPreviewView({ id, shown, preview }: { id: string; shown: RunPreview;
     ...(gateS !== undefined ? { gateS } : {}),
   };
   return (
-    <Panel
-      title={`${meta.dut.id} — ${meta.kind}, ${when(meta.startedAt)}`}
-      testId="run-detail"
-      actions={
-        <button type="button" className="quiet" onClick={() => void focus(null)} data-testid="run-close">
-          Close
-        </button>
-      }
-    >
+    <RunDetailPanel meta={meta} onClose={() => void focus(null)}>
       <p className="muted" data-testid="run-preview-status">
         {shown.rowCount.toLocaleString('en')} readings · status {meta.status} · {runWindow(meta)} · loading the full
         data of run {id}…
       </p>
       {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
-    </Panel>
+    </RunDetailPanel>
   );
 }
 
@@ -115,15 +126,7 @@ export function RunDetailView({ id }: { id: string }) {
     ]),
   ].filter((text) => text.trim() !== '');
   return (
-    <Panel
-      title={`${meta.dut.id} — ${meta.kind}, ${when(meta.startedAt)}`}
-      testId="run-detail"
-      actions={
-        <button type="button" className="quiet" onClick={() => void focus(null)} data-testid="run-close">
-          Close
-        </button>
-      }
-    >
+    <RunDetailPanel meta={meta} onClose={() => void focus(null)}>
       <div className="row">
         <Field label="DUT id" value={name ?? meta.dut.id} onChange={setName} inputMode="text" testId="rename-input" />
         <button
@@ -191,6 +194,6 @@ export function RunDetailView({ id }: { id: string }) {
       {meta.kind === 'sweep' ? <SweepFigures source={source} /> : null}
       {meta.kind === 'drift' ? <DriftFigures source={source} /> : null}
       {meta.kind === 'pushing' ? <PushingFigures source={source} /> : null}
-    </Panel>
+    </RunDetailPanel>
   );
 }

@@ -58,3 +58,6 @@ export const nodeStoreFs: StoreFs = {
   readdir: noNodeFs,
   stat: noNodeFs,
 };
+
+/** The page's OPFS store keeps no column cache: its runs open from their CSV (nothing to build at finish). */
+export const cacheFinishedRun: typeof Original.cacheFinishedRun = () => Promise.resolve(false);
