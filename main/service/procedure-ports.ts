@@ -13,31 +13,30 @@ import {
   validateSweepPlan,
 } from '../procedures/recorded-run.ts';
 import { runSweep, SWEEP_COLUMNS } from '../procedures/sweep.ts';
-import type { ProcedurePort } from './ports.ts';
+import type { ProcedureOutcome } from '../procedures/types.ts';
+import type { ProcedurePort, ProcedureRun } from './ports.ts';
 
-export const sweepPort: ProcedurePort = {
-  columns: SWEEP_COLUMNS,
-  validate: (plan, roles) => {
-    validateSweepPlan(plan as SweepPlan);
-    checkPlanAgainstBench(plan as SweepPlan, roles);
-  },
-  run: (o) => runSweep({ ...o, plan: o.plan as SweepPlan }),
-};
+type RecordedPlan = SweepPlan | DriftPlan | PushingPlan;
 
-export const driftPort: ProcedurePort = {
-  columns: DRIFT_COLUMNS,
-  validate: (plan, roles) => {
-    validateDriftPlan(plan as DriftPlan);
-    checkPlanAgainstBench(plan as DriftPlan, roles);
-  },
-  run: (o) => runDrift({ ...o, plan: o.plan as DriftPlan }),
-};
+/**
+ * One procedure as a port: its plan is checked alone and against the bench's counter before the run folder
+ * exists. The service parsed the plan with this procedure's schema, hence the one cast here.
+ */
+function procedurePort<P extends RecordedPlan>(
+  columns: readonly string[],
+  validatePlan: (plan: P) => void,
+  run: (options: Omit<ProcedureRun, 'plan'> & { plan: P }) => Promise<ProcedureOutcome>,
+): ProcedurePort {
+  return {
+    columns,
+    validate: (plan, roles) => {
+      validatePlan(plan as P);
+      checkPlanAgainstBench(plan as P, roles);
+    },
+    run: (o) => run({ ...o, plan: o.plan as P }),
+  };
+}
 
-export const pushingPort: ProcedurePort = {
-  columns: PUSHING_COLUMNS,
-  validate: (plan, roles) => {
-    validatePushingPlan(plan as PushingPlan);
-    checkPlanAgainstBench(plan as PushingPlan, roles);
-  },
-  run: (o) => runPushing({ ...o, plan: o.plan as PushingPlan }),
-};
+export const sweepPort = procedurePort<SweepPlan>(SWEEP_COLUMNS, validateSweepPlan, runSweep);
+export const driftPort = procedurePort<DriftPlan>(DRIFT_COLUMNS, validateDriftPlan, runDrift);
+export const pushingPort = procedurePort<PushingPlan>(PUSHING_COLUMNS, validatePushingPlan, runPushing);

@@ -12,30 +12,17 @@ import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { hasChromium, launchChromium, SCREENS_DIR, serveApp, SKIP_REASON, type ServedApp } from './harness.ts';
+import { STARTER_PLAN } from '../../app/views/campaign/plan-text.ts';
 
 if (!hasChromium) console.warn(SKIP_REASON);
 
 const byId = (id: string): string => `[data-testid="${id}"]`;
 
+/** The screen's own starting plan with this test's temperatures and units (the assertions below name them). */
 const PLAN = {
+  ...STARTER_PLAN,
   temperaturesC: [25, 35],
-  supplyV: ['5V'],
-  maxSupplyV: '5.5V',
   units: ['board-7', 'board-9'],
-  soak: { toleranceC: 1, maxSlopeCPerMin: 0.5, dwellS: '1min', timeoutS: '2h', readIntervalS: '10s' },
-  chamber: { minC: -20, maxC: 70, maxRateCPerMin: 3 },
-  sweep: {
-    start: '2V',
-    stop: '4V',
-    step: '250mV',
-    readingsPerPoint: 2,
-    gateS: '100ms',
-    settle: { mode: 'fixed', seconds: '50ms' },
-    refineEdgeV: 0,
-    limits: { maxControlV: '5V', currentLimitA: '20mA' },
-  },
-  safeC: 25,
-  nominalControlV: '3V',
 };
 
 async function shot(page: Page, name: string): Promise<void> {
