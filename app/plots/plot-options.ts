@@ -59,13 +59,27 @@ export function logSiAxis(colors: PlotColors, label: string, unit: string): uPlo
  * minutes, hours or days, labelled as a clock would, spaced so labels never
  * touch. `startMs` (the log's start) lets multi-day logs read in dates.
  */
+/** Half the width of a long time label ("1 min 30 s" at the axis font): closer to an edge, a tick shows no text. */
+const EDGE_LABEL_CLEARANCE_PX = 28;
+
 export function timeAxis(colors: PlotColors, label = 'Time', startMs: number | null = null): uPlot.Axis {
   return {
     ...siAxis(colors, label, 's'),
     incrs: [...TIME_STEPS_S],
     space: 78,
-    values: (_u, values, _axis, _space, incr) =>
-      values.map((value) => (value === null ? '' : timeTickLabel(value, incr, startMs))),
+    // A label centred on a tick at the plot's very edge reaches under the y axes' lowest tick labels (seen in the
+    // SVG export: "3 min" on "23.10 °C"): such edge ticks keep their grid line and lose only their text.
+    values: (u, values, _axis, _space, incr) => {
+      // bbox is in device pixels; uPlot's pixel ratio is the page's (this project never sets its own).
+      const widthPx = u.bbox.width / (globalThis.devicePixelRatio || 1);
+      return values.map((value) => {
+        if (value === null) return '';
+        const x = u.valToPos(value, 'x');
+        return x < EDGE_LABEL_CLEARANCE_PX || x > widthPx - EDGE_LABEL_CLEARANCE_PX
+          ? ''
+          : timeTickLabel(value, incr, startMs);
+      });
+    },
   };
 }
 
