@@ -37,7 +37,7 @@
 import type { Clock } from '../time/clock.ts';
 import type { CounterReading } from './read-counter.ts';
 import { meanErrorHz, predictedStartS } from './settle-predict.ts';
-import { TimeConstantEstimate } from './settle-tau.ts';
+import { TimeConstantEstimate, fitStepCurve } from './settle-tau.ts';
 
 export { TimeConstantEstimate } from './settle-tau.ts';
 
@@ -78,6 +78,16 @@ export interface AutoSettleOptions {
    * then the watching readings are not spaced past that moment.
    */
   finalNoSignalAfterS?: number;
+  /**
+   * With τ unknown, learn it from this step (a trial point): readings back
+   * to back, and once they have moved by at least this much (Hz) they are
+   * fitted after each new one (end value free, settle-tau.ts); an estimate
+   * is taken once the readings cover 3 of its τ (the end value then shows).
+   * The rules with τ known then decide, so the step's own readings are the
+   * point's, with no probe and no second measurement. A step that moves less
+   * settles by the rules without τ (the sweep then probes).
+   */
+  learnTauFromStepHz?: number;
 }
 
 /** Preallocated record of one point's settling readings. */
@@ -117,6 +127,35 @@ const MIN_DONE_FRACTION = 0.5;
 
 /** Rule 1 places the next reading where the rest should be this fraction of the tolerance. */
 const TARGET_FRACTION = 0.5;
+
+/** A step watched to learn τ is fitted once its readings cover this many of the fitted τ. */
+const LEARN_COVER_TAUS = 3;
+
+/** Largest minus smallest value of a trace, Hz. */
+function traceSpanHz(t: SettleTrace): number {
+  let lo = Number.POSITIVE_INFINITY;
+  let hi = Number.NEGATIVE_INFINITY;
+  for (let i = 0; i < t.n; i++) {
+    lo = Math.min(lo, t.valuesHz[i] as number);
+    hi = Math.max(hi, t.valuesHz[i] as number);
+  }
+  return t.n > 0 ? hi - lo : 0;
+}
+
+/**
+ * The latest readings of a trace still move one way: the last two steps
+ * between them have the same sign and together exceed the noise allowance
+ * (with two readings, their one difference exceeds it).
+ */
+function onItsWay(t: SettleTrace, noiseHz: number): boolean {
+  const n = t.n;
+  if (n < 2) return false;
+  const last = t.valuesHz[n - 1] as number;
+  const before = t.valuesHz[n - 2] as number;
+  if (n === 2) return Math.abs(last - before) > noiseHz;
+  const earlier = t.valuesHz[n - 3] as number;
+  return (last - before) * (before - earlier) > 0 && Math.abs(last - earlier) > noiseHz;
+}
 
 /** Scatter counts at most ten tolerances, so one wild point cannot loosen the next. */
 export function settleToleranceHz(options: AutoSettleOptions): number {
@@ -219,6 +258,17 @@ export async function settleAuto(
   const recorded = Math.max(1, Math.floor(options.recordedReadings ?? 1));
   const meanTolHz = options.toleranceCounts / gateS;
   const finalAfterS = options.finalNoSignalAfterS;
+  const learnTauFrom = options.learnTauFromStepHz;
+  /** Fits the step watched so far; takes τ once the readings cover 3τ. */
+  /** Fits the step watched so far: τ taken once the readings cover 3τ ('learned'), 'covering' until then. */
+  const tryLearnTau = (t: SettleTrace, minStepHz: number): 'learned' | 'covering' | 'no' => {
+    if (traceSpanHz(t) < minStepHz) return 'no';
+    const fit = fitStepCurve(t.timesS, t.valuesHz, t.n, minStepHz);
+    if (fit === null) return 'no';
+    if ((t.timesS[t.n - 1] as number) < LEARN_COVER_TAUS * fit.tauS) return 'covering';
+    learned.accept(fit.tauS);
+    return 'learned';
+  };
   const finalNoSignal = (reading: CounterReading, sentS: number): boolean =>
     finalAfterS !== undefined && reading.status === 'no-signal' && sentS - stepAtS >= finalAfterS;
   if (knownTauS !== null && Number.isFinite(beforeStepHz) && expectedStepHz > 0 && options.afterOutputOn !== true) {
@@ -276,10 +326,28 @@ export async function settleAuto(
         provisional = true;
       }
       if (sinceStepS >= trustAfterS) return done(true, current, currentAtS, readings);
-      nextSpacingS = Math.max(gateS, Math.min(0.5 * sinceStepS, trustAfterS - sinceStepS));
+      // Watching for the oscillation to start after switch-on: read back to back, so it shows at once.
+      nextSpacingS =
+        provisional && options.afterOutputOn === true
+          ? gateS
+          : Math.max(gateS, Math.min(0.5 * sinceStepS, trustAfterS - sinceStepS));
       previous = current;
       previousAtS = currentAtS;
       continue;
+    }
+    if (learnTauFrom !== undefined && learned.tauS === null && trace && current.status === 'ok') {
+      // A step to learn τ from, read back to back and fitted after each reading. Until τ is fixed it is
+      // read on while a fit needs only more time, or while the step is visibly on its way (the rule
+      // without τ below takes τ no longer than the time since the step, and over the first gates of
+      // a slow port two readings a gate apart differ by less than its noise allowance); otherwise the
+      // usual rules decide (a step too small or too quick to show τ: the sweep probes).
+      const learning = tryLearnTau(trace, learnTauFrom);
+      if (learning === 'covering' || (learning === 'no' && onItsWay(trace, noiseHz))) {
+        previous = current;
+        previousAtS = currentAtS;
+        nextSpacingS = gateS;
+        continue;
+      }
     }
     const byRuleOne = ruleOne(current, currentAtS);
     if (byRuleOne === null) return done(true, current, currentAtS, readings);

@@ -94,6 +94,8 @@ export async function measurePoint(
     previouslyProvisional?: boolean;
     /** See AutoSettleOptions.finalNoSignalAfterS. */
     finalNoSignalAfterS?: number;
+    /** A trial point: learn τ from its own step when it shows it (AutoSettleOptions.learnTauFromStepHz). */
+    learnTau?: boolean;
   },
   signal: AbortSignal,
   /** Where the point's rows go instead of the run, when the caller may hold them back (a provisional "no signal"). */
@@ -127,11 +129,15 @@ export async function measurePoint(
         // The settling's last reading is the first of the point's readings, the rest follow at once.
         recordedReadings: readingsRule(plan).min,
         finalNoSignalAfterS: point.finalNoSignalAfterS,
+        learnTauFromStepHz: point.learnTau === true ? minFitStepHz(plan.gateS) : undefined,
         // From switch-on until something oscillates, with τ unknown: the point's own readings decide
-        // (the last of them ends by then), checked against τ once learned (sweep.ts).
+        // (the last of them ends by then), checked against τ once learned (sweep.ts) — at the first
+        // point after switch-on, once the watch for the oscillation to start is over (switchOnWatchS).
         provisionalAfterS:
           point.previouslyProvisional !== true && (point.afterOutputOn === true || state.provisionalChain)
-            ? (readingsRule(plan).min - 0.5) * plan.gateS
+            ? point.afterOutputOn === true
+              ? switchOnWatchS(plan.gateS, readingsRule(plan).min, plan.settle.maxS)
+              : (readingsRule(plan).min - 0.5) * plan.gateS
             : undefined,
       },
       state.tau,
@@ -251,6 +257,20 @@ export async function measurePoint(
     provisionalAtS,
     stepAtS,
   };
+}
+
+/**
+ * How long the first point after switch-on watches for the oscillation to
+ * start before a "no signal" is believed (provisionally, sweep.ts): the
+ * port comes up from 0 V with a τ not yet known, and a point read "no
+ * signal" too early is measured again later, from wherever the sweep is
+ * then — a step back and up again. A tenth of the plan's `maxS` (the
+ * longest it lets any step settle; 0.2 s at the default 2 s), and never
+ * less than the point's own readings take: a DUT that is truly stalled
+ * there costs that much once per run, and is recorded "no signal".
+ */
+export function switchOnWatchS(gateS: number, readings: number, maxS: number): number {
+  return Math.max((readings - 0.5) * gateS, maxS / 10);
 }
 
 /**

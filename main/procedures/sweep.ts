@@ -241,7 +241,9 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       const direction = pass === 0 ? 'up' : 'down';
       const mayHold = plan.settle.mode === 'auto' && state.tau.tauS === null && (i === 0 || state.provisionalChain);
       // The point after the first oscillating one is a trial: measured with τ unknown, its step teaches
-      // τ when it is large enough to show the lag (then no probe is needed). Its rows wait for that.
+      // τ when it is large enough to show the lag — read back to back and fitted as it goes, until the
+      // readings cover 3τ; then the rules with τ decide, and its readings are the point's (no probe,
+      // no second measurement). Its rows wait for that.
       const trial: boolean = plan.settle.mode === 'auto' && !probed && state.tau.tauS === null && lastOscillated;
       const held: SampleRow[] | undefined = mayHold || trial ? [] : undefined;
       const measure = () =>
@@ -249,7 +251,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
           ctx,
           plan,
           state,
-          { controlV, direction, refined: false, index: i, afterOutputOn: i === 0 },
+          { controlV, direction, refined: false, index: i, afterOutputOn: i === 0, learnTau: trial },
           control.signal,
           held,
         );
