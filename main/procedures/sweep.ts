@@ -16,6 +16,7 @@ import { RunControl } from './run-control.ts';
 import { emptyConditions, recordConditions } from './run-conditions.ts';
 import { measurePoint, newPointState, type PointResult } from './sweep-point.ts';
 import { probeTarget, probeTimeConstant } from './settle-probe.ts';
+import { NO_SIGNAL_LEFT_FRACTION, PortHistory, stepLeftFraction } from './port-lag.ts';
 import { takenMeanErrorHz } from './settle-predict.ts';
 import { sweepSchedule } from './sweep-points.ts';
 import type { BenchRoles, ProcedureOutcome, RunSink, SampleRow } from './types.ts';
@@ -98,6 +99,8 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     await bench.counter.setGate(plan.gateS);
     await bench.supply.setVoltage(channel, schedule.controlV[0] as number);
     await bench.supply.setOutput(channel, true);
+    // The port starts from 0 V here (taken once the output is surely on: a later start only leaves more to go).
+    const outputOnAtS = clock.now();
     ctx.event({ type: 'output-on', channel, controlV: schedule.controlV[0] });
     // The conditions the figures were taken under; read again after the safe state.
     outcome.conditions = emptyConditions();
@@ -107,12 +110,14 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
     let probed = false;
     /**
      * Points whose "no signal" was believed before τ was known, while the port was maybe still on
-     * its way from switch-on: their rows are held back until τ is learned. A point stands if it was
-     * read at least 3τ after switch-on (the rule the watching uses); its rows are then written. Else
-     * it is measured again, and only the new rows are written.
+     * its way from switch-on: their rows are held back until τ is learned. A point stands if, by the
+     * lag of every step written since switch-on (port-lag.ts, τ taken 25 % longer), its port had come
+     * within 5 % of its own step when its last reading's gate opened (the watching's 3τ rule); its
+     * rows are then written. Else it is measured again, and only the new rows are written.
      */
     let provisional: { i: number; atS: number; rows: SampleRow[] }[] = [];
-    const outputOnAtS = clock.now();
+    const history = new PortHistory();
+    history.write(outputOnAtS, schedule.controlV[0] as number);
     let tauNoted = false;
     let index = schedule.controlV.length; // rows of refinement points are numbered on from the coarse ones
     const resolveProvisional = async (): Promise<void> => {
@@ -120,8 +125,10 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
       const pending = provisional;
       provisional = [];
       for (const p of pending) {
-        const sinceOnS = p.atS - outputOnAtS;
-        if (tauS !== null && sinceOnS >= 3 * tauS) {
+        const gateOpenS = p.atS - plan.gateS;
+        const leftFraction =
+          tauS === null ? Number.POSITIVE_INFINITY : stepLeftFraction(history, gateOpenS, TRIAL_TAU_MARGIN * tauS);
+        if (leftFraction <= NO_SIGNAL_LEFT_FRACTION) {
           for (const row of p.rows) ctx.row(row);
           continue;
         }
@@ -135,7 +142,7 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
           reason:
             tauS === null
               ? 'no time constant learned'
-              : `no signal read ${sinceOnS.toFixed(3)} s after switch-on, under 3τ`,
+              : `no signal read ${(gateOpenS - outputOnAtS).toFixed(3)} s after switch-on, with ${(100 * leftFraction).toFixed(0)} % of its step still to go (by the lag, τ 25 % longer)`,
         });
         // The step is from wherever the sweep is now: its size is no guide (lastMeanHz, where the port is, still is).
         state.lastStepHz = 0;
@@ -273,6 +280,8 @@ export async function runSweep(options: SweepOptions): Promise<SweepOutcome> {
         provisional.push({ i, atS: result.provisionalAtS, rows: held });
       else if (held) for (const row of held) ctx.row(row);
       lastOscillated = result.oscillating;
+      // Kept while a "no signal" may still have to be judged by where the port was.
+      if (state.tau.tauS === null || provisional.length > 0) history.write(result.stepAtS, controlV);
       if (!tauNoted && state.tau.tauS !== null) {
         tauNoted = true;
         ctx.event({ type: 'settle-tau', tauS: state.tau.tauS, point_index: i });
