@@ -348,6 +348,14 @@ export async function settleAuto(
         nextSpacingS = gateS;
         continue;
       }
+      // Just learned: judged as a predicted point's first reading is, on the mean of the readings
+      // recorded from it on (settle-predict.ts), the step read from the value before it.
+      const tauS = learned.tauS;
+      if (learning === 'learned' && tauS !== null && Number.isFinite(beforeStepHz)) {
+        const startS = Math.min(currentSentS, currentAtS - gateS) - stepAtS;
+        const errorHz = meanErrorHz(tauS, gateS, recorded, startS, current.frequencyHz, beforeStepHz);
+        if (errorHz <= meanTolHz) return done(true, current, currentAtS, readings);
+      }
     }
     const byRuleOne = ruleOne(current, currentAtS);
     if (byRuleOne === null) return done(true, current, currentAtS, readings);
