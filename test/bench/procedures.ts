@@ -47,6 +47,8 @@ export interface SettlingFigure {
   maxDiffHz: number;
   allowedHz: number;
   points: number;
+  /** τ the automatic run settled its points with (its last settle-tau or settle-probe event), s; the simulator's is 0.05 s. */
+  learnedTauS: number | null;
 }
 
 export interface ProceduresBenchResult {
@@ -129,6 +131,7 @@ export async function settlingFigure(stepV: number): Promise<SettlingFigure> {
   const durations: number[] = [];
   let floorS = Number.NaN;
   let meanFloorS = Number.NaN;
+  let learnedTauS: number | null = null;
   for (const settle of [
     { mode: 'auto', maxS: 2 },
     { mode: 'fixed', seconds: 0.5 },
@@ -153,6 +156,8 @@ export async function settlingFigure(stepV: number): Promise<SettlingFigure> {
     if (settle.mode === 'auto') {
       floorS = floorSeconds(pointsOf(sink.rows), 0.05, 0.01, 3);
       meanFloorS = floorSeconds(pointsOf(sink.rows), 0.05, 0.01, 3, 'recorded-mean');
+      const taught = sink.events.filter((e) => e.type === 'settle-tau' || e.type === 'settle-probe').at(-1);
+      learnedTauS = typeof taught?.tauS === 'number' ? taught.tauS : null;
     }
     const sums = new Map<number, { sum: number; n: number }>();
     for (const row of sink.rows) {
@@ -182,7 +187,18 @@ export async function settlingFigure(stepV: number): Promise<SettlingFigure> {
     allowedHz = Math.min(allowedHz, allowed);
   }
   const [autoS, fixedS] = durations as [number, number];
-  return { stepV, autoS, fixedS, ratio: autoS / fixedS, floorS, meanFloorS, maxDiffHz, allowedHz, points };
+  return {
+    stepV,
+    autoS,
+    fixedS,
+    ratio: autoS / fixedS,
+    floorS,
+    meanFloorS,
+    maxDiffHz,
+    allowedHz,
+    points,
+    learnedTauS,
+  };
 }
 
 export async function runProceduresBench(options: { print?: boolean } = {}): Promise<ProceduresBenchResult> {

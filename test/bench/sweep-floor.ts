@@ -225,7 +225,8 @@ export async function runSweepFloorBench(): Promise<void> {
         `  step ${stepV * 1000} mV: auto ${f.autoS.toFixed(2)} s, fixed ${f.fixedS.toFixed(2)} s, ratio ${f.ratio.toFixed(3)} (target ≤ 0.333) ${f.ratio <= 1 / 3 ? 'meets' : 'MISSES'};` +
           ` floor of its points ${f.floorS.toFixed(2)} s = ${(f.floorS / f.fixedS).toFixed(3)} of fixed, auto/floor ${(f.autoS / f.floorS).toFixed(3)};` +
           ` floor of their recorded means ${f.meanFloorS.toFixed(2)} s = ${(f.meanFloorS / f.fixedS).toFixed(3)} of fixed;` +
-          ` largest curve difference ${f.maxDiffHz.toFixed(1)} Hz (limit ${f.allowedHz.toFixed(0)} Hz = 2 counts) ${f.maxDiffHz <= f.allowedHz ? 'meets' : 'MISSES'} over ${f.points} points`,
+          ` largest curve difference ${f.maxDiffHz.toFixed(1)} Hz (limit ${f.allowedHz.toFixed(0)} Hz = 2 counts) ${f.maxDiffHz <= f.allowedHz ? 'meets' : 'MISSES'} over ${f.points} points;` +
+          ` τ it settled with ${f.learnedTauS === null ? '–' : `${(f.learnedTauS * 1000).toFixed(1)} ms`} (the simulator's ${TAU_S * 1000} ms)`,
       );
     }
   } finally {
