@@ -7,50 +7,14 @@
  * reference for "settled" is the same sweep with a fixed 0.5 s settle (10 τ, common practice).
  */
 import { describe, expect, it } from 'vitest';
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
-import { assembleBench } from '../bench/assemble.ts';
-import { builtinDut } from '../sim/builtin-duts.ts';
-import { VirtualClock } from '../time/virtual-clock.ts';
-import { runSweep } from './sweep.ts';
 import { switchOnWatchS } from './sweep-point.ts';
-import { MemorySink } from './testing/fake-bench.ts';
+import { expectCurveWithin, expectTauLearnedAt, slowPortSweep } from './testing/slow-port-sweep.ts';
 
 const GATE_S = 0.01;
 const MAX_S = 2;
 
-async function sweep(start: number, settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number }) {
-  const dut = builtinDut('relaxation');
-  const slow = { ...dut, tuning: { ...dut.tuning, settleTauS: 0.05 } };
-  const clock = new VirtualClock({ autoAdvance: true });
-  const bench = await assembleBench('sim', { clock, sim: { dut: slow, seed: 11 } });
-  const sink = new MemorySink();
-  const plan = sweepPlanSchema.parse({
-    start,
-    stop: 4.2,
-    step: 0.2,
-    readingsPerPoint: 3,
-    gateS: GATE_S,
-    settle,
-    refineEdgeV: 0,
-    limits: { maxControlV: 5, currentLimitA: 0.02 },
-  });
-  const t0 = clock.now();
-  const outcome = await runSweep({ bench, plan, clock, sink });
-  await bench.close();
-  expect(outcome.status).toBe('complete');
-  const byPoint = new Map<number, { statuses: string[]; timesS: number[]; sum: number; ok: number }>();
-  for (const row of sink.rows) {
-    const p = byPoint.get(row.point_index as number) ?? { statuses: [], timesS: [], sum: 0, ok: 0 };
-    p.statuses.push(row.status as string);
-    p.timesS.push(row.time_s as number);
-    if (row.status === 'ok') {
-      p.sum += row.frequency_hz as number;
-      p.ok++;
-    }
-    byPoint.set(row.point_index as number, p);
-  }
-  const outputOnS = sink.events.find((e) => e.type === 'output-on')?.time_s as number;
-  return { sink, byPoint, outputOnS, wallS: clock.now() - t0 };
+function sweep(start: number, settle: { mode: 'auto'; maxS: number } | { mode: 'fixed'; seconds: number }) {
+  return slowPortSweep({ start, stop: 4.2, step: 0.2, gateS: GATE_S, settle }, 11);
 }
 
 describe('the start of an automatic-settling sweep', () => {
@@ -58,22 +22,16 @@ describe('the start of an automatic-settling sweep', () => {
     // 1.6 V sits about 50 mV above the stall edge: read at once after switch-on, the port is still far below it.
     const auto = await sweep(1.6, { mode: 'auto', maxS: MAX_S });
     const fixed = await sweep(1.6, { mode: 'fixed', seconds: 0.5 });
-    for (const [i, p] of fixed.byPoint) expect(p.statuses, `fixed point ${i}`).toEqual(['ok', 'ok', 'ok']);
-    for (const [i, p] of auto.byPoint) expect(p.statuses, `point ${i}`).toEqual(['ok', 'ok', 'ok']);
-    expect(auto.byPoint.size).toBe(fixed.byPoint.size);
+    for (const [i, p] of fixed.points) expect(p.statuses, `fixed point ${i}`).toEqual(['ok', 'ok', 'ok']);
+    for (const [i, p] of auto.points) expect(p.statuses, `point ${i}`).toEqual(['ok', 'ok', 'ok']);
+    expect(auto.points.size).toBe(fixed.points.size);
     expect(auto.sink.eventsOfType('remeasure')).toHaveLength(0);
     expect(auto.sink.eventsOfType('settle-probe')).toHaveLength(0);
     // τ learned from the trial point's own step (1.6 → 1.8 V, ~29 counts), near the simulator's 50 ms. That step
-    // starts by the stall edge, where f(V) bends: the fit comes out a little short (44.7 ms with this seed).
-    const learned = auto.sink.eventsOfType('settle-tau')[0];
-    expect(learned?.point_index).toBe(1);
-    expect(learned?.tauS as number).toBeGreaterThan(0.04);
-    expect(learned?.tauS as number).toBeLessThan(0.065);
+    // starts by the stall edge, where f(V) bends: the fit comes out short (45.5 ms with this seed).
+    expectTauLearnedAt(auto.sink, 1);
     // Every point within 2 counts (200 Hz at a 10 ms gate) of the fixed-settle curve.
-    for (const [i, p] of auto.byPoint) {
-      const ref = fixed.byPoint.get(i);
-      expect(Math.abs(p.sum / p.ok - (ref?.sum ?? 0) / (ref?.ok ?? 1)), `point ${i}`).toBeLessThanOrEqual(2 / GATE_S);
-    }
+    expectCurveWithin(auto.points, fixed.points, 2 / GATE_S);
   });
 
   it('finishes its first five points within 1.2 s of switch-on (1.63 s when they were read early and measured again)', async () => {
@@ -81,7 +39,7 @@ describe('the start of an automatic-settling sweep', () => {
     // watching rules take it to 0.43 s here), the trial's step is read until its readings cover 3τ (0.17 s),
     // the three after it settle by prediction (0.17 s each, gates included): 1.10 s with this seed.
     const auto = await sweep(1.6, { mode: 'auto', maxS: MAX_S });
-    const fifth = auto.byPoint.get(4);
+    const fifth = auto.points.get(4);
     const endS = Math.max(...(fifth?.timesS ?? [Number.POSITIVE_INFINITY])) - auto.outputOnS;
     expect(endS).toBeLessThan(1.2);
     expect(endS).toBeGreaterThan(5 * 3 * GATE_S);
@@ -94,9 +52,9 @@ describe('the start of an automatic-settling sweep', () => {
     expect(watchS).toBeCloseTo(0.2, 12);
     const auto = await sweep(1.0, { mode: 'auto', maxS: MAX_S });
     const fixed = await sweep(1.0, { mode: 'fixed', seconds: 0.5 });
-    const first = auto.byPoint.get(0);
+    const first = auto.points.get(0);
     expect(first?.statuses).toEqual(['no-signal', 'no-signal', 'no-signal']);
-    expect(fixed.byPoint.get(0)?.statuses).toEqual(['no-signal', 'no-signal', 'no-signal']);
+    expect(fixed.points.get(0)?.statuses).toEqual(['no-signal', 'no-signal', 'no-signal']);
     const lastReadS = Math.max(...(first?.timesS ?? [])) - auto.outputOnS;
     expect(lastReadS).toBeGreaterThanOrEqual(watchS);
     // Bounded: the watch ends with the first reading that ends past it.
@@ -106,9 +64,9 @@ describe('the start of an automatic-settling sweep', () => {
     // up through the stall: judged by the lag of every step since switch-on, it is measured again (the
     // rule "read ≥ 3τ after switch-on" kept it). Stalled or not, each point reads as the fixed-settle sweep does.
     expect(auto.sink.eventsOfType('remeasure').some((e) => e.point_index === 3)).toBe(true);
-    for (const [i, p] of fixed.byPoint)
+    for (const [i, p] of fixed.points)
       expect(
-        auto.byPoint.get(i)?.statuses.every((s) => s === 'ok'),
+        auto.points.get(i)?.statuses.every((s) => s === 'ok'),
         `point ${i}`,
       ).toBe(p.statuses[0] === 'ok');
   });

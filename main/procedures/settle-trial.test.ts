@@ -9,44 +9,14 @@
  * common practice).
  */
 import { describe, expect, it } from 'vitest';
-import { sweepPlanSchema } from '../../app/contract/plans.ts';
-import { assembleBench } from '../bench/assemble.ts';
-import { builtinDut } from '../sim/builtin-duts.ts';
-import { VirtualClock } from '../time/virtual-clock.ts';
-import { runSweep } from './sweep.ts';
-import { MemorySink } from './testing/fake-bench.ts';
+import { expectCurveWithin, expectTauLearnedAt, slowPortSweep } from './testing/slow-port-sweep.ts';
 
-async function sweep(
+function sweep(
   stepV: number,
   gateS: number,
   settle: { mode: 'auto'; maxS: number; toleranceCounts?: number } | { mode: 'fixed'; seconds: number },
 ) {
-  const dut = builtinDut('relaxation');
-  const slow = { ...dut, tuning: { ...dut.tuning, settleTauS: 0.05 } };
-  const clock = new VirtualClock({ autoAdvance: true });
-  const bench = await assembleBench('sim', { clock, sim: { dut: slow, seed: 3 } });
-  const sink = new MemorySink();
-  const plan = sweepPlanSchema.parse({
-    start: 1.6,
-    stop: 3.6,
-    step: stepV,
-    readingsPerPoint: 3,
-    gateS,
-    settle,
-    refineEdgeV: 0,
-    limits: { maxControlV: 5, currentLimitA: 0.02 },
-  });
-  const outcome = await runSweep({ bench, plan, clock, sink });
-  await bench.close();
-  expect(outcome.status).toBe('complete');
-  const groups = new Map<number, number[]>();
-  for (const row of sink.rows) {
-    const list = groups.get(row.point_index as number) ?? [];
-    list.push(row.frequency_hz as number);
-    groups.set(row.point_index as number, list);
-  }
-  const means = new Map([...groups].map(([i, list]) => [i, list.reduce((a, b) => a + b, 0) / list.length]));
-  return { sink, groups, means };
+  return slowPortSweep({ start: 1.6, stop: 3.6, step: stepV, gateS, settle }, 3);
 }
 
 describe('learning τ in an automatic-settling sweep', () => {
@@ -56,14 +26,10 @@ describe('learning τ in an automatic-settling sweep', () => {
     const fixed = await sweep(0.2, 0.1, { mode: 'fixed', seconds: 0.5 });
     expect(auto.sink.eventsOfType('settle-probe')).toHaveLength(0);
     expect(auto.sink.eventsOfType('remeasure')).toHaveLength(0);
-    const learned = auto.sink.eventsOfType('settle-tau')[0];
-    expect(learned?.point_index).toBe(1);
-    expect(learned?.tauS as number).toBeGreaterThan(0.04);
-    expect(learned?.tauS as number).toBeLessThan(0.065);
-    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
+    expectTauLearnedAt(auto.sink, 1);
+    for (const p of auto.points.values()) expect(p.statuses).toHaveLength(3);
     // Within 2 counts (20 Hz) of the fixed-settle curve at every point.
-    for (const [i, f] of auto.means)
-      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(20);
+    expectCurveWithin(auto.points, fixed.points, 20);
   });
 
   it('probes when the steps are too small to show τ, then measures that point again and keeps only its new rows', async () => {
@@ -79,9 +45,8 @@ describe('learning τ in an automatic-settling sweep', () => {
     // Measured again right after the probe: the event follows it.
     const probeAt = auto.sink.events.findIndex((e) => e.type === 'settle-probe');
     expect(auto.sink.events[probeAt + 1]).toMatchObject({ type: 'remeasure', point_index: again[0]?.point_index });
-    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
-    for (const [i, f] of auto.means)
-      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(200);
+    for (const p of auto.points.values()) expect(p.statuses).toHaveLength(3);
+    expectCurveWithin(auto.points, fixed.points, 200);
   });
 
   it('keeps the trial point’s readings when, judged with the τ the probe learned, their mean was settled already', async () => {
@@ -95,9 +60,8 @@ describe('learning τ in an automatic-settling sweep', () => {
     expect(stands).toHaveLength(1);
     expect(stands[0]?.meanErrorHz as number).toBeLessThanOrEqual(10);
     expect(auto.sink.eventsOfType('remeasure').filter((e) => e.point_index === stands[0]?.point_index)).toHaveLength(0);
-    for (const list of auto.groups.values()) expect(list).toHaveLength(3);
+    for (const p of auto.points.values()) expect(p.statuses).toHaveLength(3);
     // Every point, the trial's included, within 2 counts (20 Hz) of the fixed-settle curve.
-    for (const [i, f] of auto.means)
-      expect(Math.abs(f - (fixed.means.get(i) as number)), `point ${i}`).toBeLessThanOrEqual(20);
+    expectCurveWithin(auto.points, fixed.points, 20);
   });
 });
