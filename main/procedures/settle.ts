@@ -335,7 +335,14 @@ export async function settleAuto(
       previousAtS = currentAtS;
       continue;
     }
-    if (learnTauFrom !== undefined && learned.tauS === null && trace && current.status === 'ok') {
+    // (While the trace has room: a full one would answer the same forever.)
+    if (
+      learnTauFrom !== undefined &&
+      learned.tauS === null &&
+      trace &&
+      trace.n < trace.timesS.length &&
+      current.status === 'ok'
+    ) {
       // A step to learn τ from, read back to back and fitted after each reading. Until τ is fixed it is
       // read on while a fit needs only more time, or while the step is visibly on its way (the rule
       // without τ below takes τ no longer than the time since the step, and over the first gates of
