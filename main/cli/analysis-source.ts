@@ -15,7 +15,7 @@ import { runConditions, type RunHints } from '../../app/analysis/run-conditions.
 import { CsvImportError, readPlainCsv } from '../store/plain-csv.ts';
 import type { RunEventLike } from '../../app/analysis/run-quality.ts';
 import { UsageError } from './types.ts';
-import { BIG_INPUT_BYTES, tuneForBigWork } from './v8-tuning.ts';
+import { BIG_INPUT_BYTES, compileLongLoopsAtOnce, tuneForBigWork } from './v8-tuning.ts';
 
 // A run folder's reader (the store and its schemas) loads only for a folder or a run id: a plain
 // CSV, what `analyze` is most often given, starts without it.
@@ -74,7 +74,10 @@ async function locate(
 export async function loadAnalysisSource(given: string, runsDir?: string): Promise<AnalysisSource> {
   const { path, info } = await locate(given, runsDir);
   // A run folder (its reader, maybe a million readings) or a big CSV is big work for V8.
-  if (info.isDirectory() || info.size > BIG_INPUT_BYTES) tuneForBigWork();
+  if (info.isDirectory() || info.size > BIG_INPUT_BYTES) {
+    tuneForBigWork();
+    compileLongLoopsAtOnce();
+  }
   let table: ColumnTable;
   let droppedLines = 0;
   let meta: RunMeta | null = null;
