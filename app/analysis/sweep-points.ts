@@ -4,6 +4,7 @@
  */
 import { orderByVoltage } from './voltage-order.ts';
 
+/** A sweep's readings. The analysis only reads them (they may be a table's own columns). */
 export interface SweepInput {
   /** Control-voltage setpoint of each reading (V). */
   controlV: Float64Array;
