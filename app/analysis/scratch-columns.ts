@@ -16,7 +16,7 @@ const slots: Float64Array[] = [];
 export function scratchColumn(slot: 0 | 1, n: number): Float64Array {
   let buffer = slots[slot];
   if (buffer === undefined || buffer.length < n) {
-    buffer = new Float64Array(n);
+    buffer = new Float64Array(n + 64); // room for the next step's n + 1 (gaps, then points)
     slots[slot] = buffer;
   }
   return buffer.subarray(0, n);

@@ -102,17 +102,17 @@ export function writeJsonRows(columns: RowColumns<object>, indent: string, put: 
           : [];
     return (keyTexts[k] as string[]).map((keyText) => values.map((value) => piece(keyText + value)));
   });
-  const [openFirst, openNext, close, closeEmpty, nothing] = [
-    `[\n${rowIndent}{`,
-    `,\n${rowIndent}{`,
-    `\n${rowIndent}}`,
-    '}',
-    'null',
-  ].map(piece) as [Piece, Piece, Piece, Piece, Piece];
+  // A row's end goes with the next row's start (or the array's end) as one piece: [no key written / some].
+  const closes = ['}', `\n${rowIndent}}`];
+  const between = closes.map((close) => piece(`${close},\n${rowIndent}{`));
+  const ends = closes.map((close) => piece(`${close}\n${indent}]`));
+  const openFirst = piece(`[\n${rowIndent}{`);
+  const nothing = piece('null');
+  let later = 0; // 1 once the row has a key written
   for (let i = 0; i < columns.count; i++) {
     if (sink.at >= FLUSH_BYTES) sink.flush();
-    sink.piece(i === 0 ? openFirst : openNext);
-    let later = 0; // 1 once a key is written
+    sink.piece(i === 0 ? openFirst : (between[later] as Piece));
+    later = 0;
     for (let k = 0; k < fields.length; k++) {
       const field = fields[k] as RowField;
       if (field.kind === 'number') {
@@ -130,9 +130,8 @@ export function writeJsonRows(columns: RowColumns<object>, indent: string, put: 
       later = 1;
     }
     sink.lastStart = -1; // copies are made only within one row
-    sink.piece(later === 0 ? closeEmpty : close);
   }
-  sink.piece(piece(`\n${indent}]`));
+  sink.piece(ends[later] as Piece);
   sink.flush();
 }
 
