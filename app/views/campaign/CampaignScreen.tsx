@@ -7,7 +7,15 @@
  */
 import { useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 import type { CampaignSheet, CampaignSummary } from '../../contract/campaign-schemas.ts';
-import { baseOptions, lineSeries, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
+import {
+  baseOptions,
+  lineSeries,
+  pointSeries,
+  readoutTicks,
+  siAxis,
+  timeAxis,
+  xSeries,
+} from '../../plots/plot-options.ts';
 import { celsiusReadout, voltsReadout, type Readout } from '../../plots/readout.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { useApp } from '../app-context.ts';
@@ -241,7 +249,10 @@ export function CampaignScreen() {
               width,
               height,
               [xSeries('Control', voltsReadout), pointSeries('Frequency', colors.series[0], liveReading)],
-              [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
+              [
+                siAxis(colors, 'Control voltage', 'V'),
+                siAxis(colors, 'Frequency', 'Hz', { size: 84, ...readoutTicks(liveReading) }),
+              ],
             )
           }
         />
