@@ -8,10 +8,15 @@
  * session's queue behind a resync the wedged link could not answer — and the
  * DUT stayed powered at 5 V. The campaign's supply steps are now one
  * verified safe state: every command written urgently first, then read back.
+ * Also found: SIGHUP (the terminal or SSH session closing on an overnight
+ * campaign) killed the process outright, the control channel left on at
+ * 2.5 V, the DUT powered and the chamber running; the campaign now has the
+ * recording commands' last-resort guard (main/cli/run-setup.ts cliControl).
  * The supply's real state is read from the simulator.
  */
 import { spawn } from 'node:child_process';
-import { readFile } from 'node:fs/promises';
+import { readdir, readFile } from 'node:fs/promises';
+import { readCampaignFile } from '../../main/procedures/campaign/campaign-file.ts';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
@@ -68,9 +73,8 @@ describe("a campaign's own safe state", () => {
         [LAUNCHER, 'campaign', '--bench', b.benchFile, '--plan', plan, '--runs', b.runsDir],
         { stdio: ['ignore', 'pipe', 'pipe'] },
       );
-      let out = '';
       let err = '';
-      child.stdout.on('data', (chunk: Buffer) => (out += chunk.toString()));
+      child.stdout.resume();
       child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
       const exited = new Promise<number | null>((resolve) => child.on('close', (code) => resolve(code)));
       const sent: number[] = [];
@@ -88,14 +92,16 @@ describe("a campaign's own safe state", () => {
       clearInterval(watch);
       expect(sent).toHaveLength(2);
       expect(code, err).toBe(1);
-      expect(err).toMatch(/WARNING: the safe state could not be confirmed/);
+      // The campaign's warning, or the last-resort guard's when the second Ctrl-C handed it the exit.
+      expect(err).toMatch(/the safe state could not be confirmed on every step/);
       // What the bench really did: the commands went out ahead of any readback, and it obeyed them.
       const [control, dutSupply] = b.served.bench.snapshot().supply;
       expect(control).toMatchObject({ outputOn: false, setpointV: 0 });
       expect(dutSupply?.outputOn, 'DUT supply output').toBe(false);
       expect(b.served.bench.snapshot().chamber.setpointC).toBe(21);
       // The campaign's record says which steps it could not confirm; none claims a confirmation it lacks.
-      const dir = out.split('\n')[0] ?? '';
+      // The one campaign folder (the guard may exit before the folder's path is printed).
+      const dir = join(b.runsDir, (await readdir(b.runsDir))[0] ?? '');
       const events = (await readFile(join(dir, 'campaign-events.jsonl'), 'utf8'))
         .split('\n')
         .filter(Boolean)
@@ -107,6 +113,55 @@ describe("a campaign's own safe state", () => {
         ['dut-supply-off channel 2', false],
       ]);
       expect(events.find((e) => e.type === 'campaign-end')?.safe_state_ok).toBe(false);
+    },
+  );
+
+  it(
+    'SIGHUP mid-sweep (the terminal closed): a clean stop through the safe state, campaign.json aborted, exit 1',
+    { timeout: 90_000 },
+    async () => {
+      let at25 = false;
+      const b = await hostileBench(
+        {
+          supply: {
+            command: (line) => {
+              if (line === 'INST:NSEL 1;:SOUR:VOLT 2.5') at25 = true;
+              return line;
+            },
+          },
+        },
+        { campaign: true },
+      );
+      bench = b;
+      const plan = await b.planFile(CAMPAIGN);
+      const child = spawn(
+        process.execPath,
+        [LAUNCHER, 'campaign', '--bench', b.benchFile, '--plan', plan, '--runs', b.runsDir],
+        { stdio: ['ignore', 'pipe', 'pipe'] },
+      );
+      let err = '';
+      child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
+      child.stdout.resume();
+      const exited = new Promise<[number | null, string | null]>((resolve) =>
+        child.on('close', (code, signal) => resolve([code, signal])),
+      );
+      const watch = setInterval(() => {
+        if (!at25) return;
+        clearInterval(watch);
+        child.kill('SIGHUP');
+      }, 5);
+      const [code, signal] = await exited;
+      clearInterval(watch);
+      expect(signal, err).toBeNull();
+      expect(code, err).toBe(1);
+      const [control, dutSupply] = b.served.bench.snapshot().supply;
+      expect(control).toMatchObject({ outputOn: false, setpointV: 0 });
+      expect(dutSupply?.outputOn, 'DUT supply output').toBe(false);
+      expect(b.served.bench.snapshot().chamber.setpointC).toBe(21);
+      const folder = /--resume (\S+)/.exec(err)?.[1] ?? '';
+      const file = await readCampaignFile(folder);
+      expect(file).toMatchObject({ status: 'aborted', reason: 'signal' });
+      expect(file.conditions[0]?.state).toBe('waiting');
     },
   );
 });
