@@ -44,6 +44,25 @@ const CAMPAIGN = {
   nominalControlV: 2.5,
 };
 
+/** A real `tunebench campaign` on the hostile bench: the child, its stderr so far, and its exit (code, signal). */
+async function startCampaign(b: HostileBench) {
+  const plan = await b.planFile(CAMPAIGN);
+  const child = spawn(
+    process.execPath,
+    [LAUNCHER, 'campaign', '--bench', b.benchFile, '--plan', plan, '--runs', b.runsDir],
+    {
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
+  let err = '';
+  child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
+  child.stdout.resume();
+  const exited = new Promise<[number | null, string | null]>((resolve) =>
+    child.on('close', (code, signal) => resolve([code, signal])),
+  );
+  return { child, stderr: () => err, exited };
+}
+
 describe("a campaign's own safe state", () => {
   it(
     'two Ctrl-C while it runs on a wedged supply: both outputs off and 0 V on the bench, exit 1 with the warning',
@@ -67,16 +86,7 @@ describe("a campaign's own safe state", () => {
         { campaign: true },
       );
       bench = b;
-      const plan = await b.planFile(CAMPAIGN);
-      const child = spawn(
-        process.execPath,
-        [LAUNCHER, 'campaign', '--bench', b.benchFile, '--plan', plan, '--runs', b.runsDir],
-        { stdio: ['ignore', 'pipe', 'pipe'] },
-      );
-      let err = '';
-      child.stdout.resume();
-      child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
-      const exited = new Promise<number | null>((resolve) => child.on('close', (code) => resolve(code)));
+      const { child, stderr, exited } = await startCampaign(b);
       const sent: number[] = [];
       const watch = setInterval(() => {
         if (!wedged || sent.length > 0) return;
@@ -88,7 +98,8 @@ describe("a campaign's own safe state", () => {
           child.kill('SIGINT');
         }, 150);
       }, 5);
-      const code = await exited;
+      const [code] = await exited;
+      const err = stderr();
       clearInterval(watch);
       expect(sent).toHaveLength(2);
       expect(code, err).toBe(1);
@@ -133,24 +144,14 @@ describe("a campaign's own safe state", () => {
         { campaign: true },
       );
       bench = b;
-      const plan = await b.planFile(CAMPAIGN);
-      const child = spawn(
-        process.execPath,
-        [LAUNCHER, 'campaign', '--bench', b.benchFile, '--plan', plan, '--runs', b.runsDir],
-        { stdio: ['ignore', 'pipe', 'pipe'] },
-      );
-      let err = '';
-      child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
-      child.stdout.resume();
-      const exited = new Promise<[number | null, string | null]>((resolve) =>
-        child.on('close', (code, signal) => resolve([code, signal])),
-      );
+      const { child, stderr, exited } = await startCampaign(b);
       const watch = setInterval(() => {
         if (!at25) return;
         clearInterval(watch);
         child.kill('SIGHUP');
       }, 5);
       const [code, signal] = await exited;
+      const err = stderr();
       clearInterval(watch);
       expect(signal, err).toBeNull();
       expect(code, err).toBe(1);

@@ -35,6 +35,16 @@ async function serialToProxy(path: string, port: number): Promise<ChildProcess> 
   return child;
 }
 
+/** The bench file's counter moved to a pty bridged to its proxy, then a short `tunebench sweep` on it. */
+async function sweepOverSerial(b: HostileBench): ReturnType<typeof runCliCaptured> {
+  const pty = join(b.dir, 'counter-tty');
+  socat = await serialToProxy(pty, b.counterProxy.port);
+  const file = JSON.parse(await readFile(b.benchFile, 'utf8')) as { counter: { address: string } };
+  file.counter.address = `serial:${pty}?baud=115200`;
+  await writeFile(b.benchFile, JSON.stringify(file));
+  return runCliCaptured('sweep', '--bench', b.benchFile, '--plan', await b.planFile(SHORT_SWEEP), '--runs', b.runsDir);
+}
+
 describe.skipIf(!hasSocat)('a counter slipping one query late over serial (socat pty)', () => {
   it(
     'records no value: every reading is an error, the run is a counter fault, exit 1, the supply safe',
@@ -42,20 +52,7 @@ describe.skipIf(!hasSocat)('a counter slipping one query late over serial (socat
     async () => {
       const b = await hostileBench({ counter: misbehave.slipOneQuery(/^READ\?$/) });
       bench = b;
-      const pty = join(b.dir, 'counter-tty');
-      socat = await serialToProxy(pty, b.counterProxy.port);
-      const file = JSON.parse(await readFile(b.benchFile, 'utf8')) as { counter: { address: string } };
-      file.counter.address = `serial:${pty}?baud=115200`;
-      await writeFile(b.benchFile, JSON.stringify(file));
-      const cli = await runCliCaptured(
-        'sweep',
-        '--bench',
-        b.benchFile,
-        '--plan',
-        await b.planFile(SHORT_SWEEP),
-        '--runs',
-        b.runsDir,
-      );
+      const cli = await sweepOverSerial(b);
       const runDir = cli.out.split('\n')[0] ?? '';
       const csv = (await readFile(join(runDir, 'samples.csv'), 'utf8')).trim().split('\n');
       const status = (csv[0] as string).split(',').indexOf('status');
@@ -93,20 +90,7 @@ describe.skipIf(!hasSocat)('a counter slipping one query late over serial (socat
         },
       });
       bench = b;
-      const pty = join(b.dir, 'counter-tty');
-      socat = await serialToProxy(pty, b.counterProxy.port);
-      const file = JSON.parse(await readFile(b.benchFile, 'utf8')) as { counter: { address: string } };
-      file.counter.address = `serial:${pty}?baud=115200`;
-      await writeFile(b.benchFile, JSON.stringify(file));
-      const cli = await runCliCaptured(
-        'sweep',
-        '--bench',
-        b.benchFile,
-        '--plan',
-        await b.planFile(SHORT_SWEEP),
-        '--runs',
-        b.runsDir,
-      );
+      const cli = await sweepOverSerial(b);
       expect(cli.code, cli.err).toBe(0);
       const runDir = cli.out.split('\n')[0] ?? '';
       const csv = (await readFile(join(runDir, 'samples.csv'), 'utf8')).trim().split('\n');
