@@ -49,7 +49,9 @@ describe("run.json's reserved blocks", () => {
       expect(after.trimEnd()).toBe(JSON.stringify(failed, null, 2));
       // A file with no room (written before padding existed, say): one line if that fits, else declined.
       await writeFile(path, `${JSON.stringify(running)}\n`);
-      expect(await rewriteInPlace(nodeStoreFs, path, { ...running, dut: { id: 'space-probe', notes: 'x'.repeat(40) } })).toBe(false);
+      expect(
+        await rewriteInPlace(nodeStoreFs, path, { ...running, dut: { id: 'space-probe', notes: 'x'.repeat(40) } }),
+      ).toBe(false);
       expect(JSON.parse(await readFile(path, 'utf8'))).toEqual(running);
       await writeFile(path, `${JSON.stringify(running, null, 2)}\n`);
       expect(await rewriteInPlace(nodeStoreFs, path, { ...running, status: 'failed' })).toBe(true);
