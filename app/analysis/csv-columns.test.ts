@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { ColumnTable } from '../contract/column-table.ts';
+import { analyzeTableColumns } from './analyze-table.ts';
 import {
   CsvError,
   detectCsvKind,
@@ -69,6 +70,20 @@ describe('table → analysis inputs', () => {
     expect(s.gateS).toBe(0.1);
     // The table's own columns are left as they were (inputs are copies).
     expect(Array.from(t.numeric.frequency_hz ?? [])).toEqual([100, 200, 0]);
+    expect(Array.from(t.numeric.control_v ?? [])).toEqual([1, 2, 3]);
+  });
+
+  it('without a status column the sweep input views the table’s columns (no copy), and analysing it changes none', () => {
+    const controlV = Array.from({ length: 400 }, (_, i) => 0.5 + Math.floor(i / 2) * 0.01);
+    const frequencyHz = controlV.map((v, i) => (v < 0.6 ? 0 : 8000 + 2000 * v + Math.sin(i) * 0.5));
+    const t = table({ control_v: controlV, frequency_hz: frequencyHz });
+    const s = sweepInputFromTable(t);
+    expect(s.controlV.buffer).toBe(t.numeric.control_v?.buffer);
+    expect(s.frequencyHz.buffer).toBe(t.numeric.frequency_hz?.buffer);
+    const result = analyzeTableColumns('sweep', t, {});
+    expect(result.kind === 'sweep' && result.points.count).toBe(200);
+    expect(Array.from(t.numeric.control_v ?? [])).toEqual(controlV);
+    expect(Array.from(t.numeric.frequency_hz ?? [])).toEqual(frequencyHz);
   });
 
   it('names the line of a bad word in a user file, and the row in a run folder', () => {

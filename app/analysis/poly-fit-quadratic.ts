@@ -20,6 +20,20 @@
 import { solveTriangular } from './least-squares.ts';
 import { centreAndScale, type ScaledSolution } from './poly-fit-line.ts';
 
+/**
+ * u of row i. A plain function, not a closure made per call: V8 inlines a
+ * closure as the one function object it saw, and the next fit's new closure
+ * threw the optimised loops away again (a dozen times in a 1e6-point analyze).
+ */
+function scaledAt(xs: Float64Array, i: number, centre: number, scale: number): number {
+  return ((xs[i] as number) - centre) / scale;
+}
+
+/** Column 2 after the first two reflections, from u: (u·u − f2) − f21·(u − f1). */
+function secondColumnAt(u: number, f1: number, f2: number, f21: number): number {
+  return 1 * u * u - f2 - f21 * (u - f1);
+}
+
 /** Least-squares quadratic in u through (xs[i], ys[i]), i0 ≤ i < i1 (needs i1 − i0 ≥ 3); null when rank-deficient. */
 export function solveQuadraticScaled(
   xs: Float64Array,
@@ -30,13 +44,12 @@ export function solveQuadraticScaled(
   const n = i1 - i0;
   if (n < 3) return null;
   const { centre, scale } = centreAndScale(xs, i0, i1);
-  const uAt = (r: number): number => ((xs[i0 + r] as number) - centre) / scale;
   // Reflection 0 (column of ones): norm √n (Σ 1² is exact), alpha −√n, v = (1 − alpha, 1, …, 1).
   const norm0 = Math.sqrt(n);
   const alpha0 = -norm0;
   const v0 = 1 - alpha0;
   const vtv0 = -2 * alpha0 * (1 - alpha0);
-  const u0 = uAt(0);
+  const u0 = scaledAt(xs, i0, centre, scale);
   const u0sq = 1 * u0 * u0; // the design matrix's running power: 1, 1·u, (1·u)·u
   const y0 = ys[i0] as number;
   let dot1 = 0;
@@ -46,7 +59,7 @@ export function solveQuadraticScaled(
   dot2 += v0 * u0sq;
   doty += v0 * y0;
   for (let r = 1; r < n; r++) {
-    const u = uAt(r);
+    const u = scaledAt(xs, i0 + r, centre, scale);
     dot1 += u;
     dot2 += 1 * u * u;
     doty += ys[i0 + r] as number;
@@ -60,63 +73,60 @@ export function solveQuadraticScaled(
 
   // Reflection 1, on column 1 from row 1: a₁′ᵣ = uᵣ − f1.
   let big1 = 0;
-  for (let r = 1; r < n; r++) big1 = Math.max(big1, Math.abs(uAt(r) - f1));
+  for (let r = 1; r < n; r++) big1 = Math.max(big1, Math.abs(scaledAt(xs, i0 + r, centre, scale) - f1));
   let ss1 = 0;
   if (big1 > 0) {
     for (let r = 1; r < n; r++) {
-      const t = (uAt(r) - f1) / big1;
+      const t = (scaledAt(xs, i0 + r, centre, scale) - f1) / big1;
       ss1 += t * t;
     }
   }
   const norm1 = big1 * Math.sqrt(ss1);
   let maxNorm = Math.max(norm0, norm1);
   if (norm1 === 0 || norm1 <= 1e-13 * maxNorm) return null;
-  const akk1 = uAt(1) - f1;
+  const akk1 = scaledAt(xs, i0 + 1, centre, scale) - f1;
   const alpha1 = akk1 > 0 ? -norm1 : norm1;
   const v11 = akk1 - alpha1;
   const vtv1 = -2 * alpha1 * (akk1 - alpha1);
   let dot21 = 0;
   let doty1 = 0;
   for (let r = 1; r < n; r++) {
-    const u = uAt(r);
+    const u = scaledAt(xs, i0 + r, centre, scale);
     const v1 = r === 1 ? v11 : u - f1;
     dot21 += v1 * (1 * u * u - f2);
     doty1 += v1 * ((ys[i0 + r] as number) - fy0);
   }
   const f21 = (2 * dot21) / vtv1;
   const fy1 = (2 * doty1) / vtv1;
-  const u1 = uAt(1);
+  const u1 = scaledAt(xs, i0 + 1, centre, scale);
   const r12 = 1 * u1 * u1 - f2 - f21 * v11;
   const yq1 = (ys[i0 + 1] as number) - fy0 - fy1 * v11;
 
   // Reflection 2, on column 2 from row 2: a₂″ᵣ = (uᵣ·uᵣ − f2) − f21·(uᵣ − f1).
-  const a2At = (r: number): number => {
-    const u = uAt(r);
-    return 1 * u * u - f2 - f21 * (u - f1);
-  };
   let big2 = 0;
-  for (let r = 2; r < n; r++) big2 = Math.max(big2, Math.abs(a2At(r)));
+  for (let r = 2; r < n; r++)
+    big2 = Math.max(big2, Math.abs(secondColumnAt(scaledAt(xs, i0 + r, centre, scale), f1, f2, f21)));
   let ss2 = 0;
   if (big2 > 0) {
     for (let r = 2; r < n; r++) {
-      const t = a2At(r) / big2;
+      const t = secondColumnAt(scaledAt(xs, i0 + r, centre, scale), f1, f2, f21) / big2;
       ss2 += t * t;
     }
   }
   const norm2 = big2 * Math.sqrt(ss2);
   maxNorm = Math.max(maxNorm, norm2);
   if (norm2 === 0 || norm2 <= 1e-13 * maxNorm) return null;
-  const akk2 = a2At(2);
+  const akk2 = secondColumnAt(scaledAt(xs, i0 + 2, centre, scale), f1, f2, f21);
   const alpha2 = akk2 > 0 ? -norm2 : norm2;
   const v22 = akk2 - alpha2;
   const vtv2 = -2 * alpha2 * (akk2 - alpha2);
   let doty2 = 0;
   for (let r = 2; r < n; r++) {
-    const v2 = r === 2 ? v22 : a2At(r);
-    doty2 += v2 * ((ys[i0 + r] as number) - fy0 - fy1 * (uAt(r) - f1));
+    const v2 = r === 2 ? v22 : secondColumnAt(scaledAt(xs, i0 + r, centre, scale), f1, f2, f21);
+    doty2 += v2 * ((ys[i0 + r] as number) - fy0 - fy1 * (scaledAt(xs, i0 + r, centre, scale) - f1));
   }
   const fy2 = (2 * doty2) / vtv2;
-  const yq2 = (ys[i0 + 2] as number) - fy0 - fy1 * (uAt(2) - f1) - fy2 * v22;
+  const yq2 = (ys[i0 + 2] as number) - fy0 - fy1 * (scaledAt(xs, i0 + 2, centre, scale) - f1) - fy2 * v22;
 
   const above = [0, r01, r02, 0, 0, r12];
   const { coefficients, unscaledCovariance } = solveTriangular(

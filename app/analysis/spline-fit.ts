@@ -22,6 +22,7 @@
  */
 import { evalPoly, fitPolynomial } from './poly-fit.ts';
 import { sortedAtInPlace } from './select-kth.ts';
+import { scratchColumn } from './scratch-columns.ts';
 
 const BAND = 3; // cubic B-splines overlap 4 wide; the 3rd-difference penalty too
 const MAX_SEGMENTS = 40;
@@ -147,7 +148,9 @@ export function fitUniformSpline(
   const k = segments + 3;
   // Weights 1/u², with u floored at half the median: a point whose few readings
   // happened to agree must not pin the curve.
-  const uFloor = 0.5 * sortedAtInPlace(Float64Array.from(u.subarray(i0, i1)), n >> 1);
+  const uCopy = scratchColumn(0, n); // slot 0: only until the median is taken
+  uCopy.set(u.subarray(i0, i1));
+  const uFloor = 0.5 * sortedAtInPlace(uCopy, n >> 1);
   const q = fitPolynomial(xs, ys, i0, i1, 2);
   const g = new Float64Array(k * k);
   const c = new Float64Array(k);
@@ -337,12 +340,19 @@ export function fitUniformSpline(
 /** The pilot's values at its two ends, computed once per pilot (every warped evaluation needs them). */
 const warpEnds = new WeakMap<SplineFit, { g0: number; g1: number }>();
 
+/** The last pilot asked about and its ends: a million evaluations in a row ask about one pilot. */
+let lastPilot: SplineFit | null = null;
+let lastEnds = { g0: 0, g1: 0 };
+
 function endsOf(pilot: SplineFit): { g0: number; g1: number } {
+  if (pilot === lastPilot) return lastEnds; // no WeakMap look-up (some 30 ns, four per local Kvco)
   let ends = warpEnds.get(pilot);
   if (!ends) {
     ends = { g0: splineValue(pilot, pilot.fromV), g1: splineValue(pilot, pilot.toV) };
     warpEnds.set(pilot, ends);
   }
+  lastPilot = pilot;
+  lastEnds = ends;
   return ends;
 }
 
@@ -376,7 +386,7 @@ export function fitSpline(
   const pilot = fitUniformSpline(xs, ys, u, i0, i1, options);
   if (!pilot.monotone) return pilot;
   const n = i1 - i0;
-  const zs = new Float64Array(n);
+  const zs = scratchColumn(1, n); // slot 1 (the inner fit takes slot 0 for a while; its result keeps no column)
   for (let i = 0; i < n; i++) zs[i] = warpZ(pilot, xs[i0 + i] as number);
   const inner = fitUniformSpline(zs, ys, u.subarray(i0, i1), 0, n, options);
   // Keep the warped knots only when they predict better (lower GCV on the same data):

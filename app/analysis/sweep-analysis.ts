@@ -18,6 +18,7 @@ import { usableRange, type UsableRange } from './sweep-usable-range.ts';
 import { formatFigure } from './format-figure.ts';
 import { fitRangeIndices, tuningWindow, type FitRangeRequest, type WindowRequest } from './sweep-window.ts';
 import type { TuningModel } from './tuning-model.ts';
+import { releaseScratchColumns } from './scratch-columns.ts';
 
 export interface SweepOptions {
   /** 'spline' (default: penalised regression spline, GCV), polynomial degree 1–6, or 'auto' (polynomial, AICc). */
@@ -83,6 +84,14 @@ export function sweepAnalysisRows<A extends SweepColumnAnalysis>(
 
 /** The analysis with `points` and `kvco.local` as columns (sweep-columns.ts): no object per point. */
 export function analyzeSweepColumns(input: SweepInput, options: SweepOptions = {}): SweepColumnAnalysis {
+  try {
+    return sweepColumns(input, options);
+  } finally {
+    releaseScratchColumns(); // a big sweep's working columns go with it
+  }
+}
+
+function sweepColumns(input: SweepInput, options: SweepOptions): SweepColumnAnalysis {
   if (input.controlV.length !== input.frequencyHz.length) {
     throw new AnalysisError('control_v and frequency_hz have different lengths');
   }

@@ -50,14 +50,21 @@ describe('sweep analysis as columns', () => {
     expect(Math.abs(fd / 1e4 - 1)).toBeLessThan(0.03);
   });
 
-  it('fill() into one reused object writes what row() makes (an absent key as undefined), and JSON.stringify sees rows', () => {
+  it('fields() hold what row() makes, key for key in order (a left-out key absent), and JSON.stringify sees rows', () => {
     const { points, kvco } = analyzeSweepColumns(input, options);
     for (const columns of [points, kvco.local] as const) {
-      const into = columns.blank();
+      const fields = columns.fields();
       for (let i = 0; i < columns.count; i++) {
-        columns.fill(i, into);
-        expect(JSON.stringify(into)).toBe(JSON.stringify(columns.row(i)));
-        expect(Object.keys(into).slice(0, Object.keys(columns.row(i)).length)).toEqual(Object.keys(columns.row(i)));
+        const fromFields: Record<string, unknown> = {};
+        for (const field of fields) {
+          const at = field.values[i] as number;
+          if (field.kind === 'number') fromFields[field.key] = field.present?.[i] === 0 ? null : at;
+          else if (field.kind === 'count') fromFields[field.key] = at;
+          else if (field.kind === 'choice') fromFields[field.key] = field.texts[at];
+          else if (at === 1 || !field.omitFalse) fromFields[field.key] = at === 1;
+        }
+        expect(Object.keys(fromFields)).toEqual(Object.keys(columns.row(i)));
+        expect(fromFields).toEqual(columns.row(i));
       }
       expect(JSON.stringify(columns, null, 2)).toBe(JSON.stringify(columns.rows(), null, 2));
     }

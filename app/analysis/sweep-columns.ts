@@ -4,9 +4,11 @@
  * has a million of each; as objects they cost some hundreds of MB and most of
  * the analysis' time in allocation (issue 15 item 9), as columns 40 bytes a
  * point. A row object is made only when asked for: `row(i)` (the app's and
- * the tests' object shape, sweep-analysis.ts), or `fill(i, into)` into one
- * object reused from row to row (the CLI's JSON writer, main/cli/json-chunks.ts).
- * Both give the keys in the order the JSON has always had them.
+ * the tests' object shape, sweep-analysis.ts), or not at all: `fields` lists
+ * the columns behind each key, in the row's order, for a writer that reads
+ * the typed arrays itself (the CLI's JSON writer, main/cli/json-rows.ts, so a
+ * million rows box no number). Both give the keys in the order the JSON has
+ * always had them.
  */
 import type { LocalKvco } from './sweep-gain.ts';
 
@@ -25,20 +27,25 @@ export interface SweepPointRow {
   fitHz: number | null;
 }
 
+/**
+ * The column behind one key of a row: a number (null where `present` is 0;
+ * NaN is written null too, as JSON does), a count, a flag (true/false; left
+ * out where false when `omitFalse`), or one of two texts (`texts[value]`).
+ */
+export type RowField =
+  | { key: string; kind: 'number'; values: Float64Array; present?: Uint8Array }
+  | { key: string; kind: 'count'; values: Int32Array }
+  | { key: string; kind: 'flag'; values: Uint8Array; omitFalse?: boolean }
+  | { key: string; kind: 'choice'; values: Uint8Array; texts: readonly [string, string] };
+
 /** Columns that hand out their rows: JSON.stringify sees the rows (toJSON), a writer can take them one at a time. */
 export abstract class RowColumns<Row extends object> {
   /** Number of rows. */
   abstract readonly count: number;
   /** A new object of row i (an optional key only when the row has it). */
   abstract row(i: number): Row;
-  /**
-   * Row i written into `into`, an object from `blank()` reused from row to row:
-   * every key present, in the row's order; a key the row leaves out is
-   * `undefined`, which JSON.stringify leaves out too.
-   */
-  abstract fill(i: number, into: Record<string, unknown>): void;
-  /** An object with every key of a row, in order (for `fill`). */
-  abstract blank(): Record<string, unknown>;
+  /** The columns behind every key a row can have, in the row's order: row(i) in columns. */
+  abstract fields(): readonly RowField[];
 
   rows(): Row[] {
     const out = new Array<Row>(this.count);
@@ -99,30 +106,18 @@ export class SweepPointColumns extends RowColumns<SweepPointRow> {
     };
   }
 
-  fill(i: number, into: Record<string, unknown>): void {
-    into.v = this.v[i];
-    into.meanHz = this.meanHz[i];
-    into.sdHz = this.sdHz[i];
-    into.readings = this.readings[i];
-    into.noOscillation = this.noOscillation[i];
-    into.unstable = this.unstable[i] === 1;
-    into.unsettled = this.unsettled[i] === 1;
-    into.edgeZone = this.edgeZone[i] === 1;
-    into.fitHz = this.fitted[i] === 1 ? this.fitHz[i] : null;
-  }
-
-  blank(): Record<string, unknown> {
-    return {
-      v: 0,
-      meanHz: 0,
-      sdHz: 0,
-      readings: 0,
-      noOscillation: 0,
-      unstable: false,
-      unsettled: false,
-      edgeZone: false,
-      fitHz: null,
-    };
+  fields(): readonly RowField[] {
+    return [
+      { key: 'v', kind: 'number', values: this.v },
+      { key: 'meanHz', kind: 'number', values: this.meanHz },
+      { key: 'sdHz', kind: 'number', values: this.sdHz },
+      { key: 'readings', kind: 'count', values: this.readings },
+      { key: 'noOscillation', kind: 'count', values: this.noOscillation },
+      { key: 'unstable', kind: 'flag', values: this.unstable },
+      { key: 'unsettled', kind: 'flag', values: this.unsettled },
+      { key: 'edgeZone', kind: 'flag', values: this.edgeZone },
+      { key: 'fitHz', kind: 'number', values: this.fitHz, present: this.fitted },
+    ] satisfies (RowField & { key: keyof SweepPointRow })[];
   }
 }
 
@@ -166,27 +161,16 @@ export class LocalKvcoColumns extends RowColumns<LocalKvco> {
     return row;
   }
 
-  fill(i: number, into: Record<string, unknown>): void {
-    into.v = this.v[i];
-    into.hzPerV = this.hzPerV[i];
-    into.fdHzPerV = this.fdHzPerV[i];
-    into.uncertaintyHzPerV = this.uncertaintyHzPerV[i];
-    into.source = this.fromFit[i] === 1 ? 'fit' : 'finite-difference';
-    into.unstable = this.unstable[i] === 1;
-    into.fitDisagrees = this.fitDisagrees[i] === 1;
-    into.flatWithinUncertainty = this.flatWithinUncertainty[i] === 1 ? true : undefined;
-  }
-
-  blank(): Record<string, unknown> {
-    return {
-      v: 0,
-      hzPerV: 0,
-      fdHzPerV: 0,
-      uncertaintyHzPerV: 0,
-      source: 'fit',
-      unstable: false,
-      fitDisagrees: false,
-      flatWithinUncertainty: undefined,
-    };
+  fields(): readonly RowField[] {
+    return [
+      { key: 'v', kind: 'number', values: this.v },
+      { key: 'hzPerV', kind: 'number', values: this.hzPerV },
+      { key: 'fdHzPerV', kind: 'number', values: this.fdHzPerV },
+      { key: 'uncertaintyHzPerV', kind: 'number', values: this.uncertaintyHzPerV },
+      { key: 'source', kind: 'choice', values: this.fromFit, texts: ['finite-difference', 'fit'] },
+      { key: 'unstable', kind: 'flag', values: this.unstable },
+      { key: 'fitDisagrees', kind: 'flag', values: this.fitDisagrees },
+      { key: 'flatWithinUncertainty', kind: 'flag', values: this.flatWithinUncertainty, omitFalse: true },
+    ] satisfies (RowField & { key: keyof LocalKvco })[];
   }
 }

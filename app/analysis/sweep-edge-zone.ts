@@ -33,6 +33,7 @@
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
 import { sortedAtInPlace } from './select-kth.ts';
+import { scratchColumn } from './scratch-columns.ts';
 
 export interface EdgeZone {
   /** First point of the usable range after the zone (= edges.usableI0 when there is none). */
@@ -51,7 +52,7 @@ export const EDGE_ZONE_SLOPE_CHANGE = 0.05;
 /** The median spacing of the block's points: the sweep's regular step (refinement points are few). */
 function regularStep(v: Float64Array, i0: number, i1: number): number {
   if (i1 - i0 < 2) return NaN;
-  const gaps = new Float64Array(i1 - i0 - 1);
+  const gaps = scratchColumn(0, i1 - i0 - 1); // slot 0
   for (let i = i0 + 1; i < i1; i++) gaps[i - i0 - 1] = (v[i] as number) - (v[i - 1] as number);
   return sortedAtInPlace(gaps, gaps.length >> 1); // the points ascend: every gap is > 0
 }

@@ -3,6 +3,7 @@
  * it oscillates) and the unstable region just above it.
  */
 import { oscillatingFraction, type PointSet } from './sweep-points.ts';
+import { scratchColumn } from './scratch-columns.ts';
 
 export interface EdgeOptions {
   /** Counter gate (s): resolution floor 1/gate Hz. */
@@ -44,7 +45,9 @@ function crossing(points: PointSet, a: number, b: number): number {
 
 function median(values: Float64Array, n: number): number {
   if (n === 0) return NaN;
-  const s = values.slice(0, n).sort();
+  const s = scratchColumn(1, n); // slot 1 (findEdges holds slot 0)
+  s.set(values.subarray(0, n));
+  s.sort();
   return n % 2 ? (s[(n - 1) >> 1] as number) : ((s[n / 2 - 1] as number) + (s[n / 2] as number)) / 2;
 }
 
@@ -71,7 +74,7 @@ export function findEdges(points: PointSet, options: EdgeOptions = {}): Edges {
   for (let i = 0; i < n; i++)
     if ((points.nNoOsc[i] as number) > 0 && (points.nOsc[i] as number) === 0) anyStalled = true;
   const unstable = new Uint8Array(n);
-  const rel = new Float64Array(n);
+  const rel = scratchColumn(0, n); // slot 0
   let nRel = 0;
   for (let i = bestI0; i < bestI1; i++) {
     if ((points.nOsc[i] as number) >= 2) rel[nRel++] = (points.sdHz[i] as number) / (points.meanHz[i] as number);

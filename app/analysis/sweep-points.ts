@@ -4,6 +4,7 @@
  */
 import { orderByVoltage } from './voltage-order.ts';
 
+/** A sweep's readings. The analysis only reads them (they may be a table's own columns). */
 export interface SweepInput {
   /** Control-voltage setpoint of each reading (V). */
   controlV: Float64Array;
@@ -74,7 +75,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
     const i = idx[k] as number;
     const vi = controlV[i] as number;
     if (p < 0 || !sameVoltage(v[p] as number, vi)) {
-      if (p >= 0) finish(p);
+      if (p >= 0) finishPoint(meanHz, sdHz, nOsc, p, mean, m2);
       p++;
       v[p] = vi;
       mean = 0;
@@ -93,7 +94,7 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
       m2 += delta * (f - mean);
     }
   }
-  if (p >= 0) finish(p);
+  if (p >= 0) finishPoint(meanHz, sdHz, nOsc, p, mean, m2);
   const count = p + 1;
   return {
     direction,
@@ -105,12 +106,23 @@ export function groupPoints(input: SweepInput, direction: Direction): PointSet {
     nNoOsc: nNoOsc.subarray(0, count),
     unsettled: unsettled.subarray(0, count),
   };
+}
 
-  function finish(q: number): void {
-    const c = nOsc[q] as number;
-    meanHz[q] = c > 0 ? mean : NaN;
-    sdHz[q] = c > 1 ? Math.sqrt(m2 / (c - 1)) : NaN;
-  }
+/**
+ * Point q's mean and SD from Welford's running mean and m2. Not a closure over
+ * them: doubles a closure shares live boxed on the heap, a new box per update.
+ */
+function finishPoint(
+  meanHz: Float64Array,
+  sdHz: Float64Array,
+  nOsc: Int32Array,
+  q: number,
+  mean: number,
+  m2: number,
+): void {
+  const c = nOsc[q] as number;
+  meanHz[q] = c > 0 ? mean : NaN;
+  sdHz[q] = c > 1 ? Math.sqrt(m2 / (c - 1)) : NaN;
 }
 
 /** Fraction of a point's readings that oscillated. */

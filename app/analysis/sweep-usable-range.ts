@@ -9,6 +9,7 @@ import { bendEnd, edgeZone, type EdgeZone } from './sweep-edge-zone.ts';
 import type { Edges } from './sweep-edges.ts';
 import type { PointSet } from './sweep-points.ts';
 import { sortedAtInPlace } from './select-kth.ts';
+import { scratchColumn } from './scratch-columns.ts';
 
 /**
  * Index of the extreme point where a tuning curve turns back, or null when it
@@ -55,12 +56,14 @@ export function flatTopEnd(
   const steps = i1 - i0 - 1;
   if (steps < 3 || !(fraction > 0)) return i1;
   const sense = (meanHz[i1 - 1] as number) >= (meanHz[i0] as number) ? 1 : -1;
-  const slopes = new Float64Array(steps);
+  const slopes = scratchColumn(0, steps); // slot 0, and slot 1 for the copy the median sorts
   for (let i = i0; i < i1 - 1; i++) {
     slopes[i - i0] =
       (sense * ((meanHz[i + 1] as number) - (meanHz[i] as number))) / ((v[i + 1] as number) - (v[i] as number));
   }
-  const median = sortedAtInPlace(Float64Array.from(slopes), steps >> 1);
+  const sorted = scratchColumn(1, steps);
+  sorted.set(slopes);
+  const median = sortedAtInPlace(sorted, steps >> 1);
   if (!(median > 0)) return i1;
   let end = i1;
   while (end - i0 > 2) {

@@ -122,8 +122,8 @@ export type BenchEvent =
   | { type: 'campaign'; campaign: CampaignView }
   /** Soak readings (batched): setpoint, chamber air and DUT temperature. */
   | { type: 'campaign-soak'; samples: SoakSampleView[] }
-  /** Readings of the condition being swept (batched). */
-  | { type: 'campaign-sweep'; index: number; points: SweepPointView[] };
+  /** Readings of the condition being swept (batched), with the counter's gate they were read with. */
+  | { type: 'campaign-sweep'; index: number; points: SweepPointView[]; gateS?: number };
 
 export interface SerialPortInfo {
   path: string;

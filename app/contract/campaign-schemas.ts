@@ -79,7 +79,13 @@ export const campaignSheetSchema = z.looseObject({
 export const campaignEventSchemas = [
   z.object({ type: z.literal('campaign'), campaign: campaignViewSchema }),
   z.object({ type: z.literal('campaign-soak'), samples: z.array(soakSampleSchema) }),
-  z.object({ type: z.literal('campaign-sweep'), index: z.number().int(), points: z.array(sweepPointSchema) }),
+  z.object({
+    type: z.literal('campaign-sweep'),
+    index: z.number().int(),
+    points: z.array(sweepPointSchema),
+    /** The counter's gate of these readings (s): they resolve 1/gate, so the read-out writes no finer digit. */
+    gateS: z.number().positive().finite().optional(),
+  }),
 ] as const;
 
 export type CampaignView = KnownShape<z.output<typeof campaignViewSchema>>;

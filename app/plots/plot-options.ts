@@ -3,6 +3,7 @@ import type uPlot from 'uplot';
 import { formatSiOrDash as si, siPrefixFor } from '../analysis/format-si.ts';
 import type { PlotColors } from './plot-colors.ts';
 import { readoutValue, type Readout } from './readout.ts';
+import { resolutionSteps } from './resolution-steps.ts';
 import { TIME_STEPS_S, timeTickLabel } from './time-ticks.ts';
 
 export function siAxis(colors: PlotColors, label: string, unit: string, extra: Partial<uPlot.Axis> = {}): uPlot.Axis {
@@ -17,6 +18,12 @@ export function siAxis(colors: PlotColors, label: string, unit: string, extra: P
     values: (_u, values, _axis, _space, incr) => tickLabels(values, incr, unit),
     ...extra,
   };
+}
+
+/** An axis' tick steps for the series it shows: never finer than what the series resolves (uPlot's own list without one). */
+export function readoutTicks(readout: Readout): Pick<uPlot.Axis, 'incrs'> {
+  const steps = resolutionSteps(readout.resolution);
+  return steps ? { incrs: steps } : {};
 }
 
 /** Fewest decimals that write a tick step exactly (0.25 → 2, 0.5 → 1, 5 → 0). */

@@ -13,7 +13,12 @@
  *   floor 1/(gate·√12) (GUM §4.3.7) — a mean cannot be known better than
  *   the counter counts.
  */
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import type { BenchApi, BenchEvent } from '../contract/bench-api.ts';
+import { benchEventSchema } from '../contract/wire-schemas.ts';
 import { driftPlanSchema } from '../contract/plans.ts';
 import { analyzeDrift } from '../analysis/drift-analysis.ts';
 import { formatSi } from '../analysis/format-si.ts';
@@ -25,10 +30,13 @@ import { cursorTexts } from '../plots/cursor-pair.ts';
 import { readPlotColors } from '../plots/plot-colors.ts';
 import { readoutText } from '../plots/readout.ts';
 import { simSweep } from '../../test/testing/sim-sweep.ts';
-import { assembleBench } from '../../main/bench/assemble.ts';
+import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG } from '../../main/bench/assemble.ts';
+import { campaignDut, campaignPlanInput } from '../../main/procedures/campaign/demo-campaign.ts';
+import { startCampaignSession } from '../../main/service/campaign-session.ts';
 import { runDrift } from '../../main/procedures/drift.ts';
 import { MemorySink } from '../../main/procedures/testing/fake-bench.ts';
 import { VirtualClock } from '../../main/time/virtual-clock.ts';
+import { campaignFeed, liveReadingReadout } from './campaign/campaign-feed.ts';
 import { driftReadouts } from './drift/drift-readouts.ts';
 import { bodeOptions } from './loop/bode-options.ts';
 import { designAtLock } from './loop/loop-design.ts';
@@ -249,6 +257,57 @@ describe('drift plots (simulated relaxation DUT, 150 readings at 1 s, 0.1 s gate
       r.frequency,
     );
     expect(text.deltas).toMatch(/^Δt 1 min 55 s · Δf .* · slope .* ± .*Hz\/s$/);
+  }, 60_000);
+});
+
+describe('live campaign sweep plot (simulated campaign bench, 0.1 s gate)', () => {
+  it('writes the readings the campaign pushes to the page to 10 Hz, not to 7 significant digits', async () => {
+    const runsDir = await mkdtemp(join(tmpdir(), 'tunebench-campaign-readout-'));
+    const clock = new VirtualClock({ autoAdvance: true });
+    const bench = await assembleBench(SIM_CAMPAIGN_BENCH_CONFIG, { clock, sim: { dut: campaignDut(), seed: 4 } });
+    // The page's side: every pushed event checked by the wire schema, then into the campaign screen's feed.
+    const listeners = new Set<(event: BenchEvent) => void>();
+    const page = {
+      subscribe: (listener: (event: BenchEvent) => void) => {
+        listeners.add(listener);
+        return () => listeners.delete(listener);
+      },
+    } as Pick<BenchApi, 'subscribe'> as BenchApi;
+    const feed = campaignFeed(page);
+    const base = campaignPlanInput();
+    const plan = campaignPlanInput({
+      temperaturesC: [25],
+      supplyV: [5],
+      soak: { ...base.soak, dwellS: 60 },
+      sweep: { ...base.sweep, start: 2, stop: 3, step: 0.1, gateS: GATE_S },
+    });
+    try {
+      const session = await startCampaignSession(
+        {
+          bench,
+          clock,
+          runsDir,
+          batchMs: 1,
+          emit: (event) => {
+            const checked = benchEventSchema.parse(event);
+            for (const listener of listeners) listener(checked);
+          },
+        },
+        { plan },
+      );
+      expect((await session.done)?.file.status).toBe('complete');
+    } finally {
+      await bench.close();
+      await rm(runsDir, { recursive: true, force: true });
+    }
+    const readings = feed.sweep.f.filter((f): f is number => f !== null && f > 0);
+    expect(readings.length).toBeGreaterThan(20);
+    expectSupported(
+      readings.map((f) => readoutText(liveReadingReadout(feed.sweep), f)),
+      'Hz',
+      { resolution: COUNT_HZ },
+    );
+    expect(feed.sweep.gateS).toBe(GATE_S);
   }, 60_000);
 });
 

@@ -28,7 +28,8 @@ export const INPUTS_FILE = fileURLToPath(new URL('../../out/cli/sources.json', i
  * sees on an idle machine.) V8 keys its code cache to its flags: the cache is
  * always made and read with these set.
  */
-export const START_FLAGS = '--semi-space-growth-factor=1';
+// (--concurrent-osr is V8's default, set again for the code cache: a big analysis turns it off, v8-tuning.ts.)
+export const START_FLAGS = '--semi-space-growth-factor=1 --concurrent-osr';
 /** V8's own setting, which main/cli/v8-tuning.ts puts back the same way. */
 export const BIG_WORK_FLAGS = '--semi-space-growth-factor=2';
 

@@ -6,7 +6,7 @@ import { renderCampaignMarkdown } from '../../app/analysis/campaign-datasheet.ts
 import { campaignPlanSchema, type CampaignPlan } from '../../app/contract/campaign-plan.ts';
 import { describeIssues } from '../../app/contract/plans.ts';
 import { assembleBench, SIM_CAMPAIGN_BENCH_CONFIG, type AssembledBench } from '../bench/assemble.ts';
-import { asUsageError, CAUTIONS, parseDutName, runsDirFrom } from './run-setup.ts';
+import { asUsageError, CAUTIONS, cliControl, parseDutName, runsDirFrom } from './run-setup.ts';
 import { ConfigFileError, loadBenchFile, loadCampaignPlan } from './config-files.ts';
 import { AddressError, ProfileError } from '../instruments/errors.ts';
 import { campaignSafeState } from '../procedures/campaign/campaign-safe.ts';
@@ -19,9 +19,7 @@ import {
   type CampaignHooks,
   type CampaignOutcome,
 } from '../procedures/campaign/run-campaign.ts';
-import { stopOnSignals } from '../procedures/exit-guard.ts';
 import { LimitsError } from '../procedures/limits.ts';
-import { RunControl } from '../procedures/run-control.ts';
 import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
@@ -150,27 +148,12 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     io.stderr.write(
       `bench: simulated (${bench.sim?.dutParams.id ?? 'sim'}, chamber included)${virtual ? ', virtual time' : ''} — no instrument is touched\n`,
     );
-  const control = new RunControl({ signal: io.signal });
-  const disposers: (() => void)[] = [];
-  if (io.signal === undefined) disposers.push(stopOnSignals(control, process));
-  if (io.stdout === process.stdout) {
-    // A bug anywhere still leaves the bench safe before the process exits.
-    let handling = false;
-    const onCrash = (error: unknown): void => {
-      if (handling) return;
-      handling = true;
-      io.stderr.write(`crash: ${error instanceof Error ? error.message : String(error)} — making the bench safe\n`);
-      void campaignSafeState(bench, plan, (e) => io.stderr.write(`${e.type}: ${JSON.stringify(e)}\n`)).finally(() =>
-        process.exit(1),
-      );
-    };
-    process.on('uncaughtException', onCrash);
-    process.on('unhandledRejection', onCrash);
-    disposers.push(() => {
-      process.off('uncaughtException', onCrash);
-      process.off('unhandledRejection', onCrash);
-    });
-  }
+  // The recording commands' last-resort guard: SIGINT/SIGTERM/SIGHUP stop the campaign cleanly (its own safe
+  // state runs); a crash, a heap near its limit or a second signal, if the campaign has not ended within 8 s,
+  // drive the campaign's safe state from here. SIGHUP once killed it with the outputs on.
+  const { control, dispose } = cliControl(io, bench, plan.sweep.safe, (record) =>
+    campaignSafeState(bench, plan, record),
+  );
   const hooks: CampaignHooks = {
     changeUnit: unitChanger(io, bench.simulated),
     onState: (entry, file) => {
@@ -206,10 +189,14 @@ async function run(argv: string[], io: CliIo): Promise<number> {
       if (error instanceof CampaignBusyError || error instanceof CampaignFileError) throw new UsageError(error.message);
       throw error;
     });
-  } finally {
-    disposers.forEach((dispose) => dispose());
+  } catch (error) {
+    dispose();
     await bench.close();
+    throw error;
   }
+  const exitCode = outcome.failure !== null || outcome.file.status === 'aborted' || !outcome.safeStateOk ? 1 : 0;
+  dispose({ safeStateOk: outcome.safeStateOk, exitCode });
+  await bench.close();
   io.stdout.write(`${outcome.dir}\n`);
   io.stdout.write(
     `campaign ${outcome.file.status}${outcome.file.reason ? ` (${outcome.file.reason})` : ''}: ${outcome.file.conditions.filter((c) => c.state === 'done').length} of ${outcome.file.conditions.length} conditions done\n`,
@@ -222,17 +209,12 @@ async function run(argv: string[], io: CliIo): Promise<number> {
     const { analysis } = await loadCampaignAnalysis(outcome.dir);
     io.stdout.write(`\n${renderCampaignMarkdown(analysis)}`);
   }
-  if (outcome.failure !== null) {
-    io.stderr.write(`campaign failed: ${outcome.failure}\n`);
-    return 1;
-  }
-  if (outcome.file.status === 'aborted') {
+  if (outcome.failure !== null) io.stderr.write(`campaign failed: ${outcome.failure}\n`);
+  else if (outcome.file.status === 'aborted')
     io.stderr.write(
       `campaign stopped (${outcome.file.reason ?? 'stop'}); supply off, chamber to its safe state. Resume with: tunebench campaign --resume ${outcome.dir}\n`,
     );
-    return 1;
-  }
-  return outcome.safeStateOk ? 0 : 1;
+  return exitCode;
 }
 
 export const campaignCommand: CliCommand = {

@@ -8,16 +8,15 @@
  * re-indented. (A block's elements see their index within the block as the
  * key of a toJSON(key) call; no value tunebench writes has such a toJSON.)
  * Columns that hand out rows (RowColumns, app/analysis/sweep-columns.ts: a
- * sweep's `points` and `kvco.local`) are written as the array of their rows,
- * a block at a time through a few row objects reused from block to block, so a
- * million rows make no million objects.
+ * sweep's `points` and `kvco.local`) are written as the array of their rows
+ * by json-rows.ts straight from their typed columns, so a million rows make
+ * no million objects; a long array of numbers the same way.
  */
 import { RowColumns } from '../../app/analysis/sweep-columns.ts';
+import { writeJsonNumbers, writeJsonRows } from './json-rows.ts';
 
 /** Arrays at least this long are written a block of this many elements at a time. */
 const LONG_ARRAY = 64;
-/** Rows of RowColumns written per JSON.stringify call. */
-const ROW_BLOCK = 256;
 /** Text is handed to `write` in pieces of about this many characters. */
 const CHUNK_CHARS = 1 << 16;
 
@@ -34,6 +33,12 @@ function leaf(value: unknown, indent: string): string | undefined {
   return text.replaceAll('\n', `\n${indent}`); // strings inside JSON text escape their newlines
 }
 
+/** Every element a number (a hole is not: JSON writes it null). */
+function allNumbers(values: unknown[]): boolean {
+  for (let i = 0; i < values.length; i++) if (typeof values[i] !== 'number') return false;
+  return true;
+}
+
 export function writeJsonChunks(value: unknown, write: (text: string) => void): void {
   let buffer = '';
   const put = (text: string): void => {
@@ -47,43 +52,15 @@ export function writeJsonChunks(value: unknown, write: (text: string) => void): 
   const walked = (value: unknown): boolean =>
     (Array.isArray(value) && value.length >= LONG_ARRAY) || value instanceof RowColumns || isPlainObject(value);
 
-  /**
-   * The rows of `columns` as an array at `indent`. Each block is stringified inside
-   * indent/2 single-key wrappers, so JSON.stringify itself puts its rows at this
-   * depth: the text between the wrappers' opening and closing lines is the rows,
-   * already indented, with no second pass over it.
-   */
-  const emitRows = (columns: RowColumns<object>, indent: string): void => {
-    if (columns.count === 0) {
-      put('[]');
-      return;
-    }
-    const block: Record<string, unknown>[] = [];
-    let wrapped: unknown = block;
-    let head = '[\n';
-    let tail = '\n]';
-    for (let depth = indent.length / 2; depth > 0; depth--) {
-      wrapped = { '': wrapped };
-      head = `{\n${' '.repeat(2 * depth)}"": ${head}`;
-      tail = `${tail.replace(/\n/g, '\n  ')}\n}`;
-    }
-    put('[');
-    for (let at = 0; at < columns.count; at += ROW_BLOCK) {
-      const n = Math.min(ROW_BLOCK, columns.count - at);
-      while (block.length < n) block.push(columns.blank());
-      block.length = n;
-      for (let k = 0; k < n; k++) columns.fill(at + k, block[k] as Record<string, unknown>);
-      const text = JSON.stringify(wrapped, null, 2);
-      put(`${at === 0 ? '\n' : ',\n'}${text.slice(head.length, text.length - tail.length)}`);
-    }
-    put(`\n${indent}]`);
-  };
-
   /** Writes `value` at `indent`: walked, or as JSON.stringify's text (null where it leaves a value out). */
   const emit = (value: unknown, indent: string): void => {
     const inner = `${indent}  `;
     if (value instanceof RowColumns) {
-      emitRows(value as RowColumns<object>, indent);
+      writeJsonRows(value as RowColumns<object>, indent, put);
+      return;
+    }
+    if (Array.isArray(value) && value.length >= LONG_ARRAY && allNumbers(value)) {
+      writeJsonNumbers(value as number[], indent, put); // a sweep's `kvco.signChangeAtV`: up to a number a point
       return;
     }
     if (Array.isArray(value) && value.length >= LONG_ARRAY) {

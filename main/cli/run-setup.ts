@@ -85,6 +85,10 @@ export function cliControl(
   io: CliIo,
   bench: AssembledBench,
   safe: SafeState,
+  /** The guard's own safe state when the work has not ended within 8 s (default: the control channel's). */
+  driveSafe: (record: (event: { type: string; [key: string]: unknown }) => void) => Promise<{ ok: boolean }> = (
+    record,
+  ) => goSafe(bench, bench.controlChannel, safe, record),
 ): { control: RunControl; dispose: (verdict?: RunVerdict) => void } {
   const control = new RunControl({ signal: io.signal });
   const disposers: (() => void)[] = [];
@@ -102,7 +106,7 @@ export function cliControl(
         // a bench proven safe — a second Ctrl-C once exited 0 over an unconfirmed safe state).
         const verdict = await Promise.race([runEnded, wait]);
         if (verdict !== null) return { ok: verdict.safeStateOk, exitCode: verdict.exitCode };
-        return { ok: (await goSafe(bench, bench.controlChannel, safe, record)).ok };
+        return { ok: (await driveSafe(record)).ok };
       },
     };
     disposers.push(

@@ -7,6 +7,7 @@
  * outputs off, chamber to safeC (or stopped, per its profile).
  */
 import type { BenchEvent } from '../../app/contract/bench-api.ts';
+import { campaignPlanSchema } from '../../app/contract/campaign-plan.ts';
 import type { CampaignView, SoakSampleView, SweepPointView } from '../../app/contract/campaign-schemas.ts';
 import type { CampaignFile } from '../procedures/campaign/campaign-file.ts';
 import {
@@ -94,8 +95,11 @@ export function startCampaignSession(
     (samples) => options.emit({ type: 'campaign-soak', samples }),
     options.batchMs,
   );
+  // Every condition sweeps with the plan's one gate; the page writes the readings to the 1/gate they resolve.
+  const gateS = sweepGateOf('plan' in what ? what.plan : what.file.plan);
   const sweep = new SampleBatcher<SweepPointView>(
-    (points) => options.emit({ type: 'campaign-sweep', index: sweepIndex, points }),
+    (points) =>
+      options.emit({ type: 'campaign-sweep', index: sweepIndex, points, ...(gateS !== null ? { gateS } : {}) }),
     options.batchMs,
   );
   const startS = options.clock.now();
@@ -194,6 +198,12 @@ export function startCampaignSession(
       done,
     };
   });
+}
+
+/** The counter gate (s) of the campaign's sweeps; null for a plan the campaign itself will refuse. */
+function sweepGateOf(plan: unknown): number | null {
+  const parsed = campaignPlanSchema.safeParse(plan);
+  return parsed.success ? parsed.data.sweep.gateS : null;
 }
 
 function planSafeC(file: CampaignFile | null): number {

@@ -45,14 +45,17 @@ export async function openBench(config: BenchConfig | 'sim', options: OpenBenchO
     }));
   const connection: ConnectionState = { connected: true, simulated: assembled.simulated, roles, error: null };
   return {
-    // The same roles as before the switch to assembleBench: no reconnect or error-queue hooks, so the
-    // service's procedures behave as they did.
+    // With the reconnect and error-queue hooks the CLI's procedures have: a safe state whose readback finds
+    // the supply's link wedged reopens it once and writes again (found by probing `serve` with a supply
+    // wedged on its first connection: without the hook the safe state stayed unconfirmed).
     roles: {
       supply: assembled.supply,
       counter: assembled.counter,
       thermometer: assembled.thermometer,
       controlChannel: assembled.controlChannel,
       dutSupplyChannel: assembled.dutSupplyChannel,
+      reconnect: assembled.reconnect,
+      drainErrors: assembled.drainErrors,
     },
     chamber: assembled.chamber,
     connection,

@@ -24,6 +24,9 @@ export class AppendFile {
   /** Bytes of the file known to be complete lines. */
   private committedBytes: number;
   private dirty = false;
+  /** Of a failed write: bytes after committedBytes that end a whole line (what a write that stops here may keep). */
+  private wholeAfterFailure = 0;
+  private linesAfterFailure = 0;
   linesWritten = 0;
 
   constructor(
@@ -51,14 +54,16 @@ export class AppendFile {
     const lines = this.pendingLines;
     this.pending = '';
     this.pendingLines = 0;
+    // What this drain put down before a failure: its bytes and how many of them reached the file.
+    let buffer: Buffer | null = null;
+    let done = 0;
     try {
       if (this.dirty) {
         await this.handle.truncate(this.committedBytes);
         this.dirty = false;
       }
       if (text === '') return;
-      const buffer = Buffer.from(text, 'utf8');
-      let done = 0;
+      buffer = Buffer.from(text, 'utf8');
       while (done < buffer.length) {
         const { bytesWritten } = await this.handle.write(done === 0 ? text : buffer.subarray(done));
         // No progress and no error: report it rather than spin.
@@ -73,6 +78,14 @@ export class AppendFile {
       this.pending = text + this.pending;
       this.pendingLines += lines;
       this.dirty = true;
+      // The whole lines a partial write did put down, should the writer stop here (closeAtWholeLine).
+      // (No buffer: the cut-back before it failed, and the earlier failure's figures still hold.)
+      if (buffer !== null) {
+        const whole = done > 0 ? buffer.lastIndexOf(0x0a, done - 1) + 1 : 0;
+        this.wholeAfterFailure = whole;
+        this.linesAfterFailure = 0;
+        for (let i = 0; i < whole; i++) if (buffer[i] === 0x0a) this.linesAfterFailure += 1;
+      }
       throw asDiskError(this.path, error);
     }
   }
@@ -87,5 +100,25 @@ export class AppendFile {
 
   close(): Promise<void> {
     return this.handle.close();
+  }
+
+  /**
+   * Closes a file the writer gives up on (the disk refused it): a failed write's partial last line is cut
+   * off, the whole lines it wrote stay, so the file ends with a whole row, not a torn one. Truncating frees
+   * blocks, so a full disk allows it.
+   */
+  async closeAtWholeLine(): Promise<void> {
+    try {
+      if (this.dirty) {
+        await this.handle.truncate(this.committedBytes + this.wholeAfterFailure);
+        this.committedBytes += this.wholeAfterFailure;
+        this.linesWritten += this.linesAfterFailure;
+        this.wholeAfterFailure = 0;
+        this.linesAfterFailure = 0;
+        this.dirty = false;
+      }
+    } finally {
+      await this.handle.close();
+    }
   }
 }

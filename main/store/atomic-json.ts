@@ -11,12 +11,22 @@ import { type StoreFs } from './store-fs.ts';
 
 let tempCounter = 0;
 
-export async function writeJsonAtomic(fs: StoreFs, path: string, value: unknown): Promise<void> {
+/** The text a JSON file is written as: two-space indents and a final newline. */
+export function jsonFileText(value: unknown): string {
+  return `${JSON.stringify(value, null, 2)}\n`;
+}
+
+export function writeJsonAtomic(fs: StoreFs, path: string, value: unknown): Promise<void> {
+  return writeTextAtomic(fs, path, jsonFileText(value));
+}
+
+/** Replaces `path` with `text` atomically (temp, fsync, rename, fsync the directory). */
+export async function writeTextAtomic(fs: StoreFs, path: string, text: string): Promise<void> {
   // pid + counter keeps two writers (or a reader recording `interrupted`)
   // from sharing a temp file.
   tempCounter += 1;
   const tempPath = join(dirname(path), `.${basename(path)}.${process.pid}.${tempCounter}.tmp`);
-  const bytes = Buffer.from(`${JSON.stringify(value, null, 2)}\n`, 'utf8');
+  const bytes = Buffer.from(text, 'utf8');
   try {
     const handle = await fs.open(tempPath, 'w');
     try {

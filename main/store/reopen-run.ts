@@ -17,7 +17,7 @@ import { startWriter } from './start-writer.ts';
 import type { RunWriter, WriterOptions } from './writer-types.ts';
 import { StoreError } from './store-error.ts';
 import { type StoreFileHandle, type StoreFs, nodeStoreFs, readFileIfExists } from './store-fs.ts';
-import { makeLock, writeLock } from './writer-lock.ts';
+import { makeLock, registerOpenWriter, unregisterOpenWriter, writeLock } from './writer-lock.ts';
 
 export interface ReopenRunOptions extends WriterOptions {
   runsDir: string;
@@ -66,7 +66,12 @@ export async function reopenRun(options: ReopenRunOptions): Promise<RunWriter> {
   const wallElapsedS = (Date.parse(clock.wallTimeIso()) - Date.parse(before.startedAt)) / 1000;
   const resumeS = Number.isFinite(wallElapsedS) && wallElapsedS > lastS ? wallElapsedS : lastS;
   const meta: RunMeta = { ...before, status: 'running', endedAt: null };
-  await writeRunMeta(fs, dir, meta);
+  // Known as this process's writer before run.json says `running` (see createRun).
+  registerOpenWriter(dir);
+  await writeRunMeta(fs, dir, meta).catch((error: unknown) => {
+    unregisterOpenWriter(dir);
+    throw error;
+  });
   const writer = startWriter({
     ...options,
     fs,

@@ -7,7 +7,8 @@ import { join } from 'node:path';
 import { z } from 'zod';
 import type { RunMeta } from '../../app/contract/bench-api.ts';
 import { RUN_SCHEMA, runMetaSchema } from '../../app/contract/run-meta-schema.ts';
-import { writeJsonAtomic } from './atomic-json.ts';
+import { writeTextAtomic } from './atomic-json.ts';
+import { isOutOfSpace, rewriteInPlace, runJsonText } from './run-json-space.ts';
 import { type StoreFs } from './store-fs.ts';
 
 export { RUN_SCHEMA, runMetaSchema };
@@ -51,6 +52,17 @@ export async function readRunMeta(fs: StoreFs, dir: string): Promise<RunMeta> {
   return parseRunMeta(text, path);
 }
 
-export function writeRunMeta(fs: StoreFs, dir: string, meta: RunMeta): Promise<void> {
-  return writeJsonAtomic(fs, join(dir, RUN_JSON), meta);
+/**
+ * Replaces run.json atomically; a running run's file keeps blocks in reserve (run-json-space.ts). Only when
+ * the disk is too full for the atomic rewrite is the text written in place into those blocks.
+ */
+export async function writeRunMeta(fs: StoreFs, dir: string, meta: RunMeta): Promise<void> {
+  const path = join(dir, RUN_JSON);
+  try {
+    await writeTextAtomic(fs, path, runJsonText(meta));
+  } catch (error) {
+    if (!isOutOfSpace(error)) throw error;
+    const written = await rewriteInPlace(fs, path, meta).catch(() => false);
+    if (!written) throw error;
+  }
 }

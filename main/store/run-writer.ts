@@ -17,7 +17,7 @@ import { startingRunMeta } from './starting-meta.ts';
 import { startWriter } from './start-writer.ts';
 import { type StoreFileHandle, type StoreFs, errorCode, nodeStoreFs } from './store-fs.ts';
 import type { CreateRunOptions, RunWriter } from './writer-types.ts';
-import { makeLock, writeLock } from './writer-lock.ts';
+import { makeLock, registerOpenWriter, unregisterOpenWriter, writeLock } from './writer-lock.ts';
 
 export type { CreateRunOptions, RunEventInput, RunWriter, SampleRow, WriterOptions } from './writer-types.ts';
 
@@ -66,6 +66,10 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
   const wallNowMs = options.wallNowMs ?? Date.now;
   const header = `${options.columns.join(',')}\n`;
   const opened: StoreFileHandle[] = [];
+  // This process's writer is known before run.json says `running`: a listing in this process that read
+  // run.json before the writer started (the directory fsync after its rename is slow on a busy disk) found
+  // no writer and recorded the live run `interrupted` (seen in the browser tests at load 18).
+  registerOpenWriter(dir);
   try {
     await writeLock(fs, dir, makeLock(startedAt, wallNowMs()));
     const samples = await fs.open(join(dir, SAMPLES_CSV), 'a');
@@ -85,6 +89,7 @@ export async function createRun(options: CreateRunOptions): Promise<RunWriter> {
     });
   } catch (error) {
     // No half-made run folder: nothing was recorded in it yet.
+    unregisterOpenWriter(dir);
     for (const handle of opened) await handle.close().catch(() => undefined);
     await fs.rm(dir, { recursive: true, force: true }).catch(() => undefined);
     throw error;

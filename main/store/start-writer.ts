@@ -126,8 +126,8 @@ export function startWriter(state: WriterState): RunWriter {
   /** The disk refused the run's files: record the run as failed, with the reason, where the disk still allows. */
   async function recordFailure(error: unknown): Promise<void> {
     const reason = error instanceof Error ? error.message : String(error);
-    await samples.close().catch(() => undefined);
-    await events.close().catch(() => undefined);
+    await samples.closeAtWholeLine().catch(() => undefined);
+    await events.closeAtWholeLine().catch(() => undefined);
     try {
       const onDisk = await readRunMeta(fs, dir).catch(() => meta);
       meta = { ...onDisk, status: 'failed', endedAt: clock.wallTimeIso(), failure: reason };

@@ -26,6 +26,12 @@ export interface StoreFs {
   rm(path: string, options?: { recursive?: boolean; force?: boolean }): Promise<void>;
   readdir(path: string): Promise<string[]>;
   stat(path: string): Promise<{ isDirectory(): boolean; mtimeMs: number; size: number }>;
+  /**
+   * Writes `bytes` over the start of an existing file, never past its end, so the file needs no block it does
+   * not already hold, then fsyncs it. Not atomic: only run.json's full-disk fallback (run-meta.ts) uses it.
+   * Absent where a file system cannot write in place (the page's OPFS store): that fallback is then not taken.
+   */
+  overwriteStart?(path: string, bytes: Uint8Array): Promise<void>;
 }
 
 /** The real file system. */
@@ -47,6 +53,22 @@ export const nodeStoreFs: StoreFs = {
   rm: (path, options) => fsp.rm(path, options),
   readdir: (path) => fsp.readdir(path),
   stat: (path) => fsp.stat(path),
+  async overwriteStart(path, bytes) {
+    const handle = await fsp.open(path, 'r+');
+    try {
+      const { size } = await handle.stat();
+      if (bytes.length > size) throw new RangeError(`${path}: ${bytes.length} bytes do not fit in its ${size}`);
+      let done = 0;
+      while (done < bytes.length) {
+        const { bytesWritten } = await handle.write(bytes, done, bytes.length - done, done);
+        if (!(bytesWritten > 0)) throw new Error(`${path}: short write at ${done} of ${bytes.length} bytes`);
+        done += bytesWritten;
+      }
+      await handle.sync();
+    } finally {
+      await handle.close();
+    }
+  },
 };
 
 /** Error code of a Node system error, or undefined. */

@@ -70,8 +70,14 @@ let lockTemp = 0;
 export async function writeLock(fs: StoreFs, dir: string, lock: WriterLock): Promise<void> {
   lockTemp += 1;
   const temp = join(dir, `.${WRITER_LOCK}.${process.pid}.${lockTemp}.tmp`);
-  await fs.writeFile(temp, `${JSON.stringify(lock)}\n`);
-  await fs.rename(temp, join(dir, WRITER_LOCK));
+  try {
+    await fs.writeFile(temp, `${JSON.stringify(lock)}\n`);
+    await fs.rename(temp, join(dir, WRITER_LOCK));
+  } catch (error) {
+    // A full disk refuses the heartbeat: leave no empty temp file behind in the run folder.
+    await fs.rm(temp, { force: true }).catch(() => undefined);
+    throw error;
+  }
 }
 
 /**

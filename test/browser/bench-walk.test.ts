@@ -165,6 +165,21 @@ describe.skipIf(!hasChromium)('a bench user walks the status, marks, zoom, locks
       expect(timeTicks.length).toBeGreaterThanOrEqual(2);
       expect(timeTicks.some((b) => /min/.test(b.text))).toBe(true);
       expect(boxes.some((b) => /\d\.\d{3,} min/.test(b.text))).toBe(false);
+      // The frequency ticks step no finer than a count: the log's 0.1 s gate (the screen's default) reads in
+      // 10 Hz counts (resolution 1/gate, common practice), so ticks 2 Hz apart would draw a scale the data lack.
+      const frequencyTicks = boxes
+        .map((b) => /^([\d.]+) (k?)Hz$/.exec(b.text))
+        .filter((m): m is RegExpExecArray => m !== null)
+        .map((m) => {
+          const scale = m[2] === 'k' ? 1e3 : 1;
+          return { hz: Number(m[1]) * scale, lastDigitHz: 10 ** -(m[1]?.split('.')[1] ?? '').length * scale };
+        });
+      expect(frequencyTicks.length).toBeGreaterThanOrEqual(2);
+      const tickHz = [...new Set(frequencyTicks.map((t) => t.hz))].sort((a, b) => a - b);
+      const tickSteps = tickHz.slice(1).map((hz, i) => hz - (tickHz[i] as number));
+      expect(Math.min(...tickSteps), `frequency ticks ${tickHz.join(', ')} Hz`).toBeGreaterThanOrEqual(10 - 1e-6);
+      // …and their labels write no digit below 10 Hz ("13.78 kHz", never "13.782 kHz").
+      expect(Math.min(...frequencyTicks.map((t) => t.lastDigitHz))).toBeGreaterThanOrEqual(10 - 1e-6);
       // No label touches another: ticks, axis titles (the right one beside its ticks), legend.
       const clashes: string[] = [];
       for (let i = 0; i < boxes.length; i++)

@@ -41,7 +41,14 @@ async function fastProfile(dir: string, role: 'supply' | 'counter'): Promise<str
   return path;
 }
 
-export async function hostileBench(rules: { supply?: ProxyRules; counter?: ProxyRules } = {}): Promise<HostileBench> {
+/**
+ * `rules` for the proxies in front of the supply and the counter; `campaign: true` adds the simulated
+ * thermometer and chamber to the bench file (straight to the simulator, no proxy), as a campaign needs.
+ */
+export async function hostileBench(
+  rules: { supply?: ProxyRules; counter?: ProxyRules } = {},
+  options: { campaign?: boolean } = {},
+): Promise<HostileBench> {
   const dir = await mkdtemp(join(tmpdir(), 'tunebench-hostile-'));
   const served = await serveSimBench({ basePort: 0, seed: 11 });
   const supplyProxy = await startScpiProxy(hostPort(served.addresses.supply), rules.supply);
@@ -57,6 +64,9 @@ export async function hostileBench(rules: { supply?: ProxyRules; counter?: Proxy
         dutSupplyChannel: 2,
       },
       counter: { address: counterProxy.address, profile: await fastProfile(dir, 'counter') },
+      ...(options.campaign
+        ? { thermometer: { address: served.addresses.thermometer }, chamber: { address: served.addresses.chamber } }
+        : {}),
     }),
   );
   return {

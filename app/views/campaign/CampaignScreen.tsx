@@ -7,13 +7,21 @@
  */
 import { useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 import type { CampaignSheet, CampaignSummary } from '../../contract/campaign-schemas.ts';
-import { baseOptions, lineSeries, pointSeries, siAxis, timeAxis, xSeries } from '../../plots/plot-options.ts';
-import { celsiusReadout, counterReadout, voltsReadout, type Readout } from '../../plots/readout.ts';
+import {
+  baseOptions,
+  lineSeries,
+  pointSeries,
+  readoutTicks,
+  siAxis,
+  timeAxis,
+  xSeries,
+} from '../../plots/plot-options.ts';
+import { celsiusReadout, voltsReadout, type Readout } from '../../plots/readout.ts';
 import { PlotPanel } from '../../plots/PlotPanel.tsx';
 import { useApp } from '../app-context.ts';
 import { ConfirmAction } from '../controls/ConfirmAction.tsx';
 import { Panel } from '../controls/Field.tsx';
-import { campaignFeed } from './campaign-feed.ts';
+import { campaignFeed, liveReadingReadout } from './campaign-feed.ts';
 import { CampaignDatasheet, ChamberCautions, ConditionGrid, UnitChangeDialog } from './CampaignParts.tsx';
 import { checkPlanText, STARTER_PLAN } from './plan-text.ts';
 import './campaign.css';
@@ -28,8 +36,6 @@ const STATUS_TEXT: Record<CampaignSummary['status'], string> = {
 
 /** Soak readings come about once a second: their time to the second. */
 const SOAK_TIME: Readout = { unit: 's', clock: true, resolution: 1 };
-/** The campaign's sweep events do not carry the counter's gate: a reading to 7 significant digits (figure-text's readingText). */
-const LIVE_READING: Readout = counterReadout(null);
 
 export function CampaignScreen() {
   const { bridge, stores } = useApp();
@@ -37,6 +43,7 @@ export function CampaignScreen() {
   const feed = useMemo(() => campaignFeed(api), [api]);
   useSyncExternalStore(feed.watch, () => feed.version);
   const campaign = feed.campaign;
+  const liveReading = liveReadingReadout(feed.sweep);
   const [text, setText] = useState(() => JSON.stringify(STARTER_PLAN, null, 2));
   const check = useMemo(() => checkPlanText(text), [text]);
   const [archive, setArchive] = useState<CampaignSummary[]>([]);
@@ -230,19 +237,22 @@ export function CampaignScreen() {
               ? `Live sweep — condition ${feed.sweep.index + 1}`
               : 'Live sweep (the condition being swept)'
           }
-          buildKey="campaign-sweep"
+          buildKey={`campaign-sweep ${feed.sweep.gateS ?? 'gate unknown'}`}
           height={240}
           watch={feed.watch}
           isEmpty={feed.sweep.v.length === 0}
           emptyText="Readings of the condition being swept appear here."
-          cursorReadouts={{ x: voltsReadout, y: LIVE_READING }}
+          cursorReadouts={{ x: voltsReadout, y: liveReading }}
           data={() => [feed.sweep.v, feed.sweep.f]}
           options={(colors, width, height) =>
             baseOptions(
               width,
               height,
-              [xSeries('Control', voltsReadout), pointSeries('Frequency', colors.series[0], LIVE_READING)],
-              [siAxis(colors, 'Control voltage', 'V'), siAxis(colors, 'Frequency', 'Hz', { size: 84 })],
+              [xSeries('Control', voltsReadout), pointSeries('Frequency', colors.series[0], liveReading)],
+              [
+                siAxis(colors, 'Control voltage', 'V'),
+                siAxis(colors, 'Frequency', 'Hz', { size: 84, ...readoutTicks(liveReading) }),
+              ],
             )
           }
         />

@@ -7,16 +7,20 @@
  */
 import type { BenchApi, BenchEvent } from '../../contract/bench-api.ts';
 import type { CampaignView } from '../../contract/campaign-schemas.ts';
+import { counterReadout, type Readout } from '../../plots/readout.ts';
 
 export interface CampaignFeed {
   campaign: CampaignView | null;
   soak: { t: number[]; setpoint: number[]; air: (number | null)[]; dut: number[] };
-  sweep: { index: number; v: number[]; f: (number | null)[] };
+  /** The condition being swept: control voltages, readings, and the counter gate they were read with (null: unknown). */
+  sweep: { index: number; v: number[]; f: (number | null)[]; gateS: number | null };
   version: number;
   watch: (listener: () => void) => () => void;
   /** Replaces the state (a reply to getCampaign/start/resume). */
   show: (view: CampaignView | null) => void;
 }
+
+const emptySweep = (): CampaignFeed['sweep'] => ({ index: -1, v: [], f: [], gateS: null });
 
 const feeds = new WeakMap<BenchApi, CampaignFeed>();
 
@@ -27,7 +31,7 @@ export function campaignFeed(api: BenchApi): CampaignFeed {
   const feed: CampaignFeed = {
     campaign: null,
     soak: { t: [], setpoint: [], air: [], dut: [] },
-    sweep: { index: -1, v: [], f: [] },
+    sweep: emptySweep(),
     version: 0,
     watch: (listener) => {
       listeners.add(listener);
@@ -36,7 +40,7 @@ export function campaignFeed(api: BenchApi): CampaignFeed {
     show: (view) => {
       if (view !== null && view.id !== feed.campaign?.id) {
         feed.soak = { t: [], setpoint: [], air: [], dut: [] };
-        feed.sweep = { index: -1, v: [], f: [] };
+        feed.sweep = emptySweep();
       }
       feed.campaign = view;
       changed();
@@ -57,7 +61,8 @@ export function campaignFeed(api: BenchApi): CampaignFeed {
       }
       changed();
     } else if (event.type === 'campaign-sweep') {
-      if (event.index !== feed.sweep.index) feed.sweep = { index: event.index, v: [], f: [] };
+      if (event.index !== feed.sweep.index) feed.sweep = { ...emptySweep(), index: event.index };
+      if (event.gateS !== undefined) feed.sweep.gateS = event.gateS;
       for (const p of event.points) {
         feed.sweep.v.push(p.controlV);
         feed.sweep.f.push(p.frequencyHz);
@@ -67,4 +72,9 @@ export function campaignFeed(api: BenchApi): CampaignFeed {
   });
   feeds.set(api, feed);
   return feed;
+}
+
+/** The live sweep's readings resolve 1/gate of the counter that read them (7 significant digits while the gate is unknown). */
+export function liveReadingReadout(sweep: CampaignFeed['sweep']): Readout {
+  return counterReadout(sweep.gateS);
 }

@@ -20,6 +20,7 @@ import {
   lineSeries,
   logSiAxis,
   pointSeries,
+  readoutTicks,
   siAxis,
   timeAxis,
   withAlpha,
@@ -187,9 +188,9 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               ],
               [
                 timeAxis(colors, 'Time', source.startMs ?? null),
-                siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
+                siAxis(colors, 'Frequency', 'Hz', { size: 96, ...readoutTicks(readouts.frequency) }),
                 {
-                  ...siAxis(colors, 'Temperature', '°C'),
+                  ...siAxis(colors, 'Temperature', '°C', readoutTicks(readouts.temperature)),
                   scale: '°C',
                   side: 1,
                   size: 84,
@@ -235,11 +236,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                 ],
                 [
                   {
-                    ...siAxis(colors, 'Temperature', '°C'),
+                    ...siAxis(colors, 'Temperature', '°C', readoutTicks(readouts.temperature)),
                     space: 72,
                     values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`),
                   },
-                  siAxis(colors, 'Frequency', 'Hz', { size: 96 }),
+                  siAxis(colors, 'Frequency', 'Hz', { size: 96, ...readoutTicks(readouts.frequency) }),
                 ],
               )
             }

@@ -1,7 +1,8 @@
 /**
  * The campaign's safe state, on every way out (completion, stop, Ctrl+C,
  * instrument error, lost link, a crash of the process): the control channel
- * to its safe level and off (goSafe), the DUT supply off, and the chamber to
+ * to its safe level and off and the DUT supply off (each written first, then
+ * read back: safe-state.ts), and the chamber to
  * the plan's safeC — or stopped, when its profile says so. Each step is tried
  * even if one before failed, a dropped link is reopened once, each step is
  * read back where the instrument can say, and every step is recorded.
@@ -9,7 +10,7 @@
  */
 import type { CampaignPlan } from '../../../app/contract/campaign-plan.ts';
 import type { Chamber } from '../../instruments/roles.ts';
-import { goSafe, tryStep } from '../safe-state.ts';
+import { driveVerified, outputOffStep, tryStep, voltageStep } from '../safe-state.ts';
 import type { BenchRoles, EventBody } from '../types.ts';
 
 export interface CampaignSafeResult {
@@ -22,19 +23,16 @@ export async function campaignSafeState(
   plan: Pick<CampaignPlan, 'sweep' | 'safeC' | 'chamber'>,
   record: (event: EventBody) => void,
 ): Promise<CampaignSafeResult> {
-  const control = await goSafe(bench, bench.controlChannel, plan.sweep.safe, record);
-  const failures = [...control.failures];
+  // The supply's steps are one verified safe state: every command is written urgently before any readback,
+  // so a supply whose replies have wedged still gets the DUT supply's OUTP OFF (not held behind a resync in
+  // the session's queue, which a wedged link never answers), and one reconnect serves them all.
+  const control = plan.sweep.safe;
+  const steps = [voltageStep(bench, bench.controlChannel, control.controlV, `control-voltage ${control.controlV} V`)];
+  if (control.outputOff) steps.push(outputOffStep(bench, bench.controlChannel));
   const dutCh = bench.dutSupplyChannel;
-  await tryStep(
-    bench,
-    `dut-supply-off channel ${dutCh}`,
-    async () => {
-      await bench.supply.setOutput(dutCh, false);
-      if (await bench.supply.getOutput(dutCh)) throw new Error(`channel ${dutCh} still reads ON after OFF was sent`);
-    },
-    record,
-    failures,
-  );
+  steps.push(outputOffStep(bench, dutCh, `dut-supply-off channel ${dutCh}`));
+  const supply = await driveVerified(bench, steps, record);
+  const failures = [...supply.failures];
   const chamber = bench.chamber;
   if (chamber) {
     // The limits are the plan's, already checked; set here too in case the campaign failed before it set them.
