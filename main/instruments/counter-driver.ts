@@ -78,13 +78,17 @@ export class CounterDriver implements Counter {
         if (!(error instanceof TimeoutError)) throw error;
         // A counter that does not even answer the session's own resync is out of step.
         if (error.command !== command)
-          throw new AlignmentError(command, `no answer to the resync ${error.command}`, { cause: error });
+          throw this.session.nameFailure(
+            new AlignmentError(command, `no answer to the resync ${error.command}`, { cause: error }),
+          );
         let late: number;
         try {
           late = await this.session.resync();
         } catch (syncError) {
           if (syncError instanceof TimeoutError)
-            throw new AlignmentError(command, `no answer to the resync ${syncError.command}`, { cause: syncError });
+            throw this.session.nameFailure(
+              new AlignmentError(command, `no answer to the resync ${syncError.command}`, { cause: syncError }),
+            );
           throw syncError;
         }
         if (late === 0) {
@@ -93,9 +97,8 @@ export class CounterDriver implements Counter {
           throw error;
         }
         if (attempt >= 2)
-          throw new AlignmentError(
-            command,
-            `the reading came later than gate + margin (${this.measureTimeoutS} s) twice`,
+          throw this.session.nameFailure(
+            new AlignmentError(command, `the reading came later than gate + margin (${this.measureTimeoutS} s) twice`),
           );
       }
     }

@@ -136,6 +136,28 @@ export class ProfileError extends Error {
   }
 }
 
+const namedFailures = new WeakSet<Error>();
+
+/**
+ * Puts the bench role and the instrument's address at the head of a
+ * failure's message, once (the class and fields stay, so callers still
+ * branch on them): a run that ends on "no reply to SYST:ERR? within 2 s"
+ * must say which instrument did not answer.
+ */
+export function nameInstrument(error: unknown, role: string, address: string): unknown {
+  if (!(error instanceof Error) || namedFailures.has(error)) return error;
+  namedFailures.add(error);
+  error.message = error.message.includes(address)
+    ? `${role}: ${error.message}`
+    : `${role} at ${address}: ${error.message}`;
+  return error;
+}
+
+/** True once nameInstrument has named this failure's role and address. */
+export function isInstrumentNamed(error: unknown): boolean {
+  return error instanceof Error && namedFailures.has(error);
+}
+
 /**
  * Bringing up one role of a bench failed: names the role, the address and
  * the last command sent, with the underlying error as cause.
@@ -149,7 +171,7 @@ export class RoleConnectError extends Error {
     cause: unknown,
   ) {
     const detail = cause instanceof Error ? cause.message : String(cause);
-    const where = detail.includes(address) ? `${role}: ` : `${role} at ${address}: `;
+    const where = isInstrumentNamed(cause) ? '' : detail.includes(address) ? `${role}: ` : `${role} at ${address}: `;
     super(`${where}${detail}${lastCommand === null ? ' (nothing was sent)' : ` (last command sent: ${lastCommand})`}`, {
       cause,
     });

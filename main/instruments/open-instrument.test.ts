@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { RealClock } from '../time/real-clock.ts';
-import { AddressError, ProfileError } from './errors.ts';
+import { AddressError, ProfileError, TimeoutError } from './errors.ts';
 import { openInstrument } from './open-instrument.ts';
 import { ScpiSession } from './scpi-session.ts';
 import { FakeClock } from './testing/fake-clock.ts';
@@ -50,6 +50,31 @@ describe('openInstrument', () => {
     expect(roles).toEqual(['counter']);
     expect(await counter.readFrequency()).toEqual({ status: 'ok', frequencyHz: 10000015 });
     await counter.close();
+  });
+
+  it("names the role and the address in a failure after bring-up, keeping its class (a run's reason must say which instrument)", async () => {
+    const clock = new FakeClock();
+    const supply = await openInstrument(
+      'supply',
+      { address: 'sim' },
+      {
+        clock,
+        sim: (role) =>
+          new ScriptedTransport((cmd, l) => {
+            // Answers the bring-up's error queue, then falls silent on measurements.
+            if (cmd === 'SYST:ERR?') l.feed('+0,"No error"\n');
+          }, `sim:${role}`),
+      },
+    );
+    const failure = supply.measureVoltage(1).then(
+      () => null,
+      (error: unknown) => error,
+    );
+    await clock.advance(10);
+    const error = await failure;
+    expect(error).toBeInstanceOf(TimeoutError);
+    expect((error as Error).message).toBe('supply at sim:supply: no reply to INST:NSEL 1;:MEAS:VOLT? within 2 s');
+    await supply.close();
   });
 
   it('fails with a typed error for a bad address or profile before touching a link', async () => {

@@ -72,6 +72,7 @@ export async function openInstrument<R extends RoleName>(
     checkErrorsAfterWrite: profile.checkErrorsAfterWrite,
     reconnect: options.reconnect,
     onEvent: options.onEvent,
+    role,
   });
   try {
     await session.open();

@@ -18,7 +18,7 @@
  * the next command is only sent after the resync.
  */
 import type { Clock } from '../time/clock.ts';
-import { DisconnectedError } from './errors.ts';
+import { DisconnectedError, nameInstrument } from './errors.ts';
 import { LineFramer } from './line-framer.ts';
 import { LineWaiter } from './line-waiter.ts';
 import { oneSync, resync, tokenSync, type ResyncRun, type SyncExchange } from './session-resync.ts';
@@ -46,6 +46,8 @@ export interface ScpiLinkOptions {
   reconnect?: ReconnectPolicy;
   /** Diagnostics: stale lines, resyncs, reconnects. */
   onEvent?: (event: SessionEvent) => void;
+  /** The bench role this link serves (e.g. "counter"): its failures then name the role and the address. */
+  role?: string;
 }
 
 export type SessionEvent =
@@ -96,6 +98,11 @@ export class ScpiLink {
   private state: 'new' | 'open' | 'closed' = 'new';
   /** Set while the link itself closes the transport (reopen), so that close is not a loss. */
   private closingLink = false;
+  private readonly role: string | null;
+  /** Rethrows a failure with the role and address named in its message (a run's reason must say which instrument). */
+  private readonly named = (error: unknown): never => {
+    throw this.role === null ? error : nameInstrument(error, this.role, this.address);
+  };
 
   constructor(options: ScpiLinkOptions) {
     this.transport = options.transport;
@@ -108,6 +115,7 @@ export class ScpiLink {
     this.reconnectPolicy = options.reconnect ?? { attempts: 3, delayS: 0.5 };
     if (!(this.reconnectPolicy.attempts >= 0)) throw new TypeError('reconnect.attempts: must be 0 or more');
     this.onEvent = options.onEvent;
+    this.role = options.role ?? null;
     this.resyncTimeoutS = this.defaultTimeoutS;
     this.framer = new LineFramer((line) => this.onLine(line), { terminator: this.terminator });
     this.waiter = new LineWaiter(this.clock, (timeoutS) => this.onTimedOut(timeoutS));
@@ -115,6 +123,11 @@ export class ScpiLink {
 
   get address(): string {
     return this.transport.address;
+  }
+
+  /** A failure found above the link (e.g. a driver's reply check), named with this link's role and address. */
+  nameFailure(error: Error): Error {
+    return this.role === null ? error : (nameInstrument(error, this.role, this.address) as Error);
   }
 
   /** The last command written on this link (for error messages), or null. */
@@ -163,7 +176,7 @@ export class ScpiLink {
     const timeoutS = options?.timeoutS ?? this.defaultTimeoutS;
     // Hot path: link in step and nothing queued, so no task wrapper.
     if (!this.needsPreparation() && this.queue.tryAcquire()) {
-      return this.exchange(command, timeoutS, false, this.releaseSlot) as Promise<string>;
+      return (this.exchange(command, timeoutS, false, this.releaseSlot) as Promise<string>).then(undefined, this.named);
     }
     return this.exclusive((io) => io.ask(command, timeoutS));
   }
@@ -179,15 +192,17 @@ export class ScpiLink {
    * sequence such as "write, then SYST:ERR?" that nothing may interleave.
    */
   exclusive<T>(task: (io: LinkIo) => Promise<T>): Promise<T> {
-    return this.queue.run(async () => {
-      if (this.needsPreparation()) await this.prepare();
-      return task(this.io);
-    });
+    return this.queue
+      .run(async () => {
+        if (this.needsPreparation()) await this.prepare();
+        return task(this.io);
+      })
+      .then(undefined, this.named);
   }
 
   /** Reopens the transport now (bounded retries), then continues in step. */
   reconnect(): Promise<void> {
-    return this.queue.run(() => this.reopen());
+    return this.queue.run(() => this.reopen()).then(undefined, this.named);
   }
 
   /**
@@ -196,14 +211,16 @@ export class ScpiLink {
    * last timeout, counted or resynced away.
    */
   resync(): Promise<number> {
-    return this.queue.run(async () => {
-      if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
-      if (!this.transport.isOpen) await this.reopen();
-      await this.runResync();
-      const dropped = this.stats.staleLines - this.staleAtTimeout;
-      this.staleAtTimeout = this.stats.staleLines;
-      return dropped;
-    });
+    return this.queue
+      .run(async () => {
+        if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
+        if (!this.transport.isOpen) await this.reopen();
+        await this.runResync();
+        const dropped = this.stats.staleLines - this.staleAtTimeout;
+        this.staleAtTimeout = this.stats.staleLines;
+        return dropped;
+      })
+      .then(undefined, this.named);
   }
 
   /**
@@ -213,9 +230,13 @@ export class ScpiLink {
    * link that is down is reopened first (bounded retries).
    */
   async sendUrgent(command: string): Promise<void> {
-    if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
-    if (!this.transport.isOpen) await this.reopen();
-    await this.send(command);
+    try {
+      if (this.state !== 'open') throw new DisconnectedError(this.address, 'session closed');
+      if (!this.transport.isOpen) await this.reopen();
+      await this.send(command);
+    } catch (error) {
+      this.named(error);
+    }
   }
 
   private needsPreparation(): boolean {
