@@ -45,7 +45,7 @@ export interface PlotPanelProps {
   /** File name stem for exports; defaults to the test id. */
   exportName?: string;
   /** Full data as CSV (default: what the chart holds). */
-  csv?(): string;
+  csv?: () => string | Promise<string | Blob>;
   /** Extra lines under the chart (legend of marks). */
   footer?: React.ReactNode;
   /** Read-outs of x and y (unit and resolution): enables two cursors (click readings) with Δx, Δy and the slope. */
@@ -240,11 +240,11 @@ export function PlotPanel(props: PlotPanelProps) {
     if (format === 'png') downloadBlob(`${stem}.png`, await chartPng(chart, props.title, themeColors()));
     else if (format === 'svg')
       downloadBlob(`${stem}.svg`, new Blob([chartSvg(chart, props.title, themeColors())], { type: 'image/svg+xml' }));
-    else
-      downloadBlob(
-        `${stem}.csv`,
-        new Blob([latest.current.csv ? latest.current.csv() : chartCsv(chart)], { type: 'text/csv' }),
-      );
+    else {
+      // A log held in main comes from main whole, as a Blob of its parts.
+      const csv = latest.current.csv ? await latest.current.csv() : chartCsv(chart);
+      downloadBlob(`${stem}.csv`, csv instanceof Blob ? csv : new Blob([csv], { type: 'text/csv' }));
+    }
   };
 
   return (
