@@ -38,6 +38,11 @@ export interface PlotPanelProps {
   data(view: PlotView | null, widthPx: number): uPlot.AlignedData;
   /** Subscribe to "data may have changed"; returns the unsubscribe. */
   watch?(notify: () => void): () => void;
+  /**
+   * The data is cut for the view (a log held in main, its slices arriving after the zoom): new data is drawn at
+   * once within the zoomed x range (uPlot's setData that keeps the scales neither re-indexes nor redraws).
+   */
+  dataFollowsView?: boolean;
   height?: number;
   /** Shown instead of an empty chart. */
   emptyText?: string;
@@ -136,6 +141,8 @@ export function PlotPanel(props: PlotPanelProps) {
             const min = u.scales.x?.min;
             const max = u.scales.x?.max;
             if (min === undefined || max === undefined || min === null || max === null) return;
+            // The range put back after new data (below) is no new view.
+            if (view !== null && view.xMin === min && view.xMax === max) return;
             view = { xMin: min, xMax: max, widthPx: u.bbox.width / (window.devicePixelRatio || 1) };
             setZoomed(true);
             gate.request();
@@ -157,6 +164,7 @@ export function PlotPanel(props: PlotPanelProps) {
           latest.current.data(view, chart.bbox.width / (window.devicePixelRatio || 1)),
           view === null && !markZoomed,
         );
+        if (view !== null && latest.current.dataFollowsView) chart.setScale('x', { min: view.xMin, max: view.xMax });
         // uPlot redraws in a microtask it queued in setData; this one runs after it.
         queueMicrotask(() => recordPlotWork(startMs, performance.now()));
       },

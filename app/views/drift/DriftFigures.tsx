@@ -188,6 +188,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           cursorReadouts={{ x: readouts.time, y: readouts.frequency }}
           exportName={`drift-${source.key}`}
           watch={held ? windows.watch : source.watch}
+          dataFollowsView={held !== undefined}
           options={(colors, width, height) =>
             baseOptions(
               width,

@@ -162,7 +162,7 @@ export function RunDetailView({ id }: { id: string }) {
       ) : null}
       <details className="run-facts" open data-testid="run-facts">
         <summary>
-          {readings.toLocaleString('en')} readings · status {meta.status} · {runWindow(meta)}
+          {readings} readings · status {meta.status} · {runWindow(meta)}
         </summary>
         <div className="facts-grid">
           <FactsTable caption="Plan settings" rows={planRows(meta.plan)} empty="no plan recorded" testId="run-plan" />
