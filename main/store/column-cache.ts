@@ -47,6 +47,9 @@ export async function csvKey(csvPath: string): Promise<CsvKey | null> {
   return info === null ? null : { csvSize: info.size, csvMtimeMs: info.mtimeMs };
 }
 
+/** Whether two keys describe the same state of the CSV. */
+export const sameCsvKey = (a: CsvKey, b: CsvKey): boolean => a.csvSize === b.csvSize && a.csvMtimeMs === b.csvMtimeMs;
+
 const align8 = (n: number): number => Math.ceil(n / 8) * 8;
 
 /** Encodes a table with its CSV key; the bytes of a whole cache file. */
@@ -135,7 +138,7 @@ export function decodeColumnCache(bytes: Buffer, key: CsvKey): SampleTable | nul
     return null;
   }
   if (!isHeader(header)) return null;
-  if (header.csvSize !== key.csvSize || header.csvMtimeMs !== key.csvMtimeMs) return null;
+  if (!sameCsvKey(header, key)) return null;
   const dataStart = align8(MAGIC.length + 4 + headerLength);
   if (dataStart + header.dataBytes !== bytes.length) return null;
   const n = header.rowCount;
@@ -183,7 +186,7 @@ export async function readColumnCache(csvPath: string): Promise<SampleTable | nu
  */
 export async function writeColumnCache(csvPath: string, table: SampleTable, key: CsvKey): Promise<boolean> {
   const now = await csvKey(csvPath);
-  if (now === null || now.csvSize !== key.csvSize || now.csvMtimeMs !== key.csvMtimeMs) return false;
+  if (now === null || !sameCsvKey(now, key)) return false;
   const target = join(dirname(csvPath), COLUMN_CACHE_FILE);
   const temp = `${target}.${process.pid}.tmp`;
   try {
