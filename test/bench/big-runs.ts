@@ -10,7 +10,10 @@
  * ≤ 3 s for 10M, warm), → drawn from every reading, → analysis on screen;
  * peak RSS of the serve process (VmHWM) and of the page's renderer process
  * (VmHWM, found through CDP SystemInfo.getProcessInfo), and the page's JS
- * heap at the end (CDP Performance.getMetrics).
+ * heap at the end (CDP Performance.getMetrics); and between the two, the
+ * finish-time cost of building the cache (./cache-finish-cost.ts). A log this
+ * big stays in main after its preview: the page gets main's windows and
+ * analysis (app/contract/run-window.ts), never the readings.
  * `npm run bench -- big-runs`; pass sizes to run a subset (`npx tsx test/bench/big-runs.ts 1e6`).
  */
 import { readFile, mkdtemp, rm } from 'node:fs/promises';
@@ -20,6 +23,7 @@ import { pathToFileURL } from 'node:url';
 import { ensureRendererBuilt } from '../../main/server/renderer-build.ts';
 import { CHROMIUM_PATH, hasChromium, launchChromium } from '../browser/harness.ts';
 import { startServe } from '../testing/serve-process.ts';
+import { cacheFinishCost } from './cache-finish-cost.ts';
 import { writeSyntheticDriftRun } from './drift-run-writer.ts';
 import { timeRunOpen, type OpenTiming } from './open-timing.ts';
 
@@ -126,6 +130,14 @@ export async function runBigRunsBench(sizes: number[] = [1_000_000, 10_000_000])
       );
       const target = samples <= 1_000_000 ? 1000 : 3000;
       report('cold (first open: CSV parsed, column cache written)', await openOnce(runsDir, rendererDir, id), null);
+      // What the run's finish pays to make the next opening warm (the cold open's cache is removed first).
+      const load = loadavg()[0] ?? Number.NaN;
+      const cost = await cacheFinishCost(join(runsDir, id), samples);
+      console.log(
+        `  cacheFinishedRun at finish (a process of its own): ${cost.wallS.toFixed(2)} s wall [load ${load.toFixed(2)}], ` +
+          `${cost.cpuS.toFixed(2)} s CPU, peak RSS ${cost.peakRssMiB.toFixed(0)} MiB (${cost.baseRssMiB.toFixed(0)} MiB before it)` +
+          `${cost.written ? '' : ' — NO CACHE WRITTEN'}`,
+      );
       report('warm (from the column cache)', await openOnce(runsDir, rendererDir, id), target);
     } finally {
       await rm(scratch, { recursive: true, force: true });
