@@ -22,7 +22,7 @@ export interface DriftDisplayColumns {
   /** NaN where a reading's status is not ok (the plot breaks there; the analysis counts no value). */
   frequencyHz: Float64Array;
   temperatureC: Float64Array;
-  /** The temperature column as logged (the analysis takes it unmasked). */
+  /** The temperature column as logged (the analysis takes it unmasked); dropped once the analysis has its copy. */
   rawTemperatureC: Float64Array | null;
   /** Control voltage of the first reading; null when unknown. */
   holdV: number | null;

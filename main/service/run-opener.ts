@@ -125,8 +125,17 @@ export function createRunOpener(
       kept = null;
       // A run still being written grows between calls: each later call reads it again.
       if (detail.meta.status === 'running') return shown;
-      if (shown.preview !== null && detail.meta.kind === 'drift') hold(id, detail);
-      else kept = { id, detail };
+      if (shown.preview !== null && detail.meta.kind === 'drift') {
+        // Already held (another page opened it): its columns and analysis stand.
+        if (held?.id === id || reading?.id === id) return shown;
+        // After the preview has gone out: the columns held are made while the page draws it.
+        const log = new Promise<HeldLog>((resolve) => setTimeout(() => resolve(hold(id, detail)), 0));
+        reading = { id, log };
+        const done = (): void => {
+          if (reading?.log === log) reading = null;
+        };
+        void log.then(done);
+      } else kept = { id, detail };
       return shown;
     },
     async open(id) {
@@ -142,8 +151,11 @@ export function createRunOpener(
     },
     async analysis(id) {
       const log = await heldLog(id);
-      // One analysis per held log, however many pages ask.
-      log.analysis ??= analyze(driftAnalysisJob(log.columns, log.gateS));
+      // One analysis per held log, however many pages ask; the logged temperatures are needed by it alone.
+      if (log.analysis === null) {
+        log.analysis = analyze(driftAnalysisJob(log.columns, log.gateS));
+        log.columns.rawTemperatureC = null;
+      }
       return log.analysis;
     },
     async csvPart(id, fromRow, rows) {
