@@ -2,9 +2,10 @@
  * Worker thread body of a CSV import (./import-off-thread.ts): gathers the
  * text (whole, or as UTF-8 slices streamed from the page), then parses it and
  * writes the run folder with the store's own importCsvRun — so the main
- * thread, which serves Stop, never parses a large file. The same niced
- * thread runs a big drift log's analysis when its workerData is a drift job
- * (./drift-analysis-off-thread.ts): one worker entry in every build.
+ * thread, which serves Stop, never parses a large file. The same entry,
+ * not niced then (import-worker-priority.ts), runs a big drift log's
+ * analysis when its workerData is a drift job (./drift-analysis-off-thread.ts):
+ * one worker entry in every build.
  */
 import './import-worker-priority.ts'; // first: lowers this thread's priority before the rest loads
 import { parentPort, workerData } from 'node:worker_threads';
