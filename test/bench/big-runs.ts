@@ -112,7 +112,7 @@ function report(label: string, f: OpenFigures, targetMs: number | null): void {
   );
   console.log(
     `    peak RSS: serve ${f.serveHwmMiB.toFixed(0)} MiB, page renderer ${f.rendererHwmMiB.toFixed(0)} MiB; page JS heap after ${f.pageHeapMiB.toFixed(0)} MiB; ` +
-      `page marks: preview ${ms(f.marks['tunebench:open-run:preview'] ?? Number.NaN)}, full reply ${ms(f.marks['tunebench:ws:large-message'] ?? Number.NaN)}, columns ${ms(f.marks['tunebench:open-run:columns'] ?? Number.NaN)}`,
+      `page marks: preview ${ms(f.marks['tunebench:open-run:preview'] ?? Number.NaN)}, first window from main ${ms(f.marks['tunebench:open-run:window'] ?? Number.NaN)}, full reply ${ms(f.marks['tunebench:ws:large-message'] ?? Number.NaN)}, columns ${ms(f.marks['tunebench:open-run:columns'] ?? Number.NaN)}`,
   );
 }
 
