@@ -130,7 +130,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     if (held) {
       const shown = windows.data(view, widthPx);
       dense.current = shown.dense;
-      return shown.data as uPlot.AlignedData;
+      return shown.data;
     }
     if (source.preview) {
       dense.current = true;

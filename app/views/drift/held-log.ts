@@ -26,15 +26,12 @@ export interface HeldLog {
 
 export interface HeldWindows {
   /** The time plot's series (time, frequency mean, lowest, highest, temperature mean) for this view. */
-  data(
+  data: (
     view: { xMin: number; xMax: number; widthPx: number } | null,
     widthPx: number,
-  ): {
-    dense: boolean;
-    data: PreviewPlotData;
-  };
+  ) => { dense: boolean; data: PreviewPlotData };
   /** Called when a window asked for has arrived. */
-  watch(notify: () => void): () => void;
+  watch: (notify: () => void) => () => void;
 }
 
 /** The request for a view: the x range (null: the whole log) and the plot's width in whole pixels. */
