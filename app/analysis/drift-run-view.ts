@@ -17,7 +17,7 @@ import { envelope, type EnvelopeSeries } from './envelope.ts';
 
 export interface DriftDisplayColumns {
   rowCount: number;
-  /** The table's own time column (not copied). */
+  /** The time column (a copy the worker can share). */
   timeS: Float64Array;
   /** NaN where a reading's status is not ok (the plot breaks there; the analysis counts no value). */
   frequencyHz: Float64Array;
@@ -39,8 +39,21 @@ function measuredRows(table: ColumnTable): (row: number) => boolean {
   return (row) => measured[status.codes[row] as number] === true;
 }
 
+/**
+ * Room for n values, shared where the platform has SharedArrayBuffer (Node, main's side): a worker thread then
+ * analyses the held columns in place instead of a 240 MB copy of a 10,000,000-reading log.
+ */
+function column(n: number): Float64Array {
+  return typeof SharedArrayBuffer === 'function'
+    ? new Float64Array(new SharedArrayBuffer(n * Float64Array.BYTES_PER_ELEMENT))
+    : new Float64Array(n);
+}
+
+const isShared = (values: Float64Array): boolean =>
+  typeof SharedArrayBuffer === 'function' && values.buffer instanceof SharedArrayBuffer;
+
 function masked(values: Float64Array | undefined, n: number, keep: (row: number) => boolean): Float64Array {
-  const out = new Float64Array(n).fill(Number.NaN);
+  const out = column(n).fill(Number.NaN);
   if (!values) return out;
   const m = Math.min(n, values.length);
   for (let i = 0; i < m; i += 1) if (keep(i)) out[i] = values[i] as number;
@@ -49,8 +62,7 @@ function masked(values: Float64Array | undefined, n: number, keep: (row: number)
 
 export function driftDisplayColumns(table: ColumnTable): DriftDisplayColumns {
   const n = table.rowCount;
-  const time = table.numeric.time_s;
-  const timeS = time && time.length >= n ? time.subarray(0, n) : masked(time, n, () => true);
+  const timeS = masked(table.numeric.time_s, n, () => true);
   const keep = measuredRows(table);
   const control = table.numeric.control_v?.[0];
   const temperature = table.numeric.temperature_c;
@@ -97,7 +109,7 @@ export function driftWindow(columns: DriftDisplayColumns, request: RunWindowRequ
   };
 }
 
-/** What a drift analysis needs, in buffers of its own (they may be moved to a worker thread). */
+/** What a drift analysis needs: shared buffers read in place, or buffers of its own (they may be moved to a worker thread). */
 export interface DriftAnalysisJob {
   timeS: Float64Array;
   frequencyHz: Float64Array;
@@ -111,10 +123,12 @@ export function driftAnalysisJob(columns: DriftDisplayColumns, gateS: number | u
   const raw = columns.rawTemperatureC;
   let anyTemperature = false;
   if (raw) for (let i = 0; i < raw.length && !anyTemperature; i += 1) anyTemperature = Number.isFinite(raw[i]);
+  // Shared columns are read in place (the analysis only reads its input); others are copied, since they may be moved.
+  const own = (values: Float64Array): Float64Array => (isShared(values) ? values : values.slice());
   return {
-    timeS: columns.timeS.slice(),
-    frequencyHz: columns.frequencyHz.slice(),
-    temperatureC: anyTemperature && raw ? raw.slice() : null,
+    timeS: own(columns.timeS),
+    frequencyHz: own(columns.frequencyHz),
+    temperatureC: anyTemperature && raw ? own(raw) : null,
     gateS: gateS ?? null,
     holdV: columns.holdV,
   };

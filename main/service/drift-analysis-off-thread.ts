@@ -1,8 +1,8 @@
 /**
  * A big drift log's analysis (app/analysis/drift-run-view.ts) in a worker
  * thread: on 10,000,000 readings it takes seconds, and main's thread serves
- * Stop and keeps the bench safe meanwhile. The job's buffers are moved to
- * the worker, not copied. The worker is the import worker's niced entry
+ * Stop and keeps the bench safe meanwhile. The held columns are shared with
+ * the worker (SharedArrayBuffer), never copied. The worker is the import worker's niced entry
  * (./import-worker.ts), so every build already carries it.
  */
 import { Worker } from 'node:worker_threads';
@@ -23,11 +23,16 @@ const failed = (message: string, holdV: number | null): RunAnalysis => ({
 
 export const analyzeOffThread: DriftAnalyzer = (job) =>
   new Promise((resolve) => {
-    const buffers = [job.timeS.buffer, job.frequencyHz.buffer, ...(job.temperatureC ? [job.temperatureC.buffer] : [])];
+    // Shared buffers are read in place by the worker; a buffer of the job's own is moved, not copied.
+    const buffers = [
+      job.timeS.buffer,
+      job.frequencyHz.buffer,
+      ...(job.temperatureC ? [job.temperatureC.buffer] : []),
+    ].filter((buffer): buffer is ArrayBuffer => buffer instanceof ArrayBuffer);
     const workerData: DriftWorkerData = { driftJob: job };
     const worker = new Worker(importWorkerEntry(), {
       workerData,
-      transferList: buffers as ArrayBuffer[],
+      transferList: buffers,
       resourceLimits: { maxOldGenerationSizeMb: IMPORT_WORKER_HEAP_MB },
     });
     let done = false;

@@ -154,6 +154,7 @@ export function createRunOpener(
       // One analysis per held log, however many pages ask; the logged temperatures are needed by it alone.
       if (log.analysis === null) {
         log.analysis = analyze(driftAnalysisJob(log.columns, log.gateS));
+        // The analysis reads them in place (shared) or has its copy: the log no longer keeps them.
         log.columns.rawTemperatureC = null;
       }
       return log.analysis;
