@@ -21,6 +21,7 @@ import {
 } from './plans.ts';
 import { campaignPlanSchema } from './campaign-plan.ts';
 import { previewColumnsSchema } from './run-preview.ts';
+import { csvPartRowSchema, csvPartRowsSchema, runWindowRequestSchema } from './run-window.ts';
 
 /** A bring-up setting from the Bench screen: control voltage, output, and the limits it must keep. */
 export const manualControlSchema = z.object({ controlV: siNumber, output: z.boolean(), limits: limitsSchema });
@@ -103,6 +104,9 @@ export const benchMethodParams: Readonly<Record<BenchMethod | DesktopMethod, Met
   listRuns: none(),
   previewRun: params(['id', 'columns'], [runIdSchema, previewColumnsSchema]),
   openRun: params(['id'], [runIdSchema]),
+  windowRun: params(['id', 'request'], [runIdSchema, runWindowRequestSchema]),
+  analyzeRun: params(['id'], [runIdSchema]),
+  runCsvPart: params(['id', 'fromRow', 'rows'], [runIdSchema, csvPartRowSchema, csvPartRowsSchema]),
   renameRun: params(['id', 'dutId'], [runIdSchema, dutIdSchema]),
   addNote: params(['id', 'text'], [runIdSchema, noteTextSchema]),
   deleteRun: params(['id'], [runIdSchema]),

@@ -23,6 +23,7 @@ import type {
 } from './campaign-schemas.ts';
 import type { ReadingStatus } from './reading-status.ts';
 import type { RunPreview } from './run-preview.ts';
+import type { CsvPart, RunAnalysis, RunWindow, RunWindowRequest } from './run-window.ts';
 import type { runMetaSchema } from './run-meta-schema.ts';
 import type { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
@@ -165,6 +166,14 @@ export interface BenchApi {
    */
   previewRun?(id: string, columns: number): Promise<RunPreview>;
   openRun(id: string): Promise<RunDetail>;
+  /**
+   * A big drift log stays in main (./run-window.ts): the readings of an x
+   * range cut to the plot's slices, its analysis, and its plot data as CSV
+   * parts. Optional: a carrier without them sends the full columns.
+   */
+  windowRun?(id: string, request: RunWindowRequest): Promise<RunWindow>;
+  analyzeRun?(id: string): Promise<RunAnalysis>;
+  runCsvPart?(id: string, fromRow: number, rows: number): Promise<CsvPart>;
   renameRun(id: string, dutId: string): Promise<RunMeta>;
   addNote(id: string, text: string): Promise<void>;
   deleteRun(id: string): Promise<void>;

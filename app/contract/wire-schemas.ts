@@ -14,6 +14,7 @@ import {
 } from './campaign-schemas.ts';
 import { runMetaSchema } from './run-meta-schema.ts';
 import { runPreviewSchema } from './run-preview.ts';
+import { csvPartSchema, runAnalysisSchema, runWindowSchema } from './run-window.ts';
 import { benchStatusSchema, connectionStateSchema, progressSchema, readoutSchema } from './state-schemas.ts';
 
 // NaN does not survive JSON; empty numeric cells of a plain array arrive as null and become NaN in the store.
@@ -177,6 +178,9 @@ export const resultSchemas: Record<BenchMethod, z.ZodType> = {
   listRuns: z.array(runMetaSchema),
   previewRun: runPreviewSchema,
   openRun: runDetailSchema,
+  windowRun: runWindowSchema,
+  analyzeRun: runAnalysisSchema,
+  runCsvPart: csvPartSchema,
   renameRun: runMetaSchema,
   addNote: anything,
   deleteRun: anything,

@@ -38,6 +38,11 @@ export interface PlotPanelProps {
   data(view: PlotView | null, widthPx: number): uPlot.AlignedData;
   /** Subscribe to "data may have changed"; returns the unsubscribe. */
   watch?(notify: () => void): () => void;
+  /**
+   * The data is cut for the view (a log held in main, its slices arriving after the zoom): new data is drawn at
+   * once within the zoomed x range (uPlot's setData that keeps the scales neither re-indexes nor redraws).
+   */
+  dataFollowsView?: boolean;
   height?: number;
   /** Shown instead of an empty chart. */
   emptyText?: string;
@@ -45,7 +50,7 @@ export interface PlotPanelProps {
   /** File name stem for exports; defaults to the test id. */
   exportName?: string;
   /** Full data as CSV (default: what the chart holds). */
-  csv?(): string;
+  csv?: () => string | Promise<string | Blob>;
   /** Extra lines under the chart (legend of marks). */
   footer?: React.ReactNode;
   /** Read-outs of x and y (unit and resolution): enables two cursors (click readings) with Δx, Δy and the slope. */
@@ -136,6 +141,8 @@ export function PlotPanel(props: PlotPanelProps) {
             const min = u.scales.x?.min;
             const max = u.scales.x?.max;
             if (min === undefined || max === undefined || min === null || max === null) return;
+            // The range put back after new data (below) is no new view.
+            if (view !== null && view.xMin === min && view.xMax === max) return;
             view = { xMin: min, xMax: max, widthPx: u.bbox.width / (window.devicePixelRatio || 1) };
             setZoomed(true);
             gate.request();
@@ -157,6 +164,7 @@ export function PlotPanel(props: PlotPanelProps) {
           latest.current.data(view, chart.bbox.width / (window.devicePixelRatio || 1)),
           view === null && !markZoomed,
         );
+        if (view !== null && latest.current.dataFollowsView) chart.setScale('x', { min: view.xMin, max: view.xMax });
         // uPlot redraws in a microtask it queued in setData; this one runs after it.
         queueMicrotask(() => recordPlotWork(startMs, performance.now()));
       },
@@ -240,11 +248,11 @@ export function PlotPanel(props: PlotPanelProps) {
     if (format === 'png') downloadBlob(`${stem}.png`, await chartPng(chart, props.title, themeColors()));
     else if (format === 'svg')
       downloadBlob(`${stem}.svg`, new Blob([chartSvg(chart, props.title, themeColors())], { type: 'image/svg+xml' }));
-    else
-      downloadBlob(
-        `${stem}.csv`,
-        new Blob([latest.current.csv ? latest.current.csv() : chartCsv(chart)], { type: 'text/csv' }),
-      );
+    else {
+      // A log held in main comes from main whole, as a Blob of its parts.
+      const csv = latest.current.csv ? await latest.current.csv() : chartCsv(chart);
+      downloadBlob(`${stem}.csv`, csv instanceof Blob ? csv : new Blob([csv], { type: 'text/csv' }));
+    }
   };
 
   return (

@@ -10,6 +10,9 @@ function labelText(label: unknown): string {
   return typeof label === 'string' || typeof label === 'number' ? String(label) : '';
 }
 import type uPlot from 'uplot';
+import { columnsCsv, csvCell } from '../analysis/csv-cells.ts';
+
+export { columnsCsv, csvCell };
 
 /** uPlot keeps each axis' last tick positions and labels on the axis object. */
 interface DrawnAxis {
@@ -23,20 +26,6 @@ interface DrawnAxis {
 
 export function xmlText(text: string): string {
   return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-}
-
-export function csvCell(value: string | number | null | undefined): string {
-  if (value === null || value === undefined || (typeof value === 'number' && !Number.isFinite(value))) return '';
-  const text = typeof value === 'number' ? String(value) : value;
-  return /[",\r\n]/.test(text) || /^[=+\-@]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-/** CSV of aligned columns: header of labels, one row per x value, numbers in shortest round-trip form. */
-export function columnsCsv(labels: readonly string[], columns: readonly ArrayLike<number | null>[]): string {
-  const n = columns[0]?.length ?? 0;
-  const lines = [labels.map(csvCell).join(',')];
-  for (let i = 0; i < n; i += 1) lines.push(columns.map((c) => csvCell(c[i] ?? null)).join(','));
-  return `${lines.join('\r\n')}\r\n`;
 }
 
 /** CSV of what the chart holds: every shown series by its legend label. */

@@ -100,4 +100,30 @@ describe('opening a big run: preview first, then the full columns', () => {
     expect(runs.getState().previews).toEqual({});
     expect(runs.getState().error).toMatch(/EIO/);
   });
+
+  it('keeps a finished drift log in main when the carrier can show it from there: no openRun, no columns', async () => {
+    const calls: string[] = [];
+    const runs = createRunsStore(
+      bench({
+        previewRun: async (id) => {
+          calls.push(`previewRun ${id}`);
+          return { ...shown, rowCount: 1_000_000 };
+        },
+        openRun: async (id) => {
+          calls.push(`openRun ${id}`);
+          return detail;
+        },
+        windowRun: async () => Promise.reject(new Error('not asked by the store')),
+        analyzeRun: async () => Promise.reject(new Error('not asked by the store')),
+        runCsvPart: async () => Promise.reject(new Error('not asked by the store')),
+      }),
+      { afterPaint: async () => undefined },
+    );
+    const opened = await runs.getState().open('big');
+    expect(calls).toEqual(['previewRun big']);
+    expect(opened?.held).toEqual({ rowCount: 1_000_000, preview: shown.preview });
+    expect(opened?.rows).toBe(0);
+    expect(opened?.columns.time_s.length).toBe(0);
+    expect(runs.getState().previews).toEqual({});
+  });
 });

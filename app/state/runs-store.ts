@@ -9,9 +9,15 @@ import { errorText } from '../bridge/bench-call-error.ts';
 import { columnSetFromStored, type ColumnSet } from './columns.ts';
 
 export interface OpenedRun {
+  /** For a log held in main: meta and events, samples empty. */
   detail: RunDetail;
   columns: ColumnSet;
   rows: number;
+  /**
+   * Set for a big drift log whose readings stay in main (app/contract/run-window.ts): the page holds
+   * only what it draws, asked from main per view, and main's analysis. `columns` is then empty.
+   */
+  held?: { rowCount: number; preview: RunPreview['preview'] };
 }
 
 export interface RunsState {
@@ -74,6 +80,17 @@ function nextPaint(): Promise<void> {
   return new Promise((resolve) => requestAnimationFrame(() => setTimeout(resolve, 0)));
 }
 
+/** A finished drift log with a preview stays in main when the carrier can show it from there. */
+function holdsInMain(bench: BenchApi, shown: RunPreview): boolean {
+  return (
+    shown.meta.kind === 'drift' &&
+    shown.meta.status !== 'running' &&
+    bench.windowRun !== undefined &&
+    bench.analyzeRun !== undefined &&
+    bench.runCsvPart !== undefined
+  );
+}
+
 export function createRunsStore(bench: BenchApi, options: RunsStoreOptions = {}): RunsStore {
   const previewColumns = options.previewColumns ?? screenColumns;
   const afterPaint = options.afterPaint ?? nextPaint;
@@ -121,6 +138,20 @@ export function createRunsStore(bench: BenchApi, options: RunsStoreOptions = {})
               performance.mark('tunebench:open-run:preview');
               set({ previews: { ...get().previews, [id]: first } });
               await afterPaint();
+              if (holdsInMain(bench, first)) {
+                const held: OpenedRun = {
+                  detail: {
+                    meta: first.meta,
+                    events: first.events,
+                    samples: { names: [], numeric: {}, text: {}, rowCount: 0 },
+                  },
+                  columns: columnSetFromStored({}, {}),
+                  rows: 0,
+                  held: { rowCount: first.rowCount, preview: first.preview },
+                };
+                set({ opened: { ...get().opened, [id]: held }, previews: without(get().previews, id) });
+                return held;
+              }
             }
           }
           const detail = await bench.openRun(id).catch((error: unknown) => {

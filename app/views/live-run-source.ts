@@ -11,14 +11,15 @@ import { useEffectiveTheme } from './use-theme.ts';
 import { useApp } from './app-context.ts';
 import type { SweepSource } from './sweep/SweepFigures.tsx';
 import { when } from './units.ts';
+import { heldLogOf, type HeldLog } from './drift/held-log.ts';
 
 /**
  * The run of this kind in this window; failing that (a fresh window, a
  * reload) the newest stored one, so the screen keeps its context. Null when
  * there is neither.
  */
-export function useLiveRunSource(kind: RunKind): SweepSource | null {
-  const { stores } = useApp();
+export function useLiveRunSource(kind: RunKind): (SweepSource & { held?: HeldLog }) | null {
+  const { stores, bridge } = useApp();
   const latestStored = useStore(
     stores.runs,
     (s) => s.runs.find((run) => run.kind === kind && run.status !== 'running')?.id ?? null,
@@ -37,7 +38,9 @@ export function useLiveRunSource(kind: RunKind): SweepSource | null {
     if (!opened) return null;
     const meta = opened.detail.meta;
     const hints = planHints(meta.plan);
+    const held = heldLogOf(bridge.api, opened);
     return {
+      ...(held ? { held } : {}),
       key: `${meta.id}|stored`,
       columns: () => opened.columns,
       rows: () => opened.rows,

@@ -36,7 +36,7 @@ export const MAX_IN_FLIGHT = 8;
 /** Served at once, whatever else is queued or running: they make the bench safe. */
 const PRIORITY_METHODS = new Set(['stopRun', 'pauseRun', 'disconnect', 'getConnection']);
 /** Calls whose work or answer can be large: one at a time per socket. */
-const HEAVY_METHODS = new Set(['previewRun', 'openRun', 'importCsv', 'listRuns']);
+const HEAVY_METHODS = new Set(['previewRun', 'openRun', 'importCsv', 'listRuns', 'runCsvPart']);
 
 const wireCallSchema = z.object({
   id: z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER),

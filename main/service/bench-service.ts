@@ -20,13 +20,18 @@ import { LivePoller } from './live-readout.ts';
 import { applyManualControl } from './manual-control.ts';
 import type { CampaignMethods, OpenedBench, ServicePorts } from './ports.ts';
 import { startRunSession, type RunSession } from './run-session.ts';
-import { createRunOpener } from './run-opener.ts';
+import { createRunOpener, type DriftAnalyzer } from './run-opener.ts';
+import type { CsvPart, RunAnalysis, RunWindow, RunWindowRequest } from '../../app/contract/run-window.ts';
 
 export interface BenchService extends BenchApi, BenchHolder {
   /** Stops any run (safe state), closes the bench; for app exit. */
   close(): Promise<void>;
   /** The service always answers previewRun (./run-opener.ts). */
   previewRun(id: string, columns: number): Promise<RunPreview>;
+  /** And holds a big drift log for its page (./run-opener.ts). */
+  windowRun(id: string, request: RunWindowRequest): Promise<RunWindow>;
+  analyzeRun(id: string): Promise<RunAnalysis>;
+  runCsvPart(id: string, fromRow: number, rows: number): Promise<CsvPart>;
   /** A CSV import fed as UTF-8 slices (browser mode's streamed upload); absent when the store has none. */
   openImport?: (fileName: string, dutId: string) => ImportStream;
 }
@@ -42,6 +47,8 @@ export interface BenchServiceOptions extends ServicePorts {
   batchMs?: number;
   /** Wall clock for the status strip's times (tests pin it). */
   now?: () => Date;
+  /** Runs a big drift log's analysis; default in this thread (./run-opener.ts analyzeHere), a worker thread in serve and the desktop. */
+  analyzeDrift?: DriftAnalyzer;
 }
 
 /** A service without campaigns (the web edition's page has no chamber): never running, no API methods. */
@@ -69,7 +76,7 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
   /** Between a start call's checks and its run being registered (two quick clicks must not start two runs). */
   let starting = false;
 
-  const opener = createRunOpener((id) => options.store.open(id));
+  const opener = createRunOpener((id) => options.store.open(id), options.analyzeDrift);
   const status = new BenchStatusTracker((state) => emit({ type: 'bench-status', status: state }), options.now);
 
   const setConnection = (state: ConnectionState): ConnectionState => {
@@ -337,6 +344,9 @@ export function createBenchService(options: BenchServiceOptions): BenchService {
     listRuns: () => options.store.list(),
     previewRun: (id, columns) => opener.preview(id, columns),
     openRun: (id) => opener.open(id),
+    windowRun: (id, request) => opener.window(id, request),
+    analyzeRun: (id) => opener.analysis(id),
+    runCsvPart: (id, fromRow, rows) => opener.csvPart(id, fromRow, rows),
     renameRun: (id, dutId) => {
       opener.forget(id);
       return options.store.rename(id, dutId);

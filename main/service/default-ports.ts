@@ -11,6 +11,7 @@ import type { Clock } from '../time/clock.ts';
 import { RealClock } from '../time/real-clock.ts';
 import { createBenchService, type BenchService, type BenchServiceOptions } from './bench-service.ts';
 import { importCsvOffThread, openImportStream } from './import-off-thread.ts';
+import { analyzeOffThread } from './drift-analysis-off-thread.ts';
 import { openBench } from './open-bench.ts';
 import type { RunStorePort, ServicePorts } from './ports.ts';
 import { driftPort, pushingPort, sweepPort } from './procedure-ports.ts';
@@ -69,5 +70,5 @@ export function defaultPorts(options: DefaultServiceOptions): ServicePorts {
 }
 
 export function createDefaultBenchService(options: DefaultServiceOptions): BenchService {
-  return createBenchService({ ...defaultPorts(options), ...options });
+  return createBenchService({ ...defaultPorts(options), analyzeDrift: analyzeOffThread, ...options });
 }

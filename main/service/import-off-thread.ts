@@ -36,7 +36,7 @@ export interface ImportStream {
 export const IMPORT_WORKER_HEAP_MB = 1024;
 
 /** The worker's entry: the tsx bootstrap beside the sources, or the compiled bundle's own file. */
-function workerEntry(): URL {
+export function importWorkerEntry(): URL {
   const here = import.meta.url;
   return /\.ts(\?.*)?$/.test(here) ? new URL('./import-worker-entry.mjs', here) : new URL('./import-worker.js', here);
 }
@@ -49,7 +49,7 @@ interface StartedWorker {
 
 function startWorker(target: ImportTarget): StartedWorker {
   const data: ImportTarget = { runsDir: target.runsDir, fileName: target.fileName, dutId: target.dutId };
-  const worker = new Worker(workerEntry(), {
+  const worker = new Worker(importWorkerEntry(), {
     workerData: data,
     resourceLimits: { maxOldGenerationSizeMb: IMPORT_WORKER_HEAP_MB },
   });

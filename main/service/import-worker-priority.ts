@@ -6,10 +6,16 @@
  * the call would lower the whole process, so it is left alone.
  */
 import { setPriority } from 'node:os';
+import { workerData } from 'node:worker_threads';
 
 export const IMPORT_WORKER_NICE = 10;
 
-if (process.platform === 'linux') {
+// A drift log's analysis (./drift-analysis-off-thread.ts) keeps its priority: a person waits for it, as for the
+// page's own analysis before, and on a busy machine a niced worker would get a few per cent of a core. Main's
+// thread, which serves Stop, still gets its own share of the CPU beside it.
+const isDriftAnalysis = typeof workerData === 'object' && workerData !== null && 'driftJob' in workerData;
+
+if (process.platform === 'linux' && !isDriftAnalysis) {
   try {
     setPriority(0, IMPORT_WORKER_NICE);
   } catch {

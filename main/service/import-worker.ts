@@ -2,14 +2,20 @@
  * Worker thread body of a CSV import (./import-off-thread.ts): gathers the
  * text (whole, or as UTF-8 slices streamed from the page), then parses it and
  * writes the run folder with the store's own importCsvRun — so the main
- * thread, which serves Stop, never parses a large file.
+ * thread, which serves Stop, never parses a large file. The same entry,
+ * not niced then (import-worker-priority.ts), runs a big drift log's
+ * analysis when its workerData is a drift job (./drift-analysis-off-thread.ts):
+ * one worker entry in every build.
  */
 import './import-worker-priority.ts'; // first: lowers this thread's priority before the rest loads
 import { parentPort, workerData } from 'node:worker_threads';
 import { importCsvRun } from '../store/csv-import.ts';
 import type { ImportJobResult, ImportTarget, ToImportWorker } from './import-off-thread.ts';
+import { runDriftAnalysis } from '../../app/analysis/drift-run-view.ts';
+import type { DriftWorkerData } from './drift-analysis-off-thread.ts';
 
-const target = workerData as ImportTarget;
+const data = workerData as ImportTarget | DriftWorkerData;
+const target = data as ImportTarget;
 const slices: Uint8Array[] = [];
 let text: string | null = null;
 
@@ -35,15 +41,17 @@ function joinedText(): string {
   }
 }
 
-parentPort?.on('message', (message: ToImportWorker) => {
-  if (message.kind === 'text') text = message.text;
-  else if (message.kind === 'slice') slices.push(message.bytes);
-  else {
-    Promise.resolve()
-      .then(() => importCsvRun({ ...target, csvText: joinedText() }))
-      .then(
-        (meta) => reply({ ok: true, meta }),
-        (error: unknown) => reply({ ok: false, message: error instanceof Error ? error.message : String(error) }),
-      );
-  }
-});
+if ('driftJob' in data) parentPort?.postMessage(runDriftAnalysis(data.driftJob));
+else
+  parentPort?.on('message', (message: ToImportWorker) => {
+    if (message.kind === 'text') text = message.text;
+    else if (message.kind === 'slice') slices.push(message.bytes);
+    else {
+      Promise.resolve()
+        .then(() => importCsvRun({ ...target, csvText: joinedText() }))
+        .then(
+          (meta) => reply({ ok: true, meta }),
+          (error: unknown) => reply({ ok: false, message: error instanceof Error ? error.message : String(error) }),
+        );
+    }
+  });

@@ -47,10 +47,21 @@ export async function csvKey(csvPath: string): Promise<CsvKey | null> {
   return info === null ? null : { csvSize: info.size, csvMtimeMs: info.mtimeMs };
 }
 
+/** Whether two keys describe the same state of the CSV. */
+export const sameCsvKey = (a: CsvKey, b: CsvKey): boolean => a.csvSize === b.csvSize && a.csvMtimeMs === b.csvMtimeMs;
+
 const align8 = (n: number): number => Math.ceil(n / 8) * 8;
 
 /** Encodes a table with its CSV key; the bytes of a whole cache file. */
 export function encodeColumnCache(table: SampleTable, key: CsvKey): Buffer {
+  return Buffer.concat(columnCacheParts(table, key));
+}
+
+/**
+ * A cache file as consecutive parts: the magic and header, then each column as a view of the table's own
+ * memory (no copy: a 10,000,000-row table is 330 MB) and its padding to 8 bytes.
+ */
+export function columnCacheParts(table: SampleTable, key: CsvKey): Buffer[] {
   const numericNames = Object.keys(table.numeric);
   const textNames = Object.keys(table.text);
   // Offsets are relative to the start of the data block; the block starts 8-aligned.
@@ -77,19 +88,19 @@ export function encodeColumnCache(table: SampleTable, key: CsvKey): Buffer {
   };
   const headerJson = Buffer.from(JSON.stringify(header), 'utf8');
   const dataStart = align8(MAGIC.length + 4 + headerJson.length);
-  const out = Buffer.alloc(dataStart + offset);
-  MAGIC.copy(out, 0);
-  out.writeUInt32LE(headerJson.length, MAGIC.length);
-  headerJson.copy(out, MAGIC.length + 4);
-  for (const { name, offset: at } of numeric) {
-    const values = table.numeric[name] as Float64Array;
-    Buffer.from(values.buffer, values.byteOffset, values.byteLength).copy(out, dataStart + at);
-  }
-  for (const { name, offset: at } of text) {
-    const codes = (table.text[name] as CodedTextColumn).codes;
-    Buffer.from(codes.buffer, codes.byteOffset, codes.byteLength).copy(out, dataStart + at);
-  }
-  return out;
+  const head = Buffer.alloc(dataStart);
+  MAGIC.copy(head, 0);
+  head.writeUInt32LE(headerJson.length, MAGIC.length);
+  headerJson.copy(head, MAGIC.length + 4);
+  const parts: Buffer[] = [head];
+  const add = (view: ArrayBufferView): void => {
+    parts.push(Buffer.from(view.buffer, view.byteOffset, view.byteLength));
+    const pad = align8(view.byteLength) - view.byteLength;
+    if (pad > 0) parts.push(Buffer.alloc(pad));
+  };
+  for (const { name } of numeric) add(table.numeric[name] as Float64Array);
+  for (const { name } of text) add((table.text[name] as CodedTextColumn).codes);
+  return parts;
 }
 
 function isHeader(value: unknown): value is CacheHeader {
@@ -135,7 +146,7 @@ export function decodeColumnCache(bytes: Buffer, key: CsvKey): SampleTable | nul
     return null;
   }
   if (!isHeader(header)) return null;
-  if (header.csvSize !== key.csvSize || header.csvMtimeMs !== key.csvMtimeMs) return null;
+  if (!sameCsvKey(header, key)) return null;
   const dataStart = align8(MAGIC.length + 4 + headerLength);
   if (dataStart + header.dataBytes !== bytes.length) return null;
   const n = header.rowCount;
@@ -183,13 +194,15 @@ export async function readColumnCache(csvPath: string): Promise<SampleTable | nu
  */
 export async function writeColumnCache(csvPath: string, table: SampleTable, key: CsvKey): Promise<boolean> {
   const now = await csvKey(csvPath);
-  if (now === null || now.csvSize !== key.csvSize || now.csvMtimeMs !== key.csvMtimeMs) return false;
+  if (now === null || !sameCsvKey(now, key)) return false;
   const target = join(dirname(csvPath), COLUMN_CACHE_FILE);
   const temp = `${target}.${process.pid}.tmp`;
   try {
     const handle = await open(temp, 'w');
     try {
-      await handle.writeFile(encodeColumnCache(table, key));
+      // Part by part from the table's own memory: no second copy of the columns.
+      // (writeFile on a handle writes from its current position and continues a short write.)
+      for (const part of columnCacheParts(table, key)) await handle.writeFile(part);
     } finally {
       await handle.close();
     }

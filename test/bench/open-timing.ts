@@ -2,6 +2,7 @@
  * Times opening a stored run from the run archive, inside the page: from
  * the click on "Open" to the first drift plot drawn and painted (the pixel
  * preview for a big run), to the plot drawn again from the full columns,
+ * (a log held in main: from main's first window of every reading, app/views/drift/held-log.ts)
  * and to the analysis shown (the tempco plot). The page's own performance
  * marks split the time (app/state/runs-store.ts, app/bridge/ws-inbound.ts,
  * app/plots/PlotPanel.tsx).
@@ -33,7 +34,7 @@ const SCRIPT = `new Promise((resolve, reject) => {
   let fullColumnsAt = null;
   const painted = (then) => requestAnimationFrame(() => requestAnimationFrame(() => then(performance.now() - start)));
   const finish = () => {
-    if (firstDrawMs === null || fullDrawMs === null || analysedMs === null) return;
+    if (firstDrawMs === null || firstDrawMs < 0 || fullDrawMs === null || fullDrawMs < 0 || analysedMs === null) return;
     observer.disconnect();
     resolve({ firstDrawMs, fullDrawMs, analysedMs, previewFirst, marks });
   };
@@ -41,7 +42,15 @@ const SCRIPT = `new Promise((resolve, reject) => {
     for (const entry of list.getEntries()) {
       if (entry.startTime < start) continue;
       if (!(entry.name in marks)) marks[entry.name] = entry.startTime - start;
-      if (entry.name === 'tunebench:open-run:columns') fullColumnsAt = entry.startTime;
+      // The full data: every reading's columns in the page, or (a log held in main) main's first window of them.
+      if (entry.name === 'tunebench:open-run:columns' && fullColumnsAt === null) fullColumnsAt = entry.startTime;
+      if (entry.name === 'tunebench:open-run:window' && fullColumnsAt === null) {
+        fullColumnsAt = entry.startTime;
+        if (fullDrawMs === null && firstDrawMs !== null) {
+          fullDrawMs = -1;
+          painted((ms) => { fullDrawMs = ms; finish(); });
+        }
+      }
       if (entry.name !== drawn) continue;
       if (firstDrawMs === null) {
         firstDrawMs = -1;

@@ -2,11 +2,14 @@
  * A big drift run opens from its pixel preview (issue 12 item 2): opened
  * from the run archive, the drift plot is drawn first from the preview main
  * sends before the full columns, with its note on screen and no analysis,
- * then again from every reading, with the tempco and Allan deviation plots.
- * A 200,000-reading run keeps the test quick; the speed figures are in
- * `npm run bench -- browser` and `big-runs`.
+ * then from the slices main cuts of every reading (the page never receives
+ * the readings: app/contract/run-window.ts), with main's analysis (tempco and
+ * Allan deviation plots); a zoom is refined from main down to the readings
+ * themselves, and the CSV export holds every reading, from main.
+ * A 200,000-reading run keeps the test quick; the speed and memory figures
+ * are in `npm run bench -- browser` and `big-runs`.
  */
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
@@ -89,5 +92,57 @@ describe.skipIf(!hasChromium)('a big drift run opens from its pixel preview (Chr
     expect(seen.slice(first).some((s) => !s.preview && s.plot && s.tempco)).toBe(true);
     // The run's readings as the full view counts them.
     expect(await page.textContent(byId('run-facts'))).toContain('200000 readings');
+    // Its readings stayed in main: the page never asked for the full columns.
+    const marks = await page.evaluate<string[]>("performance.getEntriesByType('mark').map((m) => m.name)");
+    expect(marks).toContain('tunebench:open-run:window');
+    expect(marks).not.toContain('tunebench:open-run:fetched');
+  }, 120_000);
+
+  it('refines a zoom from main down to the readings themselves, and exports every reading as CSV', async () => {
+    if (!page) throw new Error('no page');
+    const p = page;
+    const over = p.locator(`${byId('drift-plot')} .u-over`);
+    await over.scrollIntoViewIfNeeded();
+    await p.screenshot({ path: join(SCREENS_DIR, 'big-run-open.png'), fullPage: true });
+    const box = await over.boundingBox();
+    if (!box) throw new Error('no plot area');
+    // 200,000 readings at 1/16 s span 12,500 s; zoom twice by dragging along x: to about 1/50, then again.
+    const drag = async (from: number, to: number): Promise<void> => {
+      await p.mouse.move(box.x + box.width * from, box.y + box.height * 0.5);
+      await p.mouse.down();
+      await p.mouse.move(box.x + box.width * to, box.y + box.height * 0.5, { steps: 6 });
+      await p.mouse.up();
+    };
+    // What main sent for the newest view (app/views/drift/held-log.ts marks each window with it).
+    const LAST_WINDOW =
+      "(performance.getEntriesByName('tunebench:open-run:window').at(-1) || { detail: { points: -1, dense: true } }).detail";
+    const lastWindow = (): Promise<{ points: number; dense: boolean }> => p.evaluate(LAST_WINDOW);
+    expect(await lastWindow()).toMatchObject({ dense: true });
+    expect((await lastWindow()).points).toBeLessThanOrEqual(1280 / 4);
+    await drag(0.5, 0.52);
+    await p.waitForSelector(byId('drift-plot-reset'));
+    await drag(0.3, 0.32);
+    // Zoomed to fewer readings than a quarter of the plot's pixels: main sends the readings themselves, drawn with markers.
+    // (Polled from here: the page's CSP refuses waitForFunction's string evaluation.)
+    let shown = await lastWindow();
+    for (let tries = 0; tries < 300 && shown.dense; tries += 1) {
+      await p.waitForTimeout(100);
+      shown = await lastWindow();
+    }
+    expect(shown.dense).toBe(false);
+    // About 5 s of the log at 16 readings a second, each reading drawn (and one beyond each edge).
+    expect(shown.points).toBeGreaterThan(20);
+    expect(shown.points).toBeLessThan(200);
+    await p.waitForTimeout(500); // the frame that draws it
+    await p.locator(byId('drift-plot')).screenshot({ path: join(SCREENS_DIR, 'big-run-zoomed.png') });
+    const [download] = await Promise.all([p.waitForEvent('download'), p.click(byId('drift-plot-csv'))]);
+    const path = join(scratch, 'drift.csv');
+    await download.saveAs(path);
+    const lines = (await readFile(path, 'utf8')).split('\r\n');
+    expect(lines[0]).toBe('time_s,frequency_hz,temperature_c');
+    // Every reading (header + 200,000 rows + the final line break), not the slices on screen.
+    expect(lines.length).toBe(200_002);
+    // The first reading of ./drift-run-writer.ts' oscillator: 400 MHz less its 2 kHz warm-up, at 23 °C.
+    expect(lines[1]).toMatch(/^0,3999980\d\d(\.\d+)?,23$/);
   }, 120_000);
 });

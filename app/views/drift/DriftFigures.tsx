@@ -34,6 +34,7 @@ import type { PixelPreview } from '../../contract/run-preview.ts';
 import { previewPlotData } from './preview-plot.ts';
 import { maskedColumn } from './masked-column.ts';
 import { driftReadouts } from './drift-readouts.ts';
+import { heldCsv, useHeldAnalysis, useHeldWindows, type HeldLog } from './held-log.ts';
 
 export interface DriftSource {
   key: string;
@@ -50,6 +51,8 @@ export interface DriftSource {
   storedFrom?: string;
   /** Set while only the run's pixel preview has arrived: drawn from it, nothing analysed yet. */
   preview?: { data: PixelPreview; rowCount: number };
+  /** Set for a big stored log whose readings stay in main: drawn per view and analysed from there. */
+  held?: HeldLog;
 }
 
 function DriftKeyFigures({
@@ -87,11 +90,15 @@ function DriftKeyFigures({
 export function DriftFigures({ source }: { source: DriftSource }) {
   const gaps = useRef<{ key: string; freq: GapDisplay; temp: GapDisplay } | null>(null);
   const masked = useRef<{ key: string; rows: number; ys: [Float64Array, Float64Array] } | null>(null);
-  // A million-reading log takes seconds to analyse: off the page's thread, after the first draw.
-  const { outcome, running } = useBackgroundAnalysis<DriftAnalysis>(source.done ? source.key : null, () =>
+  const { held } = source;
+  // A million-reading log takes seconds to analyse: off the page's thread, after the first draw; a log held in main is analysed there.
+  const local = useBackgroundAnalysis<DriftAnalysis>(source.done && !held ? source.key : null, () =>
     driftJob(source.columns(), source.rows(), source.gateS),
   );
+  const remote = useHeldAnalysis(held ? source.key : null, held);
+  const { outcome, running } = held ? { outcome: remote?.outcome ?? null, running: remote === null } : local;
   const analysis = outcome?.ok ? outcome.analysis : null;
+  const windows = useHeldWindows(held ?? null, source.key);
   // Set by the last data() call: whether the time plot shows slices (band + mean) or the readings themselves.
   const dense = useRef(false);
   const gapColumns = () => {
@@ -121,6 +128,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
     return masked.current.ys;
   };
   const timeData = (view: PlotView | null, widthPx: number): uPlot.AlignedData => {
+    if (held) {
+      const shown = windows.data(view, widthPx);
+      dense.current = shown.dense;
+      return shown.data;
+    }
     if (source.preview) {
       dense.current = true;
       return previewPlotData(source.preview.data, 'frequency_hz', 'temperature_c', view);
@@ -148,8 +160,12 @@ export function DriftFigures({ source }: { source: DriftSource }) {
   };
   const tempco = useMemo(
     () =>
-      analysis && analysis.tempcoHzPerC !== null ? tempcoColumns(source.columns(), source.rows(), analysis) : null,
-    [analysis],
+      held
+        ? (remote?.tempco ?? null)
+        : analysis && analysis.tempcoHzPerC !== null
+          ? tempcoColumns(source.columns(), source.rows(), analysis)
+          : null,
+    [analysis, remote],
   );
   const buildKey = `${source.key}|${source.theme}`;
   const adev = analysis && analysis.adev.length > 0 ? adevColumns(analysis) : null;
@@ -169,10 +185,11 @@ export function DriftFigures({ source }: { source: DriftSource }) {
           buildKey={buildKey}
           height={320}
           data={timeData}
-          {...(source.preview ? {} : { csv: timeCsv })}
+          {...(held ? { csv: () => heldCsv(held) } : source.preview ? {} : { csv: timeCsv })}
           cursorReadouts={{ x: readouts.time, y: readouts.frequency }}
           exportName={`drift-${source.key}`}
-          watch={source.watch}
+          watch={held ? windows.watch : source.watch}
+          dataFollowsView={held !== undefined}
           options={(colors, width, height) =>
             baseOptions(
               width,
@@ -289,7 +306,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
       <DriftKeyFigures
         outcome={outcome}
         running={running}
-        holdV={source.rows() > 0 ? source.columns().control_v.at(0) : null}
+        holdV={held ? (remote?.holdV ?? null) : source.rows() > 0 ? source.columns().control_v.at(0) : null}
         previewing={source.preview !== undefined}
       />
     </div>

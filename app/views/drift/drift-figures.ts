@@ -5,8 +5,10 @@
  */
 import { analyzeDrift, type DriftAnalysis } from '../../analysis/drift-analysis.ts';
 import { outcomeOf, type AnalysisOutcome } from '../../state/analysis-outcome.ts';
-import { driftInputFromColumns } from '../../state/column-inputs.ts';
-import { STATUS_CODE, type ColumnSet } from '../../state/columns.ts';
+import { driftInputFromColumns, okFrequency } from '../../state/column-inputs.ts';
+import type { ColumnSet } from '../../state/columns.ts';
+import { tempcoChunks } from '../../analysis/drift-run-view.ts';
+import type { TempcoChunks } from '../../contract/run-window.ts';
 
 export type DriftOutcome = AnalysisOutcome<DriftAnalysis>;
 
@@ -15,37 +17,9 @@ export function analyzeDriftColumns(columns: ColumnSet, n: number): DriftOutcome
   return outcomeOf(() => analyzeDrift(driftInputFromColumns(columns, n)));
 }
 
-export interface TempcoColumns {
-  temperatureC: number[];
-  frequencyHz: (number | null)[];
-  lineHz: (number | null)[];
-}
+export type TempcoColumns = TempcoChunks;
 
-/** At most `maxPoints` chunk means, ordered by temperature, with the tempco line on the same x. */
+/** At most `maxPoints` chunk means, ordered by temperature, with the tempco line on the same x (the rule main uses too). */
 export function tempcoColumns(columns: ColumnSet, n: number, analysis: DriftAnalysis, maxPoints = 4000): TempcoColumns {
-  const chunk = Math.max(1, Math.ceil(n / maxPoints));
-  const pairs: [number, number][] = [];
-  for (let start = 0; start < n; start += chunk) {
-    let sumT = 0;
-    let sumF = 0;
-    let count = 0;
-    for (let i = start; i < Math.min(n, start + chunk); i += 1) {
-      const t = columns.temperature_c.at(i);
-      const f = columns.frequency_hz.at(i);
-      if (columns.status.at(i) !== STATUS_CODE.ok || !Number.isFinite(t) || !Number.isFinite(f)) continue;
-      sumT += t;
-      sumF += f;
-      count += 1;
-    }
-    if (count > 0) pairs.push([sumT / count, sumF / count]);
-  }
-  pairs.sort((a, b) => a[0] - b[0]);
-  const slope = analysis.tempcoHzPerC;
-  const meanT = analysis.meanTemperatureC;
-  return {
-    temperatureC: pairs.map((p) => p[0]),
-    frequencyHz: pairs.map((p) => p[1]),
-    // The least-squares line passes through the means (common practice).
-    lineHz: pairs.map((p) => (slope !== null && meanT !== null ? analysis.meanHz + slope * (p[0] - meanT) : null)),
-  };
+  return tempcoChunks(columns.temperature_c.view(), okFrequency(columns, n), n, analysis, maxPoints);
 }

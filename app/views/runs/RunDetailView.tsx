@@ -6,6 +6,7 @@ import { useApp } from '../app-context.ts';
 import { Field, Panel } from '../controls/Field.tsx';
 import { useEffectiveTheme } from '../use-theme.ts';
 import { DriftFigures } from '../drift/DriftFigures.tsx';
+import { heldLogOf } from '../drift/held-log.ts';
 import { SweepFigures } from '../sweep/SweepFigures.tsx';
 import { PushingFigures } from './PushingFigures.tsx';
 import { when } from '../units.ts';
@@ -94,7 +95,7 @@ function RunPreviewView({ id, shown, preview }: { id: string; shown: RunPreview;
 }
 
 export function RunDetailView({ id }: { id: string }) {
-  const { stores } = useApp();
+  const { stores, bridge } = useApp();
   const theme = useEffectiveTheme();
   const opened = useStore(stores.runs, (s) => s.opened[id]);
   const preview = useStore(stores.runs, (s) => s.previews[id]);
@@ -107,14 +108,17 @@ export function RunDetailView({ id }: { id: string }) {
   if (!opened) return <p className="muted">Opening run…</p>;
   const meta = opened.detail.meta;
   const gateS = planHints(meta.plan).gateS;
+  const held = heldLogOf(bridge.api, opened);
+  const readings = held ? held.rowCount : opened.rows;
   const source = {
-    key: `${meta.id}|${opened.rows}`,
+    key: `${meta.id}|${held ? 'held' : opened.rows}`,
     columns: () => opened.columns,
     rows: () => opened.rows,
     done: true,
     theme,
     startMs: Date.parse(meta.startedAt),
     ...(gateS !== undefined ? { gateS } : {}),
+    ...(held ? { held } : {}),
   };
   // Notes may be recorded both in run.json and as events: show each text once.
   const noteTexts = [
@@ -158,7 +162,7 @@ export function RunDetailView({ id }: { id: string }) {
       ) : null}
       <details className="run-facts" open data-testid="run-facts">
         <summary>
-          {opened.rows} readings · status {meta.status} · {runWindow(meta)}
+          {readings} readings · status {meta.status} · {runWindow(meta)}
         </summary>
         <div className="facts-grid">
           <FactsTable caption="Plan settings" rows={planRows(meta.plan)} empty="no plan recorded" testId="run-plan" />
