@@ -21,7 +21,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { misbehave } from '../testing/scpi-proxy.ts';
-import { SHORT_SWEEP, hostileBench, type HostileBench } from './hostile-bench.ts';
+import { SHORT_SWEEP, hostileBench, interruptTwiceWhen, type HostileBench } from './hostile-bench.ts';
 
 const LAUNCHER = fileURLToPath(new URL('../../main/bin/tunebench.mjs', import.meta.url));
 
@@ -87,20 +87,14 @@ describe("a campaign's own safe state", () => {
       );
       bench = b;
       const { child, stderr, exited } = await startCampaign(b);
-      const sent: number[] = [];
-      const watch = setInterval(() => {
-        if (!wedged || sent.length > 0) return;
-        clearInterval(watch);
-        sent.push(b.supplyProxy.log.length);
-        child.kill('SIGINT');
-        setTimeout(() => {
-          sent.push(b.supplyProxy.log.length);
-          child.kill('SIGINT');
-        }, 150);
-      }, 5);
+      const { sent, stop } = interruptTwiceWhen(
+        child,
+        () => wedged,
+        () => b.supplyProxy.log.length,
+      );
       const [code] = await exited;
       const err = stderr();
-      clearInterval(watch);
+      stop();
       expect(sent).toHaveLength(2);
       expect(code, err).toBe(1);
       // The campaign's warning, or the last-resort guard's when the second Ctrl-C handed it the exit.

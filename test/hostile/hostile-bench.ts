@@ -109,3 +109,26 @@ export async function runEvents(runDir: string): Promise<{ type: string; [key: s
     .filter((line) => line.trim() !== '')
     .map((line) => JSON.parse(line) as { type: string });
 }
+
+/**
+ * Sends a child two SIGINTs, 150 ms apart, once `ready()` holds (polled every 5 ms): a user pressing Ctrl-C twice
+ * while the safe state is under way. `sent` gets the supply proxy's log length at each signal; `stop` ends the watch.
+ */
+export function interruptTwiceWhen(
+  child: { kill(signal: NodeJS.Signals): boolean },
+  ready: () => boolean,
+  logLength: () => number,
+): { sent: number[]; stop: () => void } {
+  const sent: number[] = [];
+  const watch = setInterval(() => {
+    if (!ready() || sent.length > 0) return;
+    clearInterval(watch);
+    sent.push(logLength());
+    child.kill('SIGINT');
+    setTimeout(() => {
+      sent.push(logLength());
+      child.kill('SIGINT');
+    }, 150);
+  }, 5);
+  return { sent, stop: () => clearInterval(watch) };
+}

@@ -12,7 +12,7 @@ import { spawn } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { misbehave, type ProxyContext } from '../testing/scpi-proxy.ts';
-import { SHORT_SWEEP, hostileBench, runEvents, type HostileBench } from './hostile-bench.ts';
+import { SHORT_SWEEP, hostileBench, interruptTwiceWhen, runEvents, type HostileBench } from './hostile-bench.ts';
 
 const LAUNCHER = fileURLToPath(new URL('../../main/bin/tunebench.mjs', import.meta.url));
 
@@ -54,22 +54,16 @@ describe('Ctrl-C during the safe state', () => {
       child.stderr.on('data', (chunk: Buffer) => (err += chunk.toString()));
       const exited = new Promise<number | null>((resolve) => child.on('close', (code) => resolve(code)));
       // Both signals once the safe state's first command has reached the supply on the wedged connection.
-      const sent: number[] = [];
-      const watch = setInterval(() => {
-        const started = b.supplyProxy.log.some(
-          (l) => l.direction === 'command' && l.connection === 1 && l.line === 'INST:NSEL 1;:SOUR:VOLT 0',
-        );
-        if (!started || sent.length > 0) return;
-        clearInterval(watch);
-        sent.push(b.supplyProxy.log.length);
-        child.kill('SIGINT');
-        setTimeout(() => {
-          sent.push(b.supplyProxy.log.length);
-          child.kill('SIGINT');
-        }, 150);
-      }, 5);
+      const { sent, stop } = interruptTwiceWhen(
+        child,
+        () =>
+          b.supplyProxy.log.some(
+            (l) => l.direction === 'command' && l.connection === 1 && l.line === 'INST:NSEL 1;:SOUR:VOLT 0',
+          ),
+        () => b.supplyProxy.log.length,
+      );
       const code = await exited;
-      clearInterval(watch);
+      stop();
       expect(sent).toHaveLength(2);
       // The run could not confirm its safe state, and says so — the exit code too.
       expect(err).toMatch(/channel 1 control-voltage 0 V not confirmed/);
