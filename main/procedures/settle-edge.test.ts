@@ -10,7 +10,8 @@ import { describe, expect, it } from 'vitest';
 import { FirstOrderLag } from '../sim/first-order-lag.ts';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import type { CounterReading } from './read-counter.ts';
-import { TimeConstantEstimate, settleAuto } from './settle.ts';
+import { settleAuto } from './settle.ts';
+import { tauLearnedFromExactLag } from './testing/learned-tau.ts';
 import { finalNoSignalAfterS } from './sweep.ts';
 
 const TAU_S = 0.05;
@@ -35,14 +36,7 @@ async function fallTo(toV: number, finalAfterS: number | undefined) {
     if (startV <= EDGE_V) return { status: 'no-signal', frequencyHz: Number.NaN, detail: 'nan', errorName: null };
     return { status: 'ok', frequencyHz: 10_000 * (startV - EDGE_V) + 1500, detail: null, errorName: null };
   };
-  const tau = new TimeConstantEstimate();
-  const times = Float64Array.from([0.005, 0.015, 0.03, 0.05, 0.08, 0.12, 0.2, 0.21, 0.22]);
-  tau.fitStep(
-    times,
-    times.map((t) => 20_000 - 3000 * Math.exp(-t / TAU_S)),
-    times.length,
-    1000,
-  );
+  const tau = tauLearnedFromExactLag(TAU_S);
   const outcome = await clock.runUntil(
     settleAuto(
       clock,

@@ -12,7 +12,8 @@ import {
   TARGET_FRACTION,
   takenMeanErrorHz,
 } from './settle-predict.ts';
-import { TimeConstantEstimate, settleAuto } from './settle.ts';
+import { settleAuto } from './settle.ts';
+import { tauLearnedFromExactLag } from './testing/learned-tau.ts';
 import { runSweep } from './sweep.ts';
 import { MemorySink, TOY_DUT, fakeBench } from './testing/fake-bench.ts';
 
@@ -187,15 +188,8 @@ describe('settling by prediction, tolerance on the mean of the recorded readings
   async function settleThenRecord(recordedReadings: number, phase: number) {
     const clock = new VirtualClock();
     const { read, means, endHz } = portAndCounter(clock, phase);
-    const tau = new TimeConstantEstimate();
     // τ as a sweep learns it: fitted from a step's readings (here the exact lag, 50 ms).
-    const times = Float64Array.from([0.005, 0.015, 0.03, 0.05, 0.08, 0.12, 0.2, 0.21, 0.22]);
-    tau.fitStep(
-      times,
-      times.map((t) => 20_000 - 3000 * Math.exp(-t / tauS)),
-      times.length,
-      1000,
-    );
+    const tau = tauLearnedFromExactLag(tauS);
     const outcome = await clock.runUntil(
       settleAuto(
         clock,

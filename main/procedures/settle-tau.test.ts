@@ -8,6 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { VirtualClock } from '../time/virtual-clock.ts';
 import type { CounterReading } from './read-counter.ts';
 import { TimeConstantEstimate, settleAuto } from './settle.ts';
+import { tauLearnedFromExactLag } from './testing/learned-tau.ts';
 
 const GATE_S = 0.01;
 
@@ -79,9 +80,7 @@ describe('TimeConstantEstimate.fitStep at a gate of 2τ (issue 12 item 3: the tr
 describe('settleAuto rule 1 (τ and the value before the step known)', () => {
   async function settleOnStep(stepHz: number, expectedStepHz: number) {
     const clock = new VirtualClock();
-    const tau = new TimeConstantEstimate();
-    const times = Float64Array.from([0.005, 0.015, 0.03, 0.05, 0.08, 0.12, 0.2, 0.21, 0.22]);
-    tau.fitStep(times, times.map(step(20_000, 3000, 0.05)), times.length, 1000);
+    const tau = tauLearnedFromExactLag(0.05);
     const beforeHz = 10_000;
     const f = step(beforeHz + stepHz, stepHz, 0.05);
     const stepAtS = clock.now();
