@@ -46,6 +46,38 @@ function fillingDisk(): { fs: StoreFs; full: { on: boolean } } {
   return { fs, full };
 }
 
+type SimBench = Awaited<ReturnType<typeof assembleBench>>;
+interface RecordHooks {
+  onRunStarted: (meta: unknown, runDir: string) => void;
+  onSample: () => void;
+}
+
+/**
+ * Records on the simulated bench (virtual clock) and deletes the run's folder once `atRow` readings are in; gives
+ * the recording's error, the folder, how many readings came after the deletion and the supply's real state.
+ */
+async function withFolderDeletedAt(
+  atRow: number,
+  record: (bench: SimBench, clock: VirtualClock, hooks: RecordHooks) => Promise<unknown>,
+) {
+  const clock = new VirtualClock({ autoAdvance: true });
+  const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
+  let dir = '';
+  let rows = 0;
+  const deletions: Promise<void>[] = [];
+  const error = await record(bench, clock, {
+    onRunStarted: (_meta, runDir) => (dir = runDir),
+    onSample: () => {
+      rows++;
+      if (rows === atRow) deletions.push(rm(dir, { recursive: true, force: true }));
+    },
+  }).catch((e: unknown) => e);
+  await Promise.all(deletions);
+  const control = bench.sim?.supply.state(1);
+  await bench.close();
+  return { error, dir, rowsAfterDelete: rows - atRow, control };
+}
+
 describe('disk faults while recording', () => {
   it('a full disk names samples.csv and ENOSPC, and run.json ends failed with the reason', async () => {
     await withTempDir(async (runsDir) => {
@@ -153,34 +185,13 @@ describe('disk faults while recording', () => {
   it('a run folder deleted mid-sweep is noticed at the next flush; the sweep stops there and leaves the supply safe', async () => {
     await withTempDir(async (runsDir) => {
       const plan = SHORT_SWEEP_PLAN;
-      const clock = new VirtualClock({ autoAdvance: true });
-      const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
-      let dir = '';
-      let rows = 0;
-      let rowsAtDelete = -1;
-      const deletions: Promise<void>[] = [];
-      const error = await recordSweep({
-        bench,
-        plan,
-        clock,
-        runsDir,
-        dutId: 'vanishing-folder',
-        onRunStarted: (_meta, runDir) => (dir = runDir),
-        onSample: () => {
-          rows++;
-          if (rows === 6) {
-            rowsAtDelete = rows;
-            deletions.push(rm(dir, { recursive: true, force: true }));
-          }
-        },
-      }).catch((e: unknown) => e);
-      await Promise.all(deletions);
-      const control = bench.sim?.supply.state(1);
-      await bench.close();
+      const { error, dir, rowsAfterDelete, control } = await withFolderDeletedAt(6, (bench, clock, hooks) =>
+        recordSweep({ bench, plan, clock, runsDir, dutId: 'vanishing-folder', ...hooks }),
+      );
       expect(error).toBeInstanceOf(RunFolderGoneError);
       expect((error as Error).message).toContain(dir);
       // Stopped at the next flush (the end of the point): at most one point's readings after the deletion.
-      expect(rows - rowsAtDelete).toBeLessThanOrEqual(plan.readingsPerPoint);
+      expect(rowsAfterDelete).toBeLessThanOrEqual(plan.readingsPerPoint);
       expect(control?.outputOn).toBe(false);
       expect(control?.setpointV).toBeCloseTo(0.5, 9);
     });
@@ -199,34 +210,12 @@ describe('disk faults while recording', () => {
         limits: { maxControlV: 5, currentLimitA: 0.02 },
         safe: { controlV: 0.5, outputOff: true },
       });
-      const clock = new VirtualClock({ autoAdvance: true });
-      const bench = await assembleBench('sim', { clock, sim: { dut: 'relaxation' } });
-      let dir = '';
-      let rows = 0;
-      let rowsAtDelete = -1;
-      const deletions: Promise<void>[] = [];
-      const error = await recordDrift({
-        bench,
-        plan,
-        clock,
-        control: new RunControl(),
-        runsDir,
-        dutId: 'vanishing-folder',
-        onRunStarted: (_meta, runDir) => (dir = runDir),
-        onSample: () => {
-          rows++;
-          if (rows === 20) {
-            rowsAtDelete = rows;
-            deletions.push(rm(dir, { recursive: true, force: true }));
-          }
-        },
-      }).catch((e: unknown) => e);
-      await Promise.all(deletions);
-      const control = bench.sim?.supply.state(1);
-      await bench.close();
+      const { error, rowsAfterDelete, control } = await withFolderDeletedAt(20, (bench, clock, hooks) =>
+        recordDrift({ bench, plan, clock, control: new RunControl(), runsDir, dutId: 'vanishing-folder', ...hooks }),
+      );
       expect(error).toBeInstanceOf(RunFolderGoneError);
       // The writer flushes at least once a second on the procedure's clock: ten 0.1 s readings, plus one in flight.
-      expect(rows - rowsAtDelete).toBeLessThanOrEqual(12);
+      expect(rowsAfterDelete).toBeLessThanOrEqual(12);
       expect(control?.outputOn).toBe(false);
       expect(control?.setpointV).toBeCloseTo(0.5, 9);
     });
