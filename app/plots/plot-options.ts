@@ -26,6 +26,51 @@ export function readoutTicks(readout: Readout): Pick<uPlot.Axis, 'incrs'> {
   return steps ? { incrs: steps } : {};
 }
 
+/**
+ * A value scale for the series a readout describes: the data's range padded by a tenth, widened to whole multiples of the
+ * finest tick step the data resolve (readoutTicks) and to at least two of them. Without it, a zoom onto readings
+ * that vary by less than one such step (a 32 Hz counter resolution, readings within 20 Hz) left the axis with no
+ * tick and no label at all.
+ */
+export function readoutScale(readout: Readout): Pick<uPlot.Scale, 'range'> {
+  const step = resolutionSteps(readout.resolution)?.[0];
+  if (step === undefined) return {};
+  return { range: (_u, min, max) => resolvedRange(min, max, step) };
+}
+
+/** [min, max] padded by a tenth of its span, then snapped outward to whole `step`s, at least two apart. */
+export function resolvedRange(min: number | null, max: number | null, step: number): uPlot.Range.MinMax {
+  if (min === null || max === null || !Number.isFinite(min) || !Number.isFinite(max)) return [min, max];
+  const [paddedMin, paddedMax] = paddedRange(min, max);
+  let lo = Math.floor(paddedMin / step) * step;
+  let hi = Math.ceil(paddedMax / step) * step;
+  if (hi - lo < 2 * step) {
+    const mid = Math.round((lo + hi) / 2 / step) * step;
+    lo = mid - step;
+    hi = mid + step;
+  }
+  return [lo, hi];
+}
+
+/** A value range padded by 10 % of its span on each side (flat readings: the two steps around them do). */
+function paddedRange(min: number, max: number): [number, number] {
+  const span = max - min;
+  return [min - 0.1 * span, max + 0.1 * span];
+}
+
+/**
+ * An axis width that fits its tick labels (about 7 px a character at the plots' 12 px font, plus the tick and the
+ * axis title's strip), never under `minPx`: a zoom that needs more digits ("399.99165 MHz") widens the axis
+ * instead of writing its labels over the title.
+ */
+export function labelFitSize(minPx: number): uPlot.Axis.Size {
+  return (_u, values) => {
+    let longest = 0;
+    for (const text of values ?? []) longest = Math.max(longest, text.length);
+    return Math.max(minPx, Math.ceil(38 + 7 * longest));
+  };
+}
+
 /** Fewest decimals that write a tick step exactly (0.25 → 2, 0.5 → 1, 5 → 0). */
 export function decimalsFor(step: number): number {
   for (let d = 0; d < 9; d += 1) {

@@ -135,6 +135,16 @@ describe.skipIf(!hasChromium)('a big drift run opens from its pixel preview (Chr
     expect(shown.points).toBeLessThan(200);
     await p.waitForTimeout(500); // the frame that draws it
     await p.locator(byId('drift-plot')).screenshot({ path: join(SCREENS_DIR, 'big-run-zoomed.png') });
+    // Zoomed onto readings that vary by less than one tick step the counter resolves, the frequency axis still
+    // labels at least two ticks (it once drew none: the scale was narrower than its finest allowed step).
+    const [svgDownload] = await Promise.all([p.waitForEvent('download'), p.click(byId('drift-plot-svg'))]);
+    const svgPath = join(scratch, 'drift-zoomed.svg');
+    await svgDownload.saveAs(svgPath);
+    const frequencyLabels = [...(await readFile(svgPath, 'utf8')).matchAll(/>([\d.]+) MHz</g)].map((m) => m[1]);
+    expect(
+      new Set(frequencyLabels).size,
+      `frequency tick labels: ${frequencyLabels.join(', ')}`,
+    ).toBeGreaterThanOrEqual(2);
     const [download] = await Promise.all([p.waitForEvent('download'), p.click(byId('drift-plot-csv'))]);
     const path = join(scratch, 'drift.csv');
     await download.saveAs(path);

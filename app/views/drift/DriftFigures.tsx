@@ -20,6 +20,8 @@ import {
   lineSeries,
   logSiAxis,
   pointSeries,
+  labelFitSize,
+  readoutScale,
   readoutTicks,
   siAxis,
   timeAxis,
@@ -205,7 +207,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
               ],
               [
                 timeAxis(colors, 'Time', source.startMs ?? null),
-                siAxis(colors, 'Frequency', 'Hz', { size: 96, ...readoutTicks(readouts.frequency) }),
+                siAxis(colors, 'Frequency', 'Hz', { size: labelFitSize(96), ...readoutTicks(readouts.frequency) }),
                 {
                   ...siAxis(colors, 'Temperature', '°C', readoutTicks(readouts.temperature)),
                   scale: '°C',
@@ -216,7 +218,14 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                   values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`),
                 },
               ],
-              { bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.2) }] },
+              {
+                bands: [{ series: [3, 2], fill: withAlpha(colors.series[0], 0.2) }],
+                scales: {
+                  x: { time: false },
+                  y: readoutScale(readouts.frequency),
+                  '°C': readoutScale(readouts.temperature),
+                },
+              },
             )
           }
           footer={
@@ -257,7 +266,7 @@ export function DriftFigures({ source }: { source: DriftSource }) {
                     space: 72,
                     values: (_u, vals, _a, _s, incr) => vals.map((v) => `${v.toFixed(decimalsFor(incr))} °C`),
                   },
-                  siAxis(colors, 'Frequency', 'Hz', { size: 96, ...readoutTicks(readouts.frequency) }),
+                  siAxis(colors, 'Frequency', 'Hz', { size: labelFitSize(96), ...readoutTicks(readouts.frequency) }),
                 ],
               )
             }
